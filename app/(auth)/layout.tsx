@@ -1,0 +1,15 @@
+import type { ReactNode } from "react";
+import { Brand } from "@/components/brand";
+
+export default function AuthLayout({ children }: { children: ReactNode }) {
+  return (
+    <div className="flex min-h-dvh flex-col">
+      <header className="border-b border-line px-4 py-3">
+        <Brand />
+      </header>
+      <main id="main" tabIndex={-1} className="mx-auto w-full max-w-3xl flex-1 px-4 py-6 sm:py-10">
+        {children}
+      </main>
+    </div>
+  );
+}

@@ -1,0 +1,25 @@
+"use client";
+import { useActionState } from "react";
+import { Button, Field, Input } from "@/components/ui";
+import { signInWithPassword } from "../actions";
+import { FormError, fieldError } from "./form-error";
+
+export function StaffSignInForm({ next }: { next?: string }) {
+  const [state, action, pending] = useActionState(signInWithPassword, null);
+  const values = state && !state.ok ? state.values : undefined;
+  return (
+    <form action={action} className="space-y-4" noValidate>
+      {next ? <input type="hidden" name="next" value={next} /> : null}
+      <FormError state={state} />
+      <Field id="staff-email" label="E-mail" error={fieldError(state, "email")}>
+        <Input name="email" type="email" autoComplete="username" inputMode="email" defaultValue={values?.email} required />
+      </Field>
+      <Field id="staff-password" label="Password" error={fieldError(state, "password")}>
+        <Input name="password" type="password" autoComplete="current-password" required />
+      </Field>
+      <Button type="submit" loading={pending} fullWidth>
+        Sign in
+      </Button>
+    </form>
+  );
+}

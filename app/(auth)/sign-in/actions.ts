@@ -1,0 +1,62 @@
+"use server";
+import { headers } from "next/headers";
+import { redirect } from "next/navigation";
+import { AuthError } from "next-auth";
+import { formAction } from "@/lib/action";
+import { AppError } from "@/lib/errors";
+import { linkRequestSchema, linkTokenSchema, passwordSignInSchema } from "@/lib/schemas/auth";
+import { clientIp, signIn } from "@/lib/server/auth";
+import { SIGN_IN_FAILURES, SignInFailure, type SignInFailureCode, requestSignInLink } from "@/lib/server/sign-in";
+import { z } from "zod";
+
+const nextField = z.object({ next: linkRequestSchema.shape.next });
+
+/** next-auth wraps our refusal; turn it back into our own clear message. */
+function refusal(error: unknown): never {
+  if (error instanceof AuthError) {
+    const code = (error as AuthError & { code?: string }).code;
+    const message = code && code in SIGN_IN_FAILURES ? SIGN_IN_FAILURES[code as SignInFailureCode] : "Sign-in failed. Try again.";
+    throw new AppError(code === "too-many-attempts" ? "rate_limited" : "unauthenticated", message);
+  }
+  throw error;
+}
+
+export const signInWithPassword = formAction({
+  public: true,
+  input: passwordSignInSchema.extend(nextField.shape),
+  run: async ({ input }) => {
+    try {
+      await signIn("password", { email: input.email, password: input.password, redirectTo: input.next ?? "/" });
+    } catch (error) {
+      refusal(error);
+    }
+  },
+});
+
+export const requestOwnerLink = formAction({
+  public: true,
+  input: linkRequestSchema,
+  run: async ({ input }) => {
+    try {
+      await requestSignInLink({ email: input.email, ip: clientIp(await headers()), next: input.next });
+    } catch (error) {
+      if (error instanceof SignInFailure) {
+        throw new AppError(error.code === "too-many-links" ? "rate_limited" : "not_found", error.message, { email: [error.message] });
+      }
+      throw error;
+    }
+    redirect(`/sign-in/check-email?to=${encodeURIComponent(input.email)}`);
+  },
+});
+
+export const signInWithLink = formAction({
+  public: true,
+  input: linkTokenSchema.extend(nextField.shape),
+  run: async ({ input }) => {
+    try {
+      await signIn("email-link", { token: input.token, redirectTo: input.next ?? "/my" });
+    } catch (error) {
+      refusal(error);
+    }
+  },
+});

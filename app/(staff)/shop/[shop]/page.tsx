@@ -1,0 +1,39 @@
+import type { Metadata } from "next";
+import { listJobs } from "@/db/queries/jobs";
+import { listShopTechnicians } from "@/db/queries/shops";
+import { Alert, PageHeader } from "@/components/ui";
+import { toBoardRow } from "@/lib/jobs-view";
+import { jobListQuerySchema } from "@/lib/schemas/jobs";
+import { searchParamsObject } from "@/lib/route";
+import { shopPageAccess } from "./shop-access";
+import { JobBoard } from "./_components/job-board";
+
+export const metadata: Metadata = { title: "Jobs" };
+
+type Props = { params: Promise<{ shop: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> };
+
+export default async function JobBoardPage({ params, searchParams }: Props) {
+  const { shop: slug } = await params;
+  const { shop } = await shopPageAccess(slug, "shop:view-board", `/shop/${slug}`);
+  const raw = new URLSearchParams();
+  for (const [k, v] of Object.entries(await searchParams)) for (const one of [v ?? []].flat()) raw.append(k, one);
+  const parsed = jobListQuerySchema.safeParse(searchParamsObject(raw));
+  const query = parsed.success ? parsed.data : jobListQuerySchema.parse({});
+  const [page, technicians] = await Promise.all([listJobs({ shopId: shop.id, query }), listShopTechnicians({ shopId: shop.id })]);
+  // "Today" in the shop's own time zone decides what is overdue.
+  const today = new Intl.DateTimeFormat("en-CA", { timeZone: shop.timezone }).format(new Date());
+
+  return (
+    <div className="space-y-4">
+      <PageHeader title="Jobs" description={`${shop.name} · every machine in the shop and where it stands`} />
+      {parsed.success ? null : <Alert tone="warning">Some filters in the address were not understood and were reset.</Alert>}
+      <JobBoard
+        shopSlug={shop.slug}
+        today={today}
+        technicians={technicians}
+        initialQuery={query}
+        initialData={{ ...page, rows: page.rows.map(toBoardRow) }}
+      />
+    </div>
+  );
+}

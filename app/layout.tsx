@@ -1,0 +1,49 @@
+import type { Metadata, Viewport } from "next";
+import localFont from "next/font/local";
+import type { ReactNode } from "react";
+import "./globals.css";
+
+// Self-hosted variable font: no request to a font CDN, one file covers every weight.
+const archivo = localFont({
+  src: [
+    { path: "../public/fonts/archivo-wght.woff2", weight: "100 900", style: "normal" },
+    { path: "../public/fonts/archivo-wght-italic.woff2", weight: "100 900", style: "italic" },
+  ],
+  variable: "--font-archivo",
+  display: "swap",
+});
+
+export const metadata: Metadata = {
+  title: { template: "%s · Benchside", default: "Benchside" },
+  description:
+    "Job journals for independent powersports and small-engine shops: bench notes, approvals and hand-back in one place.",
+  applicationName: "Benchside",
+};
+
+export const viewport: Viewport = {
+  width: "device-width",
+  initialScale: 1,
+  // Browser chrome matches the page background in each mode (see --paper in globals.css).
+  themeColor: [
+    { media: "(prefers-color-scheme: light)", color: "#F5F2EC" },
+    { media: "(prefers-color-scheme: dark)", color: "#151412" },
+  ],
+  colorScheme: "light dark",
+};
+
+export default function RootLayout({ children }: { children: ReactNode }) {
+  return (
+    <html lang="en" className={archivo.variable}>
+      <body className="min-h-dvh">
+        {/* Each area renders its own <main id="main">; this lets keyboard users jump past its header. */}
+        <a
+          href="#main"
+          className="sr-only focus:not-sr-only focus:fixed focus:left-3 focus:top-3 focus:z-50 focus:inline-flex focus:min-h-tap focus:items-center focus:rounded-md focus:bg-oil focus:px-4 focus:font-semibold focus:text-oil-on"
+        >
+          Skip to content
+        </a>
+        {children}
+      </body>
+    </html>
+  );
+}

@@ -1,0 +1,30 @@
+import { redirect } from "next/navigation";
+import { Wrench } from "lucide-react";
+import { Brand } from "@/components/brand";
+import { ButtonLink } from "@/components/ui";
+import { getActor } from "@/lib/server/actor";
+
+export default async function Home() {
+  const actor = await getActor();
+  if (actor) redirect(actor.memberships.length ? "/shop" : "/my");
+  return (
+    <div className="flex min-h-dvh flex-col">
+      <header className="px-4 py-3">
+        <Brand />
+      </header>
+      <main id="main" tabIndex={-1} className="mx-auto flex w-full max-w-2xl flex-1 flex-col justify-center gap-6 px-4 py-10">
+        <Wrench aria-hidden className="size-10 text-brass" />
+        <h1 className="text-3xl font-bold leading-tight sm:text-4xl">Every job at the bench, told to the machine&apos;s owner as it happens.</h1>
+        <p className="text-lg text-ink-muted">
+          Benchside keeps a journal of each repair — clips, photos and notes from the bench — asks owners before added work, and
+          hands the machine back with a clear invoice.
+        </p>
+        <div className="flex flex-wrap gap-3">
+          <ButtonLink href="/sign-in" size="lg">
+            Sign in
+          </ButtonLink>
+        </div>
+      </main>
+    </div>
+  );
+}

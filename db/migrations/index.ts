@@ -1,0 +1,20 @@
+import type { Knex } from "knex";
+import * as shopsUsers from "./20261201_01_shops_users";
+import * as customersMachinesJobs from "./20261201_02_customers_machines_jobs";
+import * as signIn from "./20261201_03_sign_in";
+
+type Migration = { name: string; module: Knex.Migration };
+
+// Listed by hand, in order, so migrations run the same under tsx, Vitest and Next
+// without Knex scanning the folder. A new migration file must be added here.
+const MIGRATIONS: Migration[] = [
+  { name: "20261201_01_shops_users", module: shopsUsers },
+  { name: "20261201_02_customers_machines_jobs", module: customersMachinesJobs },
+  { name: "20261201_03_sign_in", module: signIn },
+];
+
+export const migrationSource: Knex.MigrationSource<Migration> = {
+  getMigrations: async () => MIGRATIONS,
+  getMigrationName: (m) => m.name,
+  getMigration: async (m) => m.module,
+};

@@ -1,0 +1,174 @@
+import "server-only";
+import crypto from "node:crypto";
+import type { Knex } from "knex";
+import { db } from "@/lib/server/db";
+import type { JobStatus } from "@/lib/job-status";
+import type { MachineKind } from "@/lib/machine";
+import type { JobListQuery } from "@/lib/schemas/jobs";
+
+export type JobRow = {
+  id: number;
+  shopId: number;
+  number: number;
+  publicId: string;
+  status: JobStatus;
+  concern: string;
+  promisedOn: string | null;
+  createdAt: Date;
+  updatedAt: Date;
+  customerId: number;
+  customerName: string;
+  customerUserId: number | null;
+  machine: { kind: MachineKind; year: number | null; make: string; model: string; serial: string | null };
+  technician: { id: number; name: string } | null;
+};
+
+type RawJob = Record<string, unknown>;
+
+const JOB_COLUMNS = [
+  "j.id",
+  "j.shop_id",
+  "j.number",
+  "j.public_id",
+  "j.status",
+  "j.concern",
+  "j.promised_on",
+  "j.created_at",
+  "j.updated_at",
+  "j.customer_id",
+  "c.name as customer_name",
+  "c.user_id as customer_user_id",
+  "m.kind as machine_kind",
+  "m.year as machine_year",
+  "m.make as machine_make",
+  "m.model as machine_model",
+  "m.serial as machine_serial",
+  "j.technician_user_id",
+  "t.name as technician_name",
+];
+
+function toJob(r: RawJob): JobRow {
+  return {
+    id: Number(r.id),
+    shopId: Number(r.shop_id),
+    number: Number(r.number),
+    publicId: String(r.public_id),
+    status: r.status as JobStatus,
+    concern: String(r.concern),
+    promisedOn: (r.promised_on as string | null) ?? null,
+    createdAt: r.created_at as Date,
+    updatedAt: r.updated_at as Date,
+    customerId: Number(r.customer_id),
+    customerName: String(r.customer_name),
+    customerUserId: r.customer_user_id == null ? null : Number(r.customer_user_id),
+    machine: {
+      kind: r.machine_kind as MachineKind,
+      year: r.machine_year == null ? null : Number(r.machine_year),
+      make: String(r.machine_make),
+      model: String(r.machine_model),
+      serial: (r.machine_serial as string | null) ?? null,
+    },
+    technician: r.technician_user_id == null ? null : { id: Number(r.technician_user_id), name: String(r.technician_name) },
+  };
+}
+
+function jobsWithDetails(k: Knex) {
+  return k("jobs as j")
+    .join("customers as c", "c.id", "j.customer_id")
+    .join("machines as m", "m.id", "j.machine_id")
+    .leftJoin("users as t", "t.id", "j.technician_user_id");
+}
+
+const SORT_COLUMNS: Record<JobListQuery["sort"], string> = {
+  number: "j.number",
+  status: "j.status",
+  promised: "j.promised_on",
+  customer: "c.name",
+  updated: "j.updated_at",
+};
+
+/** One page of a shop's jobs. Every query here is scoped by shop_id first. */
+export async function listJobs({ shopId, query }: { shopId: number; query: JobListQuery }) {
+  const base = jobsWithDetails(db()).where("j.shop_id", shopId);
+  if (query.status.length) base.whereIn("j.status", query.status);
+  if (query.technician) base.where("j.technician_user_id", query.technician);
+  if (query.q) {
+    const q = query.q;
+    const number = /^(?:j-?)?0*(\d{1,9})$/i.exec(q)?.[1];
+    const like = `%${q.replace(/[\\%_]/g, (ch) => `\\${ch}`)}%`;
+    base.where((w) => {
+      if (number) w.orWhere("j.number", Number(number));
+      w.orWhere("c.name", "like", like)
+        .orWhere("m.make", "like", like)
+        .orWhere("m.model", "like", like)
+        .orWhere("m.serial", "like", like);
+    });
+  }
+  const countRow = await base.clone().clearSelect().count({ n: "j.id" }).first();
+  const total = Number(countRow?.n ?? 0);
+  const direction = query.dir;
+  const rows = await base
+    .clone()
+    .select(JOB_COLUMNS)
+    .orderByRaw(`${SORT_COLUMNS[query.sort]} IS NULL`) // undated jobs last, whichever way
+    .orderBy(SORT_COLUMNS[query.sort], direction)
+    .orderBy("j.number", "desc")
+    .limit(query.pageSize)
+    .offset((query.page - 1) * query.pageSize);
+  return { rows: rows.map(toJob), total, page: query.page, pageSize: query.pageSize, pageCount: Math.max(1, Math.ceil(total / query.pageSize)) };
+}
+
+export async function getJobByNumber({ shopId, number }: { shopId: number; number: number }): Promise<JobRow | null> {
+  const row = await jobsWithDetails(db()).where({ "j.shop_id": shopId, "j.number": number }).first(JOB_COLUMNS);
+  return row ? toJob(row) : null;
+}
+
+export async function getJobByPublicId({ publicId }: { publicId: string }): Promise<(JobRow & { shopName: string; shopSlug: string }) | null> {
+  const row = await jobsWithDetails(db())
+    .join("shops as s", "s.id", "j.shop_id")
+    .where("j.public_id", publicId)
+    .first([...JOB_COLUMNS, "s.name as shop_name", "s.slug as shop_slug"]);
+  return row ? { ...toJob(row), shopName: String(row.shop_name), shopSlug: String(row.shop_slug) } : null;
+}
+
+/** Every job, in any shop, whose customer record is linked to this signed-in person. */
+export async function listJobsForCustomerUser({ userId }: { userId: number }) {
+  const rows = await jobsWithDetails(db())
+    .join("shops as s", "s.id", "j.shop_id")
+    .where("c.user_id", userId)
+    .orderByRaw("j.status = 'picked_up'")
+    .orderBy("j.updated_at", "desc")
+    .limit(200)
+    .select([...JOB_COLUMNS, "s.name as shop_name"]);
+  return rows.map((r: RawJob) => ({ ...toJob(r), shopName: String(r.shop_name) }));
+}
+
+export async function listStatusChanges({ shopId, jobId }: { shopId: number; jobId: number }) {
+  const rows = await db()("job_status_changes as h")
+    .leftJoin("users as u", "u.id", "h.changed_by_user_id")
+    .where({ "h.shop_id": shopId, "h.job_id": jobId })
+    .orderBy("h.changed_at", "asc")
+    .orderBy("h.id", "asc")
+    .select("h.id", "h.from_status", "h.to_status", "h.note", "h.changed_at", "u.name as by_name");
+  return rows.map((r: RawJob) => ({
+    id: Number(r.id),
+    from: (r.from_status as JobStatus | null) ?? null,
+    to: r.to_status as JobStatus,
+    note: (r.note as string | null) ?? null,
+    at: r.changed_at as Date,
+    by: (r.by_name as string | null) ?? null,
+  }));
+}
+
+/** Hands out the shop's next job number inside the caller's transaction (row lock on the shop). */
+export async function allocateJobNumber(trx: Knex.Transaction, shopId: number): Promise<number> {
+  const shop = await trx("shops").where({ id: shopId }).forUpdate().first("next_job_number");
+  if (!shop) throw new Error(`shop ${shopId} not found`);
+  const number = Number(shop.next_job_number);
+  await trx("shops").where({ id: shopId }).update({ next_job_number: number + 1 });
+  return number;
+}
+
+export function newPublicId(): string {
+  return crypto.randomBytes(12).toString("base64url");
+}

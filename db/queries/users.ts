@@ -1,0 +1,64 @@
+import "server-only";
+import { db } from "@/lib/server/db";
+import type { Actor, StaffRole } from "@/lib/permissions";
+
+export async function getUserByEmail({ email }: { email: string }) {
+  const row = await db()("users").where({ email }).first("id", "email", "name", "password_hash");
+  return row ? { id: Number(row.id), email: String(row.email), name: String(row.name), passwordHash: (row.password_hash as string | null) ?? null } : null;
+}
+
+export async function countMemberships({ userId }: { userId: number }): Promise<number> {
+  const row = await db()("memberships").where({ user_id: userId }).count({ n: "*" }).first();
+  return Number(row?.n ?? 0);
+}
+
+/** The signed-in person with their shop roles, as every authorisation check sees them. */
+export async function getActorById({ userId }: { userId: number }): Promise<Actor | null> {
+  const user = await db()("users").where({ id: userId }).first("id", "email", "name");
+  if (!user) return null;
+  const memberships = await db()("memberships as m")
+    .join("shops as s", "s.id", "m.shop_id")
+    .where("m.user_id", userId)
+    .orderBy("s.name")
+    .select("m.shop_id", "m.role", "s.slug", "s.name");
+  return {
+    userId: Number(user.id),
+    email: String(user.email),
+    name: String(user.name),
+    memberships: memberships.map((m: Record<string, unknown>) => ({
+      shopId: Number(m.shop_id),
+      shopSlug: String(m.slug),
+      shopName: String(m.name),
+      role: m.role as StaffRole,
+    })),
+  };
+}
+
+export async function touchLastSignIn({ userId }: { userId: number }) {
+  await db()("users").where({ id: userId }).update({ last_sign_in_at: db().fn.now() });
+}
+
+/** Is this address known to any shop as a customer, or as a user? Used before sending a link. */
+export async function isKnownAddress({ email }: { email: string }): Promise<boolean> {
+  const customer = await db()("customers").where({ email }).first("id");
+  if (customer) return true;
+  return !!(await db()("users").where({ email }).first("id"));
+}
+
+/**
+ * After a link sign-in: the user for this address (created on first sign-in, named as the
+ * shop wrote it down), and every customer record with that address linked to them.
+ */
+export async function claimCustomerRecords({ email }: { email: string }) {
+  return db().transaction(async (trx) => {
+    let user = await trx("users").where({ email }).forUpdate().first("id", "name");
+    if (!user) {
+      const customer = await trx("customers").where({ email }).orderBy("created_at", "desc").first("name");
+      const [id] = await trx("users").insert({ email, name: customer?.name ?? email.split("@")[0] });
+      user = { id, name: customer?.name ?? email };
+    }
+    await trx("customers").where({ email }).whereNull("user_id").update({ user_id: user.id });
+    await trx("users").where({ id: user.id }).update({ last_sign_in_at: trx.fn.now() });
+    return { id: Number(user.id), email, name: String(user.name) };
+  });
+}

@@ -1,0 +1,271 @@
+// The demo scenario: two invented shops, their people, customers, machines and jobs.
+// Every name, make and model here is made up. Passwords are listed in README.md.
+import crypto from "node:crypto";
+import bcrypt from "bcryptjs";
+import type { Knex } from "knex";
+import type { JobStatus } from "../../lib/job-status";
+import type { MachineKind } from "../../lib/machine";
+import type { StaffRole } from "../../lib/permissions";
+
+export const DEMO_PASSWORDS = {
+  owner: "gulch-owner-demo",
+  service_writer: "gulch-writer-demo",
+  technician: "gulch-tech-demo",
+  otherShop: "saltmarsh-demo",
+} as const;
+
+type Person = { email: string; name: string; password?: string };
+type Staff = Person & { role: StaffRole };
+type MachineSeed = { kind: MachineKind; year: number; make: string; model: string; engineCc: number; serial: string; hours?: number; odometer?: number };
+type JobSeed = { customer: string; machine: number; path: JobStatus[]; concern: string; promisedInDays: number | null; technician: string | null; startedDaysAgo: number };
+type ShopSeed = {
+  slug: string;
+  name: string;
+  email: string;
+  phone: string;
+  timezone: string;
+  staff: Staff[];
+  customers: (Person & { phone: string; machines: MachineSeed[] })[];
+  jobs: JobSeed[];
+};
+
+const SHOPS: ShopSeed[] = [
+  {
+    slug: "copper-gulch",
+    name: "Copper Gulch Powersports",
+    email: "desk@coppergulch.test",
+    phone: "+1 555 010 4471",
+    timezone: "America/Denver",
+    staff: [
+      { role: "owner", email: "dana@coppergulch.test", name: "Dana Okafor", password: DEMO_PASSWORDS.owner },
+      { role: "service_writer", email: "priya@coppergulch.test", name: "Priya Lindqvist", password: DEMO_PASSWORDS.service_writer },
+      { role: "technician", email: "mateo@coppergulch.test", name: "Mateo Brandt", password: DEMO_PASSWORDS.technician },
+    ],
+    customers: [
+      {
+        email: "ruth.calloway@mail.test",
+        name: "Ruth Calloway",
+        phone: "+1 555 013 2290",
+        machines: [{ kind: "atv", year: 2019, make: "Tessaro", model: "Ridgeline 570", engineCc: 570, serial: "TSR57-19-004418", hours: 312.4 }],
+      },
+      {
+        email: "jonah.pike@mail.test",
+        name: "Jonah Pike",
+        phone: "+1 555 017 8812",
+        machines: [{ kind: "dirt_bike", year: 2021, make: "Corvane", model: "Tarn 450", engineCc: 449, serial: "CVT450-21-11873", hours: 88 }],
+      },
+      {
+        email: "imani.reyes@mail.test",
+        name: "Imani Reyes",
+        phone: "+1 555 019 3054",
+        machines: [
+          { kind: "side_by_side", year: 2017, make: "Gravik", model: "Hauler 800", engineCc: 799, serial: "GVH8-17-20931", odometer: 6120 },
+          { kind: "small_engine", year: 2015, make: "Pellard", model: "P190 vertical shaft", engineCc: 190, serial: "PL190-15-77302" },
+        ],
+      },
+    ],
+    jobs: [
+      {
+        customer: "ruth.calloway@mail.test",
+        machine: 0,
+        path: ["checked_in", "inspecting", "in_progress", "ready", "picked_up"],
+        concern: "Yearly service before hunting season: oil, filters, check the brakes.",
+        promisedInDays: -40,
+        technician: "mateo@coppergulch.test",
+        startedDaysAgo: 45,
+      },
+      {
+        customer: "jonah.pike@mail.test",
+        machine: 0,
+        path: ["checked_in", "inspecting", "waiting_approval", "waiting_parts"],
+        concern: "Hard to start when hot and feels down on power. Rattle from the top end at idle.",
+        promisedInDays: -1,
+        technician: "mateo@coppergulch.test",
+        startedDaysAgo: 9,
+      },
+      {
+        customer: "imani.reyes@mail.test",
+        machine: 0,
+        path: ["checked_in", "inspecting", "in_progress"],
+        concern: "Runs hot on long climbs and the fan seems to come on late.",
+        promisedInDays: 3,
+        technician: "mateo@coppergulch.test",
+        startedDaysAgo: 4,
+      },
+      {
+        customer: "imani.reyes@mail.test",
+        machine: 1,
+        path: ["checked_in", "inspecting", "in_progress", "ready"],
+        concern: "Won't start after sitting all winter. Pull cord is fine.",
+        promisedInDays: 0,
+        technician: "mateo@coppergulch.test",
+        startedDaysAgo: 6,
+      },
+      {
+        customer: "ruth.calloway@mail.test",
+        machine: 0,
+        path: ["checked_in", "inspecting", "waiting_approval"],
+        concern: "Grinding from the front left when turning under power.",
+        promisedInDays: 5,
+        technician: "mateo@coppergulch.test",
+        startedDaysAgo: 2,
+      },
+      {
+        customer: "jonah.pike@mail.test",
+        machine: 0,
+        path: ["checked_in"],
+        concern: "Clutch slips in third under load after the last race.",
+        promisedInDays: 7,
+        technician: null,
+        startedDaysAgo: 0,
+      },
+    ],
+  },
+  {
+    slug: "saltmarsh",
+    name: "Saltmarsh Small Engine",
+    email: "hello@saltmarsh.test",
+    phone: "+1 555 014 9920",
+    timezone: "America/New_York",
+    staff: [
+      { role: "owner", email: "wren@saltmarsh.test", name: "Wren Halvorsen", password: DEMO_PASSWORDS.otherShop },
+      { role: "technician", email: "sam@saltmarsh.test", name: "Sam Tully", password: DEMO_PASSWORDS.otherShop },
+    ],
+    customers: [
+      {
+        email: "otto.fenn@mail.test",
+        name: "Otto Fenn",
+        phone: "+1 555 016 4410",
+        machines: [{ kind: "snowmobile", year: 2016, make: "Brumal", model: "Drift 600", engineCc: 594, serial: "BRD6-16-33018", odometer: 4210 }],
+      },
+      {
+        // Works at Copper Gulch, brings her own mower engine here: one person, two roles.
+        email: "priya@coppergulch.test",
+        name: "Priya Lindqvist",
+        phone: "+1 555 012 7781",
+        machines: [{ kind: "small_engine", year: 2020, make: "Pellard", model: "P160 horizontal shaft", engineCc: 160, serial: "PL160-20-10442" }],
+      },
+    ],
+    jobs: [
+      {
+        customer: "otto.fenn@mail.test",
+        machine: 0,
+        path: ["checked_in", "inspecting"],
+        concern: "Bogs down above half throttle; new plugs didn't help.",
+        promisedInDays: 4,
+        technician: "sam@saltmarsh.test",
+        startedDaysAgo: 1,
+      },
+      {
+        customer: "priya@coppergulch.test",
+        machine: 0,
+        path: ["checked_in", "in_progress"],
+        concern: "Surges at idle, leaking fuel from the carburettor bowl.",
+        promisedInDays: 2,
+        technician: "sam@saltmarsh.test",
+        startedDaysAgo: 2,
+      },
+    ],
+  },
+];
+
+const HOUR = 3_600_000;
+/** A moment `days` from now at `hour` UTC, never later than a minute ago (history can't be in the future). */
+const daysFromNow = (days: number, hour = 9) => {
+  const d = new Date();
+  d.setUTCDate(d.getUTCDate() + days);
+  d.setUTCHours(hour, 0, 0, 0);
+  return days <= 0 ? new Date(Math.min(d.getTime(), Date.now() - HOUR / 60)) : d;
+};
+
+export async function seedDemo(knex: Knex): Promise<void> {
+  // Hashing outside the transaction keeps row locks short.
+  const allStaff = SHOPS.flatMap((s) => s.staff);
+  const hashes = new Map<string, string>();
+  for (const person of allStaff) if (person.password && !hashes.has(person.email)) hashes.set(person.email, await bcrypt.hash(person.password, 12));
+
+  await knex.transaction(async (trx) => {
+    const userIds = new Map<string, number>();
+    const userFor = async (person: Person, withPassword: boolean) => {
+      const known = userIds.get(person.email);
+      if (known) return known;
+      const [id] = await trx("users").insert({ email: person.email, name: person.name, password_hash: withPassword ? hashes.get(person.email) : null });
+      userIds.set(person.email, Number(id));
+      return Number(id);
+    };
+
+    for (const shop of SHOPS) {
+      const [shopId] = await trx("shops").insert({ slug: shop.slug, name: shop.name, email: shop.email, phone: shop.phone, timezone: shop.timezone });
+      for (const person of shop.staff) {
+        await trx("memberships").insert({ shop_id: shopId, user_id: await userFor(person, true), role: person.role });
+      }
+      const customerIds = new Map<string, { id: number; machines: number[] }>();
+      for (const c of shop.customers) {
+        // A customer who already has an account (here: a staff member elsewhere) is linked now.
+        const [customerId] = await trx("customers").insert({ shop_id: shopId, user_id: userIds.get(c.email) ?? null, name: c.name, email: c.email, phone: c.phone });
+        const machineIds: number[] = [];
+        for (const m of c.machines) {
+          const [machineId] = await trx("machines").insert({
+            shop_id: shopId,
+            customer_id: customerId,
+            kind: m.kind,
+            year: m.year,
+            make: m.make,
+            model: m.model,
+            engine_cc: m.engineCc,
+            serial: m.serial,
+            hours: m.hours ?? null,
+            odometer: m.odometer ?? null,
+            odometer_unit: m.odometer ? "mi" : null,
+          });
+          machineIds.push(Number(machineId));
+        }
+        customerIds.set(c.email, { id: Number(customerId), machines: machineIds });
+      }
+
+      let number = 1;
+      for (const job of shop.jobs) {
+        const customer = customerIds.get(job.customer)!;
+        const started = daysFromNow(-job.startedDaysAgo);
+        const status = job.path[job.path.length - 1]!;
+        const deskUser = userIds.get(shop.staff.find((s) => s.role !== "technician")!.email)!;
+        const [jobId] = await trx("jobs").insert({
+          shop_id: shopId,
+          number: number++,
+          public_id: crypto.randomBytes(12).toString("base64url"),
+          customer_id: customer.id,
+          machine_id: customer.machines[job.machine],
+          status,
+          concern: job.concern,
+          promised_on: job.promisedInDays == null ? null : daysFromNow(job.promisedInDays).toISOString().slice(0, 10),
+          technician_user_id: job.technician ? userIds.get(job.technician) : null,
+          created_by_user_id: deskUser,
+          created_at: started,
+          updated_at: daysFromNow(-job.startedDaysAgo + job.path.length - 1, 9 + job.path.length),
+        });
+        // The status history walks the path a step per day (the same day for today's check-in).
+        let previous: JobStatus | null = null;
+        for (const [i, to] of job.path.entries()) {
+          await trx("job_status_changes").insert({
+            shop_id: shopId,
+            job_id: jobId,
+            from_status: previous,
+            to_status: to,
+            changed_by_user_id: i === 0 ? deskUser : (job.technician ? userIds.get(job.technician) : deskUser),
+            changed_at: daysFromNow(-job.startedDaysAgo + i, 9 + i),
+          });
+          previous = to;
+        }
+      }
+      await trx("shops").where({ id: shopId }).update({ next_job_number: number });
+    }
+  });
+}
+
+/** Seeds only a database without shops, so restarting `npm start` never touches real data. */
+export async function seedIfEmpty(knex: Knex): Promise<boolean> {
+  const row = await knex("shops").count({ n: "*" }).first();
+  if (Number(row?.n ?? 0) > 0) return false;
+  await seedDemo(knex);
+  return true;
+}

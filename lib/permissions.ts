@@ -1,0 +1,61 @@
+// Who may do what: the one table every route handler, server action and page load
+// checks through `can()` / `authorize()` (lib/server/authorize.ts). Pure, no I/O.
+
+export const STAFF_ROLES = ["owner", "service_writer", "technician"] as const;
+export type StaffRole = (typeof STAFF_ROLES)[number];
+/** "customer" is the machine's owner on their own jobs; it is never stored as a membership. */
+export type Role = StaffRole | "customer";
+export const ROLES: readonly Role[] = [...STAFF_ROLES, "customer"];
+
+export const ROLE_LABEL: Record<Role, string> = {
+  owner: "Shop owner",
+  service_writer: "Service writer",
+  technician: "Technician",
+  customer: "Machine owner",
+};
+
+export const PERMISSIONS = {
+  "shop:view-board": ["owner", "service_writer", "technician"],
+  "shop:manage-settings": ["owner"],
+  "shop:manage-staff": ["owner"],
+  "job:view": ["owner", "service_writer", "technician", "customer"],
+  "job:view-history": ["owner", "service_writer", "technician"],
+  "job:check-in": ["owner", "service_writer", "technician"],
+  "job:change-status": ["owner", "service_writer", "technician"],
+  "job:assign": ["owner", "service_writer"],
+  "customer:view": ["owner", "service_writer", "technician"],
+  "customer:edit": ["owner", "service_writer"],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Action = keyof typeof PERMISSIONS;
+export const ACTIONS = Object.keys(PERMISSIONS) as Action[];
+
+export type Actor = {
+  userId: number;
+  email: string;
+  name: string;
+  memberships: { shopId: number; shopSlug: string; shopName: string; role: StaffRole }[];
+};
+
+/** What is being acted on: always the shop it lives in; for a job, the signed-in user linked to its customer. */
+export type Resource = { shopId: number; customerUserId?: number | null };
+
+export function roleAllows(role: Role, action: Action): boolean {
+  return (PERMISSIONS[action] as readonly Role[]).includes(role);
+}
+
+/** The roles this actor holds towards this resource (staff of its shop, and/or its customer). */
+export function rolesFor(actor: Actor, resource: Resource): Role[] {
+  const roles: Role[] = actor.memberships.filter((m) => m.shopId === resource.shopId).map((m) => m.role);
+  if (resource.customerUserId != null && resource.customerUserId === actor.userId) roles.push("customer");
+  return roles;
+}
+
+export function can(actor: Actor | null, action: Action, resource: Resource): boolean {
+  if (!actor) return false;
+  return rolesFor(actor, resource).some((role) => roleAllows(role, action));
+}
+
+export function isStaff(actor: Actor | null): boolean {
+  return !!actor && actor.memberships.length > 0;
+}

@@ -1,0 +1,45 @@
+import { z } from "zod";
+import { JOB_STATUSES } from "@/lib/job-status";
+
+export const JOB_SORTS = ["number", "status", "promised", "customer", "updated"] as const;
+export const PAGE_SIZES = [10, 25, 50, 100] as const;
+
+const statusList = z
+  .union([z.enum(JOB_STATUSES), z.array(z.enum(JOB_STATUSES)), z.string()])
+  .transform((v, ctx) => {
+    const list = Array.isArray(v) ? v : v.split(",").filter(Boolean);
+    const bad = list.filter((s) => !(JOB_STATUSES as readonly string[]).includes(s));
+    if (bad.length) {
+      ctx.addIssue({ code: "custom", message: `Unknown status: ${bad.join(", ")}` });
+      return z.NEVER;
+    }
+    return [...new Set(list)] as (typeof JOB_STATUSES)[number][];
+  });
+
+/** Query of the shop's job table (search params of the page and of GET /api/shops/[shop]/jobs). */
+export const jobListQuerySchema = z.object({
+  q: z.string().trim().max(100, "Search is limited to 100 characters").optional().default(""),
+  status: statusList.optional().default([]),
+  technician: z.coerce.number().int().positive().optional(),
+  sort: z.enum(JOB_SORTS).optional().default("updated"),
+  dir: z.enum(["asc", "desc"]).optional().default("desc"),
+  page: z.coerce.number().int().min(1).max(100_000).optional().default(1),
+  pageSize: z.coerce
+    .number()
+    .int()
+    .refine((n) => (PAGE_SIZES as readonly number[]).includes(n), "Page size must be 10, 25, 50 or 100")
+    .optional()
+    .default(25),
+});
+
+export type JobListQuery = z.output<typeof jobListQuerySchema>;
+
+/** Job numbers as people write them: "J-0042", "j42", "42". */
+export const jobNumberParamSchema = z
+  .string()
+  .regex(/^(?:[jJ]-?)?\d{1,9}$/, "Not a job number")
+  .transform((s) => Number(s.replace(/^[jJ]-?/, "")));
+
+export function formatJobNumber(n: number): string {
+  return `J-${String(n).padStart(4, "0")}`;
+}

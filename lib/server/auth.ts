@@ -1,0 +1,69 @@
+import "server-only";
+import NextAuth, { CredentialsSignin } from "next-auth";
+import Credentials from "next-auth/providers/credentials";
+import { linkTokenSchema, passwordSignInSchema } from "@/lib/schemas/auth";
+import { SignInFailure, type SignInFailureCode, checkPassword, consumeSignInLink } from "@/lib/server/sign-in";
+
+/** Carries our failure code out of next-auth, so the form can say exactly what went wrong. */
+class SignInRefused extends CredentialsSignin {
+  constructor(code: SignInFailureCode) {
+    super(code);
+    this.code = code;
+  }
+}
+
+export function clientIp(headers: Headers): string {
+  return headers.get("x-forwarded-for")?.split(",")[0]?.trim() || headers.get("x-real-ip") || "unknown";
+}
+
+async function refuseOn<T>(work: () => Promise<T>): Promise<T> {
+  try {
+    return await work();
+  } catch (error) {
+    if (error instanceof SignInFailure) throw new SignInRefused(error.code);
+    throw error;
+  }
+}
+
+export const { handlers, auth, signIn, signOut } = NextAuth({
+  // JWT sessions keep app instances stateless; memberships are re-read on every request.
+  session: { strategy: "jwt", maxAge: 30 * 24 * 60 * 60 },
+  trustHost: true,
+  pages: { signIn: "/sign-in", error: "/sign-in" },
+  providers: [
+    Credentials({
+      id: "password",
+      name: "Shop staff",
+      credentials: { email: {}, password: {} },
+      authorize: (raw, request) =>
+        refuseOn(async () => {
+          const parsed = passwordSignInSchema.safeParse(raw);
+          if (!parsed.success) throw new SignInFailure("invalid-input");
+          const user = await checkPassword({ ...parsed.data, ip: clientIp(request.headers) });
+          return { id: String(user.id), email: user.email, name: user.name };
+        }),
+    }),
+    Credentials({
+      id: "email-link",
+      name: "E-mail link",
+      credentials: { token: {} },
+      authorize: (raw, request) =>
+        refuseOn(async () => {
+          const parsed = linkTokenSchema.safeParse(raw);
+          if (!parsed.success) throw new SignInFailure("link-unknown");
+          const user = await consumeSignInLink({ token: parsed.data.token, ip: clientIp(request.headers) });
+          return { id: String(user.id), email: user.email, name: user.name };
+        }),
+    }),
+  ],
+  callbacks: {
+    jwt({ token, user }) {
+      if (user?.id) token.uid = user.id;
+      return token;
+    },
+    session({ session, token }) {
+      if (typeof token.uid === "string") session.user.id = token.uid;
+      return session;
+    },
+  },
+});

@@ -1,0 +1,27 @@
+"use client";
+import useSWR from "swr";
+import type { JobBoardPage } from "@/lib/jobs-view";
+import type { JobListQuery } from "@/lib/schemas/jobs";
+import { jsonFetcher } from "./fetcher";
+
+/** The query as URL search params, leaving defaults out so links stay short. */
+export function jobQueryToSearch(query: JobListQuery): string {
+  const p = new URLSearchParams();
+  if (query.q) p.set("q", query.q);
+  if (query.status.length) p.set("status", query.status.join(","));
+  if (query.technician) p.set("technician", String(query.technician));
+  if (query.sort !== "updated") p.set("sort", query.sort);
+  if (query.dir !== "desc") p.set("dir", query.dir);
+  if (query.page !== 1) p.set("page", String(query.page));
+  if (query.pageSize !== 25) p.set("pageSize", String(query.pageSize));
+  return p.toString();
+}
+
+export function useJobBoard(shopSlug: string, query: JobListQuery, initial?: { search: string; data: JobBoardPage }) {
+  const search = jobQueryToSearch(query);
+  return useSWR<JobBoardPage>(`/api/shops/${encodeURIComponent(shopSlug)}/jobs?${search}`, jsonFetcher, {
+    fallbackData: initial && initial.search === search ? initial.data : undefined,
+    keepPreviousData: true,
+    revalidateOnFocus: true,
+  });
+}

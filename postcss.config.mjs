@@ -1,0 +1,4 @@
+const config = {
+  plugins: { tailwindcss: {}, autoprefixer: {} },
+};
+export default config;

@@ -1,0 +1,57 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Knex } from "knex";
+import { freshDatabase } from "../support/db";
+
+const TABLES = ["shops", "users", "memberships", "customers", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts"];
+
+describe("migrations on an empty database", () => {
+  let fresh: Awaited<ReturnType<typeof freshDatabase>>;
+  let db: Knex;
+  const tables = async () =>
+    (await db("information_schema.tables").where({ table_schema: db.client.database() }).select("table_name as name", "engine", "table_collation as collation")) as {
+      name: string;
+      engine: string;
+      collation: string;
+    }[];
+
+  beforeAll(async () => {
+    fresh = await freshDatabase();
+    db = fresh.knex;
+  });
+  afterAll(async () => fresh?.drop());
+
+  it("go up: every table exists, InnoDB, utf8mb4", async () => {
+    await db.migrate.latest();
+    const found = await tables();
+    for (const name of TABLES) {
+      const t = found.find((x) => x.name === name);
+      expect(t, name).toBeDefined();
+      expect(t!.engine).toBe("InnoDB");
+      expect(t!.collation).toMatch(/^utf8mb4_/);
+    }
+  });
+
+  it("keep a job's customer and machine in the job's own shop (composite foreign keys)", async () => {
+    const [a] = await db("shops").insert({ slug: "mig-a", name: "A" });
+    const [b] = await db("shops").insert({ slug: "mig-b", name: "B" });
+    const [customerB] = await db("customers").insert({ shop_id: b, name: "Someone at B" });
+    const [machineB] = await db("machines").insert({ shop_id: b, customer_id: customerB, kind: "atv", make: "X", model: "Y" });
+    await expect(
+      db("jobs").insert({ shop_id: a, number: 1, public_id: "aaaaaaaaaaaaaaaa", customer_id: customerB, machine_id: machineB, concern: "x" }),
+    ).rejects.toThrow(/foreign key constraint/i);
+    await expect(db("jobs").insert({ shop_id: b, number: 1, public_id: "bbbbbbbbbbbbbbbb", customer_id: customerB, machine_id: machineB, concern: "x" })).resolves.toBeDefined();
+    // The same number in two shops is fine; twice in one shop is not.
+    await expect(db("jobs").insert({ shop_id: b, number: 1, public_id: "cccccccccccccccc", customer_id: customerB, machine_id: machineB, concern: "x" })).rejects.toThrow(
+      /duplicate entry/i,
+    );
+  });
+
+  it("go down completely, then up again", async () => {
+    await db.migrate.rollback(undefined, true);
+    const left = (await tables()).map((t) => t.name);
+    for (const name of TABLES) expect(left).not.toContain(name);
+    const [, names] = await db.migrate.latest();
+    expect(names).toHaveLength(3);
+    expect((await tables()).map((t) => t.name)).toEqual(expect.arrayContaining(TABLES));
+  });
+});

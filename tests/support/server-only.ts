@@ -1,0 +1,2 @@
+// Stands in for the `server-only` guard package under Vitest (see vitest.config.ts).
+export {};
