@@ -80,6 +80,7 @@ async function main() {
     adminSql(DIR, `DROP DATABASE IF EXISTS \`${E2E_DB}\`; CREATE DATABASE \`${E2E_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`);
     const env = {
       NODE_ENV: "production",
+      NEXT_TELEMETRY_DISABLED: "1",
       NEXT_DIST_DIR: ".next-test",
       APP_URL: `http://localhost:${APP_PORT}`,
       DATABASE_URL: `${dbBase}/${E2E_DB}`,

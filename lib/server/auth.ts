@@ -30,6 +30,13 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
   session: { strategy: "jwt", maxAge: 30 * 24 * 60 * 60 },
   trustHost: true,
   pages: { signIn: "/sign-in", error: "/sign-in" },
+  logger: {
+    // A refused sign-in is an everyday answer shown to the person, not a server error to log.
+    error: (error) => {
+      if (error instanceof CredentialsSignin) return;
+      console.error(error);
+    },
+  },
   providers: [
     Credentials({
       id: "password",

@@ -27,10 +27,10 @@ export default async function SignInPage({ searchParams }: Props) {
         </Alert>
       ) : null}
       <div className="grid gap-6 md:grid-cols-2">
-        <Card as="section" title="Shop staff" description="Technicians, service writers and shop owners.">
+        <Card as="section" title="Shop staff" headingId="staff-heading" description="Technicians, service writers and shop owners.">
           <StaffSignInForm next={next} />
         </Card>
-        <Card as="section" title="Machine owners" description="Follow your machine's job and answer the shop.">
+        <Card as="section" title="Machine owners" headingId="owners-heading" description="Follow your machine's job and answer the shop.">
           <OwnerLinkForm next={next} />
         </Card>
       </div>

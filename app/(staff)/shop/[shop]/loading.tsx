@@ -1,9 +1,10 @@
 import { Skeleton, SkeletonText } from "@/components/ui/skeleton";
 
-// Generic page-shaped placeholder; areas can add their own loading.tsx for a closer match.
+// Placeholder while a shop page loads. It sits inside the shop layout, after the layout has
+// checked access, so a refusal is still answered with a real 403 before anything streams.
 export default function Loading() {
   return (
-    <main id="main" tabIndex={-1} aria-busy="true" className="mx-auto w-full max-w-3xl px-4 py-6">
+    <div aria-busy="true">
       <div role="status">
         <span className="sr-only">Loading…</span>
         <Skeleton className="mb-2 h-8 w-48" />
@@ -17,6 +18,6 @@ export default function Loading() {
           ))}
         </div>
       </div>
-    </main>
+    </div>
   );
 }

@@ -1,0 +1,33 @@
+import { expect, test } from "@playwright/test";
+import { SignInPage } from "./pages/sign-in-page";
+
+test("a machine owner signs in through the e-mailed link and sees only their own jobs", async ({ page }) => {
+  const signIn = new SignInPage(page);
+  const link = await signIn.signInAsOwner("ruth.calloway@mail.test");
+  await expect(page).toHaveURL(/\/my$/);
+  await expect(page.getByRole("heading", { name: "My machines" })).toBeVisible();
+  const jobs = page.getByTestId("my-job");
+  await expect(jobs).toHaveCount(2);
+  for (const text of await jobs.allInnerTexts()) expect(text).toContain("Tessaro Ridgeline 570");
+  await expect(page.getByRole("list", { name: "My jobs" })).not.toContainText("Corvane");
+  await expect(page.getByRole("list", { name: "My jobs" })).not.toContainText("Gravik");
+
+  // Open one job.
+  await jobs.filter({ hasText: "Grinding" }).getByRole("link").click();
+  await expect(page.getByText("Grinding from the front left")).toBeVisible();
+
+  // The link works once: in a fresh browser it is refused with its own message.
+  await page.context().clearCookies();
+  await page.goto(link);
+  await page.getByRole("button", { name: "Sign in and see my jobs" }).click();
+  await expect(page.getByRole("main").getByRole("alert")).toContainText("already been used");
+});
+
+test("an address the shops don't know gets a clear answer, and no e-mail", async ({ page }) => {
+  const signIn = new SignInPage(page);
+  await signIn.open();
+  const owners = page.getByRole("region", { name: "Machine owners" });
+  await owners.getByLabel("E-mail you gave the shop").fill("someone.else@mail.test");
+  await owners.getByRole("button", { name: "E-mail me a sign-in link" }).click();
+  await expect(owners.getByText("We don't have a job under that e-mail address")).toBeVisible();
+});

@@ -1,0 +1,64 @@
+import { expect, test } from "@playwright/test";
+import { SignInPage } from "./pages/sign-in-page";
+
+// Demo sign-ins, as README.md lists them.
+const OWNER = { email: "dana@coppergulch.test", password: "gulch-owner-demo" };
+
+test("staff signs in with a password and sees the shop's job table", async ({ page }) => {
+  await new SignInPage(page).signInAsStaff(OWNER.email, OWNER.password);
+  await expect(page).toHaveURL(/\/shop\/copper-gulch$/);
+  await expect(page.getByRole("heading", { name: "Jobs" })).toBeVisible();
+  const table = page.getByRole("table", { name: "Jobs in this shop" });
+  await expect(table).toBeVisible();
+  await expect(page.getByTestId("job-row")).toHaveCount(6);
+  await expect(table).toContainText("Corvane Tarn 450");
+  // Another shop's jobs are not in this table.
+  await expect(table).not.toContainText("Brumal");
+
+  // Search by owner, then filter by status: the server answers, the table follows.
+  await page.getByLabel("Search").fill("Calloway");
+  await expect(page.getByTestId("job-row")).toHaveCount(2);
+  await expect(page).toHaveURL(/q=Calloway/);
+  await page.getByLabel("Search").fill("");
+  await expect(page.getByTestId("job-row")).toHaveCount(6);
+  await page.getByRole("button", { name: "Waiting on parts" }).click();
+  await expect(page.getByTestId("job-row")).toHaveCount(1);
+  await expect(page.getByTestId("job-row").first()).toContainText("Overdue");
+  await page.getByRole("button", { name: "Waiting on parts" }).click();
+
+  // Sort by job number, ascending then descending.
+  await page.getByRole("button", { name: /^Job/ }).click();
+  await expect(page.getByTestId("job-row").first()).toContainText("J-0001");
+  await page.getByRole("button", { name: /^Job/ }).click();
+  await expect(page.getByTestId("job-row").first()).toContainText("J-0006");
+
+  // A job page opens from the table.
+  await page.getByRole("link", { name: "J-0006" }).click();
+  await expect(page.getByRole("heading", { name: /J-0006/ })).toBeVisible();
+  await expect(page.getByText("Clutch slips in third")).toBeVisible();
+});
+
+test("a wrong password shows a clear error and signs nobody in", async ({ page }) => {
+  await new SignInPage(page).signInAsStaff("priya@coppergulch.test", "not-the-password");
+  await expect(page.getByRole("main").getByRole("alert")).toContainText("That password doesn't match this account");
+  await expect(page).toHaveURL(/\/sign-in/);
+  await page.goto("/shop");
+  await expect(page).toHaveURL(/\/sign-in\?next=%2Fshop/);
+});
+
+test("an unknown staff e-mail says so", async ({ page }) => {
+  await new SignInPage(page).signInAsStaff("nobody@coppergulch.test", "whatever-it-is");
+  await expect(page.getByRole("main").getByRole("alert")).toContainText("No shop account uses that e-mail address");
+});
+
+test("the job list API needs a session and a membership", async ({ request }) => {
+  const anonymous = await request.get("/api/shops/copper-gulch/jobs");
+  expect(anonymous.status()).toBe(401);
+  expect((await anonymous.json()).error.code).toBe("unauthenticated");
+});
+
+test("health check reports the database", async ({ request }) => {
+  const res = await request.get("/api/health");
+  expect(res.status()).toBe(200);
+  expect(await res.json()).toMatchObject({ db: "ok", mail: "ok" });
+});
