@@ -8,16 +8,18 @@ export type TableProps = ComponentProps<"table"> & {
   label: string;
   /** Visible caption; when absent the label is used as a hidden caption. */
   caption?: ReactNode;
+  /** Classes for the scrolling wrapper (e.g. to hide the table on phones). */
+  wrapperClassName?: string;
 };
 
-export function Table({ label, caption, className, children, ...rest }: TableProps) {
+export function Table({ label, caption, className, wrapperClassName, children, ...rest }: TableProps) {
   return (
     // Wide tables scroll sideways on phones; the region is focusable so keyboards can scroll it too.
     <div
       role="region"
       aria-label={label}
       tabIndex={0}
-      className="w-full overflow-x-auto rounded-xl border border-line bg-surface"
+      className={clsx("w-full overflow-x-auto rounded-xl border border-line bg-surface", wrapperClassName)}
     >
       <table className={clsx("w-full border-collapse text-left text-sm sm:text-base", className)} {...rest}>
         <caption className={caption ? "px-4 py-3 text-left font-semibold text-ink" : "sr-only"}>

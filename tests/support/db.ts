@@ -4,7 +4,7 @@ import { inject } from "vitest";
 import { knexConfig } from "../../lib/server/db-config";
 
 /** Points the app's db() at this run's test database. Call in beforeAll of an integration file. */
-export function useTestDatabase(): string {
+export function connectTestDatabase(): string {
   const url = inject("databaseUrl");
   if (!url) throw new Error("No test database: run integration tests with `npm test`, which starts a private MariaDB.");
   process.env.DATABASE_URL = url;
@@ -14,12 +14,12 @@ export function useTestDatabase(): string {
 
 /** A connection to the shared test database, for fixtures and checks. */
 export function testKnex(): Knex {
-  return knex(knexConfig(useTestDatabase()));
+  return knex(knexConfig(connectTestDatabase()));
 }
 
 /** A brand-new, empty database of its own (for migration tests); drop() removes it. */
 export async function freshDatabase(): Promise<{ url: string; knex: Knex; drop: () => Promise<void> }> {
-  const base = new URL(useTestDatabase());
+  const base = new URL(connectTestDatabase());
   const name = `benchside_test_${crypto.randomBytes(4).toString("hex")}`;
   base.pathname = "";
   const admin = knex({ client: "mysql2", connection: base.toString().replace(/\/$/, "") });

@@ -10,6 +10,7 @@ import { JOB_STATUSES, JOB_STATUS_LABEL, type JobStatus } from "@/lib/job-status
 import { type JobBoardPage, type JobBoardRow, isOverdue } from "@/lib/jobs-view";
 import { type JobListQuery, formatJobNumber } from "@/lib/schemas/jobs";
 import { jobQueryToSearch, useJobBoard } from "@/lib/swr/use-job-board";
+import { JobCard } from "./job-card";
 
 type Props = {
   shopSlug: string;
@@ -51,7 +52,7 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
         id: "number",
         header: "Job",
         cell: ({ row }) => (
-          <Link href={`/shop/${shopSlug}/jobs/${row.original.number}`} className="font-semibold text-oil underline-offset-2 hover:underline">
+          <Link href={`/shop/${shopSlug}/jobs/${row.original.number}`} className="whitespace-nowrap font-semibold text-oil underline-offset-2 hover:underline">
             {formatJobNumber(row.original.number)}
           </Link>
         ),
@@ -75,7 +76,7 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
         cell: ({ row }) =>
           row.original.promisedOn ? (
             <div className="flex flex-col items-start gap-1">
-              <span>{row.original.promisedOn}</span>
+              <span className="whitespace-nowrap">{row.original.promisedOn}</span>
               {isOverdue(row.original, today) ? (
                 <Badge tone="rust" icon={Clock}>
                   Overdue
@@ -90,7 +91,11 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
       {
         id: "updatedAt",
         header: "Updated",
-        cell: ({ row }) => <time dateTime={row.original.updatedAt}>{row.original.updatedAt.slice(0, 10)}</time>,
+        cell: ({ row }) => (
+          <time dateTime={row.original.updatedAt} className="whitespace-nowrap">
+            {row.original.updatedAt.slice(0, 10)}
+          </time>
+        ),
       },
     ],
     [shopSlug, today],
@@ -173,7 +178,15 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
         />
       ) : (
         <div aria-busy={isValidating} className={clsx("transition-opacity", isValidating && "opacity-70")}>
-          <Table label="Jobs in this shop">
+          {/* On a phone, one card per job reads better than a table scrolled sideways. */}
+          <ul className="space-y-3 sm:hidden" aria-label="Jobs in this shop">
+            {page.rows.map((row) => (
+              <li key={row.number} data-testid="job-card">
+                <JobCard row={row} shopSlug={shopSlug} overdue={isOverdue(row, today)} />
+              </li>
+            ))}
+          </ul>
+          <Table label="Jobs in this shop" wrapperClassName="hidden sm:block">
             <THead>
               {table.getHeaderGroups().map((group) => (
                 <TR key={group.id}>
