@@ -4,18 +4,16 @@ import {
   ROOT,
   MARIADB,
   SetupError,
-  acquireLock,
   bin,
   ensureDebianPackages,
   ensureNodeModules,
   loadSecrets,
   provisionDatabase,
   readDotEnv,
-  run,
+  Run,
+  run as runToEnd,
   say,
-  startMariadb,
   startService,
-  stopServices,
   waitForHttp,
 } from "./lib/setup.mjs";
 
@@ -28,33 +26,17 @@ const MAIL_PORT = Number(setting("MAIL_FAKE_PORT", "4010"));
 const DIR = path.join(ROOT, ".data", "dev");
 const appUrl = setting("APP_URL", `http://localhost:${PORT}`);
 
-const noLock = () => {};
-let releaseLock = noLock;
-let stopDb = async () => {};
-let stopping = false;
-
-async function shutdown(code) {
-  if (stopping) return;
-  stopping = true;
-  if (releaseLock !== noLock) say("start", "stopping…");
-  await stopServices();
-  await stopDb();
-  releaseLock();
-  process.exit(code);
-}
-
-process.on("SIGINT", () => void shutdown(0));
-process.on("SIGTERM", () => void shutdown(0));
+const run = new Run("start");
 
 async function main() {
-  releaseLock = acquireLock(DIR, { label: "Benchside (npm start)", url: appUrl });
+  run.lock(DIR, { label: "Benchside (npm start)", url: appUrl });
   ensureNodeModules();
   const secrets = loadSecrets(DIR);
   // With DATABASE_URL configured the app uses that server; otherwise a private MariaDB here.
   const externalDb = setting("DATABASE_URL", "");
   if (!externalDb) {
     ensureDebianPackages([MARIADB]);
-    stopDb = await startMariadb(DIR, DB_PORT);
+    await run.startDb(DIR, DB_PORT);
     provisionDatabase(DIR, { databases: ["benchside"], user: "benchside", password: secrets.dbPassword });
   }
 
@@ -75,13 +57,13 @@ async function main() {
     MAIL_FAKE_DIR: path.join(DIR, "mail"),
   };
 
-  if ((await run("node", [bin.tsx, "db/cli.ts", "migrate"], env)) !== 0) throw new SetupError("Database migrations failed; see the error above.");
-  if ((await run("node", [bin.tsx, "db/cli.ts", "seed-if-empty"], env)) !== 0) throw new SetupError("Seeding the demo shop failed; see the error above.");
+  if ((await runToEnd("node", [bin.tsx, "db/cli.ts", "migrate"], env)) !== 0) throw new SetupError("Database migrations failed; see the error above.");
+  if ((await runToEnd("node", [bin.tsx, "db/cli.ts", "seed-if-empty"], env)) !== 0) throw new SetupError("Seeding the demo shop failed; see the error above.");
 
   const died = (name) => (code) => {
-    if (!stopping) {
+    if (!run.stopping) {
       console.error(`${name} stopped unexpectedly (exit ${code}); shutting everything down.`);
-      void shutdown(1);
+      void run.stop(1);
     }
   };
   if (useMailFake) {
@@ -90,7 +72,7 @@ async function main() {
   }
 
   say("start", "building the app (next build)…");
-  if ((await run("node", [bin.next, "build"], env)) !== 0) throw new SetupError("`next build` failed; see the errors above.");
+  if ((await runToEnd("node", [bin.next, "build"], env)) !== 0) throw new SetupError("`next build` failed; see the errors above.");
 
   startService("app", "node", [bin.next, "start", "-p", String(PORT)], env, { onExit: died("The app") });
   await waitForHttp(`http://127.0.0.1:${PORT}/api/health`, { label: "The app" });
@@ -100,7 +82,4 @@ async function main() {
   console.log("  Demo sign-ins are in README.md. Ctrl-C stops everything.\n");
 }
 
-main().catch(async (error) => {
-  console.error(error instanceof SetupError ? `\n${error.message}\n` : error);
-  await shutdown(1);
-});
+run.go(main);

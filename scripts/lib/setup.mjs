@@ -333,3 +333,47 @@ export const bin = {
   playwright: path.join(ROOT, "node_modules", "@playwright", "test", "cli.js"),
   eslint: path.join(ROOT, "node_modules", "eslint", "bin", "eslint.js"),
 };
+
+// ---------------------------------------------------------------- one run
+
+/**
+ * One `npm start` / `npm test` run: holds the data folder's lock and the MariaDB it
+ * started, and on Ctrl-C, failure or `stop()` takes down everything it started.
+ */
+export class Run {
+  #releaseLock = null;
+  #stopDb = null;
+  stopping = false;
+
+  constructor(tag) {
+    this.tag = tag;
+    process.on("SIGINT", () => void this.stop(130));
+    process.on("SIGTERM", () => void this.stop(143));
+  }
+
+  lock(dir, what) {
+    this.#releaseLock = acquireLock(dir, what);
+  }
+
+  async startDb(dir, port) {
+    this.#stopDb = await startMariadb(dir, port);
+  }
+
+  async stop(code) {
+    if (this.stopping) return;
+    this.stopping = true;
+    if (this.#releaseLock) say(this.tag, "stopping…");
+    await stopServices();
+    await this.#stopDb?.();
+    this.#releaseLock?.();
+    process.exit(code);
+  }
+
+  /** Runs `main`; a SetupError is shown as its one sentence, anything else in full. */
+  go(main) {
+    main().catch(async (error) => {
+      console.error(error instanceof SetupError ? `\n${error.message}\n` : error);
+      await this.stop(1);
+    });
+  }
+}
