@@ -10,6 +10,11 @@ export default defineConfig({
   timeout: 45_000,
   expect: { timeout: 10_000 },
   reporter: [["list"]],
+  projects: [
+    // Signs each persona in once and saves the browser state (tests/e2e/personas.ts).
+    { name: "sign-ins", testMatch: /auth\.setup\.ts/ },
+    { name: "e2e", dependencies: ["sign-ins"] },
+  ],
   use: {
     baseURL: process.env.APP_URL ?? "http://localhost:3110",
     trace: "retain-on-failure",

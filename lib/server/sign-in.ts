@@ -6,13 +6,19 @@ import { escapeHtml, sendMail } from "@/lib/server/mail";
 import { timingDecoyHash, verifyPassword } from "@/lib/server/password";
 import { appUrl } from "@/lib/server/config";
 
-// Limits (per address, and per network address so one machine can't try many accounts).
+const envCount = (key: string, fallback: number) => {
+  const n = Number(process.env[key]);
+  return Number.isInteger(n) && n > 0 ? n : fallback;
+};
+
+// Limits per address, and per network address so one machine can't try many accounts.
+// The per-network ones are settings: a shop whose staff share one public IP may raise them.
 export const LIMITS = {
   passwordFailuresPerEmail: { max: 5, minutes: 15 },
-  passwordFailuresPerIp: { max: 30, minutes: 15 },
+  passwordFailuresPerIp: { max: envCount("SIGN_IN_FAILURES_PER_IP", 30), minutes: 15 },
   linkRequestsPerEmail: { max: 3, minutes: 15 },
-  linkRequestsPerIp: { max: 10, minutes: 60 },
-  linkFailuresPerIp: { max: 10, minutes: 15 },
+  linkRequestsPerIp: { max: envCount("SIGN_IN_LINKS_PER_IP", 10), minutes: 60 },
+  linkFailuresPerIp: { max: envCount("SIGN_IN_FAILURES_PER_IP", 30), minutes: 15 },
   linkTtlMinutes: 20,
 };
 

@@ -1,8 +1,8 @@
 import { expect, test } from "@playwright/test";
 import { SignInPage } from "./pages/sign-in-page";
+import { STAFF } from "./personas";
 
-// Demo sign-ins, as README.md lists them.
-const OWNER = { email: "dana@coppergulch.test", password: "gulch-owner-demo" };
+const OWNER = STAFF.owner;
 
 test("staff signs in with a password and sees the shop's job table", async ({ page }) => {
   await new SignInPage(page).signInAsStaff(OWNER.email, OWNER.password);
@@ -36,6 +36,12 @@ test("staff signs in with a password and sees the shop's job table", async ({ pa
   await page.getByRole("link", { name: "J-0006" }).click();
   await expect(page.getByRole("heading", { name: /J-0006/ })).toBeVisible();
   await expect(page.getByText("Clutch slips in third")).toBeVisible();
+
+  // Signing out ends the session: the shop area asks for sign-in again.
+  await page.getByRole("button", { name: `Sign out ${OWNER.email}` }).click();
+  await expect(page).toHaveURL(/\/sign-in$/);
+  await page.goto("/shop/copper-gulch");
+  await expect(page).toHaveURL(/\/sign-in\?next=/);
 });
 
 test("a wrong password shows a clear error and signs nobody in", async ({ page }) => {

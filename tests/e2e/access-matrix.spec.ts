@@ -1,0 +1,97 @@
+import { type APIRequestContext, expect, test } from "@playwright/test";
+import mysql from "mysql2/promise";
+import { type Persona, storageStatePath } from "./personas";
+
+// Every page and route handler of the shop and owner areas × every kind of visitor.
+// "in" = the visitor gets the thing; "sign-in" = sent to sign in; "403" = refused.
+type Outcome = "in" | "sign-in" | "403";
+type Visitor = "anonymous" | Persona;
+
+const VISITORS: Visitor[] = ["anonymous", "owner", "writer", "technician", "otherShopTechnician", "jobCustomer", "otherCustomer"];
+
+let customerJobPath = "";
+
+test.beforeAll(async () => {
+  // The owner-facing address of job J-0005 (the job customer's), read from the test database.
+  const db = await mysql.createConnection(process.env.DATABASE_URL!);
+  const [rows] = await db.query<mysql.RowDataPacket[]>(
+    "SELECT j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5",
+  );
+  await db.end();
+  customerJobPath = `/my/jobs/${rows[0]!.public_id}`;
+});
+
+const TARGETS: { name: string; kind: "page" | "api"; path: () => string; expect: Record<Visitor, Outcome> }[] = [
+  {
+    name: "shop job board",
+    kind: "page",
+    path: () => "/shop/copper-gulch",
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "403", otherCustomer: "403" },
+  },
+  {
+    name: "shop job page",
+    kind: "page",
+    path: () => "/shop/copper-gulch/jobs/5",
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "403", otherCustomer: "403" },
+  },
+  {
+    name: "job board API",
+    kind: "api",
+    path: () => "/api/shops/copper-gulch/jobs",
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "403", otherCustomer: "403" },
+  },
+  {
+    name: "owner's job page",
+    kind: "page",
+    path: () => customerJobPath,
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
+  },
+  {
+    name: "staff home",
+    kind: "page",
+    path: () => "/shop",
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "in", jobCustomer: "403", otherCustomer: "403" },
+  },
+];
+
+async function apiStatus(request: APIRequestContext, path: string) {
+  return (await request.get(path, { maxRedirects: 0 })).status();
+}
+
+for (const visitor of VISITORS) {
+  test.describe(`as ${visitor}`, () => {
+    if (visitor !== "anonymous") test.use({ storageState: storageStatePath(visitor) });
+
+    for (const target of TARGETS) {
+      const outcome = target.expect[visitor];
+      test(`${target.name}: ${outcome}`, async ({ page }) => {
+        if (target.kind === "api") {
+          const status = await apiStatus(page.request, target.path());
+          expect(status).toBe(outcome === "in" ? 200 : outcome === "403" ? 403 : 401);
+          return;
+        }
+        const response = await page.goto(target.path());
+        if (outcome === "sign-in") {
+          await expect(page).toHaveURL(/\/sign-in\?next=/);
+        } else if (outcome === "403") {
+          expect(response?.status()).toBe(403);
+          await expect(page.getByRole("heading", { name: /isn.t yours to open/i })).toBeVisible();
+        } else {
+          expect(response?.status()).toBe(200);
+          await expect(page.getByRole("heading", { name: /isn.t yours to open/i })).toHaveCount(0);
+          await expect(page).not.toHaveURL(/\/sign-in/);
+        }
+      });
+    }
+  });
+}
+
+test.describe("same job number, other shop", () => {
+  test.use({ storageState: storageStatePath("otherShopTechnician") });
+  test("a technician's own shop's job 1 opens while another shop's job 1 is refused", async ({ page }) => {
+    expect((await page.goto("/shop/copper-gulch/jobs/1"))?.status()).toBe(403);
+    await expect(page.getByText("Yearly service")).toHaveCount(0);
+    await page.goto("/shop/saltmarsh/jobs/1");
+    await expect(page.getByRole("heading", { name: /J-0001 · 2016 Brumal Drift 600/ })).toBeVisible();
+  });
+});
