@@ -21,24 +21,35 @@ test.beforeAll(async () => {
   customerJobPath = `/my/jobs/${rows[0]!.public_id}`;
 });
 
+/** Only the shop's own staff get in. */
+const STAFF_OF_THE_SHOP: Record<Visitor, Outcome> = {
+  anonymous: "sign-in",
+  owner: "in",
+  writer: "in",
+  technician: "in",
+  otherShopTechnician: "403",
+  jobCustomer: "403",
+  otherCustomer: "403",
+};
+
 const TARGETS: { name: string; kind: "page" | "api"; path: () => string; expect: Record<Visitor, Outcome> }[] = [
   {
     name: "shop job board",
     kind: "page",
     path: () => "/shop/copper-gulch",
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "403", otherCustomer: "403" },
+    expect: STAFF_OF_THE_SHOP,
   },
   {
     name: "shop job page",
     kind: "page",
     path: () => "/shop/copper-gulch/jobs/5",
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "403", otherCustomer: "403" },
+    expect: STAFF_OF_THE_SHOP,
   },
   {
     name: "job board API",
     kind: "api",
     path: () => "/api/shops/copper-gulch/jobs",
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "403", otherCustomer: "403" },
+    expect: STAFF_OF_THE_SHOP,
   },
   {
     name: "owner's job page",
