@@ -1,21 +1,8 @@
 // `npm start`: everything a newcomer needs, in order, and a clean stop on Ctrl-C.
 import path from "node:path";
-import {
-  ROOT,
-  MARIADB,
-  SetupError,
-  bin,
-  ensureDebianPackages,
-  ensureNodeModules,
-  loadSecrets,
-  provisionDatabase,
-  readDotEnv,
-  Run,
-  run as runToEnd,
-  say,
-  startService,
-  waitForHttp,
-} from "./lib/setup.mjs";
+import { ROOT, MARIADB, SetupError, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, readDotEnv, say } from "./lib/setup.mjs";
+import { provisionDatabase } from "./lib/mariadb.mjs";
+import { Run, run as runToEnd, startService, waitForHttp } from "./lib/processes.mjs";
 
 const dotEnv = readDotEnv();
 const setting = (key, fallback) => process.env[key] ?? dotEnv[key] ?? fallback;

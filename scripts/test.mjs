@@ -5,22 +5,9 @@
 //   npm test -- unit e2e     only the named phases (lint, unit, e2e); "unit" covers integration too
 import fs from "node:fs";
 import path from "node:path";
-import {
-  ROOT,
-  MARIADB,
-  CHROMIUM,
-  Run,
-  adminSql,
-  bin,
-  ensureDebianPackages,
-  ensureNodeModules,
-  loadSecrets,
-  provisionDatabase,
-  run,
-  say,
-  startService,
-  waitForHttp,
-} from "./lib/setup.mjs";
+import { ROOT, MARIADB, CHROMIUM, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, say } from "./lib/setup.mjs";
+import { adminSql, provisionDatabase } from "./lib/mariadb.mjs";
+import { Run, run, startService, waitForHttp } from "./lib/processes.mjs";
 
 const DIR = path.join(ROOT, ".data", "test");
 const DB_PORT = Number(process.env.TEST_DB_PORT ?? 3317);

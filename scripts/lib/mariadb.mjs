@@ -1,0 +1,116 @@
+// A private MariaDB per data folder: initialised, started on loopback, provisioned, stopped.
+import { spawn, spawnSync } from "node:child_process";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { ROOT, SetupError, isAlive, isRoot, say, sleep } from "./setup.mjs";
+
+export function mariadbPaths(dir) {
+  return {
+    datadir: path.join(dir, "mariadb"),
+    socket: path.join(dir, "mariadb.sock"),
+    pidFile: path.join(dir, "mariadb.pid"),
+    errorLog: path.join(dir, "mariadb.err"),
+  };
+}
+
+const osUser = () => os.userInfo().username;
+
+/** Runs SQL as the data folder's administrator, over the socket (no password exists for it). */
+export function adminSql(dir, sql) {
+  const { socket } = mariadbPaths(dir);
+  const result = spawnSync("mariadb", ["--no-defaults", `--socket=${socket}`, `--user=${osUser()}`, "--batch"], {
+    input: sql,
+    encoding: "utf8",
+  });
+  if (result.status !== 0) throw new Error(`MariaDB refused: ${result.stderr.trim()}`);
+  return result.stdout;
+}
+
+function mariadbAnswers(dir) {
+  try {
+    adminSql(dir, "SELECT 1;");
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/** Starts a private mariadbd on 127.0.0.1:port with its files in `dir`; returns a stop function. */
+export async function startMariadb(dir, port) {
+  const p = mariadbPaths(dir);
+  fs.mkdirSync(dir, { recursive: true });
+  if (fs.existsSync(p.pidFile)) {
+    const pid = Number(fs.readFileSync(p.pidFile, "utf8"));
+    if (pid && isAlive(pid) && mariadbAnswers(dir)) {
+      say("db", `MariaDB already running for ${path.relative(ROOT, dir)} (process ${pid})`);
+      return async () => stopMariadb(dir);
+    }
+  }
+  if (!fs.existsSync(path.join(p.datadir, "mysql"))) {
+    say("db", `creating a MariaDB data folder in ${path.relative(ROOT, p.datadir)}`);
+    const init = spawnSync(
+      "mariadb-install-db",
+      ["--no-defaults", `--user=${osUser()}`, `--datadir=${p.datadir}`, "--auth-root-authentication-method=socket", "--skip-test-db"],
+      { encoding: "utf8" },
+    );
+    if (init.status !== 0) {
+      fs.rmSync(p.datadir, { recursive: true, force: true });
+      throw new SetupError(`mariadb-install-db failed (${init.stderr.trim().split("\n").pop()}); fix that and try again.`);
+    }
+  }
+  const args = [
+    "--no-defaults",
+    `--datadir=${p.datadir}`,
+    `--socket=${p.socket}`,
+    `--port=${port}`,
+    "--bind-address=127.0.0.1",
+    `--pid-file=${p.pidFile}`,
+    `--log-error=${p.errorLog}`,
+    "--skip-log-bin",
+    "--skip-name-resolve",
+    "--character-set-server=utf8mb4",
+    "--collation-server=utf8mb4_unicode_ci",
+    "--default-time-zone=+00:00",
+    "--innodb-buffer-pool-size=128M",
+  ];
+  if (isRoot()) args.push("--user=root");
+  const child = spawn("/usr/sbin/mariadbd", args, { detached: true, stdio: "ignore" });
+  child.unref();
+  let exited = false;
+  child.on("exit", () => (exited = true));
+  for (let i = 0; i < 120; i++) {
+    if (mariadbAnswers(dir)) {
+      say("db", `MariaDB listening on 127.0.0.1:${port}`);
+      return async () => stopMariadb(dir);
+    }
+    if (exited) break;
+    await sleep(500);
+  }
+  const tail = fs.existsSync(p.errorLog) ? fs.readFileSync(p.errorLog, "utf8").trim().split("\n").slice(-3).join(" | ") : "";
+  throw new SetupError(`MariaDB did not start on port ${port} (is the port taken?); see ${p.errorLog}: ${tail}`);
+}
+
+export async function stopMariadb(dir) {
+  const { pidFile } = mariadbPaths(dir);
+  if (!fs.existsSync(pidFile)) return;
+  const pid = Number(fs.readFileSync(pidFile, "utf8"));
+  if (!pid || !isAlive(pid)) return;
+  process.kill(pid, "SIGTERM");
+  for (let i = 0; i < 120 && isAlive(pid); i++) await sleep(250);
+  say("db", "MariaDB stopped");
+}
+
+const quote = (s) => `'${String(s).replace(/\\/g, "\\\\").replace(/'/g, "\\'")}'`;
+
+/** Creates the application user (never root) with rights on the given databases or name patterns. */
+export function provisionDatabase(dir, { databases = [], grantPatterns = [], user, password }) {
+  const who = `${quote(user)}@'127.0.0.1'`;
+  const sql = [
+    ...databases.map((db) => `CREATE DATABASE IF NOT EXISTS \`${db}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`),
+    `CREATE USER IF NOT EXISTS ${who} IDENTIFIED BY ${quote(password)};`,
+    `ALTER USER ${who} IDENTIFIED BY ${quote(password)};`,
+    ...[...databases.map((db) => `\`${db}\``), ...grantPatterns].map((target) => `GRANT ALL PRIVILEGES ON ${target}.* TO ${who};`),
+  ].join("\n");
+  adminSql(dir, sql);
+}
