@@ -1,9 +1,7 @@
 import Link from "next/link";
-import { LogOut } from "lucide-react";
 import { Brand } from "@/components/brand";
-import { Button } from "@/components/ui";
+import { SignOutButton } from "@/components/sign-out-button";
 import type { Actor } from "@/lib/permissions";
-import { signOut } from "@/lib/server/auth";
 
 /** Header for signed-in areas: where you are, where else you can go, and sign-out. */
 export function AppHeader({ actor, context }: { actor: Actor; context?: string }) {
@@ -22,16 +20,7 @@ export function AppHeader({ actor, context }: { actor: Actor; context?: string }
           <Link href="/my" className="inline-flex min-h-tap items-center rounded-lg px-3 font-medium text-oil hover:bg-oil-soft">
             My machines
           </Link>
-          <form
-            action={async () => {
-              "use server";
-              await signOut({ redirectTo: "/sign-in" });
-            }}
-          >
-            <Button type="submit" variant="ghost" icon={<LogOut aria-hidden className="size-5" />} aria-label={`Sign out ${actor.email}`}>
-              <span className="hidden sm:inline">Sign out</span>
-            </Button>
-          </form>
+          <SignOutButton email={actor.email} />
         </nav>
       </div>
     </header>

@@ -1,8 +1,8 @@
 // `npm start`: everything a newcomer needs, in order, and a clean stop on Ctrl-C.
 import path from "node:path";
-import { ROOT, MARIADB, SetupError, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, readDotEnv, say } from "./lib/setup.mjs";
+import { ROOT, MARIADB, SetupError, assertPortFree, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, readDotEnv, say } from "./lib/setup.mjs";
 import { provisionDatabase } from "./lib/mariadb.mjs";
-import { Run, run as runToEnd, startService, waitForHttp } from "./lib/processes.mjs";
+import { Run, run as runToEnd, waitForHttp } from "./lib/processes.mjs";
 
 const dotEnv = readDotEnv();
 const setting = (key, fallback) => process.env[key] ?? dotEnv[key] ?? fallback;
@@ -17,6 +17,8 @@ const run = new Run("start");
 
 async function main() {
   run.lock(DIR, { label: "Benchside (npm start)", url: appUrl });
+  // Found out now, not after a two-minute build.
+  await assertPortFree(PORT, "the app (PORT)");
   ensureNodeModules();
   const secrets = loadSecrets(DIR);
   // With DATABASE_URL configured the app uses that server; otherwise a private MariaDB here.
@@ -47,21 +49,16 @@ async function main() {
   if ((await runToEnd("node", [bin.tsx, "db/cli.ts", "migrate"], env)) !== 0) throw new SetupError("Database migrations failed; see the error above.");
   if ((await runToEnd("node", [bin.tsx, "db/cli.ts", "seed-if-empty"], env)) !== 0) throw new SetupError("Seeding the demo shop failed; see the error above.");
 
-  const died = (name) => (code) => {
-    if (!run.stopping) {
-      console.error(`${name} stopped unexpectedly (exit ${code}); shutting everything down.`);
-      void run.stop(1);
-    }
-  };
   if (useMailFake) {
-    startService("mail", "node", [bin.tsx, "fakes/mail/server.ts"], env, { onExit: died("The mail fake") });
+    await assertPortFree(MAIL_PORT, "the mail fake (MAIL_FAKE_PORT)", "127.0.0.1");
+    run.serve("The mail fake", "node", [bin.tsx, "fakes/mail/server.ts"], env);
     await waitForHttp(`http://127.0.0.1:${MAIL_PORT}/`, { label: "The mail fake" });
   }
 
   say("start", "building the app (next build)…");
   if ((await runToEnd("node", [bin.next, "build"], env)) !== 0) throw new SetupError("`next build` failed; see the errors above.");
 
-  startService("app", "node", [bin.next, "start", "-p", String(PORT)], env, { onExit: died("The app") });
+  run.serve("The app", "node", [bin.next, "start", "-p", String(PORT)], env);
   await waitForHttp(`http://127.0.0.1:${PORT}/api/health`, { label: "The app" });
 
   console.log(`\n  Benchside is up:  ${appUrl}`);

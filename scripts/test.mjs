@@ -5,9 +5,9 @@
 //   npm test -- unit e2e     only the named phases (lint, unit, e2e); "unit" covers integration too
 import fs from "node:fs";
 import path from "node:path";
-import { ROOT, MARIADB, CHROMIUM, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, say } from "./lib/setup.mjs";
+import { ROOT, MARIADB, CHROMIUM, assertPortFree, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, say } from "./lib/setup.mjs";
 import { adminSql, provisionDatabase } from "./lib/mariadb.mjs";
-import { Run, run, startService, waitForHttp } from "./lib/processes.mjs";
+import { Run, run, waitForHttp } from "./lib/processes.mjs";
 
 const DIR = path.join(ROOT, ".data", "test");
 const DB_PORT = Number(process.env.TEST_DB_PORT ?? 3317);
@@ -36,7 +36,7 @@ async function main() {
   if (phase("lint")) {
     say("test", "lint (eslint + tsc)");
     if ((await run("node", [bin.eslint, "--max-warnings=0", "."])) !== 0) failures.push("lint");
-    if ((await run("node", [path.join(ROOT, "node_modules", "typescript", "bin", "tsc"), "--noEmit"])) !== 0) failures.push("types");
+    if ((await run("node", [path.join(ROOT, "node_modules", "typescript", "bin", "tsc"), "--noEmit", "-p", "tsconfig.check.json"])) !== 0) failures.push("types");
   }
 
   if (phase("unit")) {
@@ -46,6 +46,9 @@ async function main() {
 
   if (phase("e2e")) {
     say("test", "end-to-end tests (Playwright + Debian Chromium)");
+    // A leftover app from a killed run would otherwise be tested in place of this build.
+    await assertPortFree(APP_PORT, "the app under test (TEST_APP_PORT)");
+    await assertPortFree(MAIL_PORT, "the test mail fake (TEST_MAIL_PORT)", "127.0.0.1");
     const mailDir = path.join(DIR, "mail");
     fs.rmSync(mailDir, { recursive: true, force: true });
     adminSql(DIR, `DROP DATABASE IF EXISTS \`${E2E_DB}\`; CREATE DATABASE \`${E2E_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`);
@@ -73,8 +76,8 @@ async function main() {
     if (!ok) {
       failures.push("e2e set-up");
     } else {
-      startService("mail", "node", [bin.tsx, "fakes/mail/server.ts"], env);
-      startService("app", "node", [bin.next, "start", "-p", String(APP_PORT)], env);
+      testRun.serve("The test mail fake", "node", [bin.tsx, "fakes/mail/server.ts"], env);
+      testRun.serve("The app under test", "node", [bin.next, "start", "-p", String(APP_PORT)], env);
       await waitForHttp(`http://127.0.0.1:${MAIL_PORT}/`, { label: "The mail fake" });
       await waitForHttp(`http://127.0.0.1:${APP_PORT}/api/health`, { label: "The app under test" });
       if ((await run("node", [bin.playwright, "test"], env)) !== 0) failures.push("e2e");

@@ -3,18 +3,42 @@ import { db } from "@/lib/server/db";
 
 export type AttemptKind = "password" | "link_request" | "link_use";
 
-export async function recordAttempt({ kind, subject, succeeded }: { kind: AttemptKind; subject: string; succeeded: boolean }) {
-  await db()("auth_attempts").insert({ kind, subject: subject.slice(0, 254), succeeded });
+/**
+ * Records an attempt first and counts after, so of any number of simultaneous attempts at
+ * most `limit.max` go ahead: each one counts every attempt recorded before it.
+ * `counting` says what uses up the limit: failures (passwords, link clicks) or every
+ * request that went ahead (sign-in e-mails). A refused request doesn't use up the limit.
+ */
+export async function reserveAttempt({
+  kind,
+  subject,
+  limit,
+  counting,
+}: {
+  kind: AttemptKind;
+  subject: string;
+  limit: { max: number; minutes: number };
+  counting: "failures" | "accepted";
+}): Promise<{ id: number; allowed: boolean }> {
+  // Until settled, a password try or link click is a failure and an e-mail request is accepted.
+  const counted = counting === "accepted";
+  const key = { kind, subject: subject.slice(0, 254) };
+  const [inserted] = await db()("auth_attempts").insert({ ...key, succeeded: counted });
+  const id = Number(inserted);
+  const row = await db()("auth_attempts")
+    .where({ ...key, succeeded: counted })
+    .where("id", "<=", id)
+    .where("created_at", ">", db().raw("NOW(3) - INTERVAL ? MINUTE", [limit.minutes]))
+    .count({ n: "*" })
+    .first();
+  const allowed = Number(row?.n ?? 0) <= limit.max;
+  if (!allowed && counted) await settleAttempt({ id, succeeded: false });
+  return { id, allowed };
 }
 
-/** How many attempts of this kind for this subject (an e-mail or an IP) in the last `minutes`. */
-export async function countAttempts({ kind, subject, minutes, failedOnly }: { kind: AttemptKind; subject: string; minutes: number; failedOnly: boolean }) {
-  const q = db()("auth_attempts")
-    .where({ kind, subject: subject.slice(0, 254) })
-    .where("created_at", ">", db().raw("NOW(3) - INTERVAL ? MINUTE", [minutes]));
-  if (failedOnly) q.where({ succeeded: false });
-  const row = await q.count({ n: "*" }).first();
-  return Number(row?.n ?? 0);
+/** Marks a reserved attempt as having succeeded (or, for e-mail requests, as not sent). */
+export async function settleAttempt({ id, succeeded }: { id: number; succeeded: boolean }) {
+  await db()("auth_attempts").where({ id }).update({ succeeded });
 }
 
 export async function insertSignInLink({ email, tokenHash, ttlMinutes }: { email: string; tokenHash: string; ttlMinutes: number }) {

@@ -38,25 +38,26 @@ export async function touchLastSignIn({ userId }: { userId: number }) {
   await db()("users").where({ id: userId }).update({ last_sign_in_at: db().fn.now() });
 }
 
-/** Is this address known to any shop as a customer, or as a user? Used before sending a link. */
-export async function isKnownAddress({ email }: { email: string }): Promise<boolean> {
-  const customer = await db()("customers").where({ email }).first("id");
-  if (customer) return true;
-  return !!(await db()("users").where({ email }).first("id"));
+/** Does any shop have a customer with this address? Sign-in links go only to customers. */
+export async function isCustomerAddress({ email }: { email: string }): Promise<boolean> {
+  return !!(await db()("customers").where({ email }).first("id"));
 }
 
 /**
  * After a link sign-in: the user for this address (created on first sign-in, named as the
  * shop wrote it down), and every customer record with that address linked to them.
+ * INSERT IGNORE, so two first sign-ins at the same moment both end with the one user.
  */
 export async function claimCustomerRecords({ email }: { email: string }) {
   return db().transaction(async (trx) => {
-    let user = await trx("users").where({ email }).forUpdate().first("id", "name");
-    if (!user) {
-      const customer = await trx("customers").where({ email }).orderBy("created_at", "desc").first("name");
-      const [id] = await trx("users").insert({ email, name: customer?.name ?? email.split("@")[0] });
-      user = { id, name: customer?.name ?? email };
-    }
+    const customer = await trx("customers").where({ email }).orderBy("created_at", "desc").first("name");
+    await trx("users")
+      .insert({ email, name: customer?.name ?? email.split("@")[0] })
+      .onConflict("email")
+      .ignore();
+    // A locking read sees the row even when another sign-in inserted it after this
+    // transaction's snapshot was taken (a plain read would not, under REPEATABLE READ).
+    const user = await trx("users").where({ email }).forUpdate().first("id", "name");
     await trx("customers").where({ email }).whereNull("user_id").update({ user_id: user.id });
     await trx("users").where({ id: user.id }).update({ last_sign_in_at: trx.fn.now() });
     return { id: Number(user.id), email, name: String(user.name) };

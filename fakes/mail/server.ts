@@ -79,6 +79,12 @@ async function handle(req: http.IncomingMessage, res: http.ServerResponse, ctx: 
     sendJson(res, errorBody(403, "invalid_access", "The mail fake only answers loopback clients."));
     return;
   }
+  // A web page whose name was re-pointed at 127.0.0.1 (DNS rebinding) arrives with its own
+  // host name: refuse it, or it could read sign-in links out of the mailbox.
+  if (!/^(127\.0\.0\.1|localhost|\[::1\])(:\d+)?$/i.test(req.headers.host ?? "")) {
+    sendJson(res, errorBody(403, "invalid_access", "The mail fake only answers requests addressed to 127.0.0.1 or localhost."));
+    return;
+  }
   const method = req.method ?? "GET";
   const url = new URL(req.url ?? "/", "http://127.0.0.1");
   const declared = Number(req.headers["content-length"] ?? 0);

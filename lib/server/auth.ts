@@ -4,6 +4,20 @@ import Credentials from "next-auth/providers/credentials";
 import { linkTokenSchema, passwordSignInSchema } from "@/lib/schemas/auth";
 import { SignInFailure, type SignInFailureCode, checkPassword, consumeSignInLink } from "@/lib/server/sign-in";
 
+declare module "next-auth" {
+  interface Session {
+    /** Shop roles come only with a password sign-in; an e-mailed link opens the owner's area. */
+    signInMethod: "password" | "link";
+  }
+}
+
+declare module "@auth/core/jwt" {
+  interface JWT {
+    uid?: string;
+    method?: "password" | "link";
+  }
+}
+
 /** Carries our failure code out of next-auth, so the form can say exactly what went wrong. */
 class SignInRefused extends CredentialsSignin {
   constructor(code: SignInFailureCode) {
@@ -64,12 +78,16 @@ export const { handlers, auth, signIn, signOut } = NextAuth({
     }),
   ],
   callbacks: {
-    jwt({ token, user }) {
-      if (user?.id) token.uid = user.id;
+    jwt({ token, user, account }) {
+      if (user?.id) {
+        token.uid = user.id;
+        token.method = account?.provider === "password" ? "password" : "link";
+      }
       return token;
     },
     session({ session, token }) {
       if (typeof token.uid === "string") session.user.id = token.uid;
+      session.signInMethod = token.method === "password" ? "password" : "link";
       return session;
     },
   },

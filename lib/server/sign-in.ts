@@ -1,7 +1,7 @@
 import "server-only";
 import crypto from "node:crypto";
-import { claimCustomerRecords, countMemberships, getUserByEmail, isKnownAddress, touchLastSignIn } from "@/db/queries/users";
-import { countAttempts, deleteSignInLink, insertSignInLink, recordAttempt, redeemSignInLink } from "@/db/queries/sign-in";
+import { claimCustomerRecords, countMemberships, getUserByEmail, isCustomerAddress, touchLastSignIn } from "@/db/queries/users";
+import { deleteSignInLink, insertSignInLink, redeemSignInLink, reserveAttempt, settleAttempt } from "@/db/queries/sign-in";
 import { escapeHtml, sendMail } from "@/lib/server/mail";
 import { timingDecoyHash, verifyPassword } from "@/lib/server/password";
 import { appUrl } from "@/lib/server/config";
@@ -41,29 +41,19 @@ export class SignInFailure extends Error {
   }
 }
 
-async function overLimit(kind: "password" | "link_request" | "link_use", subject: string, limit: { max: number; minutes: number }, failedOnly: boolean) {
-  return (await countAttempts({ kind, subject, minutes: limit.minutes, failedOnly })) >= limit.max;
-}
-
 export async function checkPassword({ email, password, ip }: { email: string; password: string; ip: string }) {
-  if (
-    (await overLimit("password", email, LIMITS.passwordFailuresPerEmail, true)) ||
-    (await overLimit("password", `ip:${ip}`, LIMITS.passwordFailuresPerIp, true))
-  ) {
-    throw new SignInFailure("too-many-attempts");
-  }
-  const fail = async (code: SignInFailureCode) => {
-    await recordAttempt({ kind: "password", subject: email, succeeded: false });
-    await recordAttempt({ kind: "password", subject: `ip:${ip}`, succeeded: false });
-    return new SignInFailure(code);
-  };
+  const byEmail = await reserveAttempt({ kind: "password", subject: email, limit: LIMITS.passwordFailuresPerEmail, counting: "failures" });
+  const byIp = await reserveAttempt({ kind: "password", subject: `ip:${ip}`, limit: LIMITS.passwordFailuresPerIp, counting: "failures" });
+  if (!byEmail.allowed || !byIp.allowed) throw new SignInFailure("too-many-attempts");
+
   const user = await getUserByEmail({ email });
   if (!user?.passwordHash || (await countMemberships({ userId: user.id })) === 0) {
     await verifyPassword(password, await timingDecoyHash());
-    throw await fail("unknown-email");
+    throw new SignInFailure("unknown-email");
   }
-  if (!(await verifyPassword(password, user.passwordHash))) throw await fail("wrong-password");
-  await recordAttempt({ kind: "password", subject: email, succeeded: true });
+  if (!(await verifyPassword(password, user.passwordHash))) throw new SignInFailure("wrong-password");
+  await settleAttempt({ id: byEmail.id, succeeded: true });
+  await settleAttempt({ id: byIp.id, succeeded: true });
   await touchLastSignIn({ userId: user.id });
   return { id: user.id, email: user.email, name: user.name };
 }
@@ -72,16 +62,14 @@ function hashToken(token: string): string {
   return crypto.createHash("sha256").update(`${token}${process.env.AUTH_SECRET ?? ""}`).digest("hex");
 }
 
+/** E-mails a one-time sign-in link to a machine owner (staff sign in with their password). */
 export async function requestSignInLink({ email, ip, next }: { email: string; ip: string; next?: string }) {
-  if (
-    (await overLimit("link_request", email, LIMITS.linkRequestsPerEmail, false)) ||
-    (await overLimit("link_request", `ip:${ip}`, LIMITS.linkRequestsPerIp, false))
-  ) {
-    throw new SignInFailure("too-many-links");
-  }
-  await recordAttempt({ kind: "link_request", subject: `ip:${ip}`, succeeded: true });
-  if (!(await isKnownAddress({ email }))) throw new SignInFailure("unknown-customer");
-  await recordAttempt({ kind: "link_request", subject: email, succeeded: true });
+  // The network address is counted even for unknown e-mails, so addresses can't be probed in bulk.
+  const byIp = await reserveAttempt({ kind: "link_request", subject: `ip:${ip}`, limit: LIMITS.linkRequestsPerIp, counting: "accepted" });
+  if (!byIp.allowed) throw new SignInFailure("too-many-links");
+  if (!(await isCustomerAddress({ email }))) throw new SignInFailure("unknown-customer");
+  const byEmail = await reserveAttempt({ kind: "link_request", subject: email, limit: LIMITS.linkRequestsPerEmail, counting: "accepted" });
+  if (!byEmail.allowed) throw new SignInFailure("too-many-links");
 
   const token = crypto.randomBytes(32).toString("base64url");
   const id = await insertSignInLink({ email, tokenHash: hashToken(token), ttlMinutes: LIMITS.linkTtlMinutes });
@@ -94,17 +82,18 @@ export async function requestSignInLink({ email, ip, next }: { email: string; ip
       html: `<p>Open this link to follow your machine's job:</p><p><a href="${escapeHtml(url)}">Sign in to Benchside</a></p><p>It works once and expires in ${LIMITS.linkTtlMinutes} minutes. If you didn't ask for it, ignore this e-mail.</p>`,
     });
   } catch (error) {
-    await deleteSignInLink({ id }); // an unsent link must not count as outstanding
+    // An unsent link must not be usable, nor count against the owner's limit.
+    await deleteSignInLink({ id });
+    await settleAttempt({ id: byEmail.id, succeeded: false });
     throw error;
   }
 }
 
 export async function consumeSignInLink({ token, ip }: { token: string; ip: string }) {
-  if (await overLimit("link_use", `ip:${ip}`, LIMITS.linkFailuresPerIp, true)) throw new SignInFailure("too-many-attempts");
+  const byIp = await reserveAttempt({ kind: "link_use", subject: `ip:${ip}`, limit: LIMITS.linkFailuresPerIp, counting: "failures" });
+  if (!byIp.allowed) throw new SignInFailure("too-many-attempts");
   const result = await redeemSignInLink({ tokenHash: hashToken(token) });
-  if (!result.ok) {
-    await recordAttempt({ kind: "link_use", subject: `ip:${ip}`, succeeded: false });
-    throw new SignInFailure(result.reason === "unknown" ? "link-unknown" : result.reason === "used" ? "link-used" : "link-expired");
-  }
+  if (!result.ok) throw new SignInFailure(result.reason === "unknown" ? "link-unknown" : result.reason === "used" ? "link-used" : "link-expired");
+  await settleAttempt({ id: byIp.id, succeeded: true });
   return claimCustomerRecords({ email: result.email });
 }

@@ -1,14 +1,22 @@
 // A private MariaDB per data folder: initialised, started on loopback, provisioned, stopped.
 import { spawn, spawnSync } from "node:child_process";
+import crypto from "node:crypto";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { ROOT, SetupError, isAlive, isRoot, say, sleep } from "./setup.mjs";
+import { ROOT, SetupError, assertPortFree, isAlive, isRoot, say, sleep } from "./setup.mjs";
+
+// A Unix socket path may hold at most 107 bytes; a deeply nested checkout would exceed it.
+function socketPath(dir) {
+  const inside = path.join(dir, "mariadb.sock");
+  if (Buffer.byteLength(inside) <= 100) return inside;
+  return path.join(os.tmpdir(), `benchside-${crypto.createHash("sha256").update(dir).digest("hex").slice(0, 12)}.sock`);
+}
 
 export function mariadbPaths(dir) {
   return {
     datadir: path.join(dir, "mariadb"),
-    socket: path.join(dir, "mariadb.sock"),
+    socket: socketPath(dir),
     pidFile: path.join(dir, "mariadb.pid"),
     errorLog: path.join(dir, "mariadb.err"),
   };
@@ -59,6 +67,7 @@ export async function startMariadb(dir, port) {
       throw new SetupError(`mariadb-install-db failed (${init.stderr.trim().split("\n").pop()}); fix that and try again.`);
     }
   }
+  await assertPortFree(port, "the private MariaDB", "127.0.0.1");
   const args = [
     "--no-defaults",
     `--datadir=${p.datadir}`,
@@ -98,7 +107,13 @@ export async function stopMariadb(dir) {
   if (!pid || !isAlive(pid)) return;
   process.kill(pid, "SIGTERM");
   for (let i = 0; i < 120 && isAlive(pid); i++) await sleep(250);
-  say("db", "MariaDB stopped");
+  if (isAlive(pid)) {
+    // 30 s is far beyond a clean InnoDB shutdown here; don't leave a server behind.
+    process.kill(pid, "SIGKILL");
+    say("db", "MariaDB did not stop in 30 s and was killed; it will recover its files at the next start");
+  } else {
+    say("db", "MariaDB stopped");
+  }
 }
 
 const quote = (s) => `'${String(s).replace(/\\/g, "\\\\").replace(/'/g, "\\'")}'`;

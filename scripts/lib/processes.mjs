@@ -1,7 +1,7 @@
 // Child processes of a run (app, fakes, test runners) and the run itself.
 import { spawn } from "node:child_process";
 import { ROOT, SetupError, acquireLock, say, sleep } from "./setup.mjs";
-import { startMariadb } from "./mariadb.mjs";
+import { startMariadb, stopMariadb } from "./mariadb.mjs";
 
 const children = new Set();
 
@@ -103,7 +103,20 @@ export class Run {
   }
 
   async startDb(dir, port) {
-    this.#stopDb = await startMariadb(dir, port);
+    // Known before the server answers, so a Ctrl-C during start-up still stops it.
+    this.#stopDb = () => stopMariadb(dir);
+    await startMariadb(dir, port);
+  }
+
+  /** A long-running helper; if it dies on its own, the whole run stops (nothing half-up). */
+  serve(name, command, args, env) {
+    return startService(name, command, args, env, {
+      onExit: (code) => {
+        if (this.stopping) return;
+        console.error(`${name} stopped unexpectedly (exit ${code}); stopping everything.`);
+        void this.stop(1);
+      },
+    });
   }
 
   async stop(code) {
@@ -119,6 +132,8 @@ export class Run {
   /** Runs `main`; a SetupError is shown as its one sentence, anything else in full. */
   go(main) {
     main().catch(async (error) => {
+      // After Ctrl-C, steps fail because their processes were stopped: that is not news.
+      if (this.stopping) return;
       console.error(error instanceof SetupError ? `\n${error.message}\n` : error);
       await this.stop(1);
     });

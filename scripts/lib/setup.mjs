@@ -3,6 +3,7 @@
 import { spawnSync } from "node:child_process";
 import crypto from "node:crypto";
 import fs from "node:fs";
+import net from "node:net";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 
@@ -98,6 +99,31 @@ export const isAlive = (pid) => {
   }
 };
 
+/** Is this process still a Node run (and not an unrelated program that reused the number)? */
+function isOurRun(pid) {
+  if (!isAlive(pid)) return false;
+  try {
+    return fs.readFileSync(`/proc/${pid}/cmdline`, "utf8").includes("node");
+  } catch {
+    return true; // no /proc to ask: trust the lock
+  }
+}
+
+/** Fails with one sentence when something already listens on the port we are about to use. */
+export function assertPortFree(port, what, host) {
+  return new Promise((resolve, reject) => {
+    const probe = net.createServer();
+    probe.once("error", (error) =>
+      reject(
+        error.code === "EADDRINUSE"
+          ? new SetupError(`Port ${port}, needed for ${what}, is already in use; stop what is using it or pick another port (see .env.example).`)
+          : error,
+      ),
+    );
+    probe.listen({ port, host }, () => probe.close(() => resolve()));
+  });
+}
+
 /** One runner per data folder: a second `npm start` is told about the first instead of sharing its database files. */
 export function acquireLock(dir, what) {
   fs.mkdirSync(dir, { recursive: true });
@@ -109,7 +135,7 @@ export function acquireLock(dir, what) {
     } catch (error) {
       if (error.code !== "EEXIST") throw error;
       const holder = JSON.parse(fs.readFileSync(file, "utf8") || "{}");
-      if (holder.pid && isAlive(holder.pid)) {
+      if (holder.pid && isOurRun(holder.pid)) {
         throw new SetupError(
           `${what.label} is already running (process ${holder.pid}${holder.url ? `, ${holder.url}` : ""}); use that one or stop it with Ctrl-C first.`,
         );

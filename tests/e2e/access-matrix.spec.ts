@@ -97,6 +97,14 @@ for (const visitor of VISITORS) {
   });
 }
 
+test.describe("missing things", () => {
+  test.use({ storageState: storageStatePath("owner") });
+  test("a job number the shop doesn't have is a real 404", async ({ page }) => {
+    expect((await page.goto("/shop/copper-gulch/jobs/999"))?.status()).toBe(404);
+    expect((await page.goto("/shop/copper-gulch/jobs/not-a-number"))?.status()).toBe(404);
+  });
+});
+
 test.describe("same job number, other shop", () => {
   test.use({ storageState: storageStatePath("otherShopTechnician") });
   test("a technician's own shop's job 1 opens while another shop's job 1 is refused", async ({ page }) => {

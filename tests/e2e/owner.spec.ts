@@ -31,3 +31,13 @@ test("an address the shops don't know gets a clear answer, and no e-mail", async
   await owners.getByRole("button", { name: "E-mail me a sign-in link" }).click();
   await expect(owners.getByText("We don't have a job under that e-mail address")).toBeVisible();
 });
+
+test("a link sign-in opens the owner's area only, even for someone who is also staff", async ({ page }) => {
+  // Priya is a service writer at Copper Gulch and a customer of Saltmarsh.
+  await new SignInPage(page).signInAsOwner("priya@coppergulch.test");
+  await expect(page.getByTestId("my-job")).toHaveCount(1);
+  await expect(page.getByTestId("my-job")).toContainText("Pellard P160");
+  const response = await page.goto("/shop/copper-gulch");
+  expect(response?.status()).toBe(403);
+  await expect(page.getByText("Corvane")).toHaveCount(0);
+});

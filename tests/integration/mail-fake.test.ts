@@ -1,5 +1,6 @@
 // Drives fakes/mail with the real resend SDK, so the fake stays honest about the API shape the app relies on.
 import { mkdtemp, readdir, rm } from "node:fs/promises";
+import http from "node:http";
 import os from "node:os";
 import path from "node:path";
 import { Resend, type CreateEmailOptions } from "resend";
@@ -28,6 +29,19 @@ describe("mail fake with the resend SDK", () => {
   afterAll(async () => {
     await fake?.close();
     if (dir) await rm(dir, { recursive: true, force: true });
+  });
+
+  it("refuses requests addressed to another host name (DNS rebinding)", async () => {
+    const status = await new Promise<number>((resolve, reject) => {
+      const req = http.request({ host: "127.0.0.1", port: fake.port, path: "/_fake/messages", headers: { host: `attacker.test:${fake.port}` } }, (res) => {
+        res.resume();
+        resolve(res.statusCode ?? 0);
+      });
+      req.on("error", reject);
+      req.end();
+    });
+    expect(status).toBe(403);
+    expect((await fetch(`${fake.url}/_fake/messages`)).status).toBe(200);
   });
 
   it("listens on a random loopback port when asked for port 0", () => {

@@ -60,6 +60,26 @@ describe("staff password sign-in", () => {
   });
 });
 
+describe("limits hold under simultaneous requests", () => {
+  it(`of 12 wrong passwords sent at once, ${LIMITS.passwordFailuresPerEmail.max} are checked and the rest told to wait`, async () => {
+    const burst = await makeShop(db, { label: "burst", roles: ["technician"], password: PASSWORD });
+    const email = burst.staff.technician!.email;
+    const ip = freshIp();
+    const codes = await Promise.all(Array.from({ length: 12 }, () => failureOf(checkPassword({ email, password: "guess", ip }))));
+    expect(codes.filter((c) => c === "wrong-password")).toHaveLength(LIMITS.passwordFailuresPerEmail.max);
+    expect(codes.filter((c) => c === "too-many-attempts")).toHaveLength(12 - LIMITS.passwordFailuresPerEmail.max);
+  });
+
+  it(`of 8 link requests sent at once, ${LIMITS.linkRequestsPerEmail.max} send an e-mail`, async () => {
+    const email = `burst.${shop.slug}@mail.test`;
+    await makeCustomerWithJobs(db, shop.id, { name: "Bo Burst", email, statuses: ["checked_in"] });
+    const codes = await Promise.all(Array.from({ length: 8 }, () => failureOf(requestSignInLink({ email, ip: freshIp() }))));
+    expect(codes.filter((c) => c === "no failure")).toHaveLength(LIMITS.linkRequestsPerEmail.max);
+    expect(codes.filter((c) => c === "too-many-links")).toHaveLength(8 - LIMITS.linkRequestsPerEmail.max);
+    expect(await listMail(mail.url, { to: email })).toHaveLength(LIMITS.linkRequestsPerEmail.max);
+  });
+});
+
 describe("owner sign-in links", () => {
   const linkFrom = async (to: string, since: Date) => {
     const message = await waitForMail({ baseUrl: mail.url, to, since, subjectIncludes: "sign-in link" });
@@ -111,6 +131,26 @@ describe("owner sign-in links", () => {
     const email = `stranger.${shop.slug}@mail.test`;
     expect(await failureOf(requestSignInLink({ email, ip: freshIp() }))).toBe("unknown-customer");
     expect(await listMail(mail.url, { to: email })).toHaveLength(0);
+  });
+
+  it("never sends a link to a staff address: staff sign in with their password", async () => {
+    const email = shop.staff.owner!.email;
+    expect(await failureOf(requestSignInLink({ email, ip: freshIp() }))).toBe("unknown-customer");
+    expect(await listMail(mail.url, { to: email })).toHaveLength(0);
+  });
+
+  it("two first sign-ins at the same moment end with one account", async () => {
+    const email = `first.${shop.slug}@mail.test`;
+    await makeCustomerWithJobs(db, shop.id, { name: "Fay First", email, statuses: ["checked_in"] });
+    const tokens: string[] = [];
+    for (let i = 0; i < 2; i++) {
+      const since = new Date();
+      await requestSignInLink({ email, ip: freshIp() });
+      tokens.push(await linkFrom(email, since));
+    }
+    const users = await Promise.all(tokens.map((token) => consumeSignInLink({ token, ip: freshIp() })));
+    expect(users[0]!.id).toBe(users[1]!.id);
+    expect(await db("users").where({ email }).count({ n: "*" }).first()).toEqual({ n: 1 });
   });
 
   it(`sends at most ${LIMITS.linkRequestsPerEmail.max} links per address in ${LIMITS.linkRequestsPerEmail.minutes} minutes`, async () => {

@@ -5,7 +5,7 @@ import { AuthError } from "next-auth";
 import { formAction } from "@/lib/action";
 import { AppError } from "@/lib/errors";
 import { linkRequestSchema, linkTokenSchema, passwordSignInSchema } from "@/lib/schemas/auth";
-import { clientIp, signIn } from "@/lib/server/auth";
+import { clientIp, signIn, signOut } from "@/lib/server/auth";
 import { SIGN_IN_FAILURES, SignInFailure, type SignInFailureCode, requestSignInLink } from "@/lib/server/sign-in";
 import { z } from "zod";
 
@@ -58,5 +58,13 @@ export const signInWithLink = formAction({
     } catch (error) {
       refusal(error);
     }
+  },
+});
+
+export const signOutAction = formAction({
+  public: true, // signing out twice, or when the session has already expired, is harmless
+  input: z.object({}),
+  run: async () => {
+    await signOut({ redirectTo: "/sign-in" });
   },
 });

@@ -26,6 +26,8 @@ export default async function StaffJobPage({ params }: Props) {
   if (!job) notFound();
   authorizePage(actor, "job:view-history", { shopId: job.shopId, customerUserId: job.customerUserId });
   const history = await listStatusChanges({ shopId: shop.id, jobId: job.id });
+  // Times read in the shop's own zone: that is the clock on the shop wall.
+  const at = new Intl.DateTimeFormat("en-US", { timeZone: shop.timezone, dateStyle: "medium", timeStyle: "short" });
 
   return (
     <div className="space-y-6">
@@ -57,8 +59,8 @@ export default async function StaffJobPage({ params }: Props) {
         <ol className="space-y-3">
           {history.map((h) => (
             <li key={h.id} className="flex flex-wrap items-center gap-x-3 gap-y-1">
-              <time dateTime={h.at.toISOString()} className="w-40 text-sm text-ink-muted">
-                {h.at.toISOString().slice(0, 16).replace("T", " ")} UTC
+              <time dateTime={h.at.toISOString()} className="w-44 text-sm text-ink-muted">
+                {at.format(h.at)}
               </time>
               <span>
                 {h.from ? `${JOB_STATUS_LABEL[h.from]} → ` : ""}

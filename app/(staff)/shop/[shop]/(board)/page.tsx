@@ -5,7 +5,7 @@ import { Alert, PageHeader } from "@/components/ui";
 import { toBoardRow } from "@/lib/jobs-view";
 import { jobListQuerySchema } from "@/lib/schemas/jobs";
 import { searchParamsObject } from "@/lib/route";
-import { shopPageAccess } from "./shop-access";
+import { shopPageAccess } from "../shop-access";
 import { JobBoard } from "./_components/job-board";
 
 export const metadata: Metadata = { title: "Jobs" };

@@ -1,7 +1,8 @@
 import { Skeleton, SkeletonText } from "@/components/ui/skeleton";
 
-// Placeholder while a shop page loads. It sits inside the shop layout, after the layout has
-// checked access, so a refusal is still answered with a real 403 before anything streams.
+// Placeholder while the job board loads. It wraps the board only (this route group), after
+// the shop layout has checked access, so refusals (403) and missing jobs (404) elsewhere
+// under /shop/[shop] are answered with their real status before anything streams.
 export default function Loading() {
   return (
     <div aria-busy="true">
