@@ -19,8 +19,11 @@ export function jobQueryToSearch(query: JobListQuery): string {
 
 export function useJobBoard(shopSlug: string, query: JobListQuery, initial?: { search: string; data: JobBoardPage }) {
   const search = jobQueryToSearch(query);
+  const fallbackData = initial && initial.search === search ? initial.data : undefined;
   return useSWR<JobBoardPage>(`/api/shops/${encodeURIComponent(shopSlug)}/jobs?${search}`, jsonFetcher, {
-    fallbackData: initial && initial.search === search ? initial.data : undefined,
+    fallbackData,
+    // The server already rendered this page: no second fetch on arrival, only on focus or change.
+    revalidateOnMount: !fallbackData,
     keepPreviousData: true,
     revalidateOnFocus: true,
   });

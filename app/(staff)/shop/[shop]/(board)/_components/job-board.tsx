@@ -177,7 +177,11 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
           }
         />
       ) : (
-        <div aria-busy={isValidating} className={clsx("transition-opacity", isValidating && "opacity-70")}>
+        <div aria-busy={isValidating}>
+          {/* Said in words, not by fading the table: faded text would fail contrast. */}
+          <p role="status" className="mb-2 min-h-5 text-sm text-ink-muted">
+            {isValidating ? "Updating…" : ""}
+          </p>
           {/* On a phone, one card per job reads better than a table scrolled sideways. */}
           <ul className="space-y-3 sm:hidden" aria-label="Jobs in this shop">
             {page.rows.map((row) => (

@@ -1,0 +1,50 @@
+import AxeBuilder from "@axe-core/playwright";
+import { type Page, expect, test } from "@playwright/test";
+import { type Persona, storageStatePath } from "./personas";
+
+// WCAG 2.2 AA (W3C Recommendation, 2023) through axe-core's rule tags; target-size (2.5.8)
+// only runs with the wcag22aa tag selected.
+const TAGS = ["wcag2a", "wcag2aa", "wcag21a", "wcag21aa", "wcag22aa"];
+
+async function expectNoViolations(page: Page) {
+  const { violations } = await new AxeBuilder({ page }).withTags(TAGS).analyze();
+  expect(violations.map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`)).toEqual([]);
+}
+
+const SCREENS: { name: string; path: string; as?: Persona }[] = [
+  { name: "landing", path: "/" },
+  { name: "sign-in", path: "/sign-in" },
+  { name: "job board", path: "/shop/copper-gulch", as: "owner" },
+  { name: "staff job page", path: "/shop/copper-gulch/jobs/2", as: "technician" },
+  { name: "owner's machines", path: "/my", as: "jobCustomer" },
+];
+
+for (const colorScheme of ["light", "dark"] as const) {
+  test.describe(`${colorScheme} mode`, () => {
+    test.use({ colorScheme });
+    for (const screen of SCREENS) {
+      test.describe(screen.name, () => {
+        if (screen.as) test.use({ storageState: storageStatePath(screen.as) });
+        test(`${screen.name} has no WCAG 2.2 AA violations axe can find`, async ({ page }) => {
+          await page.goto(screen.path);
+          await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
+          await expectNoViolations(page);
+        });
+      });
+    }
+
+    test("phone width: job board cards and sign-in reflow without sideways scrolling", async ({ browser }) => {
+      // WCAG 2.2 SC 1.4.10 Reflow: content at 320 CSS px wide without two-way scrolling.
+      const context = await browser.newContext({ viewport: { width: 320, height: 640 }, colorScheme, storageState: storageStatePath("owner") });
+      const page = await context.newPage();
+      for (const path of ["/shop/copper-gulch", "/sign-in"]) {
+        await page.goto(path);
+        await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
+        const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+        expect(overflow, path).toBeLessThanOrEqual(0);
+      }
+      await expectNoViolations(page);
+      await context.close();
+    });
+  });
+}
