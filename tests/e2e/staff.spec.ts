@@ -68,3 +68,16 @@ test("health check reports the database", async ({ request }) => {
   expect(res.status()).toBe(200);
   expect(await res.json()).toMatchObject({ db: "ok", mail: "ok" });
 });
+
+test("after five wrong passwords the account says to wait, even for the right one", async ({ page }) => {
+  // Wren's account is used by no other end-to-end test, so locking it affects nothing else.
+  const wren = { email: "wren@saltmarsh.test", password: "saltmarsh-demo" };
+  const signIn = new SignInPage(page);
+  for (let i = 0; i < 5; i++) {
+    await signIn.signInAsStaff(wren.email, `wrong-${i}`);
+    await expect(page.getByRole("main").getByRole("alert")).toContainText("That password doesn't match");
+  }
+  await signIn.signInAsStaff(wren.email, wren.password);
+  await expect(page.getByRole("main").getByRole("alert")).toContainText("Too many tries. Wait 15 minutes");
+  await expect(page).toHaveURL(/\/sign-in/);
+});
