@@ -1,4 +1,5 @@
 // `npm start`: everything a newcomer needs, in order, and a clean stop on Ctrl-C.
+// `npm start -- --dev` runs the same services with `next dev` (hot reload) instead of a build.
 import path from "node:path";
 import { ROOT, MARIADB, SetupError, assertPortFree, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, readDotEnv, say } from "./lib/setup.mjs";
 import { provisionDatabase } from "./lib/mariadb.mjs";
@@ -12,6 +13,7 @@ const DB_PORT = Number(setting("BENCHSIDE_DB_PORT", "3307"));
 const MAIL_PORT = Number(setting("MAIL_FAKE_PORT", "4010"));
 const DIR = path.join(ROOT, ".data", "dev");
 const appUrl = setting("APP_URL", `http://localhost:${PORT}`);
+const DEV = process.argv.includes("--dev");
 
 const run = new Run("start");
 
@@ -33,7 +35,7 @@ async function main() {
   const useMailFake = !setting("RESEND_API_KEY", "") || setting("RESEND_BASE_URL", "").includes("127.0.0.1");
   const env = {
     ...dotEnv,
-    NODE_ENV: "production",
+    NODE_ENV: DEV ? "development" : "production",
     NEXT_TELEMETRY_DISABLED: "1",
     PORT: String(PORT),
     APP_URL: appUrl,
@@ -55,11 +57,14 @@ async function main() {
     await waitForHttp(`http://127.0.0.1:${MAIL_PORT}/`, { label: "The mail fake" });
   }
 
-  say("start", "building the app (next build)…");
-  if ((await runToEnd("node", [bin.next, "build"], env)) !== 0) throw new SetupError("`next build` failed; see the errors above.");
-
-  run.serve("The app", "node", [bin.next, "start", "-p", String(PORT)], env);
-  await waitForHttp(`http://127.0.0.1:${PORT}/api/health`, { label: "The app" });
+  if (DEV) {
+    run.serve("The app (dev)", "node", [bin.next, "dev", "-p", String(PORT)], env);
+  } else {
+    say("start", "building the app (next build)…");
+    if ((await runToEnd("node", [bin.next, "build"], env)) !== 0) throw new SetupError("`next build` failed; see the errors above.");
+    run.serve("The app", "node", [bin.next, "start", "-p", String(PORT)], env);
+  }
+  await waitForHttp(`http://127.0.0.1:${PORT}/api/health`, { label: "The app", timeoutMs: DEV ? 180_000 : 60_000 });
 
   console.log(`\n  Benchside is up:  ${appUrl}`);
   if (useMailFake) console.log(`  Mail sent by the app:  http://127.0.0.1:${MAIL_PORT}/`);

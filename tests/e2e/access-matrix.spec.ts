@@ -97,8 +97,16 @@ for (const visitor of VISITORS) {
   });
 }
 
-test.describe("missing things", () => {
+test.describe("missing and malformed", () => {
   test.use({ storageState: storageStatePath("owner") });
+  test("a malformed job-list query is a 422 naming each bad field", async ({ page }) => {
+    const res = await page.request.get("/api/shops/copper-gulch/jobs?status=lost&pageSize=7&q=" + "x".repeat(200));
+    expect(res.status()).toBe(422);
+    const body = await res.json();
+    expect(body.error.code).toBe("invalid");
+    expect(Object.keys(body.error.fields).sort()).toEqual(["pageSize", "q", "status"]);
+  });
+
   test("a job number the shop doesn't have is a real 404", async ({ page }) => {
     expect((await page.goto("/shop/copper-gulch/jobs/999"))?.status()).toBe(404);
     expect((await page.goto("/shop/copper-gulch/jobs/not-a-number"))?.status()).toBe(404);
