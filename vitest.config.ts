@@ -11,6 +11,9 @@ export default defineConfig({
   },
   test: {
     environment: "node",
+    // next-auth imports "next/server" without an extension, which only a bundler resolves:
+    // let Vite handle it so server code that signs people in can be tested directly.
+    server: { deps: { inline: ["next-auth"] } },
     include: ["tests/unit/**/*.test.ts", "tests/integration/**/*.test.ts"],
     globalSetup: ["tests/support/global-setup.ts"],
     testTimeout: 20_000,

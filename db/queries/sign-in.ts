@@ -71,3 +71,10 @@ export async function redeemSignInLink({ tokenHash }: { tokenHash: string }): Pr
   if (!row) return { ok: false, reason: "unknown" };
   return { ok: false, reason: row.used_at ? "used" : "expired" };
 }
+
+/** Deletes attempts and used or expired links older than the longest limit window needs. */
+export async function pruneSignInRecords({ olderThanHours }: { olderThanHours: number }) {
+  const cutoff = db().raw("NOW() - INTERVAL ? HOUR", [olderThanHours]);
+  await db()("auth_attempts").where("created_at", "<", cutoff).delete();
+  await db()("sign_in_links").where("expires_at", "<", cutoff).delete();
+}

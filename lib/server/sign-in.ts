@@ -1,7 +1,7 @@
 import "server-only";
 import crypto from "node:crypto";
 import { claimCustomerRecords, countMemberships, getUserByEmail, isCustomerAddress, touchLastSignIn } from "@/db/queries/users";
-import { deleteSignInLink, insertSignInLink, redeemSignInLink, reserveAttempt, settleAttempt } from "@/db/queries/sign-in";
+import { deleteSignInLink, insertSignInLink, pruneSignInRecords, redeemSignInLink, reserveAttempt, settleAttempt } from "@/db/queries/sign-in";
 import { escapeHtml, sendMail } from "@/lib/server/mail";
 import { timingDecoyHash, verifyPassword } from "@/lib/server/password";
 import { appUrl } from "@/lib/server/config";
@@ -26,13 +26,13 @@ export const SIGN_IN_FAILURES = {
   "invalid-input": "Enter your e-mail address and password.",
   "unknown-email": "No shop account uses that e-mail address. Check it, or ask your shop owner to add you.",
   "wrong-password": "That password doesn't match this account. Check it and try again.",
-  "too-many-attempts": "Too many tries. Wait 15 minutes, then try again.",
+  "too-many-attempts": `Too many tries. Wait ${LIMITS.passwordFailuresPerEmail.minutes} minutes, then try again.`,
   "unknown-customer": "We don't have a job under that e-mail address. Use the address you gave the shop, or ask them to check it.",
-  "too-many-links": "We've sent several links to this address already. Use the newest one, or wait 15 minutes and ask again.",
+  "too-many-links": `We've sent several links already. Use the newest one, or wait ${LIMITS.linkRequestsPerEmail.minutes} minutes and ask again.`,
   "link-unknown": "This sign-in link isn't valid. Ask for a new one below.",
   "link-used": "This sign-in link has already been used. Each link works once; ask for a new one below.",
-  "link-expired": "This sign-in link has expired. Links last 20 minutes; ask for a new one below.",
-} as const;
+  "link-expired": `This sign-in link has expired. Links last ${LIMITS.linkTtlMinutes} minutes; ask for a new one below.`,
+};
 export type SignInFailureCode = keyof typeof SIGN_IN_FAILURES;
 
 export class SignInFailure extends Error {
@@ -41,7 +41,13 @@ export class SignInFailure extends Error {
   }
 }
 
+/** Now and then, forget attempts and links old enough to no longer matter to any limit. */
+async function housekeeping() {
+  if (Math.random() < 0.02) await pruneSignInRecords({ olderThanHours: 24 });
+}
+
 export async function checkPassword({ email, password, ip }: { email: string; password: string; ip: string }) {
+  await housekeeping();
   const byEmail = await reserveAttempt({ kind: "password", subject: email, limit: LIMITS.passwordFailuresPerEmail, counting: "failures" });
   const byIp = await reserveAttempt({ kind: "password", subject: `ip:${ip}`, limit: LIMITS.passwordFailuresPerIp, counting: "failures" });
   if (!byEmail.allowed || !byIp.allowed) throw new SignInFailure("too-many-attempts");
@@ -64,6 +70,7 @@ function hashToken(token: string): string {
 
 /** E-mails a one-time sign-in link to a machine owner (staff sign in with their password). */
 export async function requestSignInLink({ email, ip, next }: { email: string; ip: string; next?: string }) {
+  await housekeeping();
   // The network address is counted even for unknown e-mails, so addresses can't be probed in bulk.
   const byIp = await reserveAttempt({ kind: "link_request", subject: `ip:${ip}`, limit: LIMITS.linkRequestsPerIp, counting: "accepted" });
   if (!byIp.allowed) throw new SignInFailure("too-many-links");

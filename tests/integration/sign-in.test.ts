@@ -171,3 +171,18 @@ describe("owner sign-in links", () => {
     expect(await db("sign_in_links").where({ email }).count({ n: "*" }).first()).toEqual({ n: 0 });
   });
 });
+
+describe("housekeeping", () => {
+  it("forgets attempts and links older than a day, and keeps recent ones", async () => {
+    const { pruneSignInRecords } = await import("@/db/queries/sign-in");
+    const subject = `old.${shop.slug}@mail.test`;
+    await db("auth_attempts").insert([
+      { kind: "password", subject, succeeded: false, created_at: db.raw("NOW() - INTERVAL 25 HOUR") },
+      { kind: "password", subject, succeeded: false },
+    ]);
+    await db("sign_in_links").insert({ email: subject, token_hash: "f".repeat(64), expires_at: db.raw("NOW() - INTERVAL 25 HOUR") });
+    await pruneSignInRecords({ olderThanHours: 24 });
+    expect(await db("auth_attempts").where({ subject }).count({ n: "*" }).first()).toEqual({ n: 1 });
+    expect(await db("sign_in_links").where({ email: subject }).first()).toBeUndefined();
+  });
+});

@@ -1,5 +1,5 @@
 import { afterEach, describe, expect, it } from "vitest";
-import { clientIp } from "@/lib/server/auth";
+import { clientIp } from "@/lib/server/client-ip";
 
 // X-Forwarded-For: each proxy appends the address it received the request from
 // (RFC 7239 §5.2 describes the same chain for the standard Forwarded header).

@@ -5,7 +5,8 @@ import { AuthError } from "next-auth";
 import { formAction } from "@/lib/action";
 import { AppError } from "@/lib/errors";
 import { linkRequestSchema, linkTokenSchema, passwordSignInSchema } from "@/lib/schemas/auth";
-import { clientIp, signIn, signOut } from "@/lib/server/auth";
+import { signIn, signOut } from "@/lib/server/auth";
+import { clientIp } from "@/lib/server/client-ip";
 import { SIGN_IN_FAILURES, SignInFailure, type SignInFailureCode, requestSignInLink } from "@/lib/server/sign-in";
 import { z } from "zod";
 
