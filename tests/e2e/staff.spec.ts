@@ -1,4 +1,5 @@
 import { expect, test } from "@playwright/test";
+import mysql from "mysql2/promise";
 import { SignInPage } from "./pages/sign-in-page";
 import { STAFF } from "./personas";
 
@@ -80,4 +81,28 @@ test("after five wrong passwords the account says to wait, even for the right on
   await signIn.signInAsStaff(wren.email, wren.password);
   await expect(page.getByRole("main").getByRole("alert")).toContainText("Too many tries. Wait 15 minutes");
   await expect(page).toHaveURL(/\/sign-in/);
+});
+
+test("someone on the staff of two shops picks the shop, and each board shows only its own jobs", async ({ page }) => {
+  // Give Sam (Saltmarsh) a second membership, at Copper Gulch, for this test only.
+  const db = await mysql.createConnection(process.env.DATABASE_URL!);
+  await db.query(
+    "INSERT INTO memberships (shop_id, user_id, role) SELECT s.id, u.id, 'technician' FROM shops s, users u WHERE s.slug = 'copper-gulch' AND u.email = 'sam@saltmarsh.test'",
+  );
+  try {
+    await new SignInPage(page).signInAsStaff("sam@saltmarsh.test", "saltmarsh-demo");
+    await expect(page).toHaveURL(/\/shop$/);
+    await expect(page.getByRole("heading", { name: "Your shops" })).toBeVisible();
+    await page.getByRole("link", { name: /Copper Gulch Powersports/ }).click();
+    await expect(page.getByTestId("job-row")).toHaveCount(6);
+    await page.goto("/shop");
+    await page.getByRole("link", { name: /Saltmarsh Small Engine/ }).click();
+    await expect(page.getByTestId("job-row")).toHaveCount(2);
+    await expect(page.getByRole("table", { name: "Jobs in this shop" })).not.toContainText("Corvane");
+  } finally {
+    await db.query(
+      "DELETE m FROM memberships m JOIN shops s ON s.id = m.shop_id JOIN users u ON u.id = m.user_id WHERE s.slug = 'copper-gulch' AND u.email = 'sam@saltmarsh.test'",
+    );
+    await db.end();
+  }
 });
