@@ -161,11 +161,11 @@ export async function listStatusChanges({ shopId, jobId }: { shopId: number; job
 }
 
 /** Hands out the shop's next job number inside the caller's transaction (row lock on the shop). */
-export async function allocateJobNumber(trx: Knex.Transaction, shopId: number): Promise<number> {
-  const shop = await trx("shops").where({ id: shopId }).forUpdate().first("next_job_number");
+export async function allocateJobNumber(tx: Knex.Transaction, shopId: number): Promise<number> {
+  const shop = await tx("shops").where({ id: shopId }).forUpdate().first("next_job_number");
   if (!shop) throw new Error(`shop ${shopId} not found`);
   const number = Number(shop.next_job_number);
-  await trx("shops").where({ id: shopId }).update({ next_job_number: number + 1 });
+  await tx("shops").where({ id: shopId }).update({ next_job_number: number + 1 });
   return number;
 }
 

@@ -49,17 +49,17 @@ export async function isCustomerAddress({ email }: { email: string }): Promise<b
  * INSERT IGNORE, so two first sign-ins at the same moment both end with the one user.
  */
 export async function claimCustomerRecords({ email }: { email: string }) {
-  return db().transaction(async (trx) => {
-    const customer = await trx("customers").where({ email }).orderBy("created_at", "desc").first("name");
-    await trx("users")
+  return db().transaction(async (tx) => {
+    const customer = await tx("customers").where({ email }).orderBy("created_at", "desc").first("name");
+    await tx("users")
       .insert({ email, name: customer?.name ?? email.split("@")[0] })
       .onConflict("email")
       .ignore();
     // A locking read sees the row even when another sign-in inserted it after this
     // transaction's snapshot was taken (a plain read would not, under REPEATABLE READ).
-    const user = await trx("users").where({ email }).forUpdate().first("id", "name");
-    await trx("customers").where({ email }).whereNull("user_id").update({ user_id: user.id });
-    await trx("users").where({ id: user.id }).update({ last_sign_in_at: trx.fn.now() });
+    const user = await tx("users").where({ email }).forUpdate().first("id", "name");
+    await tx("customers").where({ email }).whereNull("user_id").update({ user_id: user.id });
+    await tx("users").where({ id: user.id }).update({ last_sign_in_at: tx.fn.now() });
     return { id: Number(user.id), email, name: String(user.name) };
   });
 }

@@ -184,28 +184,28 @@ export async function seedDemo(knex: Knex): Promise<void> {
   const hashes = new Map<string, string>();
   for (const person of allStaff) if (person.password && !hashes.has(person.email)) hashes.set(person.email, await bcrypt.hash(person.password, 12));
 
-  await knex.transaction(async (trx) => {
+  await knex.transaction(async (tx) => {
     const userIds = new Map<string, number>();
     const userFor = async (person: Person, withPassword: boolean) => {
       const known = userIds.get(person.email);
       if (known) return known;
-      const [id] = await trx("users").insert({ email: person.email, name: person.name, password_hash: withPassword ? hashes.get(person.email) : null });
+      const [id] = await tx("users").insert({ email: person.email, name: person.name, password_hash: withPassword ? hashes.get(person.email) : null });
       userIds.set(person.email, Number(id));
       return Number(id);
     };
 
     for (const shop of SHOPS) {
-      const [shopId] = await trx("shops").insert({ slug: shop.slug, name: shop.name, email: shop.email, phone: shop.phone, timezone: shop.timezone });
+      const [shopId] = await tx("shops").insert({ slug: shop.slug, name: shop.name, email: shop.email, phone: shop.phone, timezone: shop.timezone });
       for (const person of shop.staff) {
-        await trx("memberships").insert({ shop_id: shopId, user_id: await userFor(person, true), role: person.role });
+        await tx("memberships").insert({ shop_id: shopId, user_id: await userFor(person, true), role: person.role });
       }
       const customerIds = new Map<string, { id: number; machines: number[] }>();
       for (const c of shop.customers) {
         // A customer who already has an account (here: a staff member elsewhere) is linked now.
-        const [customerId] = await trx("customers").insert({ shop_id: shopId, user_id: userIds.get(c.email) ?? null, name: c.name, email: c.email, phone: c.phone });
+        const [customerId] = await tx("customers").insert({ shop_id: shopId, user_id: userIds.get(c.email) ?? null, name: c.name, email: c.email, phone: c.phone });
         const machineIds: number[] = [];
         for (const m of c.machines) {
-          const [machineId] = await trx("machines").insert({
+          const [machineId] = await tx("machines").insert({
             shop_id: shopId,
             customer_id: customerId,
             kind: m.kind,
@@ -229,7 +229,7 @@ export async function seedDemo(knex: Knex): Promise<void> {
         const started = daysFromNow(-job.startedDaysAgo);
         const status = job.path[job.path.length - 1]!;
         const deskUser = userIds.get(shop.staff.find((s) => s.role !== "technician")!.email)!;
-        const [jobId] = await trx("jobs").insert({
+        const [jobId] = await tx("jobs").insert({
           shop_id: shopId,
           number: number++,
           public_id: crypto.randomBytes(12).toString("base64url"),
@@ -246,7 +246,7 @@ export async function seedDemo(knex: Knex): Promise<void> {
         // The status history walks the path a step per day (the same day for today's check-in).
         let previous: JobStatus | null = null;
         for (const [i, to] of job.path.entries()) {
-          await trx("job_status_changes").insert({
+          await tx("job_status_changes").insert({
             shop_id: shopId,
             job_id: jobId,
             from_status: previous,
@@ -257,7 +257,7 @@ export async function seedDemo(knex: Knex): Promise<void> {
           previous = to;
         }
       }
-      await trx("shops").where({ id: shopId }).update({ next_job_number: number });
+      await tx("shops").where({ id: shopId }).update({ next_job_number: number });
     }
   });
 }

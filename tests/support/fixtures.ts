@@ -39,7 +39,7 @@ export async function makeCustomerWithJobs(
   });
   const jobIds: number[] = [];
   for (const status of opts.statuses) {
-    const number = await db.transaction((trx) => allocateJobNumber(trx, shopId));
+    const number = await db.transaction((tx) => allocateJobNumber(tx, shopId));
     const [jobId] = await db("jobs").insert({
       shop_id: shopId,
       number,
