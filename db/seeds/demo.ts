@@ -170,13 +170,19 @@ const SHOPS: ShopSeed[] = [
 ];
 
 const HOUR = 3_600_000;
-/** A moment `days` from now at `hour` UTC, never later than a minute ago (history can't be in the future). */
-const daysFromNow = (days: number, hour = 9) => {
+/**
+ * A moment `days` from now at `hour` UTC (15:00 UTC is morning in both demo shops' zones),
+ * never later than a minute ago: history can't be in the future.
+ */
+const daysFromNow = (days: number, hour = 15) => {
   const d = new Date();
   d.setUTCDate(d.getUTCDate() + days);
   d.setUTCHours(hour, 0, 0, 0);
   return days <= 0 ? new Date(Math.min(d.getTime(), Date.now() - HOUR / 60)) : d;
 };
+
+/** The calendar date `days` from today on the shop's wall (YYYY-MM-DD), as the board compares it. */
+const calendarDay = (days: number, timeZone: string) => new Intl.DateTimeFormat("en-CA", { timeZone }).format(new Date(Date.now() + days * 24 * HOUR));
 
 export async function seedDemo(knex: Knex): Promise<void> {
   // Hashing outside the transaction keeps row locks short.
@@ -237,11 +243,11 @@ export async function seedDemo(knex: Knex): Promise<void> {
           machine_id: customer.machines[job.machine],
           status,
           concern: job.concern,
-          promised_on: job.promisedInDays == null ? null : daysFromNow(job.promisedInDays).toISOString().slice(0, 10),
+          promised_on: job.promisedInDays == null ? null : calendarDay(job.promisedInDays, shop.timezone),
           technician_user_id: job.technician ? userIds.get(job.technician) : null,
           created_by_user_id: deskUser,
           created_at: started,
-          updated_at: daysFromNow(-job.startedDaysAgo + job.path.length - 1, 9 + job.path.length),
+          updated_at: daysFromNow(-job.startedDaysAgo + job.path.length - 1, 15 + job.path.length),
         });
         // The status history walks the path a step per day (the same day for today's check-in).
         let previous: JobStatus | null = null;
@@ -252,7 +258,7 @@ export async function seedDemo(knex: Knex): Promise<void> {
             from_status: previous,
             to_status: to,
             changed_by_user_id: i === 0 ? deskUser : (job.technician ? userIds.get(job.technician) : deskUser),
-            changed_at: daysFromNow(-job.startedDaysAgo + i, 9 + i),
+            changed_at: daysFromNow(-job.startedDaysAgo + i, 15 + i),
           });
           previous = to;
         }

@@ -58,15 +58,14 @@ export default async function StaffJobPage({ params }: Props) {
       <Card as="section" title="Status history">
         <ol className="space-y-3">
           {history.map((h) => (
-            <li key={h.id} className="flex flex-wrap items-center gap-x-3 gap-y-1">
-              <time dateTime={h.at.toISOString()} className="w-44 text-sm text-ink-muted">
-                {at.format(h.at)}
-              </time>
-              <span>
+            <li key={h.id} className="border-l-2 border-line pl-3">
+              <div className="text-sm text-ink-muted">
+                <time dateTime={h.at.toISOString()}>{at.format(h.at)}</time> · {h.by ?? "a former user"}
+              </div>
+              <div>
                 {h.from ? `${JOB_STATUS_LABEL[h.from]} → ` : ""}
                 <strong>{JOB_STATUS_LABEL[h.to]}</strong>
-              </span>
-              <span className="text-sm text-ink-muted">by {h.by ?? "a former user"}</span>
+              </div>
             </li>
           ))}
         </ol>
