@@ -7,7 +7,8 @@ export type AttemptKind = "password" | "link_request" | "link_use";
  * Records an attempt first and counts after, so of any number of simultaneous attempts at
  * most `limit.max` go ahead: each one counts every attempt recorded before it.
  * `counting` says what uses up the limit: failures (passwords, link clicks) or every
- * request that went ahead (sign-in e-mails). A refused request doesn't use up the limit.
+ * request that went ahead (sign-in e-mails). A refused e-mail request doesn't use up the
+ * limit; a refused password try still counts as a failure, so guessing on keeps the lock.
  */
 export async function reserveAttempt({
   kind,

@@ -44,7 +44,7 @@ function mariadbAnswers(dir) {
   }
 }
 
-/** Starts a private mariadbd on 127.0.0.1:port with its files in `dir`; returns a stop function. */
+/** Starts a private mariadbd on 127.0.0.1:port with its files in `dir` (or finds it already up); stop it with stopMariadb. */
 export async function startMariadb(dir, port) {
   const p = mariadbPaths(dir);
   fs.mkdirSync(dir, { recursive: true });
@@ -52,7 +52,7 @@ export async function startMariadb(dir, port) {
     const pid = Number(fs.readFileSync(p.pidFile, "utf8"));
     if (pid && isAlive(pid) && mariadbAnswers(dir)) {
       say("db", `MariaDB already running for ${path.relative(ROOT, dir)} (process ${pid})`);
-      return async () => stopMariadb(dir);
+      return;
     }
   }
   if (!fs.existsSync(path.join(p.datadir, "mysql"))) {
@@ -91,13 +91,13 @@ export async function startMariadb(dir, port) {
   for (let i = 0; i < 120; i++) {
     if (mariadbAnswers(dir)) {
       say("db", `MariaDB listening on 127.0.0.1:${port}`);
-      return async () => stopMariadb(dir);
+      return;
     }
     if (exited) break;
     await sleep(500);
   }
   const tail = fs.existsSync(p.errorLog) ? fs.readFileSync(p.errorLog, "utf8").trim().split("\n").slice(-3).join(" | ") : "";
-  throw new SetupError(`MariaDB did not start on port ${port} (is the port taken?); see ${p.errorLog}: ${tail}`);
+  throw new SetupError(`MariaDB did not start on port ${port}; see ${p.errorLog}: ${tail}`);
 }
 
 export async function stopMariadb(dir) {

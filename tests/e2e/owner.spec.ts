@@ -1,7 +1,6 @@
 import { expect, test } from "@playwright/test";
 import mysql from "mysql2/promise";
-import { SignInPage, mailBaseUrl } from "./pages/sign-in-page";
-import { waitForMail } from "../support/mailbox";
+import { SignInPage } from "./pages/sign-in-page";
 
 test("a machine owner signs in through the e-mailed link and sees only their own jobs", async ({ page }) => {
   const signIn = new SignInPage(page);
@@ -26,11 +25,8 @@ test("a machine owner signs in through the e-mailed link and sees only their own
 });
 
 test("an address the shops don't know gets a clear answer, and no e-mail", async ({ page }) => {
-  const signIn = new SignInPage(page);
-  await signIn.open();
+  await new SignInPage(page).askForLink("someone.else@mail.test");
   const owners = page.getByRole("region", { name: "Machine owners" });
-  await owners.getByLabel("E-mail you gave the shop").fill("someone.else@mail.test");
-  await owners.getByRole("button", { name: "E-mail me a sign-in link" }).click();
   await expect(owners.getByText("We don't have a job under that e-mail address")).toBeVisible();
 });
 
@@ -45,19 +41,13 @@ test("a link sign-in opens the owner's area only, even for someone who is also s
 });
 
 test("an expired link says so and offers a new one", async ({ page }) => {
-  const signIn = new SignInPage(page);
   // Ask for a link, then let 20 minutes pass in the database.
-  const since = new Date();
-  await signIn.open();
-  const owners = page.getByRole("region", { name: "Machine owners" });
-  await owners.getByLabel("E-mail you gave the shop").fill("imani.reyes@mail.test");
-  await owners.getByRole("button", { name: "E-mail me a sign-in link" }).click();
-  const message = await waitForMail({ baseUrl: mailBaseUrl(), to: "imani.reyes@mail.test", since, subjectIncludes: "sign-in link" });
+  const link = await new SignInPage(page).requestLink("imani.reyes@mail.test");
   const db = await mysql.createConnection(process.env.DATABASE_URL!);
   await db.query("UPDATE sign_in_links SET expires_at = NOW() - INTERVAL 1 MINUTE WHERE email = ?", ["imani.reyes@mail.test"]);
   await db.end();
 
-  await page.goto(message.links.find((l) => l.includes("/sign-in/link?token="))!);
+  await page.goto(link);
   await page.getByRole("button", { name: "Sign in and see my jobs" }).click();
   await expect(page.getByRole("main").getByRole("alert")).toContainText("This sign-in link has expired");
   await page.getByRole("link", { name: "Ask for a new link" }).click();

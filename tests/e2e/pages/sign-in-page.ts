@@ -24,20 +24,31 @@ export class SignInPage {
     await this.staff().getByRole("button", { name: "Sign in" }).click();
   }
 
-  /** Asks for a link, reads it from the mail fake, follows it and confirms. */
-  async signInAsOwner(email: string) {
-    const since = new Date();
+  /** Fills the machine owners' form and presses the button (the answer is left to the caller). */
+  async askForLink(email: string) {
     await this.open();
     await this.owners().getByLabel("E-mail you gave the shop").fill(email);
     await this.owners().getByRole("button", { name: "E-mail me a sign-in link" }).click();
+  }
+
+  /** Asks for a link and reads it from the mail fake. */
+  async requestLink(email: string): Promise<string> {
+    const since = new Date();
+    await this.askForLink(email);
     await expect(this.page.getByRole("heading", { name: "Check your e-mail" })).toBeVisible();
     const message = await waitForMail({ baseUrl: mailBaseUrl(), to: email, since, subjectIncludes: "sign-in link" });
     const link = message.links.find((l) => l.includes("/sign-in/link?token="));
     expect(link, "the e-mail carries a sign-in link").toBeTruthy();
-    await this.page.goto(link!);
+    return link!;
+  }
+
+  /** Asks for a link, follows it and confirms. */
+  async signInAsOwner(email: string) {
+    const link = await this.requestLink(email);
+    await this.page.goto(link);
     await this.page.getByRole("button", { name: "Sign in and see my jobs" }).click();
     await this.page.waitForURL((url) => !url.pathname.startsWith("/sign-in"));
-    return link!;
+    return link;
   }
 }
 
