@@ -8,7 +8,8 @@ declare module "vitest" {
   }
 }
 
-const NAME = "benchside_test_vitest";
+// VITEST_DB_NAME lets two runs share one MariaDB without dropping each other's database.
+const NAME = process.env.VITEST_DB_NAME ?? "benchside_test_vitest";
 
 /** One migrated database for the integration tests of this run; each test file makes its own shops in it. */
 export default async function setup(project: TestProject) {
