@@ -8,6 +8,7 @@ export const ERROR_STATUS = {
   forbidden: 403,
   not_found: 404,
   conflict: 409,
+  too_large: 413,
   invalid: 422,
   rate_limited: 429,
   internal: 500,

@@ -27,3 +27,31 @@ export const OPEN_STATUSES: readonly JobStatus[] = JOB_STATUSES.filter((s) => s 
 export function isJobStatus(value: unknown): value is JobStatus {
   return typeof value === "string" && (JOB_STATUSES as readonly string[]).includes(value);
 }
+
+/**
+ * Where a job may go next. A job can loop between diagnosing, waiting and bench work as often as
+ * the work needs; once collected it is closed (a comeback is a new job). Our own workflow rule.
+ */
+export const NEXT_STATUSES: Record<JobStatus, readonly JobStatus[]> = {
+  checked_in: ["inspecting", "waiting_approval", "in_progress"],
+  inspecting: ["waiting_approval", "waiting_parts", "in_progress", "ready"],
+  waiting_approval: ["inspecting", "waiting_parts", "in_progress", "ready"],
+  waiting_parts: ["inspecting", "waiting_approval", "in_progress"],
+  in_progress: ["inspecting", "waiting_approval", "waiting_parts", "ready"],
+  ready: ["in_progress", "picked_up"],
+  picked_up: [],
+};
+
+export function canMoveStatus(from: JobStatus, to: JobStatus): boolean {
+  return NEXT_STATUSES[from].includes(to);
+}
+
+/** The message shown when someone asks for a move the rules don't allow. */
+export function statusMoveError(from: JobStatus, to: JobStatus): string | null {
+  if (from === to) return `The job is already "${JOB_STATUS_LABEL[to]}".`;
+  if (canMoveStatus(from, to)) return null;
+  const options = NEXT_STATUSES[from].map((s) => `"${JOB_STATUS_LABEL[s]}"`);
+  return options.length
+    ? `A job that is "${JOB_STATUS_LABEL[from]}" can't go straight to "${JOB_STATUS_LABEL[to]}". It can go to ${options.join(", ")}.`
+    : `A job that is "${JOB_STATUS_LABEL[from]}" is closed; check the machine in again as a new job.`;
+}

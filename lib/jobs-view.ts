@@ -1,6 +1,7 @@
 // The job board's rows as sent to the browser (JSON-safe), shared by the page and the API.
 import type { JobStatus } from "@/lib/job-status";
 import { describeMachine } from "@/lib/machine";
+import type { JobAttention } from "@/lib/schemas/jobs";
 
 export type JobBoardRow = {
   number: number;
@@ -39,7 +40,35 @@ export function toBoardRow(job: {
   };
 }
 
+/** Statuses in which a passed promised date no longer counts against the shop. */
+export const DONE_STATUSES: readonly JobStatus[] = ["ready", "picked_up"];
+
 /** Overdue: still in the shop after the promised date (compared as calendar dates, YYYY-MM-DD). */
 export function isOverdue(row: { status: JobStatus; promisedOn: string | null }, today: string): boolean {
-  return row.promisedOn != null && row.status !== "ready" && row.status !== "picked_up" && row.promisedOn < today;
+  return row.promisedOn != null && !DONE_STATUSES.includes(row.status) && row.promisedOn < today;
+}
+
+/** Whole calendar days past the promised date, or null when the job is not overdue. */
+export function daysOverdue(row: { status: JobStatus; promisedOn: string | null }, today: string): number | null {
+  if (!isOverdue(row, today)) return null;
+  // Both are calendar dates: read them as UTC midnights so no clock change skews the count.
+  return Math.round((Date.parse(`${today}T00:00:00Z`) - Date.parse(`${row.promisedOn}T00:00:00Z`)) / 86_400_000);
+}
+
+/** Why a job needs someone to act, the same tests the board's quick filters apply in SQL. */
+export function jobAttention(row: { status: JobStatus; promisedOn: string | null }, today: string): JobAttention[] {
+  const out: JobAttention[] = [];
+  if (isOverdue(row, today)) out.push("overdue");
+  if (row.status === "waiting_parts") out.push("waiting_parts");
+  return out;
+}
+
+export function overdueLabel(days: number): string {
+  return `Overdue ${days} ${days === 1 ? "day" : "days"}`;
+}
+
+/** Today's date on the shop's wall calendar (YYYY-MM-DD) in its IANA time zone. */
+export function shopToday(timeZone: string, now: Date = new Date()): string {
+  // en-CA formats dates as YYYY-MM-DD.
+  return new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).format(now);
 }

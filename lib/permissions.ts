@@ -23,6 +23,10 @@ export const PERMISSIONS = {
   "job:check-in": ["owner", "service_writer", "technician"],
   "job:change-status": ["owner", "service_writer", "technician"],
   "job:assign": ["owner", "service_writer"],
+  "journal:view-shop-only": ["owner", "service_writer", "technician"],
+  "journal:post": ["owner", "service_writer", "technician"],
+  // Edit, share or delete someone else's entry (authors always may change their own).
+  "journal:moderate": ["owner"],
   "customer:view": ["owner", "service_writer", "technician"],
   "customer:edit": ["owner", "service_writer"],
 } as const satisfies Record<string, readonly Role[]>;

@@ -2,6 +2,7 @@ import type { Knex } from "knex";
 import * as shopsUsers from "./20261201_01_shops_users";
 import * as customersMachinesJobs from "./20261201_02_customers_machines_jobs";
 import * as signIn from "./20261201_03_sign_in";
+import * as journal from "./20261202_04_journal";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -11,6 +12,7 @@ const MIGRATIONS: Migration[] = [
   { name: "20261201_01_shops_users", module: shopsUsers },
   { name: "20261201_02_customers_machines_jobs", module: customersMachinesJobs },
   { name: "20261201_03_sign_in", module: signIn },
+  { name: "20261202_04_journal", module: journal },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

@@ -4,6 +4,7 @@ import type { Knex } from "knex";
 import { db } from "@/lib/server/db";
 import type { JobStatus } from "@/lib/job-status";
 import type { MachineKind } from "@/lib/machine";
+import { DONE_STATUSES, shopToday } from "@/lib/jobs-view";
 import type { JobListQuery } from "@/lib/schemas/jobs";
 
 export type JobRow = {
@@ -13,6 +14,7 @@ export type JobRow = {
   publicId: string;
   status: JobStatus;
   concern: string;
+  intakeNotes: string | null;
   promisedOn: string | null;
   createdAt: Date;
   updatedAt: Date;
@@ -32,6 +34,7 @@ const JOB_COLUMNS = [
   "j.public_id",
   "j.status",
   "j.concern",
+  "j.intake_notes",
   "j.promised_on",
   "j.created_at",
   "j.updated_at",
@@ -55,6 +58,7 @@ function toJob(r: RawJob): JobRow {
     publicId: String(r.public_id),
     status: r.status as JobStatus,
     concern: String(r.concern),
+    intakeNotes: (r.intake_notes as string | null) ?? null,
     promisedOn: (r.promised_on as string | null) ?? null,
     createdAt: r.created_at as Date,
     updatedAt: r.updated_at as Date,
@@ -87,10 +91,23 @@ const SORT_COLUMNS: Record<JobListQuery["sort"], string> = {
   updated: "j.updated_at",
 };
 
-/** One page of a shop's jobs. Every query here is scoped by shop_id first. */
-export async function listJobs({ shopId, query }: { shopId: number; query: JobListQuery }) {
+/**
+ * One page of a shop's jobs. Every query here is scoped by shop_id first. `today` is the
+ * shop's calendar date (YYYY-MM-DD, see shopToday) that decides what is overdue; UTC if left out.
+ */
+export async function listJobs({ shopId, query, today = shopToday("UTC") }: { shopId: number; query: JobListQuery; today?: string }) {
   const base = jobsWithDetails(db()).where("j.shop_id", shopId);
   if (query.status.length) base.whereIn("j.status", query.status);
+  if (query.attention.length) {
+    // Any of the chosen quick filters; both ride the (shop_id, status, promised_on) and
+    // (shop_id, promised_on) indexes, no per-row work.
+    base.where((w) => {
+      if (query.attention.includes("overdue")) {
+        w.orWhere((o) => o.where("j.promised_on", "<", today).whereNotIn("j.status", DONE_STATUSES));
+      }
+      if (query.attention.includes("waiting_parts")) w.orWhere("j.status", "waiting_parts");
+    });
+  }
   if (query.technician) base.where("j.technician_user_id", query.technician);
   if (query.q) {
     const q = query.q;

@@ -17,7 +17,18 @@ export const DEMO_PASSWORDS = {
 type Person = { email: string; name: string; password?: string };
 type Staff = Person & { role: StaffRole };
 type MachineSeed = { kind: MachineKind; year: number; make: string; model: string; engineCc: number; serial: string; hours?: number; odometer?: number };
-type JobSeed = { customer: string; machine: number; path: JobStatus[]; concern: string; promisedInDays: number | null; technician: string | null; startedDaysAgo: number };
+/** A journal note: `day` counts from check-in, `text` is its paragraphs. */
+type NoteSeed = { day: number; hour: number; text: string[]; shared: boolean };
+type JobSeed = {
+  customer: string;
+  machine: number;
+  path: JobStatus[];
+  concern: string;
+  promisedInDays: number | null;
+  technician: string | null;
+  startedDaysAgo: number;
+  notes?: NoteSeed[];
+};
 type ShopSeed = {
   slug: string;
   name: string;
@@ -82,6 +93,10 @@ const SHOPS: ShopSeed[] = [
         promisedInDays: -1,
         technician: "mateo@coppergulch.test",
         startedDaysAgo: 9,
+        notes: [
+          { day: 1, hour: 16, shared: false, text: ["Valve cover off. Cam chain tensioner plunger is at the last notch.", "Chain measured over 20 pins: past the limit in our spec sheet. Guides look glazed."] },
+          { day: 1, hour: 17, shared: true, text: ["Top end opened up. The rattle is the cam chain: it has stretched and the tensioner has run out of travel. We'll send you the options before going further."] },
+        ],
       },
       {
         customer: "imani.reyes@mail.test",
@@ -109,6 +124,10 @@ const SHOPS: ShopSeed[] = [
         promisedInDays: 5,
         technician: "mateo@coppergulch.test",
         startedDaysAgo: 2,
+        notes: [
+          { day: 1, hour: 16, shared: true, text: ["Front left CV boot is split and the joint clicks at full lock. Grease has been thrown over the knuckle."] },
+          { day: 1, hour: 17, shared: false, text: ["Check whether the parts counter has an axle in stock before we quote."] },
+        ],
       },
       {
         customer: "jonah.pike@mail.test",
@@ -249,19 +268,26 @@ export async function seedDemo(knex: Knex): Promise<void> {
           created_at: started,
           updated_at: daysFromNow(-job.startedDaysAgo + job.path.length - 1, 15 + job.path.length),
         });
-        // The status history walks the path a step per day (the same day for today's check-in).
+        // The status history walks the path a step per day (the same day for today's check-in);
+        // each step is also a shared timeline entry, as a live status change is. Entries go in
+        // in time order, since the timeline is ordered by posting order.
         let previous: JobStatus | null = null;
+        const techId = job.technician ? userIds.get(job.technician)! : deskUser;
+        const entries: Record<string, unknown>[] = [];
         for (const [i, to] of job.path.entries()) {
-          await tx("job_status_changes").insert({
-            shop_id: shopId,
-            job_id: jobId,
-            from_status: previous,
-            to_status: to,
-            changed_by_user_id: i === 0 ? deskUser : (job.technician ? userIds.get(job.technician) : deskUser),
-            changed_at: daysFromNow(-job.startedDaysAgo + i, 15 + i),
-          });
+          const at = daysFromNow(-job.startedDaysAgo + i, 15 + i);
+          const by = i === 0 ? deskUser : techId;
+          await tx("job_status_changes").insert({ shop_id: shopId, job_id: jobId, from_status: previous, to_status: to, changed_by_user_id: by, changed_at: at });
+          entries.push({ kind: "status", visibility: "shared", author_user_id: by, body: JSON.stringify({ from: previous, to, note: null }), created_at: at, shared_at: at });
           previous = to;
         }
+        for (const note of job.notes ?? []) {
+          const at = daysFromNow(-job.startedDaysAgo + note.day, note.hour);
+          const body = { type: "doc", content: note.text.map((text) => ({ type: "paragraph", content: [{ type: "text", text }] })) };
+          entries.push({ kind: "note", visibility: note.shared ? "shared" : "shop", author_user_id: techId, body: JSON.stringify(body), created_at: at, shared_at: note.shared ? at : null });
+        }
+        entries.sort((a, b) => (a.created_at as Date).getTime() - (b.created_at as Date).getTime());
+        for (const entry of entries) await tx("journal_entries").insert({ shop_id: shopId, job_id: jobId, ...entry });
       }
       await tx("shops").where({ id: shopId }).update({ next_job_number: number });
     }

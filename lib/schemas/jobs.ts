@@ -4,22 +4,31 @@ import { JOB_STATUSES } from "@/lib/job-status";
 export const JOB_SORTS = ["number", "status", "promised", "customer", "updated"] as const;
 export const PAGE_SIZES = [10, 25, 50, 100] as const;
 
-const statusList = z
-  .union([z.enum(JOB_STATUSES), z.array(z.enum(JOB_STATUSES)), z.string()])
-  .transform((v, ctx) => {
+/** A list in a query string: repeated keys or comma-separated, known values only, no duplicates. */
+function listParam<const T extends readonly [string, ...string[]]>(values: T, unknownLabel: string) {
+  return z.union([z.enum(values), z.array(z.enum(values)), z.string()]).transform((v, ctx) => {
     const list = Array.isArray(v) ? v : v.split(",").filter(Boolean);
-    const bad = list.filter((s) => !(JOB_STATUSES as readonly string[]).includes(s));
+    const bad = list.filter((s) => !(values as readonly string[]).includes(s));
     if (bad.length) {
-      ctx.addIssue({ code: "custom", message: `Unknown status: ${bad.join(", ")}` });
+      ctx.addIssue({ code: "custom", message: `${unknownLabel}: ${bad.join(", ")}` });
       return z.NEVER;
     }
-    return [...new Set(list)] as (typeof JOB_STATUSES)[number][];
+    return [...new Set(list)] as T[number][];
   });
+}
+
+/**
+ * Quick filters for jobs that need someone to act: past their promised date while still in
+ * the shop, or held up waiting on parts. Several together show jobs with any of them.
+ */
+export const JOB_ATTENTION = ["overdue", "waiting_parts"] as const;
+export type JobAttention = (typeof JOB_ATTENTION)[number];
 
 /** Query of the shop's job table (search params of the page and of GET /api/shops/[shop]/jobs). */
 export const jobListQuerySchema = z.object({
   q: z.string().trim().max(100, "Search is limited to 100 characters").optional().default(""),
-  status: statusList.optional().default([]),
+  status: listParam(JOB_STATUSES, "Unknown status").optional().default([]),
+  attention: listParam(JOB_ATTENTION, "Unknown quick filter").optional().default([]),
   technician: z.coerce.number().int().positive().optional(),
   sort: z.enum(JOB_SORTS).optional().default("updated"),
   dir: z.enum(["asc", "desc"]).optional().default("desc"),

@@ -14,3 +14,11 @@ export async function jsonFetcher<T>(url: string): Promise<T> {
   if (!res.ok) throw new FetchError(body?.error?.message ?? `Request failed (${res.status})`, res.status);
   return body as T;
 }
+
+/** For writes from client components: JSON in, JSON out, the route's own error message on failure. */
+export async function sendJson<T>(url: string, method: "POST" | "PATCH" | "DELETE", body: unknown): Promise<T> {
+  const res = await fetch(url, { method, headers: { "content-type": "application/json", accept: "application/json" }, body: JSON.stringify(body) });
+  const data = (await res.json().catch(() => null)) as { error?: { message?: string } } | null;
+  if (!res.ok) throw new FetchError(data?.error?.message ?? `Request failed (${res.status})`, res.status);
+  return data as T;
+}

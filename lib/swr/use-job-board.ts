@@ -9,6 +9,7 @@ export function jobQueryToSearch(query: JobListQuery): string {
   const p = new URLSearchParams();
   if (query.q) p.set("q", query.q);
   if (query.status.length) p.set("status", query.status.join(","));
+  if (query.attention.length) p.set("attention", query.attention.join(","));
   if (query.technician) p.set("technician", String(query.technician));
   if (query.sort !== "updated") p.set("sort", query.sort);
   if (query.dir !== "desc") p.set("dir", query.dir);

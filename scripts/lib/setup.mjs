@@ -53,6 +53,7 @@ export function ensureNodeModules() {
 
 export const MARIADB = { name: "mariadb-server", binaries: ["/usr/sbin/mariadbd", "/usr/bin/mariadb-install-db", "/usr/bin/mariadb"] };
 export const CHROMIUM = { name: "chromium", binaries: ["/usr/bin/chromium"] };
+export const FFMPEG = { name: "ffmpeg", binaries: ["/usr/bin/ffmpeg", "/usr/bin/ffprobe"] };
 
 export function ensureDebianPackages(packages) {
   const missing = packages.filter((p) => p.binaries.some((b) => !fs.existsSync(b)));

@@ -3,8 +3,9 @@ import mysql from "mysql2/promise";
 import { type Persona, storageStatePath } from "./personas";
 
 // Every page and route handler of the shop and owner areas × every kind of visitor.
-// "in" = the visitor gets the thing; "sign-in" = sent to sign in; "403" = refused.
-type Outcome = "in" | "sign-in" | "403";
+// "in" = the visitor gets the thing; "sign-in" = sent to sign in; "403" = refused;
+// "404" = answered as if it didn't exist (job and photo ids can't be probed).
+type Outcome = "in" | "sign-in" | "403" | "404";
 type Visitor = "anonymous" | Persona;
 
 const VISITORS: Visitor[] = ["anonymous", "owner", "writer", "technician", "otherShopTechnician", "jobCustomer", "otherCustomer"];
@@ -51,11 +52,19 @@ const TARGETS: { name: string; kind: "page" | "api"; path: () => string; expect:
     path: () => "/api/shops/copper-gulch/jobs",
     expect: STAFF_OF_THE_SHOP,
   },
+  { name: "check-in page", kind: "page", path: () => "/shop/copper-gulch/jobs/new", expect: STAFF_OF_THE_SHOP },
+  { name: "check-in owner search API", kind: "api", path: () => "/api/shops/copper-gulch/customers?q=Calloway", expect: STAFF_OF_THE_SHOP },
   {
     name: "owner's job page",
     kind: "page",
     path: () => customerJobPath,
     expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
+  },
+  {
+    name: "job timeline API",
+    kind: "api",
+    path: () => `/api/jobs/${customerJobPath.split("/").pop()}/timeline`,
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "404", jobCustomer: "in", otherCustomer: "404" },
   },
   {
     name: "staff home",
@@ -78,7 +87,7 @@ for (const visitor of VISITORS) {
       test(`${target.name}: ${outcome}`, async ({ page }) => {
         if (target.kind === "api") {
           const status = await apiStatus(page.request, target.path());
-          expect(status).toBe(outcome === "in" ? 200 : outcome === "403" ? 403 : 401);
+          expect(status).toBe({ in: 200, "403": 403, "404": 404, "sign-in": 401 }[outcome]);
           return;
         }
         const response = await page.goto(target.path());

@@ -16,6 +16,7 @@ const SCREENS: { name: string; path: string; as?: Persona }[] = [
   { name: "sign-in", path: "/sign-in" },
   { name: "job board", path: "/shop/copper-gulch", as: "owner" },
   { name: "staff job page", path: "/shop/copper-gulch/jobs/2", as: "technician" },
+  { name: "check-in form", path: "/shop/copper-gulch/jobs/new", as: "technician" },
   { name: "owner's machines", path: "/my", as: "jobCustomer" },
 ];
 

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { listJobs } from "@/db/queries/jobs";
+import { jobAttention, toBoardRow } from "@/lib/jobs-view";
 import { jobListQuerySchema } from "@/lib/schemas/jobs";
 import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
 import { testKnex } from "../support/db";
@@ -54,5 +55,63 @@ describe("job board query", () => {
     expect((await page({ status: "waiting_parts,in_progress" })).total).toBe(23);
     expect((await page({ status: "waiting_parts", q: "Acker" })).total).toBe(0);
     expect((await page({ status: "in_progress", q: "acker" })).total).toBe(15);
+  });
+});
+
+describe("job board quick filters: overdue and waiting on parts", () => {
+  let db: Knex;
+  let shopId: number;
+  const TODAY = "2026-12-01";
+  // Job number → status and promised date. Numbers count from 1 in this shop, in this order.
+  const JOBS = [
+    { status: "in_progress", promised: "2026-11-28" }, // 1: overdue
+    { status: "waiting_parts", promised: "2026-11-30" }, // 2: overdue and waiting on parts
+    { status: "waiting_parts", promised: null }, // 3: waiting on parts, no date
+    { status: "ready", promised: "2026-11-01" }, // 4: ready: a passed date no longer counts
+    { status: "picked_up", promised: "2026-10-01" }, // 5: collected
+    { status: "in_progress", promised: TODAY }, // 6: due today, not yet late
+    { status: "checked_in", promised: "2026-12-05" }, // 7: due later
+    { status: "inspecting", promised: null }, // 8: no date
+  ] as const;
+
+  beforeAll(async () => {
+    db = testKnex();
+    shopId = (await makeShop(db, { label: "board-attention" })).id;
+    const { jobIds } = await makeCustomerWithJobs(db, shopId, { name: "Lio Fairweather", serial: "GVH8-17-99001", statuses: JOBS.map((j) => j.status) });
+    for (const [i, job] of JOBS.entries()) await db("jobs").where({ id: jobIds[i] }).update({ promised_on: job.promised });
+  });
+  afterAll(async () => db?.destroy());
+
+  const numbers = async (raw: Record<string, string>, today = TODAY) => {
+    const page = await listJobs({ shopId, query: jobListQuerySchema.parse({ sort: "number", dir: "asc", ...raw }), today });
+    return page.rows.map((r) => r.number);
+  };
+
+  // common trade practice, no published source: late means past the promised day and not yet
+  // ready or collected; a job due today is not late yet.
+  it("overdue: past the promised date and still being worked on", async () => {
+    expect(await numbers({ attention: "overdue" })).toEqual([1, 2]);
+    // A day later, the job due today has become late too.
+    expect(await numbers({ attention: "overdue" }, "2026-12-02")).toEqual([1, 2, 6]);
+  });
+
+  it("waiting on parts, alone, with overdue (either), and with a status filter (both)", async () => {
+    expect(await numbers({ attention: "waiting_parts" })).toEqual([2, 3]);
+    expect(await numbers({ attention: "overdue,waiting_parts" })).toEqual([1, 2, 3]);
+    expect(await numbers({ attention: "overdue", status: "waiting_parts" })).toEqual([2]);
+    expect(await numbers({ attention: "overdue", q: "nobody-by-this-name" })).toEqual([]);
+  });
+
+  it("marks the same rows in the browser as the filter finds on the server", async () => {
+    const all = await listJobs({ shopId, query: jobListQuerySchema.parse({ sort: "number", dir: "asc" }), today: TODAY });
+    const flagged = (flag: "overdue" | "waiting_parts") => all.rows.filter((r) => jobAttention(toBoardRow(r), TODAY).includes(flag)).map((r) => r.number);
+    expect(flagged("overdue")).toEqual(await numbers({ attention: "overdue" }));
+    expect(flagged("waiting_parts")).toEqual(await numbers({ attention: "waiting_parts" }));
+  });
+
+  it("finds jobs by part of the machine's serial", async () => {
+    expect(await numbers({ q: "99001" })).toEqual([1, 2, 3, 4, 5, 6, 7, 8]);
+    expect(await numbers({ q: "gvh8-17" })).toHaveLength(8);
+    expect(await numbers({ q: "GVH9" })).toEqual([]);
   });
 });

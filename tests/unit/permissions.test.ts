@@ -13,6 +13,9 @@ const EXPECTED: Record<Action, Record<Role, boolean>> = {
   "job:check-in": { owner: true, service_writer: true, technician: true, customer: false },
   "job:change-status": { owner: true, service_writer: true, technician: true, customer: false },
   "job:assign": { owner: true, service_writer: true, technician: false, customer: false },
+  "journal:view-shop-only": { owner: true, service_writer: true, technician: true, customer: false },
+  "journal:post": { owner: true, service_writer: true, technician: true, customer: false },
+  "journal:moderate": { owner: true, service_writer: false, technician: false, customer: false },
   "customer:view": { owner: true, service_writer: true, technician: true, customer: false },
   "customer:edit": { owner: true, service_writer: true, technician: false, customer: false },
 };

@@ -1,21 +1,29 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { getJobByPublicId } from "@/db/queries/jobs";
+import { listTimeline } from "@/db/queries/journal";
 import { StatusBadge } from "@/components/status-badge";
 import { Card, PageHeader } from "@/components/ui";
+import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
 import { describeMachine } from "@/lib/machine";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { authorizePage, requirePageActor } from "@/lib/server/authorize";
+import { getShopBySlug } from "@/db/queries/shops";
+import { OwnerTimeline } from "./_components/owner-timeline";
 
 export const metadata: Metadata = { title: "Your job" };
 
 export default async function MyJobPage({ params }: { params: Promise<{ job: string }> }) {
   const { job: publicId } = await params;
   const actor = await requirePageActor(`/my/jobs/${publicId}`);
-  if (!/^[A-Za-z0-9_-]{16}$/.test(publicId)) notFound();
+  if (!JOB_PUBLIC_ID_PATTERN.test(publicId)) notFound();
   const job = await getJobByPublicId({ publicId });
   authorizePage(actor, "job:view", job && { shopId: job.shopId, customerUserId: job.customerUserId });
   if (!job) notFound();
+  const shop = await getShopBySlug({ slug: job.shopSlug });
+  const timeZone = shop?.timezone ?? "UTC";
+  // The owner's page always reads as the owner, even for staff who look at their own machine.
+  const timeline = await listTimeline({ shopId: job.shopId, jobId: job.id, audience: "owner", order: "desc", limit: 50 });
   return (
     <div className="space-y-4">
       <PageHeader
@@ -23,15 +31,21 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
         description={`${job.shopName} · ${formatJobNumber(job.number)}`}
         back={{ href: "/my", label: "My machines" }}
       />
-      <Card as="section" title="Where it stands">
+      <Card as="section" title="Where it stands" headingId="where-it-stands">
         <div className="space-y-2">
           <StatusBadge status={job.status} />
           <p>{job.promisedOn ? `The shop expects to have it ready by ${job.promisedOn}.` : "The shop hasn't set a ready date yet."}</p>
         </div>
       </Card>
-      <Card as="section" title="What you told the shop">
+      <Card as="section" title="What you told the shop" headingId="your-concern">
         <p className="whitespace-pre-line">{job.concern}</p>
       </Card>
+      <section aria-labelledby="updates-heading" className="space-y-3">
+        <h2 id="updates-heading" className="text-xl font-bold text-ink">
+          Updates from the shop
+        </h2>
+        <OwnerTimeline jobPublicId={job.publicId} timeZone={timeZone} initial={{ ...timeline, audience: "owner" }} />
+      </section>
     </div>
   );
 }

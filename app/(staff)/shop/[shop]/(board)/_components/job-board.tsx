@@ -2,15 +2,15 @@
 import Link from "next/link";
 import { useEffect, useMemo, useState } from "react";
 import { type ColumnDef, type SortingState, flexRender, getCoreRowModel, useReactTable } from "@tanstack/react-table";
-import { ClipboardList, Clock } from "lucide-react";
+import { ClipboardList, Package, TriangleExclamationPoint, type LucideIcon } from "lucide-react";
 import clsx from "clsx";
 import { StatusBadge } from "@/components/status-badge";
-import { Alert, Badge, EmptyState, Field, Input, Pagination, Select, Table, TBody, TD, TH, THead, TR } from "@/components/ui";
+import { Alert, EmptyState, Field, Input, Pagination, Select, Table, TBody, TD, TH, THead, TR } from "@/components/ui";
 import { JOB_STATUSES, JOB_STATUS_LABEL, type JobStatus } from "@/lib/job-status";
-import { type JobBoardPage, type JobBoardRow, isOverdue } from "@/lib/jobs-view";
-import { type JobListQuery, formatJobNumber } from "@/lib/schemas/jobs";
+import { type JobBoardPage, type JobBoardRow, jobAttention } from "@/lib/jobs-view";
+import { JOB_ATTENTION, type JobAttention, type JobListQuery, formatJobNumber } from "@/lib/schemas/jobs";
 import { jobQueryToSearch, useJobBoard } from "@/lib/swr/use-job-board";
-import { JobCard } from "./job-card";
+import { JobCard, OverdueBadge, attentionClasses } from "./job-card";
 
 type Props = {
   shopSlug: string;
@@ -27,6 +27,12 @@ const SORT_KEY: Partial<Record<string, JobListQuery["sort"]>> = {
   customerName: "customer",
   promisedOn: "promised",
   updatedAt: "updated",
+};
+
+// The quick filters' own words (not the status names, which the status chips already use).
+const ATTENTION_LOOK: Record<JobAttention, { label: string; icon: LucideIcon }> = {
+  overdue: { label: "Overdue", icon: TriangleExclamationPoint },
+  waiting_parts: { label: "Held for parts", icon: Package },
 };
 
 export function JobBoard({ shopSlug, today, technicians, initialQuery, initialData }: Props) {
@@ -77,11 +83,7 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
           row.original.promisedOn ? (
             <div className="flex flex-col items-start gap-1">
               <span className="whitespace-nowrap">{row.original.promisedOn}</span>
-              {isOverdue(row.original, today) ? (
-                <Badge tone="rust" icon={Clock}>
-                  Overdue
-                </Badge>
-              ) : null}
+              <OverdueBadge row={row.original} today={today} />
             </div>
           ) : (
             <span className="text-ink-muted">—</span>
@@ -116,6 +118,9 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
     getCoreRowModel: getCoreRowModel(),
   });
 
+  const toggleAttention = (flag: JobAttention) =>
+    setQuery((q) => ({ ...q, page: 1, attention: q.attention.includes(flag) ? q.attention.filter((f) => f !== flag) : [...q.attention, flag] }));
+  const filtered = Boolean(query.q || query.status.length || query.attention.length || query.technician);
   const toggleStatus = (status: JobStatus) =>
     setQuery((q) => ({ ...q, page: 1, status: q.status.includes(status) ? q.status.filter((s) => s !== status) : [...q.status, status] }));
   const sortBy = (columnId: string) => {
@@ -145,6 +150,30 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
         </Field>
       </div>
       <fieldset>
+        <legend className="mb-2 font-semibold">Needs attention</legend>
+        <div className="flex flex-wrap gap-2">
+          {JOB_ATTENTION.map((flag) => {
+            const look = ATTENTION_LOOK[flag];
+            const on = query.attention.includes(flag);
+            return (
+              <button
+                key={flag}
+                type="button"
+                aria-pressed={on}
+                onClick={() => toggleAttention(flag)}
+                className={clsx(
+                  "inline-flex min-h-tap items-center gap-1.5 rounded-full border px-3 text-sm font-medium",
+                  on ? "border-oil bg-oil text-oil-on" : "border-line-strong bg-surface text-ink hover:bg-sunken",
+                )}
+              >
+                <look.icon aria-hidden className="size-4 shrink-0" />
+                {look.label}
+              </button>
+            );
+          })}
+        </div>
+      </fieldset>
+      <fieldset>
         <legend className="mb-2 font-semibold">Status</legend>
         <div className="flex flex-wrap gap-2">
           {JOB_STATUSES.map((s) => (
@@ -169,12 +198,8 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
       {page.total === 0 && !isLoading ? (
         <EmptyState
           icon={ClipboardList}
-          title={query.q || query.status.length || query.technician ? "No jobs match" : "No jobs yet"}
-          description={
-            query.q || query.status.length || query.technician
-              ? "Clear the search or status filters to see more jobs."
-              : "Jobs appear here once a machine is checked in."
-          }
+          title={filtered ? "No jobs match" : "No jobs yet"}
+          description={filtered ? "Clear the search or filters to see more jobs." : "Jobs appear here once a machine is checked in: use “Check in a machine” above."}
         />
       ) : (
         <div aria-busy={isValidating}>
@@ -186,7 +211,7 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
           <ul className="space-y-3 sm:hidden" aria-label="Jobs in this shop">
             {page.rows.map((row) => (
               <li key={row.number} data-testid="job-card">
-                <JobCard row={row} shopSlug={shopSlug} overdue={isOverdue(row, today)} />
+                <JobCard row={row} shopSlug={shopSlug} today={today} />
               </li>
             ))}
           </ul>
@@ -208,9 +233,11 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
             </THead>
             <TBody>
               {table.getRowModel().rows.map((row) => (
-                <TR key={row.id} data-testid="job-row" className={clsx(isOverdue(row.original, today) && "bg-rust-soft/40")}>
-                  {row.getVisibleCells().map((cell) => (
-                    <TD key={cell.id}>{flexRender(cell.column.columnDef.cell, cell.getContext())}</TD>
+                <TR key={row.id} data-testid="job-row" className={attentionClasses(jobAttention(row.original, today)).tint}>
+                  {row.getVisibleCells().map((cell, i) => (
+                    <TD key={cell.id} className={clsx(i === 0 && attentionClasses(jobAttention(row.original, today)).edge)}>
+                      {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                    </TD>
                   ))}
                 </TR>
               ))}

@@ -1,17 +1,39 @@
 import Link from "next/link";
-import { Clock } from "lucide-react";
+import { TriangleExclamationPoint } from "lucide-react";
 import clsx from "clsx";
 import { StatusBadge } from "@/components/status-badge";
 import { Badge } from "@/components/ui";
-import type { JobBoardRow } from "@/lib/jobs-view";
-import { formatJobNumber } from "@/lib/schemas/jobs";
+import { type JobBoardRow, daysOverdue, jobAttention, overdueLabel } from "@/lib/jobs-view";
+import { type JobAttention, formatJobNumber } from "@/lib/schemas/jobs";
+
+/**
+ * How a job that needs attention stands out: a tint and a bar at its start edge, on top of
+ * the words and icons ("Overdue 3 days", "Waiting on parts") that carry the meaning.
+ */
+export function attentionClasses(flags: JobAttention[]): { tint?: string; edge?: string } {
+  if (flags.includes("overdue")) return { tint: "bg-rust-soft/40", edge: "border-l-4 border-l-rust" };
+  if (flags.includes("waiting_parts")) return { tint: "bg-signal-soft/40", edge: "border-l-4 border-l-signal" };
+  return {};
+}
+
+/** "Overdue 3 days" with a warning icon, or nothing while the job is on time. */
+export function OverdueBadge({ row, today }: { row: Pick<JobBoardRow, "status" | "promisedOn">; today: string }) {
+  const days = daysOverdue(row, today);
+  if (days == null) return null;
+  return (
+    <Badge tone="rust" icon={TriangleExclamationPoint}>
+      {overdueLabel(days)}
+    </Badge>
+  );
+}
 
 /** One job of the board as a thumb-sized card, for narrow screens. */
-export function JobCard({ row, shopSlug, overdue }: { row: JobBoardRow; shopSlug: string; overdue: boolean }) {
+export function JobCard({ row, shopSlug, today }: { row: JobBoardRow; shopSlug: string; today: string }) {
+  const look = attentionClasses(jobAttention(row, today));
   return (
     <Link
       href={`/shop/${shopSlug}/jobs/${row.number}`}
-      className={clsx("block space-y-2 rounded-xl border border-line p-4 hover:bg-sunken", overdue ? "bg-rust-soft/40" : "bg-surface")}
+      className={clsx("block space-y-2 rounded-xl border border-line p-4 hover:bg-sunken", look.tint ?? "bg-surface", look.edge)}
     >
       <div className="flex flex-wrap items-center justify-between gap-2">
         <span className="font-semibold text-oil">{formatJobNumber(row.number)}</span>
@@ -23,13 +45,9 @@ export function JobCard({ row, shopSlug, overdue }: { row: JobBoardRow; shopSlug
       </div>
       <p className="line-clamp-2 text-sm">{row.concern}</p>
       {row.promisedOn ? (
-        <div className="flex items-center gap-2 text-sm">
+        <div className="flex flex-wrap items-center gap-2 text-sm">
           <span>Promised {row.promisedOn}</span>
-          {overdue ? (
-            <Badge tone="rust" icon={Clock}>
-              Overdue
-            </Badge>
-          ) : null}
+          <OverdueBadge row={row} today={today} />
         </div>
       ) : null}
     </Link>

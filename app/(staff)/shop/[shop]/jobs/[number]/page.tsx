@@ -1,15 +1,17 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
-import { getJobByNumber, listStatusChanges } from "@/db/queries/jobs";
+import { getJobByNumber } from "@/db/queries/jobs";
+import { listTimeline } from "@/db/queries/journal";
 import { StatusBadge } from "@/components/status-badge";
 import { Card, PageHeader } from "@/components/ui";
-import { JOB_STATUS_LABEL } from "@/lib/job-status";
 import { MACHINE_KIND_LABEL, describeMachine } from "@/lib/machine";
+import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
 import { authorizePage } from "@/lib/server/authorize";
 import { shopPageAccess } from "../../shop-access";
+import { JobJournal } from "./_components/job-journal";
 
-type Props = { params: Promise<{ shop: string; number: string }> };
+type Props = { params: Promise<{ shop: string; number: string }>; searchParams: Promise<{ intake?: string }> };
 
 export async function generateMetadata({ params }: Props): Promise<Metadata> {
   const { number } = await params;
@@ -17,17 +19,17 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
   return { title: n.success ? formatJobNumber(n.data) : "Job" };
 }
 
-export default async function StaffJobPage({ params }: Props) {
+export default async function StaffJobPage({ params, searchParams }: Props) {
   const { shop: slug, number } = await params;
   const { actor, shop } = await shopPageAccess(slug, "shop:view-board", `/shop/${slug}/jobs/${number}`);
   const n = jobNumberParamSchema.safeParse(number);
   if (!n.success) notFound();
   const job = await getJobByNumber({ shopId: shop.id, number: n.data });
   if (!job) notFound();
-  authorizePage(actor, "job:view-history", { shopId: job.shopId, customerUserId: job.customerUserId });
-  const history = await listStatusChanges({ shopId: shop.id, jobId: job.id });
-  // Times read in the shop's own zone: that is the clock on the shop wall.
-  const at = new Intl.DateTimeFormat("en-US", { timeZone: shop.timezone, dateStyle: "medium", timeStyle: "short" });
+  const resource = { shopId: job.shopId, customerUserId: job.customerUserId };
+  authorizePage(actor, "journal:view-shop-only", resource);
+  const intake = (await searchParams).intake === "1";
+  const timeline = await listTimeline({ shopId: shop.id, jobId: job.id, audience: "shop", order: "desc", limit: 50, viewerUserId: actor.userId });
 
   return (
     <div className="space-y-6">
@@ -37,7 +39,7 @@ export default async function StaffJobPage({ params }: Props) {
         back={{ href: `/shop/${shop.slug}`, label: "All jobs" }}
       />
       <div className="grid gap-4 md:grid-cols-2">
-        <Card as="section" title="Where it stands">
+        <Card as="section" title="Where it stands" headingId="job-facts">
           <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-2">
             <dt className="text-ink-muted">Status</dt>
             <dd>
@@ -47,29 +49,32 @@ export default async function StaffJobPage({ params }: Props) {
             <dd>{job.promisedOn ?? "No date set"}</dd>
             <dt className="text-ink-muted">Technician</dt>
             <dd>{job.technician?.name ?? "Unassigned"}</dd>
+            <dt className="text-ink-muted">Owner</dt>
+            <dd>{job.customerName}</dd>
             <dt className="text-ink-muted">Serial / VIN</dt>
             <dd>{job.machine.serial ?? "Not recorded"}</dd>
           </dl>
         </Card>
-        <Card as="section" title="Owner's concern">
+        <Card as="section" title="Owner's concern" headingId="job-concern">
           <p className="whitespace-pre-line">{job.concern}</p>
+          {job.intakeNotes ? (
+            <>
+              <h3 className="mt-3 font-semibold text-ink">Condition at check-in</h3>
+              <p className="whitespace-pre-line">{job.intakeNotes}</p>
+            </>
+          ) : null}
         </Card>
       </div>
-      <Card as="section" title="Status history">
-        <ol className="space-y-3">
-          {history.map((h) => (
-            <li key={h.id} className="border-l-2 border-line pl-3">
-              <div className="text-sm text-ink-muted">
-                <time dateTime={h.at.toISOString()}>{at.format(h.at)}</time> · {h.by ?? "a former user"}
-              </div>
-              <div>
-                {h.from ? `${JOB_STATUS_LABEL[h.from]} → ` : ""}
-                <strong>{JOB_STATUS_LABEL[h.to]}</strong>
-              </div>
-            </li>
-          ))}
-        </ol>
-      </Card>
+      <JobJournal
+        jobPublicId={job.publicId}
+        status={job.status}
+        mayChangeStatus={can(actor, "job:change-status", resource)}
+        timeZone={shop.timezone}
+        mayModerate={can(actor, "journal:moderate", resource)}
+        initial={{ ...timeline, audience: "shop" }}
+        startWith={intake ? "photos" : "note"}
+        intakeCaption={intake ? "Condition at check-in" : undefined}
+      />
     </div>
   );
 }

@@ -1,0 +1,140 @@
+"use client";
+import { Camera, CircleCheck, CircleX, RotateCcw, X } from "lucide-react";
+import { useId, useRef, useState } from "react";
+import { Alert, Button, Field, Input } from "@/components/ui";
+import { runLimited, uploadFile } from "@/lib/client/upload";
+import { MAX_PHOTOS_PER_SET, type TimelinePhoto } from "@/lib/journal";
+import { sendJson } from "@/lib/swr/fetcher";
+
+// Mirrors the server's limit (lib/server/photos.ts) so a phone doesn't send 50 MB for nothing.
+const MAX_MB = 20;
+
+type Item = { key: string; file: File; progress: number; state: "waiting" | "uploading" | "done" | "failed"; message?: string; photo?: TimelinePhoto };
+
+/**
+ * A photo set: pick several from the camera or gallery, each uploads with its own bar, then
+ * post the ones that arrived as one entry. A failed photo says why and can be retried or
+ * left out; the others are not lost.
+ */
+export function PhotoComposer({ jobPublicId, onPosted, defaultCaption = "" }: { jobPublicId: string; onPosted: () => void; defaultCaption?: string }) {
+  const [items, setItems] = useState<Item[]>([]);
+  const [caption, setCaption] = useState(defaultCaption);
+  const [share, setShare] = useState(false);
+  const [posting, setPosting] = useState(false);
+  const [error, setError] = useState<string | null>(null);
+  const [posted, setPosted] = useState<string | null>(null);
+  const input = useRef<HTMLInputElement>(null);
+  const id = useId();
+
+  const patch = (key: string, change: Partial<Item>) => setItems((list) => list.map((it) => (it.key === key ? { ...it, ...change } : it)));
+
+  async function upload(list: Item[]) {
+    await runLimited(
+      list.map((item) => async () => {
+        if (item.file.size > MAX_MB * 1024 * 1024) {
+          patch(item.key, { state: "failed", message: `${item.file.name} is larger than ${MAX_MB} MB.` });
+          return;
+        }
+        patch(item.key, { state: "uploading", progress: 0, message: undefined });
+        const result = await uploadFile<{ photo: TimelinePhoto }>(`/api/jobs/${jobPublicId}/photos`, "photo", item.file, (f) => patch(item.key, { progress: f }));
+        if (result.ok) patch(item.key, { state: "done", progress: 1, photo: result.data.photo });
+        else patch(item.key, { state: "failed", message: result.message });
+      }),
+      2,
+    );
+  }
+
+  function pick(files: FileList | null) {
+    if (!files?.length) return;
+    setError(null);
+    setPosted(null);
+    const room = MAX_PHOTOS_PER_SET - items.length;
+    const added = Array.from(files)
+      .slice(0, Math.max(0, room))
+      .map((file, i): Item => ({ key: `${Date.now()}-${i}-${file.name}`, file, progress: 0, state: "waiting" }));
+    if (files.length > room) setError(`A set holds at most ${MAX_PHOTOS_PER_SET} photos; post these, then add more.`);
+    setItems((list) => [...list, ...added]);
+    if (input.current) input.current.value = "";
+    void upload(added);
+  }
+
+  const done = items.filter((it) => it.state === "done" && it.photo);
+  const busy = items.some((it) => it.state === "uploading" || it.state === "waiting");
+  const failed = items.filter((it) => it.state === "failed");
+
+  async function post() {
+    setPosting(true);
+    setError(null);
+    try {
+      await sendJson(`/api/jobs/${jobPublicId}/entries`, "POST", { kind: "photos", photoIds: done.map((it) => it.photo!.id), caption, visibility: share ? "shared" : "shop" });
+      setPosted(`${done.length} photo${done.length === 1 ? "" : "s"} posted${failed.length ? `; ${failed.length} did not upload and ${failed.length === 1 ? "was" : "were"} left out` : ""}.`);
+      setItems([]);
+      setCaption("");
+      setShare(false);
+      onPosted();
+    } catch (e) {
+      setError((e as Error).message);
+    } finally {
+      setPosting(false);
+    }
+  }
+
+  return (
+    <div className="space-y-4">
+      <div>
+        <input
+          ref={input}
+          id={`${id}-files`}
+          type="file"
+          accept="image/jpeg,image/png,image/webp,image/*"
+          multiple
+          className="sr-only"
+          onChange={(e) => pick(e.target.files)}
+        />
+        <label htmlFor={`${id}-files`} className="inline-flex min-h-14 w-full cursor-pointer items-center justify-center gap-2 rounded-lg bg-oil px-6 py-3 text-lg font-semibold text-oil-on hover:bg-oil/90 focus-within:outline focus-within:outline-2">
+          <Camera aria-hidden className="size-6" />
+          {items.length ? "Add more photos" : "Take or choose photos"}
+        </label>
+      </div>
+
+      {items.length ? (
+        <ul className="space-y-2" aria-label="Photos in this set">
+          {items.map((it) => (
+            <li key={it.key} className="rounded-lg border border-line p-3">
+              <div className="flex items-center gap-2">
+                {it.state === "done" ? <CircleCheck aria-hidden className="size-5 shrink-0 text-moss" /> : null}
+                {it.state === "failed" ? <CircleX aria-hidden className="size-5 shrink-0 text-rust" /> : null}
+                <span className="min-w-0 flex-1 truncate font-semibold">{it.file.name}</span>
+                {it.state === "failed" ? (
+                  <Button variant="ghost" icon={<RotateCcw aria-hidden className="size-5" />} onClick={() => void upload([it])} aria-label={`Try ${it.file.name} again`}>
+                    Retry
+                  </Button>
+                ) : null}
+                {it.state !== "uploading" ? (
+                  <Button variant="ghost" onClick={() => setItems((l) => l.filter((x) => x.key !== it.key))} aria-label={`Leave ${it.file.name} out`} icon={<X aria-hidden className="size-5" />} />
+                ) : null}
+              </div>
+              <progress className="mt-2 h-3 w-full accent-oil" max={1} value={it.progress} aria-label={`Upload of ${it.file.name}`} />
+              <p className="text-sm text-ink-muted" aria-live="polite">
+                {it.state === "failed" ? <span className="text-rust">{it.message}</span> : it.state === "done" ? "Uploaded" : it.state === "uploading" ? `${Math.round(it.progress * 100)} %` : "Waiting…"}
+              </p>
+            </li>
+          ))}
+        </ul>
+      ) : null}
+
+      <Field id={`${id}-caption`} label="Caption (optional)">
+        <Input value={caption} onChange={(e) => setCaption(e.target.value)} maxLength={500} />
+      </Field>
+      <label className="flex min-h-tap items-center gap-3">
+        <input type="checkbox" checked={share} onChange={(e) => setShare(e.target.checked)} className="size-6 accent-oil" />
+        <span>Share with the owner now (otherwise shop only)</span>
+      </label>
+      {error ? <Alert tone="error">{error}</Alert> : null}
+      {posted ? <Alert tone="success">{posted}</Alert> : null}
+      <Button size="lg" fullWidth disabled={!done.length || busy} loading={posting} onClick={() => void post()}>
+        {busy ? "Uploading…" : done.length ? `Post ${done.length} photo${done.length === 1 ? "" : "s"}` : "Post photos"}
+      </Button>
+    </div>
+  );
+}

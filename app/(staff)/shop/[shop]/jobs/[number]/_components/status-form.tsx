@@ -1,0 +1,40 @@
+"use client";
+import { useActionState, useEffect } from "react";
+import { Alert, Button, Field, Input, Select } from "@/components/ui";
+import type { ActionState } from "@/lib/action";
+import { JOB_STATUS_LABEL, NEXT_STATUSES, type JobStatus } from "@/lib/job-status";
+import { changeStatusAction } from "../actions";
+
+/** Moves the job to one of the statuses its rules allow; the move becomes a shared timeline entry. */
+export function StatusForm({ jobPublicId, status, onMoved }: { jobPublicId: string; status: JobStatus; onMoved?: () => void }) {
+  const [state, action, pending] = useActionState<ActionState<{ to: JobStatus }>, FormData>(changeStatusAction, null);
+  const options = NEXT_STATUSES[status];
+  useEffect(() => {
+    if (state?.ok) onMoved?.();
+  }, [state, onMoved]);
+
+  if (!options.length) return <p className="text-ink-muted">This job is closed. A comeback is checked in as a new job.</p>;
+  const error = state && !state.ok ? state.error : null;
+  return (
+    <form action={action} className="space-y-3">
+      <input type="hidden" name="job" value={jobPublicId} />
+      <input type="hidden" name="from" value={status} />
+      {error && !error.fields ? <Alert tone="error">{error.message}</Alert> : null}
+      <Field id="status-to" label="Move to" error={error?.fields?.to?.[0]} required>
+        <Select name="to" defaultValue={options[0]} key={status}>
+          {options.map((s) => (
+            <option key={s} value={s}>
+              {JOB_STATUS_LABEL[s]}
+            </option>
+          ))}
+        </Select>
+      </Field>
+      <Field id="status-note" label="Note for the owner (optional)" hint="The owner sees status changes and this note." error={error?.fields?.note?.[0]}>
+        <Input name="note" maxLength={500} key={`${status}-note`} />
+      </Field>
+      <Button type="submit" loading={pending} fullWidth>
+        Change status
+      </Button>
+    </form>
+  );
+}

@@ -1,0 +1,277 @@
+import "server-only";
+import crypto from "node:crypto";
+import type { Knex } from "knex";
+import { db } from "@/lib/server/db";
+import { AppError } from "@/lib/errors";
+import type { JobStatus } from "@/lib/job-status";
+import type { EntryKind, EntryVisibility, TimelineAudience, TimelineEntry, TimelinePage, TimelinePhoto } from "@/lib/journal";
+import { photoUrl } from "@/lib/journal";
+
+type Raw = Record<string, unknown>;
+
+const asDate = (v: unknown) => (v == null ? null : (v as Date).toISOString());
+const parseJson = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (v ?? null));
+
+export function newPhotoPublicId(): string {
+  return crypto.randomBytes(16).toString("base64url").slice(0, 22);
+}
+
+/**
+ * One page of a job's timeline in exactly two queries (entries with their authors, then the
+ * photos of those entries), whatever the number of entries. The owner's audience gets shared,
+ * undeleted entries only; the shop's gets everything not deleted.
+ */
+export async function listTimeline({
+  shopId,
+  jobId,
+  audience,
+  order,
+  after,
+  limit,
+  viewerUserId,
+}: {
+  shopId: number;
+  jobId: number;
+  audience: TimelineAudience;
+  order: "asc" | "desc";
+  after?: number | null;
+  limit: number;
+  viewerUserId?: number;
+}): Promise<TimelinePage> {
+  const q = db()("journal_entries as e")
+    .leftJoin("users as u", "u.id", "e.author_user_id")
+    .where({ "e.shop_id": shopId, "e.job_id": jobId })
+    .whereNull("e.deleted_at")
+    .orderBy("e.id", order)
+    .limit(limit + 1)
+    .select("e.id", "e.kind", "e.visibility", "e.body", "e.caption", "e.version", "e.created_at", "e.edited_at", "e.author_user_id", "u.name as author_name");
+  if (audience === "owner") q.where("e.visibility", "shared");
+  if (after != null) q.where("e.id", order === "asc" ? ">" : "<", after);
+  const rows = (await q) as Raw[];
+  const more = rows.length > limit;
+  const page = more ? rows.slice(0, limit) : rows;
+
+  const photoEntryIds = page.filter((r) => r.kind === "photos").map((r) => Number(r.id));
+  const photosByEntry = new Map<number, TimelinePhoto[]>();
+  if (photoEntryIds.length) {
+    const photos = (await db()("photos")
+      .where("shop_id", shopId)
+      .whereIn("entry_id", photoEntryIds)
+      .orderBy(["entry_id", "position", "id"])
+      .select("entry_id", "public_id", "width", "height")) as Raw[];
+    for (const p of photos) {
+      const list = photosByEntry.get(Number(p.entry_id)) ?? [];
+      list.push(toPhoto(p));
+      photosByEntry.set(Number(p.entry_id), list);
+    }
+  }
+
+  const entries = page.map((r): TimelineEntry => {
+    const id = Number(r.id);
+    const authorId = r.author_user_id == null ? null : Number(r.author_user_id);
+    const entry: TimelineEntry = {
+      id,
+      kind: r.kind as EntryKind,
+      visibility: r.visibility as EntryVisibility,
+      createdAt: asDate(r.created_at)!,
+      editedAt: asDate(r.edited_at),
+      author: authorId == null ? null : { name: String(r.author_name) },
+      body: parseJson(r.body),
+      caption: (r.caption as string | null) ?? null,
+      photos: photosByEntry.get(id) ?? [],
+    };
+    if (audience === "shop") {
+      entry.version = Number(r.version);
+      entry.mine = viewerUserId != null && authorId === viewerUserId;
+    }
+    return entry;
+  });
+  return { entries, next: more ? (entries.at(-1)?.id ?? null) : null };
+}
+
+function toPhoto(p: Raw): TimelinePhoto {
+  const id = String(p.public_id);
+  return { id, width: Number(p.width), height: Number(p.height), thumbUrl: photoUrl(id, "thumb"), displayUrl: photoUrl(id, "display") };
+}
+
+export async function insertEntry(
+  k: Knex,
+  e: { shopId: number; jobId: number; kind: EntryKind; authorId: number | null; visibility?: EntryVisibility; body?: unknown; caption?: string | null },
+): Promise<number> {
+  const visibility = e.visibility ?? "shop";
+  const [id] = await k("journal_entries").insert({
+    shop_id: e.shopId,
+    job_id: e.jobId,
+    kind: e.kind,
+    visibility,
+    author_user_id: e.authorId,
+    body: e.body === undefined ? null : JSON.stringify(e.body),
+    caption: e.caption ?? null,
+    shared_at: visibility === "shared" ? k.fn.now(3) : null,
+  });
+  await k("jobs").where({ id: e.jobId, shop_id: e.shopId }).update({ updated_at: k.fn.now() });
+  return Number(id);
+}
+
+/** A photo that has arrived but belongs to no entry yet (seen by the shop only). */
+export async function insertPendingPhoto(p: {
+  shopId: number;
+  jobId: number;
+  userId: number;
+  originalName: string | null;
+  displayKey: string;
+  thumbKey: string;
+  width: number;
+  height: number;
+  bytes: number;
+}): Promise<TimelinePhoto> {
+  const publicId = newPhotoPublicId();
+  await db()("photos").insert({
+    public_id: publicId,
+    shop_id: p.shopId,
+    job_id: p.jobId,
+    uploaded_by_user_id: p.userId,
+    original_name: p.originalName?.slice(0, 255) ?? null,
+    display_key: p.displayKey,
+    thumb_key: p.thumbKey,
+    width: p.width,
+    height: p.height,
+    bytes: p.bytes,
+  });
+  return toPhoto({ public_id: publicId, width: p.width, height: p.height });
+}
+
+/** Posts a photo set: the named pending photos of this job, in the order given, join one new entry. */
+export async function createPhotoEntry(p: {
+  shopId: number;
+  jobId: number;
+  authorId: number;
+  photoIds: string[];
+  caption: string | null;
+  visibility: EntryVisibility;
+}): Promise<number> {
+  return db().transaction(async (tx) => {
+    const found = (await tx("photos")
+      .where({ shop_id: p.shopId, job_id: p.jobId })
+      .whereIn("public_id", p.photoIds)
+      .forUpdate()
+      .select("id", "public_id", "entry_id")) as Raw[];
+    const byPublic = new Map(found.map((r) => [String(r.public_id), r]));
+    const missing = p.photoIds.filter((id) => !byPublic.has(id));
+    if (missing.length) throw new AppError("not_found", `${missing.length === 1 ? "A photo was" : `${missing.length} photos were`} not found on this job; upload again.`);
+    if (found.some((r) => r.entry_id != null)) throw new AppError("conflict", "Some of these photos are already posted.");
+    const entryId = await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "photos", authorId: p.authorId, caption: p.caption, visibility: p.visibility });
+    for (const [position, publicId] of p.photoIds.entries()) {
+      await tx("photos").where({ id: byPublic.get(publicId)!.id }).update({ entry_id: entryId, position });
+    }
+    return entryId;
+  });
+}
+
+/** What the photo route needs to decide who may see a photo. */
+export async function getPhotoAccess({ publicId }: { publicId: string }) {
+  const row = (await db()("photos as p")
+    .join("jobs as j", "j.id", "p.job_id")
+    .join("customers as c", "c.id", "j.customer_id")
+    .leftJoin("journal_entries as e", "e.id", "p.entry_id")
+    .where("p.public_id", publicId)
+    .first("p.shop_id", "p.display_key", "p.thumb_key", "c.user_id as customer_user_id", "e.visibility", "e.deleted_at")) as Raw | undefined;
+  if (!row) return null;
+  return {
+    shopId: Number(row.shop_id),
+    customerUserId: row.customer_user_id == null ? null : Number(row.customer_user_id),
+    displayKey: String(row.display_key),
+    thumbKey: String(row.thumb_key),
+    // Shared with the owner only while its entry is shared and not deleted.
+    sharedWithOwner: row.visibility === "shared" && row.deleted_at == null,
+  };
+}
+
+export type EntryChange = { body?: unknown; caption?: string | null; visibility?: EntryVisibility; delete?: true };
+
+/**
+ * Edits, shares or deletes an entry. The previous state is copied into entry_revisions first,
+ * and `version` must match what the editor saw, so two tabs can't silently overwrite each other.
+ */
+export async function changeEntry(p: {
+  shopId: number;
+  jobId: number;
+  entryId: number;
+  userId: number;
+  mayModerate: boolean;
+  expectedVersion: number;
+  change: EntryChange;
+}): Promise<{ version: number }> {
+  return db().transaction(async (tx) => {
+    const row = (await tx("journal_entries")
+      .where({ id: p.entryId, shop_id: p.shopId, job_id: p.jobId })
+      .whereNull("deleted_at")
+      .forUpdate()
+      .first("kind", "visibility", "body", "caption", "version", "author_user_id")) as Raw | undefined;
+    if (!row) throw new AppError("not_found", "That entry is gone: it may have been deleted.");
+    const mine = row.author_user_id != null && Number(row.author_user_id) === p.userId;
+    if (!mine && !p.mayModerate) throw new AppError("forbidden", "Only the person who posted this entry can change it.");
+    if (Number(row.version) !== p.expectedVersion) throw new AppError("conflict", "Someone changed this entry since you opened it. Reload to see the latest version.");
+    const kind = row.kind as EntryKind;
+    if (kind === "status" && (p.change.body !== undefined || p.change.caption !== undefined)) {
+      throw new AppError("invalid", "A status change can't be edited; change the status again instead.");
+    }
+    if (p.change.body !== undefined && kind !== "note") throw new AppError("invalid", "Only notes have text to edit; change the caption instead.");
+
+    const change = p.change.delete ? "delete" : p.change.body !== undefined || p.change.caption !== undefined ? "edit" : p.change.visibility === "shared" ? "share" : "unshare";
+    await tx("journal_entry_revisions").insert({
+      shop_id: p.shopId,
+      entry_id: p.entryId,
+      version: row.version,
+      change,
+      visibility: row.visibility,
+      body: row.body == null ? null : typeof row.body === "string" ? row.body : JSON.stringify(row.body),
+      caption: row.caption ?? null,
+      changed_by_user_id: p.userId,
+    });
+    const version = Number(row.version) + 1;
+    const update: Raw = { version };
+    if (p.change.delete) update.deleted_at = tx.fn.now(3);
+    if (p.change.body !== undefined) update.body = JSON.stringify(p.change.body);
+    if (p.change.caption !== undefined) update.caption = p.change.caption;
+    if (p.change.body !== undefined || p.change.caption !== undefined) update.edited_at = tx.fn.now(3);
+    if (p.change.visibility && p.change.visibility !== row.visibility) {
+      update.visibility = p.change.visibility;
+      update.shared_at = p.change.visibility === "shared" ? tx.fn.now(3) : null;
+    }
+    await tx("journal_entries").where({ id: p.entryId }).update(update);
+    return { version };
+  });
+}
+
+export async function listEntryRevisions({ shopId, entryId }: { shopId: number; entryId: number }) {
+  const rows = (await db()("journal_entry_revisions as r")
+    .leftJoin("users as u", "u.id", "r.changed_by_user_id")
+    .where({ "r.shop_id": shopId, "r.entry_id": entryId })
+    .orderBy("r.id", "desc")
+    .select("r.version", "r.change", "r.visibility", "r.body", "r.caption", "r.changed_at", "u.name as by_name")) as Raw[];
+  return rows.map((r) => ({
+    version: Number(r.version),
+    change: String(r.change),
+    visibility: r.visibility as EntryVisibility,
+    body: parseJson(r.body),
+    caption: (r.caption as string | null) ?? null,
+    at: asDate(r.changed_at)!,
+    by: (r.by_name as string | null) ?? null,
+  }));
+}
+
+/**
+ * Moves a job to another status if it is still in `from` (so two people pressing at once give
+ * one move), records it in the status history and as a shared timeline entry, in one transaction.
+ */
+export async function moveJobStatus(p: { shopId: number; jobId: number; from: JobStatus; to: JobStatus; userId: number; note: string | null }): Promise<boolean> {
+  return db().transaction(async (tx) => {
+    const moved = await tx("jobs").where({ id: p.jobId, shop_id: p.shopId, status: p.from }).update({ status: p.to, updated_at: tx.fn.now() });
+    if (moved !== 1) return false;
+    await tx("job_status_changes").insert({ shop_id: p.shopId, job_id: p.jobId, from_status: p.from, to_status: p.to, changed_by_user_id: p.userId, note: p.note });
+    // The owner sees the status on their page anyway, so its entry is shared from the start.
+    await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "status", authorId: p.userId, visibility: "shared", body: { from: p.from, to: p.to, note: p.note } });
+    return true;
+  });
+}

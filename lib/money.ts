@@ -1,0 +1,329 @@
+// Money for approval requests and invoices. Pure (no I/O), safe in the browser and on the server.
+// Amounts are integer minor units (cents, yen, fils) held in `number` and checked with
+// Number.isSafeInteger; products and tax are worked in BigInt so nothing passes through a float.
+// Percents (tax, discounts, supplies, tolerance) are decimal strings ("8.25", "8.875", "10.0000" as
+// MariaDB returns DECIMAL columns) read exactly, so 8.25 % is 825/10000 and never 0.08249999….
+import cc from "currency-codes";
+import { AppError } from "@/lib/errors";
+
+/** Thrown for any bad amount, rate or line; an `invalid` AppError, so handlers answer 422 with the message. */
+export class MoneyError extends AppError {
+  constructor(message: string) {
+    super("invalid", message);
+    this.name = "MoneyError";
+  }
+}
+
+/** A percent as a decimal string, 0–100, up to 6 decimals: "8.25" means 8.25 %. */
+export type Percent = string;
+export type Discount = { kind: "amount"; amountMinor: number } | { kind: "percent"; percent: Percent };
+
+type LineCommon = { taxable: boolean; discount?: Discount | null };
+/** Quantity in thousandths so fluids and chain sold by length fit: 1000 = 1 unit, 1500 = 1.5 L. */
+export type PartLine = LineCommon & { kind: "part"; qtyThousandths: number; unitPriceMinor: number };
+/** Hours in integer tenths (15 = 1.5 h), the way labour time is booked; rate per hour. */
+export type LabourLine = LineCommon & { kind: "labour"; hoursTenths: number; rateMinor: number };
+export type FeeLine = LineCommon & { kind: "fee"; amountMinor: number };
+export type Line = PartLine | LabourLine | FeeLine;
+
+export type TaxMethod = "per_line" | "per_invoice";
+export type TaxSetting = { ratePercent: Percent; method: TaxMethod };
+/** capMinor: the largest fee, null for no cap. */
+export type SuppliesSetting = { percent: Percent; base: "labour" | "parts_and_labour"; capMinor: number | null; taxable: boolean };
+export type TotalsSettings = { tax: TaxSetting; supplies?: SuppliesSetting | null; subtotalDiscount?: Discount | null };
+
+export type LineBreakdown = {
+  grossMinor: number;
+  lineDiscountMinor: number;
+  /** This line's share of the subtotal discount. */
+  subtotalDiscountShareMinor: number;
+  netMinor: number;
+  taxable: boolean;
+  /** Tax on this line when the method is per_line; null for per_invoice (tax exists only on the whole). */
+  taxMinor: number | null;
+};
+export type Totals = {
+  lines: LineBreakdown[];
+  /** Sum of the lines before any discount. */
+  subtotalMinor: number;
+  lineDiscountsMinor: number;
+  subtotalDiscountMinor: number;
+  /** lineDiscountsMinor + subtotalDiscountMinor. */
+  discountsMinor: number;
+  suppliesMinor: number;
+  /** Net taxable lines, plus the supplies fee when it is taxable. */
+  taxableBaseMinor: number;
+  /** per_line: the line taxes plus the supplies fee's own tax when taxable; per_invoice: tax on the base. */
+  taxMinor: number;
+  /** subtotal − discounts + supplies: what estimate/authorisation comparisons use. */
+  preTaxTotalMinor: number;
+  totalMinor: number;
+};
+
+// ---- checks and exact arithmetic -------------------------------------------------------------
+
+/** Checks a stored integer (minor units, tenths, thousandths); `what` names the unit for the message. */
+function assertInt(value: unknown, what: string, allowNegative = false): number {
+  if (typeof value !== "number" || !Number.isSafeInteger(value)) throw new MoneyError(`${what} must be a whole number, got ${String(value)}.`);
+  if (!allowNegative && value < 0) throw new MoneyError(`${what} can't be negative (got ${value}).`);
+  return value;
+}
+
+function toSafe(value: bigint, what: string): number {
+  const n = Number(value);
+  if (!Number.isSafeInteger(n)) throw new MoneyError(`${what} is too large to handle exactly.`);
+  return n;
+}
+
+/** num/den rounded half-up (num, den ≥ 0): the exact value is rounded once, never in steps. */
+function divHalfUp(num: bigint, den: bigint): bigint {
+  return (2n * num + den) / (2n * den);
+}
+
+/** A percent read exactly, as a fraction of the whole: "8.25" → 825n / 10000n. */
+export type PercentFraction = { num: bigint; den: bigint };
+
+/** Reads a Percent exactly, or throws MoneyError (use it to validate settings forms). */
+export function parsePercent(text: Percent, what = "Percent"): PercentFraction {
+  const m = typeof text === "string" ? /^(\d{1,3})(?:\.(\d{1,6}))?$/.exec(text.trim()) : null;
+  if (!m) throw new MoneyError(`${what} must be a number of percent like "8.25" (got ${JSON.stringify(text)}).`);
+  const decimals = m[2] ?? "";
+  const num = BigInt(m[1]! + decimals);
+  const den = 100n * 10n ** BigInt(decimals.length);
+  if (num > den) throw new MoneyError(`${what} can't be more than 100 % (got ${text}).`);
+  return { num, den };
+}
+
+function percentOf(amountMinor: number, pct: PercentFraction, mode: "half_up" | "floor"): bigint {
+  const num = BigInt(amountMinor) * pct.num;
+  return mode === "floor" ? num / pct.den : divHalfUp(num, pct.den);
+}
+
+// ---- currencies: parsing and formatting ------------------------------------------------------
+
+/** ISO 4217 minor-unit digits from `currency-codes` (Intl disagrees for some codes). */
+export function currencyDigits(currency: string): number {
+  const record = typeof currency === "string" && /^[A-Za-z]{3}$/.test(currency) ? cc.code(currency) : undefined;
+  if (!record) throw new MoneyError(`Unknown currency code ${JSON.stringify(currency)}: use an ISO 4217 code like "USD".`);
+  return record.digits;
+}
+
+/** "1,234.5" with `scale` allowed decimals → integer in units of 10^-scale. Only "." as decimal point. */
+function parseScaled(text: string, scale: number, what: string, example: string, allowNegative: boolean): bigint {
+  const m = typeof text === "string" ? /^(-)?(\d{1,3}(?:,\d{3})+|\d*)(?:\.(\d+))?$/.exec(text.trim()) : null;
+  if (!m || (m[2] === "" && m[3] === undefined)) {
+    throw new MoneyError(`${JSON.stringify(text)} is not a valid ${what}. Use digits with an optional decimal point, e.g. ${example}.`);
+  }
+  const fraction = m[3] ?? "";
+  if (fraction.length > scale) {
+    throw new MoneyError(scale === 0 ? `A ${what} here has no decimal places (got ${text.trim()}).`
+      : `A ${what} has at most ${scale} decimal place${scale === 1 ? "" : "s"} (got ${text.trim()}).`);
+  }
+  const value = BigInt((m[2] ?? "").replaceAll(",", "") + fraction.padEnd(scale, "0") || "0");
+  if (m[1] && value !== 0n && !allowNegative) throw new MoneyError(`A ${what} can't be negative (got ${text.trim()}).`);
+  return m[1] ? -value : value;
+}
+
+/** User input ("12.50", "1,234.5", "-3" if allowed) → minor units of `currency`. */
+export function parseMoney(text: string, currency: string, options: { allowNegative?: boolean } = {}): number {
+  const digits = currencyDigits(currency);
+  const example = digits === 0 ? "1,234" : `1,234.${"5".padEnd(digits, "0")}`;
+  const what = `${currency.toUpperCase()} amount`;
+  return toSafe(parseScaled(text, digits, what, example, options.allowNegative ?? false), "The amount");
+}
+
+/** "1.5" hours → 15 tenths; "1.25" is refused. */
+export function parseHours(text: string): number {
+  return toSafe(parseScaled(text, 1, "number of hours", "1.5", false), "The hours");
+}
+
+/** "2" → 2000, "1.25" → 1250 thousandths. */
+export function parseQuantity(text: string): number {
+  return toSafe(parseScaled(text, 3, "quantity", "1.5", false), "The quantity");
+}
+
+/** Integer in units of 10^-scale → plain decimal string ("-1234.50"), exact for any safe integer. */
+function scaledToString(value: number, scale: number): string {
+  const abs = (value < 0 ? -BigInt(value) : BigInt(value)).toString().padStart(scale + 1, "0");
+  const body = scale === 0 ? abs : `${abs.slice(0, -scale)}.${abs.slice(-scale)}`;
+  return value < 0 ? `-${body}` : body;
+}
+
+/** 15 → "1.5"; 20 → "2". */
+export function formatHours(hoursTenths: number): string {
+  return scaledToString(assertInt(hoursTenths, "Hours (tenths)"), 1).replace(/\.0$/, "");
+}
+
+/** 1500 → "1.5"; 2000 → "2". */
+export function formatQuantity(qtyThousandths: number): string {
+  return scaledToString(assertInt(qtyThousandths, "Quantity (thousandths)"), 3).replace(/\.?0+$/, "");
+}
+
+/** Minor units → localised currency text, always with the ISO number of decimals ("$1,234.50", "KWD 1.234"). */
+export function formatMoney(minor: number, currency: string, locale = "en-US"): string {
+  const digits = currencyDigits(currency);
+  assertInt(minor, "Amount (minor units)", true);
+  const options = { style: "currency", currency: currency.toUpperCase(), minimumFractionDigits: digits, maximumFractionDigits: digits } as const;
+  // A decimal string is formatted exactly (Intl.NumberFormat v3); a float could misplace the last digit.
+  return new Intl.NumberFormat(locale, options).format(scaledToString(minor, digits) as `${number}`);
+}
+
+// ---- lines, discounts, supplies, tax ---------------------------------------------------------
+
+/**
+ * A line's amount before discounts: qty × price and hours × rate, each rounded half-up to the minor
+ * unit once from the exact product (common trade practice, no published source).
+ */
+export function lineTotal(line: Line): number {
+  switch (line?.kind) {
+    case "part": {
+      const qty = assertInt(line.qtyThousandths, "Part quantity (thousandths)");
+      const price = assertInt(line.unitPriceMinor, "Part unit price (minor units)");
+      return toSafe(divHalfUp(BigInt(qty) * BigInt(price), 1000n), "The part line");
+    }
+    case "labour": {
+      const tenths = assertInt(line.hoursTenths, "Labour hours (tenths)");
+      const rate = assertInt(line.rateMinor, "Labour rate (minor units)");
+      return toSafe(divHalfUp(BigInt(tenths) * BigInt(rate), 10n), "The labour line");
+    }
+    case "fee":
+      return assertInt(line.amountMinor, "Fee amount (minor units)");
+    default:
+      throw new MoneyError(`Unknown line kind ${JSON.stringify((line as { kind?: unknown } | null)?.kind)}: use part, labour or fee.`);
+  }
+}
+
+/** The discount on `amountMinor`, never more than the amount itself (so nothing goes below zero). */
+export function discountAmount(amountMinor: number, discount: Discount | null | undefined): number {
+  assertInt(amountMinor, "Discounted amount (minor units)");
+  if (!discount) return 0;
+  if (discount.kind === "amount") return Math.min(assertInt(discount.amountMinor, "Discount amount (minor units)"), amountMinor);
+  if (discount.kind === "percent") return toSafe(percentOf(amountMinor, parsePercent(discount.percent, "Discount percent"), "half_up"), "The discount");
+  throw new MoneyError(`Unknown discount kind ${JSON.stringify((discount as { kind?: unknown }).kind)}: use amount or percent.`);
+}
+
+/** Splits `total` across `weights` in proportion, remainders to the largest fractions (ties: earlier first). */
+function allocate(total: number, weights: number[]): number[] {
+  const sum = weights.reduce((a, b) => a + BigInt(b), 0n);
+  if (total === 0 || sum === 0n) return weights.map(() => 0);
+  const exact = weights.map((w) => ({ floor: (BigInt(total) * BigInt(w)) / sum, rem: (BigInt(total) * BigInt(w)) % sum }));
+  let left = BigInt(total) - exact.reduce((a, e) => a + e.floor, 0n);
+  const order = exact.map((_, i) => i).sort((a, b) => (exact[b]!.rem > exact[a]!.rem ? 1 : exact[b]!.rem < exact[a]!.rem ? -1 : a - b));
+  const shares = exact.map((e) => e.floor);
+  for (const i of order) {
+    if (left === 0n) break;
+    shares[i]! += 1n;
+    left -= 1n;
+  }
+  return shares.map((s) => Number(s));
+}
+
+/**
+ * Invoice or estimate totals; `lines[i]` of the result is the breakdown of `lines[i]`. Order: line
+ * discounts → subtotal discount (shared across lines in proportion to their net, so per-line tax
+ * sees it) → shop-supplies fee, half-up and capped, on the discounted labour (or parts + labour) →
+ * tax. The first three are common trade practice, no published source. Tax per SSUTA §324 / RCW 82.08.054: the exact tax, rounded half-up to
+ * the minor unit once — per taxable line (supplies counting as one line) or once on the taxable base.
+ */
+export function totals(lines: readonly Line[], settings: TotalsSettings): Totals {
+  if (!Array.isArray(lines)) throw new MoneyError("Lines must be a list.");
+  const rate = parsePercent(settings?.tax?.ratePercent, "Tax rate");
+  const method = settings.tax.method;
+  if (method !== "per_line" && method !== "per_invoice") throw new MoneyError(`Tax method must be per_line or per_invoice (got ${JSON.stringify(method)}).`);
+
+  const bad = lines.find((line) => typeof line?.taxable !== "boolean");
+  if (bad) throw new MoneyError(`Each line needs taxable: true or false (got ${JSON.stringify(bad?.taxable)}).`);
+  const gross = lines.map(lineTotal);
+  const lineDiscounts = lines.map((line, i) => discountAmount(gross[i]!, line.discount));
+  const afterLine = gross.map((g, i) => g - lineDiscounts[i]!);
+  const afterLineSum = afterLine.reduce((a, b) => a + b, 0);
+  const subtotalDiscount = discountAmount(toSafe(BigInt(afterLineSum), "The subtotal"), settings.subtotalDiscount);
+  const shares = allocate(subtotalDiscount, afterLine);
+  const net = afterLine.map((a, i) => a - shares[i]!);
+
+  let suppliesMinor = 0;
+  const supplies = settings.supplies;
+  if (supplies) {
+    if (supplies.base !== "labour" && supplies.base !== "parts_and_labour") throw new MoneyError("Shop-supplies base must be labour or parts_and_labour.");
+    const base = lines.reduce((sum, line, i) => (line.kind === "labour" || (line.kind === "part" && supplies.base === "parts_and_labour") ? sum + net[i]! : sum), 0);
+    suppliesMinor = toSafe(percentOf(base, parsePercent(supplies.percent, "Shop-supplies percent"), "half_up"), "The supplies fee");
+    if (supplies.capMinor != null) suppliesMinor = Math.min(suppliesMinor, assertInt(supplies.capMinor, "Shop-supplies cap (minor units)"));
+  }
+
+  const taxableItems = lines.flatMap((line, i) => (line.taxable ? [net[i]!] : []));
+  if (supplies?.taxable && suppliesMinor > 0) taxableItems.push(suppliesMinor);
+  const taxOn = (amount: number) => toSafe(divHalfUp(BigInt(amount) * rate.num, rate.den), "The tax");
+  const taxableBaseMinor = toSafe(BigInt(taxableItems.reduce((a, b) => a + b, 0)), "The taxable base");
+  const taxMinor = method === "per_line" ? taxableItems.reduce((sum, amount) => sum + taxOn(amount), 0) : taxOn(taxableBaseMinor);
+
+  const subtotalMinor = gross.reduce((a, b) => a + b, 0);
+  const lineDiscountsMinor = lineDiscounts.reduce((a, b) => a + b, 0);
+  const discountsMinor = lineDiscountsMinor + subtotalDiscount;
+  const preTaxTotalMinor = subtotalMinor - discountsMinor + suppliesMinor;
+  return {
+    lines: lines.map((line, i) => ({
+      grossMinor: gross[i]!,
+      lineDiscountMinor: lineDiscounts[i]!,
+      subtotalDiscountShareMinor: shares[i]!,
+      netMinor: net[i]!,
+      taxable: line.taxable,
+      taxMinor: method === "per_line" ? (line.taxable ? taxOn(net[i]!) : 0) : null,
+    })),
+    subtotalMinor: toSafe(BigInt(subtotalMinor), "The subtotal"),
+    lineDiscountsMinor,
+    subtotalDiscountMinor: subtotalDiscount,
+    discountsMinor,
+    suppliesMinor,
+    taxableBaseMinor,
+    taxMinor,
+    preTaxTotalMinor: toSafe(BigInt(preTaxTotalMinor), "The pre-tax total"),
+    totalMinor: toSafe(BigInt(preTaxTotalMinor + taxMinor), "The total"),
+  };
+}
+
+// ---- estimate, authorisation, tolerance ------------------------------------------------------
+
+export type ApprovalStatus = "approved" | "declined" | "pending";
+export type StatusLine = Line & { status: ApprovalStatus };
+
+/** Totals of the approved lines only: pending and declined lines authorise nothing. */
+export function authorisedTotal(lines: readonly StatusLine[], settings: TotalsSettings): Totals {
+  const bad = lines.find((line) => !["approved", "declined", "pending"].includes(line?.status));
+  if (bad) throw new MoneyError(`Line status must be approved, declined or pending (got ${JSON.stringify(bad.status)}).`);
+  return totals(lines.filter((line) => line.status === "approved"), settings);
+}
+
+/**
+ * How far a charge may exceed the estimate without new consent. "strict" (the default) allows no
+ * increase. "greater_of" is max(fixed, percent × estimate), then capped when capMinor is set
+ * (Florida §559.909: greater of $10 or 10 %, capped at $50; Maryland §14-1002(b): 10 %, no fixed, no cap).
+ */
+export type ToleranceSetting = { kind: "strict" } | { kind: "greater_of"; fixedMinor: number; percent: Percent; capMinor?: number | null };
+export const STRICT_TOLERANCE: ToleranceSetting = { kind: "strict" };
+
+/**
+ * The allowed increase in minor units for a pre-tax estimate. The percent part is rounded down: an
+ * increase of whole cents exceeds the exact limit exactly when it exceeds the floor, so nothing is lost.
+ */
+export function toleranceFor(estimatePreTaxMinor: number, setting: ToleranceSetting = STRICT_TOLERANCE): number {
+  assertInt(estimatePreTaxMinor, "Estimate (minor units)");
+  if (setting?.kind === "strict") return 0;
+  if (setting?.kind !== "greater_of") throw new MoneyError('Tolerance kind must be "strict" or "greater_of".');
+  const pct = toSafe(percentOf(estimatePreTaxMinor, parsePercent(setting.percent, "Tolerance percent"), "floor"), "The tolerance");
+  const allowed = Math.max(assertInt(setting.fixedMinor, "Tolerance fixed amount (minor units)"), pct);
+  return setting.capMinor == null ? allowed : Math.min(allowed, assertInt(setting.capMinor, "Tolerance cap (minor units)"));
+}
+
+/** The most that may be charged (pre-tax) without new consent. */
+export function approvalCeiling(estimatePreTaxMinor: number, setting: ToleranceSetting = STRICT_TOLERANCE): number {
+  return toSafe(BigInt(estimatePreTaxMinor) + BigInt(toleranceFor(estimatePreTaxMinor, setting)), "The ceiling");
+}
+
+/**
+ * Whether `proposedPreTaxMinor` needs the owner's approval against `estimatePreTaxMinor`. Both are
+ * PRE-TAX totals (Totals.preTaxTotalMinor): the consent rules compare charges without sales tax.
+ */
+export function needsApproval(estimatePreTaxMinor: number, proposedPreTaxMinor: number, setting: ToleranceSetting = STRICT_TOLERANCE): boolean {
+  assertInt(proposedPreTaxMinor, "Proposed total (minor units)");
+  return proposedPreTaxMinor > approvalCeiling(estimatePreTaxMinor, setting);
+}

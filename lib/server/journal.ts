@@ -1,0 +1,97 @@
+import "server-only";
+import { getJobByPublicId } from "@/db/queries/jobs";
+import { changeEntry, createPhotoEntry, insertEntry, insertPendingPhoto, listTimeline } from "@/db/queries/journal";
+import { AppError } from "@/lib/errors";
+import { JOB_PUBLIC_ID_PATTERN, type NewEntry, type TimelineAudience } from "@/lib/journal";
+import { type Action, type Actor, can } from "@/lib/permissions";
+import { parseNote } from "@/lib/rich-text/note";
+import { authorize } from "@/lib/server/authorize";
+import { db } from "@/lib/server/db";
+import { deletePhotoRenditions, processPhoto, storePhotoRenditions } from "@/lib/server/photos";
+
+export function entryIdParam(raw: string): number {
+  if (!/^[1-9]\d{0,15}$/.test(raw)) throw new AppError("not_found", "No such entry.");
+  return Number(raw);
+}
+
+/**
+ * The job behind a timeline request and what this person may do with it. An unknown id and
+ * someone else's job both answer 404, so job ids can't be probed.
+ */
+export async function journalAccess(actor: Actor, publicId: string, action: Action = "job:view") {
+  const job = JOB_PUBLIC_ID_PATTERN.test(publicId) ? await getJobByPublicId({ publicId }) : null;
+  const resource = job && { shopId: job.shopId, customerUserId: job.customerUserId };
+  if (!job || !resource || !can(actor, "job:view", resource)) throw new AppError("not_found", "No such job, or it isn't yours to see.");
+  authorize(actor, action, resource);
+  const audience: TimelineAudience = can(actor, "journal:view-shop-only", resource) ? "shop" : "owner";
+  return { job, resource, audience, mayModerate: can(actor, "journal:moderate", resource) };
+}
+
+export async function readTimeline(actor: Actor, publicId: string, query: { order: "asc" | "desc"; after?: number; limit: number; as?: "owner" }) {
+  const access = await journalAccess(actor, publicId);
+  const audience = query.as ?? access.audience;
+  const { job } = access;
+  const page = await listTimeline({ shopId: job.shopId, jobId: job.id, audience, viewerUserId: actor.userId, order: query.order, after: query.after, limit: query.limit });
+  return { ...page, audience };
+}
+
+export async function postEntry(actor: Actor, publicId: string, input: NewEntry): Promise<{ id: number }> {
+  const { job } = await journalAccess(actor, publicId, "journal:post");
+  if (input.kind === "note") {
+    const doc = parseNote(input.note);
+    const id = await insertEntry(db(), { shopId: job.shopId, jobId: job.id, kind: "note", authorId: actor.userId, visibility: input.visibility, body: doc });
+    return { id };
+  }
+  const id = await createPhotoEntry({
+    shopId: job.shopId,
+    jobId: job.id,
+    authorId: actor.userId,
+    photoIds: input.photoIds,
+    caption: input.caption ?? null,
+    visibility: input.visibility,
+  });
+  return { id };
+}
+
+export async function editEntry(
+  actor: Actor,
+  publicId: string,
+  entryId: number,
+  input: { version: number; note?: unknown; caption?: string | null; visibility?: "shop" | "shared"; delete?: true },
+) {
+  const { job, mayModerate } = await journalAccess(actor, publicId, "journal:post");
+  const body = input.note === undefined ? undefined : parseNote(input.note);
+  return changeEntry({
+    shopId: job.shopId,
+    jobId: job.id,
+    entryId,
+    userId: actor.userId,
+    mayModerate,
+    expectedVersion: input.version,
+    change: { body, caption: input.caption, visibility: input.visibility, delete: input.delete },
+  });
+}
+
+/** One uploaded file: checked, stripped and resized, stored, then recorded as a pending photo. */
+export async function uploadPhoto(actor: Actor, publicId: string, file: File) {
+  const { job } = await journalAccess(actor, publicId, "journal:post");
+  const processed = await processPhoto(Buffer.from(await file.arrayBuffer()), { name: file.name });
+  const stored = await storePhotoRenditions(processed, { shopId: job.shopId });
+  try {
+    return await insertPendingPhoto({
+      shopId: job.shopId,
+      jobId: job.id,
+      userId: actor.userId,
+      originalName: file.name || null,
+      displayKey: stored.displayKey,
+      thumbKey: stored.thumbKey,
+      width: stored.width,
+      height: stored.height,
+      bytes: stored.bytes,
+    });
+  } catch (error) {
+    // Nothing half-written: files without a row would never be served or cleaned up.
+    await deletePhotoRenditions(stored).catch(() => undefined);
+    throw error;
+  }
+}

@@ -1,0 +1,168 @@
+import fs from "node:fs";
+import path from "node:path";
+import AxeBuilder from "@axe-core/playwright";
+import { type Page, expect, test } from "@playwright/test";
+import exifr from "exifr";
+import mysql from "mysql2/promise";
+import { storageStatePath } from "./personas";
+import { JobPage } from "./pages/job-page";
+
+const FIXTURES = path.join(__dirname, "..", "fixtures", "photos");
+const publicIds = new Map<string, string>();
+
+test.beforeAll(async () => {
+  const db = await mysql.createConnection(process.env.DATABASE_URL!);
+  const [rows] = await db.query<mysql.RowDataPacket[]>("SELECT s.slug, j.number, j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id");
+  await db.end();
+  for (const r of rows) publicIds.set(`${r.slug}/${r.number}`, String(r.public_id));
+});
+
+const stamp = () => Date.now().toString(36);
+
+test("a technician posts a note and two photos and shares one photo; the owner sees exactly what was shared", async ({ browser }) => {
+  test.setTimeout(120_000);
+  const id = stamp();
+  const staff = await browser.newContext({ storageState: storageStatePath("technician") });
+  const bench = new JobPage(await staff.newPage());
+  await bench.open("/shop/copper-gulch/jobs/5");
+
+  // A note whose text carries a script: it must read as text and run nothing.
+  const script = "<script>window.__benchsidePwned = 1</script>";
+  const note = await bench.postNote(`Bench check ${id}: ${script}`);
+  await expect(note).toContainText(script);
+  await expect(note.getByText("Shop only")).toBeVisible();
+  expect(await bench.page.evaluate(() => (window as unknown as { __benchsidePwned?: number }).__benchsidePwned)).toBeUndefined();
+
+  // Two photos, one per set; the one from the camera carries GPS in its EXIF.
+  const magnet = await bench.postPhotos([path.join(FIXTURES, "gps.jpg")], `Drain plug magnet ${id}`);
+  const slider = await bench.postPhotos([path.join(FIXTURES, "plain.png")], `Slider wear ${id}`);
+  await magnet.getByRole("button", { name: "Share with owner" }).click();
+  await expect(magnet.getByText("Shared with owner")).toBeVisible();
+  const sharedThumb = (await magnet.locator("img").first().getAttribute("src"))!;
+  const hiddenThumb = (await slider.locator("img").first().getAttribute("src"))!;
+
+  const ownerContext = await browser.newContext({ storageState: storageStatePath("jobCustomer"), viewport: { width: 390, height: 844 } });
+  const owner = await ownerContext.newPage();
+  await owner.goto(`/my/jobs/${publicIds.get("copper-gulch/5")}`);
+  const updates = owner.getByRole("region", { name: "Updates from the shop" });
+  await expect(updates.getByText(`Drain plug magnet ${id}`)).toBeVisible();
+  await expect(updates.getByText("Front left CV boot is split")).toBeVisible();
+  // Shop-only entries, posted now or seeded, never reach the owner.
+  await expect(updates.getByText(`Slider wear ${id}`)).toHaveCount(0);
+  await expect(updates.getByText(`Bench check ${id}`)).toHaveCount(0);
+  await expect(updates.getByText("Check whether the parts counter")).toHaveCount(0);
+
+  // Guessing the shop-only photo's address gets nothing, at either size.
+  expect((await owner.request.get(hiddenThumb)).status()).toBe(404);
+  expect((await owner.request.get(hiddenThumb.replace(/\/thumb$/, "/display"))).status()).toBe(404);
+
+  // The shared photo comes back without the GPS position the camera wrote.
+  expect(await exifr.gps(fs.readFileSync(path.join(FIXTURES, "gps.jpg")))).toMatchObject({ latitude: expect.any(Number) });
+  const served = await owner.request.get(sharedThumb.replace(/\/thumb$/, "/display"));
+  expect(served.status()).toBe(200);
+  expect(served.headers()["content-type"]).toBe("image/jpeg");
+  expect(await exifr.gps(await served.body())).toBeFalsy();
+
+  // The viewer opens full size on a phone and closes again.
+  await updates.getByRole("button", { name: "Open photo 1 of 1" }).click();
+  await expect(owner.locator(".yarl__slide_image")).toBeVisible();
+  await owner.keyboard.press("Escape");
+  await expect(owner.locator(".yarl__slide_image")).toHaveCount(0);
+
+  // Sharing the note later: it reaches the open page without a reload, still as plain text.
+  await note.getByRole("button", { name: "Share with owner" }).click();
+  await expect(note.getByText("Shared with owner")).toBeVisible();
+  await expect(updates.getByText(`Bench check ${id}`)).toBeVisible({ timeout: 30_000 });
+  await expect(updates.getByText(script)).toBeVisible();
+  expect(await owner.evaluate(() => (window as unknown as { __benchsidePwned?: number }).__benchsidePwned)).toBeUndefined();
+
+  // Deleting a shared entry takes it away from the owner, too.
+  await bench.deleteEntry(note);
+  await owner.reload();
+  await expect(updates.getByText(`Drain plug magnet ${id}`)).toBeVisible();
+  await expect(updates.getByText(`Bench check ${id}`)).toHaveCount(0);
+
+  await expectNoViolations(owner);
+  await staff.close();
+  await ownerContext.close();
+});
+
+test.describe("as a technician", () => {
+  test.use({ storageState: storageStatePath("technician") });
+
+  test("an edit keeps the old words in the entry's history", async ({ page }) => {
+    const id = stamp();
+    const bench = new JobPage(page);
+    await bench.open("/shop/copper-gulch/jobs/3");
+    const note = await bench.postNote(`Fan relay clicks ${id}`);
+    await note.getByRole("button", { name: "Edit" }).click();
+    const editor = note.getByRole("textbox", { name: "Edit note" });
+    await editor.click();
+    await page.keyboard.press("End");
+    await page.keyboard.type(" but the fan stays off");
+    await note.getByRole("button", { name: "Save changes" }).click();
+    await expect(note).toContainText(`Fan relay clicks ${id} but the fan stays off`);
+    await expect(note).toContainText("(edited)");
+    await note.getByRole("button", { name: "History" }).click();
+    await expect(note.getByRole("list", { name: "Earlier versions" })).toContainText("Edited by Mateo Brandt");
+  });
+
+  test("the status moves only where its rules allow, and the move lands in the timeline", async ({ page }) => {
+    const bench = new JobPage(page);
+    await bench.open("/shop/copper-gulch/jobs/3");
+    const moveTo = page.getByLabel("Move to");
+    // "On the bench" can't jump to "Collected": it isn't offered.
+    await expect(moveTo.locator("option")).toHaveText(["Diagnosing", "Needs owner's OK", "Waiting on parts", "Ready to collect"]);
+    await moveTo.selectOption({ label: "Diagnosing" });
+    await page.getByLabel("Note for the owner (optional)").fill("Rechecking the fan circuit");
+    await page.getByRole("button", { name: "Change status" }).click();
+    const entry = page.getByRole("article").filter({ hasText: "Rechecking the fan circuit" });
+    await expect(entry).toBeVisible();
+    await expect(entry).toContainText("Diagnosing");
+    await expect(page.getByRole("region", { name: "Where it stands" })).toContainText("Diagnosing");
+  });
+
+  test("bad input gets a clear answer and writes nothing", async ({ page }) => {
+    const job = publicIds.get("copper-gulch/3")!;
+    const post = (data: unknown) => page.request.post(`/api/jobs/${job}/entries`, { data });
+    const para = (content: unknown[]) => ({ kind: "note", note: { type: "doc", content: [{ type: "paragraph", content }] } });
+
+    const empty = await post({ kind: "note", note: { type: "doc", content: [{ type: "paragraph" }] } });
+    expect(empty.status()).toBe(422);
+    expect((await empty.json()).error.message).toMatch(/write something/i);
+
+    const huge = await post(para([{ type: "text", text: "x".repeat(200_000) }]));
+    expect(huge.status()).toBe(422);
+    expect((await huge.json()).error.message).toMatch(/too long/i);
+
+    const jsLink = await post(para([{ type: "text", text: "click", marks: [{ type: "link", attrs: { href: "javascript:alert(1)" } }] }]));
+    expect(jsLink.status()).toBe(422);
+    expect((await jsLink.json()).error.message).toMatch(/http/i);
+
+    const exe = await page.request.post(`/api/jobs/${job}/photos`, {
+      multipart: { photo: { name: "brake-pads.jpg", mimeType: "image/jpeg", buffer: fs.readFileSync(path.join(FIXTURES, "not-a-photo.jpg")) } },
+    });
+    expect(exe.status()).toBe(422);
+    expect((await exe.json()).error.message).toMatch(/not a photo/i);
+
+    const tooBig = await page.request.post(`/api/jobs/${job}/photos`, {
+      multipart: { photo: { name: "huge.jpg", mimeType: "image/jpeg", buffer: Buffer.alloc(50 * 1024 * 1024) } },
+    });
+    expect(tooBig.status()).toBe(413);
+    expect((await tooBig.json()).error.message).toMatch(/20 MB/);
+
+    // Another shop's job looks like no job at all.
+    const elsewhere = await page.request.post(`/api/jobs/${publicIds.get("saltmarsh/1")}/entries`, { data: para([{ type: "text", text: "hello" }]) });
+    expect(elsewhere.status()).toBe(404);
+
+    // None of the refused notes was written.
+    const timeline = await (await page.request.get(`/api/jobs/${job}/timeline?limit=100`)).json();
+    expect(JSON.stringify(timeline)).not.toContain("x".repeat(1000));
+  });
+});
+
+async function expectNoViolations(page: Page) {
+  // WCAG 2.2 AA through axe-core's rule tags (see accessibility.spec.ts).
+  const { violations } = await new AxeBuilder({ page }).withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa", "wcag22aa"]).analyze();
+  expect(violations.map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`)).toEqual([]);
+}

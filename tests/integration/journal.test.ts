@@ -1,0 +1,223 @@
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Knex } from "knex";
+import { changeEntry, getPhotoAccess, listTimeline, moveJobStatus } from "@/db/queries/journal";
+import { AppError } from "@/lib/errors";
+import type { Actor } from "@/lib/permissions";
+import { db } from "@/lib/server/db";
+import { editEntry, postEntry, readTimeline, uploadPhoto } from "@/lib/server/journal";
+import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
+import { testKnex } from "../support/db";
+
+const note = (text: string) => ({ type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text }] }] });
+
+function staffActor(shop: Awaited<ReturnType<typeof makeShop>>, role: "owner" | "technician" | "service_writer"): Actor {
+  return { userId: shop.staff[role]!.id, email: shop.staff[role]!.email, name: role, memberships: [{ shopId: shop.id, shopSlug: shop.slug, shopName: shop.slug, role }] };
+}
+
+describe("job journal", () => {
+  let k: Knex;
+  let shop: Awaited<ReturnType<typeof makeShop>>;
+  let other: Awaited<ReturnType<typeof makeShop>>;
+  let jobId: number;
+  let publicId: string;
+  let owner: Actor;
+  let tech: Actor;
+  let writer: Actor;
+  let uploads: string;
+
+  beforeAll(async () => {
+    k = testKnex();
+    uploads = fs.mkdtempSync(path.join(os.tmpdir(), "benchside-uploads-"));
+    process.env.STORAGE_DIR = uploads;
+    shop = await makeShop(k, { label: "journal", roles: ["owner", "technician", "service_writer"] });
+    other = await makeShop(k, { label: "journal-other", roles: ["technician"] });
+    const [userId] = await k("users").insert({ email: `owner.${shop.slug}@mail.test`, name: "Rae Quill" });
+    const made = await makeCustomerWithJobs(k, shop.id, { name: "Rae Quill", userId: Number(userId), statuses: ["checked_in"] });
+    jobId = made.jobIds[0]!;
+    publicId = String((await k("jobs").where({ id: jobId }).first("public_id")).public_id);
+    owner = { userId: Number(userId), email: `owner.${shop.slug}@mail.test`, name: "Rae Quill", memberships: [] };
+    tech = staffActor(shop, "technician");
+    writer = staffActor(shop, "service_writer");
+  });
+  afterAll(async () => {
+    await k?.destroy();
+    fs.rmSync(uploads, { recursive: true, force: true });
+  });
+
+  it("new entries are shop-only; the owner sees only what is shared", async () => {
+    const hidden = await postEntry(tech, publicId, { kind: "note", note: note("metal flakes on the drain plug magnet"), visibility: "shop" });
+    const shown = await postEntry(tech, publicId, { kind: "note", note: note("Oil drained, filter off."), visibility: "shared" });
+    const forOwner = await readTimeline(owner, publicId, { order: "desc", limit: 50 });
+    expect(forOwner.audience).toBe("owner");
+    const ids = forOwner.entries.map((e) => e.id);
+    expect(ids).toContain(shown.id);
+    expect(ids).not.toContain(hidden.id);
+    // Staff-only fields are left out of the owner's answer altogether.
+    expect(JSON.stringify(forOwner)).not.toMatch(/"version"|"mine"|metal flakes/);
+    const forShop = await readTimeline(tech, publicId, { order: "asc", limit: 50 });
+    expect(forShop.entries.map((e) => e.id)).toEqual(expect.arrayContaining([hidden.id, shown.id]));
+    expect(forShop.entries.find((e) => e.id === hidden.id)?.visibility).toBe("shop");
+  });
+
+  it("staff can read the timeline as the owner does", async () => {
+    const asOwner = await readTimeline(tech, publicId, { order: "desc", limit: 50, as: "owner" });
+    expect(asOwner.entries.every((e) => e.visibility === "shared")).toBe(true);
+  });
+
+  it("someone else's job answers 404, to staff of another shop and to another customer", async () => {
+    const stranger: Actor = { userId: 999_999, email: "x@mail.test", name: "X", memberships: [] };
+    await expect(readTimeline(staffActor(other, "technician"), publicId, { order: "desc", limit: 10 })).rejects.toMatchObject({ code: "not_found" });
+    await expect(readTimeline(stranger, publicId, { order: "desc", limit: 10 })).rejects.toMatchObject({ code: "not_found" });
+    await expect(postEntry(owner, publicId, { kind: "note", note: note("hi"), visibility: "shared" })).rejects.toMatchObject({ code: "forbidden" });
+  });
+
+  it("bad notes are refused and nothing is written", async () => {
+    const before = await k("journal_entries").where({ job_id: jobId }).count({ n: "*" }).first();
+    await expect(postEntry(tech, publicId, { kind: "note", note: { type: "doc", content: [] }, visibility: "shop" })).rejects.toThrow();
+    await expect(postEntry(tech, publicId, { kind: "note", note: { type: "doc", content: [{ type: "script", text: "x" }] }, visibility: "shop" })).rejects.toThrow();
+    await expect(postEntry(tech, publicId, { kind: "note", note: note("x".repeat(200_000)), visibility: "shop" })).rejects.toThrow();
+    const after = await k("journal_entries").where({ job_id: jobId }).count({ n: "*" }).first();
+    expect(Number(after?.n)).toBe(Number(before?.n));
+  });
+
+  it("an edit keeps the old version in history; a stale version is refused; only the author may edit", async () => {
+    const { id } = await postEntry(tech, publicId, { kind: "note", note: note("first words"), visibility: "shop" });
+    const edited = await editEntry(tech, publicId, id, { version: 1, note: note("better words") });
+    expect(edited.version).toBe(2);
+    await expect(editEntry(tech, publicId, id, { version: 1, note: note("lost update") })).rejects.toMatchObject({ code: "conflict" });
+    await expect(editEntry(writer, publicId, id, { version: 2, visibility: "shared" })).rejects.toMatchObject({ code: "forbidden" });
+    const revisions = await k("journal_entry_revisions").where({ entry_id: id });
+    expect(revisions).toHaveLength(1);
+    expect(JSON.stringify(revisions[0].body)).toContain("first words");
+    // The shop owner may tidy anyone's entries.
+    await editEntry(staffActor(shop, "owner"), publicId, id, { version: 2, visibility: "shared" });
+  });
+
+  it("a deleted shared entry disappears for the owner and stays in history", async () => {
+    const { id } = await postEntry(tech, publicId, { kind: "note", note: note("to be deleted"), visibility: "shared" });
+    expect((await readTimeline(owner, publicId, { order: "desc", limit: 100 })).entries.map((e) => e.id)).toContain(id);
+    await editEntry(tech, publicId, id, { version: 1, delete: true });
+    expect((await readTimeline(owner, publicId, { order: "desc", limit: 100 })).entries.map((e) => e.id)).not.toContain(id);
+    expect((await readTimeline(tech, publicId, { order: "desc", limit: 100 })).entries.map((e) => e.id)).not.toContain(id);
+    const kept = await k("journal_entries").where({ id }).first();
+    expect(kept.deleted_at).not.toBeNull();
+    expect(await k("journal_entry_revisions").where({ entry_id: id, change: "delete" })).toHaveLength(1);
+  });
+
+  it("photos: uploaded, posted as a set; a shop-only photo is not the owner's to fetch", async () => {
+    const fixture = fs.readFileSync(path.join(__dirname, "../fixtures/photos/gps.jpg"));
+    const a = await uploadPhoto(tech, publicId, new File([fixture], "a.jpg", { type: "image/jpeg" }));
+    const b = await uploadPhoto(tech, publicId, new File([fixture], "b.jpg", { type: "image/jpeg" }));
+    const exe = new File([Buffer.concat([Buffer.from("MZ"), Buffer.alloc(200)])], "c.jpg", { type: "image/jpeg" });
+    await expect(uploadPhoto(tech, publicId, exe)).rejects.toBeInstanceOf(AppError);
+    const { id } = await postEntry(tech, publicId, { kind: "photos", photoIds: [a.id, b.id], caption: "Cam chain slider", visibility: "shop" });
+    const entry = (await readTimeline(tech, publicId, { order: "desc", limit: 100 })).entries.find((e) => e.id === id);
+    expect(entry?.photos.map((p) => p.id)).toEqual([a.id, b.id]);
+    expect((await getPhotoAccess({ publicId: a.id }))?.sharedWithOwner).toBe(false);
+    await editEntry(tech, publicId, id, { version: 1, visibility: "shared" });
+    expect((await getPhotoAccess({ publicId: a.id }))?.sharedWithOwner).toBe(true);
+    // Posting the same photos twice, or photos of another job, is refused.
+    await expect(postEntry(tech, publicId, { kind: "photos", photoIds: [a.id], visibility: "shop" })).rejects.toMatchObject({ code: "conflict" });
+    await expect(postEntry(tech, publicId, { kind: "photos", photoIds: ["A".repeat(22)], visibility: "shop" })).rejects.toMatchObject({ code: "not_found" });
+  });
+
+  it("status moves: two people pressing at once give one move, one history row and one entry", async () => {
+    const results = await Promise.all([1, 2, 3].map(() => moveJobStatus({ shopId: shop.id, jobId, from: "checked_in", to: "inspecting", userId: tech.userId, note: null })));
+    expect(results.filter(Boolean)).toHaveLength(1);
+    expect(await k("job_status_changes").where({ job_id: jobId, to_status: "inspecting" })).toHaveLength(1);
+    const statusEntries = await k("journal_entries").where({ job_id: jobId, kind: "status" });
+    expect(statusEntries).toHaveLength(1);
+    expect(statusEntries[0].visibility).toBe("shared");
+    await expect(changeEntry({ shopId: shop.id, jobId, entryId: Number(statusEntries[0].id), userId: tech.userId, mayModerate: true, expectedVersion: 1, change: { caption: "x" } })).rejects.toMatchObject({
+      code: "invalid",
+    });
+  });
+});
+
+describe("timeline queries", () => {
+  let k: Knex;
+  beforeAll(() => {
+    k = testKnex();
+  });
+  afterAll(async () => k?.destroy());
+
+  async function jobWithEntries(count: number) {
+    const shop = await makeShop(k, { label: `timeline-${count}`, roles: ["technician"] });
+    const { jobIds } = await makeCustomerWithJobs(k, shop.id, { name: "Ivo Penn", statuses: ["in_progress"] });
+    const jobId = jobIds[0]!;
+    const userId = shop.staff.technician!.id;
+    const rows = Array.from({ length: count }, (_, i) => ({
+      shop_id: shop.id,
+      job_id: jobId,
+      kind: i % 3 === 0 ? "photos" : "note",
+      visibility: i % 2 ? "shared" : "shop",
+      author_user_id: userId,
+      body: JSON.stringify(note(`entry ${i}`)),
+    }));
+    for (let i = 0; i < rows.length; i += 200) await k("journal_entries").insert(rows.slice(i, i + 200));
+    const photoEntries = await k("journal_entries").where({ job_id: jobId, kind: "photos" }).select("id");
+    const photos = photoEntries.flatMap((e, n) =>
+      [0, 1].map((position) => ({
+        public_id: `p${jobId}x${n}y${position}`.padEnd(22, "0").slice(0, 22),
+        shop_id: shop.id,
+        job_id: jobId,
+        entry_id: e.id,
+        position,
+        display_key: "shops/1/photos/x/display.jpg",
+        thumb_key: "shops/1/photos/x/thumb.jpg",
+        width: 10,
+        height: 10,
+        bytes: 10,
+      })),
+    );
+    for (let i = 0; i < photos.length; i += 200) await k("photos").insert(photos.slice(i, i + 200));
+    return { shopId: shop.id, jobId };
+  }
+
+  async function countQueries(run: () => Promise<unknown>) {
+    let n = 0;
+    const count = () => n++;
+    db().on("query", count);
+    try {
+      await run();
+    } finally {
+      db().off("query", count);
+    }
+    return n;
+  }
+
+  it("reads any number of entries with the same, small number of queries", async () => {
+    const small = await jobWithEntries(10);
+    const large = await jobWithEntries(500);
+    const read = (j: { shopId: number; jobId: number }, limit: number) => () => listTimeline({ ...j, audience: "shop", order: "desc", limit });
+    const qSmall = await countQueries(read(small, 100));
+    const qLarge = await countQueries(read(large, 100));
+    const qAll = await countQueries(read(large, 500));
+    expect(qSmall).toBe(qLarge);
+    expect(qAll).toBe(qSmall);
+    expect(qLarge).toBeLessThanOrEqual(2); // DESIGN.md §5: ≤ 6 per timeline request
+    const page = await listTimeline({ ...large, audience: "shop", order: "desc", limit: 500 });
+    expect(page.entries).toHaveLength(500);
+    expect(page.entries.filter((e) => e.kind === "photos").every((e) => e.photos.length === 2)).toBe(true);
+  });
+
+  it("pages with a cursor in both directions without gaps or repeats", async () => {
+    const j = await jobWithEntries(25);
+    for (const order of ["asc", "desc"] as const) {
+      const seen: number[] = [];
+      let after: number | null = null;
+      do {
+        const page: Awaited<ReturnType<typeof listTimeline>> = await listTimeline({ ...j, audience: "owner", order, after, limit: 5 });
+        seen.push(...page.entries.map((e) => e.id));
+        after = page.next;
+      } while (after != null);
+      expect(seen).toHaveLength(12); // the odd-numbered entries are shared
+      expect(new Set(seen).size).toBe(12);
+      const sorted = [...seen].sort((a, b) => (order === "asc" ? a - b : b - a));
+      expect(seen).toEqual(sorted);
+    }
+  });
+});
