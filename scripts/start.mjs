@@ -46,6 +46,7 @@ async function main() {
     RESEND_BASE_URL: setting("RESEND_BASE_URL", `http://127.0.0.1:${MAIL_PORT}`),
     MAIL_FAKE_PORT: String(MAIL_PORT),
     MAIL_FAKE_DIR: path.join(DIR, "mail"),
+    STORAGE_DIR: setting("STORAGE_DIR", path.join(DIR, "uploads")),
   };
 
   if ((await runToEnd("node", [bin.tsx, "db/cli.ts", "migrate"], env)) !== 0) throw new SetupError("Database migrations failed; see the error above.");

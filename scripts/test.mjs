@@ -3,6 +3,7 @@
 // folder and ports, so it runs fine while `npm start` is up.
 //   npm test                 everything
 //   npm test -- unit e2e     only the named phases (lint, unit, e2e); "unit" covers integration too
+//   npm test -- e2e tests/e2e/journal.spec.ts    only those spec files (any *.ts argument)
 import fs from "node:fs";
 import path from "node:path";
 import { ROOT, MARIADB, CHROMIUM, assertPortFree, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, say } from "./lib/setup.mjs";
@@ -16,7 +17,9 @@ const APP_PORT = Number(process.env.TEST_APP_PORT ?? 3110);
 const DB_USER = "benchside_test";
 const E2E_DB = "benchside_test_e2e";
 
-const wanted = process.argv.slice(2).filter((a) => !a.startsWith("-"));
+const args = process.argv.slice(2).filter((a) => !a.startsWith("-"));
+const files = args.filter((a) => a.endsWith(".ts"));
+const wanted = args.filter((a) => !a.endsWith(".ts"));
 const phase = (name) => wanted.length === 0 || wanted.includes(name);
 
 const testRun = new Run("test");
@@ -51,6 +54,7 @@ async function main() {
     await assertPortFree(MAIL_PORT, "the test mail fake (TEST_MAIL_PORT)", "127.0.0.1");
     const mailDir = path.join(DIR, "mail");
     fs.rmSync(mailDir, { recursive: true, force: true });
+    fs.rmSync(path.join(DIR, "uploads"), { recursive: true, force: true });
     adminSql(DIR, `DROP DATABASE IF EXISTS \`${E2E_DB}\`; CREATE DATABASE \`${E2E_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`);
     const env = {
       NODE_ENV: "production",
@@ -64,6 +68,7 @@ async function main() {
       RESEND_BASE_URL: `http://127.0.0.1:${MAIL_PORT}`,
       MAIL_FAKE_PORT: String(MAIL_PORT),
       MAIL_FAKE_DIR: mailDir,
+      STORAGE_DIR: path.join(DIR, "uploads"),
       // Every browser in the run comes from 127.0.0.1: the per-IP limits would be reached by the
       // suite itself. The per-address limits stay as shipped.
       SIGN_IN_LINKS_PER_IP: "1000",
@@ -80,7 +85,7 @@ async function main() {
       testRun.serve("The app under test", "node", [bin.next, "start", "-p", String(APP_PORT)], env);
       await waitForHttp(`http://127.0.0.1:${MAIL_PORT}/`, { label: "The mail fake" });
       await waitForHttp(`http://127.0.0.1:${APP_PORT}/api/health`, { label: "The app under test" });
-      if ((await run("node", [bin.playwright, "test"], env)) !== 0) failures.push("e2e");
+      if ((await run("node", [bin.playwright, "test", ...files], env)) !== 0) failures.push("e2e");
     }
   }
 

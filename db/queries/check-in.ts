@@ -6,6 +6,7 @@ import { shopToday } from "@/lib/jobs-view";
 import type { MachineKind } from "@/lib/machine";
 import { type CheckInInput, type CustomerSearchResult, type NewCustomer, type NewMachine, promisedOnProblem } from "@/lib/schemas/check-in";
 import { allocateJobNumber, newPublicId } from "./jobs";
+import { insertEntry } from "./journal";
 
 /** A refusal shown beside one field of the check-in form. */
 function refuse(code: "not_found" | "conflict" | "invalid", field: string, message: string): never {
@@ -115,6 +116,8 @@ export async function checkInJob({ shopId, userId, input, today }: { shopId: num
       created_by_user_id: userId,
     });
     await tx("job_status_changes").insert({ shop_id: shopId, job_id: jobId, from_status: null, to_status: "checked_in", changed_by_user_id: userId });
+    // The journal opens with the check-in, shared like every status change.
+    await insertEntry(tx, { shopId, jobId: Number(jobId), kind: "status", authorId: userId, visibility: "shared", body: { from: null, to: "checked_in", note: null } });
     return { id: Number(jobId), number, publicId, customerId, machineId };
   });
 }

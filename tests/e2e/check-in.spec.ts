@@ -1,5 +1,6 @@
-import { type Page, expect, test } from "@playwright/test";
+import { expect, test } from "@playwright/test";
 import mysql from "mysql2/promise";
+import { CheckInForm } from "./pages/check-in-form";
 import { storageStatePath } from "./personas";
 
 // A technician checks a machine in at the counter. Each run uses owners of its own (unique
@@ -24,41 +25,6 @@ test.afterAll(async () => {
   await query("DELETE j FROM jobs j JOIN customers c ON c.id = j.customer_id WHERE c.email IN (?)", [OWNER_EMAILS]);
   await query("DELETE FROM customers WHERE email IN (?)", [OWNER_EMAILS]);
 });
-
-/** The check-in form, found by its labels as a writer would. */
-class CheckInForm {
-  constructor(private readonly page: Page) {}
-
-  async openFromBoard() {
-    await this.page.goto("/shop/copper-gulch");
-    await this.page.getByRole("link", { name: "Check in a machine" }).click();
-    await expect(this.page.getByRole("heading", { level: 1, name: "Check in a machine" })).toBeVisible();
-  }
-
-  async newOwner(owner: { name: string; email: string; phone: string }) {
-    await this.page.getByRole("radio", { name: /New owner/ }).check();
-    await this.page.getByLabel("Owner's name").fill(owner.name);
-    await this.page.getByLabel("E-mail", { exact: true }).fill(owner.email);
-    await this.page.getByLabel("Phone", { exact: true }).fill(owner.phone);
-  }
-
-  async newMachine(machine: { kind: string; make: string; model: string; year: string; serial: string; hours: string }) {
-    await this.page.getByLabel("Kind").selectOption({ label: machine.kind });
-    await this.page.getByLabel("Make").fill(machine.make);
-    await this.page.getByLabel(/^Model/).fill(machine.model);
-    await this.page.getByLabel("Year", { exact: true }).fill(machine.year);
-    await this.page.getByLabel("Serial number or VIN").fill(machine.serial);
-    await this.page.getByLabel("Hours", { exact: true }).fill(machine.hours);
-  }
-
-  concern() {
-    return this.page.getByLabel("Owner's concern");
-  }
-
-  async submit() {
-    await this.page.getByRole("button", { name: "Check in machine" }).click();
-  }
-}
 
 test("a technician checks a machine in for a new owner and lands on the new job", async ({ page }) => {
   const [shop] = await query<mysql.RowDataPacket>("SELECT next_job_number FROM shops WHERE slug = 'copper-gulch'");

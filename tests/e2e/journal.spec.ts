@@ -4,34 +4,57 @@ import AxeBuilder from "@axe-core/playwright";
 import { type Page, expect, test } from "@playwright/test";
 import exifr from "exifr";
 import mysql from "mysql2/promise";
-import { storageStatePath } from "./personas";
+import { CheckInForm } from "./pages/check-in-form";
 import { JobPage } from "./pages/job-page";
+import { SignInPage } from "./pages/sign-in-page";
+import { storageStatePath } from "./personas";
 
 const FIXTURES = path.join(__dirname, "..", "fixtures", "photos");
 const publicIds = new Map<string, string>();
+const stamp = () => Date.now().toString(36);
+// A new owner per run, whose job is removed afterwards so the board counts other tests expect hold.
+const ownerEmail = `noor.ashby.${stamp()}@mail.test`;
+
+async function sql(query: string, params: unknown[] = []) {
+  const db = await mysql.createConnection(process.env.DATABASE_URL!);
+  try {
+    const [rows] = await db.query<mysql.RowDataPacket[]>(query, params);
+    return rows;
+  } finally {
+    await db.end();
+  }
+}
 
 test.beforeAll(async () => {
-  const db = await mysql.createConnection(process.env.DATABASE_URL!);
-  const [rows] = await db.query<mysql.RowDataPacket[]>("SELECT s.slug, j.number, j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id");
-  await db.end();
-  for (const r of rows) publicIds.set(`${r.slug}/${r.number}`, String(r.public_id));
+  for (const r of await sql("SELECT s.slug, j.number, j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id")) publicIds.set(`${r.slug}/${r.number}`, String(r.public_id));
 });
 
-const stamp = () => Date.now().toString(36);
+test.afterAll(async () => {
+  await sql("DELETE j FROM jobs j JOIN customers c ON c.id = j.customer_id WHERE c.email = ?", [ownerEmail]);
+  await sql("DELETE FROM customers WHERE email = ?", [ownerEmail]);
+});
 
-test("a technician posts a note and two photos and shares one photo; the owner sees exactly what was shared", async ({ browser }) => {
+test("a technician checks a machine in, posts a note and two photos and shares one; the owner signs in and sees exactly what was shared", async ({ browser }) => {
   test.setTimeout(120_000);
   const id = stamp();
   const staff = await browser.newContext({ storageState: storageStatePath("technician") });
-  const bench = new JobPage(await staff.newPage());
-  await bench.open("/shop/copper-gulch/jobs/5");
+  const counter = await staff.newPage();
+  const form = new CheckInForm(counter);
+  await form.openFromBoard();
+  await form.newOwner({ name: "Noor Ashby", email: ownerEmail, phone: "+1 555 010 7788" });
+  await form.newMachine({ kind: "ATV", make: "Tessaro", model: "Ridgeline 450", year: "2018", serial: `TSR45-${id}`, hours: "210" });
+  await form.concern().fill("Oil light flickers at idle when hot.");
+  await form.submit();
+  // Straight after check-in the page opens on photos, for the intake condition.
+  await expect(counter.getByRole("tab", { name: "Photos" })).toHaveAttribute("aria-selected", "true");
+  const bench = new JobPage(counter);
 
   // A note whose text carries a script: it must read as text and run nothing.
   const script = "<script>window.__benchsidePwned = 1</script>";
   const note = await bench.postNote(`Bench check ${id}: ${script}`);
   await expect(note).toContainText(script);
   await expect(note.getByText("Shop only")).toBeVisible();
-  expect(await bench.page.evaluate(() => (window as unknown as { __benchsidePwned?: number }).__benchsidePwned)).toBeUndefined();
+  expect(await counter.evaluate(() => (window as unknown as { __benchsidePwned?: number }).__benchsidePwned)).toBeUndefined();
 
   // Two photos, one per set; the one from the camera carries GPS in its EXIF.
   const magnet = await bench.postPhotos([path.join(FIXTURES, "gps.jpg")], `Drain plug magnet ${id}`);
@@ -41,16 +64,17 @@ test("a technician posts a note and two photos and shares one photo; the owner s
   const sharedThumb = (await magnet.locator("img").first().getAttribute("src"))!;
   const hiddenThumb = (await slider.locator("img").first().getAttribute("src"))!;
 
-  const ownerContext = await browser.newContext({ storageState: storageStatePath("jobCustomer"), viewport: { width: 390, height: 844 } });
+  // The owner signs in with an e-mailed link, on a phone, and opens the new job.
+  const ownerContext = await browser.newContext({ viewport: { width: 390, height: 844 } });
   const owner = await ownerContext.newPage();
-  await owner.goto(`/my/jobs/${publicIds.get("copper-gulch/5")}`);
+  await new SignInPage(owner).signInAsOwner(ownerEmail);
+  await owner.getByTestId("my-job").filter({ hasText: "Tessaro Ridgeline 450" }).getByRole("link").click();
   const updates = owner.getByRole("region", { name: "Updates from the shop" });
   await expect(updates.getByText(`Drain plug magnet ${id}`)).toBeVisible();
-  await expect(updates.getByText("Front left CV boot is split")).toBeVisible();
-  // Shop-only entries, posted now or seeded, never reach the owner.
+  // Shared: the check-in's status entry and the one photo set. Nothing shop-only.
+  await expect(updates.getByRole("article")).toHaveCount(2);
   await expect(updates.getByText(`Slider wear ${id}`)).toHaveCount(0);
   await expect(updates.getByText(`Bench check ${id}`)).toHaveCount(0);
-  await expect(updates.getByText("Check whether the parts counter")).toHaveCount(0);
 
   // Guessing the shop-only photo's address gets nothing, at either size.
   expect((await owner.request.get(hiddenThumb)).status()).toBe(404);
@@ -96,7 +120,7 @@ test.describe("as a technician", () => {
     await bench.open("/shop/copper-gulch/jobs/3");
     const note = await bench.postNote(`Fan relay clicks ${id}`);
     await note.getByRole("button", { name: "Edit" }).click();
-    const editor = note.getByRole("textbox", { name: "Edit note" });
+    const editor = note.getByRole("textbox", { name: "Edit note", exact: true });
     await editor.click();
     await page.keyboard.press("End");
     await page.keyboard.type(" but the fan stays off");

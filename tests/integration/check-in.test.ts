@@ -96,6 +96,10 @@ describe("checking a machine in", () => {
     const history = await db("job_status_changes").where({ job_id: job.id });
     expect(history).toHaveLength(1);
     expect(history[0]).toMatchObject({ shop_id: shop.id, from_status: null, to_status: "checked_in", changed_by_user_id: writer });
+    // The journal opens with the check-in, shared with the owner like every status change.
+    const entries = await db("journal_entries").where({ job_id: job.id });
+    expect(entries).toHaveLength(1);
+    expect(entries[0]).toMatchObject({ kind: "status", visibility: "shared", author_user_id: writer });
   });
 
   it("reuses an owner and a machine on file, writing only the job", async () => {

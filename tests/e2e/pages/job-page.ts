@@ -6,7 +6,7 @@ export class JobPage {
 
   async open(path: string) {
     await this.page.goto(path);
-    await expect(this.page.getByRole("heading", { name: "Journal" })).toBeVisible();
+    await expect(this.page.getByRole("heading", { name: "Journal", exact: true })).toBeVisible();
   }
 
   entry(text: string): Locator {
@@ -15,7 +15,7 @@ export class JobPage {
 
   async postNote(text: string): Promise<Locator> {
     await this.page.getByRole("tab", { name: "Note" }).click();
-    const editor = this.page.getByRole("textbox", { name: "Note" });
+    const editor = this.page.getByRole("textbox", { name: "Note", exact: true });
     await editor.click();
     await this.page.keyboard.type(text);
     await this.page.getByRole("button", { name: "Post note" }).click();

@@ -55,7 +55,7 @@ export function CheckInForm({ shopSlug, today, staff, defaultTechnicianId }: Pro
           <Input name="promisedOn" type="date" min={today} defaultValue={values?.promisedOn} />
         </Field>
         <Field id="technician" label="Technician" error={err("technicianId")}>
-          <Select name="technicianId" defaultValue={values?.technicianId ?? (defaultTechnicianId ? String(defaultTechnicianId) : "")}>
+          <Select name="technicianId" key={`technician-${values?.technicianId ?? ""}`} defaultValue={values?.technicianId ?? (defaultTechnicianId ? String(defaultTechnicianId) : "")}>
             <option value="">Not assigned yet</option>
             {technicians.length ? (
               <optgroup label="Technicians">

@@ -56,12 +56,14 @@ export function MachineSection({ state, ownerMode, customer, pick, onPickChange 
 }
 
 function NewMachineFields({ state }: { state: ActionState }) {
+  // React resets the form after each action; a select takes its defaultValue only when it
+  // mounts, so each select is keyed on the value sent back to bring it back after an error.
   const values = state && !state.ok ? state.values : undefined;
   const err = (name: string) => fieldError(state, name);
   return (
     <div className="space-y-4">
       <Field id="machine-kind" label="Kind" required error={err("machineKind")}>
-        <Select name="machineKind" defaultValue={values?.machineKind ?? ""}>
+        <Select name="machineKind" key={`kind-${values?.machineKind ?? ""}`} defaultValue={values?.machineKind ?? ""}>
           <option value="">Pick one</option>
           {MACHINE_KINDS.map((k) => (
             <option key={k} value={k}>
@@ -92,7 +94,7 @@ function NewMachineFields({ state }: { state: ActionState }) {
         <Input name="machineOdometer" inputMode="numeric" autoComplete="off" maxLength={9} defaultValue={values?.machineOdometer} />
       </Field>
       <Field id="machine-odometer-unit" label="Odometer unit" error={err("machineOdometerUnit")}>
-        <Select name="machineOdometerUnit" defaultValue={values?.machineOdometerUnit ?? "mi"}>
+        <Select name="machineOdometerUnit" key={`unit-${values?.machineOdometerUnit ?? ""}`} defaultValue={values?.machineOdometerUnit ?? "mi"}>
           <option value="mi">Miles</option>
           <option value="km">Kilometres</option>
         </Select>
