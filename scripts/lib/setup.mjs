@@ -79,11 +79,17 @@ export function ensureDebianPackages(packages) {
 /** Random secrets generated once per data folder, so restarts keep sessions and the database password. */
 export function loadSecrets(dir) {
   const file = path.join(dir, "secrets.json");
-  if (fs.existsSync(file)) return JSON.parse(fs.readFileSync(file, "utf8"));
-  const secrets = {
-    authSecret: crypto.randomBytes(32).toString("base64url"),
-    dbPassword: crypto.randomBytes(18).toString("base64url"),
+  const known = fs.existsSync(file) ? JSON.parse(fs.readFileSync(file, "utf8")) : {};
+  const wanted = {
+    authSecret: () => crypto.randomBytes(32).toString("base64url"),
+    dbPassword: () => crypto.randomBytes(18).toString("base64url"),
+    videoTokenSecret: () => crypto.randomBytes(18).toString("base64url"),
+    videoWebhookSecret: () => crypto.randomBytes(24).toString("base64url"),
   };
+  // A folder made before a secret existed gets just the missing ones; the others stay as they were.
+  const missing = Object.keys(wanted).filter((key) => !known[key]);
+  if (!missing.length) return known;
+  const secrets = { ...known, ...Object.fromEntries(missing.map((key) => [key, wanted[key]()])) };
   fs.mkdirSync(dir, { recursive: true });
   fs.writeFileSync(file, JSON.stringify(secrets, null, 2), { mode: 0o600 });
   return secrets;
