@@ -6,11 +6,16 @@ import { JOB_STATUSES } from "@/lib/job-status";
 
 // Bench records (torque, reading, teardown, part) keep their own rows; their entry's body is a
 // snapshot of what was recorded, so the timeline reads them without a query per kind.
-export const ENTRY_KINDS = ["note", "photos", "status", "torque", "reading", "teardown", "part"] as const;
+export const ENTRY_KINDS = ["note", "photos", "status", "torque", "reading", "teardown", "part", "clip", "approval"] as const;
 export type EntryKind = (typeof ENTRY_KINDS)[number];
 export type EntryVisibility = "shop" | "shared";
-/** "shop": staff of the job's shop; "owner": the machine's owner (shared entries only). */
-export type TimelineAudience = "shop" | "owner";
+/**
+ * "shop": staff of the job's shop; "owner": the machine's owner (shared entries only);
+ * "follower": someone the owner invited (shared entries without money or decisions).
+ */
+export type TimelineAudience = "shop" | "owner" | "follower";
+/** Entries that carry prices or the owner's decisions: never shown or mailed to followers. */
+export const MONEY_ENTRY_KINDS: readonly string[] = ["approval", "invoice", "payment"];
 
 export const ENTRY_KIND_LABEL: Record<EntryKind, string> = {
   note: "Note",
@@ -20,10 +25,23 @@ export const ENTRY_KIND_LABEL: Record<EntryKind, string> = {
   reading: "Reading",
   teardown: "Teardown step",
   part: "Parts",
+  clip: "Clip",
+  approval: "Approval request",
 };
 export const VISIBILITY_LABEL: Record<EntryVisibility, string> = { shop: "Shop only", shared: "Shared with owner" };
 
 export type TimelinePhoto = { id: string; width: number; height: number; thumbUrl: string; displayUrl: string };
+export type ClipStatus = "uploading" | "processing" | "ready" | "errored" | "deleted";
+/** A clip as a reader gets it: where it plays from only once it is ready. */
+export type TimelineClip = {
+  id: string;
+  status: ClipStatus;
+  durationSeconds: number | null;
+  aspectRatio: string | null;
+  src: string | null;
+  poster: string | null;
+  error: string | null;
+};
 export type StatusBody = { from: JobStatus | null; to: JobStatus; note: string | null };
 
 export type TimelineEntry = {
@@ -36,6 +54,7 @@ export type TimelineEntry = {
   body: unknown;
   caption: string | null;
   photos: TimelinePhoto[];
+  clip?: TimelineClip | null;
   /** Shop audience only. */
   version?: number;
   mine?: boolean;

@@ -3,22 +3,32 @@
 
 export const STAFF_ROLES = ["owner", "service_writer", "technician"] as const;
 export type StaffRole = (typeof STAFF_ROLES)[number];
-/** "customer" is the machine's owner on their own jobs; it is never stored as a membership. */
-export type Role = StaffRole | "customer";
-export const ROLES: readonly Role[] = [...STAFF_ROLES, "customer"];
+/**
+ * "customer" is the machine's owner on their own jobs; "follower" is someone they invited to
+ * follow one job. Neither is ever stored as a membership: both come from the resource.
+ */
+export type Role = StaffRole | "customer" | "follower";
+export const ROLES: readonly Role[] = [...STAFF_ROLES, "customer", "follower"];
 
 export const ROLE_LABEL: Record<Role, string> = {
   owner: "Shop owner",
   service_writer: "Service writer",
   technician: "Technician",
   customer: "Machine owner",
+  follower: "Follower",
 };
 
 export const PERMISSIONS = {
   "shop:view-board": ["owner", "service_writer", "technician"],
   "shop:manage-settings": ["owner"],
   "shop:manage-staff": ["owner"],
-  "job:view": ["owner", "service_writer", "technician", "customer"],
+  "job:view": ["owner", "service_writer", "technician", "customer", "follower"],
+  // Following: the owner invites and removes followers; each subscriber sets their own e-mail.
+  "job:follow-manage": ["customer"],
+  "job:follow": ["customer", "follower"],
+  "job:view-followers": ["owner", "service_writer", "technician", "customer"],
+  // Mail that failed to send: the desk looks at it and sends it again.
+  "outbox:manage": ["owner", "service_writer"],
   "job:view-history": ["owner", "service_writer", "technician"],
   "job:check-in": ["owner", "service_writer", "technician"],
   "job:change-status": ["owner", "service_writer", "technician"],
@@ -27,6 +37,18 @@ export const PERMISSIONS = {
   "journal:post": ["owner", "service_writer", "technician"],
   // Edit, share or delete someone else's entry (authors always may change their own).
   "journal:moderate": ["owner"],
+  // Bench tools: torque records, readings, teardown log and reassembly ticks.
+  "bench:record": ["owner", "service_writer", "technician"],
+  // In a small shop whoever takes the delivery marks the part in, so every staff role may.
+  "parts:manage": ["owner", "service_writer", "technician"],
+  // The shop's spec library: everyone on staff reads it; the desk keeps it.
+  "specs:manage": ["owner", "service_writer"],
+  // Approval requests: the bench drafts findings; the desk prices, sends, withdraws and notes
+  // answers given by phone or in person; only the machine's owner answers online.
+  "approvals:draft": ["owner", "service_writer", "technician"],
+  "approvals:send": ["owner", "service_writer"],
+  "approvals:record-decision": ["owner", "service_writer"],
+  "approvals:answer": ["customer"],
   "customer:view": ["owner", "service_writer", "technician"],
   "customer:edit": ["owner", "service_writer"],
 } as const satisfies Record<string, readonly Role[]>;
@@ -42,7 +64,7 @@ export type Actor = {
 };
 
 /** What is being acted on: always the shop it lives in; for a job, the signed-in user linked to its customer. */
-export type Resource = { shopId: number; customerUserId?: number | null };
+export type Resource = { shopId: number; customerUserId?: number | null; followerUserIds?: readonly number[] | null };
 
 export function roleAllows(role: Role, action: Action): boolean {
   return (PERMISSIONS[action] as readonly Role[]).includes(role);
@@ -52,6 +74,7 @@ export function roleAllows(role: Role, action: Action): boolean {
 export function rolesFor(actor: Actor, resource: Resource): Role[] {
   const roles: Role[] = actor.memberships.filter((m) => m.shopId === resource.shopId).map((m) => m.role);
   if (resource.customerUserId != null && resource.customerUserId === actor.userId) roles.push("customer");
+  if (resource.followerUserIds?.includes(actor.userId)) roles.push("follower");
   return roles;
 }
 

@@ -1,7 +1,7 @@
 // `npm start`: everything a newcomer needs, in order, and a clean stop on Ctrl-C.
 // `npm start -- --dev` runs the same services with `next dev` (hot reload) instead of a build.
 import path from "node:path";
-import { ROOT, MARIADB, SetupError, assertPortFree, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, readDotEnv, say } from "./lib/setup.mjs";
+import { ROOT, FFMPEG, MARIADB, SetupError, assertPortFree, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, readDotEnv, say } from "./lib/setup.mjs";
 import { provisionDatabase } from "./lib/mariadb.mjs";
 import { Run, run as runToEnd, waitForHttp } from "./lib/processes.mjs";
 
@@ -11,6 +11,7 @@ const setting = (key, fallback) => process.env[key] ?? dotEnv[key] ?? fallback;
 const PORT = Number(setting("PORT", "3000"));
 const DB_PORT = Number(setting("BENCHSIDE_DB_PORT", "3307"));
 const MAIL_PORT = Number(setting("MAIL_FAKE_PORT", "4010"));
+const VIDEO_PORT = Number(setting("VIDEO_FAKE_PORT", "4020"));
 const DIR = path.join(ROOT, ".data", "dev");
 const appUrl = setting("APP_URL", `http://localhost:${PORT}`);
 const DEV = process.argv.includes("--dev");
@@ -33,6 +34,9 @@ async function main() {
 
   // Real keys in .env replace the local fakes; otherwise the app talks to fakes/mail.
   const useMailFake = !setting("RESEND_API_KEY", "") || setting("RESEND_BASE_URL", "").includes("127.0.0.1");
+  // The same for video: without real credentials the app talks to fakes/video.
+  const useVideoFake = !setting("MUX_TOKEN_ID", "") || setting("MUX_BASE_URL", "").includes("127.0.0.1");
+  const video = `http://127.0.0.1:${VIDEO_PORT}`;
   const env = {
     ...dotEnv,
     NODE_ENV: DEV ? "development" : "production",
@@ -47,6 +51,19 @@ async function main() {
     MAIL_FAKE_PORT: String(MAIL_PORT),
     MAIL_FAKE_DIR: path.join(DIR, "mail"),
     STORAGE_DIR: setting("STORAGE_DIR", path.join(DIR, "uploads")),
+    ...(useVideoFake
+      ? {
+          MUX_TOKEN_ID: "local-video-fake",
+          MUX_TOKEN_SECRET: secrets.videoTokenSecret,
+          MUX_WEBHOOK_SECRET: secrets.videoWebhookSecret,
+          MUX_BASE_URL: video,
+          VIDEO_PLAYBACK_URL: `${video}/media/{id}/video.mp4`,
+          VIDEO_POSTER_URL: `${video}/media/{id}/poster.jpg`,
+          VIDEO_FAKE_PORT: String(VIDEO_PORT),
+          VIDEO_FAKE_DIR: path.join(DIR, "video"),
+          VIDEO_WEBHOOK_URL: `http://127.0.0.1:${PORT}/api/webhooks/video`,
+        }
+      : {}),
   };
 
   if ((await runToEnd("node", [bin.tsx, "db/cli.ts", "migrate"], env)) !== 0) throw new SetupError("Database migrations failed; see the error above.");
@@ -57,6 +74,17 @@ async function main() {
     run.serve("The mail fake", "node", [bin.tsx, "fakes/mail/server.ts"], env);
     await waitForHttp(`http://127.0.0.1:${MAIL_PORT}/`, { label: "The mail fake" });
   }
+
+  if (useVideoFake) {
+    ensureDebianPackages([FFMPEG]);
+    await assertPortFree(VIDEO_PORT, "the video fake (VIDEO_FAKE_PORT)", "127.0.0.1");
+    run.serve("The video fake", "node", [bin.tsx, "fakes/video/server.ts"], env);
+    await waitForHttp(`${video}/_fake/health`, { label: "The video fake" });
+  }
+
+  // The mail worker renders and sends what the app queues (scripts/outbox-worker.ts: why it is a
+  // process of its own). OUTBOX_WORKER=off when workers run elsewhere; any number may run.
+  if (setting("OUTBOX_WORKER", "on") !== "off") run.serve("The mail worker", "node", [bin.tsx, "--tsconfig", "tsconfig.worker.json", "scripts/outbox-worker.ts"], env);
 
   if (DEV) {
     run.serve("The app (dev)", "node", [bin.next, "dev", "-p", String(PORT)], env);
@@ -69,6 +97,7 @@ async function main() {
 
   console.log(`\n  Benchside is up:  ${appUrl}`);
   if (useMailFake) console.log(`  Mail sent by the app:  http://127.0.0.1:${MAIL_PORT}/`);
+  if (useVideoFake) console.log(`  Video service (local fake):  ${video}/_fake/status`);
   console.log("  Demo sign-ins are in README.md. Ctrl-C stops everything.\n");
 }
 

@@ -6,7 +6,7 @@
 //   npm test -- e2e tests/e2e/journal.spec.ts    only those spec files (any *.ts argument)
 import fs from "node:fs";
 import path from "node:path";
-import { ROOT, MARIADB, CHROMIUM, assertPortFree, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, say } from "./lib/setup.mjs";
+import { ROOT, MARIADB, CHROMIUM, FFMPEG, assertPortFree, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, say } from "./lib/setup.mjs";
 import { adminSql, provisionDatabase } from "./lib/mariadb.mjs";
 import { Run, run, waitForHttp } from "./lib/processes.mjs";
 
@@ -14,6 +14,7 @@ const DIR = path.join(ROOT, ".data", "test");
 const DB_PORT = Number(process.env.TEST_DB_PORT ?? 3317);
 const MAIL_PORT = Number(process.env.TEST_MAIL_PORT ?? 4110);
 const APP_PORT = Number(process.env.TEST_APP_PORT ?? 3110);
+const VIDEO_PORT = Number(process.env.TEST_VIDEO_PORT ?? 4120);
 const DB_USER = "benchside_test";
 const E2E_DB = "benchside_test_e2e";
 
@@ -27,7 +28,7 @@ const testRun = new Run("test");
 async function main() {
   testRun.lock(DIR, { label: "Another `npm test`" });
   ensureNodeModules();
-  ensureDebianPackages(phase("e2e") ? [MARIADB, CHROMIUM] : [MARIADB]);
+  ensureDebianPackages(phase("e2e") ? [MARIADB, FFMPEG, CHROMIUM] : [MARIADB, FFMPEG]);
 
   const secrets = loadSecrets(DIR);
   await testRun.startDb(DIR, DB_PORT);
@@ -55,6 +56,8 @@ async function main() {
     const mailDir = path.join(DIR, "mail");
     fs.rmSync(mailDir, { recursive: true, force: true });
     fs.rmSync(path.join(DIR, "uploads"), { recursive: true, force: true });
+    fs.rmSync(path.join(DIR, "video"), { recursive: true, force: true });
+    await assertPortFree(VIDEO_PORT, "the test video fake (TEST_VIDEO_PORT)", "127.0.0.1");
     adminSql(DIR, `DROP DATABASE IF EXISTS \`${E2E_DB}\`; CREATE DATABASE \`${E2E_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`);
     const env = {
       NODE_ENV: "production",
@@ -69,6 +72,15 @@ async function main() {
       MAIL_FAKE_PORT: String(MAIL_PORT),
       MAIL_FAKE_DIR: mailDir,
       STORAGE_DIR: path.join(DIR, "uploads"),
+      MUX_TOKEN_ID: "test-video-fake",
+      MUX_TOKEN_SECRET: secrets.videoTokenSecret,
+      MUX_WEBHOOK_SECRET: secrets.videoWebhookSecret,
+      MUX_BASE_URL: `http://127.0.0.1:${VIDEO_PORT}`,
+      VIDEO_PLAYBACK_URL: `http://127.0.0.1:${VIDEO_PORT}/media/{id}/video.mp4`,
+      VIDEO_POSTER_URL: `http://127.0.0.1:${VIDEO_PORT}/media/{id}/poster.jpg`,
+      VIDEO_FAKE_PORT: String(VIDEO_PORT),
+      VIDEO_FAKE_DIR: path.join(DIR, "video"),
+      VIDEO_WEBHOOK_URL: `http://127.0.0.1:${APP_PORT}/api/webhooks/video`,
       // Every browser in the run comes from 127.0.0.1: the per-IP limits would be reached by the
       // suite itself. The per-address limits stay as shipped.
       SIGN_IN_LINKS_PER_IP: "1000",
@@ -82,8 +94,12 @@ async function main() {
       failures.push("e2e set-up");
     } else {
       testRun.serve("The test mail fake", "node", [bin.tsx, "fakes/mail/server.ts"], env);
+      testRun.serve("The video fake", "node", [bin.tsx, "fakes/video/server.ts"], env);
       testRun.serve("The app under test", "node", [bin.next, "start", "-p", String(APP_PORT)], env);
+      // Polls often so mail reaches the test mail fake within a second of being queued.
+      testRun.serve("The mail worker", "node", [bin.tsx, "--tsconfig", "tsconfig.worker.json", "scripts/outbox-worker.ts"], { ...env, OUTBOX_POLL_MS: "300" });
       await waitForHttp(`http://127.0.0.1:${MAIL_PORT}/`, { label: "The mail fake" });
+      await waitForHttp(`http://127.0.0.1:${VIDEO_PORT}/_fake/health`, { label: "The video fake" });
       await waitForHttp(`http://127.0.0.1:${APP_PORT}/api/health`, { label: "The app under test" });
       if ((await run("node", [bin.playwright, "test", ...files], env)) !== 0) failures.push("e2e");
     }

@@ -6,7 +6,10 @@ import { NoteView } from "@/components/rich-text/note-view";
 import { StatusBadge } from "@/components/status-badge";
 import { ENTRY_KIND_LABEL, type TimelineEntry, VISIBILITY_LABEL, isStatusBody } from "@/lib/journal";
 import type { NoteDoc } from "@/lib/rich-text/note";
+import { ClipPlayer } from "./clip-player";
+import { BenchEntryBody, isBenchEntry } from "./bench-entry-body";
 import { PhotoGrid } from "./photo-grid";
+import { ApprovalEntryBody } from "@/components/approvals/approval-entry-body";
 
 export function VisibilityBadge({ visibility }: { visibility: TimelineEntry["visibility"] }) {
   return visibility === "shared" ? (
@@ -64,6 +67,14 @@ function EntryBody({ entry }: { entry: TimelineEntry }) {
       </div>
     );
   }
+  if (entry.kind === "clip" && entry.clip) {
+    return (
+      <div className="space-y-2">
+        {entry.caption ? <p className="whitespace-pre-line">{entry.caption}</p> : null}
+        <ClipPlayer clip={entry.clip} title={entry.caption ?? "Clip from the bench"} />
+      </div>
+    );
+  }
   if (entry.kind === "status" && isStatusBody(entry.body)) {
     const body = entry.body;
     return (
@@ -81,5 +92,7 @@ function EntryBody({ entry }: { entry: TimelineEntry }) {
       </div>
     );
   }
+  if (isBenchEntry(entry)) return <BenchEntryBody entry={entry} />;
+  if (entry.kind === "approval") return <ApprovalEntryBody body={entry.body} />;
   return null;
 }

@@ -3,6 +3,10 @@ import * as shopsUsers from "./20261201_01_shops_users";
 import * as customersMachinesJobs from "./20261201_02_customers_machines_jobs";
 import * as signIn from "./20261201_03_sign_in";
 import * as journal from "./20261202_04_journal";
+import * as bench from "./20261202_05_bench";
+import * as outboxFollowing from "./20261202_06_outbox_following";
+import * as approvals from "./20261202_07_approvals";
+import * as clips from "./20261202_08_clips";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -13,6 +17,10 @@ const MIGRATIONS: Migration[] = [
   { name: "20261201_02_customers_machines_jobs", module: customersMachinesJobs },
   { name: "20261201_03_sign_in", module: signIn },
   { name: "20261202_04_journal", module: journal },
+  { name: "20261202_05_bench", module: bench },
+  { name: "20261202_06_outbox_following", module: outboxFollowing },
+  { name: "20261202_07_approvals", module: approvals },
+  { name: "20261202_08_clips", module: clips },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

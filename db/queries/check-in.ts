@@ -6,6 +6,7 @@ import { shopToday } from "@/lib/jobs-view";
 import type { MachineKind } from "@/lib/machine";
 import { type CheckInInput, type CustomerSearchResult, type NewCustomer, type NewMachine, promisedOnProblem } from "@/lib/schemas/check-in";
 import { allocateJobNumber, newPublicId } from "./jobs";
+import { subscribeOwner } from "./following";
 import { insertEntry } from "./journal";
 
 /** A refusal shown beside one field of the check-in form. */
@@ -118,6 +119,9 @@ export async function checkInJob({ shopId, userId, input, today }: { shopId: num
     await tx("job_status_changes").insert({ shop_id: shopId, job_id: jobId, from_status: null, to_status: "checked_in", changed_by_user_id: userId });
     // The journal opens with the check-in, shared like every status change.
     await insertEntry(tx, { shopId, jobId: Number(jobId), kind: "status", authorId: userId, visibility: "shared", body: { from: null, to: "checked_in", note: null } });
+    // The owner follows their job by e-mail from the start (they can choose less, or stop).
+    const owner = await tx("customers").where({ shop_id: shopId, id: customerId }).first("email", "user_id");
+    if (owner?.email) await subscribeOwner(tx, { shopId, jobId: Number(jobId), email: String(owner.email), userId: owner.user_id == null ? null : Number(owner.user_id) });
     return { id: Number(jobId), number, publicId, customerId, machineId };
   });
 }

@@ -5,7 +5,9 @@ import { db } from "@/lib/server/db";
 import { AppError } from "@/lib/errors";
 import type { JobStatus } from "@/lib/job-status";
 import type { EntryKind, EntryVisibility, TimelineAudience, TimelineEntry, TimelinePage, TimelinePhoto } from "@/lib/journal";
-import { photoUrl } from "@/lib/journal";
+import { MONEY_ENTRY_KINDS, photoUrl } from "@/lib/journal";
+import { clipsForEntries } from "./clips";
+import { recordSharedEntry } from "./following";
 
 type Raw = Record<string, unknown>;
 
@@ -17,8 +19,8 @@ export function newPhotoPublicId(): string {
 }
 
 /**
- * One page of a job's timeline in exactly two queries (entries with their authors, then the
- * photos of those entries), whatever the number of entries. The owner's audience gets shared,
+ * One page of a job's timeline in at most three queries (entries with their authors, then the
+ * photos and the clips of those entries), whatever the number of entries. The owner's audience gets shared,
  * undeleted entries only; the shop's gets everything not deleted.
  */
 export async function listTimeline({
@@ -45,12 +47,15 @@ export async function listTimeline({
     .orderBy("e.id", order)
     .limit(limit + 1)
     .select("e.id", "e.kind", "e.visibility", "e.body", "e.caption", "e.version", "e.created_at", "e.edited_at", "e.author_user_id", "u.name as author_name");
-  if (audience === "owner") q.where("e.visibility", "shared");
+  if (audience !== "shop") q.where("e.visibility", "shared");
+  if (audience === "follower") q.whereNotIn("e.kind", MONEY_ENTRY_KINDS);
   if (after != null) q.where("e.id", order === "asc" ? ">" : "<", after);
   const rows = (await q) as Raw[];
   const more = rows.length > limit;
   const page = more ? rows.slice(0, limit) : rows;
 
+  // One more query, only when the page holds clips: still a fixed number per page.
+  const clips = await clipsForEntries(db(), shopId, page.filter((r) => r.kind === "clip").map((r) => Number(r.id)));
   const photoEntryIds = page.filter((r) => r.kind === "photos").map((r) => Number(r.id));
   const photosByEntry = new Map<number, TimelinePhoto[]>();
   if (photoEntryIds.length) {
@@ -79,6 +84,7 @@ export async function listTimeline({
       body: parseJson(r.body),
       caption: (r.caption as string | null) ?? null,
       photos: photosByEntry.get(id) ?? [],
+      ...(r.kind === "clip" ? { clip: clips.get(id) ?? null } : {}),
     };
     if (audience === "shop") {
       entry.version = Number(r.version);
@@ -110,6 +116,8 @@ export async function insertEntry(
     shared_at: visibility === "shared" ? k.fn.now(3) : null,
   });
   await k("jobs").where({ id: e.jobId, shop_id: e.shopId }).update({ updated_at: k.fn.now() });
+  // Followers hear of it (batched) in the same transaction as the entry.
+  if (visibility === "shared") await recordSharedEntry(k, { shopId: e.shopId, jobId: e.jobId, entryId: Number(id), kind: e.kind, body: e.body });
   return Number(id);
 }
 
@@ -175,10 +183,13 @@ export async function getPhotoAccess({ publicId }: { publicId: string }) {
     .join("customers as c", "c.id", "j.customer_id")
     .leftJoin("journal_entries as e", "e.id", "p.entry_id")
     .where("p.public_id", publicId)
-    .first("p.shop_id", "p.display_key", "p.thumb_key", "c.user_id as customer_user_id", "e.visibility", "e.deleted_at")) as Raw | undefined;
+    .first("p.shop_id", "p.job_id", "p.display_key", "p.thumb_key", "c.user_id as customer_user_id", "e.kind", "e.visibility", "e.deleted_at")) as Raw | undefined;
   if (!row) return null;
   return {
     shopId: Number(row.shop_id),
+    jobId: Number(row.job_id),
+    // Followers never see photos of money or decision entries.
+    moneyEntry: MONEY_ENTRY_KINDS.includes(String(row.kind)),
     customerUserId: row.customer_user_id == null ? null : Number(row.customer_user_id),
     displayKey: String(row.display_key),
     thumbKey: String(row.thumb_key),
@@ -240,6 +251,7 @@ export async function changeEntry(p: {
       update.shared_at = p.change.visibility === "shared" ? tx.fn.now(3) : null;
     }
     await tx("journal_entries").where({ id: p.entryId }).update(update);
+    if (update.visibility === "shared") await recordSharedEntry(tx, { shopId: p.shopId, jobId: p.jobId, entryId: p.entryId, kind, body: parseJson(row.body) });
     return { version };
   });
 }
@@ -263,15 +275,17 @@ export async function listEntryRevisions({ shopId, entryId }: { shopId: number; 
 
 /**
  * Moves a job to another status if it is still in `from` (so two people pressing at once give
- * one move), records it in the status history and as a shared timeline entry, in one transaction.
+ * one move), records it in the status history and as a shared timeline entry, in one transaction
+ * (the caller's `tx` when given, so a move can commit together with what caused it).
  */
-export async function moveJobStatus(p: { shopId: number; jobId: number; from: JobStatus; to: JobStatus; userId: number; note: string | null }): Promise<boolean> {
-  return db().transaction(async (tx) => {
+export async function moveJobStatus(p: { shopId: number; jobId: number; from: JobStatus; to: JobStatus; userId: number; note: string | null; tx?: Knex.Transaction }): Promise<boolean> {
+  const run = async (tx: Knex.Transaction) => {
     const moved = await tx("jobs").where({ id: p.jobId, shop_id: p.shopId, status: p.from }).update({ status: p.to, updated_at: tx.fn.now() });
     if (moved !== 1) return false;
     await tx("job_status_changes").insert({ shop_id: p.shopId, job_id: p.jobId, from_status: p.from, to_status: p.to, changed_by_user_id: p.userId, note: p.note });
     // The owner sees the status on their page anyway, so its entry is shared from the start.
     await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "status", authorId: p.userId, visibility: "shared", body: { from: p.from, to: p.to, note: p.note } });
     return true;
-  });
+  };
+  return p.tx ? run(p.tx) : db().transaction(run);
 }

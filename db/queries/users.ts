@@ -1,6 +1,7 @@
 import "server-only";
 import { db } from "@/lib/server/db";
 import type { Actor, StaffRole } from "@/lib/permissions";
+import { claimFollowerRows, isFollowerAddress } from "./following";
 
 export async function getUserByEmail({ email }: { email: string }) {
   const row = await db()("users").where({ email }).first("id", "email", "name", "password_hash");
@@ -38,14 +39,14 @@ export async function touchLastSignIn({ userId }: { userId: number }) {
   await db()("users").where({ id: userId }).update({ last_sign_in_at: db().fn.now() });
 }
 
-/** Does any shop have a customer with this address? Sign-in links go only to customers. */
+/** Does any shop have a customer, or any job a follower, with this address? Sign-in links go only to them. */
 export async function isCustomerAddress({ email }: { email: string }): Promise<boolean> {
-  return !!(await db()("customers").where({ email }).first("id"));
+  return !!(await db()("customers").where({ email }).first("id")) || (await isFollowerAddress({ email }));
 }
 
 /**
  * After a link sign-in: the user for this address (created on first sign-in, named as the
- * shop wrote it down), and every customer record with that address linked to them.
+ * shop wrote it down), and every customer record and job follower row with that address linked to them.
  * INSERT IGNORE, so two first sign-ins at the same moment both end with the one user.
  */
 export async function claimCustomerRecords({ email }: { email: string }) {
@@ -59,6 +60,7 @@ export async function claimCustomerRecords({ email }: { email: string }) {
     // transaction's snapshot was taken (a plain read would not, under REPEATABLE READ).
     const user = await tx("users").where({ email }).forUpdate().first("id", "name");
     await tx("customers").where({ email }).whereNull("user_id").update({ user_id: user.id });
+    await claimFollowerRows(tx, { email, userId: Number(user.id) });
     await tx("users").where({ id: user.id }).update({ last_sign_in_at: tx.fn.now() });
     return { id: Number(user.id), email, name: String(user.name) };
   });

@@ -1,11 +1,13 @@
 import "server-only";
 import { getJobByPublicId } from "@/db/queries/jobs";
-import { changeEntry, createPhotoEntry, insertEntry, insertPendingPhoto, listTimeline } from "@/db/queries/journal";
+import { changeEntry, createPhotoEntry, insertEntry, insertPendingPhoto, listTimeline, moveJobStatus } from "@/db/queries/journal";
 import { AppError } from "@/lib/errors";
+import { JOB_STATUS_LABEL, type JobStatus, statusMoveError } from "@/lib/job-status";
 import { JOB_PUBLIC_ID_PATTERN, type NewEntry, type TimelineAudience } from "@/lib/journal";
 import { type Action, type Actor, can } from "@/lib/permissions";
 import { parseNote } from "@/lib/rich-text/note";
 import { authorize } from "@/lib/server/authorize";
+import { audienceFor, jobResource } from "@/lib/server/following";
 import { db } from "@/lib/server/db";
 import { deletePhotoRenditions, processPhoto, storePhotoRenditions } from "@/lib/server/photos";
 
@@ -20,16 +22,17 @@ export function entryIdParam(raw: string): number {
  */
 export async function journalAccess(actor: Actor, publicId: string, action: Action = "job:view") {
   const job = JOB_PUBLIC_ID_PATTERN.test(publicId) ? await getJobByPublicId({ publicId }) : null;
-  const resource = job && { shopId: job.shopId, customerUserId: job.customerUserId };
+  const resource = job && (await jobResource(actor, job));
   if (!job || !resource || !can(actor, "job:view", resource)) throw new AppError("not_found", "No such job, or it isn't yours to see.");
   authorize(actor, action, resource);
-  const audience: TimelineAudience = can(actor, "journal:view-shop-only", resource) ? "shop" : "owner";
+  const audience: TimelineAudience = audienceFor(actor, resource);
   return { job, resource, audience, mayModerate: can(actor, "journal:moderate", resource) };
 }
 
 export async function readTimeline(actor: Actor, publicId: string, query: { order: "asc" | "desc"; after?: number; limit: number; as?: "owner" }) {
   const access = await journalAccess(actor, publicId);
-  const audience = query.as ?? access.audience;
+  // Only staff may choose to read as the owner; a follower never reads more than a follower's view.
+  const audience = access.audience === "shop" ? (query.as ?? "shop") : access.audience;
   const { job } = access;
   const page = await listTimeline({ shopId: job.shopId, jobId: job.id, audience, viewerUserId: actor.userId, order: query.order, after: query.after, limit: query.limit });
   return { ...page, audience };
@@ -39,7 +42,8 @@ export async function postEntry(actor: Actor, publicId: string, input: NewEntry)
   const { job } = await journalAccess(actor, publicId, "journal:post");
   if (input.kind === "note") {
     const doc = parseNote(input.note);
-    const id = await insertEntry(db(), { shopId: job.shopId, jobId: job.id, kind: "note", authorId: actor.userId, visibility: input.visibility, body: doc });
+    // A transaction, so a shared note and its notice to followers are written together.
+    const id = await db().transaction((tx) => insertEntry(tx, { shopId: job.shopId, jobId: job.id, kind: "note", authorId: actor.userId, visibility: input.visibility, body: doc }));
     return { id };
   }
   const id = await createPhotoEntry({
@@ -94,4 +98,20 @@ export async function uploadPhoto(actor: Actor, publicId: string, file: File) {
     await deletePhotoRenditions(stored).catch(() => undefined);
     throw error;
   }
+}
+
+/**
+ * Moves a job to another status if the rules allow it and nobody moved it since the form was
+ * shown (`from`); the move is recorded in the history and as a shared timeline entry.
+ */
+export async function changeJobStatus(actor: Actor, publicId: string, input: { from: JobStatus; to: JobStatus; note: string | null }) {
+  const { job } = await journalAccess(actor, publicId, "job:change-status");
+  if (job.status !== input.from) {
+    throw new AppError("conflict", `Someone else has just moved this job to "${JOB_STATUS_LABEL[job.status]}". Check the timeline, then try again.`);
+  }
+  const refusal = statusMoveError(job.status, input.to);
+  if (refusal) throw new AppError("invalid", refusal, { to: [refusal] });
+  const moved = await moveJobStatus({ shopId: job.shopId, jobId: job.id, from: input.from, to: input.to, userId: actor.userId, note: input.note });
+  if (!moved) throw new AppError("conflict", "Someone else moved this job at the same moment. Check the timeline, then try again.");
+  return job;
 }

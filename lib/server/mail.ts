@@ -5,7 +5,7 @@ import { AppError } from "@/lib/errors";
 // The only place that picks where mail goes: RESEND_BASE_URL points the SDK at the local
 // fake (fakes/mail) or, unset, at the hosted API; a real RESEND_API_KEY works unchanged.
 let client: Resend | undefined;
-function resend(): Resend {
+export function resend(): Resend {
   const key = process.env.RESEND_API_KEY;
   if (!key) throw new AppError("unavailable", "Mail is not configured (RESEND_API_KEY).");
   client ??= new Resend(key, process.env.RESEND_BASE_URL ? { baseUrl: process.env.RESEND_BASE_URL } : undefined);

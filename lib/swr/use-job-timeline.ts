@@ -7,6 +7,11 @@ export type TimelineResponse = TimelinePage & { audience: TimelineAudience };
 
 /** How often an open timeline asks for new entries (besides on focus). */
 export const TIMELINE_REFRESH_MS = 15_000;
+/** Faster while a clip on the page is still on its way, so it turns playable soon after it is ready. */
+export const TIMELINE_PROCESSING_REFRESH_MS = 3_000;
+
+const clipPending = (pages: TimelineResponse[] | undefined) =>
+  !!pages?.some((p) => p.entries.some((e) => e.clip && (e.clip.status === "uploading" || e.clip.status === "processing")));
 
 /** The job's timeline, page by page, kept fresh while the page is open. */
 export function useJobTimeline(jobPublicId: string, order: "asc" | "desc", initial?: TimelineResponse, as?: "owner") {
@@ -21,7 +26,7 @@ export function useJobTimeline(jobPublicId: string, order: "asc" | "desc", initi
     {
       fallbackData: initial ? [initial] : undefined,
       revalidateOnFocus: true,
-      refreshInterval: TIMELINE_REFRESH_MS,
+      refreshInterval: (pages) => (clipPending(pages) ? TIMELINE_PROCESSING_REFRESH_MS : TIMELINE_REFRESH_MS),
       // Oldest-first timelines grow at the end: every loaded page is asked again.
       revalidateAll: order === "asc",
     },

@@ -11,6 +11,8 @@ type Visitor = "anonymous" | Persona;
 const VISITORS: Visitor[] = ["anonymous", "owner", "writer", "technician", "otherShopTechnician", "jobCustomer", "otherCustomer"];
 
 let customerJobPath = "";
+let demoRequest = "";
+let demoFinding = 0;
 
 test.beforeAll(async () => {
   // The owner-facing address of job J-0005 (the job customer's), read from the test database.
@@ -18,8 +20,14 @@ test.beforeAll(async () => {
   const [rows] = await db.query<mysql.RowDataPacket[]>(
     "SELECT j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5",
   );
+  // The demo's open approval request on J-0005 (db/seeds/demo-approvals.ts) and its finding.
+  const [requests] = await db.query<mysql.RowDataPacket[]>(
+    "SELECT r.public_id, r.finding_id FROM approval_requests r JOIN jobs j ON j.id = r.job_id JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5 ORDER BY r.id LIMIT 1",
+  );
   await db.end();
   customerJobPath = `/my/jobs/${rows[0]!.public_id}`;
+  demoRequest = String(requests[0]!.public_id);
+  demoFinding = Number(requests[0]!.finding_id);
 });
 
 /** Only the shop's own staff get in. */
@@ -53,7 +61,50 @@ const TARGETS: { name: string; kind: "page" | "api"; path: () => string; expect:
     expect: STAFF_OF_THE_SHOP,
   },
   { name: "check-in page", kind: "page", path: () => "/shop/copper-gulch/jobs/new", expect: STAFF_OF_THE_SHOP },
+  { name: "bench tools page", kind: "page", path: () => "/shop/copper-gulch/jobs/5/bench", expect: STAFF_OF_THE_SHOP },
+  { name: "shop spec library page", kind: "page", path: () => "/shop/copper-gulch/specs", expect: STAFF_OF_THE_SHOP },
   { name: "check-in owner search API", kind: "api", path: () => "/api/shops/copper-gulch/customers?q=Calloway", expect: STAFF_OF_THE_SHOP },
+  {
+    // Failed mail of the shop: the desk (owner, service writer) only.
+    name: "shop outbox page",
+    kind: "page",
+    path: () => "/shop/copper-gulch/outbox",
+    expect: { ...STAFF_OF_THE_SHOP, technician: "403" },
+  },
+  { name: "draft a finding page", kind: "page", path: () => "/shop/copper-gulch/jobs/5/findings/new", expect: STAFF_OF_THE_SHOP },
+  { name: "finding page", kind: "page", path: () => `/shop/copper-gulch/jobs/5/findings/${demoFinding}`, expect: STAFF_OF_THE_SHOP },
+  {
+    name: "job approvals API",
+    kind: "api",
+    path: () => `/api/jobs/${customerJobPath.split("/").pop()}/approvals`,
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "404", jobCustomer: "403", otherCustomer: "404" },
+  },
+  {
+    name: "owner's approval request page",
+    kind: "page",
+    path: () => `${customerJobPath}/approvals/${demoRequest}`,
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
+  },
+  {
+    // Staff land on the finding's page, the machine's owner on the answer page.
+    name: "approval link from the timeline",
+    kind: "page",
+    path: () => `/my/approvals/${demoRequest}`,
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
+  },
+  {
+    name: "approval request API",
+    kind: "api",
+    path: () => `/api/approvals/${demoRequest}`,
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "404", jobCustomer: "in", otherCustomer: "404" },
+  },
+  {
+    // A photo that isn't evidence of the request: the same 404 for everyone signed in.
+    name: "approval evidence photo API",
+    kind: "api",
+    path: () => `/api/approvals/${demoRequest}/evidence/${"A".repeat(22)}/thumb`,
+    expect: { anonymous: "sign-in", owner: "404", writer: "404", technician: "404", otherShopTechnician: "404", jobCustomer: "404", otherCustomer: "404" },
+  },
   {
     name: "owner's job page",
     kind: "page",

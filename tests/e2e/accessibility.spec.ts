@@ -17,7 +17,13 @@ const SCREENS: { name: string; path: string; as?: Persona }[] = [
   { name: "job board", path: "/shop/copper-gulch", as: "owner" },
   { name: "staff job page", path: "/shop/copper-gulch/jobs/2", as: "technician" },
   { name: "check-in form", path: "/shop/copper-gulch/jobs/new", as: "technician" },
+  { name: "bench tools", path: "/shop/copper-gulch/jobs/2/bench", as: "technician" },
+  { name: "spec library", path: "/shop/copper-gulch/specs", as: "owner" },
+  { name: "draft a finding", path: "/shop/copper-gulch/jobs/5/findings/new", as: "technician" },
+  // The demo seed's one finding (db/seeds/demo-approvals.ts), priced and sent: the desk's view.
+  { name: "finding with a request out", path: "/shop/copper-gulch/jobs/5/findings/1", as: "writer" },
   { name: "owner's machines", path: "/my", as: "jobCustomer" },
+  { name: "shop outbox", path: "/shop/copper-gulch/outbox", as: "writer" },
 ];
 
 for (const colorScheme of ["light", "dark"] as const) {

@@ -7,23 +7,26 @@ import { EmptyState, PageHeader } from "@/components/ui";
 import { describeMachine } from "@/lib/machine";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { requirePageActor } from "@/lib/server/authorize";
+import { listFollowedJobs } from "@/db/queries/following";
+import { FollowedJobs } from "./_components/followed-jobs";
 
 export const metadata: Metadata = { title: "My machines" };
 
-/** The machine owner's home: their jobs at every shop that knows their e-mail, open ones first. */
+/** The machine owner's home: their jobs at every shop that knows their e-mail, open ones first, then jobs they follow. */
 export default async function MyJobsPage() {
   const actor = await requirePageActor("/my");
   const jobs = await listJobsForCustomerUser({ userId: actor.userId });
+  const followed = await listFollowedJobs({ userId: actor.userId });
   return (
     <div className="space-y-4">
       <PageHeader title="My machines" description={`Signed in as ${actor.email}`} />
-      {jobs.length === 0 ? (
+      {jobs.length === 0 && followed.length === 0 ? (
         <EmptyState
           icon={Bike}
           title="No jobs under this address"
           description="When a shop checks in your machine with this e-mail address, its job appears here."
         />
-      ) : (
+      ) : jobs.length === 0 ? null : (
         <ul className="space-y-3" aria-label="My jobs">
           {jobs.map((job) => (
             <li key={job.id} data-testid="my-job">
@@ -45,6 +48,7 @@ export default async function MyJobsPage() {
           ))}
         </ul>
       )}
+      <FollowedJobs jobs={followed} />
     </div>
   );
 }

@@ -10,6 +10,11 @@ import { formatJobNumber } from "@/lib/schemas/jobs";
 import { authorizePage, requirePageActor } from "@/lib/server/authorize";
 import { getShopBySlug } from "@/db/queries/shops";
 import { OwnerTimeline } from "./_components/owner-timeline";
+import { OwedDecisions } from "./_components/owed-decisions";
+import { FollowingCard } from "./_components/following-card";
+import { audienceFor, jobResource } from "@/lib/server/following";
+import { getReassemblyProgress } from "@/db/queries/bench";
+import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
 
 export const metadata: Metadata = { title: "Your job" };
 
@@ -18,12 +23,17 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
   const actor = await requirePageActor(`/my/jobs/${publicId}`);
   if (!JOB_PUBLIC_ID_PATTERN.test(publicId)) notFound();
   const job = await getJobByPublicId({ publicId });
-  authorizePage(actor, "job:view", job && { shopId: job.shopId, customerUserId: job.customerUserId });
-  if (!job) notFound();
+  const resource = job && (await jobResource(actor, job));
+  authorizePage(actor, "job:view", resource);
+  if (!job || !resource) notFound();
+  // A follower reads without money or decisions; everyone else here reads as the owner.
+  const audience = audienceFor(actor, resource) === "follower" ? "follower" : "owner";
   const shop = await getShopBySlug({ slug: job.shopSlug });
   const timeZone = shop?.timezone ?? "UTC";
   // The owner's page always reads as the owner, even for staff who look at their own machine.
-  const timeline = await listTimeline({ shopId: job.shopId, jobId: job.id, audience: "owner", order: "desc", limit: 50 });
+  const timeline = await listTimeline({ shopId: job.shopId, jobId: job.id, audience, order: "desc", limit: 50 });
+  // Shown once the shop has logged the machine coming apart; null before that.
+  const reassembly = await getReassemblyProgress({ shopId: job.shopId, jobId: job.id });
   return (
     <div className="space-y-4">
       <PageHeader
@@ -31,21 +41,24 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
         description={`${job.shopName} · ${formatJobNumber(job.number)}`}
         back={{ href: "/my", label: "My machines" }}
       />
+      <OwedDecisions actor={actor} job={job} />
       <Card as="section" title="Where it stands" headingId="where-it-stands">
         <div className="space-y-2">
           <StatusBadge status={job.status} />
           <p>{job.promisedOn ? `The shop expects to have it ready by ${job.promisedOn}.` : "The shop hasn't set a ready date yet."}</p>
         </div>
       </Card>
-      <Card as="section" title="What you told the shop" headingId="your-concern">
+      {reassembly ? <ReassemblyProgress {...reassembly} /> : null}
+      <Card as="section" title={audience === "follower" ? "What the owner told the shop" : "What you told the shop"} headingId="your-concern">
         <p className="whitespace-pre-line">{job.concern}</p>
       </Card>
       <section aria-labelledby="updates-heading" className="space-y-3">
         <h2 id="updates-heading" className="text-xl font-bold text-ink">
           Updates from the shop
         </h2>
-        <OwnerTimeline jobPublicId={job.publicId} timeZone={timeZone} initial={{ ...timeline, audience: "owner" }} />
+        <OwnerTimeline jobPublicId={job.publicId} timeZone={timeZone} initial={{ ...timeline, audience }} />
       </section>
+      <FollowingCard actor={actor} job={job} resource={resource} />
     </div>
   );
 }

@@ -3,11 +3,12 @@ import { AppError } from "@/lib/errors";
 import { PHOTO_ID_PATTERN, PHOTO_SIZES, type PhotoSize } from "@/lib/journal";
 import { can } from "@/lib/permissions";
 import { route } from "@/lib/route";
+import { audienceFor, jobResource } from "@/lib/server/following";
 import { storage } from "@/lib/server/storage";
 
 /**
  * GET /api/photos/:photo/thumb|display — the image, for staff of its shop, or for the job's
- * owner while its entry is shared. Everyone else gets the same 404 as for a photo that
+ * owner and followers while its entry is shared (followers: not on money or decision entries). Everyone else gets the same 404 as for a photo that
  * doesn't exist, so shop-only photos can't be found by guessing.
  */
 export const GET = route<never, { photo: string; size: string }>({
@@ -16,8 +17,9 @@ export const GET = route<never, { photo: string; size: string }>({
     if (!PHOTO_ID_PATTERN.test(params.photo) || !(PHOTO_SIZES as readonly string[]).includes(params.size)) throw notFound;
     const photo = await getPhotoAccess({ publicId: params.photo });
     if (!photo) throw notFound;
-    const resource = { shopId: photo.shopId, customerUserId: photo.customerUserId };
-    const allowed = can(actor, "journal:view-shop-only", resource) || (photo.sharedWithOwner && can(actor, "job:view", resource));
+    const resource = await jobResource(actor, { id: photo.jobId, shopId: photo.shopId, customerUserId: photo.customerUserId });
+    const audience = can(actor, "job:view", resource) ? audienceFor(actor, resource) : null;
+    const allowed = audience === "shop" || (photo.sharedWithOwner && (audience === "owner" || (audience === "follower" && !photo.moneyEntry)));
     if (!allowed) throw notFound;
     const object = await storage().get((params.size as PhotoSize) === "thumb" ? photo.thumbKey : photo.displayKey);
     if (!object) throw notFound;

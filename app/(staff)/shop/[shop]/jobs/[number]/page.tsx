@@ -1,14 +1,17 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { getJobByNumber } from "@/db/queries/jobs";
+import { getClipLimits } from "@/db/queries/clips";
 import { listTimeline } from "@/db/queries/journal";
 import { StatusBadge } from "@/components/status-badge";
-import { Card, PageHeader } from "@/components/ui";
+import { FollowersCard } from "@/components/journal/followers-card";
+import { ButtonLink, Card, PageHeader } from "@/components/ui";
 import { MACHINE_KIND_LABEL, describeMachine } from "@/lib/machine";
 import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
 import { authorizePage } from "@/lib/server/authorize";
 import { shopPageAccess } from "../../shop-access";
+import { ApprovalsPanel } from "./_components/approvals-panel";
 import { JobJournal } from "./_components/job-journal";
 
 type Props = { params: Promise<{ shop: string; number: string }>; searchParams: Promise<{ intake?: string }> };
@@ -37,6 +40,7 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
         title={`${formatJobNumber(job.number)} · ${describeMachine(job.machine)}`}
         description={`${MACHINE_KIND_LABEL[job.machine.kind]} · owner ${job.customerName}`}
         back={{ href: `/shop/${shop.slug}`, label: "All jobs" }}
+        actions={<ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/bench`} variant="secondary">Bench tools</ButtonLink>}
       />
       <div className="grid gap-4 md:grid-cols-2">
         <Card as="section" title="Where it stands" headingId="job-facts">
@@ -65,6 +69,7 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
           ) : null}
         </Card>
       </div>
+      <ApprovalsPanel actor={actor} job={job} basePath={`/shop/${shop.slug}/jobs/${job.number}`} timeZone={shop.timezone} />
       <JobJournal
         jobPublicId={job.publicId}
         status={job.status}
@@ -72,9 +77,11 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
         timeZone={shop.timezone}
         mayModerate={can(actor, "journal:moderate", resource)}
         initial={{ ...timeline, audience: "shop" }}
+        clipLimits={await getClipLimits({ shopId: shop.id })}
         startWith={intake ? "photos" : "note"}
         intakeCaption={intake ? "Condition at check-in" : undefined}
       />
+      <FollowersCard shopId={shop.id} jobId={job.id} />
     </div>
   );
 }

@@ -1,5 +1,5 @@
 "use client";
-import { Camera, NotebookPen } from "lucide-react";
+import { Camera, NotebookPen, Video } from "lucide-react";
 import { useCallback, useState } from "react";
 import { Alert, Button, Card, Field, Input } from "@/components/ui";
 import { EntryCard } from "@/components/journal/entry-card";
@@ -9,6 +9,7 @@ import type { NoteDoc } from "@/lib/rich-text/note";
 import { sendJson } from "@/lib/swr/fetcher";
 import { type TimelineResponse, useJobTimeline } from "@/lib/swr/use-job-timeline";
 import type { JobStatus } from "@/lib/job-status";
+import { ClipComposer } from "./clip-composer";
 import { EntryControls } from "./entry-controls";
 import { NoteComposer } from "./note-composer";
 import { PhotoComposer } from "./photo-composer";
@@ -21,15 +22,16 @@ type Props = {
   timeZone: string;
   mayModerate: boolean;
   initial: TimelineResponse;
+  clipLimits: { maxSeconds: number; maxBytes: number };
   /** Opens the photo composer first, e.g. straight after check-in for intake photos. */
-  startWith?: "note" | "photos";
+  startWith?: "note" | "photos" | "clip";
   intakeCaption?: string;
 };
 
 /** The staff side of a job's journal: the composer on top, the timeline under it. */
-export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, mayModerate, initial, startWith = "note", intakeCaption }: Props) {
+export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, mayModerate, initial, clipLimits, startWith = "note", intakeCaption }: Props) {
   const [order, setOrder] = useState<"asc" | "desc">("desc");
-  const [tab, setTab] = useState<"note" | "photos">(startWith);
+  const [tab, setTab] = useState<"note" | "photos" | "clip">(startWith);
   const [editing, setEditing] = useState<number | null>(null);
   const timeline = useJobTimeline(jobPublicId, order, order === "desc" ? initial : undefined);
   const { mutate } = timeline;
@@ -64,11 +66,12 @@ export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, may
         </Card>
       ) : null}
       <Card as="section" title="Add to the journal" headingId="composer-heading" className="scroll-mt-4">
-        <div id="composer" role="tablist" aria-label="What to add" className="mb-4 grid grid-cols-2 gap-2">
+        <div id="composer" role="tablist" aria-label="What to add" className="mb-4 grid grid-cols-3 gap-2">
           {(
             [
               ["note", "Note", NotebookPen],
               ["photos", "Photos", Camera],
+              ["clip", "Clip", Video],
             ] as const
           ).map(([value, label, Icon]) => (
             <button
@@ -89,8 +92,10 @@ export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, may
         <div role="tabpanel" id={`panel-${tab}`} aria-labelledby={`tab-${tab}`}>
           {tab === "note" ? (
             <NoteComposer target={{ kind: "new", jobPublicId }} onDone={refresh} />
-          ) : (
+          ) : tab === "photos" ? (
             <PhotoComposer jobPublicId={jobPublicId} onPosted={refresh} defaultCaption={intakeCaption} />
+          ) : (
+            <ClipComposer jobPublicId={jobPublicId} limits={clipLimits} onStarted={refresh} />
           )}
         </div>
       </Card>

@@ -1,0 +1,93 @@
+import type { Metadata } from "next";
+import { forbidden, notFound } from "next/navigation";
+import { Alert, ButtonLink, Card, PageHeader } from "@/components/ui";
+import { DecisionRecord } from "@/components/approvals/decision-record";
+import { EvidenceList } from "@/components/approvals/evidence-list";
+import { FindingCaution } from "@/components/approvals/finding-caution";
+import { RequestLines } from "@/components/approvals/request-lines";
+import { AppError } from "@/lib/errors";
+import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
+import { REQUEST_PUBLIC_ID_PATTERN } from "@/lib/schemas/approvals";
+import { formatJobNumber } from "@/lib/schemas/jobs";
+import { type RequestView, requestView } from "@/lib/server/approval-views";
+import { requirePageActor } from "@/lib/server/authorize";
+import { AnswerForm } from "./_components/answer-form";
+
+export const metadata: Metadata = { title: "The shop's request" };
+
+type Props = { params: Promise<{ job: string; request: string }> };
+
+/** One approval request, for the machine's owner (to answer) and the job's staff (to see what was sent). */
+export default async function ApprovalRequestPage({ params }: Props) {
+  const { job: jobPublicId, request: requestPublicId } = await params;
+  const actor = await requirePageActor(`/my/jobs/${jobPublicId}/approvals/${requestPublicId}`);
+  if (!JOB_PUBLIC_ID_PATTERN.test(jobPublicId) || !REQUEST_PUBLIC_ID_PATTERN.test(requestPublicId)) notFound();
+  let view: RequestView;
+  try {
+    view = await requestView(actor, jobPublicId, requestPublicId);
+  } catch (error) {
+    // Someone else's request looks like one that doesn't exist: refused either way.
+    if (error instanceof AppError && (error.code === "not_found" || error.code === "forbidden")) forbidden();
+    throw error;
+  }
+  const { snapshot, job } = view;
+  const when = new Intl.DateTimeFormat("en-US", { timeZone: job.timeZone, dateStyle: "medium", timeStyle: "short" });
+  const jobPath = `/my/jobs/${jobPublicId}`;
+
+  return (
+    <div className="space-y-4">
+      <PageHeader title={snapshot.finding.title} description={`${job.shopName} · ${formatJobNumber(job.number)} · ${job.machine}`} back={{ href: jobPath, label: "Back to your job" }} />
+      <StatusNote view={view} jobPath={jobPath} sentAt={when.format(new Date(view.sentAt))} />
+      <Card as="section" title="What the shop found" headingId="finding-heading">
+        <div className="space-y-3">
+          <p className="whitespace-pre-line">{snapshot.finding.found}</p>
+          {snapshot.finding.whyItMatters ? (
+            <>
+              <h3 className="font-semibold text-ink">Why it matters</h3>
+              <p className="whitespace-pre-line">{snapshot.finding.whyItMatters}</p>
+            </>
+          ) : null}
+          <FindingCaution safety={snapshot.finding.safety} />
+          <EvidenceList evidence={view.evidence} />
+        </div>
+      </Card>
+      {view.status === "sent" && view.mayAnswer ? (
+        <AnswerForm snapshot={snapshot} hash={view.hash} jobPublicId={jobPublicId} ownerName={job.ownerName} />
+      ) : view.decision ? (
+        <DecisionRecord decision={view.decision} snapshot={snapshot} timeZone={job.timeZone} staff={view.audience === "shop"} />
+      ) : (
+        <Card as="section" title="What the shop proposed" headingId="lines-heading">
+          <RequestLines snapshot={snapshot} />
+        </Card>
+      )}
+    </div>
+  );
+}
+
+function StatusNote({ view, jobPath, sentAt }: { view: RequestView; jobPath: string; sentAt: string }) {
+  const version = view.version > 1 ? ` (version ${view.version})` : "";
+  if (view.status === "replaced" || (view.current && view.status !== "answered")) {
+    return (
+      <Alert tone="warning" title="There is a newer version" action={view.current ? <ButtonLink href={`${jobPath}/approvals/${view.current}`}>See the current version</ButtonLink> : undefined}>
+        The shop revised this request after sending it, so this version{version} can no longer be answered.
+      </Alert>
+    );
+  }
+  if (view.status === "withdrawn") return <Alert tone="info" title="Withdrawn">The shop withdrew this request; there is nothing to answer. They will be in touch if the work is still needed.</Alert>;
+  if (view.status === "answered") return <Alert tone="success" title="Answered">This request{version} has been answered. The record below is what was agreed.</Alert>;
+  if (!view.mayAnswer) {
+    return (
+      <Alert tone="info" title="Waiting for the owner">
+        Sent {sentAt}
+        {version}. {view.openedAt ? "The owner has opened it." : "The owner hasn't opened it yet."}
+        {view.mayRecord ? " If they answer by phone or in person, note it on the finding's page." : ""}
+      </Alert>
+    );
+  }
+  return (
+    <Alert tone="info" title="The shop needs your answer">
+      Sent {sentAt}
+      {version}. Approve the lines you want done and decline the others; you can ask for the replaced parts back.
+    </Alert>
+  );
+}

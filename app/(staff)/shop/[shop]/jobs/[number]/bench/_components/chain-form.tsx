@@ -1,0 +1,92 @@
+"use client";
+import { useState } from "react";
+import { Button, Field, Input, Select } from "@/components/ui";
+import { ReadingVerdictBadge } from "@/components/bench/reading-verdict";
+import { CHAIN_PITCHES, chainCheck } from "@/lib/chain-wear";
+import { formatFixed } from "@/lib/rounding";
+import { recordChainAction } from "../actions";
+import { FormError, useBenchForm } from "@/components/bench/action-form";
+
+const num = (s: string) => (/^\d+(?:[.,]\d+)?$/.test(s.trim()) ? Number(s.trim().replace(",", ".")) : null);
+
+function preview(pitchMm: number | null, pitches: number | null, measuredMm: number | null, limitPct: number | null) {
+  if (!pitchMm || !pitches || !measuredMm || !limitPct || !Number.isInteger(pitches)) return null;
+  try {
+    return chainCheck({ pitchMm, pitches, measuredMm, limitPct });
+  } catch (e) {
+    return (e as Error).message;
+  }
+}
+
+/** Chain wear over N pitches: elongation and verdict as the numbers are typed, then logged as a reading. */
+export function ChainForm({ jobPublicId, defaultLimitPct }: { jobPublicId: string; defaultLimitPct: number }) {
+  const form = useBenchForm(recordChainAction);
+  const { fieldError } = form;
+  const [size, setSize] = useState<string>("#520");
+  const [pitch, setPitch] = useState(String(CHAIN_PITCHES["#520"]));
+  const [pitches, setPitches] = useState("20");
+  const [measured, setMeasured] = useState("");
+  const [limit, setLimit] = useState(String(defaultLimitPct));
+  const result = preview(num(pitch), num(pitches), num(measured), num(limit));
+
+  return (
+    <form action={form.formAction} className="space-y-4">
+      <input type="hidden" name="job" value={jobPublicId} />
+      <FormError message={form.formError} />
+      <Field id="chain-label" label="Which chain (optional)" error={fieldError("label")}>
+        <Input name="label" placeholder="Drive chain wear" maxLength={200} />
+      </Field>
+      <div className="grid grid-cols-2 gap-3">
+        <Field id="chain-size" label="Chain size">
+          <Select
+            value={size}
+            onChange={(e) => {
+              const chosen = e.target.value as keyof typeof CHAIN_PITCHES | "";
+              setSize(chosen);
+              if (chosen) setPitch(String(CHAIN_PITCHES[chosen]));
+            }}
+          >
+            <option value="">Other: type the pitch</option>
+            {Object.keys(CHAIN_PITCHES).map((size) => (
+              <option key={size} value={size}>
+                {size}
+              </option>
+            ))}
+          </Select>
+        </Field>
+        <Field id="chain-pitch" label="Pitch (mm)" error={fieldError("pitchMm")} required>
+          <Input name="pitchMm" inputMode="decimal" value={pitch} onChange={(e) => {
+              setPitch(e.target.value);
+              setSize("");
+            }} maxLength={10} />
+        </Field>
+        <Field id="chain-pitches" label="Pitches measured" error={fieldError("pitches")} required>
+          <Input name="pitches" inputMode="numeric" value={pitches} onChange={(e) => setPitches(e.target.value)} maxLength={3} />
+        </Field>
+        <Field id="chain-measured" label="Measured length (mm)" error={fieldError("measuredMm")} required>
+          <Input name="measuredMm" inputMode="decimal" value={measured} onChange={(e) => setMeasured(e.target.value)} maxLength={10} />
+        </Field>
+      </div>
+      <Field id="chain-limit" label="Replace at (% stretch)" hint="The shop's default; the maker's service limit for this chain wins." error={fieldError("limitPct")}>
+        <Input name="limitPct" inputMode="decimal" value={limit} onChange={(e) => setLimit(e.target.value)} maxLength={6} />
+      </Field>
+      <Field id="chain-source" label="Where the limit comes from (optional)" error={fieldError("source")}>
+        <Input name="source" maxLength={200} />
+      </Field>
+      <div aria-live="polite" className="min-h-tap">
+        {typeof result === "string" ? (
+          <p className="text-rust">{result}</p>
+        ) : result ? (
+          <p className="flex flex-wrap items-center gap-2">
+            <span className="font-semibold">Stretch {formatFixed(result.elongationPct, 2)} %</span>
+            <ReadingVerdictBadge verdict={result.verdict === "replace" ? "above" : "within"} />
+            <span className="text-ink-muted">New: {formatFixed(result.nominalMm, 2)} mm · replace at {formatFixed(result.replaceAtMm, 2)} mm</span>
+          </p>
+        ) : null}
+      </div>
+      <Button type="submit" size="lg" fullWidth loading={form.pending}>
+        Log chain wear
+      </Button>
+    </form>
+  );
+}

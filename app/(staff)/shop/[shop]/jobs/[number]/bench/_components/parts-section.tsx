@@ -1,0 +1,60 @@
+import { Package } from "lucide-react";
+import { Badge, Card, EmptyState } from "@/components/ui";
+import type { PartRow } from "@/db/queries/bench-parts";
+import { PART_STATUS_LABEL, isOutstanding } from "@/lib/bench";
+import { formatMoney, formatQuantity } from "@/lib/money";
+import { PartForm } from "./part-form";
+import { PartStatusForm } from "./part-status-form";
+import { whenText } from "./when";
+
+type Props = { jobPublicId: string; parts: PartRow[]; currency: string; timeZone: string; mayManage: boolean };
+
+/** Parts on the job with their status, expected date and history; costs stay on this staff page. */
+export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage }: Props) {
+  const waiting = parts.filter((p) => isOutstanding(p.status)).length;
+  return (
+    <Card
+      as="section"
+      title="Parts"
+      headingId="parts"
+      description={parts.length ? (waiting ? `${waiting} still to come.` : "Everything is in.") : undefined}
+      className="scroll-mt-4"
+    >
+      <div className="space-y-4">
+        {parts.length === 0 ? (
+          <EmptyState icon={Package} title="No parts on this job" description="Add what the job needs. While a part is still to come, the job shows as waiting on parts." />
+        ) : (
+          <ul className="space-y-3" aria-label="Parts on this job">
+            {parts.map((p) => (
+              <li key={p.id} className="space-y-2 rounded-lg border border-line p-3">
+                <p className="flex flex-wrap items-center gap-2">
+                  <span className="font-semibold text-ink">{p.description}</span>
+                  <Badge tone={isOutstanding(p.status) ? "signal" : "moss"} icon={Package}>
+                    {PART_STATUS_LABEL[p.status]}
+                  </Badge>
+                </p>
+                <p className="text-sm text-ink-muted">
+                  {[p.partNumber, `qty ${formatQuantity(p.qtyThousandths)}`, p.supplier, p.costMinor != null ? `${formatMoney(p.costMinor, currency)} each` : null].filter(Boolean).join(" · ")}
+                </p>
+                {p.expectedOn && isOutstanding(p.status) ? <p>Expected {p.expectedOn}</p> : null}
+                <details>
+                  <summary className="inline-flex min-h-tap cursor-pointer items-center rounded-md px-2 font-semibold text-oil hover:bg-oil-soft">History</summary>
+                  <ol className="space-y-1 pt-1 text-sm">
+                    {p.history.map((h, i) => (
+                      <li key={i}>
+                        {h.from ? `${PART_STATUS_LABEL[h.from]} → ` : "Added as "}
+                        {PART_STATUS_LABEL[h.to]} · {h.by ?? "someone"} · {whenText(h.at, timeZone)}
+                      </li>
+                    ))}
+                  </ol>
+                </details>
+                {mayManage ? <PartStatusForm jobPublicId={jobPublicId} partId={p.id} status={p.status} description={p.description} /> : null}
+              </li>
+            ))}
+          </ul>
+        )}
+        {mayManage ? <PartForm jobPublicId={jobPublicId} currency={currency} /> : null}
+      </div>
+    </Card>
+  );
+}

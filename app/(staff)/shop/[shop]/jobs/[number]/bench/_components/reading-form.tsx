@@ -1,0 +1,66 @@
+"use client";
+import { useState } from "react";
+import { Button, Field, Input, Select } from "@/components/ui";
+import { recordReadingAction } from "../actions";
+import { FormError, useBenchForm } from "@/components/bench/action-form";
+
+export type LimitSpecOption = { id: number; label: string; unit: string | null; min: number | null; max: number | null; source: string | null };
+
+const EMPTY = { label: "", unit: "", min: "", max: "", source: "" };
+const text = (n: number | null) => (n == null ? "" : String(n));
+
+/** A measured value against the limits typed from the manual (or picked from the shop's specs). */
+export function ReadingForm({ jobPublicId, specs }: { jobPublicId: string; specs: LimitSpecOption[] }) {
+  const [f, setF] = useState(EMPTY);
+  const set = (key: keyof typeof EMPTY) => (e: { target: { value: string } }) => setF((prev) => ({ ...prev, [key]: e.target.value }));
+  const form = useBenchForm(recordReadingAction, { onSuccess: () => setF(EMPTY) });
+  const { values, fieldError } = form;
+
+  function pick(id: string) {
+    const s = specs.find((x) => String(x.id) === id);
+    if (s) setF({ label: s.label, unit: s.unit ?? "", min: text(s.min), max: text(s.max), source: s.source ?? "" });
+  }
+
+  return (
+    <form action={form.formAction} className="space-y-4">
+      <input type="hidden" name="job" value={jobPublicId} />
+      <FormError message={form.formError} />
+      {specs.length ? (
+        <Field id="reading-from-spec" label="From the shop's specs" hint="Fills in the limits; check them against the manual.">
+          <Select defaultValue="" onChange={(e) => pick(e.target.value)}>
+            <option value="">Choose a limit…</option>
+            {specs.map((s) => (
+              <option key={s.id} value={s.id}>
+                {s.label}
+                {s.source ? ` (${s.source})` : ""}
+              </option>
+            ))}
+          </Select>
+        </Field>
+      ) : null}
+      <Field id="reading-label" label="What was measured" hint="e.g. “front brake disc thickness”" error={fieldError("label")} required>
+        <Input name="label" value={f.label} onChange={set("label")} maxLength={200} />
+      </Field>
+      <div className="grid grid-cols-2 gap-3">
+        <Field id="reading-value" label="Reading" error={fieldError("value")} required>
+          <Input name="value" inputMode="decimal" autoComplete="off" defaultValue={values?.value} maxLength={16} />
+        </Field>
+        <Field id="reading-unit" label="Unit (optional)" error={fieldError("unit")}>
+          <Input name="unit" autoComplete="off" value={f.unit} onChange={set("unit")} maxLength={20} />
+        </Field>
+        <Field id="reading-min" label="Minimum (optional)" error={fieldError("min")}>
+          <Input name="min" inputMode="decimal" autoComplete="off" value={f.min} onChange={set("min")} maxLength={16} />
+        </Field>
+        <Field id="reading-max" label="Maximum (optional)" error={fieldError("max")}>
+          <Input name="max" inputMode="decimal" autoComplete="off" value={f.max} onChange={set("max")} maxLength={16} />
+        </Field>
+      </div>
+      <Field id="reading-source" label="Where the limit comes from (optional)" hint="e.g. “service manual p. 4-12”" error={fieldError("source")}>
+        <Input name="source" autoComplete="off" value={f.source} onChange={set("source")} maxLength={200} />
+      </Field>
+      <Button type="submit" size="lg" fullWidth loading={form.pending}>
+        Log reading
+      </Button>
+    </form>
+  );
+}

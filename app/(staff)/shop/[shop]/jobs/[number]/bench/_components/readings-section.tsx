@@ -1,0 +1,84 @@
+import { FilePenLine, Gauge } from "lucide-react";
+import { ReadingVerdictBadge, isOutOfLimit } from "@/components/bench/reading-verdict";
+import { Card, EmptyState } from "@/components/ui";
+import type { ReadingRow } from "@/db/queries/bench";
+import { limitText, plainNumber, sentenceCase } from "@/lib/bench";
+import { evaluateReading } from "@/lib/readings";
+import { draftFindingAction } from "../actions";
+import { ChainForm } from "./chain-form";
+import { ActionButton } from "@/components/bench/action-form";
+import { ReadingForm, type LimitSpecOption } from "./reading-form";
+import { whenText } from "./when";
+
+type Props = { jobPublicId: string; readings: ReadingRow[]; specs: LimitSpecOption[]; chainLimitPct: number; timeZone: string; mayRecord: boolean };
+
+function marginOf(r: ReadingRow): string | null {
+  if (r.chain) return null;
+  const text = evaluateReading(r).marginText;
+  return text ? sentenceCase(text) : null;
+}
+
+/** Readings against limits, with the chain-wear helper; an out-of-limit reading can become a finding. */
+export function ReadingsSection({ jobPublicId, readings, specs, chainLimitPct, timeZone, mayRecord }: Props) {
+  return (
+    <Card as="section" title="Readings" headingId="readings" className="scroll-mt-4">
+      <div className="space-y-4">
+        {mayRecord ? (
+          <>
+            <ReadingForm jobPublicId={jobPublicId} specs={specs} />
+            <details className="rounded-lg border border-line p-3">
+              <summary className="inline-flex min-h-tap cursor-pointer items-center font-semibold text-oil">Chain wear helper</summary>
+              <div className="pt-3">
+                <ChainForm jobPublicId={jobPublicId} defaultLimitPct={chainLimitPct} />
+              </div>
+            </details>
+          </>
+        ) : null}
+        <h3 className="text-lg font-bold text-ink">Logged on this job</h3>
+        {readings.length === 0 ? (
+          <EmptyState icon={Gauge} title="No readings yet" description="Log what you measure with the limit from the manual; out-of-limit readings are flagged." />
+        ) : (
+          <ul className="space-y-3" aria-label="Readings">
+            {readings.map((r) => {
+              const limit = limitText(r);
+              const margin = marginOf(r);
+              return (
+                <li key={r.id} className="space-y-2 rounded-lg border border-line p-3">
+                  <p className="flex flex-wrap items-center gap-2">
+                    <span className="font-semibold text-ink">
+                      {r.label}: {plainNumber(r.value)}
+                      {r.unit ? ` ${r.unit}` : ""}
+                    </span>
+                    <ReadingVerdictBadge verdict={r.verdict} />
+                  </p>
+                  {margin ? <p>{margin}.</p> : null}
+                  {r.chain ? (
+                    <p className="text-sm text-ink-muted">
+                      Chain: {plainNumber(r.chain.measuredMm)} mm over {r.chain.pitches} pitches of {plainNumber(r.chain.pitchMm)} mm.
+                    </p>
+                  ) : null}
+                  {limit ? (
+                    <p className="text-sm text-ink-muted">
+                      Limit {limit}
+                      {r.source ? ` (${r.source})` : ""}
+                    </p>
+                  ) : null}
+                  <p className="text-sm text-ink-muted">
+                    {r.by ?? "Someone"} · {whenText(r.at, timeZone)}
+                  </p>
+                  {mayRecord && isOutOfLimit(r.verdict) ? (
+                    <ActionButton action={draftFindingAction} fields={{ job: jobPublicId, reading: String(r.id) }} icon={<FilePenLine aria-hidden className="size-5" />}
+                      done="Drafted as a shop-only note in the job's journal. Share it, or build the approval request from it."
+                    >
+                      Draft a finding
+                    </ActionButton>
+                  ) : null}
+                </li>
+              );
+            })}
+          </ul>
+        )}
+      </div>
+    </Card>
+  );
+}

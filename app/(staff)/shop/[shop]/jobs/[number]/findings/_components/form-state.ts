@@ -1,0 +1,88 @@
+// The finding form's state as typed text, and the conversions to and from what the API takes.
+import type { DraftLine, EvidenceKind, LineKind, SafetyCategory, ShopMoneySettings, SnapshotTotals } from "@/lib/approvals";
+import { currencyDigits, formatHours, formatQuantity, parseHours, parseMoney, parseQuantity, totals, type Line } from "@/lib/money";
+
+export type LineState = {
+  key: string;
+  id?: number;
+  kind: LineKind;
+  description: string;
+  partNumber: string;
+  qty: string;
+  hours: string;
+  unitPrice: string;
+  rate: string;
+  amount: string;
+  taxable: boolean;
+};
+export type EvidenceState = { kind: EvidenceKind; ref: string; momentMs: number | null };
+export type FindingState = { title: string; found: string; whyItMatters: string; safety: SafetyCategory; evidence: EvidenceState[]; lines: LineState[] };
+
+let counter = 0;
+export const newKey = () => `new-${++counter}`;
+
+/** Minor units as plain text for an input ("1999" → "19.99"), exactly, without a float. */
+export function minorToText(minor: number | null, currency: string): string {
+  if (minor == null) return "";
+  const digits = currencyDigits(currency);
+  if (!digits) return String(minor);
+  const s = String(minor).padStart(digits + 1, "0");
+  return `${s.slice(0, -digits)}.${s.slice(-digits)}`;
+}
+
+export function toLineState(line: DraftLine & { id?: number }, currency: string): LineState {
+  return {
+    key: line.id ? `line-${line.id}` : newKey(),
+    id: line.id,
+    kind: line.kind,
+    description: line.description,
+    partNumber: line.partNumber ?? "",
+    qty: line.qtyThousandths == null ? "1" : formatQuantity(line.qtyThousandths),
+    hours: line.hoursTenths == null ? "" : formatHours(line.hoursTenths),
+    unitPrice: minorToText(line.unitPriceMinor, currency),
+    rate: minorToText(line.rateMinor, currency),
+    amount: minorToText(line.amountMinor, currency),
+    taxable: line.taxable,
+  };
+}
+
+export function emptyLine(kind: LineKind, settings: Pick<ShopMoneySettings, "labourRateMinor" | "taxable">, currency: string): LineState {
+  return { key: newKey(), kind, description: "", partNumber: "", qty: "1", hours: "", unitPrice: "", rate: kind === "labour" ? minorToText(settings.labourRateMinor, currency) : "", amount: "", taxable: settings.taxable[kind] };
+}
+
+/** The request body: prices only from someone who may price (the server refuses them otherwise). */
+export function payload(state: FindingState, mayPrice: boolean, version?: number) {
+  return {
+    ...(version ? { version } : {}),
+    title: state.title,
+    found: state.found,
+    whyItMatters: state.whyItMatters,
+    safety: state.safety,
+    evidence: state.evidence,
+    lines: state.lines.map((l) => ({
+      id: l.id,
+      kind: l.kind,
+      description: l.description,
+      partNumber: l.kind === "part" ? l.partNumber : null,
+      ...(l.kind === "part" ? { qty: l.qty } : {}),
+      ...(l.kind === "labour" ? { hours: l.hours } : {}),
+      ...(mayPrice ? { taxable: l.taxable, ...(l.kind === "part" ? { unitPrice: l.unitPrice } : l.kind === "labour" ? { rate: l.rate } : { amount: l.amount }) } : {}),
+    })),
+  };
+}
+
+/** Totals of the lines as typed, or the first reason they can't be worked out yet. */
+export function preview(lines: LineState[], settings: Pick<ShopMoneySettings, "tax" | "supplies">, currency: string): { totals: SnapshotTotals } | { missing: string } {
+  if (!lines.length) return { missing: "Add a line to see the estimate." };
+  try {
+    const money: Line[] = lines.map((l) => {
+      if (l.kind === "part") return { kind: "part", qtyThousandths: parseQuantity(l.qty), unitPriceMinor: parseMoney(l.unitPrice, currency), taxable: l.taxable };
+      if (l.kind === "labour") return { kind: "labour", hoursTenths: parseHours(l.hours), rateMinor: parseMoney(l.rate, currency), taxable: l.taxable };
+      return { kind: "fee", amountMinor: parseMoney(l.amount, currency), taxable: l.taxable };
+    });
+    const t = totals(money, { tax: settings.tax, supplies: settings.supplies });
+    return { totals: { subtotalMinor: t.subtotalMinor, suppliesMinor: t.suppliesMinor, taxMinor: t.taxMinor, preTaxTotalMinor: t.preTaxTotalMinor, totalMinor: t.totalMinor } };
+  } catch (error) {
+    return { missing: `Fill in every price to see the estimate (${(error as Error).message})` };
+  }
+}

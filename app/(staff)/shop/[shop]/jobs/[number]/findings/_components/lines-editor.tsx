@@ -1,0 +1,94 @@
+"use client";
+import { Package, Plus, Receipt, Trash2, Wrench } from "lucide-react";
+import { Button, Field, Input } from "@/components/ui";
+import { LINE_KIND_LABEL, type LineKind } from "@/lib/approvals";
+import type { LineState } from "./form-state";
+
+type Props = {
+  lines: LineState[];
+  onChange: (lines: LineState[]) => void;
+  onAdd: (kind: LineKind) => void;
+  mayPrice: boolean;
+  currency: string;
+  errors: Record<string, string[]>;
+  disabled: boolean;
+};
+
+const ICON = { part: Package, labour: Wrench, fee: Receipt } as const;
+
+/** Proposed lines: parts (number, quantity), labour (hours), fees; prices and tax for the desk. */
+export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors, disabled }: Props) {
+  const set = (key: string, patch: Partial<LineState>) => onChange(lines.map((l) => (l.key === key ? { ...l, ...patch } : l)));
+  const err = (i: number, field: string) => errors[`lines.${i}.${field}`]?.[0] ?? (field === "description" ? errors[`lines.${i}`]?.[0] : undefined);
+  return (
+    <fieldset className="space-y-3" disabled={disabled}>
+      <legend className="mb-2 text-lg font-bold text-ink">Proposed work</legend>
+      {errors.lines ? <p className="font-medium text-rust">{errors.lines[0]}</p> : null}
+      <ol className="space-y-3">
+        {lines.map((line, i) => {
+          const Icon = ICON[line.kind];
+          const id = (f: string) => `line-${line.key}-${f}`;
+          return (
+            <li key={line.key} className="space-y-3 rounded-xl border border-line bg-surface p-4" aria-label={`Line ${i + 1}: ${LINE_KIND_LABEL[line.kind]}`}>
+              <div className="flex items-center justify-between gap-2">
+                <span className="flex items-center gap-2 font-semibold text-ink">
+                  <Icon aria-hidden className="size-5 text-oil" />
+                  Line {i + 1}: {LINE_KIND_LABEL[line.kind]}
+                </span>
+                <Button variant="ghost" icon={<Trash2 aria-hidden className="size-5" />} onClick={() => onChange(lines.filter((l) => l.key !== line.key))} aria-label={`Remove line ${i + 1}`}>
+                  Remove
+                </Button>
+              </div>
+              <Field id={id("description")} label="Description" error={err(i, "description")} required>
+                <Input value={line.description} maxLength={200} onChange={(e) => set(line.key, { description: e.target.value })} />
+              </Field>
+              <div className="grid gap-3 sm:grid-cols-2">
+                {line.kind === "part" ? (
+                  <>
+                    <Field id={id("partNumber")} label="Part number" error={err(i, "partNumber")}>
+                      <Input value={line.partNumber} maxLength={60} onChange={(e) => set(line.key, { partNumber: e.target.value })} />
+                    </Field>
+                    <Field id={id("qty")} label="Quantity" hint="1.5 for a litre and a half" error={err(i, "qty")} required>
+                      <Input value={line.qty} inputMode="decimal" onChange={(e) => set(line.key, { qty: e.target.value })} />
+                    </Field>
+                  </>
+                ) : null}
+                {line.kind === "labour" ? (
+                  <Field id={id("hours")} label="Hours" hint="In tenths: 1.5" error={err(i, "hours")} required>
+                    <Input value={line.hours} inputMode="decimal" onChange={(e) => set(line.key, { hours: e.target.value })} />
+                  </Field>
+                ) : null}
+                {mayPrice ? (
+                  <Field
+                    id={id("price")}
+                    label={line.kind === "part" ? `Unit price (${currency})` : line.kind === "labour" ? `Rate per hour (${currency})` : `Amount (${currency})`}
+                    error={err(i, line.kind === "part" ? "unitPrice" : line.kind === "labour" ? "rate" : "amount")}
+                  >
+                    <Input
+                      value={line.kind === "part" ? line.unitPrice : line.kind === "labour" ? line.rate : line.amount}
+                      inputMode="decimal"
+                      onChange={(e) => set(line.key, line.kind === "part" ? { unitPrice: e.target.value } : line.kind === "labour" ? { rate: e.target.value } : { amount: e.target.value })}
+                    />
+                  </Field>
+                ) : null}
+              </div>
+              {mayPrice ? (
+                <label className="flex min-h-tap cursor-pointer items-center gap-3 text-ink">
+                  <input type="checkbox" className="size-5 accent-oil" checked={line.taxable} onChange={(e) => set(line.key, { taxable: e.target.checked })} />
+                  Taxable
+                </label>
+              ) : null}
+            </li>
+          );
+        })}
+      </ol>
+      <div className="flex flex-wrap gap-2">
+        {(["part", "labour", "fee"] as const).map((kind) => (
+          <Button key={kind} variant="secondary" icon={<Plus aria-hidden className="size-5" />} onClick={() => onAdd(kind)}>
+            Add {LINE_KIND_LABEL[kind].toLowerCase()}
+          </Button>
+        ))}
+      </div>
+    </fieldset>
+  );
+}

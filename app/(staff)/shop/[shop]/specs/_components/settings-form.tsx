@@ -1,0 +1,39 @@
+"use client";
+import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { Button, Field, Input, Select } from "@/components/ui";
+import type { BenchSettings } from "@/lib/bench";
+import { TORQUE_UNITS } from "@/lib/torque";
+import { saveBenchSettingsAction } from "../actions";
+
+/** The shop's bench settings: the torque unit shown first, the pass schedule, the chain limit. */
+export function SettingsForm({ shopSlug, settings }: { shopSlug: string; settings: BenchSettings }) {
+  const form = useBenchForm(saveBenchSettingsAction);
+  const { values, fieldError } = form;
+  return (
+    <form action={form.formAction} className="space-y-4">
+      <input type="hidden" name="shop" value={shopSlug} />
+      <FormError message={form.formError} />
+      <div className="grid gap-3 sm:grid-cols-3">
+        <Field id="settings-unit" label="Torque unit shown first" error={fieldError("torqueUnit")}>
+          <Select name="torqueUnit" defaultValue={values?.torqueUnit ?? settings.torqueUnit}>
+            {TORQUE_UNITS.map((u) => (
+              <option key={u.id} value={u.id}>
+                {u.label} ({u.name})
+              </option>
+            ))}
+          </Select>
+        </Field>
+        <Field id="settings-passes" label="Passes, % of final" hint="Rising, ending at 100" error={fieldError("passes")}>
+          <Input name="passes" autoComplete="off" defaultValue={values?.passes ?? settings.passPercents.join(", ")} maxLength={40} />
+        </Field>
+        <Field id="settings-chain" label="Chain replace-at stretch (%)" hint="About 3 for most drives, 1.5 for fixed centres" error={fieldError("chainLimitPct")}>
+          <Input name="chainLimitPct" inputMode="decimal" defaultValue={values?.chainLimitPct ?? String(settings.chainLimitPct)} maxLength={6} />
+        </Field>
+      </div>
+      <Button type="submit" loading={form.pending}>
+        Save settings
+      </Button>
+      {form.state?.ok ? <p role="status">Saved.</p> : null}
+    </form>
+  );
+}

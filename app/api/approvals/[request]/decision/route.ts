@@ -1,0 +1,18 @@
+import { route } from "@/lib/route";
+import { answerSchema } from "@/lib/schemas/approvals";
+import { withRefusal } from "@/lib/server/approval-route";
+import { answerRequest } from "@/lib/server/approvals";
+import { clientIp } from "@/lib/server/client-ip";
+
+/**
+ * POST /api/approvals/:request/decision {shownHash, lines[{no, answer}], signature, wantsPartsBack, confirmed}
+ * — the machine's owner answers. 409 with `refusal` when it was answered, withdrawn, replaced or changed.
+ */
+export const POST = route<typeof answerSchema, { request: string }>({
+  input: answerSchema,
+  run: ({ input, params, actor, req }) =>
+    withRefusal(async () => {
+      const { decision } = await answerRequest(actor, params.request, input, { ip: clientIp(req.headers), userAgent: req.headers.get("user-agent") });
+      return { decision };
+    }),
+});

@@ -1,0 +1,242 @@
+import "server-only";
+import type { Knex } from "knex";
+import { insertEntry } from "@/db/queries/journal";
+import { type BenchSettings, DEFAULT_BENCH_SETTINGS, type ChainSnapshot, type ReadingBody, type TeardownBody, type TorqueBody } from "@/lib/bench";
+import type { EntryVisibility } from "@/lib/journal";
+import type { ReadingVerdict } from "@/lib/readings";
+import { checklistProgress } from "@/lib/reassembly";
+import { db } from "@/lib/server/db";
+import type { TorqueUnit } from "@/lib/torque";
+
+// Torque records, readings and the teardown log. Every record that reaches the timeline is
+// written together with its entry in one transaction: both or neither.
+
+type Raw = Record<string, unknown>;
+type JobKey = { shopId: number; jobId: number };
+const num = (v: unknown) => (v == null ? null : Number(v));
+const str = (v: unknown) => (v == null ? null : String(v));
+const iso = (v: unknown) => (v == null ? null : (v as Date).toISOString());
+const json = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (v ?? null));
+
+export async function getBenchSettings({ shopId }: { shopId: number }, k: Knex = db()): Promise<BenchSettings> {
+  const row = (await k("shop_bench_settings").where({ shop_id: shopId }).first()) as Raw | undefined;
+  if (!row) return { ...DEFAULT_BENCH_SETTINGS, passPercents: [...DEFAULT_BENCH_SETTINGS.passPercents] };
+  return { torqueUnit: row.torque_unit as TorqueUnit, passPercents: json(row.pass_percents) as number[], chainLimitPct: Number(row.chain_limit_pct) };
+}
+
+export async function saveBenchSettings({ shopId, settings }: { shopId: number; settings: BenchSettings }): Promise<void> {
+  const row = { torque_unit: settings.torqueUnit, pass_percents: JSON.stringify(settings.passPercents), chain_limit_pct: settings.chainLimitPct, updated_at: db().fn.now() };
+  await db()("shop_bench_settings").insert({ shop_id: shopId, ...row }).onConflict("shop_id").merge(row);
+}
+
+/** Writes a timeline entry and then its record row (which points at it), in the caller's transaction. */
+async function withEntry(tx: Knex.Transaction, e: JobKey & { kind: "torque" | "reading" | "teardown"; userId: number; visibility: EntryVisibility; body: unknown }, table: string, row: Raw) {
+  const entryId = await insertEntry(tx, { shopId: e.shopId, jobId: e.jobId, kind: e.kind, authorId: e.userId, visibility: e.visibility, body: e.body });
+  const [id] = await tx(table).insert({ shop_id: e.shopId, job_id: e.jobId, entry_id: entryId, ...row });
+  return { id: Number(id), entryId };
+}
+
+export async function insertTorqueRecord(p: JobKey & { userId: number; visibility: EntryVisibility; body: TorqueBody }) {
+  const b = p.body;
+  return db().transaction((tx) =>
+    withEntry(tx, { ...p, kind: "torque" }, "torque_records", {
+      fastener: b.fastener,
+      spec_value: b.specValue,
+      unit: b.unit,
+      applied_value: b.appliedValue,
+      tool: b.tool,
+      pass_percents: JSON.stringify(b.passPercents),
+      bolt_count: b.boltCount,
+      note: b.note,
+      recorded_by_user_id: p.userId,
+    }),
+  );
+}
+
+export type TorqueRecordRow = TorqueBody & {
+  id: number;
+  entry: { id: number; visibility: EntryVisibility; version: number } | null;
+  byUserId: number | null;
+  by: string | null;
+  at: string;
+};
+
+export async function listTorqueRecords({ shopId, jobId }: JobKey): Promise<TorqueRecordRow[]> {
+  const rows = (await db()("torque_records as r")
+    .leftJoin("journal_entries as e", (j) => j.on("e.id", "r.entry_id").andOnNull("e.deleted_at"))
+    .leftJoin("users as u", "u.id", "r.recorded_by_user_id")
+    .where({ "r.shop_id": shopId, "r.job_id": jobId })
+    .orderBy("r.id", "desc")
+    .select("r.*", "e.visibility", "e.version", "e.body", "u.name as by_name")) as Raw[];
+  return rows.map((r) => {
+    const body = json(r.body) as Partial<TorqueBody> | null;
+    return {
+      id: Number(r.id),
+      fastener: String(r.fastener),
+      specValue: Number(r.spec_value),
+      unit: r.unit as TorqueUnit,
+      appliedValue: num(r.applied_value),
+      tool: str(r.tool),
+      passPercents: json(r.pass_percents) as number[],
+      boltCount: num(r.bolt_count),
+      pattern: body?.pattern ?? null,
+      note: str(r.note),
+      displayUnit: body?.displayUnit ?? (r.unit as TorqueUnit),
+      entry: r.version == null ? null : { id: Number(r.entry_id), visibility: r.visibility as EntryVisibility, version: Number(r.version) },
+      byUserId: num(r.recorded_by_user_id),
+      by: str(r.by_name),
+      at: iso(r.created_at)!,
+    };
+  });
+}
+
+export async function insertReading(p: JobKey & { userId: number; body: ReadingBody }) {
+  const b = p.body;
+  return db().transaction((tx) =>
+    withEntry(tx, { ...p, kind: "reading", visibility: "shop" }, "readings", {
+      label: b.label,
+      value: b.value,
+      unit: b.unit,
+      min_value: b.min,
+      max_value: b.max,
+      source: b.source,
+      verdict: b.verdict,
+      chain: b.chain ? JSON.stringify(b.chain) : null,
+      recorded_by_user_id: p.userId,
+    }),
+  );
+}
+
+export type ReadingRow = Omit<ReadingBody, "marginText"> & { id: number; by: string | null; at: string };
+
+function toReading(r: Raw): ReadingRow {
+  return {
+    id: Number(r.id),
+    label: String(r.label),
+    value: Number(r.value),
+    unit: str(r.unit),
+    min: num(r.min_value),
+    max: num(r.max_value),
+    source: str(r.source),
+    verdict: r.verdict as ReadingVerdict,
+    chain: json(r.chain) as ChainSnapshot | null,
+    by: str(r.by_name),
+    at: iso(r.created_at)!,
+  };
+}
+
+export async function listReadings({ shopId, jobId }: JobKey): Promise<ReadingRow[]> {
+  const rows = (await db()("readings as r")
+    .leftJoin("users as u", "u.id", "r.recorded_by_user_id")
+    .where({ "r.shop_id": shopId, "r.job_id": jobId })
+    .orderBy("r.id", "desc")
+    .select("r.*", "u.name as by_name")) as Raw[];
+  return rows.map(toReading);
+}
+
+export async function getReading({ shopId, jobId, id }: JobKey & { id: number }): Promise<ReadingRow | null> {
+  const row = (await db()("readings as r").leftJoin("users as u", "u.id", "r.recorded_by_user_id").where({ "r.shop_id": shopId, "r.job_id": jobId, "r.id": id }).first("r.*", "u.name as by_name")) as Raw | undefined;
+  return row ? toReading(row) : null;
+}
+
+/** A posted photo of this job, so a teardown step can't point at another job's picture. */
+export async function jobHasPhoto({ shopId, jobId, publicId }: JobKey & { publicId: string }): Promise<boolean> {
+  const row = await db()("photos").where({ shop_id: shopId, job_id: jobId, public_id: publicId }).whereNotNull("entry_id").first("id");
+  return !!row;
+}
+
+export async function listJobPhotos({ shopId, jobId }: JobKey): Promise<{ id: string; caption: string | null }[]> {
+  const rows = (await db()("photos as p")
+    .join("journal_entries as e", "e.id", "p.entry_id")
+    .where({ "p.shop_id": shopId, "p.job_id": jobId })
+    .whereNull("e.deleted_at")
+    .orderBy("p.id", "desc")
+    .limit(60)
+    .select("p.public_id", "e.caption")) as Raw[];
+  return rows.map((r) => ({ id: String(r.public_id), caption: str(r.caption) }));
+}
+
+/** The next step in removal order; the job row lock makes two phones logging at once take turns. */
+export async function insertTeardownStep(p: JobKey & { userId: number; step: Omit<TeardownBody, "seq" | "torque">; photoId: string | null }) {
+  return db().transaction(async (tx) => {
+    await tx("jobs").where({ id: p.jobId, shop_id: p.shopId }).forUpdate().first("id");
+    const last = (await tx("teardown_steps").where({ shop_id: p.shopId, job_id: p.jobId }).max({ seq: "seq" }).first()) as Raw | undefined;
+    const seq = Number(last?.seq ?? 0) + 1;
+    const body: TeardownBody = { seq, ...p.step, torque: null };
+    const s = p.step;
+    const made = await withEntry(tx, { ...p, kind: "teardown", visibility: "shop", body }, "teardown_steps", {
+      seq,
+      removed: s.removed,
+      count: s.count,
+      size: s.size,
+      notes: s.notes,
+      storage_label: s.storage,
+      photo_public_id: p.photoId,
+      created_by_user_id: p.userId,
+    });
+    return { ...made, seq };
+  });
+}
+
+export type TeardownRow = {
+  id: number;
+  seq: number;
+  removed: string;
+  count: number | null;
+  size: string | null;
+  notes: string | null;
+  storage: string | null;
+  photoId: string | null;
+  torque: { value: number; unit: TorqueUnit; boltCount: number | null } | null;
+  replacedNew: boolean;
+  checked: { by: string | null; at: string } | null;
+};
+
+export async function listTeardownSteps({ shopId, jobId }: JobKey, k: Knex = db()): Promise<TeardownRow[]> {
+  const rows = (await k("teardown_steps as s")
+    .leftJoin("users as u", "u.id", "s.checked_by_user_id")
+    .where({ "s.shop_id": shopId, "s.job_id": jobId })
+    .orderBy("s.seq", "asc")
+    .select("s.*", "u.name as checked_by_name")) as Raw[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    seq: Number(r.seq),
+    removed: String(r.removed),
+    count: num(r.count),
+    size: str(r.size),
+    notes: str(r.notes),
+    storage: str(r.storage_label),
+    photoId: str(r.photo_public_id),
+    torque: r.torque_value == null ? null : { value: Number(r.torque_value), unit: r.torque_unit as TorqueUnit, boltCount: num(r.torque_bolt_count) },
+    replacedNew: Boolean(r.replaced_new),
+    checked: r.checked_at == null ? null : { by: str(r.checked_by_name), at: iso(r.checked_at)! },
+  }));
+}
+
+async function updateStep({ shopId, jobId, stepId }: JobKey & { stepId: number }, change: Raw): Promise<boolean> {
+  const n = await db()("teardown_steps").where({ id: stepId, shop_id: shopId, job_id: jobId }).update(change);
+  return n === 1;
+}
+
+export function setStepTorque(p: JobKey & { stepId: number; torque: { value: number; unit: TorqueUnit; boltCount: number | null } }) {
+  return updateStep(p, { torque_value: p.torque.value, torque_unit: p.torque.unit, torque_bolt_count: p.torque.boltCount });
+}
+
+/** The reassembly tick: who and when, or cleared again. */
+export function setStepChecked(p: JobKey & { stepId: number; userId: number; done: boolean }) {
+  return updateStep(p, p.done ? { checked_by_user_id: p.userId, checked_at: db().fn.now(3) } : { checked_by_user_id: null, checked_at: null });
+}
+
+export function setStepReplaced(p: JobKey & { stepId: number; replaced: boolean }) {
+  return updateStep(p, { replaced_new: p.replaced });
+}
+
+/** Reassembly progress for the owner's page; null when nothing was logged coming apart. */
+export async function getReassemblyProgress({ shopId, jobId }: JobKey): Promise<{ done: number; total: number; percent: number } | null> {
+  const rows = (await db()("teardown_steps").where({ shop_id: shopId, job_id: jobId }).select("id", "checked_at")) as Raw[];
+  if (!rows.length) return null;
+  return checklistProgress(
+    rows.map((r) => ({ id: Number(r.id) })),
+    rows.filter((r) => r.checked_at != null).map((r) => Number(r.id)),
+  );
+}

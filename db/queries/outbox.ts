@@ -1,0 +1,226 @@
+import "server-only";
+import crypto from "node:crypto";
+import type { Knex } from "knex";
+import { z } from "zod";
+import { AppError } from "@/lib/errors";
+import { db } from "@/lib/server/db";
+import { MAIL_FROM } from "@/lib/server/mail";
+
+export type OutboxState = "queued" | "sending" | "retrying" | "sent" | "dead";
+
+export type NewMail = {
+  /** The shop the mail speaks for (its name in From, its e-mail as Reply-To); null for mail of no shop. */
+  shopId: number | null;
+  /** What the mail is, for the staff list and logs: "progress", "daily", "ready", "invitation", … */
+  kind: string;
+  to: string;
+  subject: string;
+  html: string;
+  text: string;
+  /** Left out: the shop's own e-mail. null: no Reply-To. */
+  replyTo?: string | null;
+  headers?: Record<string, string>;
+  /** Not before this time (e.g. a reminder); default now. */
+  sendAfter?: Date | null;
+  /** The same key for the same shop queues one mail only; the first row's id is returned. */
+  dedupeKey?: string | null;
+};
+
+const HEADER_NAME = /^[!#$%&'*+.^_`|~0-9A-Za-z-]+$/;
+// Set by the mail provider from the message itself; a caller must not forge them.
+const RESERVED_HEADERS = new Set(["from", "to", "cc", "bcc", "subject", "reply-to", "sender", "date", "message-id"]);
+const oneLine = (max: number, what: string) =>
+  z
+    .string()
+    .trim()
+    .min(1, `${what} is empty.`)
+    .max(max, `${what} is longer than ${max} characters.`)
+    .refine((s) => !/[\r\n]/.test(s), `${what} must be one line.`);
+const email = z.string().trim().toLowerCase().max(254).pipe(z.email({ error: "That is not an e-mail address." }));
+
+const mailSchema = z.object({
+  shopId: z.number().int().positive().nullable(),
+  kind: z.string().regex(/^[a-z][a-z0-9_-]{0,39}$/, "kind: lower-case letters, digits, - and _ (at most 40)."),
+  to: email,
+  subject: oneLine(300, "The subject"),
+  html: z.string().min(1, "The HTML part is empty.").max(4_000_000),
+  text: z.string().min(1, "The text part is empty.").max(4_000_000),
+  replyTo: email.nullable().optional(),
+  headers: z
+    .record(z.string(), oneLine(2000, "A header value"))
+    .refine((h) => Object.keys(h).every((name) => HEADER_NAME.test(name) && !RESERVED_HEADERS.has(name.toLowerCase())), "A header name is not allowed.")
+    .optional(),
+  sendAfter: z.date().nullable().optional(),
+  dedupeKey: oneLine(190, "The dedupe key").nullable().optional(),
+});
+
+function isDuplicateKey(error: unknown): boolean {
+  return (error as { code?: string } | null)?.code === "ER_DUP_ENTRY";
+}
+
+/** `"Shop name" <address of MAIL_FROM>`: the shop's name, our sending address. */
+export function fromForShop(shopName: string | null): string {
+  const configured = MAIL_FROM();
+  if (shopName == null) return configured;
+  const address = /<([^<>]+)>\s*$/.exec(configured)?.[1] ?? configured.trim();
+  // A quoted display name (RFC 5322 §3.2.4) keeps commas and dots in a shop's name from splitting the header.
+  const name = shopName.replace(/[\r\n]+/g, " ").replace(/["\\]/g, (ch) => `\\${ch}`).trim();
+  return `"${name}" <${address}>`;
+}
+
+/**
+ * Queues one e-mail inside the caller's transaction `k`, so it exists exactly when the change
+ * that causes it commits. The worker sends it with the stored idempotency key (the provider then
+ * drops a repeat of a send that did reach it). Returns the outbox row id.
+ */
+export async function enqueueMail(k: Knex, mail: NewMail): Promise<number> {
+  const m = mailSchema.parse(mail);
+  let from = fromForShop(null);
+  let replyTo: string | null = m.replyTo ?? null;
+  if (m.shopId != null) {
+    const shop = (await k("shops").where({ id: m.shopId }).first("name", "email")) as { name: string; email: string | null } | undefined;
+    if (!shop) throw new AppError("not_found", `No shop ${m.shopId} to send mail for.`);
+    from = fromForShop(shop.name);
+    if (m.replyTo === undefined) replyTo = shop.email ? shop.email.toLowerCase() : null;
+  }
+  const dedupeScope = m.shopId ?? 0;
+  const row = {
+    shop_id: m.shopId,
+    dedupe_scope: dedupeScope,
+    dedupe_key: m.dedupeKey ?? null,
+    kind: m.kind,
+    from_address: from,
+    to_email: m.to,
+    reply_to: replyTo,
+    subject: m.subject,
+    html: m.html,
+    text: m.text,
+    headers: m.headers && Object.keys(m.headers).length ? JSON.stringify(m.headers) : null,
+    idempotency_key: crypto.randomUUID(),
+    next_attempt_at: m.sendAfter ?? k.fn.now(3),
+  };
+  try {
+    const [id] = await k("outbox").insert(row);
+    return Number(id);
+  } catch (error) {
+    // A duplicate key fails only this statement; the caller's transaction goes on.
+    if (!isDuplicateKey(error) || !m.dedupeKey) throw error;
+    const existing = await k("outbox").where({ dedupe_scope: dedupeScope, dedupe_key: m.dedupeKey }).first("id");
+    if (!existing) throw error;
+    return Number(existing.id);
+  }
+}
+
+export type ClaimedMail = {
+  id: number;
+  claimToken: string;
+  attempts: number;
+  from: string;
+  to: string;
+  replyTo: string | null;
+  subject: string;
+  html: string;
+  text: string;
+  headers: Record<string, string> | null;
+  idempotencyKey: string;
+};
+
+type Raw = Record<string, unknown>;
+
+/**
+ * Takes up to `limit` due rows for this worker in one short transaction: rows other workers
+ * hold are skipped (SKIP LOCKED), so workers never wait on or share a row. Claimed rows become
+ * `sending` with a lease; a worker that dies leaves them to come back when the lease ends, and
+ * each claim counts as an attempt, so a mail that keeps crashing its worker still dead-letters.
+ */
+export async function claimBatch({ limit, leaseMs }: { limit: number; leaseMs: number }): Promise<ClaimedMail[]> {
+  const claimToken = crypto.randomUUID();
+  const ids = await db().transaction(async (tx) => {
+    const rows = (await tx("outbox")
+      // Lease ends are stored in next_attempt_at too, so one index range finds due mail and lapsed leases.
+      .whereIn("state", ["queued", "retrying", "sending"])
+      .where("next_attempt_at", "<=", tx.fn.now(3))
+      .orderBy("next_attempt_at")
+      .limit(limit)
+      .forUpdate()
+      .skipLocked()
+      .select("id")) as Raw[];
+    const found = rows.map((r) => Number(r.id));
+    if (!found.length) return found;
+    const until = tx.raw("NOW(3) + INTERVAL ? MICROSECOND", [leaseMs * 1000]);
+    await tx("outbox")
+      .whereIn("id", found)
+      .update({ state: "sending", claim_token: claimToken, locked_until: until, next_attempt_at: until, attempts: tx.raw("attempts + 1") });
+    return found;
+  });
+  if (!ids.length) return [];
+  const rows = (await db()("outbox").whereIn("id", ids).where("claim_token", claimToken).orderBy("id")) as Raw[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    claimToken,
+    attempts: Number(r.attempts),
+    from: String(r.from_address),
+    to: String(r.to_email),
+    replyTo: (r.reply_to as string | null) ?? null,
+    subject: String(r.subject),
+    html: String(r.html),
+    text: String(r.text),
+    headers: r.headers == null ? null : typeof r.headers === "string" ? (JSON.parse(r.headers) as Record<string, string>) : (r.headers as Record<string, string>),
+    idempotencyKey: String(r.idempotency_key),
+  }));
+}
+
+const mine = (m: Pick<ClaimedMail, "id" | "claimToken">) => db()("outbox").where({ id: m.id, claim_token: m.claimToken, state: "sending" });
+
+/** Each outcome applies only while this worker still holds the row, so a late worker can't undo a newer claim. */
+export async function markSent(m: ClaimedMail, providerId: string): Promise<void> {
+  await mine(m).update({ state: "sent", sent_at: db().fn.now(3), provider_id: providerId.slice(0, 100), locked_until: null, claim_token: null, last_error: null });
+}
+
+export async function markFailed(m: ClaimedMail, failure: { error: string; retryInMs: number | null }): Promise<void> {
+  const error = failure.error.slice(0, 500);
+  if (failure.retryInMs == null) {
+    await mine(m).update({ state: "dead", last_error: error, locked_until: null, claim_token: null });
+    return;
+  }
+  const next = db().raw("NOW(3) + INTERVAL ? MICROSECOND", [Math.max(0, Math.round(failure.retryInMs)) * 1000]);
+  await mine(m).update({ state: "retrying", last_error: error, next_attempt_at: next, locked_until: null, claim_token: null });
+}
+
+/** Gives claimed rows back untried (e.g. the provider said "slow down" before they were sent). */
+export async function releaseClaim(m: ClaimedMail, afterMs: number): Promise<void> {
+  const next = db().raw("NOW(3) + INTERVAL ? MICROSECOND", [Math.max(0, Math.round(afterMs)) * 1000]);
+  await mine(m).update({ state: "retrying", attempts: db().raw("GREATEST(attempts, 1) - 1"), next_attempt_at: next, locked_until: null, claim_token: null });
+}
+
+export type OutboxProblem = { id: number; kind: string; to: string; subject: string; state: "retrying" | "dead"; attempts: number; lastError: string | null; nextAttemptAt: Date; createdAt: Date };
+
+/** The shop's mail that failed at least once and is not sent yet, newest first. */
+export async function listOutboxProblems({ shopId, limit = 100 }: { shopId: number; limit?: number }): Promise<OutboxProblem[]> {
+  const rows = (await db()("outbox")
+    .where("shop_id", shopId)
+    .whereIn("state", ["retrying", "dead"])
+    .orderBy("id", "desc")
+    .limit(limit)
+    .select("id", "kind", "to_email", "subject", "state", "attempts", "last_error", "next_attempt_at", "created_at")) as Raw[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    kind: String(r.kind),
+    to: String(r.to_email),
+    subject: String(r.subject),
+    state: r.state as "retrying" | "dead",
+    attempts: Number(r.attempts),
+    lastError: (r.last_error as string | null) ?? null,
+    nextAttemptAt: r.next_attempt_at as Date,
+    createdAt: r.created_at as Date,
+  }));
+}
+
+/** Sends a failed or dead mail again now, with a fresh count of tries (and the same idempotency key). */
+export async function retryOutboxMail({ shopId, id }: { shopId: number; id: number }): Promise<boolean> {
+  const changed = await db()("outbox")
+    .where({ id, shop_id: shopId })
+    .whereIn("state", ["retrying", "dead"])
+    .update({ state: "queued", attempts: 0, next_attempt_at: db().fn.now(3), last_error: null });
+  return changed === 1;
+}

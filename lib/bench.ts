@@ -1,0 +1,192 @@
+// Bench records as the timeline and the bench page read them: statuses, the snapshot bodies
+// kept in journal entries, the waiting-on-parts rule and display helpers. Pure: no I/O, safe in
+// the browser and on the server.
+import type { JobStatus } from "@/lib/job-status";
+import type { ReadingVerdict } from "@/lib/readings";
+import { type ChecklistItem, reassemblyChecklist } from "@/lib/reassembly";
+import { formatFixed } from "@/lib/rounding";
+import { DEFAULT_PASS_PERCENTS } from "@/lib/tightening-passes";
+import { TORQUE_UNIT_IDS, type TorqueUnit, convertTorque, isTorqueUnit, torqueUnitLabel } from "@/lib/torque";
+
+export const PART_STATUSES = ["needed", "ordered", "back_ordered", "received", "fitted", "returned"] as const;
+export type PartStatus = (typeof PART_STATUSES)[number];
+export const PART_STATUS_LABEL: Record<PartStatus, string> = {
+  needed: "Needed",
+  ordered: "On order",
+  back_ordered: "Back-ordered",
+  received: "Arrived",
+  fitted: "Fitted",
+  returned: "Returned to owner",
+};
+/** What a part usually does next, offered first when its status is changed. */
+export const USUAL_NEXT_PART_STATUS: Record<PartStatus, PartStatus> = {
+  needed: "ordered",
+  ordered: "received",
+  back_ordered: "received",
+  received: "fitted",
+  fitted: "returned",
+  returned: "needed",
+};
+/** Parts the job is still waiting for. */
+export const OUTSTANDING_PART_STATUSES: readonly PartStatus[] = ["needed", "ordered", "back_ordered"];
+export const isOutstanding = (s: PartStatus) => OUTSTANDING_PART_STATUSES.includes(s);
+
+export const SPEC_KINDS = ["torque", "limit", "capacity", "note"] as const;
+export type SpecKind = (typeof SPEC_KINDS)[number];
+export const SPEC_KIND_LABEL: Record<SpecKind, string> = { torque: "Torque", limit: "Service limit", capacity: "Capacity", note: "Note" };
+
+export type BenchSettings = { torqueUnit: TorqueUnit; passPercents: number[]; chainLimitPct: number };
+export const DEFAULT_BENCH_SETTINGS: BenchSettings = { torqueUnit: "nm", passPercents: [...DEFAULT_PASS_PERCENTS], chainLimitPct: 3 };
+
+// ---- what a timeline entry of each bench kind holds (a snapshot at the time of recording) ----
+
+export type TorqueBody = {
+  fastener: string;
+  specValue: number;
+  unit: TorqueUnit;
+  appliedValue: number | null;
+  tool: string | null;
+  passPercents: number[];
+  boltCount: number | null;
+  /** "cross" when a bolt count had a tightening pattern drawn for it. */
+  pattern: "cross" | null;
+  note: string | null;
+  /** The shop's preferred unit when recorded, shown first. */
+  displayUnit: TorqueUnit;
+};
+
+export type ChainSnapshot = { pitchMm: number; pitches: number; measuredMm: number; limitPct: number };
+export type ReadingBody = {
+  label: string;
+  value: number;
+  unit: string | null;
+  min: number | null;
+  max: number | null;
+  source: string | null;
+  verdict: ReadingVerdict;
+  marginText: string | null;
+  chain: ChainSnapshot | null;
+};
+
+export type TeardownBody = {
+  seq: number;
+  removed: string;
+  count: number | null;
+  size: string | null;
+  notes: string | null;
+  storage: string | null;
+  torque: { value: number; unit: TorqueUnit; boltCount: number | null } | null;
+};
+
+/** Never carries cost or supplier: an entry can be shared with the owner. */
+export type PartBody = {
+  event: "added" | "status";
+  description: string;
+  partNumber: string | null;
+  qty: string;
+  from: PartStatus | null;
+  to: PartStatus;
+  expectedOn: string | null;
+};
+
+const isObj = (v: unknown): v is Record<string, unknown> => !!v && typeof v === "object" && !Array.isArray(v);
+const isNum = (v: unknown): v is number => typeof v === "number" && Number.isFinite(v);
+const isStr = (v: unknown): v is string => typeof v === "string";
+const isPartStatus = (v: unknown): v is PartStatus => (PART_STATUSES as readonly unknown[]).includes(v);
+
+export function isTorqueBody(b: unknown): b is TorqueBody {
+  return isObj(b) && isStr(b.fastener) && isNum(b.specValue) && isTorqueUnit(b.unit) && isTorqueUnit(b.displayUnit) && Array.isArray(b.passPercents) && b.passPercents.every(isNum);
+}
+export function isReadingBody(b: unknown): b is ReadingBody {
+  return isObj(b) && isStr(b.label) && isNum(b.value) && ["within", "below", "above", "no_limit"].includes(b.verdict as string);
+}
+export function isTeardownBody(b: unknown): b is TeardownBody {
+  return isObj(b) && isNum(b.seq) && isStr(b.removed);
+}
+export function isPartBody(b: unknown): b is PartBody {
+  return isObj(b) && isStr(b.description) && isPartStatus(b.to) && (b.event === "added" || b.event === "status");
+}
+
+// ---- display ----
+
+const DECIMALS: Record<TorqueUnit, number> = { nm: 1, lbf_ft: 1, lbf_in: 1, kgf_m: 2 };
+
+/** "13.0 N·m" in `to`, rounded half-up like a printed table. */
+export function torqueText(value: number, from: TorqueUnit, to: TorqueUnit = from): string {
+  return `${formatFixed(convertTorque(value, from, to), DECIMALS[to])} ${torqueUnitLabel(to)}`;
+}
+
+/** The value in the shop's unit first, then every other unit (shown one tap away). */
+export function torqueViews(value: number, unit: TorqueUnit, displayUnit: TorqueUnit): { primary: string; others: string[] } {
+  return {
+    primary: torqueText(value, unit, displayUnit),
+    others: TORQUE_UNIT_IDS.filter((u) => u !== displayUnit).map((u) => torqueText(value, unit, u)),
+  };
+}
+
+/** "torqued to spec, 3 passes and a check pass, cross pattern" — the proof line the owner reads. */
+export function torqueProof(b: Pick<TorqueBody, "specValue" | "appliedValue" | "unit" | "displayUnit" | "passPercents" | "pattern">): string {
+  const applied = b.appliedValue == null || b.appliedValue === b.specValue ? "torqued to spec" : `torqued to ${torqueText(b.appliedValue, b.unit, b.displayUnit)} (spec ${torqueText(b.specValue, b.unit, b.displayUnit)})`;
+  const n = b.passPercents.length;
+  const passes = `${n} pass${n === 1 ? "" : "es"} (${b.passPercents.join(" → ")} %) and a check pass`;
+  return [applied, passes, b.pattern === "cross" ? "cross pattern" : null].filter(Boolean).join(", ");
+}
+
+/** "torqued to spec, …" → "Torqued to spec, …" for the start of a sentence. */
+export const sentenceCase = (text: string) => text.charAt(0).toUpperCase() + text.slice(1);
+
+/** A number as typed back to a person: no float noise, no trailing zeros ("0.125", "322.3"). */
+export function plainNumber(n: number): string {
+  return String(Number(n.toPrecision(12)));
+}
+
+/** "4.5–5.0 mm", "at most 3 %", or null with no limit. */
+export function limitText(r: { min: number | null; max: number | null; unit: string | null }): string | null {
+  const u = r.unit ? ` ${r.unit}` : "";
+  if (r.min != null && r.max != null) return `${plainNumber(r.min)}–${plainNumber(r.max)}${u}`;
+  if (r.min != null) return `at least ${plainNumber(r.min)}${u}`;
+  if (r.max != null) return `at most ${plainNumber(r.max)}${u}`;
+  return null;
+}
+
+/** The words of a drafted finding: the reading quoted as evidence, with its limit and source. */
+export function findingText(r: Pick<ReadingBody, "label" | "value" | "unit" | "min" | "max" | "source"> & { marginText: string | null }): string {
+  const u = r.unit ? ` ${r.unit}` : "";
+  const limit = limitText(r);
+  return [
+    `Finding to raise with the owner. ${r.label}: measured ${plainNumber(r.value)}${u}${r.marginText ? `, ${r.marginText}` : ""}.`,
+    limit ? `Limit: ${limit}${r.source ? ` (${r.source})` : ""}.` : null,
+  ]
+    .filter(Boolean)
+    .join(" ");
+}
+
+/** Stored teardown steps → the reassembly checklist, each torque with the shop's pass schedule. */
+export function checklistFromSteps(
+  steps: readonly { id: number; seq: number; removed: string; count: number | null; size: string | null; notes: string | null; storage: string | null; photoId: string | null; torque: { value: number; unit: TorqueUnit; boltCount: number | null } | null }[],
+  passPercents: readonly number[],
+): ChecklistItem[] {
+  return reassemblyChecklist(
+    steps.map((s) => ({ ...s, photoIds: s.photoId ? [s.photoId] : [], torqueSpec: s.torque ? { ...s.torque, passPercents } : null })),
+  );
+}
+
+// ---- the waiting-on-parts rule ----
+
+export const PARTS_WAIT_NOTE = "Waiting for parts to arrive.";
+export const ALL_PARTS_IN_NOTE = "All parts are in; work continues.";
+
+/**
+ * Where a parts change moves the job, if anywhere (our own workflow rule): a part still to come
+ * while the job is being diagnosed or worked on parks it on "waiting on parts"; when the last
+ * outstanding part arrives (or is otherwise settled) a parked job goes back on the bench.
+ */
+export function partsWaitMove(p: { jobStatus: JobStatus; partTo: PartStatus; outstandingAfter: number }): { from: JobStatus; to: JobStatus; note: string } | null {
+  if (isOutstanding(p.partTo) && (p.jobStatus === "in_progress" || p.jobStatus === "inspecting")) {
+    return { from: p.jobStatus, to: "waiting_parts", note: PARTS_WAIT_NOTE };
+  }
+  if (!isOutstanding(p.partTo) && p.outstandingAfter === 0 && p.jobStatus === "waiting_parts") {
+    return { from: "waiting_parts", to: "in_progress", note: ALL_PARTS_IN_NOTE };
+  }
+  return null;
+}

@@ -1,0 +1,49 @@
+// Bench clips: what the browser declares before an upload, checked against the shop's limits.
+// Pure: no I/O.
+import { z } from "zod";
+
+export const DEFAULT_CLIP_LIMITS = { maxSeconds: 600, maxBytes: 2 * 1024 ** 3 };
+/** Upload chunk size for @mux/upchunk, in KiB (a multiple of 256): small enough to resume cheaply on garage Wi-Fi. */
+export const CLIP_CHUNK_KIB = 5 * 1024;
+
+export const newClipSchema = z.object({
+  name: z.string().trim().max(255).optional(),
+  size: z.number({ message: "Say how large the clip is." }).int().positive("The clip is empty."),
+  /** Read by the browser from the file before sending; the processed asset is checked again. */
+  durationSeconds: z.number().nonnegative().finite().optional(),
+  type: z
+    .string()
+    .max(100)
+    .optional()
+    .refine((t) => !t || t.startsWith("video/"), "Only video files can be added as clips."),
+  caption: z
+    .string()
+    .trim()
+    .max(500, "Keep the caption under 500 characters.")
+    .optional()
+    .transform((s) => s || null),
+  visibility: z.enum(["shop", "shared"]).default("shop"),
+});
+export type NewClip = z.output<typeof newClipSchema>;
+
+export function formatDuration(seconds: number): string {
+  const total = Math.round(seconds);
+  const h = Math.floor(total / 3600);
+  const m = Math.floor((total % 3600) / 60);
+  const s = total % 60;
+  return h ? `${h}:${String(m).padStart(2, "0")}:${String(s).padStart(2, "0")}` : `${m}:${String(s).padStart(2, "0")}`;
+}
+
+function sizeText(bytes: number): string {
+  return bytes >= 1024 ** 3 ? `${+(bytes / 1024 ** 3).toFixed(1)} GB` : `${Math.round(bytes / 1024 ** 2)} MB`;
+}
+
+/** Why a clip can't be taken, in words for the bench, or null when it fits the shop's limits. */
+export function clipLimitProblem(clip: { size: number; durationSeconds?: number | null; name?: string | null }, limits: { maxSeconds: number; maxBytes: number }): string | null {
+  const what = clip.name ? `"${clip.name}"` : "This clip";
+  if (clip.size > limits.maxBytes) return `${what} is ${sizeText(clip.size)}; the shop takes clips up to ${sizeText(limits.maxBytes)}. Trim it on the phone first.`;
+  if (clip.durationSeconds != null && clip.durationSeconds > limits.maxSeconds) {
+    return `${what} runs ${formatDuration(clip.durationSeconds)}; the shop takes clips up to ${formatDuration(limits.maxSeconds)}. Trim it on the phone first.`;
+  }
+  return null;
+}

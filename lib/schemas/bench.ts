@@ -1,0 +1,153 @@
+import { z } from "zod";
+import { PART_STATUSES, SPEC_KINDS } from "@/lib/bench";
+import { JOB_PUBLIC_ID_PATTERN, PHOTO_ID_PATTERN } from "@/lib/journal";
+import { MAX_PATTERN_BOLTS } from "@/lib/tightening-order";
+import { TORQUE_UNIT_IDS } from "@/lib/torque";
+
+// The bench forms as they post (flat FormData strings, blanks for untouched fields). Field names
+// are the inputs' names so each message lands beside its own field.
+
+const blank = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
+const text = (max: number, what: string) => z.string().trim().max(max, `Keep ${what} under ${max} characters.`);
+const optText = (max: number, what: string) => z.preprocess(blank, text(max, what).optional()).transform((s) => s ?? null);
+const reqText = (max: number, what: string, missing: string) => z.preprocess(blank, text(max, what).min(1, missing).optional()).pipe(z.string({ error: missing }));
+
+/** A decimal typed into a text box ("12.5", "0,125"); range-checked with a message naming the field. */
+function decimal(what: string, opts: { min?: number; max?: number; allowNegative?: boolean } = {}) {
+  const { min = 0, max = 1_000_000, allowNegative = false } = opts;
+  const pattern = allowNegative ? /^-?\d+(?:\.\d+)?$/ : /^\d+(?:\.\d+)?$|^\.\d+$/;
+  return z
+    .string()
+    .trim()
+    .transform((s) => s.replace(",", "."))
+    .refine((s) => pattern.test(s), `${what} must be a number${allowNegative ? "" : " (0 or more)"}, e.g. 12.5.`)
+    .transform(Number)
+    .pipe(z.number().min(min, `${what} must be at least ${min}.`).max(max, `${what} must be at most ${max}.`));
+}
+const optDecimal = (what: string, opts?: Parameters<typeof decimal>[1]) => z.preprocess(blank, decimal(what, opts).optional()).transform((n) => n ?? null);
+const reqDecimal = (what: string, opts?: Parameters<typeof decimal>[1]) => z.preprocess(blank, decimal(what, opts).optional()).pipe(z.number({ error: `Enter ${what.toLowerCase()}.` }));
+
+function wholeNumber(what: string, min: number, max: number) {
+  const message = `${what} must be a whole number from ${min} to ${max}.`;
+  return z.string().trim().regex(/^\d{1,6}$/, message).transform(Number).pipe(z.number().int().min(min, message).max(max, message));
+}
+const optWhole = (what: string, min: number, max: number) => z.preprocess(blank, wholeNumber(what, min, max).optional()).transform((n) => n ?? null);
+const recordId = (what: string) => z.string().trim().regex(/^[1-9]\d{0,15}$/, `No such ${what}.`).transform(Number);
+const checkbox = z.preprocess((v) => v === "on" || v === "1" || v === "true", z.boolean());
+
+export const jobRef = z.object({ job: z.string().regex(JOB_PUBLIC_ID_PATTERN, "No such job.") });
+const torqueUnit = z.enum(TORQUE_UNIT_IDS, { message: "Choose a torque unit." });
+
+/** "30, 60, 100" → [30, 60, 100]; the rising-to-100 rule is checked by assertPassPercents. */
+export const passPercentsText = z
+  .string()
+  .trim()
+  .regex(/^\d{1,3}(?:\.\d+)?(?:\s*[,;/ →>-]+\s*\d{1,3}(?:\.\d+)?){0,7}$/, 'Write the passes as percentages, e.g. "30, 60, 100".')
+  .transform((s) => s.split(/[^\d.]+/).filter(Boolean).map(Number));
+
+export const torqueRecordSchema = jobRef.extend({
+  fastener: reqText(200, "what was torqued", "Say what was torqued, e.g. “pump cover bolts, 8 × M6”."),
+  specValue: reqDecimal("Spec torque", { min: 0.001, max: 100_000 }),
+  unit: torqueUnit,
+  appliedValue: optDecimal("Applied torque", { max: 100_000 }),
+  tool: optText(120, "the tool"),
+  passes: z.preprocess(blank, passPercentsText.optional()).transform((p) => p ?? null),
+  boltCount: optWhole("Bolt count", 1, 999),
+  note: optText(500, "the note"),
+  share: checkbox.optional().default(false),
+});
+export type TorqueRecordInput = z.output<typeof torqueRecordSchema>;
+
+export const readingSchema = jobRef.extend({
+  label: reqText(200, "what was measured", "Say what was measured, e.g. “front brake disc thickness”."),
+  value: reqDecimal("The reading", { min: -1_000_000, allowNegative: true }),
+  unit: optText(20, "the unit"),
+  min: optDecimal("The minimum", { min: -1_000_000, allowNegative: true }),
+  max: optDecimal("The maximum", { min: -1_000_000, allowNegative: true }),
+  source: optText(200, "the source"),
+});
+export type ReadingInput = z.output<typeof readingSchema>;
+
+export const chainReadingSchema = jobRef.extend({
+  label: optText(200, "what was measured").transform((s) => s ?? "Drive chain wear"),
+  pitchMm: reqDecimal("The chain pitch (mm)", { min: 1, max: 100 }),
+  pitches: wholeNumber("Pitches measured", 1, 500),
+  measuredMm: reqDecimal("The measured length (mm)", { min: 1, max: 100_000 }),
+  limitPct: optDecimal("The wear limit (%)", { min: 0.1, max: 50 }),
+  source: optText(200, "the source"),
+});
+export type ChainReadingInput = z.output<typeof chainReadingSchema>;
+
+export const draftFindingSchema = jobRef.extend({ reading: recordId("reading") });
+
+export const teardownStepSchema = jobRef.extend({
+  removed: reqText(200, "what came off", "Say what came off, e.g. “clutch cover”."),
+  count: optWhole("Count", 1, 999),
+  size: optText(60, "the size"),
+  notes: optText(1000, "the notes"),
+  storage: optText(80, "the storage label"),
+  photo: z.preprocess(blank, z.string().regex(PHOTO_ID_PATTERN, "Choose one of this job's photos.").optional()).transform((s) => s ?? null),
+});
+export type TeardownStepInput = z.output<typeof teardownStepSchema>;
+
+export const stepTorqueSchema = jobRef.extend({
+  step: recordId("step"),
+  torqueValue: reqDecimal("Torque", { min: 0.001, max: 100_000 }),
+  torqueUnit: torqueUnit,
+  boltCount: optWhole("Bolt count", 1, 999),
+});
+export const stepFlagSchema = jobRef.extend({ step: recordId("step"), value: z.enum(["0", "1"]).transform((v) => v === "1") });
+
+const partStatus = z.enum(PART_STATUSES, { message: "Choose a status for the part." });
+const isoDate = z.preprocess(blank, z.iso.date({ message: "Use a date like 2026-12-24." }).optional()).transform((s) => s ?? null);
+
+export const partSchema = jobRef.extend({
+  description: reqText(200, "the description", "Say what the part is."),
+  partNumber: optText(60, "the part number"),
+  supplier: optText(120, "the supplier"),
+  // Parsed with lib/money.ts once the shop's currency is known.
+  qty: z.preprocess(blank, text(20, "the quantity").optional()).transform((s) => s ?? "1"),
+  cost: optText(20, "the cost"),
+  status: partStatus.default("needed"),
+  expectedOn: isoDate,
+});
+export type PartInput = z.output<typeof partSchema>;
+
+export const partStatusSchema = jobRef.extend({ part: recordId("part"), from: partStatus, to: partStatus, expectedOn: isoDate });
+
+export const shopRef = z.object({ shop: z.string().trim().min(1).max(60) });
+
+export const specSchema = shopRef
+  .extend({
+    make: reqText(60, "the make", "Enter the make."),
+    model: reqText(80, "the model", "Enter the model."),
+    kind: z.enum(SPEC_KINDS, { message: "Choose what kind of spec this is." }),
+    label: reqText(200, "the label", "Say what the spec is for, e.g. “clutch cover bolts”."),
+    value: optDecimal("The value", { max: 100_000 }),
+    unit: optText(20, "the unit"),
+    min: optDecimal("The minimum", { min: -1_000_000, allowNegative: true }),
+    max: optDecimal("The maximum", { min: -1_000_000, allowNegative: true }),
+    boltCount: optWhole("Bolt count", 1, MAX_PATTERN_BOLTS),
+    notes: optText(1000, "the notes"),
+    source: optText(200, "the source"),
+  })
+  .superRefine((s, ctx) => {
+    const need = (path: string, message: string) => ctx.addIssue({ code: "custom", path: [path], message });
+    if (s.kind === "torque") {
+      if (s.value == null) need("value", "A torque spec needs its value.");
+      if (!s.unit || !(TORQUE_UNIT_IDS as readonly string[]).includes(s.unit)) need("unit", `Choose a torque unit: ${TORQUE_UNIT_IDS.join(", ")}.`);
+    }
+    if (s.kind === "limit" && s.min == null && s.max == null) need("max", "A service limit needs a minimum, a maximum or both.");
+    if (s.min != null && s.max != null && s.min > s.max) need("min", "The minimum can't be above the maximum.");
+    if (s.kind === "capacity" && s.value == null) need("value", "A capacity needs its amount.");
+    if (s.kind === "note" && !s.notes) need("notes", "Write the note.");
+  });
+export type SpecInput = z.output<typeof specSchema>;
+
+export const specDeleteSchema = shopRef.extend({ spec: recordId("spec") });
+
+export const benchSettingsSchema = shopRef.extend({
+  torqueUnit,
+  passes: passPercentsText,
+  chainLimitPct: reqDecimal("The chain wear limit (%)", { min: 0.1, max: 50 }),
+});

@@ -1,0 +1,78 @@
+import "server-only";
+import { saveBenchSettings } from "@/db/queries/bench";
+import { addPart, changePartStatus } from "@/db/queries/bench-parts";
+import { deleteSpec, insertSpec } from "@/db/queries/bench-specs";
+import { getShopBySlug } from "@/db/queries/shops";
+import { AppError } from "@/lib/errors";
+import { parseMoney, parseQuantity } from "@/lib/money";
+import { type Action, type Actor } from "@/lib/permissions";
+import type { PartInput, SpecInput } from "@/lib/schemas/bench";
+import { authorize } from "@/lib/server/authorize";
+import { benchJob, onField } from "@/lib/server/bench";
+import { assertPassPercents } from "@/lib/tightening-passes";
+import type { PartStatus } from "@/lib/bench";
+import type { TorqueUnit } from "@/lib/torque";
+
+// Parts on a job (with the waiting-on-parts rule), the shop's spec library and its bench settings.
+//
+// Not done here on purpose: the e-mail to the owner when the last part arrives. It needs the
+// mail outbox (issue 7); the shared status entry the move writes is what the owner sees today.
+
+export async function addJobPart(actor: Actor, input: PartInput) {
+  const job = await benchJob(actor, input.job, "parts:manage");
+  const shop = await getShopBySlug({ slug: job.shopSlug });
+  const qtyThousandths = onField("qty", () => parseQuantity(input.qty));
+  if (qtyThousandths === 0) throw new AppError("invalid", "The quantity must be above zero.", { qty: ["The quantity must be above zero."] });
+  const costMinor = input.cost == null ? null : onField("cost", () => parseMoney(input.cost!, shop?.currency ?? "USD"));
+  const made = await addPart({
+    shopId: job.shopId,
+    jobId: job.id,
+    userId: actor.userId,
+    part: { partNumber: input.partNumber, description: input.description, supplier: input.supplier, qtyThousandths, costMinor, status: input.status, expectedOn: input.expectedOn },
+  });
+  return { ...made, job };
+}
+
+export async function changeJobPartStatus(actor: Actor, input: { job: string; part: number; from: PartStatus; to: PartStatus; expectedOn: string | null }) {
+  const job = await benchJob(actor, input.job, "parts:manage");
+  // A blank date on a status change leaves the expected date as it was.
+  const made = await changePartStatus({
+    shopId: job.shopId,
+    jobId: job.id,
+    userId: actor.userId,
+    partId: input.part,
+    from: input.from,
+    to: input.to,
+    expectedOn: input.expectedOn ?? undefined,
+  });
+  return { ...made, job };
+}
+
+/** The shop behind a spec-library or settings request; an unknown slug looks like someone else's shop. */
+export async function shopFor(actor: Actor, slug: string, action: Action) {
+  const shop = await getShopBySlug({ slug });
+  if (!shop) throw new AppError("forbidden", "You don't have access to this shop.");
+  authorize(actor, action, { shopId: shop.id });
+  return shop;
+}
+
+export async function addSpec(actor: Actor, input: SpecInput) {
+  const shop = await shopFor(actor, input.shop, "specs:manage");
+  const { shop: _slug, ...spec } = input;
+  // A torque spec stores its unit id (nm, lbf_ft…) so the torque form can pre-fill from it.
+  const id = await insertSpec({ shopId: shop.id, userId: actor.userId, spec });
+  return { id, shop };
+}
+
+export async function removeSpec(actor: Actor, input: { shop: string; spec: number }) {
+  const shop = await shopFor(actor, input.shop, "specs:manage");
+  if (!(await deleteSpec({ shopId: shop.id, id: input.spec }))) throw new AppError("not_found", "That spec is already gone.");
+  return { shop };
+}
+
+export async function updateBenchSettings(actor: Actor, input: { shop: string; torqueUnit: TorqueUnit; passes: number[]; chainLimitPct: number }) {
+  const shop = await shopFor(actor, input.shop, "shop:manage-settings");
+  onField("passes", () => assertPassPercents(input.passes));
+  await saveBenchSettings({ shopId: shop.id, settings: { torqueUnit: input.torqueUnit, passPercents: input.passes, chainLimitPct: input.chainLimitPct } });
+  return { shop };
+}

@@ -1,0 +1,155 @@
+import "server-only";
+import { getBenchSettings, getReading, insertReading, insertTeardownStep, insertTorqueRecord, jobHasPhoto, setStepChecked, setStepReplaced, setStepTorque } from "@/db/queries/bench";
+import { insertEntry } from "@/db/queries/journal";
+import { type ReadingBody, type TorqueBody, findingText } from "@/lib/bench";
+import { chainCheck } from "@/lib/chain-wear";
+import { AppError } from "@/lib/errors";
+import type { Action, Actor } from "@/lib/permissions";
+import { evaluateReading } from "@/lib/readings";
+import { parseNote } from "@/lib/rich-text/note";
+import { formatFixed, roundHalfUp } from "@/lib/rounding";
+import type { ChainReadingInput, ReadingInput, TeardownStepInput, TorqueRecordInput } from "@/lib/schemas/bench";
+import { db } from "@/lib/server/db";
+import { journalAccess } from "@/lib/server/journal";
+import { passSchedule } from "@/lib/tightening-passes";
+import { supportsCrossPattern } from "@/lib/tightening-order";
+import type { TorqueUnit } from "@/lib/torque";
+
+// Bench records for one job: parse (done by the caller's zod schema) → authorise through the
+// job's journal access (someone else's job is a 404) → check with the pure domain modules →
+// write the row and its timeline entry together.
+
+/** The job, for someone allowed to do `action` on it. */
+export async function benchJob(actor: Actor, publicId: string, action: Action = "bench:record") {
+  return (await journalAccess(actor, publicId, action)).job;
+}
+
+/** Runs a domain check and pins its message to the form field it is about. */
+export function onField<T>(field: string, check: () => T): T {
+  try {
+    return check();
+  } catch (error) {
+    if (error instanceof AppError && error.code === "invalid") throw new AppError("invalid", error.message, { [field]: [error.message] });
+    throw error;
+  }
+}
+
+function checkTorque(value: number, unit: TorqueUnit, passPercents: readonly number[], boltCount: number | null) {
+  // passSchedule refuses a zero torque and passes that don't rise to 100 %, in plain words.
+  onField("passes", () => passSchedule(value, unit, passPercents));
+  return boltCount != null && supportsCrossPattern(boltCount) ? ("cross" as const) : null;
+}
+
+export async function recordTorque(actor: Actor, input: TorqueRecordInput) {
+  const job = await benchJob(actor, input.job);
+  const settings = await getBenchSettings({ shopId: job.shopId });
+  const passPercents = input.passes ?? settings.passPercents;
+  const body: TorqueBody = {
+    fastener: input.fastener,
+    specValue: input.specValue,
+    unit: input.unit,
+    appliedValue: input.appliedValue,
+    tool: input.tool,
+    passPercents,
+    boltCount: input.boltCount,
+    pattern: checkTorque(input.specValue, input.unit, passPercents, input.boltCount),
+    note: input.note,
+    displayUnit: settings.torqueUnit,
+  };
+  const made = await insertTorqueRecord({ shopId: job.shopId, jobId: job.id, userId: actor.userId, visibility: input.share ? "shared" : "shop", body });
+  return { ...made, job };
+}
+
+export async function recordReading(actor: Actor, input: ReadingInput) {
+  const job = await benchJob(actor, input.job);
+  const result = onField("min", () => evaluateReading({ value: input.value, min: input.min, max: input.max, unit: input.unit }));
+  const body: ReadingBody = {
+    label: input.label,
+    value: input.value,
+    unit: input.unit,
+    min: input.min,
+    max: input.max,
+    source: input.source,
+    verdict: result.verdict,
+    marginText: result.marginText ?? null,
+    chain: null,
+  };
+  return { ...(await insertReading({ shopId: job.shopId, jobId: job.id, userId: actor.userId, body })), job };
+}
+
+/** Chain wear over N pitches → elongation % as the reading, the shop's (or typed) limit as its maximum. */
+export async function recordChainReading(actor: Actor, input: ChainReadingInput) {
+  const job = await benchJob(actor, input.job);
+  const limitPct = input.limitPct ?? (await getBenchSettings({ shopId: job.shopId })).chainLimitPct;
+  const check = onField("measuredMm", () => chainCheck({ pitchMm: input.pitchMm, pitches: input.pitches, measuredMm: input.measuredMm, limitPct }));
+  const value = roundHalfUp(check.elongationPct, 3);
+  const gap = formatFixed(Math.abs(check.elongationPct - limitPct), 2);
+  const body: ReadingBody = {
+    label: input.label,
+    value,
+    unit: "%",
+    min: null,
+    max: limitPct,
+    source: input.source,
+    // The chain rule: due for replacement once it reaches the limit (lib/chain-wear.ts).
+    verdict: check.verdict === "replace" ? "above" : "within",
+    marginText: check.verdict === "replace" ? `at or past the replace-at limit by ${gap} %` : `${gap} % short of the replace-at limit`,
+    chain: { pitchMm: input.pitchMm, pitches: input.pitches, measuredMm: input.measuredMm, limitPct },
+  };
+  return { ...(await insertReading({ shopId: job.shopId, jobId: job.id, userId: actor.userId, body })), job, check };
+}
+
+/**
+ * An out-of-limit reading drafted as a finding. Approval requests don't exist yet, so the draft
+ * is a shop-only note quoting the reading; the shop shares or builds on it from the journal.
+ */
+export async function draftFinding(actor: Actor, publicId: string, readingId: number) {
+  const job = await benchJob(actor, publicId, "journal:post");
+  const reading = await getReading({ shopId: job.shopId, jobId: job.id, id: readingId });
+  if (!reading) throw new AppError("not_found", "That reading isn't on this job.");
+  if (reading.verdict !== "above" && reading.verdict !== "below") throw new AppError("invalid", "Only a reading outside its limit is drafted as a finding.");
+  const marginText = reading.chain ? null : (evaluateReading(reading).marginText ?? null);
+  const text = findingText({ ...reading, marginText });
+  const doc = parseNote({ type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text }] }] });
+  const id = await insertEntry(db(), { shopId: job.shopId, jobId: job.id, kind: "note", authorId: actor.userId, visibility: "shop", body: doc });
+  return { id, job };
+}
+
+export async function addTeardownStep(actor: Actor, input: TeardownStepInput) {
+  const job = await benchJob(actor, input.job);
+  if (input.photo && !(await jobHasPhoto({ shopId: job.shopId, jobId: job.id, publicId: input.photo }))) {
+    throw new AppError("invalid", "Choose one of this job's posted photos.", { photo: ["Choose one of this job's posted photos."] });
+  }
+  const made = await insertTeardownStep({
+    shopId: job.shopId,
+    jobId: job.id,
+    userId: actor.userId,
+    photoId: input.photo,
+    step: { removed: input.removed, count: input.count, size: input.size, notes: input.notes, storage: input.storage },
+  });
+  return { ...made, job };
+}
+
+function found(ok: boolean) {
+  if (!ok) throw new AppError("not_found", "That teardown step isn't on this job.");
+}
+
+export async function setTeardownTorque(actor: Actor, input: { job: string; step: number; torqueValue: number; torqueUnit: TorqueUnit; boltCount: number | null }) {
+  const job = await benchJob(actor, input.job);
+  const settings = await getBenchSettings({ shopId: job.shopId });
+  checkTorque(input.torqueValue, input.torqueUnit, settings.passPercents, input.boltCount);
+  found(await setStepTorque({ shopId: job.shopId, jobId: job.id, stepId: input.step, torque: { value: input.torqueValue, unit: input.torqueUnit, boltCount: input.boltCount } }));
+  return { job };
+}
+
+export async function tickTeardownStep(actor: Actor, input: { job: string; step: number; value: boolean }) {
+  const job = await benchJob(actor, input.job);
+  found(await setStepChecked({ shopId: job.shopId, jobId: job.id, stepId: input.step, userId: actor.userId, done: input.value }));
+  return { job };
+}
+
+export async function markStepReplaced(actor: Actor, input: { job: string; step: number; value: boolean }) {
+  const job = await benchJob(actor, input.job);
+  found(await setStepReplaced({ shopId: job.shopId, jobId: job.id, stepId: input.step, replaced: input.value }));
+  return { job };
+}

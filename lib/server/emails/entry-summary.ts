@@ -1,0 +1,39 @@
+import { PART_STATUS_LABEL, isPartBody, isReadingBody, isTeardownBody, isTorqueBody, plainNumber } from "@/lib/bench";
+import { JOB_STATUS_LABEL } from "@/lib/job-status";
+import { ENTRY_KIND_LABEL, type EntryKind, isStatusBody } from "@/lib/journal";
+import type { NoteDoc } from "@/lib/rich-text/note";
+import { noteExcerpt } from "@/lib/rich-text/note-text";
+
+/** What one shared entry says in an e-mail: a short label and a line or two of text. Pure. */
+export function summarizeEntry(e: { kind: string; body: unknown; caption: string | null; photoCount: number }): { label: string; text: string | null } {
+  const label = ENTRY_KIND_LABEL[e.kind as EntryKind] ?? "Update";
+  const b = e.body;
+  switch (e.kind) {
+    case "note":
+      return { label, text: excerpt(b) };
+    case "photos":
+      return { label: `${e.photoCount} photo${e.photoCount === 1 ? "" : "s"}`, text: e.caption };
+    case "status":
+      if (!isStatusBody(b)) return { label, text: null };
+      return { label: "Status", text: `${b.from ? `${JOB_STATUS_LABEL[b.from]} → ` : ""}${JOB_STATUS_LABEL[b.to]}${b.note ? `: ${b.note}` : ""}` };
+    case "torque":
+      return { label, text: isTorqueBody(b) ? b.fastener : e.caption };
+    case "reading":
+      return { label, text: isReadingBody(b) ? `${b.label}: ${plainNumber(b.value)}${b.unit ? ` ${b.unit}` : ""}` : e.caption };
+    case "teardown":
+      return { label, text: isTeardownBody(b) ? `Removed: ${b.removed}` : e.caption };
+    case "part":
+      return { label, text: isPartBody(b) ? `${b.description}: ${PART_STATUS_LABEL[b.to]}` : e.caption };
+    default:
+      return { label, text: e.caption };
+  }
+}
+
+function excerpt(body: unknown): string | null {
+  try {
+    return noteExcerpt(body as NoteDoc, 400) || null;
+  } catch {
+    // A note that doesn't parse still gets its line in the digest, without text.
+    return null;
+  }
+}

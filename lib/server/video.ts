@@ -1,0 +1,56 @@
+import "server-only";
+import Mux from "@mux/mux-node";
+import { AppError } from "@/lib/errors";
+
+// The only place that picks where video goes: MUX_BASE_URL points the official SDK at the
+// local fake (fakes/video) or, unset, at the hosted API; real credentials work unchanged.
+let client: Mux | undefined;
+
+export function mux(): Mux {
+  const tokenId = process.env.MUX_TOKEN_ID;
+  const tokenSecret = process.env.MUX_TOKEN_SECRET;
+  if (!tokenId || !tokenSecret) throw new AppError("unavailable", "Video is not configured (MUX_TOKEN_ID, MUX_TOKEN_SECRET).");
+  client ??= new Mux({
+    tokenId,
+    tokenSecret,
+    webhookSecret: process.env.MUX_WEBHOOK_SECRET ?? null,
+    ...(process.env.MUX_BASE_URL ? { baseURL: process.env.MUX_BASE_URL } : {}),
+    maxRetries: Number(process.env.MUX_MAX_RETRIES ?? 2),
+  });
+  return client;
+}
+
+/**
+ * Where a ready clip plays from and its poster. The hosted service serves HLS and thumbnails
+ * on its own domains; the local fake serves an MP4 and a JPEG on loopback. `{id}` is the
+ * playback id.
+ */
+export function playbackUrls(playbackId: string): { src: string; poster: string } {
+  const fill = (template: string) => template.replaceAll("{id}", encodeURIComponent(playbackId));
+  return {
+    src: fill(process.env.VIDEO_PLAYBACK_URL ?? "https://stream.mux.com/{id}.m3u8"),
+    poster: fill(process.env.VIDEO_POSTER_URL ?? "https://image.mux.com/{id}/thumbnail.jpg"),
+  };
+}
+
+/** Opens a direct upload the browser sends the file to, in chunks; `passthrough` comes back on the asset. */
+export async function createDirectUpload({ corsOrigin, passthrough }: { corsOrigin: string; passthrough: string }) {
+  try {
+    const upload = await mux().video.uploads.create({
+      cors_origin: corsOrigin,
+      new_asset_settings: { playback_policies: ["public"], passthrough },
+    });
+    if (!upload.url) throw new Error("upload without url");
+    return { id: upload.id, url: upload.url };
+  } catch (error) {
+    if (error instanceof AppError) throw error;
+    console.error(error);
+    throw new AppError("unavailable", "The video service didn't answer; try the clip again in a moment.");
+  }
+}
+
+export async function cancelDirectUpload(uploadId: string): Promise<void> {
+  await mux()
+    .video.uploads.cancel(uploadId)
+    .catch(() => undefined);
+}

@@ -1,0 +1,2 @@
+// Stands in for the `server-only` guard when server code runs outside Next (see tsconfig.worker.json).
+export {};

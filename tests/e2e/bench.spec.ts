@@ -1,0 +1,160 @@
+import AxeBuilder from "@axe-core/playwright";
+import { type Page, expect, test } from "@playwright/test";
+import mysql from "mysql2/promise";
+import { storageStatePath } from "./personas";
+import { BenchPage } from "./pages/bench-page";
+
+// J-0005 is Ruth Calloway's (the jobCustomer persona's) job at Copper Gulch: the technician works
+// on its bench page and the owner reads the progress on her own page.
+let ownerPath = "";
+
+test.beforeAll(async () => {
+  const db = await mysql.createConnection(process.env.DATABASE_URL!);
+  const [rows] = await db.query<mysql.RowDataPacket[]>(
+    "SELECT j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5",
+  );
+  await db.end();
+  ownerPath = `/my/jobs/${rows[0]!.public_id}`;
+});
+
+const stamp = () => Date.now().toString(36);
+
+test("teardown log → reassembly checklist in reverse with torque, ticked off; the owner sees the percentage", async ({ browser }) => {
+  test.setTimeout(120_000);
+  const id = stamp();
+  const staff = await browser.newContext({ storageState: storageStatePath("technician"), viewport: { width: 390, height: 844 } });
+  const bench = new BenchPage(await staff.newPage());
+  await bench.open("/shop/copper-gulch/jobs/5/bench");
+  // On a fresh seed J-0005 has no teardown log (so 2 of 3 → 66 %, 3 of 3 → 100 %); counting what is
+  // there first keeps the check true if the same database is used again.
+  const before = await bench.progressCounts();
+  const percent = (done: number) => String(Math.floor(((before.done + done) * 100) / (before.total + 3)));
+
+  const steps = [`Skid plate ${id}`, `Diff cover ${id}`, `Axle boot ${id}`];
+  await bench.logStep(steps[0]!, "Four bolts, the rear two are longer", "Bin 5-A");
+  await bench.logStep(steps[1]!, "Drain plug faces down", "Bag 5-B");
+  await bench.logStep(steps[2]!, "Clamp ear points rearward", "Bag 5-C");
+  // REFERENCES.md §1 worked value: 115 lbf·in → 13.0 N·m (NIST SP 811, App. B.9).
+  await bench.addTorqueSpec(steps[1]!, { value: "115", unitLabel: "lbf·in", bolts: "8" });
+
+  // Reverse order: last off, first on.
+  const items = bench.checklist(id);
+  await expect(items).toHaveCount(3);
+  await expect(items.nth(0)).toContainText(`1. Refit: ${steps[2]}`);
+  await expect(items.nth(1)).toContainText(`2. Refit: ${steps[1]}`);
+  await expect(items.nth(2)).toContainText(`3. Refit: ${steps[0]}`);
+  await expect(items.nth(0)).toContainText("Clamp ear points rearward");
+
+  // The torque sits on its own step, in both units, with its passes and the drawn order.
+  const cover = items.nth(1);
+  await expect(cover).toContainText("13.0 N·m");
+  await expect(cover).toContainText("115.0 lbf·in");
+  const passes = cover.getByRole("table", { name: `Pass schedule: ${steps[1]}` });
+  await expect(passes.getByRole("columnheader")).toContainText(["Pass", "Share of final", "N·m", "lbf·in"]);
+  // ASME PCC-1 legacy cross pattern for 8 bolts (REFERENCES.md §2).
+  await expect(cover.getByRole("img", { name: "Tightening order: 1, 5, 3, 7, 2, 6, 4, 8" })).toBeVisible();
+  await expect(cover).toContainText("The maker's sequence and values override this generated pattern.");
+  await expect(items.nth(0).getByRole("img")).toHaveCount(0);
+
+  await bench.markDone(steps[2]!);
+  await bench.markDone(steps[1]!);
+  await expect(items.nth(0)).toContainText("Done by Mateo Brandt");
+  const progress = bench.section("Reassembly checklist").getByRole("progressbar");
+  await expect(progress).toHaveAttribute("aria-valuenow", percent(2));
+
+  // The owner sees the share done (floored: never 100 % while a step is open).
+  const ownerContext = await browser.newContext({ storageState: storageStatePath("jobCustomer"), viewport: { width: 390, height: 844 } });
+  const owner = await ownerContext.newPage();
+  await owner.goto(ownerPath);
+  const reassembly = owner.getByRole("region", { name: "Putting it back together" });
+  await expect(reassembly).toContainText(`${percent(2)} % reassembled`);
+  await expect(reassembly.getByRole("progressbar")).toHaveAttribute("aria-valuenow", percent(2));
+  // Storage labels and notes stay on the shop's side.
+  await expect(owner.getByText("Bag 5-B")).toHaveCount(0);
+
+  await bench.markDone(steps[0]!);
+  await expect(progress).toHaveAttribute("aria-valuenow", percent(3));
+  await owner.reload();
+  await expect(reassembly).toContainText(`${percent(3)} % reassembled`);
+  await expectNoViolations(owner);
+  await expectNoViolations(bench.page);
+
+  await staff.close();
+  await ownerContext.close();
+});
+
+test("a shared torque record reads as proof on the owner's page, in words and as the drawn order", async ({ browser }) => {
+  test.setTimeout(90_000);
+  const id = stamp();
+  const staff = await browser.newContext({ storageState: storageStatePath("technician") });
+  const bench = new BenchPage(await staff.newPage());
+  await bench.open("/shop/copper-gulch/jobs/5/bench");
+  const record = await bench.logTorque({ fastener: `Wheel hub nuts ${id}`, spec: "80", unitLabel: "lbf·ft", bolts: "4", share: true });
+  // REFERENCES.md §1: 80 lbf·ft → 108.5 N·m, the shop's unit shown first.
+  await expect(record).toContainText("108.5 N·m");
+  await expect(record).toContainText("Shared with owner");
+
+  const ownerContext = await browser.newContext({ storageState: storageStatePath("jobCustomer") });
+  const owner = await ownerContext.newPage();
+  await owner.goto(ownerPath);
+  const updates = owner.getByRole("region", { name: "Updates from the shop" });
+  const proof = updates.getByRole("article").filter({ hasText: `Wheel hub nuts ${id}` });
+  await expect(proof).toContainText("Torqued to spec, 3 passes (30 → 60 → 100 %) and a check pass, cross pattern");
+  // ASME PCC-1 legacy cross pattern for 4 bolts (REFERENCES.md §2).
+  await expect(proof.getByRole("img", { name: "Tightening order: 1, 3, 2, 4" })).toBeVisible();
+  await staff.close();
+  await ownerContext.close();
+});
+
+test.describe("spec library, as the service writer", () => {
+  test.use({ storageState: storageStatePath("writer") });
+
+  test("a spec added for the machine's model pre-fills the bench's torque form, and can be deleted after a confirmation", async ({ page }) => {
+    const id = stamp();
+    await page.goto("/shop/copper-gulch/specs");
+    const add = page.getByRole("region", { name: "Add a spec" });
+    await add.getByLabel(/^Make/).fill("Tessaro");
+    await add.getByLabel(/^Model/).fill("Ridgeline 570");
+    await add.getByLabel("Kind").selectOption({ label: "Torque" });
+    await add.getByLabel(/^What it is for/).fill(`Skid plate bolts ${id}`);
+    await add.getByLabel(/^Torque/).fill("12");
+    await add.getByLabel("Unit").selectOption({ label: "N·m" });
+    await add.getByLabel("Bolts in the circle (optional)").fill("4");
+    await add.getByLabel("Source").fill("invented test sheet p. 1");
+    await add.getByRole("button", { name: "Add spec" }).click();
+    const tessaro = page.getByRole("region", { name: "Tessaro Ridgeline 570", exact: true });
+    await expect(tessaro).toContainText(`Skid plate bolts ${id}`);
+
+    // J-0005 is a Tessaro Ridgeline 570: its torque form offers the spec and fills itself in.
+    await page.goto("/shop/copper-gulch/jobs/5/bench");
+    const torque = page.getByRole("region", { name: "Torque log", exact: true });
+    await torque.getByLabel("From the shop's specs").selectOption({ label: `Skid plate bolts ${id} (invented test sheet p. 1)` });
+    await expect(torque.getByLabel(/^What was torqued/)).toHaveValue(`Skid plate bolts ${id}`);
+    await expect(torque.getByLabel(/^Spec torque/)).toHaveValue("12");
+    await expect(torque.getByLabel("Bolts in the circle (optional)")).toHaveValue("4");
+    await expect(torque.getByRole("img", { name: "Tightening order: 1, 3, 2, 4" })).toBeVisible();
+
+    await page.goto("/shop/copper-gulch/specs");
+    await tessaro.getByRole("button", { name: `Delete Skid plate bolts ${id} (Tessaro Ridgeline 570)` }).click();
+    await tessaro.getByRole("group", { name: /^Confirm deleting/ }).getByRole("button", { name: "Delete" }).click();
+    await expect(page.getByText(`Skid plate bolts ${id}`)).toHaveCount(0);
+  });
+});
+
+test.describe("spec library, as a technician", () => {
+  test.use({ storageState: storageStatePath("technician") });
+
+  test("technicians read the shop's specs but can't change them", async ({ page }) => {
+    await page.goto("/shop/copper-gulch/specs");
+    const corvane = page.getByRole("region", { name: "Corvane Tarn 450", exact: true });
+    await expect(corvane).toContainText("Valve cover bolts");
+    await expect(page.getByRole("button", { name: /^Delete/ })).toHaveCount(0);
+    await expect(page.getByRole("heading", { name: "Add a spec" })).toHaveCount(0);
+  });
+});
+
+async function expectNoViolations(page: Page) {
+  // WCAG 2.2 AA through axe-core's rule tags (see accessibility.spec.ts).
+  const { violations } = await new AxeBuilder({ page }).withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa", "wcag22aa"]).analyze();
+  expect(violations.map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`)).toEqual([]);
+}
