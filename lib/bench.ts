@@ -149,18 +149,6 @@ export function limitText(r: { min: number | null; max: number | null; unit: str
   return null;
 }
 
-/** The words of a drafted finding: the reading quoted as evidence, with its limit and source. */
-export function findingText(r: Pick<ReadingBody, "label" | "value" | "unit" | "min" | "max" | "source"> & { marginText: string | null }): string {
-  const u = r.unit ? ` ${r.unit}` : "";
-  const limit = limitText(r);
-  return [
-    `Finding to raise with the owner. ${r.label}: measured ${plainNumber(r.value)}${u}${r.marginText ? `, ${r.marginText}` : ""}.`,
-    limit ? `Limit: ${limit}${r.source ? ` (${r.source})` : ""}.` : null,
-  ]
-    .filter(Boolean)
-    .join(" ");
-}
-
 /** Stored teardown steps → the reassembly checklist, each torque with the shop's pass schedule. */
 export function checklistFromSteps(
   steps: readonly { id: number; seq: number; removed: string; count: number | null; size: string | null; notes: string | null; storage: string | null; photoId: string | null; torque: { value: number; unit: TorqueUnit; boltCount: number | null } | null }[],

@@ -16,6 +16,11 @@ export type EntryVisibility = "shop" | "shared";
 export type TimelineAudience = "shop" | "owner" | "follower";
 /** Entries that carry prices or the owner's decisions: never shown or mailed to followers. */
 export const MONEY_ENTRY_KINDS: readonly string[] = ["approval", "invoice", "payment"];
+/**
+ * Entries that stand for a record kept elsewhere (the status history, an approval request, an
+ * invoice or payment): they can't be edited, hidden or deleted from the timeline.
+ */
+export const RECORD_ENTRY_KINDS: readonly string[] = ["status", "approval", "invoice", "payment"];
 
 export const ENTRY_KIND_LABEL: Record<EntryKind, string> = {
   note: "Note",

@@ -1,4 +1,5 @@
 import { Film, Gauge } from "lucide-react";
+import { ClipPlayer } from "@/components/journal/clip-player";
 import { PhotoGrid } from "@/components/journal/photo-grid";
 import type { EvidenceView } from "@/lib/server/approval-views";
 
@@ -7,7 +8,10 @@ const clock = (ms: number) => {
   return `${Math.floor(s / 60)}:${String(s % 60).padStart(2, "0")}`;
 };
 
-/** A finding's evidence: photos as thumbnails (tap for full size), readings and clip moments as words. */
+/**
+ * A finding's evidence: photos as thumbnails (tap for full size), readings as words, and clip
+ * moments as a player that starts at the marked moment.
+ */
 export function EvidenceList({ evidence }: { evidence: EvidenceView }) {
   if (!evidence.photos.length && !evidence.others.length) return null;
   return (
@@ -19,10 +23,13 @@ export function EvidenceList({ evidence }: { evidence: EvidenceView }) {
           {evidence.others.map((e) => (
             <li key={`${e.kind}:${e.ref}:${e.momentMs ?? ""}`} className="flex items-start gap-2">
               {e.kind === "reading" ? <Gauge aria-hidden className="mt-0.5 size-5 shrink-0 text-dusk" /> : <Film aria-hidden className="mt-0.5 size-5 shrink-0 text-dusk" />}
-              <span>
-                {e.kind === "reading" ? "Reading: " : `Clip${e.momentMs != null ? ` at ${clock(e.momentMs)}` : ""}: `}
-                {e.label}
-              </span>
+              <div className="min-w-0 flex-1 space-y-2">
+                <p>
+                  {e.kind === "reading" ? "Reading: " : `Clip${e.momentMs != null ? ` at ${clock(e.momentMs)}` : ""}: `}
+                  {e.label}
+                </p>
+                {e.clip ? <ClipPlayer clip={e.clip} title={e.label} startTime={e.momentMs != null ? e.momentMs / 1000 : undefined} /> : null}
+              </div>
             </li>
           ))}
         </ul>

@@ -134,11 +134,6 @@ export async function listReadings({ shopId, jobId }: JobKey): Promise<ReadingRo
   return rows.map(toReading);
 }
 
-export async function getReading({ shopId, jobId, id }: JobKey & { id: number }): Promise<ReadingRow | null> {
-  const row = (await db()("readings as r").leftJoin("users as u", "u.id", "r.recorded_by_user_id").where({ "r.shop_id": shopId, "r.job_id": jobId, "r.id": id }).first("r.*", "u.name as by_name")) as Raw | undefined;
-  return row ? toReading(row) : null;
-}
-
 /** A posted photo of this job, so a teardown step can't point at another job's picture. */
 export async function jobHasPhoto({ shopId, jobId, publicId }: JobKey & { publicId: string }): Promise<boolean> {
   const row = await db()("photos").where({ shop_id: shopId, job_id: jobId, public_id: publicId }).whereNotNull("entry_id").first("id");

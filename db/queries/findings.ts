@@ -205,7 +205,7 @@ export async function updateFinding(p: JobKey & { id: number; expectedVersion: n
 
 export type EvidencePhoto = TimelinePhoto & { caption: string | null };
 export type EvidenceReading = { id: string; label: string; value: number; unit: string | null; verdict: string };
-export type EvidenceClip = { id: string; caption: string | null; durationSeconds: number | null };
+export type EvidenceClip = { id: string; caption: string | null; durationSeconds: number | null; playbackId: string | null; aspectRatio: string | null };
 export type EvidenceChoices = { photos: EvidencePhoto[]; readings: EvidenceReading[]; clips: EvidenceClip[] };
 
 /** The job's posted photos, readings and ready clips (what a finding may point at), newest first. */
@@ -223,7 +223,7 @@ export async function listEvidenceChoices({ shopId, jobId }: JobKey, k: Knex = d
       .where({ "c.shop_id": shopId, "c.job_id": jobId, "c.status": "ready" })
       .whereNull("e.deleted_at")
       .orderBy("c.id", "desc")
-      .select("c.public_id", "c.duration_seconds", "e.caption"),
+      .select("c.public_id", "c.duration_seconds", "c.playback_id", "c.aspect_ratio", "e.caption"),
   ])) as [Raw[], Raw[], Raw[]];
   return {
     photos: photos.map((p) => {
@@ -231,7 +231,13 @@ export async function listEvidenceChoices({ shopId, jobId }: JobKey, k: Knex = d
       return { id, width: Number(p.width), height: Number(p.height), thumbUrl: photoUrl(id, "thumb"), displayUrl: photoUrl(id, "display"), caption: (p.caption as string | null) ?? null };
     }),
     readings: readings.map((r) => ({ id: String(r.id), label: String(r.label), value: Number(r.value), unit: (r.unit as string | null) ?? null, verdict: String(r.verdict) })),
-    clips: clips.map((c) => ({ id: String(c.public_id), caption: (c.caption as string | null) ?? null, durationSeconds: num(c.duration_seconds) })),
+    clips: clips.map((c) => ({
+      id: String(c.public_id),
+      caption: (c.caption as string | null) ?? null,
+      durationSeconds: num(c.duration_seconds),
+      playbackId: (c.playback_id as string | null) ?? null,
+      aspectRatio: (c.aspect_ratio as string | null) ?? null,
+    })),
   };
 }
 

@@ -5,7 +5,7 @@ import { db } from "@/lib/server/db";
 import { AppError } from "@/lib/errors";
 import type { JobStatus } from "@/lib/job-status";
 import type { EntryKind, EntryVisibility, TimelineAudience, TimelineEntry, TimelinePage, TimelinePhoto } from "@/lib/journal";
-import { MONEY_ENTRY_KINDS, photoUrl } from "@/lib/journal";
+import { MONEY_ENTRY_KINDS, RECORD_ENTRY_KINDS, photoUrl } from "@/lib/journal";
 import { clipsForEntries } from "./clips";
 import { recordSharedEntry } from "./following";
 
@@ -224,8 +224,11 @@ export async function changeEntry(p: {
     if (!mine && !p.mayModerate) throw new AppError("forbidden", "Only the person who posted this entry can change it.");
     if (Number(row.version) !== p.expectedVersion) throw new AppError("conflict", "Someone changed this entry since you opened it. Reload to see the latest version.");
     const kind = row.kind as EntryKind;
-    if (kind === "status" && (p.change.body !== undefined || p.change.caption !== undefined)) {
-      throw new AppError("invalid", "A status change can't be edited; change the status again instead.");
+    if (RECORD_ENTRY_KINDS.includes(kind)) {
+      throw new AppError(
+        "invalid",
+        kind === "status" ? "A status change can't be edited; change the status again instead." : "This entry stands for a record the shop keeps; it can't be changed here.",
+      );
     }
     if (p.change.body !== undefined && kind !== "note") throw new AppError("invalid", "Only notes have text to edit; change the caption instead.");
 

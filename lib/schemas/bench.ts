@@ -78,7 +78,6 @@ export const chainReadingSchema = jobRef.extend({
 });
 export type ChainReadingInput = z.output<typeof chainReadingSchema>;
 
-export const draftFindingSchema = jobRef.extend({ reading: recordId("reading") });
 
 export const teardownStepSchema = jobRef.extend({
   removed: reqText(200, "what came off", "Say what came off, e.g. “clutch cover”."),

@@ -1,16 +1,17 @@
 import "server-only";
 import { type DecisionRow, latestRequestOfFinding, listDecisions, listRequests, markOpened } from "@/db/queries/approvals";
-import { getMoneySettings, listEvidenceChoices, listFindings } from "@/db/queries/findings";
+import { type EvidenceClip, getMoneySettings, listEvidenceChoices, listFindings } from "@/db/queries/findings";
 import { getShopBySlug } from "@/db/queries/shops";
 import { type ApprovalsOverview, buildOverview } from "@/lib/approvals-overview";
 import type { RequestSnapshot, RequestStatus } from "@/lib/approvals";
 import { AppError } from "@/lib/errors";
-import type { TimelinePhoto } from "@/lib/journal";
+import type { TimelineClip, TimelinePhoto } from "@/lib/journal";
 import { describeMachine } from "@/lib/machine";
 import { type Actor, can } from "@/lib/permissions";
 import { requestAccess } from "@/lib/server/approvals";
 import { db } from "@/lib/server/db";
 import { journalAccess } from "@/lib/server/journal";
+import { playbackUrls } from "@/lib/server/video";
 
 // Read models for the approval screens: the staff panel's overview of a job, and one request as
 // its reader sees it (the owner's answer page, the desk's record of it).
@@ -71,17 +72,26 @@ export async function jobApprovals(actor: Actor, jobPublicId: string): Promise<A
   });
 }
 
-export type EvidenceView = { photos: TimelinePhoto[]; others: { kind: "reading" | "clip"; label: string; momentMs: number | null; ref: string }[] };
+export type EvidenceView = {
+  photos: TimelinePhoto[];
+  /** Readings and clip moments; a clip that is still ready comes with what the player needs. */
+  others: { kind: "reading" | "clip"; label: string; momentMs: number | null; ref: string; clip?: TimelineClip | null }[];
+};
 
 /** Evidence photos through the request's own route: the owner may see them even if their entry is shop-only. */
-export function evidenceView(snapshot: RequestSnapshot, dims: Map<string, { width: number; height: number }>): EvidenceView {
+export function evidenceView(snapshot: RequestSnapshot, dims: Map<string, { width: number; height: number }>, clips: EvidenceClip[] = []): EvidenceView {
+  const clipFor = (ref: string): TimelineClip | null => {
+    const c = clips.find((x) => x.id === ref);
+    if (!c?.playbackId) return null;
+    return { id: c.id, status: "ready", durationSeconds: c.durationSeconds, aspectRatio: c.aspectRatio, error: null, ...playbackUrls(c.playbackId) };
+  };
   const url = (photo: string, size: "thumb" | "display") => `/api/approvals/${snapshot.request}/evidence/${photo}/${size}`;
   return {
     photos: snapshot.evidence
       .filter((e) => e.kind === "photo")
       .map((e) => ({ id: e.ref, width: dims.get(e.ref)?.width ?? 640, height: dims.get(e.ref)?.height ?? 480, thumbUrl: url(e.ref, "thumb"), displayUrl: url(e.ref, "display") })),
     others: snapshot.evidence.flatMap((e) =>
-      e.kind === "photo" ? [] : [{ kind: e.kind, ref: e.ref, momentMs: e.momentMs, label: e.label ?? (e.kind === "clip" ? "Clip" : "Reading") }],
+      e.kind === "photo" ? [] : [{ kind: e.kind, ref: e.ref, momentMs: e.momentMs, label: e.label ?? (e.kind === "clip" ? "Clip" : "Reading"), clip: e.kind === "clip" ? clipFor(e.ref) : null }],
     ),
   };
 }
@@ -130,7 +140,7 @@ export async function requestView(actor: Actor, jobPublicId: string | null, requ
     sentAt: request.sentAt,
     openedAt: request.openedAt,
     snapshot: request.snapshot,
-    evidence: evidenceView(request.snapshot, dims),
+    evidence: evidenceView(request.snapshot, dims, choices.clips),
     decision: decisions.get(request.id) ?? null,
     current: latest && latest.publicId !== request.publicId && latest.status !== "withdrawn" ? latest.publicId : null,
     mayAnswer,

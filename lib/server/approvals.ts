@@ -2,6 +2,7 @@ import "server-only";
 import type { Knex } from "knex";
 import { type DecisionRow, getRequestByPublicId, insertDecision, insertRequest, latestRequestOfFinding, listDecisions, lockRequest, markReplaced, markWithdrawn, newRequestPublicId } from "@/db/queries/approvals";
 import { getFinding, getMoneySettings, listEvidenceChoices } from "@/db/queries/findings";
+import { notifyNow } from "@/db/queries/following";
 import { insertEntry, moveJobStatus } from "@/db/queries/journal";
 import { type EvidenceRef, type RequestSnapshot, asSnapshot, buildSnapshot, checkAnswers, decisionTotals, snapshotContent } from "@/lib/approvals";
 import { AppError, type ErrorCode } from "@/lib/errors";
@@ -130,6 +131,8 @@ export async function sendRequest(actor: Actor, jobPublicId: string, findingId: 
         reminderDelayHours: settings.reminderDelayHours,
       });
     }
+    // Followers hear at once that the owner has a decision to make: no title, no prices.
+    await notifyNow(tx, { shopId: job.shopId, jobId: job.id, kind: "approval_request", followersOnly: true, dedupeKey: `approval:${publicId}` });
     return { publicId, hash, mailed: !!to, job };
   });
 }

@@ -1,15 +1,12 @@
 import "server-only";
-import { getBenchSettings, getReading, insertReading, insertTeardownStep, insertTorqueRecord, jobHasPhoto, setStepChecked, setStepReplaced, setStepTorque } from "@/db/queries/bench";
-import { insertEntry } from "@/db/queries/journal";
-import { type ReadingBody, type TorqueBody, findingText } from "@/lib/bench";
+import { getBenchSettings, insertReading, insertTeardownStep, insertTorqueRecord, jobHasPhoto, setStepChecked, setStepReplaced, setStepTorque } from "@/db/queries/bench";
+import type { ReadingBody, TorqueBody } from "@/lib/bench";
 import { chainCheck } from "@/lib/chain-wear";
 import { AppError } from "@/lib/errors";
 import type { Action, Actor } from "@/lib/permissions";
 import { evaluateReading } from "@/lib/readings";
-import { parseNote } from "@/lib/rich-text/note";
 import { formatFixed, roundHalfUp } from "@/lib/rounding";
 import type { ChainReadingInput, ReadingInput, TeardownStepInput, TorqueRecordInput } from "@/lib/schemas/bench";
-import { db } from "@/lib/server/db";
 import { journalAccess } from "@/lib/server/journal";
 import { passSchedule } from "@/lib/tightening-passes";
 import { supportsCrossPattern } from "@/lib/tightening-order";
@@ -97,22 +94,6 @@ export async function recordChainReading(actor: Actor, input: ChainReadingInput)
     chain: { pitchMm: input.pitchMm, pitches: input.pitches, measuredMm: input.measuredMm, limitPct },
   };
   return { ...(await insertReading({ shopId: job.shopId, jobId: job.id, userId: actor.userId, body })), job, check };
-}
-
-/**
- * An out-of-limit reading drafted as a finding. Approval requests don't exist yet, so the draft
- * is a shop-only note quoting the reading; the shop shares or builds on it from the journal.
- */
-export async function draftFinding(actor: Actor, publicId: string, readingId: number) {
-  const job = await benchJob(actor, publicId, "journal:post");
-  const reading = await getReading({ shopId: job.shopId, jobId: job.id, id: readingId });
-  if (!reading) throw new AppError("not_found", "That reading isn't on this job.");
-  if (reading.verdict !== "above" && reading.verdict !== "below") throw new AppError("invalid", "Only a reading outside its limit is drafted as a finding.");
-  const marginText = reading.chain ? null : (evaluateReading(reading).marginText ?? null);
-  const text = findingText({ ...reading, marginText });
-  const doc = parseNote({ type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text }] }] });
-  const id = await insertEntry(db(), { shopId: job.shopId, jobId: job.id, kind: "note", authorId: actor.userId, visibility: "shop", body: doc });
-  return { id, job };
 }
 
 export async function addTeardownStep(actor: Actor, input: TeardownStepInput) {

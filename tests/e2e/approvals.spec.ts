@@ -9,9 +9,10 @@ import { mailBaseUrl } from "./pages/sign-in-page";
 import { CUSTOMERS, storageStatePath } from "./personas";
 
 // Issue 5 end to end on J-0005 (Ruth Calloway's ATV, already waiting on her for the demo's CV axle
-// request: a second request may go out while one is open). Clip moments as evidence are left to
-// the clip work; this covers photos.
+// request: a second request may go out while one is open). The finding starts from a moment of
+// a clip and carries a photo too.
 const FIXTURES = path.join(__dirname, "..", "fixtures", "photos");
+const CLIPS = path.join(__dirname, "..", "fixtures", "clips");
 
 async function sql(query: string, params: unknown[] = []) {
   const db = await mysql.createConnection(process.env.DATABASE_URL!);
@@ -34,7 +35,17 @@ test("technician drafts, writer prices and sends, the owner answers from the e-m
   const job = new JobPage(tech);
   await job.open("/shop/copper-gulch/jobs/5");
   await job.postPhotos([path.join(FIXTURES, "plain.png")], `Pad wear ${id}`);
-  await tech.getByRole("link", { name: "Draft a finding" }).click();
+  // A clip of the pads; once it plays, the technician stops at 0:01 and starts the finding there.
+  await tech.getByRole("tab", { name: "Clip" }).click();
+  await tech.getByLabel("Choose clips").setInputFiles(path.join(CLIPS, "bench-idle.mp4"));
+  const clip = tech.getByRole("article").filter({ hasText: /Processing the clip|Uploading from the bench|Clip, 0:03/ }).first();
+  await expect(clip.getByText("Clip, 0:03")).toBeVisible({ timeout: 60_000 });
+  await clip.scrollIntoViewIfNeeded();
+  const player = clip.locator("mux-player:not([data-mux-player-react-lazy-placeholder])");
+  await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(2.5);
+  await player.evaluate((el) => ((el as HTMLMediaElement).currentTime = 1.4));
+  await clip.getByRole("button", { name: "Finding from this moment" }).click();
+  await expect(tech.getByRole("heading", { level: 1, name: "Draft a finding" })).toBeVisible();
   await tech.getByLabel("Title").fill(title);
   await tech.getByLabel("What you found").fill("Front pads worn to 1 mm on both calipers.");
   await tech.getByLabel("Why it matters").fill("Stopping distance grows and the rotors get scored.");
@@ -94,6 +105,12 @@ test("technician drafts, writer prices and sends, the owner answers from the e-m
   await owner.goto(link!);
   await expect(owner.getByRole("heading", { level: 1, name: title })).toBeVisible();
   await expect(owner.getByRole("list", { name: "Photos of what was found" }).locator("img")).toHaveCount(1);
+  // The clip plays from the marked moment.
+  await expect(owner.getByText(/^Clip at 0:01/)).toBeVisible();
+  const ownerPlayer = owner.locator("mux-player").first();
+  await ownerPlayer.scrollIntoViewIfNeeded();
+  const loaded = owner.locator("mux-player:not([data-mux-player-react-lazy-placeholder])").first();
+  await expect.poll(() => loaded.evaluate((el) => (el as HTMLMediaElement).currentTime), { timeout: 20_000 }).toBeGreaterThanOrEqual(0.9);
   await expect(owner.getByRole("complementary", { name: "Safety caution" })).toBeVisible();
   const { violations } = await new AxeBuilder({ page: owner }).withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa", "wcag22aa"]).analyze();
   expect(violations.map((v) => v.id)).toEqual([]);

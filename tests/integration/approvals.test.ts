@@ -105,6 +105,10 @@ describe("approval requests", () => {
     expect(mails[0].text).toContain("$19.99");
     expect(mails[0].html).toContain(`/my/jobs/${job.publicId}/approvals/${sent.publicId}`);
     expect(mails[0].html).toContain(`/api/approvals/${sent.publicId}/evidence/${photos[0]}/thumb?t=`);
+    // Followers are alerted at once, without the title or prices (the owner has their own mail).
+    const alert = await k("job_alerts").where({ job_id: job.id, dedupe_key: `approval:${sent.publicId}` }).first();
+    expect(alert.kind).toBe("approval_request");
+    expect(JSON.stringify(alert.payload)).not.toMatch(/Front brakes|\$|Minor/);
     const delayMs = new Date(mails[1].next_attempt_at).getTime() - new Date(mails[0].next_attempt_at).getTime();
     expect(Math.abs(delayMs - 24 * 3_600_000)).toBeLessThan(60_000);
     // The e-mail token opens exactly the request's evidence.

@@ -142,9 +142,12 @@ describe("job journal", () => {
     const statusEntries = await k("journal_entries").where({ job_id: jobId, kind: "status" });
     expect(statusEntries).toHaveLength(1);
     expect(statusEntries[0].visibility).toBe("shared");
-    await expect(changeEntry({ shopId: shop.id, jobId, entryId: Number(statusEntries[0].id), userId: tech.userId, mayModerate: true, expectedVersion: 1, change: { caption: "x" } })).rejects.toMatchObject({
-      code: "invalid",
-    });
+    // A status entry is a record: no edit, no hiding, no delete.
+    for (const change of [{ caption: "x" }, { visibility: "shop" as const }, { delete: true as const }]) {
+      await expect(changeEntry({ shopId: shop.id, jobId, entryId: Number(statusEntries[0].id), userId: tech.userId, mayModerate: true, expectedVersion: 1, change })).rejects.toMatchObject({
+        code: "invalid",
+      });
+    }
   });
 });
 

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { ALL_PARTS_IN_NOTE, PARTS_WAIT_NOTE, checklistFromSteps, findingText, partsWaitMove, torqueProof, torqueViews } from "@/lib/bench";
+import { ALL_PARTS_IN_NOTE, PARTS_WAIT_NOTE, checklistFromSteps, partsWaitMove, torqueProof, torqueViews } from "@/lib/bench";
 import { partSchema, passPercentsText, specSchema, torqueRecordSchema } from "@/lib/schemas/bench";
 
 const JOB = "AAAAAAAAAAAAAAAA";
@@ -50,13 +50,6 @@ describe("checklist from stored steps", () => {
     expect(cover!.torque!.passes.map((p) => p.percent)).toEqual([70, 100, 100]);
     // ASME PCC-1 legacy cross pattern for 8 bolts (REFERENCES.md §2).
     expect(cover!.torque!.tighteningOrder).toEqual([1, 5, 3, 7, 2, 6, 4, 8]);
-  });
-});
-
-describe("finding text", () => {
-  it("quotes the reading, its margin, its limit and where the limit came from", () => {
-    const text = findingText({ label: "Rear disc", value: 4.3, unit: "mm", min: 4.5, max: null, source: "manual p. 9-3", marginText: "0.2 mm under the minimum" });
-    expect(text).toBe("Finding to raise with the owner. Rear disc: measured 4.3 mm, 0.2 mm under the minimum. Limit: at least 4.5 mm (manual p. 9-3).");
   });
 });
 

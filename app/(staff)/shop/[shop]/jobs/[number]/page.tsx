@@ -78,6 +78,7 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
         mayModerate={can(actor, "journal:moderate", resource)}
         initial={{ ...timeline, audience: "shop" }}
         clipLimits={await getClipLimits({ shopId: shop.id })}
+        findingsPath={can(actor, "approvals:draft", resource) ? `/shop/${shop.slug}/jobs/${job.number}/findings/new` : null}
         startWith={intake ? "photos" : "note"}
         intakeCaption={intake ? "Condition at check-in" : undefined}
       />

@@ -1,14 +1,17 @@
 "use client";
-import { Eye, History, Lock, Pencil, Trash2 } from "lucide-react";
+import { Eye, FilePenLine, History, Lock, Pencil, Trash2 } from "lucide-react";
+import { useRouter } from "next/navigation";
 import { useState } from "react";
 import useSWR from "swr";
 import { Alert, Button } from "@/components/ui";
 import type { TimelineEntry } from "@/lib/journal";
-import { VISIBILITY_LABEL } from "@/lib/journal";
+import { RECORD_ENTRY_KINDS, VISIBILITY_LABEL } from "@/lib/journal";
 import { jsonFetcher, sendJson } from "@/lib/swr/fetcher";
 
 type Props = {
   jobPublicId: string;
+  /** The finding form's address, when this person may draft findings. */
+  findingsPath: string | null;
   entry: TimelineEntry;
   mayModerate: boolean;
   onChanged: () => void;
@@ -16,13 +19,14 @@ type Props = {
 };
 
 /** Share, edit, delete and history for one entry. Status changes are records: history only. */
-export function EntryControls({ jobPublicId, entry, mayModerate, onChanged, onEdit }: Props) {
+export function EntryControls({ jobPublicId, findingsPath, entry, mayModerate, onChanged, onEdit }: Props) {
+  const router = useRouter();
   const [confirming, setConfirming] = useState(false);
   const [busy, setBusy] = useState<null | "share" | "delete">(null);
   const [error, setError] = useState<string | null>(null);
   const [showHistory, setShowHistory] = useState(false);
   const url = `/api/jobs/${jobPublicId}/entries/${entry.id}`;
-  const mayChange = (entry.mine || mayModerate) && entry.kind !== "status";
+  const mayChange = (entry.mine || mayModerate) && !RECORD_ENTRY_KINDS.includes(entry.kind);
 
   async function run(kind: "share" | "delete", method: "PATCH" | "DELETE", body: unknown) {
     setBusy(kind);
@@ -60,6 +64,20 @@ export function EntryControls({ jobPublicId, entry, mayModerate, onChanged, onEd
         {mayChange && !confirming ? (
           <Button variant="ghost" icon={<Trash2 aria-hidden className="size-5" />} onClick={() => setConfirming(true)}>
             Delete
+          </Button>
+        ) : null}
+        {findingsPath && entry.kind === "clip" && entry.clip?.status === "ready" ? (
+          <Button
+            variant="secondary"
+            icon={<FilePenLine aria-hidden className="size-5" />}
+            onClick={() => {
+              // The moment the player is at now (paused on what was found), in whole seconds.
+              const player = document.querySelector<HTMLMediaElement>(`[data-entry-id="${entry.id}"] mux-player`);
+              const at = Math.floor(player?.currentTime ?? 0);
+              router.push(`${findingsPath}?clip=${encodeURIComponent(entry.clip!.id)}&at=${at}`);
+            }}
+          >
+            Finding from this moment
           </Button>
         ) : null}
         {entry.editedAt || (entry.version ?? 1) > 1 ? (

@@ -23,13 +23,14 @@ type Props = {
   mayModerate: boolean;
   initial: TimelineResponse;
   clipLimits: { maxSeconds: number; maxBytes: number };
+  findingsPath: string | null;
   /** Opens the photo composer first, e.g. straight after check-in for intake photos. */
   startWith?: "note" | "photos" | "clip";
   intakeCaption?: string;
 };
 
 /** The staff side of a job's journal: the composer on top, the timeline under it. */
-export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, mayModerate, initial, clipLimits, startWith = "note", intakeCaption }: Props) {
+export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, mayModerate, initial, clipLimits, findingsPath, startWith = "note", intakeCaption }: Props) {
   const [order, setOrder] = useState<"asc" | "desc">("desc");
   const [tab, setTab] = useState<"note" | "photos" | "clip">(startWith);
   const [editing, setEditing] = useState<number | null>(null);
@@ -42,7 +43,7 @@ export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, may
       entry={entry}
       time={time}
       showVisibility
-      controls={<EntryControls jobPublicId={jobPublicId} entry={entry} mayModerate={mayModerate} onChanged={refresh} onEdit={() => setEditing(entry.id)} />}
+      controls={<EntryControls jobPublicId={jobPublicId} findingsPath={findingsPath} entry={entry} mayModerate={mayModerate} onChanged={refresh} onEdit={() => setEditing(entry.id)} />}
     >
       {editing === entry.id ? (
         <EntryEditor

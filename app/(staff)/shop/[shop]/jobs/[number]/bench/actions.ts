@@ -3,7 +3,6 @@ import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/action";
 import {
   chainReadingSchema,
-  draftFindingSchema,
   partSchema,
   partStatusSchema,
   readingSchema,
@@ -12,7 +11,7 @@ import {
   teardownStepSchema,
   torqueRecordSchema,
 } from "@/lib/schemas/bench";
-import { addTeardownStep, draftFinding, markStepReplaced, recordChainReading, recordReading, recordTorque, setTeardownTorque, tickTeardownStep } from "@/lib/server/bench";
+import { addTeardownStep, markStepReplaced, recordChainReading, recordReading, recordTorque, setTeardownTorque, tickTeardownStep } from "@/lib/server/bench";
 import { addJobPart, changeJobPartStatus } from "@/lib/server/bench-parts";
 
 // The bench page's forms. Each one: zod schema → lib/server/bench (authorises on the job, checks
@@ -47,15 +46,6 @@ export const recordChainAction = formAction({
     const made = await recordChainReading(actor, input);
     refresh(made.job);
     return { id: made.id, verdict: made.check.verdict };
-  },
-});
-
-export const draftFindingAction = formAction({
-  input: draftFindingSchema,
-  run: async ({ input, actor }) => {
-    const made = await draftFinding(actor, input.job, input.reading);
-    refresh(made.job);
-    return { id: made.id };
   },
 });
 

@@ -1,10 +1,9 @@
 import { FilePenLine, Gauge } from "lucide-react";
 import { ReadingVerdictBadge, isOutOfLimit } from "@/components/bench/reading-verdict";
-import { Card, EmptyState } from "@/components/ui";
+import { ButtonLink, Card, EmptyState } from "@/components/ui";
 import type { ReadingRow } from "@/db/queries/bench";
 import { limitText, plainNumber, sentenceCase } from "@/lib/bench";
 import { evaluateReading } from "@/lib/readings";
-import { draftFindingAction } from "../actions";
 import { ChainForm } from "./chain-form";
 import { ActionButton } from "@/components/bench/action-form";
 import { ReadingForm, type LimitSpecOption } from "./reading-form";
@@ -67,11 +66,10 @@ export function ReadingsSection({ jobPublicId, readings, specs, chainLimitPct, t
                     {r.by ?? "Someone"} · {whenText(r.at, timeZone)}
                   </p>
                   {mayRecord && isOutOfLimit(r.verdict) ? (
-                    <ActionButton action={draftFindingAction} fields={{ job: jobPublicId, reading: String(r.id) }} icon={<FilePenLine aria-hidden className="size-5" />}
-                      done="Drafted as a shop-only note in the job's journal. Share it, or build the approval request from it."
-                    >
+                    // Relative to /…/jobs/N/bench: the finding form opens with this reading as its evidence.
+                    <ButtonLink href={`findings/new?reading=${r.id}`} variant="secondary" icon={<FilePenLine aria-hidden className="size-5" />}>
                       Draft a finding
-                    </ActionButton>
+                    </ButtonLink>
                   ) : null}
                 </li>
               );
