@@ -4,7 +4,7 @@ import { z } from "zod";
 
 export const DEFAULT_CLIP_LIMITS = { maxSeconds: 600, maxBytes: 2 * 1024 ** 3 };
 /** Upload chunk size for @mux/upchunk, in KiB (a multiple of 256): small enough to resume cheaply on garage Wi-Fi. */
-export const CLIP_CHUNK_KIB = 5 * 1024;
+export const CLIP_CHUNK_KIB = 1024;
 
 export const newClipSchema = z.object({
   name: z.string().trim().max(255).optional(),
@@ -25,6 +25,23 @@ export const newClipSchema = z.object({
   visibility: z.enum(["shop", "shared"]).default("shop"),
 });
 export type NewClip = z.output<typeof newClipSchema>;
+
+export const newMomentSchema = z.object({
+  atSeconds: z.number({ message: "Say where in the clip." }).nonnegative().max(24 * 3600),
+  label: z.string().trim().min(1, "Say what is seen at that moment.").max(120, "Keep it under 120 characters."),
+});
+
+/**
+ * Where the browser plays a clip from: always our own route, which checks who is asking before
+ * it streams from the video service, so a clip that is (or became) shop-only can't be reached
+ * by the owner through an address they saw once.
+ */
+export function clipMediaUrls(clipPublicId: string): { src: string; poster: string } {
+  const base = `/api/clips/${encodeURIComponent(clipPublicId)}`;
+  return { src: `${base}/video.mp4`, poster: `${base}/poster.jpg` };
+}
+
+export const CLIP_MEDIA_FILES = ["video.mp4", "poster.jpg"] as const;
 
 export function formatDuration(seconds: number): string {
   const total = Math.round(seconds);

@@ -19,7 +19,7 @@ export const FREQUENCY_HINT: Record<Frequency, string> = {
 };
 
 /** Mail that goes out at once to every subscriber, whatever their frequency (invitations go to one person). */
-export const ALERT_KINDS = ["ready", "approval_request", "invitation"] as const;
+export const ALERT_KINDS = ["ready", "approval_request", "invitation", "parts_in"] as const;
 export type AlertKind = (typeof ALERT_KINDS)[number];
 
 /** Enough for family and a riding club; few enough that a job can't become a mailing list. */

@@ -6,7 +6,7 @@ import { JOB_STATUSES } from "@/lib/job-status";
 
 // Bench records (torque, reading, teardown, part) keep their own rows; their entry's body is a
 // snapshot of what was recorded, so the timeline reads them without a query per kind.
-export const ENTRY_KINDS = ["note", "photos", "status", "torque", "reading", "teardown", "part", "clip", "approval"] as const;
+export const ENTRY_KINDS = ["note", "photos", "status", "torque", "reading", "teardown", "part", "clip", "approval", "invoice", "payment"] as const;
 export type EntryKind = (typeof ENTRY_KINDS)[number];
 export type EntryVisibility = "shop" | "shared";
 /**
@@ -32,6 +32,8 @@ export const ENTRY_KIND_LABEL: Record<EntryKind, string> = {
   part: "Parts",
   clip: "Clip",
   approval: "Approval request",
+  invoice: "Invoice",
+  payment: "Payment",
 };
 export const VISIBILITY_LABEL: Record<EntryVisibility, string> = { shop: "Shop only", shared: "Shared with owner" };
 
@@ -46,6 +48,8 @@ export type TimelineClip = {
   src: string | null;
   poster: string | null;
   error: string | null;
+  /** Marked moments, earliest first. */
+  moments?: { atMs: number; label: string }[];
 };
 export type StatusBody = { from: JobStatus | null; to: JobStatus; note: string | null };
 

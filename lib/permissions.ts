@@ -49,8 +49,21 @@ export const PERMISSIONS = {
   "approvals:send": ["owner", "service_writer"],
   "approvals:record-decision": ["owner", "service_writer"],
   "approvals:answer": ["customer"],
+  // Invoices and payments: the desk invoices authorised work, asks for deposits and records
+  // counter payments; technicians see no money; only the shop owner refunds; the machine's owner pays.
+  "invoice:view": ["owner", "service_writer", "customer"],
+  "invoice:create": ["owner", "service_writer"],
+  "invoice:record-payment": ["owner", "service_writer"],
+  "invoice:refund": ["owner"],
+  "invoice:pay": ["customer"],
   "customer:view": ["owner", "service_writer", "technician"],
   "customer:edit": ["owner", "service_writer"],
+  // Public portfolio: the desk proposes collected jobs and curates stories; only the shop owner
+  // publishes; only the machine's owner consents (or refuses, or withdraws).
+  "portfolio:propose": ["owner", "service_writer"],
+  "portfolio:curate": ["owner", "service_writer"],
+  "portfolio:publish": ["owner"],
+  "portfolio:consent": ["customer"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Action = keyof typeof PERMISSIONS;

@@ -12,6 +12,7 @@ const PORT = Number(setting("PORT", "3000"));
 const DB_PORT = Number(setting("BENCHSIDE_DB_PORT", "3307"));
 const MAIL_PORT = Number(setting("MAIL_FAKE_PORT", "4010"));
 const VIDEO_PORT = Number(setting("VIDEO_FAKE_PORT", "4020"));
+const PAYMENTS_PORT = Number(setting("PAYMENTS_FAKE_PORT", "4030"));
 const DIR = path.join(ROOT, ".data", "dev");
 const appUrl = setting("APP_URL", `http://localhost:${PORT}`);
 const DEV = process.argv.includes("--dev");
@@ -37,6 +38,8 @@ async function main() {
   // The same for video: without real credentials the app talks to fakes/video.
   const useVideoFake = !setting("MUX_TOKEN_ID", "") || setting("MUX_BASE_URL", "").includes("127.0.0.1");
   const video = `http://127.0.0.1:${VIDEO_PORT}`;
+  // And for payments: without a real secret key the stripe SDK talks to fakes/payments.
+  const usePaymentsFake = !setting("STRIPE_SECRET_KEY", "") || setting("STRIPE_API_HOST", "").includes("127.0.0.1");
   const env = {
     ...dotEnv,
     NODE_ENV: DEV ? "development" : "production",
@@ -64,6 +67,18 @@ async function main() {
           VIDEO_WEBHOOK_URL: `http://127.0.0.1:${PORT}/api/webhooks/video`,
         }
       : {}),
+    ...(usePaymentsFake
+      ? {
+          STRIPE_SECRET_KEY: secrets.paymentsSecretKey,
+          STRIPE_WEBHOOK_SECRET: secrets.paymentsWebhookSecret,
+          STRIPE_API_HOST: "127.0.0.1",
+          STRIPE_API_PORT: String(PAYMENTS_PORT),
+          STRIPE_API_PROTOCOL: "http",
+          PAYMENTS_FAKE_PORT: String(PAYMENTS_PORT),
+          PAYMENTS_FAKE_DIR: path.join(DIR, "payments"),
+          STRIPE_WEBHOOK_URL: `http://127.0.0.1:${PORT}/api/webhooks/payments`,
+        }
+      : {}),
   };
 
   if ((await runToEnd("node", [bin.tsx, "db/cli.ts", "migrate"], env)) !== 0) throw new SetupError("Database migrations failed; see the error above.");
@@ -82,6 +97,12 @@ async function main() {
     await waitForHttp(`${video}/_fake/health`, { label: "The video fake" });
   }
 
+  if (usePaymentsFake) {
+    await assertPortFree(PAYMENTS_PORT, "the payments fake (PAYMENTS_FAKE_PORT)", "127.0.0.1");
+    run.serve("The payments fake", "node", [bin.tsx, "fakes/payments/server.ts"], env);
+    await waitForHttp(`http://127.0.0.1:${PAYMENTS_PORT}/_fake/health`, { label: "The payments fake" });
+  }
+
   // The mail worker renders and sends what the app queues (scripts/outbox-worker.ts: why it is a
   // process of its own). OUTBOX_WORKER=off when workers run elsewhere; any number may run.
   if (setting("OUTBOX_WORKER", "on") !== "off") run.serve("The mail worker", "node", [bin.tsx, "--tsconfig", "tsconfig.worker.json", "scripts/outbox-worker.ts"], env);
@@ -98,6 +119,7 @@ async function main() {
   console.log(`\n  Benchside is up:  ${appUrl}`);
   if (useMailFake) console.log(`  Mail sent by the app:  http://127.0.0.1:${MAIL_PORT}/`);
   if (useVideoFake) console.log(`  Video service (local fake):  ${video}/_fake/status`);
+  if (usePaymentsFake) console.log(`  Payments (local fake, test cards only):  http://127.0.0.1:${PAYMENTS_PORT}/_fake/status`);
   console.log("  Demo sign-ins are in README.md. Ctrl-C stops everything.\n");
 }
 

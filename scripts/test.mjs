@@ -15,6 +15,7 @@ const DB_PORT = Number(process.env.TEST_DB_PORT ?? 3317);
 const MAIL_PORT = Number(process.env.TEST_MAIL_PORT ?? 4110);
 const APP_PORT = Number(process.env.TEST_APP_PORT ?? 3110);
 const VIDEO_PORT = Number(process.env.TEST_VIDEO_PORT ?? 4120);
+const PAYMENTS_PORT = Number(process.env.TEST_PAYMENTS_PORT ?? 4130);
 const DB_USER = "benchside_test";
 const E2E_DB = "benchside_test_e2e";
 
@@ -58,6 +59,8 @@ async function main() {
     fs.rmSync(path.join(DIR, "uploads"), { recursive: true, force: true });
     fs.rmSync(path.join(DIR, "video"), { recursive: true, force: true });
     await assertPortFree(VIDEO_PORT, "the test video fake (TEST_VIDEO_PORT)", "127.0.0.1");
+    fs.rmSync(path.join(DIR, "payments"), { recursive: true, force: true });
+    await assertPortFree(PAYMENTS_PORT, "the test payments fake (TEST_PAYMENTS_PORT)", "127.0.0.1");
     adminSql(DIR, `DROP DATABASE IF EXISTS \`${E2E_DB}\`; CREATE DATABASE \`${E2E_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`);
     const env = {
       NODE_ENV: "production",
@@ -81,6 +84,14 @@ async function main() {
       VIDEO_FAKE_PORT: String(VIDEO_PORT),
       VIDEO_FAKE_DIR: path.join(DIR, "video"),
       VIDEO_WEBHOOK_URL: `http://127.0.0.1:${APP_PORT}/api/webhooks/video`,
+      STRIPE_SECRET_KEY: secrets.paymentsSecretKey,
+      STRIPE_WEBHOOK_SECRET: secrets.paymentsWebhookSecret,
+      STRIPE_API_HOST: "127.0.0.1",
+      STRIPE_API_PORT: String(PAYMENTS_PORT),
+      STRIPE_API_PROTOCOL: "http",
+      PAYMENTS_FAKE_PORT: String(PAYMENTS_PORT),
+      PAYMENTS_FAKE_DIR: path.join(DIR, "payments"),
+      STRIPE_WEBHOOK_URL: `http://127.0.0.1:${APP_PORT}/api/webhooks/payments`,
       // Every browser in the run comes from 127.0.0.1: the per-IP limits would be reached by the
       // suite itself. The per-address limits stay as shipped.
       SIGN_IN_LINKS_PER_IP: "1000",
@@ -95,11 +106,13 @@ async function main() {
     } else {
       testRun.serve("The test mail fake", "node", [bin.tsx, "fakes/mail/server.ts"], env);
       testRun.serve("The video fake", "node", [bin.tsx, "fakes/video/server.ts"], env);
+      testRun.serve("The payments fake", "node", [bin.tsx, "fakes/payments/server.ts"], env);
       testRun.serve("The app under test", "node", [bin.next, "start", "-p", String(APP_PORT)], env);
       // Polls often so mail reaches the test mail fake within a second of being queued.
       testRun.serve("The mail worker", "node", [bin.tsx, "--tsconfig", "tsconfig.worker.json", "scripts/outbox-worker.ts"], { ...env, OUTBOX_POLL_MS: "300" });
       await waitForHttp(`http://127.0.0.1:${MAIL_PORT}/`, { label: "The mail fake" });
       await waitForHttp(`http://127.0.0.1:${VIDEO_PORT}/_fake/health`, { label: "The video fake" });
+      await waitForHttp(`http://127.0.0.1:${PAYMENTS_PORT}/_fake/health`, { label: "The payments fake" });
       await waitForHttp(`http://127.0.0.1:${APP_PORT}/api/health`, { label: "The app under test" });
       if ((await run("node", [bin.playwright, "test", ...files], env)) !== 0) failures.push("e2e");
     }

@@ -16,6 +16,8 @@ export function useBenchForm<T>(action: Action<T>, { onSuccess }: { onSuccess?: 
     return result;
   }, null);
   const error = state && !state.ok ? state.error : null;
+  // React resets the form after each action; a select takes its defaultValue only when it mounts,
+  // so forms key their selects on these values to bring a choice back after an error.
   const values = state && !state.ok ? state.values : undefined;
   return {
     state,

@@ -1,6 +1,8 @@
 "use client";
+import type MuxPlayerElement from "@mux/mux-player";
 import MuxPlayer from "@mux/mux-player-react/lazy";
-import { CircleAlert, LoaderCircle } from "lucide-react";
+import { CircleAlert, LoaderCircle, MapPin } from "lucide-react";
+import { useRef, useState } from "react";
 import { formatDuration } from "@/lib/clips";
 import type { TimelineClip } from "@/lib/journal";
 
@@ -10,11 +12,24 @@ import type { TimelineClip } from "@/lib/journal";
  * poster-sized placeholder holds its place.
  */
 export function ClipPlayer({ clip, title, startTime }: { clip: TimelineClip; title: string; startTime?: number }) {
+  const player = useRef<MuxPlayerElement | null>(null);
+  const [start, setStart] = useState(startTime);
+  /** A moment opens the clip at its second: seek the loaded player, or start the lazy one there. */
+  const openAt = (ms: number) => {
+    const el = player.current;
+    if (el) {
+      el.currentTime = ms / 1000;
+      void el.play()?.catch(() => undefined);
+    } else {
+      setStart(ms / 1000);
+    }
+  };
   if (clip.status === "ready" && clip.src) {
     const [w, h] = (clip.aspectRatio ?? "16:9").split(":").map(Number);
     return (
       <figure className="space-y-1">
         <MuxPlayer
+          ref={player}
           loading="viewport"
           src={clip.src}
           poster={clip.poster ?? undefined}
@@ -23,11 +38,30 @@ export function ClipPlayer({ clip, title, startTime }: { clip: TimelineClip; tit
           disableCookies
           preload="metadata"
           title={title}
-          startTime={startTime}
+          startTime={start}
           accentColor="rgb(var(--oil))"
           style={{ aspectRatio: `${w || 16} / ${h || 9}`, width: "100%", borderRadius: "0.5rem", overflow: "hidden" }}
         />
         {clip.durationSeconds != null ? <figcaption className="text-sm text-ink-muted">Clip, {formatDuration(clip.durationSeconds)}</figcaption> : null}
+        {clip.moments?.length ? (
+          <ol aria-label="Moments in this clip" className="flex flex-wrap gap-2">
+            {clip.moments.map((m) => (
+              <li key={`${m.atMs}-${m.label}`}>
+                <a
+                  href={`#clip-${clip.id}-${Math.floor(m.atMs / 1000)}`}
+                  onClick={(e) => {
+                    e.preventDefault();
+                    openAt(m.atMs);
+                  }}
+                  className="inline-flex min-h-tap items-center gap-1.5 rounded-full border border-dusk/30 bg-dusk-soft px-3 text-sm font-semibold text-dusk"
+                >
+                  <MapPin aria-hidden className="size-4" />
+                  {formatDuration(m.atMs / 1000)} {m.label}
+                </a>
+              </li>
+            ))}
+          </ol>
+        ) : null}
       </figure>
     );
   }

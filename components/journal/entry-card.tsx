@@ -10,6 +10,7 @@ import { ClipPlayer } from "./clip-player";
 import { BenchEntryBody, isBenchEntry } from "./bench-entry-body";
 import { PhotoGrid } from "./photo-grid";
 import { ApprovalEntryBody } from "@/components/approvals/approval-entry-body";
+import { MoneyEntryBody } from "@/components/invoices/money-entry-body";
 
 export function VisibilityBadge({ visibility }: { visibility: TimelineEntry["visibility"] }) {
   return visibility === "shared" ? (
@@ -94,5 +95,6 @@ function EntryBody({ entry }: { entry: TimelineEntry }) {
   }
   if (isBenchEntry(entry)) return <BenchEntryBody entry={entry} />;
   if (entry.kind === "approval") return <ApprovalEntryBody body={entry.body} />;
+  if (entry.kind === "invoice" || entry.kind === "payment") return <MoneyEntryBody entry={entry} />;
   return null;
 }

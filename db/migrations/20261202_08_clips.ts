@@ -30,7 +30,21 @@ export async function up(knex: Knex): Promise<void> {
     t.timestamp("updated_at", { precision: 3 }).notNullable().defaultTo(knex.fn.now(3));
     t.foreign(["shop_id", "job_id"]).references(["shop_id", "id"]).inTable("jobs").onDelete("CASCADE");
     t.foreign(["shop_id", "entry_id"]).references(["shop_id", "id"]).inTable("journal_entries").onDelete("CASCADE");
+    t.unique(["shop_id", "id"]);
     t.index(["entry_id"]);
+  });
+
+  // Moments staff mark in a clip ("slider wear here" at 0:42): links that open it at that second.
+  await knex.schema.createTable("clip_moments", (t) => {
+    t.bigIncrements("id").unsigned().primary();
+    t.integer("shop_id").unsigned().notNullable();
+    t.bigInteger("clip_id").unsigned().notNullable();
+    t.integer("at_ms").unsigned().notNullable();
+    t.string("label", 120).notNullable();
+    t.integer("created_by_user_id").unsigned().nullable().references("users.id").onDelete("SET NULL");
+    t.timestamp("created_at", { precision: 3 }).notNullable().defaultTo(knex.fn.now(3));
+    t.foreign(["shop_id", "clip_id"]).references(["shop_id", "id"]).inTable("clips").onDelete("CASCADE");
+    t.index(["clip_id", "at_ms"]);
   });
 
   await knex.schema.createTable("video_webhook_events", (t) => {
@@ -42,6 +56,7 @@ export async function up(knex: Knex): Promise<void> {
 
 export async function down(knex: Knex): Promise<void> {
   await knex.schema.dropTable("video_webhook_events");
+  await knex.schema.dropTable("clip_moments");
   await knex.schema.dropTable("clips");
   await knex.schema.alterTable("shops", (t) => {
     t.dropColumn("clip_max_bytes");

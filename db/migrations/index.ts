@@ -7,6 +7,8 @@ import * as bench from "./20261202_05_bench";
 import * as outboxFollowing from "./20261202_06_outbox_following";
 import * as approvals from "./20261202_07_approvals";
 import * as clips from "./20261202_08_clips";
+import * as invoices from "./20261202_09_invoices";
+import * as portfolio from "./20261202_10_portfolio";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -21,6 +23,8 @@ const MIGRATIONS: Migration[] = [
   { name: "20261202_06_outbox_following", module: outboxFollowing },
   { name: "20261202_07_approvals", module: approvals },
   { name: "20261202_08_clips", module: clips },
+  { name: "20261202_09_invoices", module: invoices },
+  { name: "20261202_10_portfolio", module: portfolio },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

@@ -41,7 +41,9 @@ async function settleJob(tx: Knex.Transaction, p: JobKey & { userId: number; par
   const row = (await tx("job_parts").where({ shop_id: p.shopId, job_id: p.jobId }).whereIn("status", OUTSTANDING_PART_STATUSES).count({ n: "*" }).first()) as Raw | undefined;
   const move = partsWaitMove({ jobStatus: p.status, partTo: p.partTo, outstandingAfter: Number(row?.n ?? 0) });
   if (!move) return null;
-  const moved = await moveJobStatus({ tx, shopId: p.shopId, jobId: p.jobId, from: move.from, to: move.to, userId: p.userId, note: move.note });
+  // When the wait is over, the owner (and followers) hear at once, not in the next digest.
+  const alert = move.from === "waiting_parts" ? ("parts_in" as const) : undefined;
+  const moved = await moveJobStatus({ tx, shopId: p.shopId, jobId: p.jobId, from: move.from, to: move.to, userId: p.userId, note: move.note, alert });
   return moved ? move.to : null;
 }
 

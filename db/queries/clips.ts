@@ -1,8 +1,9 @@
 import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/lib/server/db";
+import { AppError } from "@/lib/errors";
+import { clipMediaUrls } from "@/lib/clips";
 import type { ClipStatus, EntryVisibility, TimelineClip } from "@/lib/journal";
-import { playbackUrls } from "@/lib/server/video";
 import { insertEntry, newPhotoPublicId } from "./journal";
 
 type Raw = Record<string, unknown>;
@@ -54,10 +55,24 @@ export async function clipsForEntries(k: Knex, shopId: number, entryIds: number[
   const rows = (await k("clips")
     .where("shop_id", shopId)
     .whereIn("entry_id", entryIds)
-    .select("entry_id", "public_id", "status", "duration_seconds", "aspect_ratio", "playback_id", "error")) as Raw[];
+    .select("id", "entry_id", "public_id", "status", "duration_seconds", "aspect_ratio", "playback_id", "error")) as Raw[];
+  // The moments of all these clips in one more query.
+  const moments = new Map<number, { atMs: number; label: string }[]>();
+  if (rows.length) {
+    const marked = (await k("clip_moments")
+      .where("shop_id", shopId)
+      .whereIn("clip_id", rows.map((r) => Number(r.id)))
+      .orderBy(["clip_id", "at_ms", "id"])
+      .select("clip_id", "at_ms", "label")) as Raw[];
+    for (const m of marked) {
+      const list = moments.get(Number(m.clip_id)) ?? [];
+      list.push({ atMs: Number(m.at_ms), label: String(m.label) });
+      moments.set(Number(m.clip_id), list);
+    }
+  }
   for (const r of rows) {
     const status = r.status as ClipStatus;
-    const urls = status === "ready" && r.playback_id ? playbackUrls(String(r.playback_id)) : null;
+    const urls = status === "ready" && r.playback_id ? clipMediaUrls(String(r.public_id)) : null;
     out.set(Number(r.entry_id), {
       id: String(r.public_id),
       status,
@@ -66,9 +81,52 @@ export async function clipsForEntries(k: Knex, shopId: number, entryIds: number[
       src: urls?.src ?? null,
       poster: urls?.poster ?? null,
       error: (r.error as string | null) ?? null,
+      moments: moments.get(Number(r.id)) ?? [],
     });
   }
   return out;
+}
+
+/** Marks a moment in a ready clip of this job; the label says what is seen there. */
+export async function addClipMoment(p: { shopId: number; jobId: number; clipPublicId: string; atMs: number; label: string; userId: number }) {
+  const clip = (await db()("clips").where({ shop_id: p.shopId, job_id: p.jobId, public_id: p.clipPublicId }).first("id", "status", "duration_seconds")) as Raw | undefined;
+  if (!clip) throw new AppError("not_found", "No such clip on this job.");
+  if (clip.status !== "ready") throw new AppError("invalid", "Moments can be marked once the clip is ready.");
+  if (clip.duration_seconds != null && p.atMs > Number(clip.duration_seconds) * 1000 + 500) throw new AppError("invalid", "That moment is past the end of the clip.", { atSeconds: ["Past the end of the clip."] });
+  const [id] = await db()("clip_moments").insert({ shop_id: p.shopId, clip_id: clip.id, at_ms: p.atMs, label: p.label, created_by_user_id: p.userId });
+  return { id: Number(id) };
+}
+
+/** Stops a clip playing (its entry was deleted); returns what the video service must forget. */
+export async function markClipDeleted({ shopId, entryId }: { shopId: number; entryId: number }) {
+  const row = (await db()("clips").where({ shop_id: shopId, entry_id: entryId }).first("id", "public_id", "asset_id", "upload_id")) as Raw | undefined;
+  if (!row) return null;
+  await db()("clips").where({ id: row.id }).update({ status: "deleted", playback_id: null, updated_at: db().fn.now(3) });
+  return { publicId: String(row.public_id), assetId: (row.asset_id as string | null) ?? null, uploadId: String(row.upload_id) };
+}
+
+/** What the media route needs to decide who may watch a clip. */
+export async function getClipAccess({ publicId }: { publicId: string }) {
+  const row = (await db()("clips as v")
+    .join("jobs as j", "j.id", "v.job_id")
+    .join("customers as c", "c.id", "j.customer_id")
+    .join("journal_entries as e", "e.id", "v.entry_id")
+    .where("v.public_id", publicId)
+    .first("v.shop_id", "v.job_id", "v.status", "v.playback_id", "c.user_id as customer_user_id", "e.visibility", "e.deleted_at")) as Raw | undefined;
+  if (!row) return null;
+  // A clip quoted as evidence in a request sent to the owner is theirs to watch, shared or not.
+  const quoted = await db()("finding_evidence as fe")
+    .join("approval_requests as r", "r.finding_id", "fe.finding_id")
+    .where({ "fe.shop_id": row.shop_id, "fe.kind": "clip", "fe.ref": publicId })
+    .first("r.id");
+  return {
+    shopId: Number(row.shop_id),
+    jobId: Number(row.job_id),
+    customerUserId: row.customer_user_id == null ? null : Number(row.customer_user_id),
+    playbackId: row.status === "ready" && row.playback_id ? String(row.playback_id) : null,
+    sharedWithOwner: row.visibility === "shared" && row.deleted_at == null,
+    quotedInRequest: !!quoted,
+  };
 }
 
 export type VideoEvent = {

@@ -49,8 +49,16 @@ export async function subscribeOwner(tx: Knex, s: { shopId: number; jobId: numbe
  * are left to their own module's alert (notifyNow); "ready to collect" goes out at once; every
  * other entry waits for the digest window. Sharing the same entry again queues nothing new.
  */
-export async function recordSharedEntry(k: Knex, e: { shopId: number; jobId: number; entryId: number; kind: string; body?: unknown }): Promise<void> {
+export async function recordSharedEntry(
+  k: Knex,
+  e: { shopId: number; jobId: number; entryId: number; kind: string; body?: unknown; alert?: "parts_in" },
+): Promise<void> {
   if (MONEY_ENTRY_KINDS.includes(e.kind)) return;
+  // An entry that is news of its own (the last part arrived) goes out at once, not in a digest.
+  if (e.alert) {
+    await notifyNow(k, { shopId: e.shopId, jobId: e.jobId, kind: e.alert, dedupeKey: `${e.alert}:${e.entryId}` });
+    return;
+  }
   const to = (e.body as { to?: unknown } | null | undefined)?.to;
   if (e.kind === "status" && to === "ready") {
     await notifyNow(k, { shopId: e.shopId, jobId: e.jobId, kind: "ready", dedupeKey: `ready:${e.entryId}` });

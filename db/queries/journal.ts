@@ -102,7 +102,17 @@ function toPhoto(p: Raw): TimelinePhoto {
 
 export async function insertEntry(
   k: Knex,
-  e: { shopId: number; jobId: number; kind: EntryKind; authorId: number | null; visibility?: EntryVisibility; body?: unknown; caption?: string | null },
+  e: {
+    shopId: number;
+    jobId: number;
+    kind: EntryKind;
+    authorId: number | null;
+    visibility?: EntryVisibility;
+    body?: unknown;
+    caption?: string | null;
+    /** Mail subscribers about it at once instead of in the next digest. */
+    alert?: "parts_in";
+  },
 ): Promise<number> {
   const visibility = e.visibility ?? "shop";
   const [id] = await k("journal_entries").insert({
@@ -117,7 +127,7 @@ export async function insertEntry(
   });
   await k("jobs").where({ id: e.jobId, shop_id: e.shopId }).update({ updated_at: k.fn.now() });
   // Followers hear of it (batched) in the same transaction as the entry.
-  if (visibility === "shared") await recordSharedEntry(k, { shopId: e.shopId, jobId: e.jobId, entryId: Number(id), kind: e.kind, body: e.body });
+  if (visibility === "shared") await recordSharedEntry(k, { shopId: e.shopId, jobId: e.jobId, entryId: Number(id), kind: e.kind, body: e.body, alert: e.alert });
   return Number(id);
 }
 
@@ -281,13 +291,22 @@ export async function listEntryRevisions({ shopId, entryId }: { shopId: number; 
  * one move), records it in the status history and as a shared timeline entry, in one transaction
  * (the caller's `tx` when given, so a move can commit together with what caused it).
  */
-export async function moveJobStatus(p: { shopId: number; jobId: number; from: JobStatus; to: JobStatus; userId: number; note: string | null; tx?: Knex.Transaction }): Promise<boolean> {
+export async function moveJobStatus(p: {
+  shopId: number;
+  jobId: number;
+  from: JobStatus;
+  to: JobStatus;
+  userId: number;
+  note: string | null;
+  tx?: Knex.Transaction;
+  alert?: "parts_in";
+}): Promise<boolean> {
   const run = async (tx: Knex.Transaction) => {
     const moved = await tx("jobs").where({ id: p.jobId, shop_id: p.shopId, status: p.from }).update({ status: p.to, updated_at: tx.fn.now() });
     if (moved !== 1) return false;
     await tx("job_status_changes").insert({ shop_id: p.shopId, job_id: p.jobId, from_status: p.from, to_status: p.to, changed_by_user_id: p.userId, note: p.note });
     // The owner sees the status on their page anyway, so its entry is shared from the start.
-    await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "status", authorId: p.userId, visibility: "shared", body: { from: p.from, to: p.to, note: p.note } });
+    await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "status", authorId: p.userId, visibility: "shared", body: { from: p.from, to: p.to, note: p.note }, alert: p.alert });
     return true;
   };
   return p.tx ? run(p.tx) : db().transaction(run);

@@ -4,6 +4,7 @@ import { type EvidenceClip, getMoneySettings, listEvidenceChoices, listFindings 
 import { getShopBySlug } from "@/db/queries/shops";
 import { type ApprovalsOverview, buildOverview } from "@/lib/approvals-overview";
 import type { RequestSnapshot, RequestStatus } from "@/lib/approvals";
+import { clipMediaUrls } from "@/lib/clips";
 import { AppError } from "@/lib/errors";
 import type { TimelineClip, TimelinePhoto } from "@/lib/journal";
 import { describeMachine } from "@/lib/machine";
@@ -11,7 +12,6 @@ import { type Actor, can } from "@/lib/permissions";
 import { requestAccess } from "@/lib/server/approvals";
 import { db } from "@/lib/server/db";
 import { journalAccess } from "@/lib/server/journal";
-import { playbackUrls } from "@/lib/server/video";
 
 // Read models for the approval screens: the staff panel's overview of a job, and one request as
 // its reader sees it (the owner's answer page, the desk's record of it).
@@ -83,7 +83,7 @@ export function evidenceView(snapshot: RequestSnapshot, dims: Map<string, { widt
   const clipFor = (ref: string): TimelineClip | null => {
     const c = clips.find((x) => x.id === ref);
     if (!c?.playbackId) return null;
-    return { id: c.id, status: "ready", durationSeconds: c.durationSeconds, aspectRatio: c.aspectRatio, error: null, ...playbackUrls(c.playbackId) };
+    return { id: c.id, status: "ready", durationSeconds: c.durationSeconds, aspectRatio: c.aspectRatio, error: null, ...clipMediaUrls(c.id) };
   };
   const url = (photo: string, size: "thumb" | "display") => `/api/approvals/${snapshot.request}/evidence/${photo}/${size}`;
   return {

@@ -1,4 +1,5 @@
 import "server-only";
+import { markClipDeleted } from "@/db/queries/clips";
 import { getJobByPublicId } from "@/db/queries/jobs";
 import { changeEntry, createPhotoEntry, insertEntry, insertPendingPhoto, listTimeline, moveJobStatus } from "@/db/queries/journal";
 import { AppError } from "@/lib/errors";
@@ -10,6 +11,7 @@ import { authorize } from "@/lib/server/authorize";
 import { audienceFor, jobResource } from "@/lib/server/following";
 import { db } from "@/lib/server/db";
 import { deletePhotoRenditions, processPhoto, storePhotoRenditions } from "@/lib/server/photos";
+import { cancelDirectUpload, mux } from "@/lib/server/video";
 
 export function entryIdParam(raw: string): number {
   if (!/^[1-9]\d{0,15}$/.test(raw)) throw new AppError("not_found", "No such entry.");
@@ -65,7 +67,7 @@ export async function editEntry(
 ) {
   const { job, mayModerate } = await journalAccess(actor, publicId, "journal:post");
   const body = input.note === undefined ? undefined : parseNote(input.note);
-  return changeEntry({
+  const result = await changeEntry({
     shopId: job.shopId,
     jobId: job.id,
     entryId,
@@ -74,6 +76,24 @@ export async function editEntry(
     expectedVersion: input.version,
     change: { body, caption: input.caption, visibility: input.visibility, delete: input.delete },
   });
+  if (input.delete) await removeClipMedia({ shopId: job.shopId, entryId });
+  return result;
+}
+
+/**
+ * A deleted clip entry takes its video with it: the asset is deleted at the video service (or
+ * the unfinished upload cancelled) and the clip stops playing at once. The entry's record stays.
+ */
+async function removeClipMedia({ shopId, entryId }: { shopId: number; entryId: number }) {
+  const clip = await markClipDeleted({ shopId, entryId });
+  if (!clip) return;
+  try {
+    if (clip.assetId) await mux().video.assets.delete(clip.assetId);
+    else await cancelDirectUpload(clip.uploadId);
+  } catch (error) {
+    // The clip no longer plays here either way; the service's copy is logged for follow-up.
+    console.error(`clip ${clip.publicId}: deleting its video at the service failed`, error);
+  }
 }
 
 /** One uploaded file: checked, stripped and resized, stored, then recorded as a pending photo. */

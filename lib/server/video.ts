@@ -21,14 +21,15 @@ export function mux(): Mux {
 }
 
 /**
- * Where a ready clip plays from and its poster. The hosted service serves HLS and thumbnails
- * on its own domains; the local fake serves an MP4 and a JPEG on loopback. `{id}` is the
- * playback id.
+ * Where the app fetches a ready clip and its poster from, to stream them on to people allowed
+ * to watch (app/api/clips). The hosted service serves an MP4 rendition (asked for at upload)
+ * and thumbnails on its own domains; the local fake serves an MP4 and a JPEG on loopback.
+ * `{id}` is the playback id.
  */
 export function playbackUrls(playbackId: string): { src: string; poster: string } {
   const fill = (template: string) => template.replaceAll("{id}", encodeURIComponent(playbackId));
   return {
-    src: fill(process.env.VIDEO_PLAYBACK_URL ?? "https://stream.mux.com/{id}.m3u8"),
+    src: fill(process.env.VIDEO_PLAYBACK_URL ?? "https://stream.mux.com/{id}/highest.mp4"),
     poster: fill(process.env.VIDEO_POSTER_URL ?? "https://image.mux.com/{id}/thumbnail.jpg"),
   };
 }
@@ -38,7 +39,8 @@ export async function createDirectUpload({ corsOrigin, passthrough }: { corsOrig
   try {
     const upload = await mux().video.uploads.create({
       cors_origin: corsOrigin,
-      new_asset_settings: { playback_policies: ["public"], passthrough },
+      // An MP4 rendition, so the app can stream a clip on to whoever may watch it (app/api/clips).
+      new_asset_settings: { playback_policies: ["public"], passthrough, static_renditions: [{ resolution: "highest" }] },
     });
     if (!upload.url) throw new Error("upload without url");
     return { id: upload.id, url: upload.url };
@@ -53,4 +55,24 @@ export async function cancelDirectUpload(uploadId: string): Promise<void> {
   await mux()
     .video.uploads.cancel(uploadId)
     .catch(() => undefined);
+}
+
+// Headers passed on from the video service, so seeking (range requests) works.
+const PASSED_HEADERS = ["content-type", "content-length", "content-range", "accept-ranges", "last-modified", "etag"];
+
+/**
+ * Streams a ready clip's video or poster from the video service to a reader the caller has
+ * already allowed, passing the Range header through. `cacheControl` is the caller's choice.
+ */
+export async function streamClipMedia(playbackId: string, file: "video.mp4" | "poster.jpg", req: Request, cacheControl: string): Promise<Response> {
+  const urls = playbackUrls(playbackId);
+  const range = req.headers.get("range");
+  const upstream = await fetch(file === "poster.jpg" ? urls.poster : urls.src, { headers: range ? { range } : {}, signal: req.signal }).catch(() => null);
+  if (!upstream || (!upstream.ok && upstream.status !== 416)) throw new AppError("unavailable", "The video service didn't answer; try again in a moment.");
+  const headers = new Headers({ "cache-control": cacheControl, "x-content-type-options": "nosniff" });
+  for (const name of PASSED_HEADERS) {
+    const value = upstream.headers.get(name);
+    if (value) headers.set(name, value);
+  }
+  return new Response(upstream.body, { status: upstream.status, headers });
 }

@@ -85,6 +85,9 @@ export function loadSecrets(dir) {
     dbPassword: () => crypto.randomBytes(18).toString("base64url"),
     videoTokenSecret: () => crypto.randomBytes(18).toString("base64url"),
     videoWebhookSecret: () => crypto.randomBytes(24).toString("base64url"),
+    // Shaped like the hosted service's test keys; the payments fake accepts only sk_test_ keys.
+    paymentsSecretKey: () => `sk_test_${crypto.randomBytes(18).toString("hex")}`,
+    paymentsWebhookSecret: () => `whsec_${crypto.randomBytes(24).toString("hex")}`,
   };
   // A folder made before a secret existed gets just the missing ones; the others stay as they were.
   const missing = Object.keys(wanted).filter((key) => !known[key]);

@@ -41,6 +41,9 @@ const STAFF_OF_THE_SHOP: Record<Visitor, Outcome> = {
   otherCustomer: "403",
 };
 
+const EVERYONE_IN = Object.fromEntries(VISITORS.map((v) => [v, "in"])) as Record<Visitor, Outcome>;
+const EVERYONE_404 = Object.fromEntries(VISITORS.map((v) => [v, "404"])) as Record<Visitor, Outcome>;
+
 const TARGETS: { name: string; kind: "page" | "api"; path: () => string; expect: Record<Visitor, Outcome> }[] = [
   {
     name: "shop job board",
@@ -117,12 +120,40 @@ const TARGETS: { name: string; kind: "page" | "api"; path: () => string; expect:
     path: () => `/api/jobs/${customerJobPath.split("/").pop()}/timeline`,
     expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "404", jobCustomer: "in", otherCustomer: "404" },
   },
+  // Invoices (issue 9): the desk and the shop owner; the job's customer on their own page; technicians see no money.
+  { name: "staff invoice page", kind: "page", path: () => "/shop/copper-gulch/jobs/5/invoice", expect: { ...STAFF_OF_THE_SHOP, technician: "403" } },
+  {
+    name: "owner's invoice page",
+    kind: "page",
+    path: () => `${customerJobPath}/invoice`,
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "403", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
+  },
+  {
+    name: "job invoice API",
+    kind: "api",
+    path: () => `/api/jobs/${customerJobPath.split("/").pop()}/invoice`,
+    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "403", otherShopTechnician: "404", jobCustomer: "in", otherCustomer: "404" },
+  },
   {
     name: "staff home",
     kind: "page",
     path: () => "/shop",
     expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "in", jobCustomer: "403", otherCustomer: "403" },
   },
+  // Public portfolio (issue 8): the desk curates, the shop owner edits the profile, only the
+  // machine's owner answers; the public pages and files are for everyone.
+  { name: "shop portfolio page", kind: "page", path: () => "/shop/copper-gulch/portfolio", expect: { ...STAFF_OF_THE_SHOP, technician: "403" } },
+  { name: "shop profile editor", kind: "page", path: () => "/shop/copper-gulch/portfolio/profile", expect: { ...STAFF_OF_THE_SHOP, writer: "403", technician: "403" } },
+  {
+    name: "owner's portfolio consent page",
+    kind: "page",
+    path: () => `${customerJobPath}/portfolio`,
+    expect: { anonymous: "sign-in", owner: "403", writer: "403", technician: "403", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
+  },
+  { name: "shop's public page", kind: "page", path: () => "/s/copper-gulch", expect: EVERYONE_IN },
+  { name: "unknown public story API", kind: "api", path: () => "/api/public/stories/copper-gulch/no-such-story", expect: EVERYONE_404 },
+  { name: "sitemap", kind: "api", path: () => "/sitemap.xml", expect: EVERYONE_IN },
+  { name: "robots.txt", kind: "api", path: () => "/robots.txt", expect: EVERYONE_IN },
 ];
 
 async function apiStatus(request: APIRequestContext, path: string) {

@@ -24,6 +24,9 @@ const SCREENS: { name: string; path: string; as?: Persona }[] = [
   { name: "finding with a request out", path: "/shop/copper-gulch/jobs/5/findings/1", as: "writer" },
   { name: "owner's machines", path: "/my", as: "jobCustomer" },
   { name: "shop outbox", path: "/shop/copper-gulch/outbox", as: "writer" },
+  { name: "shop's public page", path: "/s/copper-gulch" },
+  { name: "portfolio list", path: "/shop/copper-gulch/portfolio", as: "writer" },
+  { name: "shop profile editor", path: "/shop/copper-gulch/portfolio/profile", as: "owner" },
 ];
 
 for (const colorScheme of ["light", "dark"] as const) {

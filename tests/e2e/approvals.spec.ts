@@ -2,7 +2,7 @@ import crypto from "node:crypto";
 import path from "node:path";
 import AxeBuilder from "@axe-core/playwright";
 import { expect, request, test } from "@playwright/test";
-import mysql from "mysql2/promise";
+import { sql } from "./db";
 import { waitForMail } from "../support/mailbox";
 import { JobPage } from "./pages/job-page";
 import { mailBaseUrl } from "./pages/sign-in-page";
@@ -13,16 +13,6 @@ import { CUSTOMERS, storageStatePath } from "./personas";
 // a clip and carries a photo too.
 const FIXTURES = path.join(__dirname, "..", "fixtures", "photos");
 const CLIPS = path.join(__dirname, "..", "fixtures", "clips");
-
-async function sql(query: string, params: unknown[] = []) {
-  const db = await mysql.createConnection(process.env.DATABASE_URL!);
-  try {
-    const [rows] = await db.query<mysql.RowDataPacket[]>(query, params);
-    return rows;
-  } finally {
-    await db.end();
-  }
-}
 
 test("technician drafts, writer prices and sends, the owner answers from the e-mail; staff see the new authorised total; the record's hash is the request's", async ({ browser }) => {
   test.setTimeout(180_000);

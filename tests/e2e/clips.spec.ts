@@ -1,39 +1,83 @@
+import { execFileSync } from "node:child_process";
+import fs from "node:fs";
+import os from "node:os";
 import path from "node:path";
 import { expect, test } from "@playwright/test";
-import mysql from "mysql2/promise";
+import { publicIdOf, sql } from "./db";
 import { JobPage } from "./pages/job-page";
 import { storageStatePath } from "./personas";
 
 const CLIPS = path.join(__dirname, "..", "fixtures", "clips");
 test.use({ storageState: storageStatePath("technician") });
 
-async function sql(query: string, params: unknown[] = []) {
-  const db = await mysql.createConnection(process.env.DATABASE_URL!);
-  try {
-    await db.query(query, params);
-  } finally {
-    await db.end();
-  }
-}
+test("a clip goes up in 1 MB chunks through a failed chunk, turns playable by itself, gets a moment, and plays for the owner", async ({ browser }) => {
+  test.setTimeout(150_000);
+  // A 4-second clip of a few MB, made now with ffmpeg from Debian (test pattern and a tone).
+  const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "bench-clip-")), "pads.mp4");
+  execFileSync("ffmpeg", ["-v", "error", "-y", "-f", "lavfi", "-i", "testsrc2=duration=4:size=640x480:rate=25", "-f", "lavfi", "-i", "sine=frequency=330:duration=4", "-c:v", "libx264", "-preset", "ultrafast", "-b:v", "6M", "-minrate", "6M", "-maxrate", "6M", "-bufsize", "1M", "-x264-params", "nal-hrd=cbr", "-pix_fmt", "yuv420p", "-c:a", "aac", "-shortest", file]);
+  expect(fs.statSync(file).size).toBeGreaterThan(2 * 1024 * 1024);
+  // The video service fails the next chunk once: the upload must retry it and carry on.
+  const fake = process.env.MUX_BASE_URL!;
+  expect((await fetch(`${fake}/_fake/fail-chunks`, { method: "POST", headers: { "content-type": "application/json" }, body: JSON.stringify({ count: 1, status: 503 }) })).ok).toBe(true);
 
-test("a clip goes up in chunks, shows at once as processing and turns playable by itself", async ({ page }) => {
-  test.setTimeout(90_000);
+  const staff = await browser.newContext({ storageState: storageStatePath("technician") });
+  const page = await staff.newPage();
   const bench = new JobPage(page);
-  await bench.open("/shop/copper-gulch/jobs/3");
+  await bench.open("/shop/copper-gulch/jobs/5");
   await page.getByRole("tab", { name: "Clip" }).click();
-  await page.getByLabel("Choose clips").setInputFiles(path.join(CLIPS, "bench-idle.mp4"));
+  await page.getByLabel("Share new clips with the owner").check();
+  await page.getByLabel("Choose clips").setInputFiles(file);
   const queued = page.getByRole("list", { name: "Clips on their way" });
-  await expect(queued.getByText(/Sent\. It shows in the journal/)).toBeVisible({ timeout: 30_000 });
+  await expect(queued.getByText(/Sent\. It shows in the journal/)).toBeVisible({ timeout: 60_000 });
+  await expect(queued.getByRole("progressbar")).toHaveAttribute("value", "1");
+  // The failure was used up on this upload (and retried past).
+  expect((await (await fetch(`${fake}/_fake/status`)).json()).pending_chunk_failures).toBe(0);
 
-  // The newest entry is the clip; it becomes ready without a reload, with its length.
-  const clip = page.getByRole("article").filter({ hasText: /Processing the clip|Uploading from the bench|Clip, 0:03/ }).first();
-  await expect(clip).toBeVisible();
-  await expect(clip.getByText("Clip, 0:03")).toBeVisible({ timeout: 45_000 });
-  // The player loads when the clip comes into view, then plays the fake's rendition.
+  // The newest clip entry becomes ready without a reload, with its length; the player loads in view.
+  const clip = page.getByRole("article").filter({ hasText: /Processing the clip|Uploading from the bench|Clip, 0:04/ }).first();
+  await expect(clip.getByText("Clip, 0:04")).toBeVisible({ timeout: 60_000 });
   await clip.scrollIntoViewIfNeeded();
   const player = clip.locator("mux-player:not([data-mux-player-react-lazy-placeholder])");
-  await expect(player).toHaveAttribute("src", /\/media\/[^/]+\/video\.mp4$/, { timeout: 20_000 });
-  await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(2.5);
+  await expect(player).toHaveAttribute("src", /^\/api\/clips\/[^/]+\/video\.mp4$/, { timeout: 20_000 });
+  await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(3.5);
+
+  // Mark a moment at 0:02.
+  await player.evaluate((el) => ((el as HTMLMediaElement).currentTime = 2.2));
+  await clip.getByPlaceholder(/What is seen here/).fill("pad edge");
+  await clip.getByRole("button", { name: "Mark this moment" }).click();
+  await expect(clip.getByRole("list", { name: "Moments in this clip" })).toContainText("0:02 pad edge");
+  const src = (await player.getAttribute("src"))!;
+
+  // The owner opens the job on a phone: the clip plays (time moves) and the moment opens it at 0:02.
+  const ownerContext = await browser.newContext({ storageState: storageStatePath("jobCustomer"), viewport: { width: 390, height: 844 } });
+  const owner = await ownerContext.newPage();
+  await owner.goto(`/my/jobs/${await publicIdOf(5)}`);
+  const shared = owner.getByRole("article").filter({ hasText: "Clip, 0:04" }).first();
+  await shared.scrollIntoViewIfNeeded();
+  const ownerPlayer = shared.locator("mux-player:not([data-mux-player-react-lazy-placeholder])");
+  await expect.poll(() => ownerPlayer.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(3.5);
+  await ownerPlayer.evaluate(async (el) => {
+    const media = el as HTMLMediaElement;
+    media.muted = true;
+    await media.play();
+  });
+  await expect.poll(() => ownerPlayer.evaluate((el) => (el as HTMLMediaElement).currentTime), { timeout: 15_000 }).toBeGreaterThan(0.5);
+  await ownerPlayer.evaluate((el) => (el as HTMLMediaElement).pause());
+  await shared.getByRole("link", { name: /0:02 pad edge/ }).click();
+  await expect.poll(() => ownerPlayer.evaluate((el) => (el as HTMLMediaElement).currentTime), { timeout: 10_000 }).toBeGreaterThanOrEqual(2);
+
+  // Made shop-only again, the clip is out of the owner's reach even at the address they saw.
+  expect((await owner.request.get(src)).status()).toBe(200);
+  await clip.getByRole("button", { name: "Make shop only" }).click();
+  await expect(clip.getByText("Shop only")).toBeVisible();
+  expect((await owner.request.get(src)).status()).toBe(404);
+
+  // Deleting the entry removes the video at the service too.
+  await bench.deleteEntry(clip);
+  await expect.poll(async () => JSON.stringify(await (await fetch(`${fake}/_fake/webhooks?type=video.asset.deleted`)).json()), { timeout: 20_000 }).toContain("video.asset.deleted");
+  expect((await page.request.get(src)).status()).toBe(404);
+  await ownerContext.close();
+  await staff.close();
 });
 
 test("a file that isn't a video ends as a clip that couldn't be processed, with the reason", async ({ page }) => {
@@ -62,12 +106,3 @@ test("a clip longer than the shop allows is refused with a clear message before 
   }
 });
 
-async function publicIdOf(number: number): Promise<string> {
-  const db = await mysql.createConnection(process.env.DATABASE_URL!);
-  try {
-    const [rows] = await db.query<mysql.RowDataPacket[]>("SELECT j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = ?", [number]);
-    return String(rows[0]!.public_id);
-  } finally {
-    await db.end();
-  }
-}

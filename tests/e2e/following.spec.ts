@@ -1,5 +1,5 @@
 import { request as apiRequest, expect, test } from "@playwright/test";
-import mysql from "mysql2/promise";
+import { sql } from "./db";
 import { listMail, waitForMail } from "../support/mailbox";
 import { JobPage } from "./pages/job-page";
 import { mailBaseUrl } from "./pages/sign-in-page";
@@ -12,16 +12,6 @@ const id = Date.now().toString(36);
 const followerEmail = `dale.calloway.${id}@mail.test`;
 let jobPath = "";
 let jobDbId = 0;
-
-async function sql(query: string, params: unknown[] = []) {
-  const db = await mysql.createConnection(process.env.DATABASE_URL!);
-  try {
-    const [rows] = await db.query<mysql.RowDataPacket[]>(query, params);
-    return rows;
-  } finally {
-    await db.end();
-  }
-}
 
 test.beforeAll(async () => {
   const [job] = await sql("SELECT j.id, j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5");

@@ -3,7 +3,7 @@ import path from "node:path";
 import AxeBuilder from "@axe-core/playwright";
 import { type Page, expect, test } from "@playwright/test";
 import exifr from "exifr";
-import mysql from "mysql2/promise";
+import { sql } from "./db";
 import { CheckInForm } from "./pages/check-in-form";
 import { JobPage } from "./pages/job-page";
 import { SignInPage } from "./pages/sign-in-page";
@@ -14,16 +14,6 @@ const publicIds = new Map<string, string>();
 const stamp = () => Date.now().toString(36);
 // A new owner per run, whose job is removed afterwards so the board counts other tests expect hold.
 const ownerEmail = `noor.ashby.${stamp()}@mail.test`;
-
-async function sql(query: string, params: unknown[] = []) {
-  const db = await mysql.createConnection(process.env.DATABASE_URL!);
-  try {
-    const [rows] = await db.query<mysql.RowDataPacket[]>(query, params);
-    return rows;
-  } finally {
-    await db.end();
-  }
-}
 
 test.beforeAll(async () => {
   for (const r of await sql("SELECT s.slug, j.number, j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id")) publicIds.set(`${r.slug}/${r.number}`, String(r.public_id));

@@ -122,6 +122,10 @@ describe("bench tools", () => {
     expect(shared).toHaveLength(1);
     expect(shared[0].kind).toBe("status");
     expect(JSON.stringify(shared[0].body)).toContain(ALL_PARTS_IN_NOTE);
+    // The owner is told at once: one "parts in" alert for the mail sweep, and not a digest item too.
+    const alerts = await k("job_alerts").where({ job_id: job.id, kind: "parts_in" });
+    expect(alerts).toHaveLength(1);
+    expect(await k("job_update_queue").where({ entry_id: shared[0].id })).toHaveLength(0);
     // Part entries stay shop-only and never carry cost or supplier.
     const partEntries = (await entries(job.id)).filter((e) => e.kind === "part");
     expect(partEntries).toHaveLength(6);

@@ -76,7 +76,8 @@ describe("video webhooks", () => {
     });
     expect(await receiveVideoWebhook(ready, sign(ready))).toEqual({ applied: true });
     const readyClip = await clip();
-    expect(readyClip).toMatchObject({ status: "ready", durationSeconds: 12.5, aspectRatio: "16:9", src: "http://127.0.0.1:1/media/pb123/video.mp4" });
+    // Played through the app's own route, which checks who is asking (never the service's address).
+    expect(readyClip).toMatchObject({ status: "ready", durationSeconds: 12.5, aspectRatio: "16:9", src: `/api/clips/${readyClip?.id}/video.mp4` });
 
     // The same asset_created again (a retry after a lost answer): still ready, nothing moves back.
     expect(await receiveVideoWebhook(created, sign(created))).toEqual({ applied: false });

@@ -15,6 +15,7 @@ import { db } from "@/lib/server/db";
 import { inviteFollowerAs, setOwnFrequency } from "@/lib/server/following";
 import { changeJobStatus, postEntry, readTimeline } from "@/lib/server/journal";
 import { runOutboxOnce } from "@/lib/server/outbox-worker";
+import { addJobPart, changeJobPartStatus } from "@/lib/server/bench-parts";
 import { sweepNotifications } from "@/lib/server/notify-sweep";
 import { mailThumbToken, unsubscribeToken } from "@/lib/server/signed-token";
 import { freshDatabase } from "../support/db";
@@ -208,5 +209,18 @@ describe("following a job", () => {
     expect(digest?.text).toContain("Chain adjusted");
     expect(digest?.text).toContain("Tyres at 18 psi");
     expect((await deliver(minutes(26 * 60))).daily).toBe(0);
+  });
+  it("the last part arriving tells the owner at once, in one e-mail, not again in the digest", async () => {
+    // Back on the bench after "ready" above (a comeback before pick-up), then waiting on a part.
+    await changeJobStatus(tech, publicId, { from: "ready", to: "in_progress", note: null });
+    await deliver(minutes(16));
+    const part = await addJobPart(tech, { job: publicId, description: "Clutch cable", partNumber: null, supplier: null, qty: "1", cost: "12.00", status: "ordered", expectedOn: null });
+    expect(part.jobMovedTo).toBe("waiting_parts");
+    await deliver(minutes(16));
+    await changeJobPartStatus(tech, { job: publicId, part: part.id, from: "ordered", to: "received", expectedOn: null });
+    expect((await deliver()).alerts).toBeGreaterThan(0);
+    expect(await mailTo(OWNER, "Parts are in")).toHaveLength(1);
+    await deliver(minutes(40));
+    expect(await mailTo(OWNER, "Parts are in")).toHaveLength(1);
   });
 });

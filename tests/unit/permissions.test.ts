@@ -27,8 +27,17 @@ const EXPECTED: Record<Action, Record<Exclude<Role, "follower">, boolean>> = {
   "approvals:send": { owner: true, service_writer: true, technician: false, customer: false },
   "approvals:record-decision": { owner: true, service_writer: true, technician: false, customer: false },
   "approvals:answer": { owner: false, service_writer: false, technician: false, customer: true },
+  "invoice:view": { owner: true, service_writer: true, technician: false, customer: true },
+  "invoice:create": { owner: true, service_writer: true, technician: false, customer: false },
+  "invoice:record-payment": { owner: true, service_writer: true, technician: false, customer: false },
+  "invoice:refund": { owner: true, service_writer: false, technician: false, customer: false },
+  "invoice:pay": { owner: false, service_writer: false, technician: false, customer: true },
   "customer:view": { owner: true, service_writer: true, technician: true, customer: false },
   "customer:edit": { owner: true, service_writer: true, technician: false, customer: false },
+  "portfolio:propose": { owner: true, service_writer: true, technician: false, customer: false },
+  "portfolio:curate": { owner: true, service_writer: true, technician: false, customer: false },
+  "portfolio:publish": { owner: true, service_writer: false, technician: false, customer: false },
+  "portfolio:consent": { owner: false, service_writer: false, technician: false, customer: true },
 };
 // A follower (DESIGN.md §1) watches progress: no prices, no decisions, nothing else.
 const FOLLOWER_MAY: Action[] = ["job:view", "job:follow"];

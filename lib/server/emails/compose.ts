@@ -72,7 +72,7 @@ export function composeProgress(job: MailJob, r: Recipient, views: MailEntryView
   return { subject, element, headers: unsubscribeHeaders(links.unsubscribeUrl) };
 }
 
-/** "Ready to collect" and approval requests, at once; the follower's approval mail says only that the owner was asked. */
+/** "Ready to collect", approval requests and parts arriving, at once; the follower's approval mail says only that the owner was asked. */
 export function composeAlert(job: MailJob, r: Recipient, kind: string, payload: Record<string, unknown> | null, extra: { inviterName?: string | null }): Composed | null {
   const links = jobLinks(job, r);
   const machine = describeMachine(job.machine);
@@ -99,6 +99,10 @@ export function composeAlert(job: MailJob, r: Recipient, kind: string, payload: 
       heading = `${capital(machineFor(job, r))} is waiting on the owner`;
       lines = [`${shop} has asked ${job.customerName} to approve added work. The job page shows how it goes on.`];
     }
+  } else if (kind === "parts_in") {
+    subject = `Parts are in: ${machine}`;
+    heading = "The parts have arrived";
+    lines = [`Every part ${shop} was waiting for on ${machineFor(job, r)} has arrived, and the work goes on.`];
   } else if (kind === "invitation") {
     const who = extra.inviterName ?? job.customerName;
     subject = `${who} invited you to follow the ${machine} at ${shop}`;

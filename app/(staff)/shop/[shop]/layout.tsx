@@ -13,6 +13,7 @@ export default async function ShopLayout({ children, params }: { children: React
     { href: base, label: "Jobs" },
     ...(can(actor, "job:check-in", here) ? [{ href: `${base}/jobs/new`, label: "Check in" }] : []),
     { href: `${base}/specs`, label: "Shop specs" },
+    ...(can(actor, "portfolio:curate", here) ? [{ href: `${base}/portfolio`, label: "Portfolio" }] : []),
     ...(can(actor, "outbox:manage", here) ? [{ href: `${base}/outbox`, label: "Outgoing mail" }] : []),
   ];
   return (

@@ -15,6 +15,8 @@ import { FollowingCard } from "./_components/following-card";
 import { audienceFor, jobResource } from "@/lib/server/following";
 import { getReassemblyProgress } from "@/db/queries/bench";
 import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
+import { OwnerInvoiceCard } from "@/components/invoices/owner-invoice-card";
+import { PortfolioConsentNotice } from "./portfolio/_components/consent-notice";
 
 export const metadata: Metadata = { title: "Your job" };
 
@@ -42,6 +44,8 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
         back={{ href: "/my", label: "My machines" }}
       />
       <OwedDecisions actor={actor} job={job} />
+      <OwnerInvoiceCard actor={actor} job={job} resource={resource} />
+      <PortfolioConsentNotice actor={actor} job={job} resource={resource} />
       <Card as="section" title="Where it stands" headingId="where-it-stands">
         <div className="space-y-2">
           <StatusBadge status={job.status} />

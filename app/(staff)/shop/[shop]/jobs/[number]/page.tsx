@@ -13,6 +13,7 @@ import { authorizePage } from "@/lib/server/authorize";
 import { shopPageAccess } from "../../shop-access";
 import { ApprovalsPanel } from "./_components/approvals-panel";
 import { JobJournal } from "./_components/job-journal";
+import { PortfolioJobCard } from "../../portfolio/_components/job-card";
 
 type Props = { params: Promise<{ shop: string; number: string }>; searchParams: Promise<{ intake?: string }> };
 
@@ -40,7 +41,7 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
         title={`${formatJobNumber(job.number)} · ${describeMachine(job.machine)}`}
         description={`${MACHINE_KIND_LABEL[job.machine.kind]} · owner ${job.customerName}`}
         back={{ href: `/shop/${shop.slug}`, label: "All jobs" }}
-        actions={<ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/bench`} variant="secondary">Bench tools</ButtonLink>}
+        actions={<><ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/bench`} variant="secondary">Bench tools</ButtonLink>{can(actor, "invoice:view", resource) ? <ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/invoice`} variant="secondary">Invoice</ButtonLink> : null}</>}
       />
       <div className="grid gap-4 md:grid-cols-2">
         <Card as="section" title="Where it stands" headingId="job-facts">
@@ -83,6 +84,7 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
         intakeCaption={intake ? "Condition at check-in" : undefined}
       />
       <FollowersCard shopId={shop.id} jobId={job.id} />
+      <PortfolioJobCard actor={actor} shop={shop} job={job} />
     </div>
   );
 }

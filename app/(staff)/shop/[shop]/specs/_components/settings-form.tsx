@@ -15,7 +15,7 @@ export function SettingsForm({ shopSlug, settings }: { shopSlug: string; setting
       <FormError message={form.formError} />
       <div className="grid gap-3 sm:grid-cols-3">
         <Field id="settings-unit" label="Torque unit shown first" error={fieldError("torqueUnit")}>
-          <Select name="torqueUnit" defaultValue={values?.torqueUnit ?? settings.torqueUnit}>
+          <Select name="torqueUnit" key={`unit-${values?.torqueUnit ?? ""}`} defaultValue={values?.torqueUnit ?? settings.torqueUnit}>
             {TORQUE_UNITS.map((u) => (
               <option key={u.id} value={u.id}>
                 {u.label} ({u.name})

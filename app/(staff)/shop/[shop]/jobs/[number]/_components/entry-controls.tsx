@@ -7,6 +7,7 @@ import { Alert, Button } from "@/components/ui";
 import type { TimelineEntry } from "@/lib/journal";
 import { RECORD_ENTRY_KINDS, VISIBILITY_LABEL } from "@/lib/journal";
 import { jsonFetcher, sendJson } from "@/lib/swr/fetcher";
+import { MomentMarker, playerTime } from "./moment-marker";
 
 type Props = {
   jobPublicId: string;
@@ -72,8 +73,7 @@ export function EntryControls({ jobPublicId, findingsPath, entry, mayModerate, o
             icon={<FilePenLine aria-hidden className="size-5" />}
             onClick={() => {
               // The moment the player is at now (paused on what was found), in whole seconds.
-              const player = document.querySelector<HTMLMediaElement>(`[data-entry-id="${entry.id}"] mux-player`);
-              const at = Math.floor(player?.currentTime ?? 0);
+              const at = Math.floor(playerTime(entry.id));
               router.push(`${findingsPath}?clip=${encodeURIComponent(entry.clip!.id)}&at=${at}`);
             }}
           >
@@ -86,6 +86,7 @@ export function EntryControls({ jobPublicId, findingsPath, entry, mayModerate, o
           </Button>
         ) : null}
       </div>
+      {entry.kind === "clip" && entry.clip?.status === "ready" ? <MomentMarker jobPublicId={jobPublicId} entryId={entry.id} clipId={entry.clip.id} onMarked={onChanged} /> : null}
       {confirming ? (
         <div role="group" aria-label="Confirm delete" className="flex flex-wrap items-center gap-2 rounded-lg bg-rust-soft p-3">
           <span className="flex-1 font-semibold text-ink">

@@ -29,7 +29,7 @@ export function PartForm({ jobPublicId, currency }: { jobPublicId: string; curre
           <Input name="cost" inputMode="decimal" autoComplete="off" defaultValue={values?.cost} maxLength={16} />
         </Field>
         <Field id="part-status" label="Status" error={fieldError("status")}>
-          <Select name="status" defaultValue={values?.status ?? "needed"}>
+          <Select name="status" key={`status-${values?.status ?? ""}`} defaultValue={values?.status ?? "needed"}>
             {PART_STATUSES.map((s) => (
               <option key={s} value={s}>
                 {PART_STATUS_LABEL[s]}

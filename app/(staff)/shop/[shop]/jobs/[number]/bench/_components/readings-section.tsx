@@ -5,7 +5,6 @@ import type { ReadingRow } from "@/db/queries/bench";
 import { limitText, plainNumber, sentenceCase } from "@/lib/bench";
 import { evaluateReading } from "@/lib/readings";
 import { ChainForm } from "./chain-form";
-import { ActionButton } from "@/components/bench/action-form";
 import { ReadingForm, type LimitSpecOption } from "./reading-form";
 import { whenText } from "./when";
 

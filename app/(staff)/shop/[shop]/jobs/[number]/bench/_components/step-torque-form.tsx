@@ -21,7 +21,7 @@ export function StepTorqueForm({ jobPublicId, stepId, current, shopUnit }: { job
           <Input name="torqueValue" inputMode="decimal" autoComplete="off" defaultValue={values?.torqueValue ?? (current ? String(current.value) : "")} maxLength={12} />
         </Field>
         <Field id={id("unit")} label="Unit" error={fieldError("torqueUnit")}>
-          <Select name="torqueUnit" defaultValue={values?.torqueUnit ?? current?.unit ?? shopUnit}>
+          <Select name="torqueUnit" key={`unit-${values?.torqueUnit ?? ""}`} defaultValue={values?.torqueUnit ?? current?.unit ?? shopUnit}>
             {TORQUE_UNITS.map((u) => (
               <option key={u.id} value={u.id}>
                 {u.label}

@@ -30,7 +30,7 @@ export function TeardownForm({ jobPublicId, nextSeq, photos }: { jobPublicId: st
       </Field>
       {photos.length ? (
         <Field id="step-photo" label="Photo (optional)" hint="One of the photos posted on this job" error={fieldError("photo")}>
-          <Select name="photo" defaultValue={values?.photo ?? ""}>
+          <Select name="photo" key={`photo-${values?.photo ?? ""}`} defaultValue={values?.photo ?? ""}>
             <option value="">No photo</option>
             {photos.map((p, i) => (
               <option key={p.id} value={p.id}>

@@ -1,0 +1,110 @@
+import { BoltPattern } from "@/components/bench/bolt-pattern";
+import { TorqueValue } from "@/components/bench/torque-value";
+import { ClipPlayer } from "@/components/journal/clip-player";
+import { PhotoGrid } from "@/components/journal/photo-grid";
+import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
+import { NoteView } from "@/components/rich-text/note-view";
+import { Caution } from "@/components/ui";
+import { sentenceCase } from "@/lib/bench";
+import { CAUTIONS } from "@/lib/cautions";
+import type { PublicStory, PublicStoryItem } from "@/lib/portfolio";
+import { crossPatternOrder } from "@/lib/tightening-order";
+
+// One published story as the public reads it, phone first: title, machine, cover, write-up, then
+// the curated items in order. Everything comes from a PublicStory (lib/portfolio.ts), which holds
+// nothing private; this component only lays it out. Clips load lazily (ClipPlayer); photos open
+// in the viewer.
+
+export function StoryView({ story }: { story: PublicStory }) {
+  const published = new Intl.DateTimeFormat("en-US", { year: "numeric", month: "long", day: "numeric", timeZone: "UTC" }).format(new Date(story.publishedAt));
+  return (
+    <article aria-labelledby="story-title" className="space-y-6">
+      <header className="space-y-2">
+        <p className="text-sm font-semibold uppercase tracking-wide text-oil">{story.machine.kindLabel}</p>
+        <h1 id="story-title" className="text-3xl font-extrabold leading-tight text-ink sm:text-4xl">
+          {story.title}
+        </h1>
+        <p className="text-ink-muted">
+          {story.machine.label} · worked on at {story.shop.name} · published <time dateTime={story.publishedAt}>{published}</time>
+        </p>
+      </header>
+      {story.cover ? (
+        <figure>
+          {/* Served by the story's own public photo route, so next/image's optimiser is not used. */}
+          {/* eslint-disable-next-line @next/next/no-img-element */}
+          <img
+            src={story.cover.displayUrl}
+            alt={`${story.machine.label}, the machine in this story`}
+            width={story.cover.width}
+            height={story.cover.height}
+            className="h-auto w-full rounded-xl border border-line bg-sunken object-cover"
+          />
+        </figure>
+      ) : null}
+      {story.writeUp ? <NoteView doc={story.writeUp} headingLevel={2} className="max-w-prose text-lg" /> : null}
+      {story.items.length ? (
+        <ol className="space-y-6" aria-label="From the bench">
+          {story.items.map((item, i) => (
+            <li key={i}>
+              <StoryItem item={item} index={i} machine={story.machine.label} />
+            </li>
+          ))}
+        </ol>
+      ) : null}
+      <p className="border-t border-line pt-4 text-sm text-ink-muted">Shown with the machine owner&apos;s consent. Names, serial numbers and prices are never published.</p>
+    </article>
+  );
+}
+
+function Caption({ text }: { text: string | null }) {
+  return text ? <p className="whitespace-pre-line text-ink">{text}</p> : null;
+}
+
+function StoryItem({ item, index, machine }: { item: PublicStoryItem; index: number; machine: string }) {
+  const box = "space-y-3 rounded-xl border border-line bg-surface p-4 shadow-sm";
+  switch (item.kind) {
+    case "photos":
+      return (
+        <section className={box} aria-label={`Photos, part ${index + 1}`}>
+          <Caption text={item.caption} />
+          <PhotoGrid photos={item.photos} label={item.caption ? `Photos: ${item.caption}` : `Photos of the ${machine}`} />
+        </section>
+      );
+    case "photo":
+      return (
+        <section className={box} aria-label={`Photo, part ${index + 1}`}>
+          <Caption text={item.caption} />
+          <PhotoGrid photos={[item.photo]} label={item.caption ? `Photo: ${item.caption}` : `Photo of the ${machine}`} />
+        </section>
+      );
+    case "clip":
+      return (
+        <section className={box} aria-label={`Clip, part ${index + 1}`}>
+          <Caption text={item.caption} />
+          <ClipPlayer clip={item.clip} title={item.caption ?? `Clip from the bench: ${machine}`} startTime={item.startSeconds ?? undefined} />
+        </section>
+      );
+    case "torque": {
+      const t = item.torque;
+      return (
+        <section className={box} aria-label={`Torque record, part ${index + 1}`}>
+          <h2 className="text-lg font-bold text-ink">Torque record: {t.fastener}</h2>
+          <Caption text={item.caption} />
+          <TorqueValue value={t.specValue} unit={t.unit} displayUnit={t.displayUnit} />
+          <p>{sentenceCase(t.proof)}.</p>
+          {t.pattern === "cross" && t.boltCount ? <BoltPattern count={t.boltCount} order={crossPatternOrder(t.boltCount)} size={200} /> : null}
+          <Caution title="A record of this job, not instructions">
+            Values are for this machine as the shop recorded them. {CAUTIONS.torque.text}
+          </Caution>
+        </section>
+      );
+    }
+    case "checklist":
+      return (
+        <div className="space-y-2">
+          <Caption text={item.caption} />
+          <ReassemblyProgress {...item.progress} headingId={`reassembly-${index}`} />
+        </div>
+      );
+  }
+}

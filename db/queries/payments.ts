@@ -1,0 +1,252 @@
+import "server-only";
+import crypto from "node:crypto";
+import type { Knex } from "knex";
+import type { PaymentKind, PaymentMethod } from "@/lib/invoices";
+import type { MachineKind } from "@/lib/machine";
+import { db } from "@/lib/server/db";
+
+// Payments, refunds, parts deposits, online checkouts and the webhook events already applied. The
+// provider's ids are unique keys, so whichever of the webhook and the API answer arrives second
+// finds its payment or refund already recorded.
+
+type Raw = Record<string, unknown>;
+type JobKey = { shopId: number; jobId: number };
+const num = (v: unknown) => (v == null ? null : Number(v));
+const iso = (v: unknown) => (v == null ? null : (v as Date).toISOString());
+const isDuplicateKey = (error: unknown) => (error as { code?: string } | null)?.code === "ER_DUP_ENTRY";
+
+export type PaymentRow = {
+  id: number;
+  kind: PaymentKind;
+  method: PaymentMethod;
+  amountMinor: number;
+  currency: string;
+  reference: string | null;
+  invoiceId: number | null;
+  depositId: number | null;
+  providerPaymentId: string | null;
+  providerRefundId: string | null;
+  refundOfPaymentId: number | null;
+  recordedBy: string | null;
+  receivedAt: string;
+};
+
+export async function listJobPayments({ shopId, jobId }: JobKey, k: Knex = db()): Promise<PaymentRow[]> {
+  const rows = (await k("payments as p")
+    .leftJoin("users as u", "u.id", "p.recorded_by_user_id")
+    .where({ "p.shop_id": shopId, "p.job_id": jobId })
+    .orderBy(["p.received_at", "p.id"])
+    .select("p.*", "u.name as recorded_by_name")) as Raw[];
+  return rows.map((r) => ({
+    id: Number(r.id),
+    kind: r.kind as PaymentKind,
+    method: r.method as PaymentMethod,
+    amountMinor: Number(r.amount_minor),
+    currency: String(r.currency),
+    reference: (r.reference as string | null) ?? null,
+    invoiceId: num(r.invoice_id),
+    depositId: num(r.deposit_id),
+    providerPaymentId: (r.provider_payment_id as string | null) ?? null,
+    providerRefundId: (r.provider_refund_id as string | null) ?? null,
+    refundOfPaymentId: num(r.refund_of_payment_id),
+    recordedBy: (r.recorded_by_name as string | null) ?? null,
+    receivedAt: iso(r.received_at)!,
+  }));
+}
+
+export type NewPayment = JobKey & {
+  kind: PaymentKind;
+  method: PaymentMethod;
+  amountMinor: number;
+  currency: string;
+  reference?: string | null;
+  invoiceId?: number | null;
+  depositId?: number | null;
+  providerPaymentId?: string | null;
+  providerRefundId?: string | null;
+  providerSessionId?: string | null;
+  refundOfPaymentId?: number | null;
+  userId?: number | null;
+};
+
+/** The new row's id, or null when the provider's id is already recorded (a repeat report). */
+export async function insertPayment(k: Knex, p: NewPayment): Promise<number | null> {
+  try {
+    const [id] = await k("payments").insert({
+      shop_id: p.shopId,
+      job_id: p.jobId,
+      kind: p.kind,
+      method: p.method,
+      amount_minor: p.amountMinor,
+      currency: p.currency,
+      reference: p.reference ?? null,
+      invoice_id: p.invoiceId ?? null,
+      deposit_id: p.depositId ?? null,
+      provider_payment_id: p.providerPaymentId ?? null,
+      provider_refund_id: p.providerRefundId ?? null,
+      provider_session_id: p.providerSessionId ?? null,
+      refund_of_payment_id: p.refundOfPaymentId ?? null,
+      recorded_by_user_id: p.userId ?? null,
+    });
+    return Number(id);
+  } catch (error) {
+    // A duplicate key fails only this statement; the caller's transaction goes on.
+    if ((p.providerPaymentId || p.providerRefundId) && isDuplicateKey(error)) return null;
+    throw error;
+  }
+}
+
+export async function getPaymentByProviderId(k: Knex, providerPaymentId: string): Promise<{ id: number; shopId: number; jobId: number; invoiceId: number | null; amountMinor: number; currency: string } | null> {
+  const r = (await k("payments").where({ provider_payment_id: providerPaymentId }).first("id", "shop_id", "job_id", "invoice_id", "amount_minor", "currency")) as Raw | undefined;
+  return r ? { id: Number(r.id), shopId: Number(r.shop_id), jobId: Number(r.job_id), invoiceId: num(r.invoice_id), amountMinor: Number(r.amount_minor), currency: String(r.currency) } : null;
+}
+
+// ---- parts deposits ------------------------------------------------------------------------------
+
+export type DepositRow = {
+  id: number;
+  publicId: string;
+  shopId: number;
+  jobId: number;
+  requestPublicId: string | null;
+  amountMinor: number;
+  currency: string;
+  note: string | null;
+  status: "open" | "paid" | "cancelled";
+  requestedBy: string | null;
+  requestedAt: string;
+  paidAt: string | null;
+};
+
+function toDeposit(r: Raw): DepositRow {
+  return {
+    id: Number(r.id),
+    publicId: String(r.public_id),
+    shopId: Number(r.shop_id),
+    jobId: Number(r.job_id),
+    requestPublicId: (r.request_public_id as string | null) ?? null,
+    amountMinor: Number(r.amount_minor),
+    currency: String(r.currency),
+    note: (r.note as string | null) ?? null,
+    status: r.status as DepositRow["status"],
+    requestedBy: (r.requested_by_name as string | null) ?? null,
+    requestedAt: iso(r.requested_at)!,
+    paidAt: iso(r.paid_at),
+  };
+}
+
+const deposits = (k: Knex) => k("deposit_requests as d").leftJoin("users as u", "u.id", "d.requested_by_user_id");
+
+export async function insertDeposit(tx: Knex, d: JobKey & { amountMinor: number; currency: string; note: string | null; requestPublicId: string | null; userId: number }): Promise<DepositRow> {
+  const publicId = crypto.randomBytes(12).toString("base64url");
+  await tx("deposit_requests").insert({
+    public_id: publicId,
+    shop_id: d.shopId,
+    job_id: d.jobId,
+    request_public_id: d.requestPublicId,
+    amount_minor: d.amountMinor,
+    currency: d.currency,
+    note: d.note,
+    requested_by_user_id: d.userId,
+  });
+  return (await getDepositByPublicId({ publicId }, tx))!;
+}
+
+export async function getDepositByPublicId({ publicId }: { publicId: string }, k: Knex = db(), lock = false): Promise<DepositRow | null> {
+  const q = deposits(k).where("d.public_id", publicId).first("d.*", "u.name as requested_by_name");
+  const row = (await (lock ? q.forUpdate() : q)) as Raw | undefined;
+  return row ? toDeposit(row) : null;
+}
+
+export async function listJobDeposits({ shopId, jobId }: JobKey, k: Knex = db()): Promise<DepositRow[]> {
+  const rows = (await deposits(k).where({ "d.shop_id": shopId, "d.job_id": jobId }).orderBy("d.id").select("d.*", "u.name as requested_by_name")) as Raw[];
+  return rows.map(toDeposit);
+}
+
+export async function setDepositStatus(k: Knex, { shopId, id, status }: { shopId: number; id: number; status: "paid" | "cancelled" }): Promise<void> {
+  await k("deposit_requests").where({ shop_id: shopId, id, status: "open" }).update({ status, ...(status === "paid" ? { paid_at: k.fn.now(3) } : {}) });
+}
+
+// ---- online checkouts ----------------------------------------------------------------------------
+
+export type CheckoutRow = JobKey & {
+  id: number;
+  invoiceId: number | null;
+  depositId: number | null;
+  sessionId: string;
+  url: string | null;
+  amountMinor: number;
+  currency: string;
+  status: "open" | "complete" | "expired";
+  createdAt: string;
+};
+
+function toCheckout(r: Raw): CheckoutRow {
+  return {
+    id: Number(r.id),
+    shopId: Number(r.shop_id),
+    jobId: Number(r.job_id),
+    invoiceId: num(r.invoice_id),
+    depositId: num(r.deposit_id),
+    sessionId: String(r.provider_session_id),
+    url: (r.url as string | null) ?? null,
+    amountMinor: Number(r.amount_minor),
+    currency: String(r.currency),
+    status: r.status as CheckoutRow["status"],
+    createdAt: iso(r.created_at)!,
+  };
+}
+
+export async function insertCheckout(k: Knex, c: JobKey & { invoiceId: number | null; depositId: number | null; sessionId: string; url: string | null; amountMinor: number; currency: string; userId: number }): Promise<void> {
+  await k("payment_checkouts").insert({
+    shop_id: c.shopId,
+    job_id: c.jobId,
+    invoice_id: c.invoiceId,
+    deposit_id: c.depositId,
+    provider_session_id: c.sessionId,
+    url: c.url,
+    amount_minor: c.amountMinor,
+    currency: c.currency,
+    created_by_user_id: c.userId,
+  });
+}
+
+export async function getCheckoutBySessionId(k: Knex, sessionId: string, lock = false): Promise<CheckoutRow | null> {
+  const q = k("payment_checkouts").where({ provider_session_id: sessionId }).first();
+  const row = (await (lock ? q.forUpdate() : q)) as Raw | undefined;
+  return row ? toCheckout(row) : null;
+}
+
+/** Open checkouts for the same thing (the invoice's balance, or one deposit), newest first. */
+export async function listOpenCheckouts(k: Knex, t: JobKey & { invoiceId: number | null; depositId: number | null }): Promise<CheckoutRow[]> {
+  const q = k("payment_checkouts").where({ shop_id: t.shopId, job_id: t.jobId, status: "open" }).orderBy("id", "desc");
+  if (t.depositId != null) q.where("deposit_id", t.depositId);
+  else q.where("invoice_id", t.invoiceId).whereNull("deposit_id");
+  return ((await q) as Raw[]).map(toCheckout);
+}
+
+export async function closeCheckout(k: Knex, { id, status }: { id: number; status: "complete" | "expired" }): Promise<void> {
+  await k("payment_checkouts").where({ id, status: "open" }).update({ status, closed_at: k.fn.now(3) });
+}
+
+/** Records a webhook event's id; false when it was recorded before (a redelivery). */
+export async function recordWebhookEvent(tx: Knex.Transaction, { eventId, type }: { eventId: string; type: string }): Promise<boolean> {
+  const result = await tx.raw("INSERT IGNORE INTO payment_webhook_events (event_id, type) VALUES (?, ?)", [eventId, type.slice(0, 64)]);
+  return Number((result as [{ affectedRows: number }])[0].affectedRows) > 0;
+}
+
+/** What receipts and timeline entries need about a job, by id (webhooks arrive with ids, not addresses). */
+export async function getMoneyJob(k: Knex, jobId: number) {
+  const r = (await k("jobs as j")
+    .join("machines as m", "m.id", "j.machine_id")
+    .where("j.id", jobId)
+    .first("j.id", "j.shop_id", "j.number", "j.public_id", "m.kind", "m.year", "m.make", "m.model", "m.serial")) as Raw | undefined;
+  if (!r) return null;
+  return {
+    id: Number(r.id),
+    shopId: Number(r.shop_id),
+    number: Number(r.number),
+    publicId: String(r.public_id),
+    machine: { kind: r.kind as MachineKind, year: num(r.year), make: String(r.make), model: String(r.model), serial: (r.serial as string | null) ?? null },
+  };
+}

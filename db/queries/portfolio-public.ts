@@ -1,0 +1,254 @@
+import "server-only";
+import type { Knex } from "knex";
+import { db } from "@/lib/server/db";
+import type { TimelineClip } from "@/lib/journal";
+import type { MachineKind } from "@/lib/machine";
+import type { StoryItemKind } from "@/lib/portfolio";
+import { clipsForEntries } from "./clips";
+import { getReassemblyProgress } from "./bench";
+
+// What the public pages read. Every query here asks for status = 'published' itself, so no
+// caller can forget it; a photo or entry counts only while its entry is still shared and not
+// deleted. Rows carry the owner's name and the serial only so the builder can redact them.
+
+type Raw = Record<string, unknown>;
+const parseJson = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (v ?? null));
+
+/**
+ * The live check every public story request makes: a published story of this shop, and what its
+ * cache key needs: the story's version, the profile's last change, and the last change to the
+ * entries it shows (an edit, unshare or delete writes a revision; a clip's state moves its row).
+ */
+export type StoryGate = { storyId: number; shopId: number; version: number; contentKey: string };
+
+export async function findPublishedStory({ shopSlug, storySlug }: { shopSlug: string; storySlug: string }, k: Knex = db()): Promise<StoryGate | null> {
+  const shown = "SELECT si.entry_id FROM story_items si WHERE si.story_id = st.id AND si.entry_id IS NOT NULL UNION SELECT cp.entry_id FROM photos cp WHERE cp.id = st.cover_photo_id";
+  const r = (await k("shops as s")
+    .join("stories as st", "st.shop_id", "s.id")
+    .leftJoin("shop_profiles as p", "p.shop_id", "s.id")
+    .where({ "s.slug": shopSlug, "st.slug": storySlug, "st.status": "published" })
+    .first(
+      "st.id",
+      "st.shop_id",
+      "st.version",
+      "p.updated_at as profile_at",
+      k.raw(`(SELECT MAX(r.id) FROM journal_entry_revisions r WHERE r.shop_id = st.shop_id AND r.entry_id IN (${shown})) as revision`),
+      k.raw(`(SELECT MAX(c.updated_at) FROM clips c WHERE c.shop_id = st.shop_id AND c.entry_id IN (${shown})) as clips_at`),
+    )) as Raw | undefined;
+  if (!r) return null;
+  const at = (v: unknown) => (v instanceof Date ? v.getTime() : "-");
+  return { storyId: Number(r.id), shopId: Number(r.shop_id), version: Number(r.version), contentKey: `${at(r.profile_at)}.${r.revision ?? "-"}.${at(r.clips_at)}` };
+}
+
+export type PublicShopRow = {
+  id: number;
+  slug: string;
+  name: string;
+  displayName: string | null;
+  about: string | null;
+  logoKey: string | null;
+  locationText: string | null;
+  showLocation: boolean;
+  publicEmail: string | null;
+  publicPhone: string | null;
+  hasProfile: boolean;
+};
+
+/** A shop and its public profile (the profile's fields null when it has none), by address or id. */
+export async function getPublicShop(by: { shopSlug: string } | { shopId: number }, k: Knex = db()): Promise<PublicShopRow | null> {
+  const r = (await k("shops as s")
+    .leftJoin("shop_profiles as p", "p.shop_id", "s.id")
+    .where("shopSlug" in by ? { "s.slug": by.shopSlug } : { "s.id": by.shopId })
+    .first("s.id", "s.slug", "s.name", "p.shop_id as profile_shop", "p.display_name", "p.about", "p.logo_key", "p.location_text", "p.show_location", "p.public_email", "p.public_phone")) as
+    | Raw
+    | undefined;
+  if (!r) return null;
+  return {
+    id: Number(r.id),
+    slug: String(r.slug),
+    name: String(r.name),
+    displayName: (r.display_name as string | null) ?? null,
+    about: (r.about as string | null) ?? null,
+    logoKey: (r.logo_key as string | null) ?? null,
+    locationText: (r.location_text as string | null) ?? null,
+    showLocation: Boolean(r.show_location),
+    publicEmail: (r.public_email as string | null) ?? null,
+    publicPhone: (r.public_phone as string | null) ?? null,
+    hasProfile: r.profile_shop != null,
+  };
+}
+
+export type PhotoRow = { id: number; publicId: string; entryId: number; width: number; height: number };
+export type PublishedStoryRow = {
+  id: number;
+  slug: string;
+  title: string;
+  writeUp: unknown;
+  publishedAt: Date;
+  jobId: number;
+  coverPhotoId: number | null;
+  machine: { kind: MachineKind; year: number | null; make: string; model: string };
+  customerName: string;
+  serial: string | null;
+};
+
+function publishedStories(k: Knex, shopId: number) {
+  return k("stories as st")
+    .join("jobs as j", "j.id", "st.job_id")
+    .join("machines as m", "m.id", "j.machine_id")
+    .join("customers as c", "c.id", "j.customer_id")
+    .where({ "st.shop_id": shopId, "st.status": "published" })
+    .select("st.id", "st.slug", "st.title", "st.write_up", "st.published_at", "st.job_id", "st.cover_photo_id", "m.kind", "m.year", "m.make", "m.model", "m.serial", "c.name as customer_name");
+}
+
+function toPublished(r: Raw): PublishedStoryRow {
+  return {
+    id: Number(r.id),
+    slug: String(r.slug),
+    title: String(r.title),
+    writeUp: parseJson(r.write_up),
+    publishedAt: r.published_at as Date,
+    jobId: Number(r.job_id),
+    coverPhotoId: r.cover_photo_id == null ? null : Number(r.cover_photo_id),
+    machine: { kind: r.kind as MachineKind, year: r.year == null ? null : Number(r.year), make: String(r.make), model: String(r.model) },
+    customerName: String(r.customer_name),
+    serial: (r.serial as string | null) ?? null,
+  };
+}
+
+/** Shared, undeleted photos among these ids (covers): the rest are left out. */
+async function shownPhotosById(k: Knex, shopId: number, ids: number[]): Promise<Map<number, PhotoRow>> {
+  if (!ids.length) return new Map();
+  const rows = (await k("photos as p")
+    .join("journal_entries as e", "e.id", "p.entry_id")
+    .where({ "p.shop_id": shopId, "e.visibility": "shared", "e.kind": "photos" })
+    .whereNull("e.deleted_at")
+    .whereIn("p.id", ids)
+    .select("p.id", "p.public_id", "p.entry_id", "p.width", "p.height")) as Raw[];
+  return new Map(rows.map((r) => [Number(r.id), toPhotoRow(r)]));
+}
+
+const toPhotoRow = (r: Raw): PhotoRow => ({ id: Number(r.id), publicId: String(r.public_id), entryId: Number(r.entry_id), width: Number(r.width), height: Number(r.height) });
+
+/** The shop's published stories, newest first, optionally of one machine kind, with their covers. */
+export async function listPublishedStories({ shopId, kind }: { shopId: number; kind?: MachineKind | null }, k: Knex = db()) {
+  const q = publishedStories(k, shopId).orderBy("st.published_at", "desc").limit(200);
+  if (kind) q.where("m.kind", kind);
+  const stories = ((await q) as Raw[]).map(toPublished);
+  const covers = await shownPhotosById(k, shopId, stories.flatMap((s) => (s.coverPhotoId ? [s.coverPhotoId] : [])));
+  return stories.map((s) => ({ ...s, cover: s.coverPhotoId ? (covers.get(s.coverPhotoId) ?? null) : null }));
+}
+
+/** Machine kinds that have at least one published story (the filter buttons). */
+export async function publishedKinds({ shopId }: { shopId: number }, k: Knex = db()): Promise<MachineKind[]> {
+  const rows = (await k("stories as st").join("jobs as j", "j.id", "st.job_id").join("machines as m", "m.id", "j.machine_id").where({ "st.shop_id": shopId, "st.status": "published" }).distinct("m.kind")) as Raw[];
+  return rows.map((r) => r.kind as MachineKind);
+}
+
+export type BodyItem = { kind: StoryItemKind; caption: string | null; momentMs: number | null; entryId: number | null; photoId: number | null };
+export type StoryBodyRows = {
+  story: PublishedStoryRow;
+  cover: PhotoRow | null;
+  items: BodyItem[];
+  /** Shared, undeleted entries the items point at, with their snapshot bodies. */
+  entries: Map<number, { kind: string; body: unknown }>;
+  photosByEntry: Map<number, PhotoRow[]>;
+  photosById: Map<number, PhotoRow>;
+  clips: Map<number, TimelineClip>;
+  checklist: { done: number; total: number; percent: number } | null;
+};
+
+/** Everything one published story shows, in a fixed number of queries; null when it isn't published (any more). */
+export async function loadStoryBody({ shopId, storyId }: { shopId: number; storyId: number }, k: Knex = db()): Promise<StoryBodyRows | null> {
+  const row = (await publishedStories(k, shopId).where("st.id", storyId).first()) as Raw | undefined;
+  if (!row) return null;
+  const story = toPublished(row);
+  const items = ((await k("story_items").where({ shop_id: shopId, story_id: storyId }).orderBy("position").select("kind", "caption", "moment_ms", "entry_id", "photo_id")) as Raw[]).map(
+    (r): BodyItem => ({
+      kind: r.kind as StoryItemKind,
+      caption: (r.caption as string | null) ?? null,
+      momentMs: r.moment_ms == null ? null : Number(r.moment_ms),
+      entryId: r.entry_id == null ? null : Number(r.entry_id),
+      photoId: r.photo_id == null ? null : Number(r.photo_id),
+    }),
+  );
+  const entryIds = [...new Set(items.flatMap((i) => (i.entryId ? [i.entryId] : [])))];
+  const entryRows = entryIds.length
+    ? ((await k("journal_entries")
+        .where({ shop_id: shopId, job_id: story.jobId, visibility: "shared" })
+        .whereNull("deleted_at")
+        .whereIn("id", entryIds)
+        .select("id", "kind", "body")) as Raw[])
+    : [];
+  const entries = new Map(entryRows.map((r) => [Number(r.id), { kind: String(r.kind), body: parseJson(r.body) }]));
+  const photoEntryIds = entryRows.filter((r) => r.kind === "photos").map((r) => Number(r.id));
+  const photoRows = photoEntryIds.length
+    ? ((await k("photos").where("shop_id", shopId).whereIn("entry_id", photoEntryIds).orderBy(["entry_id", "position", "id"]).select("id", "public_id", "entry_id", "width", "height")) as Raw[]).map(toPhotoRow)
+    : [];
+  const photosByEntry = new Map<number, PhotoRow[]>();
+  for (const p of photoRows) photosByEntry.set(p.entryId, [...(photosByEntry.get(p.entryId) ?? []), p]);
+  const photosById = new Map(photoRows.map((p) => [p.id, p]));
+  const cover = story.coverPhotoId ? ((await shownPhotosById(k, shopId, [story.coverPhotoId])).get(story.coverPhotoId) ?? null) : null;
+  const clipEntryIds = entryRows.filter((r) => r.kind === "clip").map((r) => Number(r.id));
+  const clips = await clipsForEntries(k, shopId, clipEntryIds);
+  const checklist = items.some((i) => i.kind === "checklist") ? await getReassemblyProgress({ shopId, jobId: story.jobId }) : null;
+  return { story, cover, items, entries, photosByEntry, photosById, clips, checklist };
+}
+
+/**
+ * The storage keys of a photo, only when it is shown by this published story (its cover, one of
+ * its photo items, or in a photo set it shows) and its entry is still shared and not deleted.
+ */
+export async function publicPhotoKeys({ shopSlug, storySlug, photoPublicId }: { shopSlug: string; storySlug: string; photoPublicId: string }, k: Knex = db()) {
+  const r = (await k("photos as p")
+    .join("journal_entries as e", "e.id", "p.entry_id")
+    .join("stories as st", (j) => j.on("st.shop_id", "p.shop_id").andOn("st.job_id", "p.job_id"))
+    .join("shops as s", "s.id", "st.shop_id")
+    .where({ "p.public_id": photoPublicId, "e.visibility": "shared", "e.kind": "photos", "st.status": "published", "st.slug": storySlug, "s.slug": shopSlug })
+    .whereNull("e.deleted_at")
+    .where((w) =>
+      w.whereRaw("st.cover_photo_id = p.id").orWhereExists(
+        k("story_items as si")
+          .whereRaw("si.story_id = st.id")
+          .where((x) => x.where((a) => a.where("si.kind", "photos").whereRaw("si.entry_id = p.entry_id")).orWhere((b) => b.where("si.kind", "photo").whereRaw("si.photo_id = p.id")))
+          .select(k.raw("1")),
+      ),
+    )
+    .first("p.display_key", "p.thumb_key")) as Raw | undefined;
+  return r ? { displayKey: String(r.display_key), thumbKey: String(r.thumb_key) } : null;
+}
+
+/** The playback id of a ready clip this published story shows (a clip item whose entry is still shared), or null. */
+export async function publicClipPlayback({ shopSlug, storySlug, clipPublicId }: { shopSlug: string; storySlug: string; clipPublicId: string }, k: Knex = db()): Promise<string | null> {
+  const r = (await k("clips as v")
+    .join("journal_entries as e", "e.id", "v.entry_id")
+    .join("story_items as si", (j) => j.on("si.entry_id", "v.entry_id").andOnVal("si.kind", "=", "clip"))
+    .join("stories as st", "st.id", "si.story_id")
+    .join("shops as s", "s.id", "st.shop_id")
+    .where({ "v.public_id": clipPublicId, "v.status": "ready", "e.visibility": "shared", "st.status": "published", "st.slug": storySlug, "s.slug": shopSlug })
+    .whereNull("e.deleted_at")
+    .whereNotNull("v.playback_id")
+    .first("v.playback_id")) as Raw | undefined;
+  return r ? String(r.playback_id) : null;
+}
+
+/** Every published story with its shop, for the sitemap. */
+export async function listSitemapStories(k: Knex = db()) {
+  const rows = (await k("stories as st")
+    .join("shops as s", "s.id", "st.shop_id")
+    .where("st.status", "published")
+    .orderBy("st.published_at", "desc")
+    .limit(45_000)
+    .select("s.slug as shop_slug", "st.slug", "st.updated_at")) as Raw[];
+  return rows.map((r) => ({ shop: String(r.shop_slug), slug: String(r.slug), updatedAt: r.updated_at as Date }));
+}
+
+/** Shops with a public page: a profile, or at least one published story. */
+export async function listPublicShops(k: Knex = db()) {
+  const rows = (await k("shops as s")
+    .leftJoin("shop_profiles as p", "p.shop_id", "s.id")
+    .where((w) => w.whereNotNull("p.shop_id").orWhereExists(k("stories as st").whereRaw("st.shop_id = s.id").where("st.status", "published").select(k.raw("1"))))
+    .limit(5000)
+    .select("s.slug", "p.updated_at")) as Raw[];
+  return rows.map((r) => ({ shop: String(r.slug), updatedAt: (r.updated_at as Date | null) ?? null }));
+}

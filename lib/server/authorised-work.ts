@@ -1,0 +1,86 @@
+import "server-only";
+import type { Knex } from "knex";
+import { listDecisions, listRequests } from "@/db/queries/approvals";
+import type { DecisionMethod } from "@/lib/approvals";
+import type { InvoiceLine } from "@/lib/invoices";
+import { db } from "@/lib/server/db";
+
+// What the owner authorised on a job, read from the approval records: the approved lines with
+// their prices as shown (the frozen snapshots), the authorised pre-tax total, and the record of who
+// approved what, when and how, which the invoice prints.
+
+export type AuthorisationEntry = {
+  request: string;
+  title: string;
+  version: number;
+  method: DecisionMethod;
+  personName: string;
+  signatureName: string | null;
+  phoneCalled: string | null;
+  note: string | null;
+  decidedAt: string;
+  recordedBy: string | null;
+  wantsPartsBack: boolean;
+  shownHash: string;
+  currency: string;
+  approved: { no: number; description: string; netMinor: number }[];
+  declined: { no: number; description: string; netMinor: number }[];
+  authorisedPreTaxMinor: number;
+  authorisedTotalMinor: number;
+};
+
+export type AuthorisedWork = {
+  lines: InvoiceLine[];
+  authorisedPreTaxMinor: number;
+  record: AuthorisationEntry[];
+  wantsPartsBack: boolean;
+  /** Requests sent and not answered yet: their lines aren't authorised. */
+  openRequests: { publicId: string; title: string }[];
+};
+
+export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId: number }, k: Knex = db()): Promise<AuthorisedWork> {
+  const requests = await listRequests({ shopId, jobId }, k);
+  const decisions = await listDecisions({ shopId, requestIds: requests.map((r) => r.id) }, k);
+  const lines: InvoiceLine[] = [];
+  const record: AuthorisationEntry[] = [];
+  for (const r of requests) {
+    const d = decisions.get(r.id);
+    if (!d) continue;
+    const approvedNos = new Set(d.lines.filter((l) => l.answer === "approved").map((l) => l.no));
+    for (const line of r.snapshot.lines) {
+      if (!approvedNos.has(line.no)) continue;
+      const { no, grossMinor: _g, netMinor: _n, taxMinor: _t, ...draft } = line;
+      lines.push({ ...draft, source: "authorised", requestPublicId: r.publicId, requestLineNo: no });
+    }
+    const pick = (answer: "approved" | "declined") => d.lines.filter((l) => l.answer === answer).map((l) => ({ no: l.no, description: l.description, netMinor: l.netMinor }));
+    record.push({
+      request: r.publicId,
+      title: r.snapshot.finding.title,
+      version: r.version,
+      method: d.method,
+      personName: d.personName,
+      signatureName: d.signatureName,
+      phoneCalled: d.phoneCalled,
+      note: d.note,
+      decidedAt: d.decidedAt,
+      recordedBy: d.recordedBy,
+      wantsPartsBack: d.wantsPartsBack,
+      shownHash: d.shownHash,
+      currency: r.currency,
+      approved: pick("approved"),
+      declined: pick("declined"),
+      authorisedPreTaxMinor: d.authorisedPreTaxMinor,
+      authorisedTotalMinor: d.authorisedTotalMinor,
+    });
+  }
+  return {
+    lines,
+    authorisedPreTaxMinor: record.reduce((sum, e) => sum + e.authorisedPreTaxMinor, 0),
+    record,
+    wantsPartsBack: record.some((e) => e.wantsPartsBack),
+    openRequests: requests.filter((r) => r.status === "sent").map((r) => ({ publicId: r.publicId, title: r.snapshot.finding.title })),
+  };
+}
+
+/** The same line of the same request, so syncing never brings one in twice. */
+export const lineKey = (l: Pick<InvoiceLine, "requestPublicId" | "requestLineNo">) => `${l.requestPublicId}#${l.requestLineNo}`;

@@ -1,0 +1,85 @@
+import "server-only";
+import { type InvoiceRow, listInvoiceLines, listJobInvoices } from "@/db/queries/invoices";
+import { type DepositRow, type PaymentRow, listJobDeposits, listJobPayments } from "@/db/queries/payments";
+import { type Balance, type PricedLine, balanceOf, formatInvoiceNumber } from "@/lib/invoices";
+import { describeMachine } from "@/lib/machine";
+import { formatJobNumber } from "@/lib/schemas/jobs";
+import { type AuthorisationEntry, authorisedWork, lineKey } from "@/lib/server/authorised-work";
+import { db } from "@/lib/server/db";
+
+// One read of everything an invoice page, the PDF and the JSON route show: the shop's details, the
+// job and machine, the live invoice with its priced lines, payments and deposits, and the
+// authorisation record. A fixed number of queries whatever the number of lines or payments.
+
+export type ViewLine = PricedLine & { id: number };
+export type ViewPayment = PaymentRow & { refundableMinor: number };
+
+export type InvoiceView = {
+  shop: { name: string; email: string | null; phone: string | null; timezone: string };
+  job: { id: number; shopId: number; publicId: string; number: number; label: string; machine: string; serial: string | null; customerName: string };
+  invoice: (Omit<InvoiceRow, "snapshot"> & { label: string; lines: ViewLine[]; flaggedCount: number; ceilingMinor: number; authorisedPreTaxMinor: number; toleranceMinor: number }) | null;
+  voided: { label: string; voidedAt: string | null; note: string | null }[];
+  payments: ViewPayment[];
+  deposits: DepositRow[];
+  /** Money on the job with no invoice yet (deposits), or the live invoice's balance. */
+  balance: Balance;
+  record: AuthorisationEntry[];
+  openRequests: { publicId: string; title: string }[];
+  /** Authorised lines not on the draft yet (answers that came after it was made). */
+  missingAuthorised: number;
+  currency: string;
+};
+
+export async function invoiceView(jobId: number, audience: "shop" | "owner"): Promise<InvoiceView> {
+  const j = (await db()("jobs as j")
+    .join("shops as s", "s.id", "j.shop_id")
+    .join("customers as c", "c.id", "j.customer_id")
+    .join("machines as m", "m.id", "j.machine_id")
+    .where("j.id", jobId)
+    .first("j.id", "j.shop_id", "j.public_id", "j.number", "s.name as shop_name", "s.email as shop_email", "s.phone as shop_phone", "s.timezone", "s.currency", "c.name as customer_name", "m.year", "m.make", "m.model", "m.serial")) as Record<string, unknown>;
+  const key = { shopId: Number(j.shop_id), jobId };
+  const [invoices, payments, deposits, work] = await Promise.all([listJobInvoices(key), listJobPayments(key), listJobDeposits(key), authorisedWork(key)]);
+  // The owner sees an invoice once it is issued; a draft is the desk's working copy.
+  const live = invoices.find((i) => i.status !== "void" && (audience === "shop" || i.status !== "draft")) ?? null;
+  const rows = live ? await listInvoiceLines({ shopId: key.shopId, invoiceId: live.id }) : [];
+  const refunded = new Map<number, number>();
+  for (const p of payments) if (p.refundOfPaymentId) refunded.set(p.refundOfPaymentId, (refunded.get(p.refundOfPaymentId) ?? 0) + p.amountMinor);
+
+  let invoice: InvoiceView["invoice"] = null;
+  if (live) {
+    const { snapshot, ...rest } = live;
+    const priced = snapshot.lines;
+    invoice = {
+      ...rest,
+      label: formatInvoiceNumber(live.number),
+      lines: rows.map((l, i) => ({ ...l, no: i + 1, grossMinor: priced[i]?.grossMinor ?? 0, netMinor: priced[i]?.netMinor ?? 0, taxMinor: priced[i]?.taxMinor ?? null, flagged: priced[i]?.flagged ?? false })),
+      flaggedCount: snapshot.flaggedCount,
+      ceilingMinor: snapshot.ceilingMinor,
+      authorisedPreTaxMinor: snapshot.authorisedPreTaxMinor,
+      toleranceMinor: snapshot.toleranceMinor,
+    };
+  }
+  const onInvoice = new Set(rows.map(lineKey));
+  return {
+    shop: { name: String(j.shop_name), email: (j.shop_email as string | null) ?? null, phone: (j.shop_phone as string | null) ?? null, timezone: String(j.timezone) },
+    job: {
+      id: jobId,
+      shopId: key.shopId,
+      publicId: String(j.public_id),
+      number: Number(j.number),
+      label: formatJobNumber(Number(j.number)),
+      machine: describeMachine({ year: j.year == null ? null : Number(j.year), make: String(j.make), model: String(j.model) }),
+      serial: (j.serial as string | null) ?? null,
+      customerName: String(j.customer_name),
+    },
+    invoice,
+    voided: invoices.filter((i) => i.status === "void" && (audience === "shop" || i.issuedAt)).map((i) => ({ label: formatInvoiceNumber(i.number), voidedAt: i.voidedAt, note: i.note })),
+    payments: payments.map((p) => ({ ...p, refundableMinor: p.kind === "refund" ? 0 : p.amountMinor - (refunded.get(p.id) ?? 0) })),
+    deposits,
+    balance: balanceOf(invoice?.totalMinor ?? 0, payments),
+    record: work.record,
+    openRequests: work.openRequests,
+    missingAuthorised: live?.status === "draft" ? work.lines.filter((l) => !onInvoice.has(lineKey(l))).length : 0,
+    currency: live?.currency ?? String(j.currency),
+  };
+}

@@ -1,0 +1,260 @@
+import "server-only";
+import type { Knex } from "knex";
+import { getMoneySettings } from "@/db/queries/findings";
+import {
+  type InvoiceRow,
+  type InvoiceTotalsSnapshot,
+  allocateInvoiceNumber,
+  deleteInvoiceLine,
+  getInvoiceByPublicId,
+  getLiveInvoice,
+  insertInvoice,
+  insertInvoiceLines,
+  listInvoiceLines,
+  lockJob,
+  newInvoicePublicId,
+  updateInvoice,
+} from "@/db/queries/invoices";
+import { insertEntry } from "@/db/queries/journal";
+import { listJobPayments } from "@/db/queries/payments";
+import { toMoneyLine } from "@/lib/approvals";
+import { AppError } from "@/lib/errors";
+import { INVOICE_PUBLIC_ID_PATTERN, type InvoiceEntryBody, balanceOf, formatInvoiceNumber, priceInvoice, statusAfter } from "@/lib/invoices";
+import { type Discount, parseMoney, parsePercent } from "@/lib/money";
+import { type Action, type Actor, can } from "@/lib/permissions";
+import type { AddLineInput, DraftDetailsInput } from "@/lib/schemas/invoices";
+import { authorisedWork, lineKey } from "@/lib/server/authorised-work";
+import { db } from "@/lib/server/db";
+import { readLines } from "@/lib/server/findings";
+import { queueInvoiceMail } from "@/lib/server/invoice-mail";
+import { journalAccess } from "@/lib/server/journal";
+
+// Invoices made from authorised work: create (numbered under the shop row's lock), edit the draft,
+// issue, cancel. Every change runs in one transaction with the job row and then the invoice locked,
+// and re-prices the invoice and its balance from the stored lines and the job's payments.
+
+const NO_INVOICE = "No such invoice, or it isn't yours to see.";
+
+/** The job and what this person may do with its money; followers and strangers get a 404. */
+export async function invoiceJobAccess(actor: Actor, jobPublicId: string, action: Action = "invoice:view") {
+  const access = await journalAccess(actor, jobPublicId);
+  if (!can(actor, "invoice:view", access.resource)) {
+    // Staff without money roles are told no; anyone else isn't told the invoice exists.
+    if (access.audience === "shop") throw new AppError("forbidden", "Invoices are for the service desk and the shop owner.");
+    throw new AppError("not_found", NO_INVOICE);
+  }
+  if (!can(actor, action, access.resource)) throw new AppError("forbidden", "You don't have access to this.");
+  return access;
+}
+
+export async function invoiceAccess(actor: Actor, invoicePublicId: string, action: Action = "invoice:view") {
+  const invoice = INVOICE_PUBLIC_ID_PATTERN.test(invoicePublicId) ? await getInvoiceByPublicId({ publicId: invoicePublicId }) : null;
+  if (!invoice) throw new AppError("not_found", NO_INVOICE);
+  const job = (await db()("jobs").where({ id: invoice.jobId }).first("public_id")) as { public_id: string };
+  const access = await invoiceJobAccess(actor, job.public_id, action);
+  // A draft is the desk's working copy: the owner sees an invoice once it is issued.
+  if (invoice.status === "draft" && access.audience !== "shop") throw new AppError("not_found", NO_INVOICE);
+  return { invoice, ...access };
+}
+
+/**
+ * Re-prices the invoice from its lines and the job's payments, and stores the result. Call it
+ * inside the transaction that changed something, with the job row locked.
+ */
+export async function recompute(tx: Knex.Transaction, invoice: InvoiceRow) {
+  const lines = await listInvoiceLines({ shopId: invoice.shopId, invoiceId: invoice.id }, tx);
+  const work = await authorisedWork({ shopId: invoice.shopId, jobId: invoice.jobId }, tx);
+  const { pricing, tolerance } = invoice.snapshot;
+  const priced = priceInvoice({ lines, settings: pricing, discount: invoice.discount, authorisedPreTaxMinor: work.authorisedPreTaxMinor, tolerance });
+  const t = priced.totals;
+  const balance = balanceOf(t.totalMinor, await listJobPayments({ shopId: invoice.shopId, jobId: invoice.jobId }, tx));
+  const status = statusAfter(invoice.status, t.totalMinor, balance.balanceMinor);
+  const snapshot: InvoiceTotalsSnapshot = {
+    format: 1,
+    pricing,
+    tolerance,
+    authorisedPreTaxMinor: priced.authorisedPreTaxMinor,
+    toleranceMinor: priced.toleranceMinor,
+    ceilingMinor: priced.ceilingMinor,
+    flaggedCount: priced.flaggedCount,
+    preTaxTotalMinor: t.preTaxTotalMinor,
+    taxableBaseMinor: t.taxableBaseMinor,
+    lines: priced.lines.map((l) => ({ no: l.no, grossMinor: l.grossMinor, netMinor: l.netMinor, taxMinor: l.taxMinor, flagged: l.flagged })),
+  };
+  await updateInvoice(tx, {
+    shopId: invoice.shopId,
+    id: invoice.id,
+    change: {
+      status,
+      snapshot,
+      amounts: { subtotalMinor: t.subtotalMinor, discountMinor: t.discountsMinor, suppliesMinor: t.suppliesMinor, taxMinor: t.taxMinor, totalMinor: t.totalMinor, paidMinor: balance.paidMinor, balanceMinor: balance.balanceMinor },
+      ...(status !== invoice.status ? { paidAt: status === "paid" ? new Date() : null } : {}),
+    },
+  });
+  return { priced, balance, status, becamePaid: status === "paid" && invoice.status !== "paid" };
+}
+
+function isRetryable(error: unknown): boolean {
+  const code = (error as { code?: string } | null)?.code;
+  return code === "ER_LOCK_DEADLOCK" || code === "ER_LOCK_WAIT_TIMEOUT";
+}
+
+/**
+ * The desk turns the job's authorised work into a draft invoice. The shop row is locked first (for
+ * the number), then the job row: the same order everywhere, so two desks can't deadlock; a
+ * rolled-back attempt gives its number back, so numbers have no gaps.
+ */
+export async function createInvoice(actor: Actor, jobPublicId: string) {
+  const { job } = await invoiceJobAccess(actor, jobPublicId, "invoice:create");
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await db().transaction(async (tx) => {
+        const number = await allocateInvoiceNumber(tx, job.shopId);
+        await lockJob(tx, { shopId: job.shopId, jobId: job.id });
+        const live = await getLiveInvoice({ shopId: job.shopId, jobId: job.id }, tx);
+        if (live) throw new AppError("conflict", `This job already has invoice ${formatInvoiceNumber(live.number)}. Open it, or cancel it to start again.`);
+        const work = await authorisedWork({ shopId: job.shopId, jobId: job.id }, tx);
+        if (!work.lines.length) throw new AppError("invalid", "Nothing has been authorised on this job yet: an invoice is made from lines the owner approved.");
+        const settings = await getMoneySettings({ shopId: job.shopId }, tx);
+        const shop = (await tx("shops").where({ id: job.shopId }).first("currency")) as { currency: string };
+        const publicId = newInvoicePublicId();
+        const blank: InvoiceTotalsSnapshot = {
+          format: 1,
+          pricing: { tax: settings.tax, supplies: settings.supplies },
+          tolerance: settings.tolerance,
+          authorisedPreTaxMinor: 0,
+          toleranceMinor: 0,
+          ceilingMinor: 0,
+          flaggedCount: 0,
+          preTaxTotalMinor: 0,
+          taxableBaseMinor: 0,
+          lines: [],
+        };
+        const returnedPartsNote = work.wantsPartsBack ? "You asked for the replaced parts back: they are packed with your machine." : null;
+        const id = await insertInvoice(tx, { shopId: job.shopId, jobId: job.id, publicId, number, currency: shop.currency, snapshot: blank, returnedPartsNote, userId: actor.userId });
+        await insertInvoiceLines(tx, { shopId: job.shopId, invoiceId: id, lines: work.lines, from: 1 });
+        await recompute(tx, (await getInvoiceByPublicId({ publicId }, tx))!);
+        return { publicId, number, job };
+      });
+    } catch (error) {
+      if (attempt < 3 && isRetryable(error)) continue;
+      throw error;
+    }
+  }
+}
+
+/** Locks the job row, then reads the invoice fresh; refuses a stale version or the wrong status. */
+async function lockedInvoice(tx: Knex.Transaction, invoice: InvoiceRow, version: number | null, allowed: InvoiceRow["status"][]): Promise<InvoiceRow> {
+  await lockJob(tx, { shopId: invoice.shopId, jobId: invoice.jobId });
+  await tx("invoices").where({ id: invoice.id }).forUpdate().first("id");
+  const fresh = (await getInvoiceByPublicId({ publicId: invoice.publicId }, tx))!;
+  if (version !== null && fresh.version !== version) throw new AppError("conflict", "Someone changed this invoice since you opened it. Check it again, then repeat your change.");
+  if (!allowed.includes(fresh.status)) {
+    throw new AppError("conflict", fresh.status === "draft" ? "This invoice hasn't been issued yet." : `Invoice ${formatInvoiceNumber(fresh.number)} has been issued and can't be changed; cancel it to start again.`);
+  }
+  return fresh;
+}
+
+async function draftChange(actor: Actor, invoicePublicId: string, version: number, change: (tx: Knex.Transaction, invoice: InvoiceRow) => Promise<InvoiceRow | void>) {
+  const { invoice, job } = await invoiceAccess(actor, invoicePublicId, "invoice:create");
+  await db().transaction(async (tx) => {
+    const fresh = await lockedInvoice(tx, invoice, version, ["draft"]);
+    // recompute stores the new totals and bumps the version.
+    await recompute(tx, (await change(tx, fresh)) ?? fresh);
+  });
+  return { job };
+}
+
+/** Brings in authorised lines not yet on the draft (answers that came after it was made). */
+export async function syncAuthorised(actor: Actor, invoicePublicId: string, version: number) {
+  return draftChange(actor, invoicePublicId, version, async (tx, invoice) => {
+    const lines = await listInvoiceLines({ shopId: invoice.shopId, invoiceId: invoice.id }, tx);
+    const have = new Set(lines.map(lineKey));
+    const work = await authorisedWork({ shopId: invoice.shopId, jobId: invoice.jobId }, tx);
+    const missing = work.lines.filter((l) => !have.has(lineKey(l)));
+    if (!missing.length) throw new AppError("conflict", "Every authorised line is already on the invoice.");
+    await insertInvoiceLines(tx, { shopId: invoice.shopId, invoiceId: invoice.id, lines: missing, from: (lines.at(-1)?.position ?? 0) + 1 });
+  });
+}
+
+export async function addLine(actor: Actor, invoicePublicId: string, input: AddLineInput) {
+  return draftChange(actor, invoicePublicId, input.version, async (tx, invoice) => {
+    const settings = await getMoneySettings({ shopId: invoice.shopId }, tx);
+    let draft;
+    try {
+      [draft] = readLines([{ ...input, partNumber: input.partNumber }], [], { currency: invoice.currency, mayPrice: true, settings });
+      toMoneyLine(draft!, 0);
+    } catch (error) {
+      // readLines names fields as "lines.0.qty"; this form has one line.
+      if (error instanceof AppError && error.fields) {
+        throw new AppError(error.code, error.message, Object.fromEntries(Object.entries(error.fields).map(([k, v]) => [k.replace(/^lines\.0\.?/, "") || "_", v])));
+      }
+      throw error;
+    }
+    const lines = await listInvoiceLines({ shopId: invoice.shopId, invoiceId: invoice.id }, tx);
+    const { id: _id, ...line } = draft!;
+    await insertInvoiceLines(tx, { shopId: invoice.shopId, invoiceId: invoice.id, lines: [{ ...line, source: "added", requestPublicId: null, requestLineNo: null }], from: (lines.at(-1)?.position ?? 0) + 1 });
+  });
+}
+
+export async function removeLine(actor: Actor, invoicePublicId: string, input: { version: number; line: number }) {
+  return draftChange(actor, invoicePublicId, input.version, async (tx, invoice) => {
+    if (!(await deleteInvoiceLine(tx, { shopId: invoice.shopId, invoiceId: invoice.id, lineId: input.line }))) throw new AppError("not_found", "That line isn't on this invoice any more.");
+  });
+}
+
+export function readDiscount(input: Pick<DraftDetailsInput, "discountKind" | "discountValue">, currency: string): Discount | null {
+  if (input.discountKind === "none" || input.discountValue === "") return null;
+  try {
+    if (input.discountKind === "amount") return { kind: "amount", amountMinor: parseMoney(input.discountValue, currency) };
+    parsePercent(input.discountValue.replace(/\s*%$/, ""), "The discount");
+    return { kind: "percent", percent: input.discountValue.replace(/\s*%$/, "") };
+  } catch (error) {
+    if (error instanceof AppError) throw new AppError("invalid", error.message, { discountValue: [error.message] });
+    throw error;
+  }
+}
+
+export async function updateDraft(actor: Actor, invoicePublicId: string, input: DraftDetailsInput) {
+  return draftChange(actor, invoicePublicId, input.version, async (tx, invoice) => {
+    const discount = readDiscount(input, invoice.currency);
+    await updateInvoice(tx, { shopId: invoice.shopId, id: invoice.id, change: { discount, returnedPartsNote: input.returnedPartsNote, note: input.note } });
+    return { ...invoice, discount, returnedPartsNote: input.returnedPartsNote, note: input.note };
+  });
+}
+
+/** Sends the invoice: no flagged lines, something to charge; a shared timeline entry and the owner's e-mail go with it. */
+export async function issueInvoice(actor: Actor, invoicePublicId: string, version: number) {
+  const { invoice, job } = await invoiceAccess(actor, invoicePublicId, "invoice:create");
+  await db().transaction(async (tx) => {
+    const fresh = await lockedInvoice(tx, invoice, version, ["draft"]);
+    const locked = (await lockJob(tx, { shopId: fresh.shopId, jobId: fresh.jobId }))!;
+    const { priced } = await recompute(tx, fresh);
+    if (priced.flaggedCount) {
+      throw new AppError("conflict", `${priced.flaggedCount === 1 ? "One line goes" : `${priced.flaggedCount} lines go`} past what the owner authorised. Remove ${priced.flaggedCount === 1 ? "it" : "them"} or get a new approval first.`);
+    }
+    if (priced.totals.totalMinor <= 0) throw new AppError("invalid", "There is nothing to charge on this invoice.");
+    await updateInvoice(tx, { shopId: fresh.shopId, id: fresh.id, change: { status: "issued", issuedBy: actor.userId } });
+    // Deposits may already cover it all.
+    const issued = (await getInvoiceByPublicId({ publicId: fresh.publicId }, tx))!;
+    await recompute(tx, issued);
+    const body: InvoiceEntryBody = { event: "issued", invoice: fresh.publicId, number: formatInvoiceNumber(fresh.number) };
+    await insertEntry(tx, { shopId: fresh.shopId, jobId: fresh.jobId, kind: "invoice", authorId: actor.userId, visibility: "shared", body });
+    if (locked.customerEmail) await queueInvoiceMail(tx, { invoice: (await getInvoiceByPublicId({ publicId: fresh.publicId }, tx))!, job, to: locked.customerEmail, ownerName: locked.customerName });
+  });
+  return { job };
+}
+
+/** Cancels an invoice; its number stays used, and payments stay on the job for the next invoice. */
+export async function voidInvoice(actor: Actor, invoicePublicId: string, input: { version: number; reason: string }) {
+  const { invoice, job } = await invoiceAccess(actor, invoicePublicId, "invoice:create");
+  await db().transaction(async (tx) => {
+    const fresh = await lockedInvoice(tx, invoice, input.version, ["draft", "issued", "paid"]);
+    await updateInvoice(tx, { shopId: fresh.shopId, id: fresh.id, change: { voided: true, note: `Cancelled: ${input.reason}`.slice(0, 1000) } });
+    if (fresh.status !== "draft") {
+      const body: InvoiceEntryBody = { event: "void", invoice: fresh.publicId, number: formatInvoiceNumber(fresh.number) };
+      await insertEntry(tx, { shopId: fresh.shopId, jobId: fresh.jobId, kind: "invoice", authorId: actor.userId, visibility: "shared", body });
+    }
+  });
+  return { job };
+}

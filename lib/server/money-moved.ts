@@ -1,0 +1,50 @@
+import "server-only";
+import type { Knex } from "knex";
+import { getLiveInvoice, lockJob } from "@/db/queries/invoices";
+import { insertEntry } from "@/db/queries/journal";
+import { getMoneyJob, insertPayment, type NewPayment } from "@/db/queries/payments";
+import { type PaymentEntryBody, formatInvoiceNumber } from "@/lib/invoices";
+import { queueReceiptMail } from "@/lib/server/invoice-mail";
+import { recompute } from "@/lib/server/invoices";
+
+// The one way money is recorded, whoever reports it (the desk, the payments webhook, the owner's
+// return from paying, a refund's API answer): in the caller's transaction, with the job row locked,
+// insert the payment (a provider id already recorded means "already done": nothing else happens),
+// re-price the live invoice, post a shared timeline entry without amounts and queue the receipt.
+
+export type RecordedMoney = { paymentId: number; balanceMinor: number | null } | null;
+
+export async function recordMoney(tx: Knex.Transaction, p: NewPayment & { authorId: number | null }): Promise<RecordedMoney> {
+  const owner = await lockJob(tx, { shopId: p.shopId, jobId: p.jobId });
+  if (!owner) throw new Error(`job ${p.jobId} not found`);
+  const live = await getLiveInvoice({ shopId: p.shopId, jobId: p.jobId }, tx, true);
+  const paymentId = await insertPayment(tx, { ...p, invoiceId: p.invoiceId ?? (live && live.status !== "draft" ? live.id : null) });
+  if (paymentId === null) return null;
+
+  let invoice = live;
+  if (live) {
+    await recompute(tx, live);
+    invoice = await getLiveInvoice({ shopId: p.shopId, jobId: p.jobId }, tx);
+  }
+  const shown = invoice && invoice.status !== "draft" ? invoice : null;
+  const event: PaymentEntryBody["event"] =
+    p.kind === "refund" ? "refunded" : p.kind === "deposit" ? "deposit_paid" : shown && shown.balanceMinor <= 0 ? "paid_in_full" : "part_paid";
+  const body: PaymentEntryBody = { event, invoice: shown?.publicId ?? null, number: shown ? formatInvoiceNumber(shown.number) : null, method: p.method };
+  await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "payment", authorId: p.authorId, visibility: "shared", body });
+  if (owner.customerEmail) {
+    const job = (await getMoneyJob(tx, p.jobId))!;
+    await queueReceiptMail(tx, {
+      to: owner.customerEmail,
+      ownerName: owner.customerName,
+      paymentId,
+      kind: p.kind,
+      method: p.method,
+      amountMinor: p.amountMinor,
+      currency: p.currency,
+      reference: p.reference ?? null,
+      invoice: shown,
+      job,
+    });
+  }
+  return { paymentId, balanceMinor: shown?.balanceMinor ?? null };
+}

@@ -1,0 +1,114 @@
+import "server-only";
+import type { Knex } from "knex";
+import type Stripe from "stripe";
+import { lockJob } from "@/db/queries/invoices";
+import { closeCheckout, getCheckoutBySessionId, getPaymentByProviderId, listJobPayments, recordWebhookEvent, setDepositStatus } from "@/db/queries/payments";
+import type { Actor } from "@/lib/permissions";
+import { db } from "@/lib/server/db";
+import { invoiceJobAccess } from "@/lib/server/invoices";
+import { recordMoney } from "@/lib/server/money-moved";
+import { stripe, verifyWebhook } from "@/lib/server/payments";
+
+// What the payments service tells us, applied exactly once: the event id is recorded in the same
+// transaction as its effect (a redelivery finds it and does nothing), and the provider's payment and
+// refund ids are unique keys (the owner's return and the webhook can't both record one payment).
+
+const idOf = (v: string | { id: string } | null | undefined) => (typeof v === "string" ? v : (v?.id ?? null));
+
+/** A completed, paid session: the payment, the deposit or invoice it settles, entry and receipt. */
+export async function applyCheckoutCompleted(tx: Knex.Transaction, session: Stripe.Checkout.Session): Promise<boolean> {
+  if (session.payment_status !== "paid") return false;
+  const found = await getCheckoutBySessionId(tx, session.id);
+  if (!found) return false; // not one of ours (another integration on the same account)
+  await lockJob(tx, { shopId: found.shopId, jobId: found.jobId });
+  const checkout = (await getCheckoutBySessionId(tx, session.id, true))!;
+  await closeCheckout(tx, { id: checkout.id, status: "complete" });
+  const intent = idOf(session.payment_intent as string | { id: string } | null);
+  const recorded = await recordMoney(tx, {
+    shopId: checkout.shopId,
+    jobId: checkout.jobId,
+    kind: checkout.depositId ? "deposit" : "payment",
+    method: "online",
+    // What was actually paid, as the service reports it.
+    amountMinor: session.amount_total ?? checkout.amountMinor,
+    currency: (session.currency ?? checkout.currency).toUpperCase(),
+    reference: intent,
+    invoiceId: checkout.invoiceId,
+    depositId: checkout.depositId,
+    providerPaymentId: intent ?? `session:${session.id}`,
+    providerSessionId: session.id,
+    userId: null,
+    authorId: null,
+  });
+  if (recorded && checkout.depositId) await setDepositStatus(tx, { shopId: checkout.shopId, id: checkout.depositId, status: "paid" });
+  return recorded !== null;
+}
+
+type RefundLike = { id: string; amount: number; payment_intent: string | { id: string } | null };
+
+/** Refunds the service made (ours, or from its dashboard): each recorded once, by its id. */
+export async function applyChargeRefunded(tx: Knex.Transaction, charge: Stripe.Charge & { refunds?: { data?: RefundLike[] } | null }): Promise<boolean> {
+  const intent = idOf(charge.payment_intent as string | { id: string } | null);
+  const original = intent ? await getPaymentByProviderId(tx, intent) : null;
+  if (!original) return false;
+  await lockJob(tx, { shopId: original.shopId, jobId: original.jobId });
+  let applied = false;
+  const refunds = charge.refunds?.data;
+  const base = { shopId: original.shopId, jobId: original.jobId, kind: "refund" as const, method: "online" as const, currency: original.currency, refundOfPaymentId: original.id, invoiceId: original.invoiceId, userId: null, authorId: null };
+  if (refunds?.length) {
+    for (const r of refunds) {
+      if (idOf(r.payment_intent) !== intent) continue;
+      applied = (await recordMoney(tx, { ...base, amountMinor: r.amount, reference: r.id, providerRefundId: r.id })) !== null || applied;
+    }
+    return applied;
+  }
+  // Without the list (some API versions leave it out): record whatever part of amount_refunded is new.
+  const known = (await listJobPayments({ shopId: original.shopId, jobId: original.jobId }, tx)).filter((p) => p.refundOfPaymentId === original.id).reduce((s, p) => s + p.amountMinor, 0);
+  const missing = charge.amount_refunded - known;
+  if (missing <= 0) return false;
+  return (await recordMoney(tx, { ...base, amountMinor: missing, reference: charge.id })) !== null;
+}
+
+async function applyCheckoutExpired(tx: Knex.Transaction, session: Stripe.Checkout.Session): Promise<boolean> {
+  const checkout = await getCheckoutBySessionId(tx, session.id);
+  if (!checkout || checkout.status !== "open") return false;
+  await closeCheckout(tx, { id: checkout.id, status: "expired" });
+  return true;
+}
+
+/** POST /api/webhooks/payments: verify on the raw body, then apply once. */
+export async function receivePaymentWebhook(rawBody: string, signature: string | null): Promise<{ received: true; duplicate: boolean; applied: boolean }> {
+  const event = verifyWebhook(rawBody, signature);
+  return db().transaction(async (tx) => {
+    if (!(await recordWebhookEvent(tx, { eventId: event.id, type: event.type }))) return { received: true, duplicate: true, applied: false };
+    let applied = false;
+    if (event.type === "checkout.session.completed" || event.type === "checkout.session.async_payment_succeeded") applied = await applyCheckoutCompleted(tx, event.data.object);
+    else if (event.type === "checkout.session.expired") applied = await applyCheckoutExpired(tx, event.data.object);
+    else if (event.type === "charge.refunded") applied = await applyChargeRefunded(tx, event.data.object);
+    return { received: true, duplicate: false, applied };
+  });
+}
+
+export type ReturnState = "paid" | "open" | "expired" | "unknown";
+
+/**
+ * The owner is back from the payment page with ?paid=<session>. The webhook may not have arrived
+ * yet: ask the service, and record the payment now if it is done (the webhook then finds it recorded).
+ */
+export async function confirmReturn(actor: Actor, jobPublicId: string, sessionId: string): Promise<ReturnState> {
+  const { job } = await invoiceJobAccess(actor, jobPublicId);
+  const checkout = await getCheckoutBySessionId(db(), sessionId);
+  if (!checkout || checkout.jobId !== job.id) return "unknown";
+  if (checkout.status === "complete") return "paid";
+  try {
+    const session = await stripe().checkout.sessions.retrieve(sessionId);
+    if (session.status === "complete" && session.payment_status === "paid") {
+      await db().transaction((tx) => applyCheckoutCompleted(tx, session));
+      return "paid";
+    }
+    return session.status === "expired" ? "expired" : "open";
+  } catch (error) {
+    console.error(error);
+    return "unknown";
+  }
+}

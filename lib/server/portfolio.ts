@@ -1,0 +1,174 @@
+import "server-only";
+import { getJobByPublicId } from "@/db/queries/jobs";
+import { enqueueMail } from "@/db/queries/outbox";
+import {
+  type StoryRow,
+  countItems,
+  getCustomerEmail,
+  getStory,
+  getStoryForJob,
+  insertConsent,
+  insertStory,
+  latestConsent,
+  lockStory,
+  moveStory,
+  slugTaken,
+} from "@/db/queries/portfolio";
+import { AppError } from "@/lib/errors";
+import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
+import { describeMachine } from "@/lib/machine";
+import { type Actor, can } from "@/lib/permissions";
+import { CONSENT_FROM, CONSENT_TO, type ConsentDecision, PUBLISHABLE_FROM, type StoryStatus, isReservedSlug, slugify } from "@/lib/portfolio";
+import { authorize } from "@/lib/server/authorize";
+import { appUrl } from "@/lib/server/config";
+import { db } from "@/lib/server/db";
+import { renderConsentMail } from "@/lib/server/emails/portfolio-consent";
+import { jobResource } from "@/lib/server/following";
+import { curationProblems, staffStory } from "@/lib/server/portfolio-curation";
+
+// Proposing a finished job, the machine owner's consent (given, refused, withdrawn) and the shop
+// owner's publish / take-down. Each is: find the resource → authorise → one transaction. Pages and
+// caches are refreshed by the server actions that call these (app/…/actions.ts).
+
+/** Where the owner answers (linked from the e-mail and the owner's job page). */
+export const consentPath = (jobPublicId: string) => `/my/jobs/${jobPublicId}/portfolio`;
+
+const NOT_ASKED = "The shop hasn't asked to show this job.";
+
+async function uniqueSlug(shopId: number, base: string): Promise<string> {
+  const slugged = slugify(base).slice(0, 72);
+  const root = isReservedSlug(slugged) ? `${slugged.slice(0, 66)}-story` : slugged;
+  for (let n = 1; n < 50; n++) {
+    const slug = n === 1 ? root : `${root}-${n}`;
+    if (!(await slugTaken(db(), { shopId, slug }))) return slug;
+  }
+  return `${root}-${Date.now().toString(36)}`;
+}
+
+/**
+ * Staff propose a collected job for the portfolio. The owner is asked at once, by e-mail through
+ * the outbox (in the same transaction); without an e-mail on file the story waits as "proposed".
+ * Proposing twice returns the story already there.
+ */
+export async function proposeStory(actor: Actor, jobPublicId: string): Promise<{ story: StoryRow; created: boolean; mailed: boolean }> {
+  const job = JOB_PUBLIC_ID_PATTERN.test(jobPublicId) ? await getJobByPublicId({ publicId: jobPublicId }) : null;
+  if (!job || !can(actor, "shop:view-board", { shopId: job.shopId })) throw new AppError("not_found", "No such job, or it isn't yours to see.");
+  authorize(actor, "portfolio:propose", { shopId: job.shopId });
+  const existing = await getStoryForJob({ shopId: job.shopId, jobId: job.id });
+  if (existing) return { story: existing, created: false, mailed: false };
+  if (job.status !== "picked_up") throw new AppError("conflict", "Only jobs the owner has collected can go in the portfolio.");
+  const machine = describeMachine(job.machine);
+  const slug = await uniqueSlug(job.shopId, machine);
+  const email = await getCustomerEmail(db(), { shopId: job.shopId, customerId: job.customerId });
+  let storyId = 0;
+  try {
+    storyId = await db().transaction(async (tx) => {
+      const id = await insertStory(tx, { shopId: job.shopId, jobId: job.id, slug, title: machine, status: email ? "consent_requested" : "proposed", proposedBy: actor.userId });
+      if (email) await queueConsentMail(tx, { shopId: job.shopId, shopName: job.shopName, to: email, ownerName: job.customerName, machine, jobPublicId, storyId: id });
+      return id;
+    });
+  } catch (error) {
+    // Two people proposing at once: the unique (shop, job) key lets one through.
+    if ((error as { code?: string }).code !== "ER_DUP_ENTRY") throw error;
+  }
+  const story = await getStoryForJob({ shopId: job.shopId, jobId: job.id });
+  if (!story) throw new AppError("internal", "The story wasn't saved.");
+  return { story, created: story.id === storyId, mailed: story.id === storyId && !!email };
+}
+
+async function queueConsentMail(
+  tx: Parameters<typeof enqueueMail>[0],
+  m: { shopId: number; shopName: string; to: string; ownerName: string; machine: string; jobPublicId: string; storyId: number },
+) {
+  const mail = await renderConsentMail({ shopName: m.shopName, ownerName: m.ownerName, machine: m.machine, answerUrl: `${appUrl()}${consentPath(m.jobPublicId)}` });
+  await enqueueMail(tx, { shopId: m.shopId, kind: "portfolio-consent", to: m.to, ...mail, dedupeKey: `portfolio-consent:${m.storyId}` });
+}
+
+/** A story proposed while the owner had no e-mail on file: ask now that there is one. */
+export async function askOwnerAgain(actor: Actor, shopSlug: string, storyId: number): Promise<StoryRow> {
+  const story = await staffStory(actor, shopSlug, storyId, "portfolio:curate");
+  if (story.status !== "proposed") throw new AppError("conflict", "The owner has already been asked; their answer shows on this page.");
+  if (!story.customer.email) throw new AppError("conflict", "The owner has no e-mail address on file. Add one to their record, then ask again.");
+  await db().transaction(async (tx) => {
+    if (!(await moveStory(tx, { shopId: story.shopId, storyId, from: ["proposed"], to: "consent_requested" }))) throw new AppError("conflict", "This story changed meanwhile; reload the page.");
+    const shop = await tx("shops").where({ id: story.shopId }).first("name");
+    await queueConsentMail(tx, { shopId: story.shopId, shopName: String(shop.name), to: story.customer.email!, ownerName: story.customer.name, machine: describeMachine(story.machine), jobPublicId: story.jobPublicId, storyId });
+  });
+  return (await getStory({ shopId: story.shopId, storyId }))!;
+}
+
+const CONSENT_REFUSALS: Partial<Record<StoryStatus, string>> = {
+  consented: "You've already agreed. You can withdraw your consent below.",
+  published: "You've already agreed and the story is public. You can withdraw your consent below.",
+  unpublished: "You've already agreed. You can withdraw your consent below.",
+  declined: "You've already said no. You can still change your mind and agree.",
+  withdrawn: "You've withdrawn your consent. You can still change your mind and agree.",
+  consent_requested: "You haven't agreed yet, so there is nothing to withdraw.",
+  proposed: "You haven't agreed yet, so there is nothing to withdraw.",
+};
+
+/** The owner's story for one of their jobs, or the same 404 for a job that isn't theirs. */
+export async function ownerStory(actor: Actor, jobPublicId: string) {
+  const job = JOB_PUBLIC_ID_PATTERN.test(jobPublicId) ? await getJobByPublicId({ publicId: jobPublicId }) : null;
+  const resource = job && (await jobResource(actor, job));
+  if (!job || !resource || !can(actor, "job:view", resource)) throw new AppError("not_found", "No such job, or it isn't yours to see.");
+  authorize(actor, "portfolio:consent", resource);
+  return { job, story: await getStoryForJob({ shopId: job.shopId, jobId: job.id }) };
+}
+
+/**
+ * The machine owner's answer: given, refused or withdrawn, with the name they typed, when, from
+ * which address and browser. Recorded and applied in one transaction on the locked story row,
+ * so a withdrawal and a publish can't cross: withdrawn means offline from this commit on.
+ */
+export async function decideConsent(
+  actor: Actor,
+  jobPublicId: string,
+  input: { decision: ConsentDecision; name: string },
+  meta: { ip: string; userAgent: string | null },
+): Promise<{ story: StoryRow; status: StoryStatus }> {
+  const { story } = await ownerStory(actor, jobPublicId);
+  if (!story) throw new AppError("not_found", NOT_ASKED);
+  const name = input.name.trim();
+  if (!name) throw new AppError("invalid", "Type your name to sign your answer.", { name: ["Type your name to sign your answer."] });
+  const to = CONSENT_TO[input.decision];
+  await db().transaction(async (tx) => {
+    const locked = await lockStory(tx, { shopId: story.shopId, storyId: story.id });
+    if (!locked) throw new AppError("not_found", NOT_ASKED);
+    if (!CONSENT_FROM[input.decision].includes(locked.status)) throw new AppError("conflict", CONSENT_REFUSALS[locked.status] ?? "That answer doesn't apply now; reload the page.");
+    await insertConsent(tx, { shopId: story.shopId, storyId: story.id, userId: actor.userId, name, decision: input.decision, ip: meta.ip, userAgent: meta.userAgent });
+    await moveStory(tx, { shopId: story.shopId, storyId: story.id, from: [locked.status], to });
+  });
+  return { story, status: to };
+}
+
+const PUBLISH_REFUSALS: Partial<Record<StoryStatus, string>> = {
+  proposed: "The owner hasn't been asked yet: nothing is published without their consent.",
+  consent_requested: "The owner hasn't answered yet: nothing is published without their consent.",
+  declined: "The owner said no: this story can't be published.",
+  withdrawn: "The owner withdrew consent: this story can't be published.",
+  published: "This story is already public.",
+};
+
+/** The shop owner publishes, only with the machine owner's standing consent and nothing private in the words. */
+export async function publishStory(actor: Actor, shopSlug: string, storyId: number): Promise<StoryRow> {
+  const story = await staffStory(actor, shopSlug, storyId, "portfolio:publish");
+  const problems = await curationProblems(story);
+  if (problems) throw new AppError("invalid", `This story can't go public yet: ${problems}`);
+  await db().transaction(async (tx) => {
+    const locked = await lockStory(tx, { shopId: story.shopId, storyId });
+    if (!locked || !PUBLISHABLE_FROM.includes(locked.status)) throw new AppError("conflict", PUBLISH_REFUSALS[locked?.status ?? "proposed"] ?? "This story can't be published now.");
+    // The status says consent was given; the record must say so too.
+    if ((await latestConsent(tx, { shopId: story.shopId, storyId })) !== "given") throw new AppError("conflict", PUBLISH_REFUSALS.consent_requested!);
+    if ((await countItems(tx, { shopId: story.shopId, storyId })) === 0) throw new AppError("conflict", "Add at least one photo, clip or record to the story before publishing it.");
+    await moveStory(tx, { shopId: story.shopId, storyId, from: PUBLISHABLE_FROM, to: "published", publishedBy: actor.userId });
+  });
+  return (await getStory({ shopId: story.shopId, storyId }))!;
+}
+
+/** Takes a public story down (the owner's consent stands; it can be published again). */
+export async function unpublishStory(actor: Actor, shopSlug: string, storyId: number): Promise<StoryRow> {
+  const story = await staffStory(actor, shopSlug, storyId, "portfolio:curate");
+  if (!(await moveStory(db(), { shopId: story.shopId, storyId, from: ["published"], to: "unpublished" }))) throw new AppError("conflict", "This story isn't public.");
+  return (await getStory({ shopId: story.shopId, storyId }))!;
+}

@@ -1,0 +1,130 @@
+import fs from "node:fs";
+import path from "node:path";
+import AxeBuilder from "@axe-core/playwright";
+import { type Page, expect, test } from "@playwright/test";
+import { publicIdOf } from "./db";
+import { waitForMail } from "../support/mailbox";
+import { mailBaseUrl } from "./pages/sign-in-page";
+import { CUSTOMERS, storageStatePath } from "./personas";
+
+// Issue 8 end to end on J-0001 (Ruth Calloway's ATV, collected): the bench shares a photo and a
+// clip, the shop owner proposes the job, Ruth agrees from the e-mail's link, the shop owner
+// curates and publishes, a visitor with no account reads the story with its photo and clip, and
+// when Ruth withdraws the story is gone on the next request.
+const PHOTOS = path.join(__dirname, "..", "fixtures", "photos");
+const CLIPS = path.join(__dirname, "..", "fixtures", "clips");
+const TAGS = ["wcag2a", "wcag2aa", "wcag21a", "wcag21aa", "wcag22aa"]; // WCAG 2.2 AA through axe-core's tags
+
+async function expectNoViolations(page: Page) {
+  const { violations } = await new AxeBuilder({ page }).withTags(TAGS).analyze();
+  expect(violations.map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`)).toEqual([]);
+}
+
+test("propose a collected job, the owner agrees by e-mail, the shop owner publishes, anyone reads it; withdrawn, it is gone", async ({ browser }) => {
+  test.setTimeout(240_000);
+  const id = Date.now().toString(36);
+  const caption = `Rebuilt front end ${id}`;
+  const job = await publicIdOf(1);
+
+  // The bench shares a photo (through the API, as the composer does) and a clip (through the composer).
+  const techContext = await browser.newContext({ storageState: storageStatePath("technician") });
+  const tech = await techContext.newPage();
+  const upload = await tech.request.post(`/api/jobs/${job}/photos`, {
+    multipart: { photo: { name: "front-end.png", mimeType: "image/png", buffer: fs.readFileSync(path.join(PHOTOS, "plain.png")) } },
+  });
+  expect(upload.status()).toBe(200);
+  const { photo } = (await upload.json()) as { photo: { id: string } };
+  const posted = await tech.request.post(`/api/jobs/${job}/entries`, { data: { kind: "photos", photoIds: [photo.id], caption, visibility: "shared" } });
+  expect(posted.status()).toBe(200);
+  await tech.goto("/shop/copper-gulch/jobs/1");
+  await tech.getByRole("tab", { name: "Clip" }).click();
+  await tech.getByLabel("Share new clips with the owner (otherwise shop only)").check();
+  await tech.getByLabel("Choose clips").setInputFiles(path.join(CLIPS, "bench-idle.mp4"));
+  await expect(tech.getByRole("list", { name: "Clips on their way" }).getByText(/Sent\. It shows in the journal/)).toBeVisible({ timeout: 30_000 });
+  await expect(tech.getByRole("article").filter({ hasText: "Clip, 0:03" }).first()).toBeVisible({ timeout: 45_000 });
+  await techContext.close();
+
+  // The shop owner proposes it from the job page; the story opens, waiting on the owner.
+  const deskContext = await browser.newContext({ storageState: storageStatePath("owner") });
+  const desk = await deskContext.newPage();
+  await desk.goto("/shop/copper-gulch/jobs/1");
+  const since = new Date();
+  await desk.getByRole("region", { name: "Public portfolio" }).getByRole("button", { name: "Propose for the portfolio" }).click();
+  await desk.waitForURL(/\/shop\/copper-gulch\/portfolio\/\d+$/);
+  const storyAdmin = desk.url();
+  const publishing = desk.getByRole("region", { name: "Consent and publishing" });
+  await expect(publishing).toContainText("Waiting on the owner's answer");
+  await expect(publishing.getByRole("button", { name: "Publish" })).toHaveCount(0);
+
+  // Ruth follows the e-mail's button and agrees, signing with her name.
+  const mail = await waitForMail({ baseUrl: mailBaseUrl(), to: CUSTOMERS.jobCustomer.email, since, subjectIncludes: "would like to show the work" });
+  const link = mail.links.find((l) => l.endsWith(`/my/jobs/${job}/portfolio`));
+  expect(link, "the e-mail links to the consent page").toBeTruthy();
+  const ownerContext = await browser.newContext({ storageState: storageStatePath("jobCustomer") });
+  const owner = await ownerContext.newPage();
+  await owner.goto(link!);
+  await expect(owner.getByRole("heading", { level: 1, name: "Show this job in public?" })).toBeVisible();
+  await owner.getByLabel(/Type your full name to sign your answer/).fill("Ruth Calloway");
+  await owner.getByRole("button", { name: "Yes, the shop may show it" }).click();
+  await expect(owner.getByRole("status").filter({ hasText: "the shop may now publish the story" })).toBeVisible();
+
+  // The shop owner curates: title, write-up, cover, the photo set and the clip; then publishes.
+  await desk.goto(storyAdmin);
+  await expect(publishing).toContainText("Owner agreed, not public yet");
+  const title = `Ridgeline front end, back on the trail ${id}`;
+  await desk.getByLabel(/^Title/).fill(title);
+  await desk.getByLabel(/^Web address/).fill(`ridgeline-front-end-${id}`);
+  await desk.getByRole("textbox", { name: "Write-up (optional)" }).click();
+  await desk.keyboard.type("Came in clunking over bumps. New tie-rod ends and a torqued axle nut later, it runs straight.");
+  await desk.getByRole("radio", { name: new RegExp(`Cover: Photo 1 of: .*${caption}`) }).check();
+  await desk.getByRole("button", { name: new RegExp(`Add the whole set: .*${caption}`) }).click();
+  await desk.getByRole("button", { name: /^Add the clip: Clip/ }).first().click();
+  const items = desk.getByRole("list", { name: "In the story, in order" });
+  await expect(items.getByRole("listitem")).toHaveCount(2);
+  await items.getByRole("listitem").first().getByLabel("Caption for the public (optional)").fill("Tie-rod ends and boots, new");
+  await desk.getByRole("button", { name: "Save the story" }).click();
+  await expect(desk.getByRole("status").filter({ hasText: "Saved." })).toBeVisible();
+  await publishing.getByRole("button", { name: "Publish" }).click();
+  await expect(publishing.getByRole("button", { name: "Take it down" })).toBeVisible();
+  const storyPath = `/s/copper-gulch/ridgeline-front-end-${id}`;
+
+  // Anyone: the shop's page lists it; the story shows the photo, the clip, and good metadata.
+  const visitorContext = await browser.newContext();
+  const visitor = await visitorContext.newPage();
+  await visitor.goto("/s/copper-gulch");
+  await expect(visitor.getByRole("heading", { level: 1, name: "Copper Gulch Powersports" })).toBeVisible();
+  await expectNoViolations(visitor);
+  await visitor.getByRole("link", { name: title }).click();
+  await visitor.waitForURL(new RegExp(`${storyPath}$`));
+  await expect(visitor.getByRole("heading", { level: 1, name: title })).toBeVisible();
+  const html = await visitor.content();
+  for (const secret of ["Ruth", "Calloway", "TSR57-19-004418", job]) expect(html).not.toContain(secret);
+  expect(await visitor.locator("body").innerText()).not.toMatch(/\$\s?\d/);
+  const thumb = visitor.getByRole("list", { name: /Photos: Tie-rod ends/ }).locator("img");
+  await expect.poll(() => thumb.evaluate((img) => (img as HTMLImageElement).naturalWidth)).toBeGreaterThan(0);
+  const cover = visitor.getByRole("img", { name: /the machine in this story/ });
+  await expect.poll(() => cover.evaluate((img) => (img as HTMLImageElement).naturalWidth)).toBeGreaterThan(0);
+  const clip = visitor.getByRole("region", { name: /^Clip, part/ });
+  await clip.scrollIntoViewIfNeeded();
+  const player = clip.locator("mux-player:not([data-mux-player-react-lazy-placeholder])");
+  await expect(player).toHaveAttribute("src", new RegExp(`${storyPath}/clips/[^/]+/video\\.mp4$`), { timeout: 20_000 });
+  // It really plays for someone with no account: the browser reads the clip's length.
+  await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(2.5);
+  await expect(visitor.locator('link[rel="canonical"]')).toHaveAttribute("href", new RegExp(`${storyPath}$`));
+  const ogImage = await visitor.locator('meta[property="og:image"]').getAttribute("content");
+  const card = await visitor.request.get(ogImage!);
+  expect([card.status(), card.headers()["content-type"]]).toEqual([200, "image/png"]);
+  await expectNoViolations(visitor);
+  expect(await (await visitor.request.get("/sitemap.xml")).text()).toContain(storyPath);
+
+  // Ruth withdraws: the very next request for the story is a 404, photo and card too.
+  await owner.goto(`/my/jobs/${job}/portfolio`);
+  await owner.getByLabel(/Type your full name to sign your answer/).fill("Ruth Calloway");
+  await owner.getByRole("button", { name: "Withdraw my consent" }).click();
+  await expect(owner.getByRole("status").filter({ hasText: "no longer public" })).toBeVisible();
+  expect((await visitor.goto(storyPath))?.status()).toBe(404);
+  expect((await visitor.request.get(ogImage!)).status()).toBe(404);
+  await visitor.goto("/s/copper-gulch");
+  await expect(visitor.getByRole("link", { name: title })).toHaveCount(0);
+  await Promise.all([visitorContext.close(), ownerContext.close(), deskContext.close()]);
+});

@@ -1,0 +1,156 @@
+// Online payment end to end below the browser: the app's checkout through the stripe SDK, the
+// payments fake's page and its signed webhooks, delivered to the app's handler (receivePaymentWebhook).
+import { mkdtemp, rm } from "node:fs/promises";
+import http from "node:http";
+import os from "node:os";
+import path from "node:path";
+import Stripe from "stripe";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Knex } from "knex";
+import { dropWebhooks, listWebhookDeliveries, redeliverWebhook, submitPaymentPage, waitForWebhook } from "../../fakes/payments/client";
+import { createPaymentsFake, type PaymentsFake } from "../../fakes/payments/server";
+import { saveMoneySettings } from "@/db/queries/findings";
+import { DEFAULT_MONEY_SETTINGS } from "@/lib/approvals";
+import type { Actor } from "@/lib/permissions";
+import { refundPayment, startDepositCheckout, startInvoiceCheckout, requestDeposit } from "@/lib/server/invoice-payments";
+import { createInvoice, issueInvoice } from "@/lib/server/invoices";
+import { confirmReturn, receivePaymentWebhook } from "@/lib/server/payment-webhook";
+import { authorise, ownerWithJobs, staffActor } from "../support/authorised-work";
+import { testKnex } from "../support/db";
+import { makeShop } from "../support/fixtures";
+
+const KEY = "sk_test_benchside_webhook_test";
+const SECRET = "whsec_benchside_webhook_test";
+
+/** The app's webhook route, in-process: the raw body and signature go to the real handler. */
+async function startAppWebhook() {
+  const answers: number[] = [];
+  const server = http.createServer((req, res) => {
+    const chunks: Buffer[] = [];
+    req.on("data", (c: Buffer) => chunks.push(c));
+    req.on("end", () => {
+      receivePaymentWebhook(Buffer.concat(chunks).toString("utf8"), (req.headers["stripe-signature"] as string | undefined) ?? null).then(
+        (result) => (answers.push(200), res.writeHead(200, { "content-type": "application/json" }).end(JSON.stringify(result))),
+        (error: { status?: number }) => (answers.push(error.status ?? 500), res.writeHead(error.status ?? 500).end()),
+      );
+    });
+  });
+  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
+  return { url: `http://127.0.0.1:${(server.address() as { port: number }).port}/api/webhooks/payments`, answers, close: () => new Promise<void>((r) => server.close(() => r())) };
+}
+
+describe("online payments through the payments fake", () => {
+  let k: Knex;
+  let dir: string;
+  let fake: PaymentsFake;
+  let hook: Awaited<ReturnType<typeof startAppWebhook>>;
+  let writer: Actor;
+  let shopOwner: Actor;
+  let owner: Actor;
+  let jobs: { id: number; publicId: string }[];
+  let invoice: string;
+  const row = () => k("invoices").where({ public_id: invoice }).first();
+  const payments = (jobId: number) => k("payments").where({ job_id: jobId }).orderBy("id");
+
+  beforeAll(async () => {
+    k = testKnex();
+    dir = await mkdtemp(path.join(os.tmpdir(), "payments-webhook-"));
+    hook = await startAppWebhook();
+    fake = await createPaymentsFake({ port: 0, dir, secretKey: KEY, webhookUrl: hook.url, webhookSecret: SECRET, webhookRetryBaseMs: 50 });
+    Object.assign(process.env, { STRIPE_SECRET_KEY: KEY, STRIPE_WEBHOOK_SECRET: SECRET, STRIPE_API_HOST: "127.0.0.1", STRIPE_API_PORT: String(fake.port), STRIPE_API_PROTOCOL: "http", APP_URL: "http://localhost:3999" });
+    const shop = await makeShop(k, { label: "payments", roles: ["owner", "service_writer"] });
+    writer = staffActor(shop, "service_writer");
+    shopOwner = staffActor(shop, "owner");
+    await saveMoneySettings({ shopId: shop.id, settings: { ...DEFAULT_MONEY_SETTINGS, tax: { ratePercent: "8.25", method: "per_line" } } });
+    ({ owner, jobs } = await ownerWithJobs(k, shop, 2));
+    // $42.50 + 8.25 % tax $3.51 (REFERENCES §5, per-line worked value) = $46.01.
+    await authorise({ writer, owner, jobPublicId: jobs[0]!.publicId, title: "Rotor", lines: [{ kind: "part", description: "Front rotor", qty: "1", unitPrice: "42.50" }] });
+    invoice = (await createInvoice(writer, jobs[0]!.publicId)).publicId;
+    await issueInvoice(writer, invoice, (await row()).version);
+  });
+  afterAll(async () => {
+    await fake?.close();
+    await hook?.close();
+    await k?.destroy();
+    await rm(dir, { recursive: true, force: true });
+  });
+
+  it("refuses a forged, stale or altered webhook (401) and records nothing", async () => {
+    const payload = JSON.stringify({ id: "evt_forged_1", object: "event", type: "checkout.session.completed", data: { object: { id: "cs_test_x", payment_status: "paid" } } });
+    const sign = (body: string, secret = SECRET, timestamp = Math.floor(Date.now() / 1000)) => Stripe.webhooks.generateTestHeaderString({ payload: body, secret, timestamp });
+    await expect(receivePaymentWebhook(payload, sign(payload, "whsec_not_ours"))).rejects.toMatchObject({ code: "unauthenticated" });
+    await expect(receivePaymentWebhook(payload, null)).rejects.toMatchObject({ code: "unauthenticated" });
+    // The SDK's default tolerance is 300 s (SDK-NOTES): ten minutes old is refused.
+    await expect(receivePaymentWebhook(payload, sign(payload, SECRET, Math.floor(Date.now() / 1000) - 600))).rejects.toMatchObject({ code: "unauthenticated" });
+    await expect(receivePaymentWebhook(payload.replace("cs_test_x", "cs_test_y"), sign(payload))).rejects.toMatchObject({ code: "unauthenticated" });
+    expect(await k("payment_webhook_events").where({ event_id: "evt_forged_1" })).toHaveLength(0);
+  });
+
+  it("only the job's owner may start paying", async () => {
+    await expect(startInvoiceCheckout(writer, invoice)).rejects.toMatchObject({ code: "forbidden" });
+    const other = (await ownerWithJobs(k, { id: (await row()).shop_id, slug: "", staff: {} }, 1, "Not The Owner")).owner;
+    await expect(startInvoiceCheckout(other, invoice)).rejects.toMatchObject({ code: "not_found" });
+  });
+
+  it("a declined card leaves the invoice unpaid; the success card pays it once, even when the webhook comes twice", async () => {
+    const { url } = await startInvoiceCheckout(owner, invoice);
+    expect(url).toMatch(new RegExp(`^${fake.url}/pay/cs_test_`));
+    // A second tap reuses the same page.
+    expect((await startInvoiceCheckout(owner, invoice)).url).toBe(url);
+    const declined = await submitPaymentPage(url, { card: "4000 0000 0000 0002" });
+    expect(declined.html).toContain("Your card was declined.");
+    const sessionId = url.split("/").pop()!;
+    expect(await confirmReturn(owner, jobs[0]!.publicId, sessionId)).toBe("open");
+    expect(await row()).toMatchObject({ status: "issued", balance_minor: 4601 });
+
+    const paid = await submitPaymentPage(url, { card: "4242 4242 4242 4242" });
+    expect(paid.location).toBe(`http://localhost:3999/my/jobs/${jobs[0]!.publicId}/invoice?paid=${sessionId}`);
+    const delivery = await waitForWebhook(fake.url, { type: "checkout.session.completed", objectId: sessionId });
+    expect(await row()).toMatchObject({ status: "paid", paid_minor: 4601, balance_minor: 0 });
+    await redeliverWebhook(fake.url, delivery.event.id);
+    await expect.poll(async () => (await listWebhookDeliveries(fake.url, { objectId: sessionId })).find((d) => d.event.id === delivery.event.id)?.attempts.length).toBe(2);
+    expect(await confirmReturn(owner, jobs[0]!.publicId, sessionId)).toBe("paid");
+    const rows = await payments(jobs[0]!.id);
+    expect(rows).toHaveLength(1);
+    expect(rows[0]).toMatchObject({ kind: "payment", method: "online", amount_minor: 4601, provider_session_id: sessionId });
+    expect(await k("journal_entries").where({ job_id: jobs[0]!.id, kind: "payment" })).toHaveLength(1);
+    const receipts = await k("outbox").where({ kind: "receipt", to_email: owner.email });
+    expect(receipts).toHaveLength(1);
+    expect(receipts[0].text).toContain("Received: $46.01");
+  });
+
+  it("a refund reduces the paid amount once, whether the API answer or the webhook is seen first", async () => {
+    const payment = (await payments(jobs[0]!.id))[0]!;
+    await expect(refundPayment(writer, { payment: payment.id, amount: "10.00", reason: null, confirmed: "yes" })).rejects.toMatchObject({ code: "forbidden" });
+    await expect(refundPayment(shopOwner, { payment: payment.id, amount: "46.02", reason: null, confirmed: "yes" })).rejects.toThrow(/At most \$46\.01/);
+    await refundPayment(shopOwner, { payment: payment.id, amount: "10.00", reason: "Goodwill", confirmed: "yes" });
+    const intent = String(payment.provider_payment_id);
+    const charge = String((await new Stripe(KEY, { host: "127.0.0.1", port: fake.port, protocol: "http" }).paymentIntents.retrieve(intent)).latest_charge);
+    await waitForWebhook(fake.url, { type: "charge.refunded", objectId: charge });
+    const refunds = (await payments(jobs[0]!.id)).filter((p) => p.kind === "refund");
+    expect(refunds).toHaveLength(1);
+    expect(refunds[0]).toMatchObject({ amount_minor: 1000, refund_of_payment_id: payment.id });
+    expect(await row()).toMatchObject({ paid_minor: 3601, balance_minor: 1000, status: "issued" });
+    // The webhook found the refund already recorded from the API answer, and said so with a 200.
+    expect(hook.answers).not.toContain(500);
+    expect(await k("outbox").where({ kind: "receipt", to_email: owner.email })).toHaveLength(2);
+  });
+
+  it("a deposit paid online on return is recorded once when the webhook arrives later", async () => {
+    const job = jobs[1]!;
+    const { deposit } = await requestDeposit(writer, { job: job.publicId, amount: "25.00", note: null, request: null });
+    await dropWebhooks(fake.url, true);
+    const { url } = await startDepositCheckout(owner, deposit.publicId);
+    const sessionId = url.split("/").pop()!;
+    await submitPaymentPage(url, { card: "4242424242424242" });
+    // Back on the invoice page before any webhook: the app asks the service and records it.
+    expect(await confirmReturn(owner, job.publicId, sessionId)).toBe("paid");
+    expect((await k("deposit_requests").where({ public_id: deposit.publicId }).first()).status).toBe("paid");
+    await dropWebhooks(fake.url, false);
+    const dropped = await waitForWebhook(fake.url, { type: "checkout.session.completed", objectId: sessionId }, "dropped");
+    await redeliverWebhook(fake.url, dropped.event.id);
+    await waitForWebhook(fake.url, { type: "checkout.session.completed", objectId: sessionId });
+    const rows = await payments(job.id);
+    expect(rows.map((r) => [r.kind, r.amount_minor])).toEqual([["deposit", 2500]]);
+  });
+});

@@ -1,0 +1,257 @@
+import crypto from "node:crypto";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { createElement } from "react";
+import { renderToStaticMarkup } from "react-dom/server";
+import { NextRequest } from "next/server";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Knex } from "knex";
+import { GET as storyJson } from "@/app/api/public/stories/[shop]/[story]/route";
+import { GET as storyPhoto } from "@/app/(public)/s/[shop]/[story]/photos/[photo]/[size]/route";
+import { GET as storyClip } from "@/app/(public)/s/[shop]/[story]/clips/[clip]/[file]/route";
+import { GET as shopLogo } from "@/app/(public)/s/[shop]/logo/route";
+import exifr from "exifr";
+import { createClipEntry } from "@/db/queries/clips";
+import { insertEntry } from "@/db/queries/journal";
+import { StoryView } from "@/components/portfolio/story-view";
+import type { Actor } from "@/lib/permissions";
+import type { PublicStory } from "@/lib/portfolio";
+import { decideConsent, proposeStory, publishStory, unpublishStory } from "@/lib/server/portfolio";
+import { curateStory, saveProfile } from "@/lib/server/portfolio-curation";
+import { shopProfileSchema } from "@/lib/portfolio";
+import { getPublicShopPage, getPublicStory, publicStoryGate } from "@/lib/server/portfolio-public";
+import { storage } from "@/lib/server/storage";
+import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
+import { testKnex } from "../support/db";
+
+type Shop = Awaited<ReturnType<typeof makeShop>>;
+const staff = (shop: Shop, role: "owner" | "technician" | "service_writer"): Actor => ({
+  userId: shop.staff[role]!.id,
+  email: shop.staff[role]!.email,
+  name: role,
+  memberships: [{ shopId: shop.id, shopSlug: shop.slug, shopName: shop.slug, role }],
+});
+const meta = { ip: "203.0.113.9", userAgent: "vitest portfolio" };
+const doc = (text: string) => JSON.stringify({ type: "doc", content: [{ type: "paragraph", content: [{ type: "text", text }] }] });
+const OWNER_NAME = "Odile Varnakova";
+const SERIAL = "QX7-20-555123";
+
+describe("public portfolio", () => {
+  let k: Knex;
+  let shop: Shop;
+  let uploads: string;
+  let owner: Actor;
+  let stranger: Actor;
+  let jobPublicId: string;
+  let openJobPublicId: string;
+  const ids = { sharedPhotos: 0, hiddenPhotos: 0, hiddenNote: 0, torque: 0, clip: 0, otherShared: 0 };
+  const photo = { shown: "", hidden: "", notInStory: "" };
+
+  async function addPhotoEntry(jobId: number, visibility: "shop" | "shared", count: number) {
+    const entryId = await insertEntry(k, { shopId: shop.id, jobId, kind: "photos", authorId: shop.staff.technician!.id, visibility, caption: `Photos for ${OWNER_NAME}` });
+    const made: string[] = [];
+    for (let position = 0; position < count; position++) {
+      const publicId = crypto.randomBytes(16).toString("base64url").slice(0, 22);
+      const key = `shops/${shop.id}/photos/${crypto.randomBytes(8).toString("hex")}`;
+      await storage().put(`${key}/display.jpg`, Buffer.from("display-bytes"), "image/jpeg");
+      await storage().put(`${key}/thumb.jpg`, Buffer.from("thumb-bytes"), "image/jpeg");
+      await k("photos").insert({ public_id: publicId, shop_id: shop.id, job_id: jobId, entry_id: entryId, position, display_key: `${key}/display.jpg`, thumb_key: `${key}/thumb.jpg`, width: 800, height: 600, bytes: 13 });
+      made.push(publicId);
+    }
+    return { entryId, photos: made };
+  }
+
+  const json = (slug: string) => storyJson(new NextRequest(`http://app.test/api/public/stories/${shop.slug}/${slug}`), { params: Promise.resolve({ shop: shop.slug, story: slug }) });
+  const image = (slug: string, id: string) =>
+    storyPhoto(new NextRequest(`http://app.test/s/${shop.slug}/${slug}/photos/${id}/display`), { params: Promise.resolve({ shop: shop.slug, story: slug, photo: id, size: "display" }) });
+
+  const video = (slug: string, id: string) =>
+    storyClip(new NextRequest(`http://app.test/s/${shop.slug}/${slug}/clips/${id}/video.mp4`), { params: Promise.resolve({ shop: shop.slug, story: slug, clip: id, file: "video.mp4" }) });
+
+  beforeAll(async () => {
+    k = testKnex();
+    uploads = fs.mkdtempSync(path.join(os.tmpdir(), "benchside-portfolio-"));
+    process.env.STORAGE_DIR = uploads;
+    process.env.MUX_TOKEN_ID ??= "test-token";
+    process.env.MUX_TOKEN_SECRET ??= "test-secret";
+    process.env.VIDEO_PLAYBACK_URL = "http://127.0.0.1:1/media/{id}/video.mp4";
+    process.env.VIDEO_POSTER_URL = "http://127.0.0.1:1/media/{id}/poster.jpg";
+    shop = await makeShop(k, { label: "portfolio", roles: ["owner", "service_writer", "technician"] });
+    const email = `odile.${shop.slug}@mail.test`;
+    const [userId] = await k("users").insert({ email, name: OWNER_NAME });
+    owner = { userId: Number(userId), email, name: OWNER_NAME, memberships: [] };
+    const [otherId] = await k("users").insert({ email: `someone.${shop.slug}@mail.test`, name: "Someone Else" });
+    stranger = { userId: Number(otherId), email: `someone.${shop.slug}@mail.test`, name: "Someone Else", memberships: [] };
+    const made = await makeCustomerWithJobs(k, shop.id, { name: OWNER_NAME, email, userId: Number(userId), serial: SERIAL, statuses: ["picked_up", "in_progress"] });
+    const [jobId, openJobId] = made.jobIds as [number, number];
+    jobPublicId = String((await k("jobs").where({ id: jobId }).first("public_id")).public_id);
+    openJobPublicId = String((await k("jobs").where({ id: openJobId }).first("public_id")).public_id);
+
+    const shared = await addPhotoEntry(jobId, "shared", 2);
+    const hidden = await addPhotoEntry(jobId, "shop", 1);
+    const other = await addPhotoEntry(jobId, "shared", 1);
+    ids.sharedPhotos = shared.entryId;
+    ids.hiddenPhotos = hidden.entryId;
+    ids.otherShared = other.entryId;
+    [photo.shown, photo.hidden, photo.notInStory] = [shared.photos[0]!, hidden.photos[0]!, other.photos[0]!];
+    ids.hiddenNote = await insertEntry(k, { shopId: shop.id, jobId, kind: "note", authorId: null, visibility: "shop", body: JSON.parse(doc("Quoted $480.00 to the owner")) });
+    ids.torque = await insertEntry(k, {
+      shopId: shop.id,
+      jobId,
+      kind: "torque",
+      authorId: null,
+      visibility: "shared",
+      body: { fastener: "Front axle nut", specValue: 70, unit: "lbf_ft", appliedValue: 70, tool: "Shop wrench 7", passPercents: [30, 60, 100], boltCount: null, pattern: null, note: "Owner paid $12.50 extra", displayUnit: "nm" },
+    });
+    ({ entryId: ids.clip } = await createClipEntry({ shopId: shop.id, jobId, userId: shop.staff.technician!.id, uploadId: `up_${crypto.randomBytes(6).toString("hex")}`, publicId: crypto.randomBytes(16).toString("base64url").slice(0, 22), name: "idle.mp4", bytes: 10, caption: null, visibility: "shared" }));
+    await k("clips").where({ entry_id: ids.clip }).update({ status: "ready", playback_id: "pb-portfolio-1", duration_seconds: 3.2, aspect_ratio: "16:9" });
+  });
+  afterAll(async () => {
+    await k?.destroy();
+    fs.rmSync(uploads, { recursive: true, force: true });
+  });
+
+  let storyId = 0;
+  let slug = "";
+
+  it("staff propose only collected jobs; the desk may, the bench may not; the owner is asked by e-mail", async () => {
+    await expect(proposeStory(staff(shop, "technician"), jobPublicId)).rejects.toMatchObject({ code: "forbidden" });
+    await expect(proposeStory(staff(shop, "service_writer"), openJobPublicId)).rejects.toMatchObject({ code: "conflict" });
+    const { story, created, mailed } = await proposeStory(staff(shop, "service_writer"), jobPublicId);
+    expect([created, mailed, story.status]).toEqual([true, true, "consent_requested"]);
+    storyId = story.id;
+    slug = story.slug;
+    const mail = await k("outbox").where({ dedupe_scope: shop.id, dedupe_key: `portfolio-consent:${story.id}` }).first();
+    expect(mail.to_email).toBe(owner.email);
+    expect(mail.html).toContain(`/my/jobs/${jobPublicId}/portfolio`);
+    // Twice is the same story, and no second mail.
+    expect((await proposeStory(staff(shop, "owner"), jobPublicId)).created).toBe(false);
+    expect(await k("outbox").where({ dedupe_scope: shop.id }).where("dedupe_key", "like", "portfolio-consent:%")).toHaveLength(1);
+  });
+
+  it("curation takes only this job's shared entries, and no owner's name, serial or price in the words", async () => {
+    const writer = staff(shop, "service_writer");
+    const base = { story: storyId, version: 1, slug: "axle-and-brakes", writeUp: doc("Front end rebuilt, axle nut torqued in three passes."), cover: photo.shown };
+    const items = [
+      { kind: "photos" as const, entryId: ids.sharedPhotos, caption: "Before and after" },
+      { kind: "clip" as const, entryId: ids.clip, momentSeconds: 1.5, caption: null },
+      { kind: "torque" as const, entryId: ids.torque, caption: null },
+    ];
+    await expect(curateStory(writer, shop.slug, { ...base, title: `${OWNER_NAME.split(" ")[0]}'s ATV`, items })).rejects.toMatchObject({ code: "invalid", fields: { title: [expect.stringMatching(/owner's name/)] } });
+    await expect(curateStory(writer, shop.slug, { ...base, title: `Serial ${SERIAL}`, items })).rejects.toMatchObject({ fields: { title: [expect.stringMatching(/serial/)] } });
+    await expect(curateStory(writer, shop.slug, { ...base, title: "Axle job", items: [{ ...items[0]!, caption: "All done for $240" }] })).rejects.toMatchObject({ fields: { "items.0.caption": [expect.stringMatching(/price/)] } });
+    await expect(curateStory(writer, shop.slug, { ...base, title: "Axle job", items: [{ kind: "photos", entryId: ids.hiddenPhotos, caption: null }] })).rejects.toMatchObject({ fields: { "items.0": [expect.stringMatching(/isn't a shared entry/)] } });
+    await expect(curateStory(writer, shop.slug, { ...base, title: "Axle job", cover: photo.hidden, items })).rejects.toMatchObject({ fields: { cover: [expect.any(String)] } });
+    await expect(curateStory(staff(shop, "technician"), shop.slug, { ...base, title: "Axle job", items })).rejects.toMatchObject({ code: "forbidden" });
+    const saved = await curateStory(writer, shop.slug, { ...base, title: "Front axle and brakes, back on the trail", items });
+    slug = saved.slug;
+    expect(saved.version).toBe(2);
+    // Saving from a stale form is refused rather than silently overwriting.
+    await expect(curateStory(writer, shop.slug, { ...base, title: "Stale", items })).rejects.toMatchObject({ code: "conflict" });
+  });
+
+  it("a story can't be published without the owner's consent, and only the shop owner publishes", async () => {
+    await expect(publishStory(staff(shop, "owner"), shop.slug, storyId)).rejects.toMatchObject({ code: "conflict", message: expect.stringMatching(/hasn't answered/) });
+    await expect(publishStory(staff(shop, "service_writer"), shop.slug, storyId)).rejects.toMatchObject({ code: "forbidden" });
+    // A status forced by hand without a consent record still doesn't publish.
+    await k("stories").where({ id: storyId }).update({ status: "consented" });
+    await expect(publishStory(staff(shop, "owner"), shop.slug, storyId)).rejects.toMatchObject({ code: "conflict" });
+    await k("stories").where({ id: storyId }).update({ status: "consent_requested" });
+    expect(await getPublicStory(shop.slug, slug)).toBeNull();
+    expect((await json(slug)).status).toBe(404);
+  });
+
+  it("only the machine's owner answers, with a typed name, time, address and browser on record", async () => {
+    await expect(decideConsent(stranger, jobPublicId, { decision: "given", name: "Someone Else" }, meta)).rejects.toMatchObject({ code: "not_found" });
+    await expect(decideConsent(staff(shop, "owner"), jobPublicId, { decision: "given", name: "Dana" }, meta)).rejects.toMatchObject({ code: "forbidden" });
+    await expect(decideConsent(owner, jobPublicId, { decision: "withdrawn", name: OWNER_NAME }, meta)).rejects.toMatchObject({ code: "conflict" });
+    await expect(decideConsent(owner, jobPublicId, { decision: "given", name: "  " }, meta)).rejects.toMatchObject({ code: "invalid" });
+    expect((await decideConsent(owner, jobPublicId, { decision: "given", name: OWNER_NAME }, meta)).status).toBe("consented");
+    const row = await k("story_consents").where({ story_id: storyId }).orderBy("id", "desc").first();
+    expect([row.decision, row.name_typed, row.ip, row.user_agent, row.user_id]).toEqual(["given", OWNER_NAME, meta.ip, meta.userAgent, owner.userId]);
+    expect(row.decided_at).toBeInstanceOf(Date);
+  });
+
+  let published: PublicStory;
+  let clipId = "";
+
+  it("published, the public JSON and HTML hold no owner's name, serial, prices or shop-only entries", async () => {
+    expect((await publishStory(staff(shop, "owner"), shop.slug, storyId)).status).toBe("published");
+    const res = await json(slug);
+    expect(res.status).toBe(200);
+    const text = await res.text();
+    published = JSON.parse(text) as PublicStory;
+    expect(published.items.map((i) => i.kind)).toEqual(["photos", "clip", "torque"]);
+    expect(published.cover?.id).toBe(photo.shown);
+    const html = renderToStaticMarkup(createElement(StoryView, { story: published }));
+    expect(html).toContain("Front axle and brakes, back on the trail");
+    expect(html).toContain("Front axle nut");
+    for (const out of [text, html]) {
+      for (const secret of [OWNER_NAME, OWNER_NAME.split(" ")[1]!, SERIAL, owner.email, jobPublicId, photo.hidden, photo.notInStory, "Shop wrench 7", "Photos for"]) expect(out).not.toContain(secret);
+      expect(out).not.toMatch(/\$\s?\d|12\.50|480/); // no price, not even from the torque record's bench note
+    }
+    // No entry id of any kind leaves: not as a value, not as a key.
+    expect(text).not.toMatch(/"(entryId|entry_id|jobId|job_id|shopId|shop_id)"/);
+    const numbers = [...text.matchAll(/:(\d+)(?=[,}\]])/g)].map((m) => Number(m[1]));
+    // (Photo sizes and torque figures are the only numbers the story itself carries.)
+    const shown = new Set([800, 600, 70, 30, 60, 100]);
+    for (const id of [ids.hiddenPhotos, ids.hiddenNote, ids.otherShared].filter((n) => !shown.has(n))) expect(numbers).not.toContain(id);
+    // Photos: only those the story shows, through the public route.
+    expect((await image(slug, photo.shown)).status).toBe(200);
+    expect((await image(slug, photo.hidden)).status).toBe(404);
+    expect((await image(slug, photo.notInStory)).status).toBe(404);
+    // The clip plays through the story's own route: past the check, on to the video service
+    // (unreachable in this test, so 503); the signed-in clip route is never linked.
+    const clip = published.items.find((i) => i.kind === "clip");
+    expect(clip?.kind === "clip" && clip.clip.src).toBe(`/s/${shop.slug}/${slug}/clips/${clip?.kind === "clip" ? clip.clip.id : ""}/video.mp4`);
+    expect(text).not.toContain("/api/");
+    clipId = clip?.kind === "clip" ? clip.clip.id : "";
+    expect((await video(slug, clipId)).status).toBe(503);
+    const page = await getPublicShopPage(shop.slug, null);
+    expect(page?.stories.map((s) => s.slug)).toEqual([slug]);
+  });
+
+  it("withdrawing consent makes the story 404 at once: JSON, page loader, photos, grid; it can't be republished", async () => {
+    expect((await decideConsent(owner, jobPublicId, { decision: "withdrawn", name: OWNER_NAME }, meta)).status).toBe("withdrawn");
+    expect((await json(slug)).status).toBe(404);
+    expect(await publicStoryGate(shop.slug, slug)).toBeNull();
+    expect((await image(slug, photo.shown)).status).toBe(404);
+    expect((await video(slug, clipId)).status).toBe(404);
+    expect((await getPublicShopPage(shop.slug, null))?.stories ?? []).toEqual([]);
+    await expect(publishStory(staff(shop, "owner"), shop.slug, storyId)).rejects.toMatchObject({ code: "conflict", message: expect.stringMatching(/withdrew/) });
+    const decisions = await k("story_consents").where({ story_id: storyId }).orderBy("id").pluck("decision");
+    expect(decisions).toEqual(["given", "withdrawn"]);
+  });
+
+  it("the owner may agree again; the shop then republishes, and can take it down itself", async () => {
+    await decideConsent(owner, jobPublicId, { decision: "given", name: OWNER_NAME }, meta);
+    await publishStory(staff(shop, "owner"), shop.slug, storyId);
+    expect((await json(slug)).status).toBe(200);
+    // An entry unshared after curation drops out of the public story by itself.
+    await k("journal_entries").where({ id: ids.torque }).update({ visibility: "shop" });
+    expect((await getPublicStory(shop.slug, slug))?.items.map((i) => i.kind)).toEqual(["photos", "clip"]);
+    await unpublishStory(staff(shop, "service_writer"), shop.slug, storyId);
+    expect((await json(slug)).status).toBe(404);
+  });
+
+  it("the shop owner's profile: who may edit it, what shows, and a logo kept without its photo metadata", async () => {
+    const form = { shop: shop.slug, displayName: "Test Gulch Works", about: "Two bays.", locationText: "By the old mill", publicEmail: "Desk@Shop.test", publicPhone: "+1 555 010 0000" };
+    const input = shopProfileSchema.parse(form);
+    expect(input.showLocation).toBe(false);
+    expect(input.publicEmail).toBe("desk@shop.test");
+    expect(shopProfileSchema.safeParse({ ...form, publicEmail: "not mail" }).success).toBe(false);
+    await expect(saveProfile(staff(shop, "service_writer"), input, null)).rejects.toMatchObject({ code: "forbidden" });
+    // A photo with GPS in its EXIF (tests/fixtures/photos/make-fixtures.ts) as the logo.
+    const gps = fs.readFileSync(path.join(__dirname, "..", "fixtures", "photos", "gps.jpg"));
+    expect(await exifr.gps(gps)).toBeTruthy();
+    await saveProfile(staff(shop, "owner"), input, new File([new Uint8Array(gps)], "logo.jpg", { type: "image/jpeg" }));
+    const page = await getPublicShopPage(shop.slug, null);
+    expect(page?.shop).toMatchObject({ name: "Test Gulch Works", about: "Two bays.", location: null, email: "desk@shop.test", logoUrl: `/s/${shop.slug}/logo` });
+    const logo = await shopLogo(new NextRequest(`http://app.test/s/${shop.slug}/logo`), { params: Promise.resolve({ shop: shop.slug }) });
+    expect([logo.status, logo.headers.get("content-type")]).toEqual([200, "image/jpeg"]);
+    expect(await exifr.gps(Buffer.from(await logo.arrayBuffer()))).toBeFalsy();
+    await saveProfile(staff(shop, "owner"), shopProfileSchema.parse({ ...form, showLocation: "on", removeLogo: "on" }), null);
+    expect((await getPublicShopPage(shop.slug, null))?.shop).toMatchObject({ location: "By the old mill", logoUrl: null });
+  });
+});
