@@ -13,6 +13,10 @@ export async function getClipLimits({ shopId }: { shopId: number }) {
   return { maxSeconds: Number(row.clip_max_seconds), maxBytes: Number(row.clip_max_bytes) };
 }
 
+export async function saveClipLimits({ shopId, maxSeconds, maxBytes }: { shopId: number; maxSeconds: number; maxBytes: number }) {
+  await db()("shops").where({ id: shopId }).update({ clip_max_seconds: maxSeconds, clip_max_bytes: maxBytes });
+}
+
 /**
  * A clip's entry appears at once, shop-only and "uploading", so the bench sees it while the
  * file is still on its way; the upload id ties later webhook events to it.

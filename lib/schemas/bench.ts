@@ -149,4 +149,7 @@ export const benchSettingsSchema = shopRef.extend({
   torqueUnit,
   passes: passPercentsText,
   chainLimitPct: reqDecimal("The chain wear limit (%)", { min: 0.1, max: 50 }),
+  // Clips from the bench (defaults 10 minutes, 2 GB).
+  clipMaxMinutes: reqDecimal("The longest clip (minutes)", { min: 1, max: 60 }),
+  clipMaxGb: reqDecimal("The largest clip (GB)", { min: 0.1, max: 10 }),
 });

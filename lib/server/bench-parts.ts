@@ -1,4 +1,5 @@
 import "server-only";
+import { saveClipLimits } from "@/db/queries/clips";
 import { saveBenchSettings } from "@/db/queries/bench";
 import { addPart, changePartStatus } from "@/db/queries/bench-parts";
 import { deleteSpec, insertSpec } from "@/db/queries/bench-specs";
@@ -70,9 +71,13 @@ export async function removeSpec(actor: Actor, input: { shop: string; spec: numb
   return { shop };
 }
 
-export async function updateBenchSettings(actor: Actor, input: { shop: string; torqueUnit: TorqueUnit; passes: number[]; chainLimitPct: number }) {
+export async function updateBenchSettings(
+  actor: Actor,
+  input: { shop: string; torqueUnit: TorqueUnit; passes: number[]; chainLimitPct: number; clipMaxMinutes: number; clipMaxGb: number },
+) {
   const shop = await shopFor(actor, input.shop, "shop:manage-settings");
   onField("passes", () => assertPassPercents(input.passes));
   await saveBenchSettings({ shopId: shop.id, settings: { torqueUnit: input.torqueUnit, passPercents: input.passes, chainLimitPct: input.chainLimitPct } });
+  await saveClipLimits({ shopId: shop.id, maxSeconds: Math.round(input.clipMaxMinutes * 60), maxBytes: Math.round(input.clipMaxGb * 1024 ** 3) });
   return { shop };
 }

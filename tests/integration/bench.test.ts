@@ -1,12 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
-import { getReassemblyProgress, insertTeardownStep, insertTorqueRecord, listTeardownSteps } from "@/db/queries/bench";
+import { getBenchSettings, getReassemblyProgress, insertTeardownStep, insertTorqueRecord, listTeardownSteps } from "@/db/queries/bench";
 import { listParts } from "@/db/queries/bench-parts";
 import { ALL_PARTS_IN_NOTE, PARTS_WAIT_NOTE, checklistFromSteps } from "@/lib/bench";
 import type { Actor } from "@/lib/permissions";
-import { addJobPart, changeJobPartStatus } from "@/lib/server/bench-parts";
+import { addJobPart, changeJobPartStatus, updateBenchSettings } from "@/lib/server/bench-parts";
 import { addTeardownStep, recordChainReading, recordReading, recordTorque, setTeardownTorque, tickTeardownStep } from "@/lib/server/bench";
 import { roundHalfUp } from "@/lib/rounding";
+import { getClipLimits } from "@/db/queries/clips";
 import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
 import { testKnex } from "../support/db";
 
@@ -178,5 +179,12 @@ describe("bench tools", () => {
     });
     await expect(recordTorque(customer, torque)).rejects.toMatchObject({ code: "forbidden" });
     expect(await k("torque_records").where({ fastener: "Axle nut" }).count({ n: "*" }).first()).toEqual({ n: 0 });
+  });
+  it("the shop owner sets the bench and clip limits; a technician can't", async () => {
+    const input = { shop: shop.slug, torqueUnit: "lbf_ft" as const, passes: [30, 70, 100], chainLimitPct: 1.5, clipMaxMinutes: 5, clipMaxGb: 0.5 };
+    await expect(updateBenchSettings(tech, input)).rejects.toMatchObject({ code: "forbidden" });
+    await updateBenchSettings(actorOf(shop, "owner"), input);
+    expect(await getClipLimits({ shopId: shop.id })).toEqual({ maxSeconds: 300, maxBytes: 512 * 1024 * 1024 });
+    expect(await getBenchSettings({ shopId: shop.id })).toMatchObject({ torqueUnit: "lbf_ft", passPercents: [30, 70, 100], chainLimitPct: 1.5 });
   });
 });

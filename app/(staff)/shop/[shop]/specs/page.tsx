@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import { BookOpen } from "lucide-react";
 import { Card, EmptyState, PageHeader, Table, TBody, TD, TH, THead, TR } from "@/components/ui";
 import { getBenchSettings } from "@/db/queries/bench";
+import { getClipLimits } from "@/db/queries/clips";
 import { type SpecRow, listShopMachineModels, listSpecs } from "@/db/queries/bench-specs";
 import { SPEC_KIND_LABEL, limitText, plainNumber, torqueText } from "@/lib/bench";
 import { can } from "@/lib/permissions";
@@ -86,8 +87,8 @@ export default async function SpecsPage({ params }: { params: Promise<{ shop: st
         </Card>
       ) : null}
       {can(actor, "shop:manage-settings", { shopId: shop.id }) ? (
-        <Card as="section" title="Bench settings" headingId="bench-settings">
-          <SettingsForm shopSlug={shop.slug} settings={settings} />
+        <Card as="section" title="Bench and clip settings" headingId="bench-settings">
+          <SettingsForm shopSlug={shop.slug} settings={settings} clipLimits={await getClipLimits({ shopId: shop.id })} />
         </Card>
       ) : null}
     </div>

@@ -5,8 +5,8 @@ import type { BenchSettings } from "@/lib/bench";
 import { TORQUE_UNITS } from "@/lib/torque";
 import { saveBenchSettingsAction } from "../actions";
 
-/** The shop's bench settings: the torque unit shown first, the pass schedule, the chain limit. */
-export function SettingsForm({ shopSlug, settings }: { shopSlug: string; settings: BenchSettings }) {
+/** The shop's bench settings: the torque unit shown first, the pass schedule, the chain limit, clip limits. */
+export function SettingsForm({ shopSlug, settings, clipLimits }: { shopSlug: string; settings: BenchSettings; clipLimits: { maxSeconds: number; maxBytes: number } }) {
   const form = useBenchForm(saveBenchSettingsAction);
   const { values, fieldError } = form;
   return (
@@ -28,6 +28,12 @@ export function SettingsForm({ shopSlug, settings }: { shopSlug: string; setting
         </Field>
         <Field id="settings-chain" label="Chain replace-at stretch (%)" hint="About 3 for most drives, 1.5 for fixed centres" error={fieldError("chainLimitPct")}>
           <Input name="chainLimitPct" inputMode="decimal" defaultValue={values?.chainLimitPct ?? String(settings.chainLimitPct)} maxLength={6} />
+        </Field>
+        <Field id="settings-clip-minutes" label="Longest clip (minutes)" error={fieldError("clipMaxMinutes")}>
+          <Input name="clipMaxMinutes" inputMode="decimal" defaultValue={values?.clipMaxMinutes ?? String(+(clipLimits.maxSeconds / 60).toFixed(1))} maxLength={5} />
+        </Field>
+        <Field id="settings-clip-gb" label="Largest clip (GB)" error={fieldError("clipMaxGb")}>
+          <Input name="clipMaxGb" inputMode="decimal" defaultValue={values?.clipMaxGb ?? String(+(clipLimits.maxBytes / 1024 ** 3).toFixed(1))} maxLength={5} />
         </Field>
       </div>
       <Button type="submit" loading={form.pending}>
