@@ -6,8 +6,13 @@ export class CheckInForm {
 
   async openFromBoard() {
     await this.page.goto("/shop/copper-gulch");
-    await this.page.getByRole("link", { name: "Check in a machine" }).click();
-    await expect(this.page.getByRole("heading", { level: 1, name: "Check in a machine" })).toBeVisible();
+    // A click that lands while the board is still hydrating can be lost: click again until the
+    // address changes, then look for the form.
+    await expect(async () => {
+      if (!/\/jobs\/new$/.test(this.page.url())) await this.page.getByRole("link", { name: "Check in a machine" }).click();
+      await this.page.waitForURL(/\/shop\/copper-gulch\/jobs\/new$/, { timeout: 5_000 });
+    }).toPass({ timeout: 30_000 });
+    await expect(this.page.getByRole("heading", { level: 1, name: "Check in a machine" })).toBeVisible({ timeout: 20_000 });
   }
 
   async newOwner(owner: { name: string; email: string; phone: string }) {
