@@ -1,9 +1,8 @@
 // Local stand-in for the Resend API: the real `resend` SDK talks to it via `baseUrl` / RESEND_BASE_URL.
 // Run: npx tsx fakes/mail/server.ts   (env MAIL_FAKE_PORT, MAIL_FAKE_DIR, MAIL_FAKE_API_KEY)
-import { realpathSync } from "node:fs";
 import http from "node:http";
 import path from "node:path";
-import { fileURLToPath } from "node:url";
+import { portFromEnv, runIfMain } from "../shared/run";
 import { FailureSwitch, handleApi, type ApiContext, type JsonResponse } from "./api";
 import { handleControl } from "./control";
 import { PAGE_CSP, renderIndex, renderMessage, renderNotFound } from "./pages";
@@ -161,45 +160,12 @@ export async function createMailFake(opts: MailFakeOptions): Promise<MailFake> {
   };
 }
 
-function isRunDirectly(): boolean {
-  const entry = process.argv[1];
-  if (!entry) return false;
-  try {
-    return realpathSync(path.resolve(entry)) === realpathSync(fileURLToPath(import.meta.url));
-  } catch {
-    return false;
-  }
-}
-
-async function main(): Promise<void> {
-  const portRaw = process.env.MAIL_FAKE_PORT ?? "4010";
-  const port = Number(portRaw);
-  if (!Number.isInteger(port) || port < 0 || port > 65535) throw new Error(`MAIL_FAKE_PORT must be a port number, got "${portRaw}"`);
+runIfMain(import.meta.url, "mail fake", async () => {
   const fake = await createMailFake({
-    port,
+    port: portFromEnv("MAIL_FAKE_PORT", 4010),
     dir: process.env.MAIL_FAKE_DIR || path.join(".data", "dev", "mail"),
     apiKey: process.env.MAIL_FAKE_API_KEY || undefined,
   });
   console.log(`mail fake listening on ${fake.url}`);
-  let stopping = false;
-  const stop = () => {
-    if (stopping) return;
-    stopping = true;
-    fake.close().then(
-      () => process.exit(0),
-      (error: unknown) => {
-        console.error("mail fake: error while closing", error);
-        process.exit(1);
-      },
-    );
-  };
-  process.on("SIGINT", stop);
-  process.on("SIGTERM", stop);
-}
-
-if (isRunDirectly()) {
-  main().catch((error: unknown) => {
-    console.error(error instanceof Error ? error.message : error);
-    process.exit(1);
-  });
-}
+  return fake;
+});

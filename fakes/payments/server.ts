@@ -2,10 +2,9 @@
 // `new Stripe(key, { host: "127.0.0.1", port, protocol: "http" })`, the owner pays on its page at the
 // session's `url`, and it POSTs signed events to the app. Run: npx tsx fakes/payments/server.ts
 // (env PAYMENTS_FAKE_PORT, PAYMENTS_FAKE_DIR, STRIPE_SECRET_KEY, STRIPE_WEBHOOK_URL, STRIPE_WEBHOOK_SECRET)
-import { realpathSync } from "node:fs";
 import http from "node:http";
 import path from "node:path";
-import { fileURLToPath } from "node:url";
+import { portFromEnv, runIfMain } from "../shared/run";
 import { handleApi, type JsonResponse } from "./api";
 import { handleControl } from "./control";
 import { PaymentsApiError } from "./errors";
@@ -157,44 +156,15 @@ export async function createPaymentsFake(opts: PaymentsFakeOptions): Promise<Pay
   };
 }
 
-function isRunDirectly(): boolean {
-  const entry = process.argv[1];
-  if (!entry) return false;
-  try {
-    return realpathSync(path.resolve(entry)) === realpathSync(fileURLToPath(import.meta.url));
-  } catch {
-    return false;
-  }
-}
-
-async function main(): Promise<void> {
+runIfMain(import.meta.url, "payments fake", async () => {
   const env = process.env;
-  const port = Number(env.PAYMENTS_FAKE_PORT ?? "4030");
-  if (!Number.isInteger(port) || port < 0 || port > 65535) throw new Error(`PAYMENTS_FAKE_PORT must be a port number, got "${env.PAYMENTS_FAKE_PORT}"`);
   const fake = await createPaymentsFake({
-    port,
+    port: portFromEnv("PAYMENTS_FAKE_PORT", 4030),
     dir: env.PAYMENTS_FAKE_DIR || path.join(".data", "dev", "payments"),
     secretKey: env.STRIPE_SECRET_KEY || undefined,
     webhookUrl: env.STRIPE_WEBHOOK_URL || undefined,
     webhookSecret: env.STRIPE_WEBHOOK_SECRET || undefined,
   });
   console.log(`payments fake listening on ${fake.url}${env.STRIPE_WEBHOOK_URL ? `, webhooks to ${env.STRIPE_WEBHOOK_URL}` : " (no STRIPE_WEBHOOK_URL: events are only recorded)"}`);
-  const stop = () => {
-    fake.close().then(
-      () => process.exit(0),
-      (error: unknown) => {
-        console.error("payments fake: error while closing", error);
-        process.exit(1);
-      },
-    );
-  };
-  process.once("SIGINT", stop);
-  process.once("SIGTERM", stop);
-}
-
-if (isRunDirectly()) {
-  main().catch((error: unknown) => {
-    console.error(error instanceof Error ? error.message : error);
-    process.exit(1);
-  });
-}
+  return fake;
+});

@@ -1,10 +1,9 @@
 // Local stand-in for Mux Video: the real @mux/mux-node SDK talks to it via `baseURL` / MUX_BASE_URL, and
 // @mux/upchunk uploads to the URL it hands out. Run: npx tsx fakes/video/server.ts
 // (env VIDEO_FAKE_PORT, VIDEO_FAKE_DIR, MUX_TOKEN_ID, MUX_TOKEN_SECRET, MUX_WEBHOOK_SECRET, VIDEO_WEBHOOK_URL)
-import { realpathSync } from "node:fs";
 import http from "node:http";
 import path from "node:path";
-import { fileURLToPath } from "node:url";
+import { portFromEnv, runIfMain } from "../shared/run";
 import { handleApi, type JsonResponse } from "./api";
 import { FailureSwitch, type ApiFailure, type ChunkFailure, type FakeContext } from "./context";
 import { handleControl } from "./control";
@@ -182,22 +181,10 @@ export async function createVideoFake(opts: VideoFakeOptions): Promise<VideoFake
   };
 }
 
-function isRunDirectly(): boolean {
-  const entry = process.argv[1];
-  if (!entry) return false;
-  try {
-    return realpathSync(path.resolve(entry)) === realpathSync(fileURLToPath(import.meta.url));
-  } catch {
-    return false;
-  }
-}
-
-async function main(): Promise<void> {
+runIfMain(import.meta.url, "video fake", async () => {
   const env = process.env;
-  const port = Number(env.VIDEO_FAKE_PORT ?? "4020");
-  if (!Number.isInteger(port) || port < 0 || port > 65535) throw new Error(`VIDEO_FAKE_PORT must be a port number, got "${env.VIDEO_FAKE_PORT}"`);
   const fake = await createVideoFake({
-    port,
+    port: portFromEnv("VIDEO_FAKE_PORT", 4020),
     dir: env.VIDEO_FAKE_DIR || path.join(".data", "dev", "video"),
     tokenId: env.MUX_TOKEN_ID || undefined,
     tokenSecret: env.MUX_TOKEN_SECRET || undefined,
@@ -205,22 +192,5 @@ async function main(): Promise<void> {
     webhookSecret: env.MUX_WEBHOOK_SECRET || undefined,
   });
   console.log(`video fake listening on ${fake.url}${env.VIDEO_WEBHOOK_URL ? `, webhooks to ${env.VIDEO_WEBHOOK_URL}` : " (no VIDEO_WEBHOOK_URL: webhooks are only recorded)"}`);
-  const stop = () => {
-    fake.close().then(
-      () => process.exit(0),
-      (error: unknown) => {
-        console.error("video fake: error while closing", error);
-        process.exit(1);
-      },
-    );
-  };
-  process.once("SIGINT", stop);
-  process.once("SIGTERM", stop);
-}
-
-if (isRunDirectly()) {
-  main().catch((error: unknown) => {
-    console.error(error instanceof Error ? error.message : error);
-    process.exit(1);
-  });
-}
+  return fake;
+});
