@@ -1,4 +1,4 @@
-// Used by db/cli.ts (migrate, rollback, seed). The app builds the same config in lib/server/db.ts.
-import { databaseUrlFromEnv, knexConfig } from "./lib/server/db-config";
+// Used by db/cli.ts (migrate, rollback, seed). The app builds the same config in db/client.ts.
+import { databaseUrlFromEnv, knexConfig } from "./db/config";
 
 export default knexConfig(databaseUrlFromEnv());

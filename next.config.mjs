@@ -7,7 +7,25 @@ const nextConfig = {
   poweredByHeader: false,
   experimental: {
     authInterrupts: true,
+    // A form with the shop's logo (5 MB at most) is the largest action body; lib/action-guard.ts
+    // answers 413 above this in the proxy, before Next would answer a bare 500.
+    serverActions: { bodySizeLimit: "6mb" },
   },
   serverExternalPackages: ["knex", "mysql2", "bcryptjs"],
+  // The same on every answer, JSON, files and the routes proxy.ts leaves alone included. The
+  // per-request ones (Content-Security-Policy with its nonce, Permissions-Policy, HSTS) are
+  // set in proxy.ts from lib/security-headers.ts.
+  async headers() {
+    return [
+      {
+        source: "/:path*",
+        headers: [
+          { key: "X-Content-Type-Options", value: "nosniff" },
+          { key: "X-Frame-Options", value: "DENY" },
+          { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
+        ],
+      },
+    ];
+  },
 };
 export default nextConfig;

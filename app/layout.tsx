@@ -1,5 +1,6 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
+import { connection } from "next/server";
 import type { ReactNode } from "react";
 import "./globals.css";
 
@@ -31,7 +32,10 @@ export const viewport: Viewport = {
   colorScheme: "light dark",
 };
 
-export default function RootLayout({ children }: { children: ReactNode }) {
+export default async function RootLayout({ children }: { children: ReactNode }) {
+  // Every page is rendered per request: its scripts carry that request's CSP nonce (proxy.ts).
+  // HTML prerendered at build time would carry none, and the browser would refuse its scripts.
+  await connection();
   return (
     <html lang="en" className={archivo.variable}>
       <body className="min-h-dvh">

@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { Brand } from "@/components/brand";
-import { SignOutButton } from "@/components/sign-out-button";
+import { AccountMenu, SignOutButton } from "@/components/sign-out-button";
 import type { Actor } from "@/lib/permissions";
 
 /** Header for signed-in areas: where you are, where else you can go, and sign-out. */
@@ -20,6 +20,7 @@ export function AppHeader({ actor, context }: { actor: Actor; context?: string }
           <Link href="/my" className="inline-flex min-h-tap items-center rounded-lg px-3 font-medium text-oil hover:bg-oil-soft">
             My machines
           </Link>
+          <AccountMenu email={actor.email} />
           <SignOutButton email={actor.email} />
         </nav>
       </div>

@@ -43,6 +43,9 @@ export function clipMediaUrls(clipPublicId: string): { src: string; poster: stri
 
 export const CLIP_MEDIA_FILES = ["video.mp4", "poster.jpg"] as const;
 
+/** A clip the video service rejected: off the timeline, listed for the shop's staff until cleared. */
+export type FailedClip = { id: string; name: string | null; error: string; failedAt: string };
+
 export function formatDuration(seconds: number): string {
   const total = Math.round(seconds);
   const h = Math.floor(total / 3600);

@@ -1,5 +1,5 @@
 // Who may do what: the one table every route handler, server action and page load
-// checks through `can()` / `authorize()` (lib/server/authorize.ts). Pure, no I/O.
+// checks through `can()`, via the resolvers of lib/server/access.ts. Pure, no I/O.
 
 export const STAFF_ROLES = ["owner", "service_writer", "technician"] as const;
 export type StaffRole = (typeof STAFF_ROLES)[number];
@@ -52,6 +52,9 @@ export const PERMISSIONS = {
   // Invoices and payments: the desk invoices authorised work, asks for deposits and records
   // counter payments; technicians see no money; only the shop owner refunds; the machine's owner pays.
   "invoice:view": ["owner", "service_writer", "customer"],
+  // Prices, estimates, authorised and invoiced amounts in any response: the same people as
+  // invoices. Technicians see what was approved, not what it costs; followers never see money.
+  "money:view": ["owner", "service_writer", "customer"],
   "invoice:create": ["owner", "service_writer"],
   "invoice:record-payment": ["owner", "service_writer"],
   "invoice:refund": ["owner"],
@@ -98,4 +101,38 @@ export function can(actor: Actor | null, action: Action, resource: Resource): bo
 
 export function isStaff(actor: Actor | null): boolean {
   return !!actor && actor.memberships.length > 0;
+}
+
+/** Who is looking at a photo or clip: the shop, the job's owner, a follower, or the public (a published story). */
+export type MediaViewer = "shop" | "owner" | "follower" | "public";
+
+export type MediaFacts = {
+  /** Its entry is shared with the owner and not deleted. */
+  shared: boolean;
+  /** Its entry is about money or a decision (followers never see those). */
+  moneyEntry: boolean;
+  /** Quoted as evidence in an approval request sent to the owner. */
+  quotedInRequest: boolean;
+  /** Shown by a story that is published right now (cover, item, or a set the story shows). */
+  inPublishedStory: boolean;
+};
+
+/**
+ * The one rule for photos and clips of a job: the shop sees all of them; the owner sees shared
+ * ones and those quoted in a request put to them; a follower sees shared ones that aren't about
+ * money; the public sees only what a published story shows.
+ */
+export function mayViewMedia(viewer: MediaViewer | null, media: MediaFacts): boolean {
+  switch (viewer) {
+    case "shop":
+      return true;
+    case "owner":
+      return media.shared || media.quotedInRequest;
+    case "follower":
+      return media.shared && !media.moneyEntry;
+    case "public":
+      return media.inPublishedStory;
+    default:
+      return false;
+  }
 }

@@ -6,7 +6,7 @@
 // while workers are started, scaled or stopped on their own (OUTBOX_WORKER=off), and it runs
 // exactly the code the integration tests run. Any number may run at once (rows are claimed
 // with SKIP LOCKED). Settings: OUTBOX_* and DAILY_DIGEST_HOUR in .env.example.
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
 import { startOutboxWorker } from "@/lib/server/outbox-worker";
 
 const intervalMs = Number(process.env.OUTBOX_POLL_MS ?? 2000);

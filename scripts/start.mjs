@@ -17,7 +17,8 @@ const DIR = path.join(ROOT, ".data", "dev");
 const appUrl = setting("APP_URL", `http://localhost:${PORT}`);
 const DEV = process.argv.includes("--dev");
 
-const run = new Run("start");
+// A local service that dies is started again with back-off (scripts/lib/restart.mjs); Ctrl-C stops all.
+const run = new Run("start", { restart: true });
 
 async function main() {
   run.lock(DIR, { label: "Benchside (npm start)", url: appUrl });

@@ -4,8 +4,25 @@ import { METHOD_LABEL, type RequestSnapshot } from "@/lib/approvals";
 import { formatMoney } from "@/lib/money";
 import { RequestLines } from "./request-lines";
 
-/** The stored decision, read-only: who answered, how and when, each line's answer, the totals and the proof hash. */
-export function DecisionRecord({ decision, snapshot, timeZone, staff, headingLevel = 2 }: { decision: DecisionRow; snapshot: RequestSnapshot; timeZone: string; staff: boolean; headingLevel?: 2 | 3 }) {
+/**
+ * The stored decision, read-only: who answered, how and when, each line's answer, the totals and
+ * the proof hash. `showMoney={false}` (someone without `money:view`) leaves out every amount.
+ */
+export function DecisionRecord({
+  decision,
+  snapshot,
+  timeZone,
+  staff,
+  headingLevel = 2,
+  showMoney = true,
+}: {
+  decision: DecisionRow;
+  snapshot: RequestSnapshot;
+  timeZone: string;
+  staff: boolean;
+  headingLevel?: 2 | 3;
+  showMoney?: boolean;
+}) {
   const when = new Intl.DateTimeFormat("en-US", { timeZone, dateStyle: "medium", timeStyle: "short" });
   const money = (n: number) => formatMoney(n, snapshot.currency);
   const answers = Object.fromEntries(decision.lines.map((l) => [l.no, l.answer]));
@@ -18,7 +35,7 @@ export function DecisionRecord({ decision, snapshot, timeZone, staff, headingLev
   if (decision.method !== "online" && decision.recordedBy) rows.push(["Noted by", `${decision.recordedBy}, ${when.format(new Date(decision.recordedAt))}`]);
   rows.push(["Replaced parts", decision.wantsPartsBack ? "The owner wants the replaced parts back" : "Not asked for back"]);
   if (decision.note) rows.push(["Note", decision.note]);
-  rows.push(["Estimate for all lines", money(decision.estimateTotalMinor)], ["Authorised", `${money(decision.authorisedTotalMinor)} (${money(decision.authorisedPreTaxMinor)} before tax)`]);
+  if (showMoney) rows.push(["Estimate for all lines", money(decision.estimateTotalMinor)], ["Authorised", `${money(decision.authorisedTotalMinor)} (${money(decision.authorisedPreTaxMinor)} before tax)`]);
   if (staff && decision.method === "online") rows.push(["Network address", decision.ip ?? "not recorded"], ["Browser", decision.userAgent ?? "not recorded"]);
   return (
     <Card as="section" title="The answer on record" headingLevel={headingLevel} headingId={`decision-${decision.id}`} description="Stored once and never changed.">
@@ -38,7 +55,7 @@ export function DecisionRecord({ decision, snapshot, timeZone, staff, headingLev
             <span className="block text-sm text-ink-muted">SHA-256 of the request exactly as it was sent.</span>
           </dd>
         </dl>
-        <RequestLines snapshot={snapshot} answers={answers} label="How each line was answered" />
+        <RequestLines snapshot={snapshot} answers={answers} label="How each line was answered" showMoney={showMoney} />
       </div>
     </Card>
   );

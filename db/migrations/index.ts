@@ -9,6 +9,9 @@ import * as approvals from "./20261202_07_approvals";
 import * as clips from "./20261202_08_clips";
 import * as invoices from "./20261202_09_invoices";
 import * as portfolio from "./20261202_10_portfolio";
+import * as sessionsPriorityMail from "./20261203_11_sessions_priority_mail";
+import * as failedClips from "./20261203_12_failed_clips";
+import * as membershipDeactivation from "./20261204_13_membership_deactivation";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -25,6 +28,9 @@ const MIGRATIONS: Migration[] = [
   { name: "20261202_08_clips", module: clips },
   { name: "20261202_09_invoices", module: invoices },
   { name: "20261202_10_portfolio", module: portfolio },
+  { name: "20261203_11_sessions_priority_mail", module: sessionsPriorityMail },
+  { name: "20261203_12_failed_clips", module: failedClips },
+  { name: "20261204_13_membership_deactivation", module: membershipDeactivation },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

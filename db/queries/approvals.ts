@@ -2,12 +2,12 @@ import "server-only";
 import crypto from "node:crypto";
 import type { Knex } from "knex";
 import type { DecisionMethod, LineAnswer, LineKind, RequestSnapshot, RequestStatus } from "@/lib/approvals";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { ApprovalDecisionsTable, ApprovalRequestsTable, PhotosTable } from "@/db/tables";
 
 // Approval requests (frozen snapshots) and their one decision each. Writes take the caller's
 // transaction so a request, its timeline entry, the status move and its e-mail commit together.
 
-type Raw = Record<string, unknown>;
 type JobKey = { shopId: number; jobId: number };
 const num = (v: unknown) => (v == null ? null : Number(v));
 const iso = (v: unknown) => (v == null ? null : (v as Date).toISOString());
@@ -52,7 +52,10 @@ function requests(k: Knex) {
     .leftJoin("approval_requests as n", "n.id", "r.replaced_by_id");
 }
 
-function toRequest(r: Raw): RequestRow {
+/** A row of REQUEST_COLUMNS. */
+type RequestJoin = ApprovalRequestsTable & { sent_by_name: string | null; replaced_by_public_id: string | null; job_public_id: string; customer_user_id: number | null };
+
+function toRequest(r: RequestJoin): RequestRow {
   return {
     id: Number(r.id),
     publicId: String(r.public_id),
@@ -62,16 +65,16 @@ function toRequest(r: Raw): RequestRow {
     customerUserId: num(r.customer_user_id),
     findingId: Number(r.finding_id),
     version: Number(r.version),
-    status: r.status as RequestStatus,
-    replacedBy: (r.replaced_by_public_id as string | null) ?? null,
+    status: r.status,
+    replacedBy: r.replaced_by_public_id ?? null,
     snapshot: json(r.snapshot) as RequestSnapshot,
     canonical: String(r.canonical),
     hash: String(r.hash),
     currency: String(r.currency),
     estimatePreTaxMinor: Number(r.estimate_pre_tax_minor),
     estimateTotalMinor: Number(r.estimate_total_minor),
-    sentTo: (r.sent_to as string | null) ?? null,
-    sentBy: (r.sent_by_name as string | null) ?? null,
+    sentTo: r.sent_to ?? null,
+    sentBy: r.sent_by_name ?? null,
     sentAt: iso(r.sent_at)!,
     openedAt: iso(r.opened_at),
     answeredAt: iso(r.answered_at),
@@ -80,28 +83,28 @@ function toRequest(r: Raw): RequestRow {
 }
 
 export async function getRequestByPublicId({ publicId }: { publicId: string }, k: Knex = db()): Promise<RequestRow | null> {
-  const row = (await requests(k).where("r.public_id", publicId).first(REQUEST_COLUMNS)) as Raw | undefined;
+  const row: RequestJoin | undefined = await requests(k).where("r.public_id", publicId).first(REQUEST_COLUMNS);
   return row ? toRequest(row) : null;
 }
 
 /** The request row locked for this transaction: answers, withdrawals and revisions queue on it. */
 export async function lockRequest(tx: Knex.Transaction, { shopId, id }: { shopId: number; id: number }): Promise<RequestRow | null> {
   await tx("approval_requests").where({ shop_id: shopId, id }).forUpdate().first("id");
-  const row = (await requests(tx).where({ "r.shop_id": shopId, "r.id": id }).first(REQUEST_COLUMNS)) as Raw | undefined;
+  const row: RequestJoin | undefined = await requests(tx).where({ "r.shop_id": shopId, "r.id": id }).first(REQUEST_COLUMNS);
   return row ? toRequest(row) : null;
 }
 
 /** A job's requests, oldest first (a finding's versions in order). */
 export async function listRequests({ shopId, jobId }: JobKey, k: Knex = db()): Promise<RequestRow[]> {
-  const rows = (await requests(k).where({ "r.shop_id": shopId, "r.job_id": jobId }).orderBy("r.id").select(REQUEST_COLUMNS)) as Raw[];
+  const rows: RequestJoin[] = await requests(k).where({ "r.shop_id": shopId, "r.job_id": jobId }).orderBy("r.id").select(REQUEST_COLUMNS);
   return rows.map(toRequest);
 }
 
 /** The newest request of a finding (open, answered or withdrawn), locked when a transaction is given. */
-export async function latestRequestOfFinding(k: Knex, { shopId, findingId }: { shopId: number; findingId: number }, lock = false) {
+export async function latestRequestOfFinding({ shopId, findingId }: { shopId: number; findingId: number }, k: Knex = db(), lock = false) {
   const q = k("approval_requests").where({ shop_id: shopId, finding_id: findingId }).orderBy("version", "desc").first("id", "public_id", "version", "status", "snapshot");
-  const row = (await (lock ? q.forUpdate() : q)) as Raw | undefined;
-  return row ? { id: Number(row.id), publicId: String(row.public_id), version: Number(row.version), status: row.status as RequestStatus, snapshot: json(row.snapshot) as RequestSnapshot } : null;
+  const row = await (lock ? q.forUpdate() : q);
+  return row ? { id: Number(row.id), publicId: String(row.public_id), version: Number(row.version), status: row.status, snapshot: json(row.snapshot) as RequestSnapshot } : null;
 }
 
 export async function insertRequest(
@@ -143,12 +146,12 @@ export async function markOpened({ shopId, id }: { shopId: number; id: number })
 
 /** The photo behind an evidence thumbnail, if it is evidence of this request (and the e-mail token's request). */
 export async function getEvidencePhoto({ requestId, photoPublicId }: { requestId: number; photoPublicId: string }) {
-  const row = (await db()("approval_requests as r")
+  const row: (Pick<ApprovalRequestsTable, "snapshot"> & Pick<PhotosTable, "thumb_key" | "display_key">) | undefined = await db()("approval_requests as r")
     .join("photos as p", function () {
       this.on("p.shop_id", "r.shop_id").andOn("p.job_id", "r.job_id");
     })
     .where({ "r.id": requestId, "p.public_id": photoPublicId })
-    .first("r.snapshot", "p.thumb_key", "p.display_key")) as Raw | undefined;
+    .first("r.snapshot", "p.thumb_key", "p.display_key");
   if (!row) return null;
   const snapshot = json(row.snapshot) as RequestSnapshot;
   if (!snapshot.evidence.some((e) => e.kind === "photo" && e.ref === photoPublicId)) return null;
@@ -156,8 +159,8 @@ export async function getEvidencePhoto({ requestId, photoPublicId }: { requestId
 }
 
 export async function getRequestIdByTokenHash({ tokenHash }: { tokenHash: string }) {
-  const row = (await db()("approval_requests").where({ token_hash: tokenHash }).first("id", "public_id", "sent_at", "status")) as Raw | undefined;
-  return row ? { id: Number(row.id), publicId: String(row.public_id), sentAt: row.sent_at as Date, status: row.status as RequestStatus } : null;
+  const row = await db()("approval_requests").where({ token_hash: tokenHash }).first("id", "public_id", "sent_at", "status");
+  return row ? { id: Number(row.id), publicId: String(row.public_id), sentAt: row.sent_at, status: row.status } : null;
 }
 
 // ---- decisions -------------------------------------------------------------------------------------
@@ -239,29 +242,35 @@ export async function insertDecision(tx: Knex.Transaction, d: JobKey & DecisionW
 export async function listDecisions({ shopId, requestIds }: { shopId: number; requestIds: number[] }, k: Knex = db()): Promise<Map<number, DecisionRow>> {
   const out = new Map<number, DecisionRow>();
   if (!requestIds.length) return out;
-  const rows = (await k("approval_decisions as d")
+  const rows: (ApprovalDecisionsTable & { recorded_by_name: string | null })[] = await k("approval_decisions as d")
     .leftJoin("users as u", "u.id", "d.recorded_by_user_id")
     .where("d.shop_id", shopId)
     .whereIn("d.request_id", requestIds)
-    .select("d.*", "u.name as recorded_by_name")) as Raw[];
+    .select("d.*", "u.name as recorded_by_name");
   if (!rows.length) return out;
-  const lines = (await k("approval_decision_lines").where("shop_id", shopId).whereIn("decision_id", rows.map((r) => Number(r.id))).orderBy(["decision_id", "line_no"])) as Raw[];
+  const lines = await k("approval_decision_lines")
+    .where("shop_id", shopId)
+    .whereIn(
+      "decision_id",
+      rows.map((r) => Number(r.id)),
+    )
+    .orderBy(["decision_id", "line_no"]);
   for (const r of rows) {
     const id = Number(r.id);
     out.set(Number(r.request_id), {
       id,
       requestId: Number(r.request_id),
-      method: r.method as DecisionMethod,
+      method: r.method,
       personName: String(r.person_name),
-      signatureName: (r.signature_name as string | null) ?? null,
-      phoneCalled: (r.phone_called as string | null) ?? null,
-      note: (r.note as string | null) ?? null,
+      signatureName: r.signature_name ?? null,
+      phoneCalled: r.phone_called ?? null,
+      note: r.note ?? null,
       wantsPartsBack: Boolean(r.wants_parts_back),
       decidedAt: iso(r.decided_at)!,
       recordedAt: iso(r.recorded_at)!,
-      recordedBy: (r.recorded_by_name as string | null) ?? null,
-      ip: (r.ip as string | null) ?? null,
-      userAgent: (r.user_agent as string | null) ?? null,
+      recordedBy: r.recorded_by_name ?? null,
+      ip: r.ip ?? null,
+      userAgent: r.user_agent ?? null,
       shownHash: String(r.shown_hash),
       estimatePreTaxMinor: Number(r.estimate_pre_tax_minor),
       estimateTotalMinor: Number(r.estimate_total_minor),
@@ -270,7 +279,7 @@ export async function listDecisions({ shopId, requestIds }: { shopId: number; re
       authorisedTotalMinor: Number(r.authorised_total_minor),
       lines: lines
         .filter((l) => Number(l.decision_id) === id)
-        .map((l) => ({ no: Number(l.line_no), answer: l.answer as LineAnswer, kind: l.kind as LineKind, description: String(l.description), partNumber: (l.part_number as string | null) ?? null, netMinor: Number(l.net_minor) })),
+        .map((l) => ({ no: Number(l.line_no), answer: l.answer, kind: l.kind, description: String(l.description), partNumber: l.part_number ?? null, netMinor: Number(l.net_minor) })),
     });
   }
   return out;
@@ -280,24 +289,24 @@ export type AuthorisedLine = { requestPublicId: string; lineNo: number; kind: Li
 
 /** The job's authorised work: every approved line of every answered request (view job_authorised_work). */
 export async function listAuthorisedWork({ shopId, jobId }: JobKey, k: Knex = db()): Promise<AuthorisedLine[]> {
-  const rows = (await k("job_authorised_work").where({ shop_id: shopId, job_id: jobId }).orderBy(["decided_at", "request_id", "line_no"])) as Raw[];
+  const rows = await k("job_authorised_work").where({ shop_id: shopId, job_id: jobId }).orderBy(["decided_at", "request_id", "line_no"]);
   return rows.map((r) => ({
     requestPublicId: String(r.request_public_id),
     lineNo: Number(r.line_no),
-    kind: r.kind as LineKind,
+    kind: r.kind,
     description: String(r.description),
-    partNumber: (r.part_number as string | null) ?? null,
+    partNumber: r.part_number ?? null,
     qtyThousandths: num(r.qty_thousandths),
     hoursTenths: num(r.hours_tenths),
     netMinor: Number(r.net_minor),
-    method: r.method as DecisionMethod,
+    method: r.method,
     decidedAt: iso(r.decided_at)!,
   }));
 }
 
 /** Open requests of a job, newest first, for the owner's "decision you owe" banner. */
 export async function listOpenRequests({ shopId, jobId }: JobKey): Promise<{ publicId: string; title: string; sentAt: string; totalMinor: number; currency: string }[]> {
-  const rows = (await db()("approval_requests").where({ shop_id: shopId, job_id: jobId, status: "sent" }).orderBy("id", "desc").select("public_id", "snapshot", "sent_at", "estimate_total_minor", "currency")) as Raw[];
+  const rows = await db()("approval_requests").where({ shop_id: shopId, job_id: jobId, status: "sent" }).orderBy("id", "desc").select("public_id", "snapshot", "sent_at", "estimate_total_minor", "currency");
   return rows.map((r) => ({
     publicId: String(r.public_id),
     title: (json(r.snapshot) as RequestSnapshot).finding.title,

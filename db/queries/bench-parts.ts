@@ -1,17 +1,19 @@
 import "server-only";
 import type { Knex } from "knex";
-import { insertEntry, moveJobStatus } from "@/db/queries/journal";
+import { insertEntry } from "@/db/queries/entries";
+import { moveJobStatus } from "@/db/queries/journal";
 import { AppError } from "@/lib/errors";
 import { OUTSTANDING_PART_STATUSES, PART_STATUS_LABEL, type PartBody, type PartStatus, partsWaitMove } from "@/lib/bench";
 import type { JobStatus } from "@/lib/job-status";
 import { formatQuantity } from "@/lib/money";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { JobPartEventsTable, JobPartsTable } from "@/db/tables";
+import { transaction } from "@/db/transaction";
 
 // Parts on a job and the waiting-on-parts rule. A part change, its history row, its (shop-only)
 // timeline entry and any job move it causes commit together: the job row is locked first, so two
 // people receiving the last two parts at once still give one move back to the bench.
 
-type Raw = Record<string, unknown>;
 type JobKey = { shopId: number; jobId: number };
 
 export type PartRow = {
@@ -38,7 +40,7 @@ export type NewPart = {
 
 /** Locks the job and applies the waiting-on-parts rule after a part went to `partTo`. */
 async function settleJob(tx: Knex.Transaction, p: JobKey & { userId: number; partTo: PartStatus; status: JobStatus }): Promise<JobStatus | null> {
-  const row = (await tx("job_parts").where({ shop_id: p.shopId, job_id: p.jobId }).whereIn("status", OUTSTANDING_PART_STATUSES).count({ n: "*" }).first()) as Raw | undefined;
+  const row = await tx("job_parts").where({ shop_id: p.shopId, job_id: p.jobId }).whereIn("status", OUTSTANDING_PART_STATUSES).count({ n: "*" }).first();
   const move = partsWaitMove({ jobStatus: p.status, partTo: p.partTo, outstandingAfter: Number(row?.n ?? 0) });
   if (!move) return null;
   // When the wait is over, the owner (and followers) hear at once, not in the next digest.
@@ -48,9 +50,9 @@ async function settleJob(tx: Knex.Transaction, p: JobKey & { userId: number; par
 }
 
 async function lockJob(tx: Knex.Transaction, { shopId, jobId }: JobKey): Promise<JobStatus> {
-  const job = (await tx("jobs").where({ id: jobId, shop_id: shopId }).forUpdate().first("status")) as Raw | undefined;
+  const job = await tx("jobs").where({ id: jobId, shop_id: shopId }).forUpdate().first("status");
   if (!job) throw new AppError("not_found", "No such job.");
-  return job.status as JobStatus;
+  return job.status;
 }
 
 function partBody(part: Pick<NewPart, "description" | "partNumber" | "qtyThousandths" | "expectedOn">, event: PartBody["event"], from: PartStatus | null, to: PartStatus): PartBody {
@@ -59,7 +61,7 @@ function partBody(part: Pick<NewPart, "description" | "partNumber" | "qtyThousan
 }
 
 export async function addPart(p: JobKey & { userId: number; part: NewPart }): Promise<{ id: number; jobMovedTo: JobStatus | null }> {
-  return db().transaction(async (tx) => {
+  return transaction(async (tx) => {
     const status = await lockJob(tx, p);
     const part = p.part;
     const [id] = await tx("job_parts").insert({
@@ -86,15 +88,14 @@ export async function changePartStatus(
   p: JobKey & { userId: number; partId: number; from: PartStatus; to: PartStatus; expectedOn?: string | null },
 ): Promise<{ jobMovedTo: JobStatus | null }> {
   if (p.from === p.to && p.expectedOn === undefined) throw new AppError("invalid", `The part is already "${PART_STATUS_LABEL[p.to]}".`);
-  return db().transaction(async (tx) => {
+  return transaction(async (tx) => {
     const status = await lockJob(tx, p);
-    const part = (await tx("job_parts").where({ id: p.partId, shop_id: p.shopId, job_id: p.jobId }).forUpdate().first()) as Raw | undefined;
+    const part = await tx("job_parts").where({ id: p.partId, shop_id: p.shopId, job_id: p.jobId }).forUpdate().first();
     if (!part) throw new AppError("not_found", "That part isn't on this job.");
     if (part.status !== p.from) {
-      throw new AppError("conflict", `Someone has just marked this part "${PART_STATUS_LABEL[part.status as PartStatus]}". Check the list, then try again.`);
+      throw new AppError("conflict", `Someone has just marked this part "${PART_STATUS_LABEL[part.status]}". Check the list, then try again.`);
     }
-    const update: Raw = { status: p.to, updated_at: tx.fn.now(3) };
-    if (p.expectedOn !== undefined) update.expected_on = p.expectedOn;
+    const update: Knex.DbRecord<JobPartsTable> = { status: p.to, updated_at: tx.fn.now(3), ...(p.expectedOn !== undefined ? { expected_on: p.expectedOn } : {}) };
     await tx("job_parts").where({ id: p.partId }).update(update);
     if (p.from === p.to) return { jobMovedTo: null };
     await tx("job_part_events").insert({ shop_id: p.shopId, part_id: p.partId, from_status: p.from, to_status: p.to, changed_by_user_id: p.userId });
@@ -102,7 +103,7 @@ export async function changePartStatus(
       description: String(part.description),
       partNumber: part.part_number == null ? null : String(part.part_number),
       qtyThousandths: Number(part.qty_thousandths),
-      expectedOn: p.expectedOn !== undefined ? p.expectedOn : ((part.expected_on as string | null) ?? null),
+      expectedOn: p.expectedOn !== undefined ? p.expectedOn : (part.expected_on ?? null),
     };
     await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "part", authorId: p.userId, body: partBody(snapshot, "status", p.from, p.to) });
     return { jobMovedTo: await settleJob(tx, { ...p, partTo: p.to, status }) };
@@ -111,9 +112,9 @@ export async function changePartStatus(
 
 /** A job's parts with their status history, in two queries. */
 export async function listParts({ shopId, jobId }: JobKey): Promise<PartRow[]> {
-  const rows = (await db()("job_parts").where({ shop_id: shopId, job_id: jobId }).orderBy("id", "asc")) as Raw[];
+  const rows = await db()("job_parts").where({ shop_id: shopId, job_id: jobId }).orderBy("id", "asc");
   if (!rows.length) return [];
-  const events = (await db()("job_part_events as ev")
+  const events: (Pick<JobPartEventsTable, "part_id" | "from_status" | "to_status" | "changed_at"> & { by_name: string | null })[] = await db()("job_part_events as ev")
     .leftJoin("users as u", "u.id", "ev.changed_by_user_id")
     .where("ev.shop_id", shopId)
     .whereIn(
@@ -121,18 +122,18 @@ export async function listParts({ shopId, jobId }: JobKey): Promise<PartRow[]> {
       rows.map((r) => Number(r.id)),
     )
     .orderBy("ev.id", "asc")
-    .select("ev.part_id", "ev.from_status", "ev.to_status", "ev.changed_at", "u.name as by_name")) as Raw[];
+    .select("ev.part_id", "ev.from_status", "ev.to_status", "ev.changed_at", "u.name as by_name");
   return rows.map((r) => ({
     id: Number(r.id),
-    partNumber: (r.part_number as string | null) ?? null,
+    partNumber: r.part_number ?? null,
     description: String(r.description),
-    supplier: (r.supplier as string | null) ?? null,
+    supplier: r.supplier ?? null,
     qtyThousandths: Number(r.qty_thousandths),
     costMinor: r.cost_minor == null ? null : Number(r.cost_minor),
-    status: r.status as PartStatus,
-    expectedOn: (r.expected_on as string | null) ?? null,
+    status: r.status,
+    expectedOn: r.expected_on ?? null,
     history: events
       .filter((e) => Number(e.part_id) === Number(r.id))
-      .map((e) => ({ from: (e.from_status as PartStatus | null) ?? null, to: e.to_status as PartStatus, by: (e.by_name as string | null) ?? null, at: (e.changed_at as Date).toISOString() })),
+      .map((e) => ({ from: e.from_status ?? null, to: e.to_status, by: e.by_name ?? null, at: e.changed_at.toISOString() })),
   }));
 }

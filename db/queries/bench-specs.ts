@@ -1,11 +1,10 @@
 import "server-only";
 import type { SpecKind } from "@/lib/bench";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { SpecEntriesTable } from "@/db/tables";
 
 // The shop's own spec library, per machine make and model. Entered by the shop from its manuals;
 // we ship no maker's data.
-
-type Raw = Record<string, unknown>;
 
 export type SpecRow = {
   id: number;
@@ -27,12 +26,12 @@ export type NewSpec = Omit<SpecRow, "id">;
 const n = (v: unknown) => (v == null ? null : Number(v));
 const s = (v: unknown) => (v == null ? null : String(v));
 
-function toSpec(r: Raw): SpecRow {
+function toSpec(r: SpecEntriesTable): SpecRow {
   return {
     id: Number(r.id),
     make: String(r.make),
     model: String(r.model),
-    kind: r.kind as SpecKind,
+    kind: r.kind,
     label: String(r.label),
     value: n(r.value),
     unit: s(r.unit),
@@ -48,7 +47,7 @@ function toSpec(r: Raw): SpecRow {
 export async function listSpecs({ shopId, make, model }: { shopId: number; make?: string; model?: string }): Promise<SpecRow[]> {
   const q = db()("spec_entries").where({ shop_id: shopId });
   if (make !== undefined && model !== undefined) q.where({ make, model });
-  const rows = (await q.orderBy(["make", "model", "kind", "label", "id"]).limit(2000)) as Raw[];
+  const rows = await q.orderBy(["make", "model", "kind", "label", "id"]).limit(2000);
   return rows.map(toSpec);
 }
 
@@ -78,6 +77,6 @@ export async function deleteSpec({ shopId, id }: { shopId: number; id: number })
 
 /** The makes and models of the shop's machines, to suggest while typing a spec. */
 export async function listShopMachineModels({ shopId }: { shopId: number }): Promise<{ make: string; model: string }[]> {
-  const rows = (await db()("machines").where({ shop_id: shopId }).distinct("make", "model").orderBy(["make", "model"]).limit(500)) as Raw[];
+  const rows = await db()("machines").where({ shop_id: shopId }).distinct("make", "model").orderBy(["make", "model"]).limit(500);
   return rows.map((r) => ({ make: String(r.make), model: String(r.model) }));
 }

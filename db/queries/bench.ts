@@ -1,17 +1,17 @@
 import "server-only";
 import type { Knex } from "knex";
-import { insertEntry } from "@/db/queries/journal";
+import { insertEntry } from "@/db/queries/entries";
 import { type BenchSettings, DEFAULT_BENCH_SETTINGS, type ChainSnapshot, type ReadingBody, type TeardownBody, type TorqueBody } from "@/lib/bench";
 import type { EntryVisibility } from "@/lib/journal";
-import type { ReadingVerdict } from "@/lib/readings";
 import { checklistProgress } from "@/lib/reassembly";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { JournalEntriesTable, Nullable, PhotosTable, ReadingsTable, TeardownStepsTable, TorqueRecordsTable, UsersTable } from "@/db/tables";
+import { transaction } from "@/db/transaction";
 import type { TorqueUnit } from "@/lib/torque";
 
 // Torque records, readings and the teardown log. Every record that reaches the timeline is
 // written together with its entry in one transaction: both or neither.
 
-type Raw = Record<string, unknown>;
 type JobKey = { shopId: number; jobId: number };
 const num = (v: unknown) => (v == null ? null : Number(v));
 const str = (v: unknown) => (v == null ? null : String(v));
@@ -19,9 +19,9 @@ const iso = (v: unknown) => (v == null ? null : (v as Date).toISOString());
 const json = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (v ?? null));
 
 export async function getBenchSettings({ shopId }: { shopId: number }, k: Knex = db()): Promise<BenchSettings> {
-  const row = (await k("shop_bench_settings").where({ shop_id: shopId }).first()) as Raw | undefined;
+  const row = await k("shop_bench_settings").where({ shop_id: shopId }).first();
   if (!row) return { ...DEFAULT_BENCH_SETTINGS, passPercents: [...DEFAULT_BENCH_SETTINGS.passPercents] };
-  return { torqueUnit: row.torque_unit as TorqueUnit, passPercents: json(row.pass_percents) as number[], chainLimitPct: Number(row.chain_limit_pct) };
+  return { torqueUnit: row.torque_unit, passPercents: json(row.pass_percents) as number[], chainLimitPct: Number(row.chain_limit_pct) };
 }
 
 export async function saveBenchSettings({ shopId, settings }: { shopId: number; settings: BenchSettings }): Promise<void> {
@@ -29,27 +29,37 @@ export async function saveBenchSettings({ shopId, settings }: { shopId: number; 
   await db()("shop_bench_settings").insert({ shop_id: shopId, ...row }).onConflict("shop_id").merge(row);
 }
 
-/** Writes a timeline entry and then its record row (which points at it), in the caller's transaction. */
-async function withEntry(tx: Knex.Transaction, e: JobKey & { kind: "torque" | "reading" | "teardown"; userId: number; visibility: EntryVisibility; body: unknown }, table: string, row: Raw) {
+/**
+ * Writes a timeline entry and then its record row (which points at it), in the caller's
+ * transaction: `insertRecord` gets the row's job and entry columns and inserts the rest.
+ */
+async function withEntry(
+  tx: Knex.Transaction,
+  e: JobKey & { kind: "torque" | "reading" | "teardown"; userId: number; visibility: EntryVisibility; body: unknown },
+  insertRecord: (keys: { shop_id: number; job_id: number; entry_id: number }) => Promise<number[]>,
+) {
   const entryId = await insertEntry(tx, { shopId: e.shopId, jobId: e.jobId, kind: e.kind, authorId: e.userId, visibility: e.visibility, body: e.body });
-  const [id] = await tx(table).insert({ shop_id: e.shopId, job_id: e.jobId, entry_id: entryId, ...row });
+  const [id] = await insertRecord({ shop_id: e.shopId, job_id: e.jobId, entry_id: entryId });
   return { id: Number(id), entryId };
 }
 
 export async function insertTorqueRecord(p: JobKey & { userId: number; visibility: EntryVisibility; body: TorqueBody }) {
   const b = p.body;
-  return db().transaction((tx) =>
-    withEntry(tx, { ...p, kind: "torque" }, "torque_records", {
-      fastener: b.fastener,
-      spec_value: b.specValue,
-      unit: b.unit,
-      applied_value: b.appliedValue,
-      tool: b.tool,
-      pass_percents: JSON.stringify(b.passPercents),
-      bolt_count: b.boltCount,
-      note: b.note,
-      recorded_by_user_id: p.userId,
-    }),
+  return transaction((tx) =>
+    withEntry(tx, { ...p, kind: "torque" }, (keys) =>
+      tx("torque_records").insert({
+        ...keys,
+        fastener: b.fastener,
+        spec_value: b.specValue,
+        unit: b.unit,
+        applied_value: b.appliedValue,
+        tool: b.tool,
+        pass_percents: JSON.stringify(b.passPercents),
+        bolt_count: b.boltCount,
+        note: b.note,
+        recorded_by_user_id: p.userId,
+      }),
+    ),
   );
 }
 
@@ -62,27 +72,29 @@ export type TorqueRecordRow = TorqueBody & {
 };
 
 export async function listTorqueRecords({ shopId, jobId }: JobKey): Promise<TorqueRecordRow[]> {
-  const rows = (await db()("torque_records as r")
+  // The entry's columns are null when it was deleted (left join).
+  type Row = TorqueRecordsTable & Nullable<Pick<JournalEntriesTable, "visibility" | "version" | "body">> & { by_name: UsersTable["name"] | null };
+  const rows: Row[] = await db()("torque_records as r")
     .leftJoin("journal_entries as e", (j) => j.on("e.id", "r.entry_id").andOnNull("e.deleted_at"))
     .leftJoin("users as u", "u.id", "r.recorded_by_user_id")
     .where({ "r.shop_id": shopId, "r.job_id": jobId })
     .orderBy("r.id", "desc")
-    .select("r.*", "e.visibility", "e.version", "e.body", "u.name as by_name")) as Raw[];
+    .select("r.*", "e.visibility", "e.version", "e.body", "u.name as by_name");
   return rows.map((r) => {
     const body = json(r.body) as Partial<TorqueBody> | null;
     return {
       id: Number(r.id),
       fastener: String(r.fastener),
       specValue: Number(r.spec_value),
-      unit: r.unit as TorqueUnit,
+      unit: r.unit,
       appliedValue: num(r.applied_value),
       tool: str(r.tool),
       passPercents: json(r.pass_percents) as number[],
       boltCount: num(r.bolt_count),
       pattern: body?.pattern ?? null,
       note: str(r.note),
-      displayUnit: body?.displayUnit ?? (r.unit as TorqueUnit),
-      entry: r.version == null ? null : { id: Number(r.entry_id), visibility: r.visibility as EntryVisibility, version: Number(r.version) },
+      displayUnit: body?.displayUnit ?? r.unit,
+      entry: r.version == null || r.visibility == null ? null : { id: Number(r.entry_id), visibility: r.visibility, version: Number(r.version) },
       byUserId: num(r.recorded_by_user_id),
       by: str(r.by_name),
       at: iso(r.created_at)!,
@@ -92,24 +104,27 @@ export async function listTorqueRecords({ shopId, jobId }: JobKey): Promise<Torq
 
 export async function insertReading(p: JobKey & { userId: number; body: ReadingBody }) {
   const b = p.body;
-  return db().transaction((tx) =>
-    withEntry(tx, { ...p, kind: "reading", visibility: "shop" }, "readings", {
-      label: b.label,
-      value: b.value,
-      unit: b.unit,
-      min_value: b.min,
-      max_value: b.max,
-      source: b.source,
-      verdict: b.verdict,
-      chain: b.chain ? JSON.stringify(b.chain) : null,
-      recorded_by_user_id: p.userId,
-    }),
+  return transaction((tx) =>
+    withEntry(tx, { ...p, kind: "reading", visibility: "shop" }, (keys) =>
+      tx("readings").insert({
+        ...keys,
+        label: b.label,
+        value: b.value,
+        unit: b.unit,
+        min_value: b.min,
+        max_value: b.max,
+        source: b.source,
+        verdict: b.verdict,
+        chain: b.chain ? JSON.stringify(b.chain) : null,
+        recorded_by_user_id: p.userId,
+      }),
+    ),
   );
 }
 
 export type ReadingRow = Omit<ReadingBody, "marginText"> & { id: number; by: string | null; at: string };
 
-function toReading(r: Raw): ReadingRow {
+function toReading(r: ReadingsTable & { by_name: string | null }): ReadingRow {
   return {
     id: Number(r.id),
     label: String(r.label),
@@ -118,7 +133,7 @@ function toReading(r: Raw): ReadingRow {
     min: num(r.min_value),
     max: num(r.max_value),
     source: str(r.source),
-    verdict: r.verdict as ReadingVerdict,
+    verdict: r.verdict,
     chain: json(r.chain) as ChainSnapshot | null,
     by: str(r.by_name),
     at: iso(r.created_at)!,
@@ -126,11 +141,11 @@ function toReading(r: Raw): ReadingRow {
 }
 
 export async function listReadings({ shopId, jobId }: JobKey): Promise<ReadingRow[]> {
-  const rows = (await db()("readings as r")
+  const rows: (ReadingsTable & { by_name: string | null })[] = await db()("readings as r")
     .leftJoin("users as u", "u.id", "r.recorded_by_user_id")
     .where({ "r.shop_id": shopId, "r.job_id": jobId })
     .orderBy("r.id", "desc")
-    .select("r.*", "u.name as by_name")) as Raw[];
+    .select("r.*", "u.name as by_name");
   return rows.map(toReading);
 }
 
@@ -141,34 +156,37 @@ export async function jobHasPhoto({ shopId, jobId, publicId }: JobKey & { public
 }
 
 export async function listJobPhotos({ shopId, jobId }: JobKey): Promise<{ id: string; caption: string | null }[]> {
-  const rows = (await db()("photos as p")
+  const rows: (Pick<PhotosTable, "public_id"> & Pick<JournalEntriesTable, "caption">)[] = await db()("photos as p")
     .join("journal_entries as e", "e.id", "p.entry_id")
     .where({ "p.shop_id": shopId, "p.job_id": jobId })
     .whereNull("e.deleted_at")
     .orderBy("p.id", "desc")
     .limit(60)
-    .select("p.public_id", "e.caption")) as Raw[];
+    .select("p.public_id", "e.caption");
   return rows.map((r) => ({ id: String(r.public_id), caption: str(r.caption) }));
 }
 
 /** The next step in removal order; the job row lock makes two phones logging at once take turns. */
 export async function insertTeardownStep(p: JobKey & { userId: number; step: Omit<TeardownBody, "seq" | "torque">; photoId: string | null }) {
-  return db().transaction(async (tx) => {
+  return transaction(async (tx) => {
     await tx("jobs").where({ id: p.jobId, shop_id: p.shopId }).forUpdate().first("id");
-    const last = (await tx("teardown_steps").where({ shop_id: p.shopId, job_id: p.jobId }).max({ seq: "seq" }).first()) as Raw | undefined;
+    const last = await tx("teardown_steps").where({ shop_id: p.shopId, job_id: p.jobId }).max({ seq: "seq" }).first();
     const seq = Number(last?.seq ?? 0) + 1;
     const body: TeardownBody = { seq, ...p.step, torque: null };
     const s = p.step;
-    const made = await withEntry(tx, { ...p, kind: "teardown", visibility: "shop", body }, "teardown_steps", {
-      seq,
-      removed: s.removed,
-      count: s.count,
-      size: s.size,
-      notes: s.notes,
-      storage_label: s.storage,
-      photo_public_id: p.photoId,
-      created_by_user_id: p.userId,
-    });
+    const made = await withEntry(tx, { ...p, kind: "teardown", visibility: "shop", body }, (keys) =>
+      tx("teardown_steps").insert({
+        ...keys,
+        seq,
+        removed: s.removed,
+        count: s.count,
+        size: s.size,
+        notes: s.notes,
+        storage_label: s.storage,
+        photo_public_id: p.photoId,
+        created_by_user_id: p.userId,
+      }),
+    );
     return { ...made, seq };
   });
 }
@@ -188,11 +206,11 @@ export type TeardownRow = {
 };
 
 export async function listTeardownSteps({ shopId, jobId }: JobKey, k: Knex = db()): Promise<TeardownRow[]> {
-  const rows = (await k("teardown_steps as s")
+  const rows: (TeardownStepsTable & { checked_by_name: string | null })[] = await k("teardown_steps as s")
     .leftJoin("users as u", "u.id", "s.checked_by_user_id")
     .where({ "s.shop_id": shopId, "s.job_id": jobId })
     .orderBy("s.seq", "asc")
-    .select("s.*", "u.name as checked_by_name")) as Raw[];
+    .select("s.*", "u.name as checked_by_name");
   return rows.map((r) => ({
     id: Number(r.id),
     seq: Number(r.seq),
@@ -208,7 +226,7 @@ export async function listTeardownSteps({ shopId, jobId }: JobKey, k: Knex = db(
   }));
 }
 
-async function updateStep({ shopId, jobId, stepId }: JobKey & { stepId: number }, change: Raw): Promise<boolean> {
+async function updateStep({ shopId, jobId, stepId }: JobKey & { stepId: number }, change: Knex.DbRecord<TeardownStepsTable>): Promise<boolean> {
   const n = await db()("teardown_steps").where({ id: stepId, shop_id: shopId, job_id: jobId }).update(change);
   return n === 1;
 }
@@ -228,7 +246,7 @@ export function setStepReplaced(p: JobKey & { stepId: number; replaced: boolean 
 
 /** Reassembly progress for the owner's page; null when nothing was logged coming apart. */
 export async function getReassemblyProgress({ shopId, jobId }: JobKey): Promise<{ done: number; total: number; percent: number } | null> {
-  const rows = (await db()("teardown_steps").where({ shop_id: shopId, job_id: jobId }).select("id", "checked_at")) as Raw[];
+  const rows = await db()("teardown_steps").where({ shop_id: shopId, job_id: jobId }).select("id", "checked_at");
   if (!rows.length) return null;
   return checklistProgress(
     rows.map((r) => ({ id: Number(r.id) })),

@@ -1,13 +1,14 @@
 import "server-only";
 import type { Knex } from "knex";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import { transaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
 import { shopToday } from "@/lib/jobs-view";
 import type { MachineKind } from "@/lib/machine";
 import { type CheckInInput, type CustomerSearchResult, type NewCustomer, type NewMachine, promisedOnProblem } from "@/lib/schemas/check-in";
 import { allocateJobNumber, newPublicId } from "./jobs";
 import { subscribeOwner } from "./following";
-import { insertEntry } from "./journal";
+import { insertEntry } from "./entries";
 
 /** A refusal shown beside one field of the check-in form. */
 function refuse(code: "not_found" | "conflict" | "invalid", field: string, message: string): never {
@@ -89,15 +90,16 @@ async function insertMachine(tx: Knex.Transaction, shopId: number, customerId: n
  * (404) and nothing is written. `today` defaults to the date on the shop's own calendar.
  */
 export async function checkInJob({ shopId, userId, input, today }: { shopId: number; userId: number; input: CheckInInput; today?: string }) {
-  return db().transaction(async (tx) => {
+  return transaction(async (tx) => {
     // The shop row lock comes first: every insert below takes a shared lock on the shop row
     // through its foreign key, and taking the exclusive lock after those would deadlock two
     // check-ins at the same moment. Rolled back on any refusal, so no number is lost.
     const number = await allocateJobNumber(tx, shopId);
-    const shop = await tx("shops").where({ id: shopId }).first("timezone");
+    // allocateJobNumber found the shop row (or threw).
+    const shop = (await tx("shops").where({ id: shopId }).first("timezone"))!;
     const dateProblem = promisedOnProblem(input.promisedOn, today ?? shopToday(String(shop.timezone)));
     if (dateProblem) refuse("invalid", "promisedOn", dateProblem);
-    if (input.technicianId != null && !(await tx("memberships").where({ shop_id: shopId, user_id: input.technicianId }).first("id"))) {
+    if (input.technicianId != null && !(await tx("memberships").where({ shop_id: shopId, user_id: input.technicianId }).whereNull("deactivated_at").first("id"))) {
       refuse("not_found", "technicianId", "That person isn't on this shop's staff. Pick someone from the list.");
     }
     const customerId = await chooseCustomer(tx, shopId, input.customer);
@@ -121,7 +123,7 @@ export async function checkInJob({ shopId, userId, input, today }: { shopId: num
     await insertEntry(tx, { shopId, jobId: Number(jobId), kind: "status", authorId: userId, visibility: "shared", body: { from: null, to: "checked_in", note: null } });
     // The owner follows their job by e-mail from the start (they can choose less, or stop).
     const owner = await tx("customers").where({ shop_id: shopId, id: customerId }).first("email", "user_id");
-    if (owner?.email) await subscribeOwner(tx, { shopId, jobId: Number(jobId), email: String(owner.email), userId: owner.user_id == null ? null : Number(owner.user_id) });
+    if (owner?.email) await subscribeOwner({ shopId, jobId: Number(jobId), email: String(owner.email), userId: owner.user_id == null ? null : Number(owner.user_id) }, tx);
     return { id: Number(jobId), number, publicId, customerId, machineId };
   });
 }

@@ -1,37 +1,38 @@
 import "server-only";
 import type { Knex } from "knex";
 import { AppError } from "@/lib/errors";
-import { DEFAULT_MONEY_SETTINGS, type DraftLine, type EvidenceKind, type LineKind, type SafetyCategory, type ShopMoneySettings } from "@/lib/approvals";
+import { DEFAULT_MONEY_SETTINGS, type DraftLine, type EvidenceKind, type SafetyCategory, type ShopMoneySettings } from "@/lib/approvals";
 import { type TimelinePhoto, photoUrl } from "@/lib/journal";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { ClipsTable, FindingLinesTable, FindingsTable, JournalEntriesTable, PhotosTable, ReadingsTable, ShopMoneySettingsTable } from "@/db/tables";
+import { transaction } from "@/db/transaction";
 
 // Shop money settings and findings (the staff's drafts behind approval requests) with their
 // evidence and lines. A finding is read with its children in three queries whatever their count.
 
-type Raw = Record<string, unknown>;
 type JobKey = { shopId: number; jobId: number };
 const num = (v: unknown) => (v == null ? null : Number(v));
 const iso = (v: unknown) => (v == null ? null : (v as Date).toISOString());
 
 export async function getMoneySettings({ shopId }: { shopId: number }, k: Knex = db()): Promise<ShopMoneySettings> {
   // DECIMAL columns come back as exact text, never through a float.
-  const row = (await k("shop_money_settings")
+  const row: (ShopMoneySettingsTable & { tax_text: string; supplies_text: string | null; tolerance_text: string }) | undefined = await k("shop_money_settings")
     .where({ shop_id: shopId })
     .first(
       "*",
       k.raw("CAST(tax_rate_percent AS CHAR) AS tax_text"),
       k.raw("CAST(supplies_percent AS CHAR) AS supplies_text"),
       k.raw("CAST(tolerance_percent AS CHAR) AS tolerance_text"),
-    )) as Raw | undefined;
+    );
   if (!row) return DEFAULT_MONEY_SETTINGS;
   return {
     labourRateMinor: num(row.labour_rate_minor),
-    tax: { ratePercent: String(row.tax_text), method: row.tax_method as "per_line" | "per_invoice" },
+    tax: { ratePercent: String(row.tax_text), method: row.tax_method },
     taxable: { part: Boolean(row.parts_taxable), labour: Boolean(row.labour_taxable), fee: Boolean(row.fees_taxable) },
     supplies:
       row.supplies_text == null
         ? null
-        : { percent: String(row.supplies_text), base: row.supplies_base as "labour" | "parts_and_labour", capMinor: num(row.supplies_cap_minor), taxable: Boolean(row.supplies_taxable) },
+        : { percent: String(row.supplies_text), base: row.supplies_base, capMinor: num(row.supplies_cap_minor), taxable: Boolean(row.supplies_taxable) },
     tolerance:
       row.tolerance_kind === "greater_of"
         ? { kind: "greater_of", fixedMinor: Number(row.tolerance_fixed_minor), percent: String(row.tolerance_text), capMinor: num(row.tolerance_cap_minor) }
@@ -81,12 +82,12 @@ export type FindingRow = {
   lines: StoredLine[];
 };
 
-function toLine(r: Raw): StoredLine {
+function toLine(r: FindingLinesTable): StoredLine {
   return {
     id: Number(r.id),
-    kind: r.kind as LineKind,
+    kind: r.kind,
     description: String(r.description),
-    partNumber: (r.part_number as string | null) ?? null,
+    partNumber: r.part_number ?? null,
     qtyThousandths: num(r.qty_thousandths),
     unitPriceMinor: num(r.unit_price_minor),
     hoursTenths: num(r.hours_tenths),
@@ -100,13 +101,13 @@ function toLine(r: Raw): StoredLine {
 export async function listFindings({ shopId, jobId, id }: JobKey & { id?: number }, k: Knex = db()): Promise<FindingRow[]> {
   const q = k("findings as f").leftJoin("users as u", "u.id", "f.created_by_user_id").where({ "f.shop_id": shopId, "f.job_id": jobId }).orderBy("f.id").select("f.*", "u.name as by_name");
   if (id != null) q.where("f.id", id);
-  const rows = (await q) as Raw[];
+  const rows: (FindingsTable & { by_name: string | null })[] = await q;
   if (!rows.length) return [];
   const ids = rows.map((r) => Number(r.id));
-  const [evidence, lines] = (await Promise.all([
+  const [evidence, lines] = await Promise.all([
     k("finding_evidence").where("shop_id", shopId).whereIn("finding_id", ids).orderBy(["finding_id", "position"]),
     k("finding_lines").where("shop_id", shopId).whereIn("finding_id", ids).orderBy(["finding_id", "position"]),
-  ])) as [Raw[], Raw[]];
+  ]);
   return rows.map((r) => {
     const fid = Number(r.id);
     return {
@@ -115,16 +116,21 @@ export async function listFindings({ shopId, jobId, id }: JobKey & { id?: number
       jobId,
       title: String(r.title),
       found: String(r.found),
-      whyItMatters: (r.why_it_matters as string | null) ?? null,
-      safety: r.safety as SafetyCategory,
+      whyItMatters: r.why_it_matters ?? null,
+      safety: r.safety,
       version: Number(r.version),
-      createdBy: (r.by_name as string | null) ?? null,
+      createdBy: r.by_name ?? null,
       createdAt: iso(r.created_at)!,
       updatedAt: iso(r.updated_at)!,
-      evidence: evidence.filter((e) => Number(e.finding_id) === fid).map((e) => ({ kind: e.kind as EvidenceKind, ref: String(e.ref), momentMs: num(e.moment_ms) })),
+      evidence: evidence.filter((e) => Number(e.finding_id) === fid).map((e) => ({ kind: e.kind, ref: String(e.ref), momentMs: num(e.moment_ms) })),
       lines: lines.filter((l) => Number(l.finding_id) === fid).map(toLine),
     };
   });
+}
+
+/** Locks the finding's row for the rest of the transaction (a send and an edit of it queue). */
+export async function lockFinding(tx: Knex.Transaction, { shopId, id }: { shopId: number; id: number }): Promise<void> {
+  await tx("findings").where({ id, shop_id: shopId }).forUpdate().first("id");
 }
 
 export async function getFinding(key: JobKey & { id: number }, k: Knex = db()): Promise<FindingRow | null> {
@@ -171,7 +177,7 @@ async function writeChildren(tx: Knex.Transaction, shopId: number, findingId: nu
 }
 
 export async function insertFinding(p: JobKey & { userId: number; finding: FindingWrite }): Promise<number> {
-  return db().transaction(async (tx) => {
+  return transaction(async (tx) => {
     const [id] = await tx("findings").insert({
       shop_id: p.shopId,
       job_id: p.jobId,
@@ -188,8 +194,8 @@ export async function insertFinding(p: JobKey & { userId: number; finding: Findi
 
 /** Saves a finding if nobody saved it since `expectedVersion`; returns the new version. */
 export async function updateFinding(p: JobKey & { id: number; expectedVersion: number; finding: FindingWrite }): Promise<number> {
-  return db().transaction(async (tx) => {
-    const row = (await tx("findings").where({ id: p.id, shop_id: p.shopId, job_id: p.jobId }).forUpdate().first("version")) as Raw | undefined;
+  return transaction(async (tx) => {
+    const row = await tx("findings").where({ id: p.id, shop_id: p.shopId, job_id: p.jobId }).forUpdate().first("version");
     if (!row) throw new AppError("not_found", "That finding isn't on this job.");
     if (Number(row.version) !== p.expectedVersion) throw new AppError("conflict", "Someone saved this finding since you opened it. Reload to see their changes.");
     const version = p.expectedVersion + 1;
@@ -210,7 +216,9 @@ export type EvidenceChoices = { photos: EvidencePhoto[]; readings: EvidenceReadi
 
 /** The job's posted photos, readings and ready clips (what a finding may point at), newest first. */
 export async function listEvidenceChoices({ shopId, jobId }: JobKey, k: Knex = db()): Promise<EvidenceChoices> {
-  const [photos, readings, clips] = (await Promise.all([
+  type PhotoChoice = Pick<PhotosTable, "public_id" | "width" | "height"> & Pick<JournalEntriesTable, "caption">;
+  type ClipChoice = Pick<ClipsTable, "public_id" | "duration_seconds" | "playback_id" | "aspect_ratio"> & Pick<JournalEntriesTable, "caption">;
+  const [photos, readings, clips]: [PhotoChoice[], Pick<ReadingsTable, "id" | "label" | "value" | "unit" | "verdict">[], ClipChoice[]] = await Promise.all([
     k("photos as p")
       .join("journal_entries as e", "e.id", "p.entry_id")
       .where({ "p.shop_id": shopId, "p.job_id": jobId })
@@ -224,25 +232,25 @@ export async function listEvidenceChoices({ shopId, jobId }: JobKey, k: Knex = d
       .whereNull("e.deleted_at")
       .orderBy("c.id", "desc")
       .select("c.public_id", "c.duration_seconds", "c.playback_id", "c.aspect_ratio", "e.caption"),
-  ])) as [Raw[], Raw[], Raw[]];
+  ]);
   return {
     photos: photos.map((p) => {
       const id = String(p.public_id);
-      return { id, width: Number(p.width), height: Number(p.height), thumbUrl: photoUrl(id, "thumb"), displayUrl: photoUrl(id, "display"), caption: (p.caption as string | null) ?? null };
+      return { id, width: Number(p.width), height: Number(p.height), thumbUrl: photoUrl(id, "thumb"), displayUrl: photoUrl(id, "display"), caption: p.caption ?? null };
     }),
-    readings: readings.map((r) => ({ id: String(r.id), label: String(r.label), value: Number(r.value), unit: (r.unit as string | null) ?? null, verdict: String(r.verdict) })),
+    readings: readings.map((r) => ({ id: String(r.id), label: String(r.label), value: Number(r.value), unit: r.unit ?? null, verdict: String(r.verdict) })),
     clips: clips.map((c) => ({
       id: String(c.public_id),
-      caption: (c.caption as string | null) ?? null,
+      caption: c.caption ?? null,
       durationSeconds: num(c.duration_seconds),
-      playbackId: (c.playback_id as string | null) ?? null,
-      aspectRatio: (c.aspect_ratio as string | null) ?? null,
+      playbackId: c.playback_id ?? null,
+      aspectRatio: c.aspect_ratio ?? null,
     })),
   };
 }
 
 /** How to reach the machine's owner: the request e-mail's address (null: none on file) and their phone. */
 export async function getCustomerContact({ shopId, customerId }: { shopId: number; customerId: number }): Promise<{ email: string | null; phone: string | null }> {
-  const row = (await db()("customers").where({ shop_id: shopId, id: customerId }).first("email", "phone")) as { email: string | null; phone: string | null } | undefined;
+  const row = await db()("customers").where({ shop_id: shopId, id: customerId }).first("email", "phone");
   return { email: row?.email ?? null, phone: row?.phone ?? null };
 }

@@ -2,15 +2,15 @@ import "server-only";
 import type { Knex } from "knex";
 import { AppError } from "@/lib/errors";
 import { type AlertKind, type Frequency, MAX_FOLLOWERS, type SubscriberRole } from "@/lib/following";
-import type { JobStatus } from "@/lib/job-status";
 import { MONEY_ENTRY_KINDS } from "@/lib/journal";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { JobSubscribersTable, JobsTable, MachinesTable } from "@/db/tables";
+import { transaction } from "@/db/transaction";
 
 // Who follows a job, and the two queues that become their e-mail: shared entries wait in
 // job_update_queue for the digest window; job_alerts go out at the next sweep. Nothing here
 // renders mail: the worker does (lib/server/notify-sweep.ts), outside the web app.
 
-type Raw = Record<string, unknown>;
 const isDuplicateKey = (error: unknown) => (error as { code?: string } | null)?.code === "ER_DUP_ENTRY";
 
 export type Subscriber = {
@@ -23,22 +23,22 @@ export type Subscriber = {
   createdAt: Date;
 };
 
-const SUBSCRIBER_COLUMNS = ["id", "email", "user_id", "role", "frequency", "unsubscribed_at", "created_at"];
-function toSubscriber(r: Raw): Subscriber {
+const SUBSCRIBER_COLUMNS = ["id", "email", "user_id", "role", "frequency", "unsubscribed_at", "created_at"] as const;
+function toSubscriber(r: Pick<JobSubscribersTable, (typeof SUBSCRIBER_COLUMNS)[number]>): Subscriber {
   return {
     id: Number(r.id),
     email: String(r.email),
     userId: r.user_id == null ? null : Number(r.user_id),
-    role: r.role as SubscriberRole,
-    frequency: r.frequency as Frequency,
-    unsubscribedAt: (r.unsubscribed_at as Date | null) ?? null,
-    createdAt: r.created_at as Date,
+    role: r.role,
+    frequency: r.frequency,
+    unsubscribedAt: r.unsubscribed_at ?? null,
+    createdAt: r.created_at,
   };
 }
 
-/** The machine's owner follows their job from check-in (inside the check-in's transaction). */
-export async function subscribeOwner(tx: Knex, s: { shopId: number; jobId: number; email: string; userId: number | null }): Promise<void> {
-  await tx("job_subscribers")
+/** The machine's owner follows their job (at check-in, inside its transaction; or later, on the pool). */
+export async function subscribeOwner(s: { shopId: number; jobId: number; email: string; userId: number | null }, k: Knex = db()): Promise<void> {
+  await k("job_subscribers")
     .insert({ shop_id: s.shopId, job_id: s.jobId, email: s.email.toLowerCase(), user_id: s.userId, role: "owner" })
     .onConflict(["job_id", "email"])
     .merge({ role: "owner" });
@@ -107,46 +107,47 @@ async function insertAlert(
     return Number(id);
   } catch (error) {
     if (!isDuplicateKey(error) || !a.dedupeKey) throw error;
+    // The unique key that refused the insert names the row that is there.
     const found = await k("job_alerts").where({ job_id: a.jobId, dedupe_key: a.dedupeKey }).first("id");
-    return Number(found.id);
+    return Number(found!.id);
   }
 }
 
 export async function listSubscribers({ shopId, jobId }: { shopId: number; jobId: number }): Promise<Subscriber[]> {
-  const rows = (await db()("job_subscribers").where({ shop_id: shopId, job_id: jobId }).orderByRaw("role = 'owner' DESC").orderBy("id").select(SUBSCRIBER_COLUMNS)) as Raw[];
+  const rows = await db()("job_subscribers").where({ shop_id: shopId, job_id: jobId }).orderByRaw("role = 'owner' DESC").orderBy("id").select(...SUBSCRIBER_COLUMNS);
   return rows.map(toSubscriber);
 }
 
 /** The signed-in person's own subscription to this job: by account, or by the address it was made for. */
 export async function getOwnSubscription({ jobId, userId, email }: { jobId: number; userId: number; email: string }): Promise<Subscriber | null> {
-  const row = (await db()("job_subscribers")
+  const row = await db()("job_subscribers")
     .where("job_id", jobId)
     .where((w) => w.where("user_id", userId).orWhere("email", email.toLowerCase()))
     .orderByRaw("user_id <=> ? DESC", [userId])
-    .first(SUBSCRIBER_COLUMNS)) as Raw | undefined;
+    .first(...SUBSCRIBER_COLUMNS);
   return row ? toSubscriber(row) : null;
 }
 
 /** Signed-in followers of the job, for the permission check (a follower role on this job). */
 export async function followerUserIds({ jobId }: { jobId: number }): Promise<number[]> {
-  const rows = (await db()("job_subscribers").where({ job_id: jobId, role: "follower" }).whereNotNull("user_id").select("user_id")) as Raw[];
+  const rows = await db()("job_subscribers").where({ job_id: jobId, role: "follower" }).whereNotNull("user_id").select("user_id");
   return rows.map((r) => Number(r.user_id));
 }
 
 /** A new follower and their invitation e-mail, in one transaction. Refuses the owner, a repeat, and more than MAX_FOLLOWERS. */
 export async function inviteFollower(p: { shopId: number; jobId: number; email: string; invitedBy: number }): Promise<number> {
   const email = p.email.toLowerCase();
-  return db().transaction(async (tx) => {
+  return transaction(async (tx) => {
     // Locking the job row makes two invitations at once count followers one after the other.
     await tx("jobs").where({ id: p.jobId, shop_id: p.shopId }).forUpdate().first("id");
-    const existing = (await tx("job_subscribers").where({ job_id: p.jobId, email }).first("role")) as Raw | undefined;
+    const existing = await tx("job_subscribers").where({ job_id: p.jobId, email }).first("role");
     if (existing?.role === "owner") throw new AppError("conflict", "That's the machine owner's own address: they already get these e-mails.", { email: ["That address is the owner's own."] });
     if (existing) throw new AppError("conflict", "That person already follows this job.", { email: ["Already following."] });
     const count = await tx("job_subscribers").where({ job_id: p.jobId, role: "follower" }).count({ n: "*" }).first();
     if (Number(count?.n ?? 0) >= MAX_FOLLOWERS) {
       throw new AppError("conflict", `A job can have at most ${MAX_FOLLOWERS} followers. Remove someone first.`, { email: [`At most ${MAX_FOLLOWERS} followers.`] });
     }
-    const user = (await tx("users").where({ email }).first("id")) as Raw | undefined;
+    const user = await tx("users").where({ email }).first("id");
     let id: number | undefined;
     try {
       [id] = await tx("job_subscribers").insert({ shop_id: p.shopId, job_id: p.jobId, email, user_id: user ? Number(user.id) : null, role: "follower", invited_by_user_id: p.invitedBy });
@@ -178,14 +179,16 @@ export async function unsubscribe({ subscriberId }: { subscriberId: number }): P
   return true;
 }
 
+type MachineName = Pick<MachinesTable, "year" | "make" | "model">;
+
 /** What the unsubscribe page names: the machine and the shop, nothing else. */
 export async function describeSubscription({ subscriberId }: { subscriberId: number }) {
-  const row = (await db()("job_subscribers as s")
+  const row: (Pick<JobSubscribersTable, "email" | "unsubscribed_at"> & Pick<JobsTable, "public_id"> & MachineName & { shop_name: string }) | undefined = await db()("job_subscribers as s")
     .join("jobs as j", "j.id", "s.job_id")
     .join("machines as m", "m.id", "j.machine_id")
     .join("shops as sh", "sh.id", "s.shop_id")
     .where("s.id", subscriberId)
-    .first("s.email", "s.unsubscribed_at", "j.public_id", "m.year", "m.make", "m.model", "sh.name as shop_name")) as Raw | undefined;
+    .first("s.email", "s.unsubscribed_at", "j.public_id", "m.year", "m.make", "m.model", "sh.name as shop_name");
   if (!row) return null;
   return {
     email: String(row.email),
@@ -198,7 +201,7 @@ export async function describeSubscription({ subscriberId }: { subscriberId: num
 
 /** Jobs this person follows (not as the owner), at any shop. */
 export async function listFollowedJobs({ userId }: { userId: number }) {
-  const rows = (await db()("job_subscribers as s")
+  const rows: (Pick<JobsTable, "id" | "public_id" | "number" | "status"> & MachineName & { shop_name: string })[] = await db()("job_subscribers as s")
     .join("jobs as j", "j.id", "s.job_id")
     .join("machines as m", "m.id", "j.machine_id")
     .join("shops as sh", "sh.id", "s.shop_id")
@@ -206,12 +209,12 @@ export async function listFollowedJobs({ userId }: { userId: number }) {
     .orderByRaw("j.status = 'picked_up'")
     .orderBy("j.updated_at", "desc")
     .limit(200)
-    .select("j.id", "j.public_id", "j.number", "j.status", "m.year", "m.make", "m.model", "sh.name as shop_name")) as Raw[];
+    .select("j.id", "j.public_id", "j.number", "j.status", "m.year", "m.make", "m.model", "sh.name as shop_name");
   return rows.map((r) => ({
     id: Number(r.id),
     publicId: String(r.public_id),
     number: Number(r.number),
-    status: r.status as JobStatus,
+    status: r.status,
     machine: { year: r.year == null ? null : Number(r.year), make: String(r.make), model: String(r.model) },
     shopName: String(r.shop_name),
   }));

@@ -1,16 +1,15 @@
 import "server-only";
 import crypto from "node:crypto";
 import type { Knex } from "knex";
-import type { LineKind } from "@/lib/approvals";
 import type { InvoiceLine, InvoiceStatus } from "@/lib/invoices";
 import type { Discount, SuppliesSetting, TaxSetting, ToleranceSetting } from "@/lib/money";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { CustomersTable, InvoicesTable, JobsTable, MachinesTable, ShopsTable } from "@/db/tables";
 
 // Invoices and their lines. Writes take the caller's transaction: an invoice, its timeline entry
 // and its e-mail commit together. Lock order for money changes: the shop row (only when a number
 // is handed out), then the job row, then the invoice.
 
-type Raw = Record<string, unknown>;
 type JobKey = { shopId: number; jobId: number };
 const num = (v: unknown) => (v == null ? null : Number(v));
 const iso = (v: unknown) => (v == null ? null : (v as Date).toISOString());
@@ -70,7 +69,9 @@ function invoices(k: Knex) {
   return k("invoices as i").leftJoin("users as cu", "cu.id", "i.created_by_user_id").leftJoin("users as iu", "iu.id", "i.issued_by_user_id");
 }
 
-function toInvoice(r: Raw): InvoiceRow {
+type InvoiceJoin = InvoicesTable & { created_by_name: string | null; issued_by_name: string | null; discount_percent_text: string | null };
+
+function toInvoice(r: InvoiceJoin): InvoiceRow {
   const discount: Discount | null =
     r.discount_kind === "amount" ? { kind: "amount", amountMinor: Number(r.discount_amount_minor) } : r.discount_kind === "percent" ? { kind: "percent", percent: String(r.discount_percent_text) } : null;
   return {
@@ -79,7 +80,7 @@ function toInvoice(r: Raw): InvoiceRow {
     shopId: Number(r.shop_id),
     jobId: Number(r.job_id),
     number: Number(r.number),
-    status: r.status as InvoiceStatus,
+    status: r.status,
     currency: String(r.currency),
     snapshot: json(r.totals) as InvoiceTotalsSnapshot,
     subtotalMinor: Number(r.subtotal_minor),
@@ -90,13 +91,13 @@ function toInvoice(r: Raw): InvoiceRow {
     paidMinor: Number(r.paid_minor),
     balanceMinor: Number(r.balance_minor),
     discount,
-    returnedPartsNote: (r.returned_parts_note as string | null) ?? null,
-    note: (r.note as string | null) ?? null,
+    returnedPartsNote: r.returned_parts_note ?? null,
+    note: r.note ?? null,
     version: Number(r.version),
     createdAt: iso(r.created_at)!,
-    createdBy: (r.created_by_name as string | null) ?? null,
+    createdBy: r.created_by_name ?? null,
     issuedAt: iso(r.issued_at),
-    issuedBy: (r.issued_by_name as string | null) ?? null,
+    issuedBy: r.issued_by_name ?? null,
     paidAt: iso(r.paid_at),
     voidedAt: iso(r.voided_at),
   };
@@ -113,24 +114,58 @@ export async function allocateInvoiceNumber(tx: Knex.Transaction, shopId: number
 
 /** The job row locked: payments, refunds and invoice changes of one job queue on it. */
 export async function lockJob(tx: Knex.Transaction, { shopId, jobId }: JobKey): Promise<{ status: string; customerEmail: string | null; customerName: string } | null> {
-  const row = (await tx("jobs as j").join("customers as c", "c.id", "j.customer_id").where({ "j.id": jobId, "j.shop_id": shopId }).forUpdate().first("j.status", "c.email", "c.name")) as Raw | undefined;
-  return row ? { status: String(row.status), customerEmail: (row.email as string | null) ?? null, customerName: String(row.name) } : null;
+  const row: (Pick<JobsTable, "status"> & Pick<CustomersTable, "email" | "name">) | undefined = await tx("jobs as j")
+    .join("customers as c", "c.id", "j.customer_id")
+    .where({ "j.id": jobId, "j.shop_id": shopId })
+    .forUpdate()
+    .first("j.status", "c.email", "c.name");
+  return row ? { status: String(row.status), customerEmail: row.email ?? null, customerName: String(row.name) } : null;
+}
+
+export type InvoiceHeader = {
+  shop: { name: string; email: string | null; phone: string | null; timezone: string; currency: string };
+  job: { shopId: number; publicId: string; number: number; customerName: string };
+  machine: { year: number | null; make: string; model: string; serial: string | null };
+};
+
+/** What an invoice is headed with: the shop's details, the job and its customer, the machine. */
+export async function getInvoiceHeader({ jobId }: { jobId: number }): Promise<InvoiceHeader | null> {
+  type Row = Pick<JobsTable, "id" | "shop_id" | "public_id" | "number"> &
+    Pick<ShopsTable, "timezone" | "currency"> &
+    Pick<MachinesTable, "year" | "make" | "model" | "serial"> & { shop_name: string; shop_email: string | null; shop_phone: string | null; customer_name: string };
+  const j: Row | undefined = await db()("jobs as j")
+    .join("shops as s", "s.id", "j.shop_id")
+    .join("customers as c", "c.id", "j.customer_id")
+    .join("machines as m", "m.id", "j.machine_id")
+    .where("j.id", jobId)
+    .first("j.id", "j.shop_id", "j.public_id", "j.number", "s.name as shop_name", "s.email as shop_email", "s.phone as shop_phone", "s.timezone", "s.currency", "c.name as customer_name", "m.year", "m.make", "m.model", "m.serial");
+  if (!j) return null;
+  return {
+    shop: { name: String(j.shop_name), email: j.shop_email ?? null, phone: j.shop_phone ?? null, timezone: String(j.timezone), currency: String(j.currency) },
+    job: { shopId: Number(j.shop_id), publicId: String(j.public_id), number: Number(j.number), customerName: String(j.customer_name) },
+    machine: { year: j.year == null ? null : Number(j.year), make: String(j.make), model: String(j.model), serial: j.serial ?? null },
+  };
+}
+
+/** Locks the invoice row (after the job row: see the lock order above). */
+export async function lockInvoice(tx: Knex.Transaction, { id }: { id: number }): Promise<void> {
+  await tx("invoices").where({ id }).forUpdate().first("id");
 }
 
 export async function getInvoiceByPublicId({ publicId }: { publicId: string }, k: Knex = db()): Promise<InvoiceRow | null> {
-  const row = (await invoices(k).where("i.public_id", publicId).first(columns(k))) as Raw | undefined;
+  const row: InvoiceJoin | undefined = await invoices(k).where("i.public_id", publicId).first(columns(k));
   return row ? toInvoice(row) : null;
 }
 
 /** The job's invoice that isn't void (there is at most one), locked when a transaction is given. */
 export async function getLiveInvoice({ shopId, jobId }: JobKey, k: Knex = db(), lock = false): Promise<InvoiceRow | null> {
   if (lock) await k("invoices").where({ shop_id: shopId, live_job_id: jobId }).forUpdate().first("id");
-  const row = (await invoices(k).where({ "i.shop_id": shopId, "i.live_job_id": jobId }).first(columns(k))) as Raw | undefined;
+  const row: InvoiceJoin | undefined = await invoices(k).where({ "i.shop_id": shopId, "i.live_job_id": jobId }).first(columns(k));
   return row ? toInvoice(row) : null;
 }
 
 export async function listJobInvoices({ shopId, jobId }: JobKey, k: Knex = db()): Promise<InvoiceRow[]> {
-  const rows = (await invoices(k).where({ "i.shop_id": shopId, "i.job_id": jobId }).orderBy("i.id").select(columns(k))) as Raw[];
+  const rows: InvoiceJoin[] = await invoices(k).where({ "i.shop_id": shopId, "i.job_id": jobId }).orderBy("i.id").select(columns(k));
   return rows.map(toInvoice);
 }
 
@@ -153,16 +188,16 @@ export async function insertInvoice(
 }
 
 export async function listInvoiceLines({ shopId, invoiceId }: { shopId: number; invoiceId: number }, k: Knex = db()): Promise<InvoiceLineRow[]> {
-  const rows = (await k("invoice_lines").where({ shop_id: shopId, invoice_id: invoiceId }).orderBy(["position", "id"])) as Raw[];
+  const rows = await k("invoice_lines").where({ shop_id: shopId, invoice_id: invoiceId }).orderBy(["position", "id"]);
   return rows.map((r) => ({
     id: Number(r.id),
     position: Number(r.position),
-    source: r.source as InvoiceLine["source"],
-    requestPublicId: (r.request_public_id as string | null) ?? null,
+    source: r.source,
+    requestPublicId: r.request_public_id ?? null,
     requestLineNo: num(r.request_line_no),
-    kind: r.kind as LineKind,
+    kind: r.kind,
     description: String(r.description),
-    partNumber: (r.part_number as string | null) ?? null,
+    partNumber: r.part_number ?? null,
     qtyThousandths: num(r.qty_thousandths),
     unitPriceMinor: num(r.unit_price_minor),
     hoursTenths: num(r.hours_tenths),

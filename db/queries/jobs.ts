@@ -1,7 +1,8 @@
 import "server-only";
 import crypto from "node:crypto";
 import type { Knex } from "knex";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { CustomersTable, JobStatusChangesTable, JobsTable, MachinesTable, Nullable, ShopsTable, UsersTable } from "@/db/tables";
 import type { JobStatus } from "@/lib/job-status";
 import type { MachineKind } from "@/lib/machine";
 import { DONE_STATUSES, shopToday } from "@/lib/jobs-view";
@@ -25,7 +26,18 @@ export type JobRow = {
   technician: { id: number; name: string } | null;
 };
 
-type RawJob = Record<string, unknown>;
+/** A row of JOB_COLUMNS: the job with its customer, machine and technician (left-joined). */
+type JobJoin = Pick<JobsTable, "id" | "shop_id" | "number" | "public_id" | "status" | "concern" | "intake_notes" | "promised_on" | "created_at" | "updated_at" | "customer_id" | "technician_user_id"> & {
+  customer_name: CustomersTable["name"];
+  customer_user_id: CustomersTable["user_id"];
+  machine_kind: MachinesTable["kind"];
+  machine_year: MachinesTable["year"];
+  machine_make: MachinesTable["make"];
+  machine_model: MachinesTable["model"];
+  machine_serial: MachinesTable["serial"];
+  technician_name: Nullable<UsersTable>["name"];
+};
+type ShopNames = { shop_name: ShopsTable["name"]; shop_slug: ShopsTable["slug"] };
 
 const JOB_COLUMNS = [
   "j.id",
@@ -50,27 +62,27 @@ const JOB_COLUMNS = [
   "t.name as technician_name",
 ];
 
-function toJob(r: RawJob): JobRow {
+function toJob(r: JobJoin): JobRow {
   return {
     id: Number(r.id),
     shopId: Number(r.shop_id),
     number: Number(r.number),
     publicId: String(r.public_id),
-    status: r.status as JobStatus,
+    status: r.status,
     concern: String(r.concern),
-    intakeNotes: (r.intake_notes as string | null) ?? null,
-    promisedOn: (r.promised_on as string | null) ?? null,
-    createdAt: r.created_at as Date,
-    updatedAt: r.updated_at as Date,
+    intakeNotes: r.intake_notes ?? null,
+    promisedOn: r.promised_on ?? null,
+    createdAt: r.created_at,
+    updatedAt: r.updated_at,
     customerId: Number(r.customer_id),
     customerName: String(r.customer_name),
     customerUserId: r.customer_user_id == null ? null : Number(r.customer_user_id),
     machine: {
-      kind: r.machine_kind as MachineKind,
+      kind: r.machine_kind,
       year: r.machine_year == null ? null : Number(r.machine_year),
       make: String(r.machine_make),
       model: String(r.machine_model),
-      serial: (r.machine_serial as string | null) ?? null,
+      serial: r.machine_serial ?? null,
     },
     technician: r.technician_user_id == null ? null : { id: Number(r.technician_user_id), name: String(r.technician_name) },
   };
@@ -124,7 +136,7 @@ export async function listJobs({ shopId, query, today = shopToday("UTC") }: { sh
   const countRow = await base.clone().clearSelect().count({ n: "j.id" }).first();
   const total = Number(countRow?.n ?? 0);
   const direction = query.dir;
-  const rows = await base
+  const rows: JobJoin[] = await base
     .clone()
     .select(JOB_COLUMNS)
     .orderByRaw(`${SORT_COLUMNS[query.sort]} IS NULL`) // undated jobs last, whichever way
@@ -136,44 +148,75 @@ export async function listJobs({ shopId, query, today = shopToday("UTC") }: { sh
 }
 
 export async function getJobByNumber({ shopId, number }: { shopId: number; number: number }): Promise<JobRow | null> {
-  const row = await jobsWithDetails(db()).where({ "j.shop_id": shopId, "j.number": number }).first(JOB_COLUMNS);
+  const row: JobJoin | undefined = await jobsWithDetails(db()).where({ "j.shop_id": shopId, "j.number": number }).first(JOB_COLUMNS);
   return row ? toJob(row) : null;
 }
 
 export async function getJobByPublicId({ publicId }: { publicId: string }): Promise<(JobRow & { shopName: string; shopSlug: string }) | null> {
-  const row = await jobsWithDetails(db())
+  const row: (JobJoin & ShopNames) | undefined = await jobsWithDetails(db())
     .join("shops as s", "s.id", "j.shop_id")
     .where("j.public_id", publicId)
     .first([...JOB_COLUMNS, "s.name as shop_name", "s.slug as shop_slug"]);
   return row ? { ...toJob(row), shopName: String(row.shop_name), shopSlug: String(row.shop_slug) } : null;
 }
 
+/** The same, by row id (an invoice's or a deposit's job). */
+export async function getJobById({ id }: { id: number }): Promise<(JobRow & { shopName: string; shopSlug: string }) | null> {
+  const row: (JobJoin & ShopNames) | undefined = await jobsWithDetails(db())
+    .join("shops as s", "s.id", "j.shop_id")
+    .where("j.id", id)
+    .first([...JOB_COLUMNS, "s.name as shop_name", "s.slug as shop_slug"]);
+  return row ? { ...toJob(row), shopName: String(row.shop_name), shopSlug: String(row.shop_slug) } : null;
+}
+
+/** A job's public id from its row id (what an invoice, a deposit or a payment points at). */
+export async function getJobPublicId({ id }: { id: number }): Promise<string | null> {
+  const row = await db()("jobs").where({ id }).first("public_id");
+  return row ? String(row.public_id) : null;
+}
+
+/**
+ * The job row locked together with its customer and shop rows, for sending an approval request:
+ * the status to move from, whom to mail, and the shop's name and currency.
+ */
+export async function lockJobForRequest(tx: Knex.Transaction, { shopId, jobId }: { shopId: number; jobId: number }) {
+  type Row = Pick<JobsTable, "status"> & Pick<ShopsTable, "currency"> & { customer_name: string; customer_email: string | null; shop_name: string };
+  const row: Row | undefined = await tx("jobs as j")
+    .join("customers as c", "c.id", "j.customer_id")
+    .join("shops as s", "s.id", "j.shop_id")
+    .where({ "j.id": jobId, "j.shop_id": shopId })
+    .forUpdate()
+    .first("j.status", "c.name as customer_name", "c.email as customer_email", "s.name as shop_name", "s.currency");
+  if (!row) return null;
+  return { status: row.status, customerName: String(row.customer_name), customerEmail: row.customer_email ?? null, shopName: String(row.shop_name), currency: String(row.currency) };
+}
+
 /** Every job, in any shop, whose customer record is linked to this signed-in person. */
 export async function listJobsForCustomerUser({ userId }: { userId: number }) {
-  const rows = await jobsWithDetails(db())
+  const rows: (JobJoin & Pick<ShopNames, "shop_name">)[] = await jobsWithDetails(db())
     .join("shops as s", "s.id", "j.shop_id")
     .where("c.user_id", userId)
     .orderByRaw("j.status = 'picked_up'")
     .orderBy("j.updated_at", "desc")
     .limit(200)
     .select([...JOB_COLUMNS, "s.name as shop_name"]);
-  return rows.map((r: RawJob) => ({ ...toJob(r), shopName: String(r.shop_name) }));
+  return rows.map((r) => ({ ...toJob(r), shopName: String(r.shop_name) }));
 }
 
 export async function listStatusChanges({ shopId, jobId }: { shopId: number; jobId: number }) {
-  const rows = await db()("job_status_changes as h")
+  const rows: (Pick<JobStatusChangesTable, "id" | "from_status" | "to_status" | "note" | "changed_at"> & { by_name: string | null })[] = await db()("job_status_changes as h")
     .leftJoin("users as u", "u.id", "h.changed_by_user_id")
     .where({ "h.shop_id": shopId, "h.job_id": jobId })
     .orderBy("h.changed_at", "asc")
     .orderBy("h.id", "asc")
     .select("h.id", "h.from_status", "h.to_status", "h.note", "h.changed_at", "u.name as by_name");
-  return rows.map((r: RawJob) => ({
+  return rows.map((r) => ({
     id: Number(r.id),
-    from: (r.from_status as JobStatus | null) ?? null,
-    to: r.to_status as JobStatus,
-    note: (r.note as string | null) ?? null,
-    at: r.changed_at as Date,
-    by: (r.by_name as string | null) ?? null,
+    from: r.from_status ?? null,
+    to: r.to_status,
+    note: r.note ?? null,
+    at: r.changed_at,
+    by: r.by_name ?? null,
   }));
 }
 

@@ -1,22 +1,18 @@
 import "server-only";
-import crypto from "node:crypto";
 import type { Knex } from "knex";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { CustomersTable, JournalEntriesTable, JournalEntryRevisionsTable, Nullable, PhotosTable } from "@/db/tables";
+import { transaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
 import type { JobStatus } from "@/lib/job-status";
 import type { EntryKind, EntryVisibility, TimelineAudience, TimelineEntry, TimelinePage, TimelinePhoto } from "@/lib/journal";
 import { MONEY_ENTRY_KINDS, RECORD_ENTRY_KINDS, photoUrl } from "@/lib/journal";
 import { clipsForEntries } from "./clips";
+import { insertEntry, newPhotoPublicId } from "./entries";
 import { recordSharedEntry } from "./following";
-
-type Raw = Record<string, unknown>;
 
 const asDate = (v: unknown) => (v == null ? null : (v as Date).toISOString());
 const parseJson = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (v ?? null));
-
-export function newPhotoPublicId(): string {
-  return crypto.randomBytes(16).toString("base64url").slice(0, 22);
-}
 
 /**
  * One page of a job's timeline in at most three queries (entries with their authors, then the
@@ -50,7 +46,8 @@ export async function listTimeline({
   if (audience !== "shop") q.where("e.visibility", "shared");
   if (audience === "follower") q.whereNotIn("e.kind", MONEY_ENTRY_KINDS);
   if (after != null) q.where("e.id", order === "asc" ? ">" : "<", after);
-  const rows = (await q) as Raw[];
+  type Row = Pick<JournalEntriesTable, "id" | "kind" | "visibility" | "body" | "caption" | "version" | "created_at" | "edited_at" | "author_user_id"> & { author_name: string | null };
+  const rows: Row[] = await q;
   const more = rows.length > limit;
   const page = more ? rows.slice(0, limit) : rows;
 
@@ -59,11 +56,7 @@ export async function listTimeline({
   const photoEntryIds = page.filter((r) => r.kind === "photos").map((r) => Number(r.id));
   const photosByEntry = new Map<number, TimelinePhoto[]>();
   if (photoEntryIds.length) {
-    const photos = (await db()("photos")
-      .where("shop_id", shopId)
-      .whereIn("entry_id", photoEntryIds)
-      .orderBy(["entry_id", "position", "id"])
-      .select("entry_id", "public_id", "width", "height")) as Raw[];
+    const photos = await db()("photos").where("shop_id", shopId).whereIn("entry_id", photoEntryIds).orderBy(["entry_id", "position", "id"]).select("entry_id", "public_id", "width", "height");
     for (const p of photos) {
       const list = photosByEntry.get(Number(p.entry_id)) ?? [];
       list.push(toPhoto(p));
@@ -77,12 +70,12 @@ export async function listTimeline({
     const entry: TimelineEntry = {
       id,
       kind: r.kind as EntryKind,
-      visibility: r.visibility as EntryVisibility,
+      visibility: r.visibility,
       createdAt: asDate(r.created_at)!,
       editedAt: asDate(r.edited_at),
       author: authorId == null ? null : { name: String(r.author_name) },
       body: parseJson(r.body),
-      caption: (r.caption as string | null) ?? null,
+      caption: r.caption ?? null,
       photos: photosByEntry.get(id) ?? [],
       ...(r.kind === "clip" ? { clip: clips.get(id) ?? null } : {}),
     };
@@ -95,40 +88,9 @@ export async function listTimeline({
   return { entries, next: more ? (entries.at(-1)?.id ?? null) : null };
 }
 
-function toPhoto(p: Raw): TimelinePhoto {
+function toPhoto(p: Pick<PhotosTable, "public_id" | "width" | "height">): TimelinePhoto {
   const id = String(p.public_id);
   return { id, width: Number(p.width), height: Number(p.height), thumbUrl: photoUrl(id, "thumb"), displayUrl: photoUrl(id, "display") };
-}
-
-export async function insertEntry(
-  k: Knex,
-  e: {
-    shopId: number;
-    jobId: number;
-    kind: EntryKind;
-    authorId: number | null;
-    visibility?: EntryVisibility;
-    body?: unknown;
-    caption?: string | null;
-    /** Mail subscribers about it at once instead of in the next digest. */
-    alert?: "parts_in";
-  },
-): Promise<number> {
-  const visibility = e.visibility ?? "shop";
-  const [id] = await k("journal_entries").insert({
-    shop_id: e.shopId,
-    job_id: e.jobId,
-    kind: e.kind,
-    visibility,
-    author_user_id: e.authorId,
-    body: e.body === undefined ? null : JSON.stringify(e.body),
-    caption: e.caption ?? null,
-    shared_at: visibility === "shared" ? k.fn.now(3) : null,
-  });
-  await k("jobs").where({ id: e.jobId, shop_id: e.shopId }).update({ updated_at: k.fn.now() });
-  // Followers hear of it (batched) in the same transaction as the entry.
-  if (visibility === "shared") await recordSharedEntry(k, { shopId: e.shopId, jobId: e.jobId, entryId: Number(id), kind: e.kind, body: e.body, alert: e.alert });
-  return Number(id);
 }
 
 /** A photo that has arrived but belongs to no entry yet (seen by the shop only). */
@@ -168,12 +130,8 @@ export async function createPhotoEntry(p: {
   caption: string | null;
   visibility: EntryVisibility;
 }): Promise<number> {
-  return db().transaction(async (tx) => {
-    const found = (await tx("photos")
-      .where({ shop_id: p.shopId, job_id: p.jobId })
-      .whereIn("public_id", p.photoIds)
-      .forUpdate()
-      .select("id", "public_id", "entry_id")) as Raw[];
+  return transaction(async (tx) => {
+    const found = await tx("photos").where({ shop_id: p.shopId, job_id: p.jobId }).whereIn("public_id", p.photoIds).forUpdate().select("id", "public_id", "entry_id");
     const byPublic = new Map(found.map((r) => [String(r.public_id), r]));
     const missing = p.photoIds.filter((id) => !byPublic.has(id));
     if (missing.length) throw new AppError("not_found", `${missing.length === 1 ? "A photo was" : `${missing.length} photos were`} not found on this job; upload again.`);
@@ -188,13 +146,19 @@ export async function createPhotoEntry(p: {
 
 /** What the photo route needs to decide who may see a photo. */
 export async function getPhotoAccess({ publicId }: { publicId: string }) {
-  const row = (await db()("photos as p")
+  type Row = Pick<PhotosTable, "shop_id" | "job_id" | "display_key" | "thumb_key"> & { customer_user_id: CustomersTable["user_id"] } & Nullable<Pick<JournalEntriesTable, "kind" | "visibility" | "deleted_at">>;
+  const row: Row | undefined = await db()("photos as p")
     .join("jobs as j", "j.id", "p.job_id")
     .join("customers as c", "c.id", "j.customer_id")
     .leftJoin("journal_entries as e", "e.id", "p.entry_id")
     .where("p.public_id", publicId)
-    .first("p.shop_id", "p.job_id", "p.display_key", "p.thumb_key", "c.user_id as customer_user_id", "e.kind", "e.visibility", "e.deleted_at")) as Raw | undefined;
+    .first("p.shop_id", "p.job_id", "p.display_key", "p.thumb_key", "c.user_id as customer_user_id", "e.kind", "e.visibility", "e.deleted_at");
   if (!row) return null;
+  // A photo quoted as evidence in a request sent to the owner is theirs to see, shared or not.
+  const quoted = await db()("finding_evidence as fe")
+    .join("approval_requests as r", "r.finding_id", "fe.finding_id")
+    .where({ "fe.shop_id": row.shop_id, "fe.kind": "photo", "fe.ref": publicId })
+    .first("r.id");
   return {
     shopId: Number(row.shop_id),
     jobId: Number(row.job_id),
@@ -205,6 +169,8 @@ export async function getPhotoAccess({ publicId }: { publicId: string }) {
     thumbKey: String(row.thumb_key),
     // Shared with the owner only while its entry is shared and not deleted.
     sharedWithOwner: row.visibility === "shared" && row.deleted_at == null,
+    shared: row.visibility === "shared" && row.deleted_at == null,
+    quotedInRequest: !!quoted,
   };
 }
 
@@ -223,12 +189,12 @@ export async function changeEntry(p: {
   expectedVersion: number;
   change: EntryChange;
 }): Promise<{ version: number }> {
-  return db().transaction(async (tx) => {
-    const row = (await tx("journal_entries")
+  return transaction(async (tx) => {
+    const row = await tx("journal_entries")
       .where({ id: p.entryId, shop_id: p.shopId, job_id: p.jobId })
       .whereNull("deleted_at")
       .forUpdate()
-      .first("kind", "visibility", "body", "caption", "version", "author_user_id")) as Raw | undefined;
+      .first("kind", "visibility", "body", "caption", "version", "author_user_id");
     if (!row) throw new AppError("not_found", "That entry is gone: it may have been deleted.");
     const mine = row.author_user_id != null && Number(row.author_user_id) === p.userId;
     if (!mine && !p.mayModerate) throw new AppError("forbidden", "Only the person who posted this entry can change it.");
@@ -254,35 +220,35 @@ export async function changeEntry(p: {
       changed_by_user_id: p.userId,
     });
     const version = Number(row.version) + 1;
-    const update: Raw = { version };
-    if (p.change.delete) update.deleted_at = tx.fn.now(3);
-    if (p.change.body !== undefined) update.body = JSON.stringify(p.change.body);
-    if (p.change.caption !== undefined) update.caption = p.change.caption;
-    if (p.change.body !== undefined || p.change.caption !== undefined) update.edited_at = tx.fn.now(3);
-    if (p.change.visibility && p.change.visibility !== row.visibility) {
-      update.visibility = p.change.visibility;
-      update.shared_at = p.change.visibility === "shared" ? tx.fn.now(3) : null;
-    }
+    const shareChange = p.change.visibility && p.change.visibility !== row.visibility ? p.change.visibility : null;
+    const update: Knex.DbRecord<JournalEntriesTable> = {
+      version,
+      ...(p.change.delete ? { deleted_at: tx.fn.now(3) } : {}),
+      ...(p.change.body !== undefined ? { body: JSON.stringify(p.change.body) } : {}),
+      ...(p.change.caption !== undefined ? { caption: p.change.caption } : {}),
+      ...(p.change.body !== undefined || p.change.caption !== undefined ? { edited_at: tx.fn.now(3) } : {}),
+      ...(shareChange ? { visibility: shareChange, shared_at: shareChange === "shared" ? tx.fn.now(3) : null } : {}),
+    };
     await tx("journal_entries").where({ id: p.entryId }).update(update);
-    if (update.visibility === "shared") await recordSharedEntry(tx, { shopId: p.shopId, jobId: p.jobId, entryId: p.entryId, kind, body: parseJson(row.body) });
+    if (shareChange === "shared") await recordSharedEntry(tx, { shopId: p.shopId, jobId: p.jobId, entryId: p.entryId, kind, body: parseJson(row.body) });
     return { version };
   });
 }
 
 export async function listEntryRevisions({ shopId, entryId }: { shopId: number; entryId: number }) {
-  const rows = (await db()("journal_entry_revisions as r")
+  const rows: (Pick<JournalEntryRevisionsTable, "version" | "change" | "visibility" | "body" | "caption" | "changed_at"> & { by_name: string | null })[] = await db()("journal_entry_revisions as r")
     .leftJoin("users as u", "u.id", "r.changed_by_user_id")
     .where({ "r.shop_id": shopId, "r.entry_id": entryId })
     .orderBy("r.id", "desc")
-    .select("r.version", "r.change", "r.visibility", "r.body", "r.caption", "r.changed_at", "u.name as by_name")) as Raw[];
+    .select("r.version", "r.change", "r.visibility", "r.body", "r.caption", "r.changed_at", "u.name as by_name");
   return rows.map((r) => ({
     version: Number(r.version),
     change: String(r.change),
-    visibility: r.visibility as EntryVisibility,
+    visibility: r.visibility,
     body: parseJson(r.body),
-    caption: (r.caption as string | null) ?? null,
+    caption: r.caption ?? null,
     at: asDate(r.changed_at)!,
-    by: (r.by_name as string | null) ?? null,
+    by: r.by_name ?? null,
   }));
 }
 
@@ -309,5 +275,5 @@ export async function moveJobStatus(p: {
     await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "status", authorId: p.userId, visibility: "shared", body: { from: p.from, to: p.to, note: p.note }, alert: p.alert });
     return true;
   };
-  return p.tx ? run(p.tx) : db().transaction(run);
+  return p.tx ? run(p.tx) : transaction(run);
 }

@@ -3,10 +3,15 @@ import crypto from "node:crypto";
 import type { Knex } from "knex";
 import { z } from "zod";
 import { AppError } from "@/lib/errors";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { OutboxTable } from "@/db/tables";
+import { transaction } from "@/db/transaction";
 import { MAIL_FROM } from "@/lib/server/mail";
 
 export type OutboxState = "queued" | "sending" | "retrying" | "sent" | "dead";
+
+/** Outbox priorities above ordinary mail (0). */
+export const MAIL_PRIORITY = { signInLink: 10 } as const;
 
 export type NewMail = {
   /** The shop the mail speaks for (its name in From, its e-mail as Reply-To); null for mail of no shop. */
@@ -22,6 +27,10 @@ export type NewMail = {
   headers?: Record<string, string>;
   /** Not before this time (e.g. a reminder); default now. */
   sendAfter?: Date | null;
+  /** Useless after this time (an expired sign-in link): dead-lettered instead of sent, and retried until then. */
+  sendBefore?: Date | null;
+  /** Higher goes first, through the worker's fast lane (sign-in links: MAIL_PRIORITY.signInLink); default 0. */
+  priority?: number;
   /** The same key for the same shop queues one mail only; the first row's id is returned. */
   dedupeKey?: string | null;
 };
@@ -51,6 +60,8 @@ const mailSchema = z.object({
     .refine((h) => Object.keys(h).every((name) => HEADER_NAME.test(name) && !RESERVED_HEADERS.has(name.toLowerCase())), "A header name is not allowed.")
     .optional(),
   sendAfter: z.date().nullable().optional(),
+  sendBefore: z.date().nullable().optional(),
+  priority: z.number().int().min(0).max(255).optional(),
   dedupeKey: oneLine(190, "The dedupe key").nullable().optional(),
 });
 
@@ -98,6 +109,8 @@ export async function enqueueMail(k: Knex, mail: NewMail): Promise<number> {
     headers: m.headers && Object.keys(m.headers).length ? JSON.stringify(m.headers) : null,
     idempotency_key: crypto.randomUUID(),
     next_attempt_at: m.sendAfter ?? k.fn.now(3),
+    send_before: m.sendBefore ?? null,
+    priority: m.priority ?? 0,
   };
   try {
     const [id] = await k("outbox").insert(row);
@@ -123,9 +136,9 @@ export type ClaimedMail = {
   text: string;
   headers: Record<string, string> | null;
   idempotencyKey: string;
+  priority: number;
+  sendBefore: Date | null;
 };
-
-type Raw = Record<string, unknown>;
 
 /**
  * Takes up to `limit` due rows for this worker in one short transaction: rows other workers
@@ -133,18 +146,22 @@ type Raw = Record<string, unknown>;
  * `sending` with a lease; a worker that dies leaves them to come back when the lease ends, and
  * each claim counts as an attempt, so a mail that keeps crashing its worker still dead-letters.
  */
-export async function claimBatch({ limit, leaseMs }: { limit: number; leaseMs: number }): Promise<ClaimedMail[]> {
+export async function claimBatch({ limit, leaseMs, priorityOnly = false }: { limit: number; leaseMs: number; priorityOnly?: boolean }): Promise<ClaimedMail[]> {
   const claimToken = crypto.randomUUID();
-  const ids = await db().transaction(async (tx) => {
-    const rows = (await tx("outbox")
+  const ids = await transaction(async (tx) => {
+    const rows: Pick<OutboxTable, "id">[] = await tx("outbox")
       // Lease ends are stored in next_attempt_at too, so one index range finds due mail and lapsed leases.
       .whereIn("state", ["queued", "retrying", "sending"])
       .where("next_attempt_at", "<=", tx.fn.now(3))
+      // The fast lane (priority mail only) reads the outbox_priority_due index.
+      .modify((q) => {
+        if (priorityOnly) q.where("priority", ">", 0);
+      })
       .orderBy("next_attempt_at")
       .limit(limit)
       .forUpdate()
       .skipLocked()
-      .select("id")) as Raw[];
+      .select("id");
     const found = rows.map((r) => Number(r.id));
     if (!found.length) return found;
     const until = tx.raw("NOW(3) + INTERVAL ? MICROSECOND", [leaseMs * 1000]);
@@ -154,19 +171,21 @@ export async function claimBatch({ limit, leaseMs }: { limit: number; leaseMs: n
     return found;
   });
   if (!ids.length) return [];
-  const rows = (await db()("outbox").whereIn("id", ids).where("claim_token", claimToken).orderBy("id")) as Raw[];
+  const rows = await db()("outbox").whereIn("id", ids).where("claim_token", claimToken).orderBy("id");
   return rows.map((r) => ({
     id: Number(r.id),
     claimToken,
     attempts: Number(r.attempts),
     from: String(r.from_address),
     to: String(r.to_email),
-    replyTo: (r.reply_to as string | null) ?? null,
+    replyTo: r.reply_to ?? null,
     subject: String(r.subject),
     html: String(r.html),
     text: String(r.text),
     headers: r.headers == null ? null : typeof r.headers === "string" ? (JSON.parse(r.headers) as Record<string, string>) : (r.headers as Record<string, string>),
     idempotencyKey: String(r.idempotency_key),
+    priority: Number(r.priority ?? 0),
+    sendBefore: r.send_before == null ? null : new Date(r.send_before),
   }));
 }
 
@@ -197,12 +216,12 @@ export type OutboxProblem = { id: number; kind: string; to: string; subject: str
 
 /** The shop's mail that failed at least once and is not sent yet, newest first. */
 export async function listOutboxProblems({ shopId, limit = 100 }: { shopId: number; limit?: number }): Promise<OutboxProblem[]> {
-  const rows = (await db()("outbox")
+  const rows = await db()("outbox")
     .where("shop_id", shopId)
     .whereIn("state", ["retrying", "dead"])
     .orderBy("id", "desc")
     .limit(limit)
-    .select("id", "kind", "to_email", "subject", "state", "attempts", "last_error", "next_attempt_at", "created_at")) as Raw[];
+    .select("id", "kind", "to_email", "subject", "state", "attempts", "last_error", "next_attempt_at", "created_at");
   return rows.map((r) => ({
     id: Number(r.id),
     kind: String(r.kind),
@@ -210,9 +229,9 @@ export async function listOutboxProblems({ shopId, limit = 100 }: { shopId: numb
     subject: String(r.subject),
     state: r.state as "retrying" | "dead",
     attempts: Number(r.attempts),
-    lastError: (r.last_error as string | null) ?? null,
-    nextAttemptAt: r.next_attempt_at as Date,
-    createdAt: r.created_at as Date,
+    lastError: r.last_error ?? null,
+    nextAttemptAt: r.next_attempt_at,
+    createdAt: r.created_at,
   }));
 }
 

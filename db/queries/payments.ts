@@ -2,14 +2,13 @@ import "server-only";
 import crypto from "node:crypto";
 import type { Knex } from "knex";
 import type { PaymentKind, PaymentMethod } from "@/lib/invoices";
-import type { MachineKind } from "@/lib/machine";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { DepositRequestsTable, JobsTable, MachinesTable, PaymentCheckoutsTable, PaymentsTable } from "@/db/tables";
 
 // Payments, refunds, parts deposits, online checkouts and the webhook events already applied. The
 // provider's ids are unique keys, so whichever of the webhook and the API answer arrives second
 // finds its payment or refund already recorded.
 
-type Raw = Record<string, unknown>;
 type JobKey = { shopId: number; jobId: number };
 const num = (v: unknown) => (v == null ? null : Number(v));
 const iso = (v: unknown) => (v == null ? null : (v as Date).toISOString());
@@ -32,24 +31,24 @@ export type PaymentRow = {
 };
 
 export async function listJobPayments({ shopId, jobId }: JobKey, k: Knex = db()): Promise<PaymentRow[]> {
-  const rows = (await k("payments as p")
+  const rows: (PaymentsTable & { recorded_by_name: string | null })[] = await k("payments as p")
     .leftJoin("users as u", "u.id", "p.recorded_by_user_id")
     .where({ "p.shop_id": shopId, "p.job_id": jobId })
     .orderBy(["p.received_at", "p.id"])
-    .select("p.*", "u.name as recorded_by_name")) as Raw[];
+    .select("p.*", "u.name as recorded_by_name");
   return rows.map((r) => ({
     id: Number(r.id),
-    kind: r.kind as PaymentKind,
-    method: r.method as PaymentMethod,
+    kind: r.kind,
+    method: r.method,
     amountMinor: Number(r.amount_minor),
     currency: String(r.currency),
-    reference: (r.reference as string | null) ?? null,
+    reference: r.reference ?? null,
     invoiceId: num(r.invoice_id),
     depositId: num(r.deposit_id),
-    providerPaymentId: (r.provider_payment_id as string | null) ?? null,
-    providerRefundId: (r.provider_refund_id as string | null) ?? null,
+    providerPaymentId: r.provider_payment_id ?? null,
+    providerRefundId: r.provider_refund_id ?? null,
     refundOfPaymentId: num(r.refund_of_payment_id),
-    recordedBy: (r.recorded_by_name as string | null) ?? null,
+    recordedBy: r.recorded_by_name ?? null,
     receivedAt: iso(r.received_at)!,
   }));
 }
@@ -97,7 +96,7 @@ export async function insertPayment(k: Knex, p: NewPayment): Promise<number | nu
 }
 
 export async function getPaymentByProviderId(k: Knex, providerPaymentId: string): Promise<{ id: number; shopId: number; jobId: number; invoiceId: number | null; amountMinor: number; currency: string } | null> {
-  const r = (await k("payments").where({ provider_payment_id: providerPaymentId }).first("id", "shop_id", "job_id", "invoice_id", "amount_minor", "currency")) as Raw | undefined;
+  const r = await k("payments").where({ provider_payment_id: providerPaymentId }).first("id", "shop_id", "job_id", "invoice_id", "amount_minor", "currency");
   return r ? { id: Number(r.id), shopId: Number(r.shop_id), jobId: Number(r.job_id), invoiceId: num(r.invoice_id), amountMinor: Number(r.amount_minor), currency: String(r.currency) } : null;
 }
 
@@ -118,18 +117,20 @@ export type DepositRow = {
   paidAt: string | null;
 };
 
-function toDeposit(r: Raw): DepositRow {
+type DepositJoin = DepositRequestsTable & { requested_by_name: string | null };
+
+function toDeposit(r: DepositJoin): DepositRow {
   return {
     id: Number(r.id),
     publicId: String(r.public_id),
     shopId: Number(r.shop_id),
     jobId: Number(r.job_id),
-    requestPublicId: (r.request_public_id as string | null) ?? null,
+    requestPublicId: r.request_public_id ?? null,
     amountMinor: Number(r.amount_minor),
     currency: String(r.currency),
-    note: (r.note as string | null) ?? null,
-    status: r.status as DepositRow["status"],
-    requestedBy: (r.requested_by_name as string | null) ?? null,
+    note: r.note ?? null,
+    status: r.status,
+    requestedBy: r.requested_by_name ?? null,
     requestedAt: iso(r.requested_at)!,
     paidAt: iso(r.paid_at),
   };
@@ -154,12 +155,12 @@ export async function insertDeposit(tx: Knex, d: JobKey & { amountMinor: number;
 
 export async function getDepositByPublicId({ publicId }: { publicId: string }, k: Knex = db(), lock = false): Promise<DepositRow | null> {
   const q = deposits(k).where("d.public_id", publicId).first("d.*", "u.name as requested_by_name");
-  const row = (await (lock ? q.forUpdate() : q)) as Raw | undefined;
+  const row: DepositJoin | undefined = await (lock ? q.forUpdate() : q);
   return row ? toDeposit(row) : null;
 }
 
 export async function listJobDeposits({ shopId, jobId }: JobKey, k: Knex = db()): Promise<DepositRow[]> {
-  const rows = (await deposits(k).where({ "d.shop_id": shopId, "d.job_id": jobId }).orderBy("d.id").select("d.*", "u.name as requested_by_name")) as Raw[];
+  const rows: DepositJoin[] = await deposits(k).where({ "d.shop_id": shopId, "d.job_id": jobId }).orderBy("d.id").select("d.*", "u.name as requested_by_name");
   return rows.map(toDeposit);
 }
 
@@ -181,7 +182,7 @@ export type CheckoutRow = JobKey & {
   createdAt: string;
 };
 
-function toCheckout(r: Raw): CheckoutRow {
+function toCheckout(r: PaymentCheckoutsTable): CheckoutRow {
   return {
     id: Number(r.id),
     shopId: Number(r.shop_id),
@@ -189,15 +190,15 @@ function toCheckout(r: Raw): CheckoutRow {
     invoiceId: num(r.invoice_id),
     depositId: num(r.deposit_id),
     sessionId: String(r.provider_session_id),
-    url: (r.url as string | null) ?? null,
+    url: r.url ?? null,
     amountMinor: Number(r.amount_minor),
     currency: String(r.currency),
-    status: r.status as CheckoutRow["status"],
+    status: r.status,
     createdAt: iso(r.created_at)!,
   };
 }
 
-export async function insertCheckout(k: Knex, c: JobKey & { invoiceId: number | null; depositId: number | null; sessionId: string; url: string | null; amountMinor: number; currency: string; userId: number }): Promise<void> {
+export async function insertCheckout(c: JobKey & { invoiceId: number | null; depositId: number | null; sessionId: string; url: string | null; amountMinor: number; currency: string; userId: number }, k: Knex = db()): Promise<void> {
   await k("payment_checkouts").insert({
     shop_id: c.shopId,
     job_id: c.jobId,
@@ -211,18 +212,24 @@ export async function insertCheckout(k: Knex, c: JobKey & { invoiceId: number | 
   });
 }
 
-export async function getCheckoutBySessionId(k: Knex, sessionId: string, lock = false): Promise<CheckoutRow | null> {
+export async function getCheckoutBySessionId({ sessionId }: { sessionId: string }, k: Knex = db(), lock = false): Promise<CheckoutRow | null> {
   const q = k("payment_checkouts").where({ provider_session_id: sessionId }).first();
-  const row = (await (lock ? q.forUpdate() : q)) as Raw | undefined;
+  const row = await (lock ? q.forUpdate() : q);
   return row ? toCheckout(row) : null;
 }
 
 /** Open checkouts for the same thing (the invoice's balance, or one deposit), newest first. */
-export async function listOpenCheckouts(k: Knex, t: JobKey & { invoiceId: number | null; depositId: number | null }): Promise<CheckoutRow[]> {
+export async function listOpenCheckouts(t: JobKey & { invoiceId: number | null; depositId: number | null }, k: Knex = db()): Promise<CheckoutRow[]> {
   const q = k("payment_checkouts").where({ shop_id: t.shopId, job_id: t.jobId, status: "open" }).orderBy("id", "desc");
   if (t.depositId != null) q.where("deposit_id", t.depositId);
   else q.where("invoice_id", t.invoiceId).whereNull("deposit_id");
-  return ((await q) as Raw[]).map(toCheckout);
+  return (await q).map(toCheckout);
+}
+
+/** The public id of the job a payment was taken on. */
+export async function getPaymentJobPublicId({ paymentId }: { paymentId: number }): Promise<string | null> {
+  const row: Pick<JobsTable, "public_id"> | undefined = await db()("payments as p").join("jobs as j", "j.id", "p.job_id").where("p.id", paymentId).first("j.public_id");
+  return row ? String(row.public_id) : null;
 }
 
 export async function closeCheckout(k: Knex, { id, status }: { id: number; status: "complete" | "expired" }): Promise<void> {
@@ -237,16 +244,16 @@ export async function recordWebhookEvent(tx: Knex.Transaction, { eventId, type }
 
 /** What receipts and timeline entries need about a job, by id (webhooks arrive with ids, not addresses). */
 export async function getMoneyJob(k: Knex, jobId: number) {
-  const r = (await k("jobs as j")
+  const r: (Pick<JobsTable, "id" | "shop_id" | "number" | "public_id"> & Pick<MachinesTable, "kind" | "year" | "make" | "model" | "serial">) | undefined = await k("jobs as j")
     .join("machines as m", "m.id", "j.machine_id")
     .where("j.id", jobId)
-    .first("j.id", "j.shop_id", "j.number", "j.public_id", "m.kind", "m.year", "m.make", "m.model", "m.serial")) as Raw | undefined;
+    .first("j.id", "j.shop_id", "j.number", "j.public_id", "m.kind", "m.year", "m.make", "m.model", "m.serial");
   if (!r) return null;
   return {
     id: Number(r.id),
     shopId: Number(r.shop_id),
     number: Number(r.number),
     publicId: String(r.public_id),
-    machine: { kind: r.kind as MachineKind, year: num(r.year), make: String(r.make), model: String(r.model), serial: (r.serial as string | null) ?? null },
+    machine: { kind: r.kind, year: num(r.year), make: String(r.make), model: String(r.model), serial: r.serial ?? null },
   };
 }

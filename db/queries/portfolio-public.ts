@@ -1,6 +1,7 @@
 import "server-only";
 import type { Knex } from "knex";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { CustomersTable, MachinesTable, Nullable, PhotosTable, ShopProfilesTable, ShopsTable, StoriesTable } from "@/db/tables";
 import type { TimelineClip } from "@/lib/journal";
 import type { MachineKind } from "@/lib/machine";
 import type { StoryItemKind } from "@/lib/portfolio";
@@ -11,7 +12,6 @@ import { getReassemblyProgress } from "./bench";
 // caller can forget it; a photo or entry counts only while its entry is still shared and not
 // deleted. Rows carry the owner's name and the serial only so the builder can redact them.
 
-type Raw = Record<string, unknown>;
 const parseJson = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (v ?? null));
 
 /**
@@ -23,7 +23,8 @@ export type StoryGate = { storyId: number; shopId: number; version: number; cont
 
 export async function findPublishedStory({ shopSlug, storySlug }: { shopSlug: string; storySlug: string }, k: Knex = db()): Promise<StoryGate | null> {
   const shown = "SELECT si.entry_id FROM story_items si WHERE si.story_id = st.id AND si.entry_id IS NOT NULL UNION SELECT cp.entry_id FROM photos cp WHERE cp.id = st.cover_photo_id";
-  const r = (await k("shops as s")
+  type Row = Pick<StoriesTable, "id" | "shop_id" | "version"> & { profile_at: Date | null; revision: number | null; clips_at: Date | null };
+  const r: Row | undefined = await k("shops as s")
     .join("stories as st", "st.shop_id", "s.id")
     .leftJoin("shop_profiles as p", "p.shop_id", "s.id")
     .where({ "s.slug": shopSlug, "st.slug": storySlug, "st.status": "published" })
@@ -34,7 +35,7 @@ export async function findPublishedStory({ shopSlug, storySlug }: { shopSlug: st
       "p.updated_at as profile_at",
       k.raw(`(SELECT MAX(r.id) FROM journal_entry_revisions r WHERE r.shop_id = st.shop_id AND r.entry_id IN (${shown})) as revision`),
       k.raw(`(SELECT MAX(c.updated_at) FROM clips c WHERE c.shop_id = st.shop_id AND c.entry_id IN (${shown})) as clips_at`),
-    )) as Raw | undefined;
+    );
   if (!r) return null;
   const at = (v: unknown) => (v instanceof Date ? v.getTime() : "-");
   return { storyId: Number(r.id), shopId: Number(r.shop_id), version: Number(r.version), contentKey: `${at(r.profile_at)}.${r.revision ?? "-"}.${at(r.clips_at)}` };
@@ -56,24 +57,24 @@ export type PublicShopRow = {
 
 /** A shop and its public profile (the profile's fields null when it has none), by address or id. */
 export async function getPublicShop(by: { shopSlug: string } | { shopId: number }, k: Knex = db()): Promise<PublicShopRow | null> {
-  const r = (await k("shops as s")
+  type Row = Pick<ShopsTable, "id" | "slug" | "name"> &
+    Nullable<Pick<ShopProfilesTable, "display_name" | "about" | "logo_key" | "location_text" | "show_location" | "public_email" | "public_phone">> & { profile_shop: number | null };
+  const r: Row | undefined = await k("shops as s")
     .leftJoin("shop_profiles as p", "p.shop_id", "s.id")
     .where("shopSlug" in by ? { "s.slug": by.shopSlug } : { "s.id": by.shopId })
-    .first("s.id", "s.slug", "s.name", "p.shop_id as profile_shop", "p.display_name", "p.about", "p.logo_key", "p.location_text", "p.show_location", "p.public_email", "p.public_phone")) as
-    | Raw
-    | undefined;
+    .first("s.id", "s.slug", "s.name", "p.shop_id as profile_shop", "p.display_name", "p.about", "p.logo_key", "p.location_text", "p.show_location", "p.public_email", "p.public_phone");
   if (!r) return null;
   return {
     id: Number(r.id),
     slug: String(r.slug),
     name: String(r.name),
-    displayName: (r.display_name as string | null) ?? null,
-    about: (r.about as string | null) ?? null,
-    logoKey: (r.logo_key as string | null) ?? null,
-    locationText: (r.location_text as string | null) ?? null,
+    displayName: r.display_name ?? null,
+    about: r.about ?? null,
+    logoKey: r.logo_key ?? null,
+    locationText: r.location_text ?? null,
     showLocation: Boolean(r.show_location),
-    publicEmail: (r.public_email as string | null) ?? null,
-    publicPhone: (r.public_phone as string | null) ?? null,
+    publicEmail: r.public_email ?? null,
+    publicPhone: r.public_phone ?? null,
     hasProfile: r.profile_shop != null,
   };
 }
@@ -101,48 +102,55 @@ function publishedStories(k: Knex, shopId: number) {
     .select("st.id", "st.slug", "st.title", "st.write_up", "st.published_at", "st.job_id", "st.cover_photo_id", "m.kind", "m.year", "m.make", "m.model", "m.serial", "c.name as customer_name");
 }
 
-function toPublished(r: Raw): PublishedStoryRow {
+/** A row of publishedStories(). */
+type PublishedJoin = Pick<StoriesTable, "id" | "slug" | "title" | "write_up" | "published_at" | "job_id" | "cover_photo_id"> &
+  Pick<MachinesTable, "kind" | "year" | "make" | "model" | "serial"> & { customer_name: CustomersTable["name"] };
+
+function toPublished(r: PublishedJoin): PublishedStoryRow {
   return {
     id: Number(r.id),
     slug: String(r.slug),
     title: String(r.title),
     writeUp: parseJson(r.write_up),
+    // Published stories always have it (moveStory sets it with the status).
     publishedAt: r.published_at as Date,
     jobId: Number(r.job_id),
     coverPhotoId: r.cover_photo_id == null ? null : Number(r.cover_photo_id),
-    machine: { kind: r.kind as MachineKind, year: r.year == null ? null : Number(r.year), make: String(r.make), model: String(r.model) },
+    machine: { kind: r.kind, year: r.year == null ? null : Number(r.year), make: String(r.make), model: String(r.model) },
     customerName: String(r.customer_name),
-    serial: (r.serial as string | null) ?? null,
+    serial: r.serial ?? null,
   };
 }
 
 /** Shared, undeleted photos among these ids (covers): the rest are left out. */
 async function shownPhotosById(k: Knex, shopId: number, ids: number[]): Promise<Map<number, PhotoRow>> {
   if (!ids.length) return new Map();
-  const rows = (await k("photos as p")
+  const rows: PhotoColumns[] = await k("photos as p")
     .join("journal_entries as e", "e.id", "p.entry_id")
     .where({ "p.shop_id": shopId, "e.visibility": "shared", "e.kind": "photos" })
     .whereNull("e.deleted_at")
     .whereIn("p.id", ids)
-    .select("p.id", "p.public_id", "p.entry_id", "p.width", "p.height")) as Raw[];
+    .select("p.id", "p.public_id", "p.entry_id", "p.width", "p.height");
   return new Map(rows.map((r) => [Number(r.id), toPhotoRow(r)]));
 }
 
-const toPhotoRow = (r: Raw): PhotoRow => ({ id: Number(r.id), publicId: String(r.public_id), entryId: Number(r.entry_id), width: Number(r.width), height: Number(r.height) });
+type PhotoColumns = Pick<PhotosTable, "id" | "public_id" | "entry_id" | "width" | "height">;
+const toPhotoRow = (r: PhotoColumns): PhotoRow => ({ id: Number(r.id), publicId: String(r.public_id), entryId: Number(r.entry_id), width: Number(r.width), height: Number(r.height) });
 
 /** The shop's published stories, newest first, optionally of one machine kind, with their covers. */
 export async function listPublishedStories({ shopId, kind }: { shopId: number; kind?: MachineKind | null }, k: Knex = db()) {
   const q = publishedStories(k, shopId).orderBy("st.published_at", "desc").limit(200);
   if (kind) q.where("m.kind", kind);
-  const stories = ((await q) as Raw[]).map(toPublished);
+  const rows: PublishedJoin[] = await q;
+  const stories = rows.map(toPublished);
   const covers = await shownPhotosById(k, shopId, stories.flatMap((s) => (s.coverPhotoId ? [s.coverPhotoId] : [])));
   return stories.map((s) => ({ ...s, cover: s.coverPhotoId ? (covers.get(s.coverPhotoId) ?? null) : null }));
 }
 
 /** Machine kinds that have at least one published story (the filter buttons). */
 export async function publishedKinds({ shopId }: { shopId: number }, k: Knex = db()): Promise<MachineKind[]> {
-  const rows = (await k("stories as st").join("jobs as j", "j.id", "st.job_id").join("machines as m", "m.id", "j.machine_id").where({ "st.shop_id": shopId, "st.status": "published" }).distinct("m.kind")) as Raw[];
-  return rows.map((r) => r.kind as MachineKind);
+  const rows: Pick<MachinesTable, "kind">[] = await k("stories as st").join("jobs as j", "j.id", "st.job_id").join("machines as m", "m.id", "j.machine_id").where({ "st.shop_id": shopId, "st.status": "published" }).distinct("m.kind");
+  return rows.map((r) => r.kind);
 }
 
 export type BodyItem = { kind: StoryItemKind; caption: string | null; momentMs: number | null; entryId: number | null; photoId: number | null };
@@ -160,13 +168,13 @@ export type StoryBodyRows = {
 
 /** Everything one published story shows, in a fixed number of queries; null when it isn't published (any more). */
 export async function loadStoryBody({ shopId, storyId }: { shopId: number; storyId: number }, k: Knex = db()): Promise<StoryBodyRows | null> {
-  const row = (await publishedStories(k, shopId).where("st.id", storyId).first()) as Raw | undefined;
+  const row: PublishedJoin | undefined = await publishedStories(k, shopId).where("st.id", storyId).first();
   if (!row) return null;
   const story = toPublished(row);
-  const items = ((await k("story_items").where({ shop_id: shopId, story_id: storyId }).orderBy("position").select("kind", "caption", "moment_ms", "entry_id", "photo_id")) as Raw[]).map(
+  const items = (await k("story_items").where({ shop_id: shopId, story_id: storyId }).orderBy("position").select("kind", "caption", "moment_ms", "entry_id", "photo_id")).map(
     (r): BodyItem => ({
-      kind: r.kind as StoryItemKind,
-      caption: (r.caption as string | null) ?? null,
+      kind: r.kind,
+      caption: r.caption ?? null,
       momentMs: r.moment_ms == null ? null : Number(r.moment_ms),
       entryId: r.entry_id == null ? null : Number(r.entry_id),
       photoId: r.photo_id == null ? null : Number(r.photo_id),
@@ -174,16 +182,12 @@ export async function loadStoryBody({ shopId, storyId }: { shopId: number; story
   );
   const entryIds = [...new Set(items.flatMap((i) => (i.entryId ? [i.entryId] : [])))];
   const entryRows = entryIds.length
-    ? ((await k("journal_entries")
-        .where({ shop_id: shopId, job_id: story.jobId, visibility: "shared" })
-        .whereNull("deleted_at")
-        .whereIn("id", entryIds)
-        .select("id", "kind", "body")) as Raw[])
+    ? await k("journal_entries").where({ shop_id: shopId, job_id: story.jobId, visibility: "shared" }).whereNull("deleted_at").whereIn("id", entryIds).select("id", "kind", "body")
     : [];
   const entries = new Map(entryRows.map((r) => [Number(r.id), { kind: String(r.kind), body: parseJson(r.body) }]));
   const photoEntryIds = entryRows.filter((r) => r.kind === "photos").map((r) => Number(r.id));
   const photoRows = photoEntryIds.length
-    ? ((await k("photos").where("shop_id", shopId).whereIn("entry_id", photoEntryIds).orderBy(["entry_id", "position", "id"]).select("id", "public_id", "entry_id", "width", "height")) as Raw[]).map(toPhotoRow)
+    ? (await k("photos").where("shop_id", shopId).whereIn("entry_id", photoEntryIds).orderBy(["entry_id", "position", "id"]).select("id", "public_id", "entry_id", "width", "height")).map(toPhotoRow)
     : [];
   const photosByEntry = new Map<number, PhotoRow[]>();
   for (const p of photoRows) photosByEntry.set(p.entryId, [...(photosByEntry.get(p.entryId) ?? []), p]);
@@ -200,7 +204,7 @@ export async function loadStoryBody({ shopId, storyId }: { shopId: number; story
  * its photo items, or in a photo set it shows) and its entry is still shared and not deleted.
  */
 export async function publicPhotoKeys({ shopSlug, storySlug, photoPublicId }: { shopSlug: string; storySlug: string; photoPublicId: string }, k: Knex = db()) {
-  const r = (await k("photos as p")
+  const r: Pick<PhotosTable, "display_key" | "thumb_key"> | undefined = await k("photos as p")
     .join("journal_entries as e", "e.id", "p.entry_id")
     .join("stories as st", (j) => j.on("st.shop_id", "p.shop_id").andOn("st.job_id", "p.job_id"))
     .join("shops as s", "s.id", "st.shop_id")
@@ -214,13 +218,13 @@ export async function publicPhotoKeys({ shopSlug, storySlug, photoPublicId }: { 
           .select(k.raw("1")),
       ),
     )
-    .first("p.display_key", "p.thumb_key")) as Raw | undefined;
+    .first("p.display_key", "p.thumb_key");
   return r ? { displayKey: String(r.display_key), thumbKey: String(r.thumb_key) } : null;
 }
 
 /** The playback id of a ready clip this published story shows (a clip item whose entry is still shared), or null. */
 export async function publicClipPlayback({ shopSlug, storySlug, clipPublicId }: { shopSlug: string; storySlug: string; clipPublicId: string }, k: Knex = db()): Promise<string | null> {
-  const r = (await k("clips as v")
+  const r: { playback_id: string | null } | undefined = await k("clips as v")
     .join("journal_entries as e", "e.id", "v.entry_id")
     .join("story_items as si", (j) => j.on("si.entry_id", "v.entry_id").andOnVal("si.kind", "=", "clip"))
     .join("stories as st", "st.id", "si.story_id")
@@ -228,27 +232,27 @@ export async function publicClipPlayback({ shopSlug, storySlug, clipPublicId }: 
     .where({ "v.public_id": clipPublicId, "v.status": "ready", "e.visibility": "shared", "st.status": "published", "st.slug": storySlug, "s.slug": shopSlug })
     .whereNull("e.deleted_at")
     .whereNotNull("v.playback_id")
-    .first("v.playback_id")) as Raw | undefined;
+    .first("v.playback_id");
   return r ? String(r.playback_id) : null;
 }
 
 /** Every published story with its shop, for the sitemap. */
 export async function listSitemapStories(k: Knex = db()) {
-  const rows = (await k("stories as st")
+  const rows: (Pick<StoriesTable, "slug" | "updated_at"> & { shop_slug: string })[] = await k("stories as st")
     .join("shops as s", "s.id", "st.shop_id")
     .where("st.status", "published")
     .orderBy("st.published_at", "desc")
     .limit(45_000)
-    .select("s.slug as shop_slug", "st.slug", "st.updated_at")) as Raw[];
-  return rows.map((r) => ({ shop: String(r.shop_slug), slug: String(r.slug), updatedAt: r.updated_at as Date }));
+    .select("s.slug as shop_slug", "st.slug", "st.updated_at");
+  return rows.map((r) => ({ shop: String(r.shop_slug), slug: String(r.slug), updatedAt: r.updated_at }));
 }
 
 /** Shops with a public page: a profile, or at least one published story. */
 export async function listPublicShops(k: Knex = db()) {
-  const rows = (await k("shops as s")
+  const rows: (Pick<ShopsTable, "slug"> & { updated_at: Date | null })[] = await k("shops as s")
     .leftJoin("shop_profiles as p", "p.shop_id", "s.id")
     .where((w) => w.whereNotNull("p.shop_id").orWhereExists(k("stories as st").whereRaw("st.shop_id = s.id").where("st.status", "published").select(k.raw("1"))))
     .limit(5000)
-    .select("s.slug", "p.updated_at")) as Raw[];
-  return rows.map((r) => ({ shop: String(r.slug), updatedAt: (r.updated_at as Date | null) ?? null }));
+    .select("s.slug", "p.updated_at");
+  return rows.map((r) => ({ shop: String(r.slug), updatedAt: r.updated_at ?? null }));
 }

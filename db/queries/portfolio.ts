@@ -1,6 +1,8 @@
 import "server-only";
 import type { Knex } from "knex";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import type { CustomersTable, JobsTable, MachinesTable, PhotosTable, StoriesTable, StoryItemsTable } from "@/db/tables";
+import { transaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
 import type { ConsentDecision, StoryItemKind, StoryStatus } from "@/lib/portfolio";
 import type { MachineKind } from "@/lib/machine";
@@ -8,7 +10,6 @@ import type { MachineKind } from "@/lib/machine";
 // The staff's and the machine owner's side of the portfolio: stories, their items, consent
 // decisions and the shop's public profile. Public reads live in ./portfolio-public.ts.
 
-type Raw = Record<string, unknown>;
 const parseJson = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (v ?? null));
 
 export type StoryRow = {
@@ -61,7 +62,22 @@ function storiesWithJob(k: Knex) {
     .leftJoin("photos as cp", "cp.id", "st.cover_photo_id");
 }
 
-function toStory(r: Raw): StoryRow {
+/** A row of STORY_COLUMNS. */
+type StoryJoin = Pick<StoriesTable, "id" | "shop_id" | "job_id" | "slug" | "title" | "write_up" | "status" | "version" | "published_at" | "updated_at"> & {
+  cover_public_id: string | null;
+  job_number: JobsTable["number"];
+  job_public_id: JobsTable["public_id"];
+  machine_kind: MachinesTable["kind"];
+  machine_year: MachinesTable["year"];
+  machine_make: MachinesTable["make"];
+  machine_model: MachinesTable["model"];
+  machine_serial: MachinesTable["serial"];
+  customer_name: CustomersTable["name"];
+  customer_email: CustomersTable["email"];
+  customer_user_id: CustomersTable["user_id"];
+};
+
+function toStory(r: StoryJoin): StoryRow {
   return {
     id: Number(r.id),
     shopId: Number(r.shop_id),
@@ -71,38 +87,38 @@ function toStory(r: Raw): StoryRow {
     slug: String(r.slug),
     title: String(r.title),
     writeUp: parseJson(r.write_up),
-    coverPhotoId: (r.cover_public_id as string | null) ?? null,
-    status: r.status as StoryStatus,
+    coverPhotoId: r.cover_public_id ?? null,
+    status: r.status,
     version: Number(r.version),
-    publishedAt: (r.published_at as Date | null) ?? null,
-    updatedAt: r.updated_at as Date,
+    publishedAt: r.published_at ?? null,
+    updatedAt: r.updated_at,
     machine: {
-      kind: r.machine_kind as MachineKind,
+      kind: r.machine_kind,
       year: r.machine_year == null ? null : Number(r.machine_year),
       make: String(r.machine_make),
       model: String(r.machine_model),
-      serial: (r.machine_serial as string | null) ?? null,
+      serial: r.machine_serial ?? null,
     },
-    customer: { name: String(r.customer_name), email: (r.customer_email as string | null) ?? null, userId: r.customer_user_id == null ? null : Number(r.customer_user_id) },
+    customer: { name: String(r.customer_name), email: r.customer_email ?? null, userId: r.customer_user_id == null ? null : Number(r.customer_user_id) },
   };
 }
 
 export async function getStory({ shopId, storyId }: { shopId: number; storyId: number }, k: Knex = db()): Promise<StoryRow | null> {
-  const row = await storiesWithJob(k).where({ "st.shop_id": shopId, "st.id": storyId }).first(STORY_COLUMNS);
+  const row: StoryJoin | undefined = await storiesWithJob(k).where({ "st.shop_id": shopId, "st.id": storyId }).first(STORY_COLUMNS);
   return row ? toStory(row) : null;
 }
 
 export async function getStoryForJob({ shopId, jobId }: { shopId: number; jobId: number }, k: Knex = db()): Promise<StoryRow | null> {
-  const row = await storiesWithJob(k).where({ "st.shop_id": shopId, "st.job_id": jobId }).first(STORY_COLUMNS);
+  const row: StoryJoin | undefined = await storiesWithJob(k).where({ "st.shop_id": shopId, "st.job_id": jobId }).first(STORY_COLUMNS);
   return row ? toStory(row) : null;
 }
 
 export async function listStories({ shopId }: { shopId: number }): Promise<StoryRow[]> {
-  const rows = (await storiesWithJob(db()).where("st.shop_id", shopId).orderBy("st.updated_at", "desc").limit(500).select(STORY_COLUMNS)) as Raw[];
+  const rows: StoryJoin[] = await storiesWithJob(db()).where("st.shop_id", shopId).orderBy("st.updated_at", "desc").limit(500).select(STORY_COLUMNS);
   return rows.map(toStory);
 }
 
-export async function slugTaken(k: Knex, { shopId, slug, exceptId }: { shopId: number; slug: string; exceptId?: number }): Promise<boolean> {
+export async function slugTaken({ shopId, slug, exceptId }: { shopId: number; slug: string; exceptId?: number }, k: Knex = db()): Promise<boolean> {
   const q = k("stories").where({ shop_id: shopId, slug });
   if (exceptId) q.whereNot("id", exceptId);
   return !!(await q.first("id"));
@@ -121,11 +137,15 @@ export async function insertStory(
  * publishing while the owner withdraws) can't both win: the loser changes nothing and gets false.
  */
 export async function moveStory(
-  k: Knex,
   m: { shopId: number; storyId: number; from: readonly StoryStatus[]; to: StoryStatus; publishedBy?: number },
+  k: Knex = db(),
 ): Promise<boolean> {
-  const changes: Record<string, unknown> = { status: m.to, version: k.raw("version + 1"), updated_at: k.fn.now(3) };
-  if (m.to === "published") Object.assign(changes, { published_at: k.fn.now(3), published_by_user_id: m.publishedBy ?? null });
+  const changes: Knex.DbRecord<StoriesTable> = {
+    status: m.to,
+    version: k.raw("version + 1"),
+    updated_at: k.fn.now(3),
+    ...(m.to === "published" ? { published_at: k.fn.now(3), published_by_user_id: m.publishedBy ?? null } : {}),
+  };
   const n = await k("stories").where({ shop_id: m.shopId, id: m.storyId }).whereIn("status", m.from).update(changes);
   return Number(n) === 1;
 }
@@ -169,37 +189,33 @@ export async function saveCuration(
 export type StaffItem = { kind: StoryItemKind; entryId: number | null; photoPublicId: string | null; momentMs: number | null; caption: string | null };
 
 export async function listItems({ shopId, storyId }: { shopId: number; storyId: number }): Promise<StaffItem[]> {
-  const rows = (await db()("story_items as si")
+  const rows: (Pick<StoryItemsTable, "kind" | "entry_id" | "moment_ms" | "caption"> & { photo_public_id: string | null })[] = await db()("story_items as si")
     .leftJoin("photos as p", "p.id", "si.photo_id")
     .where({ "si.shop_id": shopId, "si.story_id": storyId })
     .orderBy("si.position")
-    .select("si.kind", "si.entry_id", "p.public_id as photo_public_id", "si.moment_ms", "si.caption")) as Raw[];
+    .select("si.kind", "si.entry_id", "p.public_id as photo_public_id", "si.moment_ms", "si.caption");
   return rows.map((r) => ({
-    kind: r.kind as StoryItemKind,
+    kind: r.kind,
     entryId: r.entry_id == null ? null : Number(r.entry_id),
-    photoPublicId: (r.photo_public_id as string | null) ?? null,
+    photoPublicId: r.photo_public_id ?? null,
     momentMs: r.moment_ms == null ? null : Number(r.moment_ms),
-    caption: (r.caption as string | null) ?? null,
+    caption: r.caption ?? null,
   }));
 }
 
 /** Photos of the job's shared, undeleted photo sets, by public id: the only ones a story may show. */
-export async function shareablePhotos(k: Knex, { shopId, jobId }: { shopId: number; jobId: number }) {
-  const rows = (await k("photos as p")
+export async function shareablePhotos({ shopId, jobId }: { shopId: number; jobId: number }, k: Knex = db()) {
+  const rows: Pick<PhotosTable, "id" | "public_id" | "entry_id">[] = await k("photos as p")
     .join("journal_entries as e", "e.id", "p.entry_id")
     .where({ "p.shop_id": shopId, "p.job_id": jobId, "e.visibility": "shared", "e.kind": "photos" })
     .whereNull("e.deleted_at")
-    .select("p.id", "p.public_id", "p.entry_id")) as Raw[];
+    .select("p.id", "p.public_id", "p.entry_id");
   return new Map(rows.map((r) => [String(r.public_id), { id: Number(r.id), entryId: Number(r.entry_id) }]));
 }
 
 /** The job's shared, undeleted entries by id with their kind: what items may point at. */
-export async function shareableEntryKinds(k: Knex, { shopId, jobId }: { shopId: number; jobId: number }) {
-  const rows = (await k("journal_entries")
-    .where({ shop_id: shopId, job_id: jobId, visibility: "shared" })
-    .whereNull("deleted_at")
-    .whereIn("kind", ["photos", "clip", "torque"])
-    .select("id", "kind")) as Raw[];
+export async function shareableEntryKinds({ shopId, jobId }: { shopId: number; jobId: number }, k: Knex = db()) {
+  const rows = await k("journal_entries").where({ shop_id: shopId, job_id: jobId, visibility: "shared" }).whereNull("deleted_at").whereIn("kind", ["photos", "clip", "torque"]).select("id", "kind");
   return new Map(rows.map((r) => [Number(r.id), String(r.kind)]));
 }
 
@@ -221,8 +237,8 @@ export async function insertConsent(
 export type ConsentRow = { decision: ConsentDecision; name: string; at: Date };
 
 export async function listConsents({ shopId, storyId }: { shopId: number; storyId: number }): Promise<ConsentRow[]> {
-  const rows = (await db()("story_consents").where({ shop_id: shopId, story_id: storyId }).orderBy("id", "desc").limit(50).select("decision", "name_typed", "decided_at")) as Raw[];
-  return rows.map((r) => ({ decision: r.decision as ConsentDecision, name: String(r.name_typed), at: r.decided_at as Date }));
+  const rows = await db()("story_consents").where({ shop_id: shopId, story_id: storyId }).orderBy("id", "desc").limit(50).select("decision", "name_typed", "decided_at");
+  return rows.map((r) => ({ decision: r.decision, name: String(r.name_typed), at: r.decided_at }));
 }
 
 // ---- the shop's public profile ----
@@ -241,9 +257,9 @@ export type ProfileChange = {
 };
 
 export async function saveShopProfile(p: ProfileChange): Promise<string | null> {
-  return db().transaction(async (tx) => {
-    const before = (await tx("shop_profiles").where({ shop_id: p.shopId }).forUpdate().first("logo_key")) as Raw | undefined;
-    const row: Record<string, unknown> = {
+  return transaction(async (tx) => {
+    const before = await tx("shop_profiles").where({ shop_id: p.shopId }).forUpdate().first("logo_key");
+    const row = {
       display_name: p.displayName,
       about: p.about,
       location_text: p.locationText,
@@ -251,32 +267,32 @@ export async function saveShopProfile(p: ProfileChange): Promise<string | null> 
       public_email: p.publicEmail,
       public_phone: p.publicPhone,
       updated_at: tx.fn.now(3),
+      ...(p.logoKey !== undefined ? { logo_key: p.logoKey } : {}),
     };
-    if (p.logoKey !== undefined) row.logo_key = p.logoKey;
     if (before) await tx("shop_profiles").where({ shop_id: p.shopId }).update(row);
     else await tx("shop_profiles").insert({ shop_id: p.shopId, ...row });
-    const old = (before?.logo_key as string | null | undefined) ?? null;
+    const old = before?.logo_key ?? null;
     return p.logoKey !== undefined && old !== p.logoKey ? old : null;
   });
 }
 
 /** The story row locked for a decision or a publish, so the two can't cross. */
 export async function lockStory(tx: Knex.Transaction, { shopId, storyId }: { shopId: number; storyId: number }) {
-  const r = (await tx("stories").where({ shop_id: shopId, id: storyId }).forUpdate().first("status", "version")) as Raw | undefined;
-  return r ? { status: r.status as StoryStatus, version: Number(r.version) } : null;
+  const r = await tx("stories").where({ shop_id: shopId, id: storyId }).forUpdate().first("status", "version");
+  return r ? { status: r.status, version: Number(r.version) } : null;
 }
 
 export async function latestConsent(k: Knex, { shopId, storyId }: { shopId: number; storyId: number }): Promise<ConsentDecision | null> {
-  const r = (await k("story_consents").where({ shop_id: shopId, story_id: storyId }).orderBy("id", "desc").first("decision")) as Raw | undefined;
-  return r ? (r.decision as ConsentDecision) : null;
+  const r = await k("story_consents").where({ shop_id: shopId, story_id: storyId }).orderBy("id", "desc").first("decision");
+  return r ? r.decision : null;
 }
 
 export async function countItems(k: Knex, { shopId, storyId }: { shopId: number; storyId: number }): Promise<number> {
-  const r = (await k("story_items").where({ shop_id: shopId, story_id: storyId }).count({ n: "*" }).first()) as Raw | undefined;
+  const r = await k("story_items").where({ shop_id: shopId, story_id: storyId }).count({ n: "*" }).first();
   return Number(r?.n ?? 0);
 }
 
-export async function getCustomerEmail(k: Knex, { shopId, customerId }: { shopId: number; customerId: number }): Promise<string | null> {
-  const r = (await k("customers").where({ shop_id: shopId, id: customerId }).first("email")) as Raw | undefined;
-  return (r?.email as string | null | undefined) ?? null;
+export async function getCustomerEmail({ shopId, customerId }: { shopId: number; customerId: number }, k: Knex = db()): Promise<string | null> {
+  const r = await k("customers").where({ shop_id: shopId, id: customerId }).first("email");
+  return r?.email ?? null;
 }

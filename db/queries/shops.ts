@@ -1,5 +1,6 @@
 import "server-only";
-import { db } from "@/lib/server/db";
+import type { Knex } from "knex";
+import { db } from "@/db/client";
 import type { StaffRole } from "@/lib/permissions";
 
 export type ShopRow = { id: number; slug: string; name: string; timezone: string; currency: string };
@@ -9,10 +10,23 @@ export async function getShopBySlug({ slug }: { slug: string }): Promise<ShopRow
   return row ? { id: Number(row.id), slug: String(row.slug), name: String(row.name), timezone: String(row.timezone), currency: String(row.currency) } : null;
 }
 
+/** The shop's currency code; "USD" for a shop that isn't there (callers reach it through a job of the shop). */
+export async function getShopCurrency({ shopId }: { shopId: number }, k: Knex = db()): Promise<string> {
+  const row = await k("shops").where({ id: shopId }).first("currency");
+  return row ? String(row.currency) : "USD";
+}
+
+export async function getShopName({ shopId }: { shopId: number }, k: Knex = db()): Promise<string> {
+  const row = await k("shops").where({ id: shopId }).first("name");
+  if (!row) throw new Error(`shop ${shopId} not found`);
+  return String(row.name);
+}
+
 export async function listShopTechnicians({ shopId }: { shopId: number }) {
   const rows = await db()("memberships as m")
     .join("users as u", "u.id", "m.user_id")
     .where("m.shop_id", shopId)
+    .whereNull("m.deactivated_at")
     .whereIn("m.role", ["technician", "owner"])
     .orderBy("u.name")
     .select("u.id", "u.name");
@@ -24,6 +38,7 @@ export async function listShopStaff({ shopId }: { shopId: number }): Promise<{ i
   const rows = await db()("memberships as m")
     .join("users as u", "u.id", "m.user_id")
     .where("m.shop_id", shopId)
+    .whereNull("m.deactivated_at")
     .orderByRaw("m.role = 'technician' DESC")
     .orderBy("u.name")
     .select("u.id", "u.name", "m.role");

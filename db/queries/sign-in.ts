@@ -1,5 +1,6 @@
 import "server-only";
-import { db } from "@/lib/server/db";
+import type { Knex } from "knex";
+import { db } from "@/db/client";
 
 export type AttemptKind = "password" | "link_request" | "link_use";
 
@@ -42,17 +43,14 @@ export async function settleAttempt({ id, succeeded }: { id: number; succeeded: 
   await db()("auth_attempts").where({ id }).update({ succeeded });
 }
 
-export async function insertSignInLink({ email, tokenHash, ttlMinutes }: { email: string; tokenHash: string; ttlMinutes: number }) {
-  const [id] = await db()("sign_in_links").insert({
+/** Stores a link's hash inside the caller's transaction `k` (with the e-mail that carries it). */
+export async function insertSignInLink(k: Knex, { email, tokenHash, ttlMinutes }: { email: string; tokenHash: string; ttlMinutes: number }) {
+  const [id] = await k("sign_in_links").insert({
     email,
     token_hash: tokenHash,
-    expires_at: db().raw("NOW() + INTERVAL ? MINUTE", [ttlMinutes]),
+    expires_at: k.raw("NOW() + INTERVAL ? MINUTE", [ttlMinutes]),
   });
   return Number(id);
-}
-
-export async function deleteSignInLink({ id }: { id: number }) {
-  await db()("sign_in_links").where({ id }).delete();
 }
 
 /**

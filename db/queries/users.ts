@@ -1,38 +1,53 @@
 import "server-only";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
+import { transaction } from "@/db/transaction";
 import type { Actor, StaffRole } from "@/lib/permissions";
 import { claimFollowerRows, isFollowerAddress } from "./following";
 
-export async function getUserByEmail({ email }: { email: string }) {
-  const row = await db()("users").where({ email }).first("id", "email", "name", "password_hash");
-  return row ? { id: Number(row.id), email: String(row.email), name: String(row.name), passwordHash: (row.password_hash as string | null) ?? null } : null;
-}
-
-export async function countMemberships({ userId }: { userId: number }): Promise<number> {
-  const row = await db()("memberships").where({ user_id: userId }).count({ n: "*" }).first();
-  return Number(row?.n ?? 0);
-}
-
-/** The signed-in person with their shop roles, as every authorisation check sees them. */
-export async function getActorById({ userId }: { userId: number }): Promise<Actor | null> {
-  const user = await db()("users").where({ id: userId }).first("id", "email", "name");
-  if (!user) return null;
-  const memberships = await db()("memberships as m")
-    .join("shops as s", "s.id", "m.shop_id")
-    .where("m.user_id", userId)
+/**
+ * The signed-in person with their shop roles, as every authorisation check sees them, if the
+ * session is still live (not ended, not past its end). One query for both, on every request.
+ * `method` is how the session was signed in, as recorded when it began.
+ */
+export async function getActorBySession({ userId, sessionId }: { userId: number; sessionId: string }): Promise<{ actor: Actor; method: "password" | "link" } | null> {
+  const rows = (await db()("user_sessions as us")
+    .join("users as u", "u.id", "us.user_id")
+    // A deactivated membership (memberships.deactivated_at) gives no role.
+    .leftJoin("memberships as m", (j) => j.on("m.user_id", "u.id").andOnNull("m.deactivated_at"))
+    .leftJoin("shops as s", "s.id", "m.shop_id")
+    .where({ "us.id": sessionId, "us.user_id": userId })
+    .whereNull("us.ended_at")
+    .where("us.expires_at", ">", db().fn.now(3))
     .orderBy("s.name")
-    .select("m.shop_id", "m.role", "s.slug", "s.name");
+    .select("u.id", "u.email", "u.name", "us.method", "m.shop_id", "m.role", "s.slug", "s.name as shop_name")) as Record<string, unknown>[];
+  const first = rows[0];
+  if (!first) return null;
   return {
-    userId: Number(user.id),
-    email: String(user.email),
-    name: String(user.name),
-    memberships: memberships.map((m: Record<string, unknown>) => ({
-      shopId: Number(m.shop_id),
-      shopSlug: String(m.slug),
-      shopName: String(m.name),
-      role: m.role as StaffRole,
-    })),
+    method: first.method === "password" ? "password" : "link",
+    actor: {
+      userId: Number(first.id),
+      email: String(first.email),
+      name: String(first.name),
+      memberships: rows
+        .filter((m) => m.shop_id != null)
+        .map((m) => ({ shopId: Number(m.shop_id), shopSlug: String(m.slug), shopName: String(m.shop_name), role: m.role as StaffRole })),
+    },
   };
+}
+
+/**
+ * What a staff password sign-in needs, in one query whether or not the address is known (so
+ * known and unknown addresses take the same path): the hash, and whether the person has a role
+ * in any shop (a deactivated membership doesn't count).
+ */
+export async function getStaffSignIn({ email }: { email: string }) {
+  const row = (await db()("users as u")
+    .leftJoin("memberships as m", (j) => j.on("m.user_id", "u.id").andOnNull("m.deactivated_at"))
+    .where("u.email", email)
+    .groupBy("u.id", "u.email", "u.name", "u.password_hash")
+    .first("u.id", "u.email", "u.name", "u.password_hash", db().raw("COUNT(m.id) AS roles"))) as Record<string, unknown> | undefined;
+  if (!row) return null;
+  return { id: Number(row.id), email: String(row.email), name: String(row.name), passwordHash: (row.password_hash as string | null) ?? null, roles: Number(row.roles) };
 }
 
 export async function touchLastSignIn({ userId }: { userId: number }) {
@@ -50,7 +65,7 @@ export async function isCustomerAddress({ email }: { email: string }): Promise<b
  * INSERT IGNORE, so two first sign-ins at the same moment both end with the one user.
  */
 export async function claimCustomerRecords({ email }: { email: string }) {
-  return db().transaction(async (tx) => {
+  return transaction(async (tx) => {
     const customer = await tx("customers").where({ email }).orderBy("created_at", "desc").first("name");
     await tx("users")
       .insert({ email, name: customer?.name ?? email.split("@")[0] })
@@ -58,7 +73,7 @@ export async function claimCustomerRecords({ email }: { email: string }) {
       .ignore();
     // A locking read sees the row even when another sign-in inserted it after this
     // transaction's snapshot was taken (a plain read would not, under REPEATABLE READ).
-    const user = await tx("users").where({ email }).forUpdate().first("id", "name");
+    const user = (await tx("users").where({ email }).forUpdate().first("id", "name"))!;
     await tx("customers").where({ email }).whereNull("user_id").update({ user_id: user.id });
     await claimFollowerRows(tx, { email, userId: Number(user.id) });
     await tx("users").where({ id: user.id }).update({ last_sign_in_at: tx.fn.now() });

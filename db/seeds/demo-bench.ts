@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import type { PartStatus } from "../../lib/bench";
 import { calendarDay, daysFromNow } from "./demo-time";
 
 // Bench demo data: the shop's own spec library for the invented models, and J-0002's top end
@@ -66,7 +67,8 @@ export async function seedBench(
   }
   if (!bench.job) return;
   const seed = shop.jobs[bench.job.number - 1]!;
-  const job = await tx("jobs").where({ shop_id: shopId, number: bench.job.number }).first("id");
+  // The demo's own job, inserted by the seed just before.
+  const job = (await tx("jobs").where({ shop_id: shopId, number: bench.job.number }).first("id"))!;
   const techId = (seed.technician && byEmail(seed.technician)) || staffId;
   for (const [i, step] of bench.job.steps.entries()) {
     await tx("teardown_steps").insert({
@@ -101,7 +103,12 @@ export async function seedBench(
       created_at: at,
       updated_at: at,
     });
-    for (const [from, to] of [[null, "needed"], ["needed", "ordered"], ...(part.status === "back_ordered" ? [["ordered", "back_ordered"]] : [])]) {
+    const steps: [PartStatus | null, PartStatus][] = [
+      [null, "needed"],
+      ["needed", "ordered"],
+    ];
+    if (part.status === "back_ordered") steps.push(["ordered", "back_ordered"]);
+    for (const [from, to] of steps) {
       await tx("job_part_events").insert({ shop_id: shopId, part_id: partId, from_status: from, to_status: to, changed_by_user_id: staffId, changed_at: at });
     }
   }

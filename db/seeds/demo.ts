@@ -16,10 +16,13 @@ export const DEMO_PASSWORDS = {
   service_writer: "gulch-writer-demo",
   technician: "gulch-tech-demo",
   otherShop: "saltmarsh-demo",
+  /** A technician who has left Copper Gulch: the account is kept, its membership deactivated. */
+  formerTechnician: "gulch-former-demo",
 } as const;
 
 type Person = { email: string; name: string; password?: string };
-type Staff = Person & { role: StaffRole };
+/** `deactivated`: off the staff, kept for the history (memberships.deactivated_at). */
+type Staff = Person & { role: StaffRole; deactivated?: boolean };
 type MachineSeed = { kind: MachineKind; year: number; make: string; model: string; engineCc: number; serial: string; hours?: number; odometer?: number };
 /** A journal note: `day` counts from check-in, `text` is its paragraphs. */
 type NoteSeed = { day: number; hour: number; text: string[]; shared: boolean };
@@ -32,6 +35,8 @@ type JobSeed = {
   technician: string | null;
   startedDaysAgo: number;
   notes?: NoteSeed[];
+  /** People the owner invited to follow the job (e-mail updates, no money). */
+  followers?: string[];
 };
 type ShopSeed = {
   slug: string;
@@ -55,6 +60,7 @@ const SHOPS: ShopSeed[] = [
       { role: "owner", email: "dana@coppergulch.test", name: "Dana Okafor", password: DEMO_PASSWORDS.owner },
       { role: "service_writer", email: "priya@coppergulch.test", name: "Priya Lindqvist", password: DEMO_PASSWORDS.service_writer },
       { role: "technician", email: "mateo@coppergulch.test", name: "Mateo Brandt", password: DEMO_PASSWORDS.technician },
+      { role: "technician", email: "rafe@coppergulch.test", name: "Rafe Tamsin", password: DEMO_PASSWORDS.formerTechnician, deactivated: true },
     ],
     customers: [
       {
@@ -132,6 +138,7 @@ const SHOPS: ShopSeed[] = [
           { day: 1, hour: 16, shared: true, text: ["Front left CV boot is split and the joint clicks at full lock. Grease has been thrown over the knuckle."] },
           { day: 1, hour: 17, shared: false, text: ["Check whether the parts counter has an axle in stock before we quote."] },
         ],
+        followers: ["noor.calloway@mail.test"],
       },
       {
         customer: "jonah.pike@mail.test",
@@ -153,6 +160,7 @@ const SHOPS: ShopSeed[] = [
     staff: [
       { role: "owner", email: "wren@saltmarsh.test", name: "Wren Halvorsen", password: DEMO_PASSWORDS.otherShop },
       { role: "technician", email: "sam@saltmarsh.test", name: "Sam Tully", password: DEMO_PASSWORDS.otherShop },
+      { role: "service_writer", email: "odile@saltmarsh.test", name: "Odile Brandvold", password: DEMO_PASSWORDS.otherShop },
     ],
     customers: [
       {
@@ -211,7 +219,8 @@ export async function seedDemo(knex: Knex): Promise<void> {
     for (const shop of SHOPS) {
       const [shopId] = await tx("shops").insert({ slug: shop.slug, name: shop.name, email: shop.email, phone: shop.phone, timezone: shop.timezone });
       for (const person of shop.staff) {
-        await tx("memberships").insert({ shop_id: shopId, user_id: await userFor(person, true), role: person.role });
+        const deactivatedAt = person.deactivated ? daysFromNow(-20) : null;
+        await tx("memberships").insert({ shop_id: shopId, user_id: await userFor(person, true), role: person.role, deactivated_at: deactivatedAt });
       }
       const customerIds = new Map<string, { id: number; machines: number[] }>();
       for (const c of shop.customers) {
@@ -279,6 +288,10 @@ export async function seedDemo(knex: Knex): Promise<void> {
         for (const entry of entries) await tx("journal_entries").insert({ shop_id: shopId, job_id: jobId, ...entry });
         // The owner follows the job from check-in, as a live check-in subscribes them.
         await tx("job_subscribers").insert({ shop_id: shopId, job_id: jobId, email: job.customer.toLowerCase(), user_id: userIds.get(job.customer) ?? null, role: "owner" });
+        // Followers have no account until they first sign in with a link (which claims the row).
+        for (const email of job.followers ?? []) {
+          await tx("job_subscribers").insert({ shop_id: shopId, job_id: jobId, email, user_id: null, role: "follower", invited_by_user_id: userIds.get(job.customer) ?? null });
+        }
       }
       await tx("shops").where({ id: shopId }).update({ next_job_number: number });
       await seedBench(tx, { slug: shop.slug, timezone: shop.timezone, deskEmail: shop.staff.find((p) => p.role !== "technician")!.email, jobs: shop.jobs }, Number(shopId), (email) => userIds.get(email));

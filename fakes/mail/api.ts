@@ -1,6 +1,8 @@
 // The Resend-compatible part: /emails, /emails/batch, /emails/{id}, with auth, idempotency and injected failures.
 import { createHash, randomUUID, timingSafeEqual } from "node:crypto";
 import type { IncomingHttpHeaders } from "node:http";
+import type { ApiFailure, FailureSwitch } from "../shared/control";
+import type { JsonResponse } from "../shared/http";
 import { ApiError, invalidField, type ResendErrorName } from "./errors";
 import { parseEmail, toMessage, type EmailInput } from "./message";
 import type { Mailbox } from "./store";
@@ -17,39 +19,14 @@ export type ApiRequest = {
   body: Buffer;
 };
 
-export type JsonResponse = { status: number; body: unknown; headers?: Record<string, string> };
-
 export type Stats = { accepted: number; failed: number };
 
-/** Lets a test make the next N API calls fail, to exercise the app's retry and error paths. */
-export class FailureSwitch {
-  private remaining = 0;
-  private status = 500;
-  private message: string | null = null;
-
-  arm(count: number, status: number, message: string | null): void {
-    this.remaining = count;
-    this.status = status;
-    this.message = message;
-  }
-
-  clear(): void {
-    this.remaining = 0;
-  }
-
-  get pending(): number {
-    return this.remaining;
-  }
-
-  take(): ApiError | null {
-    if (this.remaining <= 0) return null;
-    this.remaining -= 1;
-    const [name, message] = describeStatus(this.status);
-    // Resend sends IETF-draft ratelimit headers; the app's back-off reads retry-after.
-    const headers: Record<string, string> =
-      this.status === 429 ? { "retry-after": "1", "ratelimit-limit": "2", "ratelimit-remaining": "0", "ratelimit-reset": "1" } : {};
-    return new ApiError(this.status, name, this.message ?? message, headers);
-  }
+/** What a call failed by POST /_fake/fail answers. */
+function injectedError({ status, message }: ApiFailure): ApiError {
+  const [name, usual] = describeStatus(status);
+  // Resend sends IETF-draft ratelimit headers; the app's back-off reads retry-after.
+  const headers: Record<string, string> = status === 429 ? { "retry-after": "1", "ratelimit-limit": "2", "ratelimit-remaining": "0", "ratelimit-reset": "1" } : {};
+  return new ApiError(status, name, message ?? usual, headers);
 }
 
 function describeStatus(status: number): [ResendErrorName, string] {
@@ -59,7 +36,7 @@ function describeStatus(status: number): [ResendErrorName, string] {
   return ["validation_error", "Injected failure."];
 }
 
-export type ApiContext = { mailbox: Mailbox; apiKey: string | undefined; failures: FailureSwitch; stats: Stats };
+export type ApiContext = { mailbox: Mailbox; apiKey: string | undefined; failures: FailureSwitch<ApiFailure>; stats: Stats };
 
 function digest(value: string): Buffer {
   return createHash("sha256").update(value).digest();
@@ -133,7 +110,7 @@ async function send(req: ApiRequest, ctx: ApiContext, kind: "single" | "batch"):
       } catch (error) {
         if (!(error instanceof ApiError)) throw error;
         // Strict mode rejects the whole batch, as the hosted API does by default.
-        if (mode === "strict") throw new ApiError(error.statusCode, error.errorName, `emails[${index}]: ${error.message}`);
+        if (mode === "strict") throw new ApiError(error.status, error.errorName, `emails[${index}]: ${error.message}`);
         errors.push({ index, message: error.message });
       }
     });
@@ -238,12 +215,12 @@ function route(req: ApiRequest, ctx: ApiContext): Promise<JsonResponse> | JsonRe
 export async function handleApi(req: ApiRequest, ctx: ApiContext): Promise<JsonResponse> {
   try {
     const injected = ctx.failures.take();
-    if (injected) throw injected;
+    if (injected) throw injectedError(injected);
     authenticate(req.headers, ctx.apiKey);
     return await route(req, ctx);
   } catch (error) {
     ctx.stats.failed += 1;
-    if (error instanceof ApiError) return { status: error.statusCode, body: error.toBody(), headers: error.headers };
+    if (error instanceof ApiError) return error.toResponse();
     console.error("mail fake: unexpected error", error);
     return { status: 500, body: new ApiError(500, "internal_server_error", "An unexpected error occurred.").toBody() };
   }

@@ -1,11 +1,11 @@
 // /_fake/* routes: inspection and failure injection for tests. No auth, because the server only listens on loopback.
-import type { FailureSwitch, JsonResponse, Stats } from "./api";
+import { type ApiFailure, type FailureSwitch, MAX_FAILURES } from "../shared/control";
+import type { JsonResponse } from "../shared/http";
+import type { Stats } from "./api";
 import { bareAddress, isRecord } from "./message";
 import type { Mailbox } from "./store";
 
-export type ControlContext = { mailbox: Mailbox; failures: FailureSwitch; stats: Stats };
-
-const MAX_FAILURES = 1000;
+export type ControlContext = { mailbox: Mailbox; failures: FailureSwitch<ApiFailure>; stats: Stats };
 
 function problem(status: number, message: string): JsonResponse {
   // Same envelope as the API so one error reader works for both.
@@ -30,7 +30,7 @@ function armFailures(body: Buffer, ctx: ControlContext): JsonResponse {
     return problem(400, "`status` must be an HTTP error status such as 429, 500 or 503.");
   }
   if (message !== undefined && typeof message !== "string") return problem(400, "`message` must be a string.");
-  ctx.failures.arm(count, status, message ?? null);
+  ctx.failures.arm(count, { status, message: message ?? null });
   return { status: 200, body: { count, status } };
 }
 

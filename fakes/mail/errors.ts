@@ -1,4 +1,6 @@
 // Error names are the ones the resend SDK types declare, so callers can branch on them.
+import { FakeApiError } from "../shared/http";
+
 export type ResendErrorName =
   | "validation_error"
   | "missing_required_field"
@@ -16,20 +18,13 @@ export type ResendErrorName =
 
 export type ResendErrorBody = { statusCode: number; name: ResendErrorName; message: string };
 
-export class ApiError extends Error {
-  readonly statusCode: number;
-  readonly errorName: ResendErrorName;
-  readonly headers: Record<string, string>;
-
-  constructor(statusCode: number, errorName: ResendErrorName, message: string, headers: Record<string, string> = {}) {
-    super(message);
-    this.statusCode = statusCode;
-    this.errorName = errorName;
-    this.headers = headers;
+export class ApiError extends FakeApiError {
+  constructor(status: number, readonly errorName: ResendErrorName, message: string, headers: Record<string, string> = {}) {
+    super(status, message, headers);
   }
 
   toBody(): ResendErrorBody {
-    return { statusCode: this.statusCode, name: this.errorName, message: this.message };
+    return { statusCode: this.status, name: this.errorName, message: this.message };
   }
 }
 

@@ -1,18 +1,10 @@
 // Human-facing mailbox pages. Every message field is attacker-shaped text, so everything is escaped.
+import { escapeHtml, htmlPage } from "../shared/html";
 import type { MailMessage } from "./types";
 
 /** Blocks scripts everywhere, including the srcdoc iframe, which inherits this policy. */
 export const PAGE_CSP =
   "default-src 'none'; style-src 'unsafe-inline'; img-src http: https: data:; frame-src 'self'; base-uri 'none'; form-action 'none'";
-
-export function escapeHtml(value: string): string {
-  return value
-    .replace(/&/g, "&amp;")
-    .replace(/</g, "&lt;")
-    .replace(/>/g, "&gt;")
-    .replace(/"/g, "&quot;")
-    .replace(/'/g, "&#39;");
-}
 
 const STYLE = `
   body { font: 15px/1.5 system-ui, sans-serif; margin: 0; color: #1f2328; background: #f6f7f9; }
@@ -33,25 +25,9 @@ const STYLE = `
   code { font-size: 13px; }
 `;
 
-function layout(title: string, body: string): string {
-  return `<!doctype html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="referrer" content="no-referrer">
-<title>${escapeHtml(title)}</title>
-<style>${STYLE}</style>
-</head>
-<body>
-<header><strong><a href="/">Benchside mail fake</a></strong> <span>— e-mail the app sent locally; nothing leaves this machine</span></header>
-<main>
-${body}
-</main>
-</body>
-</html>
-`;
-}
+const BANNER = '<header><strong><a href="/">Benchside mail fake</a></strong> <span>— e-mail the app sent locally; nothing leaves this machine</span></header>';
+
+const layout = (title: string, main: string): string => htmlPage({ title, style: STYLE, banner: BANNER, main });
 
 const list = (values: string[]): string => (values.length ? values.map(escapeHtml).join(", ") : '<span class="muted">—</span>');
 

@@ -2,6 +2,7 @@
 import { timingSafeEqual } from "node:crypto";
 import type { IncomingHttpHeaders } from "node:http";
 import cc from "currency-codes";
+import type { JsonResponse } from "../shared/http";
 import { injectedError, invalidRequest, missingResource, PaymentsApiError } from "./errors";
 import { type FormObject, int, list, metadata, obj, parseForm, str } from "./form";
 import { chargeWithRefunds, createRefund, expireIfDue, expireSession, type FakeContext, persist, publicSession } from "./ledger";
@@ -9,7 +10,6 @@ import { digest, newId, nowSeconds } from "./store";
 import type { LineItem, StoredSession } from "./types";
 
 export type ApiRequest = { method: string; pathname: string; headers: IncomingHttpHeaders; body: Buffer };
-export type JsonResponse = { status: number; body: unknown; headers?: Record<string, string> };
 
 const MIN_EXPIRY_S = 30 * 60;
 const MAX_EXPIRY_S = 24 * 3600;
@@ -153,7 +153,7 @@ function route(req: ApiRequest, form: FormObject, ctx: FakeContext, idempotencyK
 export function handleApi(req: ApiRequest, ctx: FakeContext): JsonResponse {
   try {
     authenticate(req.headers, ctx.secretKey);
-    const injected = ctx.failures.take();
+    const injected = ctx.apiFailures.take();
     if (injected) throw injectedError(injected.status, injected.message);
     const text = req.body.toString("utf8");
     const keyHeader = req.headers["idempotency-key"];
@@ -173,7 +173,7 @@ export function handleApi(req: ApiRequest, ctx: FakeContext): JsonResponse {
     }
     return response;
   } catch (error) {
-    if (error instanceof PaymentsApiError) return { status: error.status, body: error.toBody() };
+    if (error instanceof PaymentsApiError) return error.toResponse();
     throw error;
   }
 }

@@ -2,17 +2,18 @@
 // non-2xx answer into an error class by status and type: 400/404 → StripeInvalidRequestError,
 // 401 → StripeAuthenticationError, 402 → StripeCardError, 429 → StripeRateLimitError, 5xx → StripeAPIError,
 // and type idempotency_error → StripeIdempotencyError. Wording here is our own.
+import { FakeApiError } from "../shared/http";
 
 export type ErrorType = "invalid_request_error" | "api_error" | "card_error" | "idempotency_error" | "rate_limit_error";
 
-export class PaymentsApiError extends Error {
+export class PaymentsApiError extends FakeApiError {
   constructor(
-    readonly status: number,
+    status: number,
     readonly type: ErrorType,
     message: string,
     readonly extra: { code?: string; param?: string; decline_code?: string } = {},
   ) {
-    super(message);
+    super(status, message);
   }
 
   toBody() {

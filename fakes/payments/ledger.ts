@@ -1,39 +1,19 @@
 // What happens to money in the fake, shared by the API and the payment page: sessions expiring, a
 // card being tried on a session, refunds. Each change is saved and announced with its webhook.
+import type { ApiFailure, FailureSwitch } from "../shared/control";
 import { newId, nowSeconds, type PaymentsStore } from "./store";
 import { invalidRequest, PaymentsApiError } from "./errors";
 import type { Charge, CheckoutSession, PaymentError, PaymentIntent, Refund, StoredSession } from "./types";
-import type { WebhookSender } from "./webhooks";
-
-/** Makes the next N API calls fail, to exercise the app's error paths. */
-export class FailureSwitch<T> {
-  private remaining = 0;
-  constructor(private value: T) {}
-  arm(count: number, value: T): void {
-    this.remaining = count;
-    this.value = value;
-  }
-  clear(): void {
-    this.remaining = 0;
-  }
-  get pending(): number {
-    return this.remaining;
-  }
-  take(): T | null {
-    if (this.remaining <= 0) return null;
-    this.remaining -= 1;
-    return this.value;
-  }
-}
+import type { PaymentsWebhooks } from "./webhooks";
 
 export type FakeContext = {
   store: PaymentsStore;
-  webhooks: WebhookSender;
+  webhooks: PaymentsWebhooks;
   /** Base of the payment page URLs handed out. */
   publicUrl: string;
   /** The one secret key accepted; null accepts any `sk_test_…` key. */
   secretKey: string | null;
-  failures: FailureSwitch<{ status: number; message: string | null }>;
+  apiFailures: FailureSwitch<ApiFailure>;
 };
 
 export function persist(ctx: FakeContext): void {

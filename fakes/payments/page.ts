@@ -2,14 +2,11 @@
 // and Cancel. Plain, accessible and clearly a local test page (our own look). Every value shown is
 // escaped: names and URLs come from the caller.
 import cc from "currency-codes";
+import { escapeHtml, htmlPage } from "../shared/html";
 import { expireIfDue, type FakeContext, payWithCard } from "./ledger";
 import type { PaymentError, StoredSession } from "./types";
 
 export type HtmlResponse = { status: number; html: string; csp: string } | { status: 303; location: string };
-
-export function escapeHtml(value: string): string {
-  return value.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;").replace(/'/g, "&#39;");
-}
 
 /** Display only; the amount itself is never re-derived from this text. */
 function money(minor: number, currency: string): string {
@@ -41,25 +38,9 @@ const STYLE = `
   .muted { color: #595249; }
 `;
 
-function layout(title: string, body: string): string {
-  return `<!doctype html>
-<html lang="en">
-<head>
-<meta charset="utf-8">
-<meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="referrer" content="no-referrer">
-<title>${escapeHtml(title)}</title>
-<style>${STYLE}</style>
-</head>
-<body>
-<p class="test" role="note"><strong>Local test payments.</strong> No real card is charged; this page runs on this computer only.</p>
-<main>
-${body}
-</main>
-</body>
-</html>
-`;
-}
+const BANNER = '<p class="test" role="note"><strong>Local test payments.</strong> No real card is charged; this page runs on this computer only.</p>';
+
+const layout = (title: string, main: string): string => htmlPage({ title, style: STYLE, banner: BANNER, main });
 
 const origin = (url: string | null) => (url && URL.canParse(url) ? new URL(url).origin : "");
 

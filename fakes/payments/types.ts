@@ -1,5 +1,6 @@
 // The objects the payments fake keeps and returns, in the shapes the `stripe` SDK reads (the fields
 // Benchside and its tests use; amounts in the currency's smallest unit, times in unix seconds).
+import type { BaseDelivery } from "../shared/webhooks";
 
 export type Metadata = Record<string, string>;
 
@@ -89,16 +90,8 @@ export type StripeEvent = {
   request: { id: string | null; idempotency_key: string | null };
 };
 
-export type DeliveryAttempt = { at: string; status: number | null; error: string | null };
-
-/**
- * pending: still being tried; delivered: answered 2xx; failed: out of attempts;
- * dropped: the drop switch was on; unconfigured: no webhook URL was set.
- */
-export type DeliveryState = "pending" | "delivered" | "failed" | "dropped" | "unconfigured";
-
 /** One event and what happened to it, as `/_fake/webhooks` lists it. */
-export type Delivery = { event: StripeEvent; object_id: string; state: DeliveryState; attempts: DeliveryAttempt[] };
+export type Delivery = BaseDelivery & { event: StripeEvent; object_id: string };
 
 /** A POST answered once: the same Idempotency-Key with the same body gets the same answer again. */
 export type IdempotentAnswer = { key: string; request: string; status: number; body: unknown; at: number };

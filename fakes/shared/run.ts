@@ -13,6 +13,11 @@ export function portFromEnv(name: string, fallback: number): number {
   return port;
 }
 
+/** Where a fake run as a process listens and keeps its files: `${prefix}_PORT`, `${prefix}_DIR` (default .data/dev/<folder>). */
+export function serverEnv(prefix: string, fallbackPort: number, folder: string): { port: number; dir: string } {
+  return { port: portFromEnv(`${prefix}_PORT`, fallbackPort), dir: process.env[`${prefix}_DIR`] || path.join(".data", "dev", folder) };
+}
+
 /**
  * Runs `start` when the module at `moduleUrl` is the process's entry point, and closes what it
  * started once on SIGINT/SIGTERM.

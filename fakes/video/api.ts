@@ -2,13 +2,14 @@
 import { createHash, timingSafeEqual } from "node:crypto";
 import { rm } from "node:fs/promises";
 import type { IncomingHttpHeaders } from "node:http";
+import { parseJsonObject } from "../shared/control";
+import type { JsonResponse } from "../shared/http";
 import { deleteAsset, expireIfStale, persist, toMuxUpload, type FakeContext } from "./context";
 import { injectedError, invalidParameter, MuxApiError, notFound } from "./errors";
 import { newId } from "./store";
 import type { MuxAsset, NewAssetSettings, StoredUpload } from "./types";
 
 export type ApiRequest = { method: string; pathname: string; query: URLSearchParams; headers: IncomingHttpHeaders; body: Buffer };
-export type JsonResponse = { status: number; body: unknown; headers?: Record<string, string> };
 
 // Limits the hosted API documents for `timeout` (seconds); 3600 is its default.
 const TIMEOUT_DEFAULT = 3600;
@@ -29,18 +30,8 @@ function authenticate(headers: IncomingHttpHeaders, credentials: FakeContext["cr
   if (!valid) throw new MuxApiError(401, "unauthorized", "Unauthorized request");
 }
 
-/** An empty body counts as `{}`; `example` shows the caller what was expected. */
-export function parseJson(body: Buffer, example = "{}"): Record<string, unknown> {
-  if (body.length === 0) return {};
-  let parsed: unknown;
-  try {
-    parsed = JSON.parse(body.toString("utf8"));
-  } catch {
-    parsed = null;
-  }
-  if (typeof parsed !== "object" || parsed === null || Array.isArray(parsed)) throw invalidParameter(`Expected a JSON object body like ${example}.`);
-  return parsed as Record<string, unknown>;
-}
+/** An empty body counts as `{}`. */
+const parseJson = (body: Buffer): Record<string, unknown> => parseJsonObject(body, "{}", invalidParameter);
 
 function policies(value: unknown, field: string): "public"[] {
   if (value === undefined) return [];
@@ -211,7 +202,7 @@ export async function handleApi(req: ApiRequest, ctx: FakeContext): Promise<Json
     if (collection === "playback-ids" && rest.length === 1 && rest[0] !== undefined) return playbackIdRoute(req, ctx, rest[0]);
     throw new MuxApiError(404, "not_found", `The video fake does not serve ${req.method} ${req.pathname}.`);
   } catch (error) {
-    if (error instanceof MuxApiError) return { status: error.status, body: error.toBody(), headers: error.headers };
+    if (error instanceof MuxApiError) return error.toResponse();
     if (error instanceof URIError) return { status: 400, body: invalidParameter("The path is not valid URL encoding.").toBody() };
     console.error("video fake: unexpected API error", error);
     return { status: 500, body: new MuxApiError(500, "internal_error", "An internal error occurred.").toBody() };

@@ -1,47 +1,18 @@
 // What every part of the fake shares, and the state changes more than one route makes
 // (an upload finishing, an asset going away).
 import { rm } from "node:fs/promises";
+import type { ApiFailure, FailureSwitch } from "../shared/control";
 import type { Processor } from "./processor";
 import { newId, type VideoStore } from "./store";
 import type { MuxAsset, MuxUpload, StoredUpload } from "./types";
-import type { WebhookSender } from "./webhooks";
+import type { VideoWebhooks } from "./webhooks";
 
-/** Makes the next N calls fail, to exercise the app's retry and error paths. */
-export class FailureSwitch<T> {
-  private remaining = 0;
-  private value: T;
-
-  constructor(initial: T) {
-    this.value = initial;
-  }
-
-  arm(count: number, value: T): void {
-    this.remaining = count;
-    this.value = value;
-  }
-
-  clear(): void {
-    this.remaining = 0;
-  }
-
-  get pending(): number {
-    return this.remaining;
-  }
-
-  take(): T | null {
-    if (this.remaining <= 0) return null;
-    this.remaining -= 1;
-    return this.value;
-  }
-}
-
-export type ApiFailure = { status: number; message: string | null };
 /** A chunk either gets an error status, or its connection is cut half-way through the body. */
 export type ChunkFailure = { status: number } | { drop: true };
 
 export type FakeContext = {
   store: VideoStore;
-  webhooks: WebhookSender;
+  webhooks: VideoWebhooks;
   processor: Processor;
   /** Base of the upload and media URLs handed to clients. */
   publicUrl: string;

@@ -2,6 +2,7 @@
 // into APIError subclasses by status (401 → AuthenticationError, 404 → NotFoundError, 429 → RateLimitError,
 // 5xx → InternalServerError) and keeps this body in `error.error`.
 // Type names are modelled on the hosted API's answers (from memory, unverified).
+import { FakeApiError } from "../shared/http";
 
 export type MuxErrorType =
   | "invalid_parameters"
@@ -15,16 +16,9 @@ export type MuxErrorType =
 
 export type MuxErrorBody = { error: { type: MuxErrorType; messages: string[] } };
 
-export class MuxApiError extends Error {
-  readonly status: number;
-  readonly type: MuxErrorType;
-  readonly headers: Record<string, string>;
-
-  constructor(status: number, type: MuxErrorType, message: string, headers: Record<string, string> = {}) {
-    super(message);
-    this.status = status;
-    this.type = type;
-    this.headers = headers;
+export class MuxApiError extends FakeApiError {
+  constructor(status: number, readonly type: MuxErrorType, message: string, headers: Record<string, string> = {}) {
+    super(status, message, headers);
   }
 
   toBody(): MuxErrorBody {

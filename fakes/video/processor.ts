@@ -5,12 +5,12 @@ import { setTimeout as sleep } from "node:timers/promises";
 import { makePoster, makeRendition, NotAVideoError, probeVideo, ToolMissingError, type ProbeResult, type Tools } from "./media-tools";
 import { newId, type VideoStore } from "./store";
 import type { MuxAsset } from "./types";
-import type { WebhookSender } from "./webhooks";
+import type { VideoWebhooks } from "./webhooks";
 
 export const RENDITION_FILE = "video.mp4";
 export const POSTER_FILE = "poster.jpg";
 
-type Deps = { store: VideoStore; webhooks: WebhookSender; tools: Tools };
+type Deps = { store: VideoStore; webhooks: VideoWebhooks; tools: Tools };
 
 function shortSideClass(width: number, height: number): NonNullable<MuxAsset["max_stored_resolution"]> {
   const short = Math.min(width, height);

@@ -1,5 +1,6 @@
 // Shapes shared by the video fake, its control client and tests. Public shapes follow the Mux Video API
 // types in @mux/mux-node (resources/video/uploads.ts, assets.ts, webhooks.ts), trimmed to what the fake fills in.
+import type { DeliveryAttempt as BaseAttempt, DeliveryState } from "../shared/webhooks";
 
 export type PlaybackId = { id: string; policy: "public" };
 
@@ -73,13 +74,7 @@ export type WebhookType =
   | "video.asset.errored"
   | "video.asset.deleted";
 
-export type DeliveryAttempt = { id: string; at: string; status: number | null; error: string | null };
-
-/**
- * pending: still being tried; delivered: answered 2xx; failed: out of attempts;
- * dropped: the drop switch was on; unconfigured: no webhook URL was set.
- */
-export type DeliveryState = "pending" | "delivered" | "failed" | "dropped" | "unconfigured";
+export type DeliveryAttempt = BaseAttempt & { id: string };
 
 /** One webhook event and what happened to it, as `/_fake/webhooks` lists it. */
 export type WebhookDelivery = {

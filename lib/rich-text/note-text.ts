@@ -1,6 +1,6 @@
 // Plain text of a note, for e-mails, search and summaries. No tiptap or zod here: safe to
 // import anywhere, including the owner's client bundle.
-import type { NoteDoc, NoteNode } from "@/lib/rich-text/note";
+import type { NoteDoc, NoteNode } from "@/lib/rich-text/note-types";
 
 function inlineText(nodes: NoteNode[] | undefined): string {
   let out = "";

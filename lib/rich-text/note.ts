@@ -7,6 +7,11 @@ import { z } from "zod";
 import { AppError } from "@/lib/errors";
 import { noteExtensions } from "@/lib/rich-text/extensions";
 import { HREF_MAX_LENGTH, LINK_RULE_MESSAGE, safeHref } from "@/lib/rich-text/href";
+import { NOTE_MARK_TYPES, type NoteDoc, type NoteMark, type NoteNode, ORDERED_LIST_STYLES } from "@/lib/rich-text/note-types";
+
+// The note's types live in note-types.ts; importers of this module keep finding them here.
+export { NOTE_MARK_TYPES, NOTE_NODE_TYPES, ORDERED_LIST_STYLES } from "@/lib/rich-text/note-types";
+export type { NoteDoc, NoteMark, NoteNode };
 
 export const NOTE_LIMITS = {
   /** UTF-8 bytes of the JSON as sent: bounds storage and parsing work. */
@@ -16,23 +21,6 @@ export const NOTE_LIMITS = {
   /** Nesting of blocks (lists in lists, quotes): deeper only arrives from crafted input. */
   maxDepth: 12,
 } as const;
-
-export const NOTE_NODE_TYPES = ["doc", "paragraph", "heading", "text", "hardBreak", "bulletList", "orderedList", "listItem", "blockquote"] as const;
-export const NOTE_MARK_TYPES = ["bold", "italic", "link"] as const;
-export const ORDERED_LIST_STYLES = ["1", "a", "A", "i", "I"] as const;
-
-export type NoteMark = { type: "bold" } | { type: "italic" } | { type: "link"; attrs: { href: string } };
-/** Which node may sit inside which is the ProseMirror schema's job (checked in parseNote). */
-export type NoteNode =
-  | { type: "paragraph"; content?: NoteNode[] }
-  | { type: "heading"; attrs: { level: 2 | 3 }; content?: NoteNode[] }
-  | { type: "bulletList"; content?: NoteNode[] }
-  | { type: "orderedList"; attrs?: { start?: number; type?: (typeof ORDERED_LIST_STYLES)[number] | null }; content?: NoteNode[] }
-  | { type: "listItem"; content?: NoteNode[] }
-  | { type: "blockquote"; content?: NoteNode[] }
-  | { type: "hardBreak"; marks?: NoteMark[] }
-  | { type: "text"; text: string; marks?: NoteMark[] };
-export type NoteDoc = { type: "doc"; content?: NoteNode[] };
 
 const MESSAGES = {
   empty: "Write something before posting.",

@@ -84,6 +84,8 @@ export const recordDepositSchema = z.object({ deposit: publicId("deposit"), meth
 export type RecordDepositInput = z.output<typeof recordDepositSchema>;
 
 export const refundSchema = z.object({
+  /** The job the payment was taken on: access is checked on the job, and the payment must be one of its own. */
+  job: publicId("job"),
   payment: z.coerce.number().int().positive("No such payment."),
   amount: typed.min(1, "Enter the amount to refund."),
   reason: optional(300, "the reason"),

@@ -1,19 +1,28 @@
 import "server-only";
 import { cache } from "react";
 import { auth } from "@/lib/server/auth";
-import { getActorById } from "@/db/queries/users";
+import { getActorBySession } from "@/db/queries/users";
 import type { Actor } from "@/lib/permissions";
 
 /**
- * The signed-in person and their current shop roles, once per request (roles are read
- * fresh, never trusted from the token). Someone who signed in with an e-mailed link acts
- * only as a machine owner: shop roles need the password.
+ * The signed-in person and their current shop roles, once per request. The cookie only names
+ * a session: whether it is still live (not signed out, not ended by a password change or a
+ * lost role) and the person's roles are read fresh, in one query, never trusted from the token.
+ * Someone who signed in with an e-mailed link acts only as a machine owner: shop roles need
+ * the password.
  */
 export const getActor = cache(async (): Promise<Actor | null> => {
   const session = await auth();
   const userId = Number(session?.user?.id);
-  if (!Number.isInteger(userId) || userId <= 0) return null;
-  const actor = await getActorById({ userId });
-  if (!actor || session?.signInMethod === "password") return actor;
-  return { ...actor, memberships: [] };
+  const sessionId = session?.sessionId;
+  if (!Number.isInteger(userId) || userId <= 0 || typeof sessionId !== "string" || !sessionId) return null;
+  const live = await getActorBySession({ userId, sessionId });
+  if (!live) return null;
+  return live.method === "password" ? live.actor : { ...live.actor, memberships: [] };
 });
+
+/** The id of this request's session (to end it, or keep it when ending the others); null when signed out. */
+export async function currentSessionId(): Promise<string | null> {
+  const session = await auth();
+  return typeof session?.sessionId === "string" && session.sessionId ? session.sessionId : null;
+}

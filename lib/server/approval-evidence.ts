@@ -1,11 +1,10 @@
 import "server-only";
 import { getEvidencePhoto, getRequestIdByTokenHash } from "@/db/queries/approvals";
 import { AppError } from "@/lib/errors";
-import { PHOTO_ID_PATTERN, PHOTO_SIZES, type PhotoSize } from "@/lib/journal";
+import type { PhotoSize } from "@/lib/journal";
 import type { Actor } from "@/lib/permissions";
-import { REQUEST_PUBLIC_ID_PATTERN } from "@/lib/schemas/approvals";
+import { access } from "@/lib/server/access";
 import { sha256Hex } from "@/lib/server/approval-hash";
-import { requestAccess } from "@/lib/server/approvals";
 import { storage } from "@/lib/server/storage";
 
 // Evidence photos of a request. Sending a request shows its evidence to the owner, so the owner
@@ -15,9 +14,12 @@ import { storage } from "@/lib/server/storage";
 
 export const MAIL_THUMB_DAYS = 30;
 
-export async function evidencePhoto(p: { actor: Actor | null; requestPublicId: string; photoPublicId: string; size: string; token: string | null }) {
+/**
+ * The ids come checked from the route's params. With a token, no session is needed; without one,
+ * it is the request's own rule (the job's staff and owner; others get a 404).
+ */
+export async function evidencePhoto(p: { actor: Actor | null; requestPublicId: string; photoPublicId: string; size: PhotoSize; token: string | null }) {
   const notFound = new AppError("not_found", "No such photo.");
-  if (!REQUEST_PUBLIC_ID_PATTERN.test(p.requestPublicId) || !PHOTO_ID_PATTERN.test(p.photoPublicId) || !(PHOTO_SIZES as readonly string[]).includes(p.size)) throw notFound;
   let requestId: number;
   if (p.token) {
     if (p.size !== "thumb" || !/^[A-Za-z0-9_-]{43}$/.test(p.token)) throw notFound;
@@ -27,11 +29,11 @@ export async function evidencePhoto(p: { actor: Actor | null; requestPublicId: s
     requestId = byToken.id;
   } else {
     if (!p.actor) throw new AppError("unauthenticated", "Sign in first.");
-    requestId = (await requestAccess(p.actor, p.requestPublicId)).request.id;
+    requestId = (await access(p.actor, "request", p.requestPublicId, "job:view")).request.id;
   }
   const photo = await getEvidencePhoto({ requestId, photoPublicId: p.photoPublicId });
   if (!photo) throw notFound;
-  const object = await storage().get((p.size as PhotoSize) === "thumb" ? photo.thumbKey : photo.displayKey);
+  const object = await storage().get(p.size === "thumb" ? photo.thumbKey : photo.displayKey);
   if (!object) throw notFound;
   return object;
 }

@@ -1,5 +1,5 @@
 import "server-only";
-import type { Knex } from "knex";
+import type { Tx } from "@/db/transaction";
 import { cancelQueuedMail } from "@/db/queries/approvals";
 import { enqueueMail } from "@/db/queries/outbox";
 import type { RequestSnapshot } from "@/lib/approvals";
@@ -28,7 +28,7 @@ export function mailThumbUrl(requestPublicId: string, photoPublicId: string, tok
 }
 
 export async function queueRequestMail(
-  tx: Knex.Transaction,
+  tx: Tx,
   m: {
     shop: { id: number; name: string };
     to: string;
@@ -61,6 +61,6 @@ export async function queueRequestMail(
 }
 
 /** The request is settled one way or another: its reminder must not go out. */
-export async function cancelReminder(tx: Knex.Transaction, { shopId, requestPublicId }: { shopId: number; requestPublicId: string }) {
+export async function cancelReminder(tx: Tx, { shopId, requestPublicId }: { shopId: number; requestPublicId: string }) {
   return cancelQueuedMail(tx, { shopId, dedupeKey: reminderMailKey(requestPublicId) });
 }

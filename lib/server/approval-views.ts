@@ -1,7 +1,7 @@
 import "server-only";
 import { type DecisionRow, latestRequestOfFinding, listDecisions, listRequests, markOpened } from "@/db/queries/approvals";
 import { type EvidenceClip, getMoneySettings, listEvidenceChoices, listFindings } from "@/db/queries/findings";
-import { getShopBySlug } from "@/db/queries/shops";
+import { getShopBySlug, getShopCurrency } from "@/db/queries/shops";
 import { type ApprovalsOverview, buildOverview } from "@/lib/approvals-overview";
 import type { RequestSnapshot, RequestStatus } from "@/lib/approvals";
 import { clipMediaUrls } from "@/lib/clips";
@@ -9,23 +9,18 @@ import { AppError } from "@/lib/errors";
 import type { TimelineClip, TimelinePhoto } from "@/lib/journal";
 import { describeMachine } from "@/lib/machine";
 import { type Actor, can } from "@/lib/permissions";
-import { requestAccess } from "@/lib/server/approvals";
-import { db } from "@/lib/server/db";
-import { journalAccess } from "@/lib/server/journal";
+import type { Resolved } from "@/lib/server/access";
 
 // Read models for the approval screens: the staff panel's overview of a job, and one request as
 // its reader sees it (the owner's answer page, the desk's record of it).
 
-async function currencyOf(shopId: number): Promise<string> {
-  const row = (await db()("shops").where({ id: shopId }).first("currency")) as { currency: string } | undefined;
-  return row?.currency ?? "USD";
-}
-
-/** The staff panel: findings, requests, decisions and warnings for one job (shop staff only). */
-export async function jobApprovals(actor: Actor, jobPublicId: string): Promise<ApprovalsOverview> {
-  const { job } = await journalAccess(actor, jobPublicId, "journal:view-shop-only");
+/**
+ * The staff panel: findings, requests, decisions and warnings for one job (its caller has checked
+ * that the reader is the shop's). Amounts included: they leave only for people with `money:view`.
+ */
+export async function jobApprovals(job: { id: number; shopId: number }): Promise<ApprovalsOverview> {
   const key = { shopId: job.shopId, jobId: job.id };
-  const [findings, requests, settings, currency] = await Promise.all([listFindings(key), listRequests(key), getMoneySettings({ shopId: job.shopId }), currencyOf(job.shopId)]);
+  const [findings, requests, settings, currency] = await Promise.all([listFindings(key), listRequests(key), getMoneySettings({ shopId: job.shopId }), getShopCurrency({ shopId: job.shopId })]);
   const decisions = await listDecisions({ shopId: job.shopId, requestIds: requests.map((r) => r.id) });
   const byPublic = new Map(
     requests.flatMap((r) => {
@@ -111,6 +106,8 @@ export type RequestView = {
   current: string | null;
   mayAnswer: boolean;
   mayRecord: boolean;
+  /** Prices and totals may be shown (technicians see what was asked and answered, not what it costs). */
+  mayViewMoney: boolean;
   audience: "shop" | "owner";
   job: { number: number; machine: string; shopName: string; shopSlug: string; timeZone: string; findingId: number; ownerName: string };
 };
@@ -119,14 +116,13 @@ export type RequestView = {
  * One request for its reader. The owner opening it is recorded once (opened_at); staff looking
  * at it are not the owner opening it. `jobPublicId` is the job in the address, when there is one.
  */
-export async function requestView(actor: Actor, jobPublicId: string | null, requestPublicId: string): Promise<RequestView> {
-  const { request, job, resource, audience } = await requestAccess(actor, requestPublicId);
+export async function requestView(actor: Actor, { request, job, resource, audience, mayViewMoney }: Resolved<"request">, jobPublicId: string | null): Promise<RequestView> {
   if (jobPublicId != null && request.jobPublicId !== jobPublicId) throw new AppError("not_found", "No such approval request on this job.");
   const mayAnswer = can(actor, "approvals:answer", resource);
   if (mayAnswer && request.status === "sent" && !request.openedAt) await markOpened({ shopId: job.shopId, id: request.id });
   const [decisions, latest, choices, shop] = await Promise.all([
     listDecisions({ shopId: job.shopId, requestIds: [request.id] }),
-    latestRequestOfFinding(db(), { shopId: job.shopId, findingId: request.findingId }),
+    latestRequestOfFinding({ shopId: job.shopId, findingId: request.findingId }),
     listEvidenceChoices({ shopId: job.shopId, jobId: job.id }),
     getShopBySlug({ slug: job.shopSlug }),
   ]);
@@ -145,6 +141,7 @@ export async function requestView(actor: Actor, jobPublicId: string | null, requ
     current: latest && latest.publicId !== request.publicId && latest.status !== "withdrawn" ? latest.publicId : null,
     mayAnswer,
     mayRecord: can(actor, "approvals:record-decision", resource),
+    mayViewMoney,
     audience,
     job: { number: job.number, machine: describeMachine(job.machine), shopName: job.shopName, shopSlug: job.shopSlug, timeZone: shop?.timezone ?? "UTC", findingId: request.findingId, ownerName: job.customerName },
   };

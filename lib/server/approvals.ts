@@ -1,21 +1,21 @@
 import "server-only";
-import type { Knex } from "knex";
-import { type DecisionRow, getRequestByPublicId, insertDecision, insertRequest, latestRequestOfFinding, listDecisions, lockRequest, markReplaced, markWithdrawn, newRequestPublicId } from "@/db/queries/approvals";
-import { getFinding, getMoneySettings, listEvidenceChoices } from "@/db/queries/findings";
+import { type DecisionRow, insertDecision, insertRequest, latestRequestOfFinding, listDecisions, lockRequest, markReplaced, markWithdrawn, newRequestPublicId } from "@/db/queries/approvals";
+import { getFinding, getMoneySettings, listEvidenceChoices, lockFinding } from "@/db/queries/findings";
 import { notifyNow } from "@/db/queries/following";
-import { insertEntry, moveJobStatus } from "@/db/queries/journal";
+import { lockJobForRequest } from "@/db/queries/jobs";
+import { insertEntry } from "@/db/queries/entries";
+import { moveJobStatus } from "@/db/queries/journal";
+import { type Tx, transaction } from "@/db/transaction";
 import { type EvidenceRef, type RequestSnapshot, asSnapshot, buildSnapshot, checkAnswers, decisionTotals, snapshotContent } from "@/lib/approvals";
 import { AppError, type ErrorCode } from "@/lib/errors";
-import { JOB_STATUS_LABEL, type JobStatus, statusMoveError } from "@/lib/job-status";
+import { JOB_STATUS_LABEL, statusMoveError } from "@/lib/job-status";
 import { describeMachine } from "@/lib/machine";
-import type { Action, Actor } from "@/lib/permissions";
-import { type AnswerInput, REQUEST_PUBLIC_ID_PATTERN, type RecordDecisionInput } from "@/lib/schemas/approvals";
+import type { Actor } from "@/lib/permissions";
+import type { AnswerInput, RecordDecisionInput } from "@/lib/schemas/approvals";
 import { formatJobNumber } from "@/lib/schemas/jobs";
+import type { JobAccess, Resolved } from "@/lib/server/access";
 import { newMailToken, sealIntact, sealSnapshot } from "@/lib/server/approval-hash";
 import { cancelReminder, queueRequestMail } from "@/lib/server/approval-mail";
-import { db } from "@/lib/server/db";
-import { findingJob } from "@/lib/server/findings";
-import { journalAccess } from "@/lib/server/journal";
 
 // Sending, withdrawing and answering approval requests. Every change runs in one transaction
 // with the request row locked, so an answer, a withdrawal and a revision can't cross; the unique
@@ -32,16 +32,6 @@ export class ApprovalRefusal extends AppError {
   ) {
     super(code, message);
   }
-}
-
-/** The request and its job for someone allowed to do `action` there; strangers and followers get a 404. */
-export async function requestAccess(actor: Actor, requestPublicId: string, action: Action = "job:view") {
-  const request = REQUEST_PUBLIC_ID_PATTERN.test(requestPublicId) ? await getRequestByPublicId({ publicId: requestPublicId }) : null;
-  if (!request) throw new AppError("not_found", "No such approval request, or it isn't yours to see.");
-  const access = await journalAccess(actor, request.jobPublicId, action);
-  // Prices and decisions are between the shop and the machine's owner: followers never see them.
-  if (access.audience === "follower") throw new AppError("not_found", "No such approval request, or it isn't yours to see.");
-  return { request, ...access, audience: access.audience as "shop" | "owner" };
 }
 
 function evidenceLabels(choices: Awaited<ReturnType<typeof listEvidenceChoices>>, e: { kind: string; ref: string; momentMs: number | null }): EvidenceRef {
@@ -61,23 +51,17 @@ function evidenceLabels(choices: Awaited<ReturnType<typeof listEvidenceChoices>>
  * prices, and queues the e-mail and its reminder, all in one transaction. An open request of the
  * same finding is replaced by this revision (it can no longer be answered).
  */
-export async function sendRequest(actor: Actor, jobPublicId: string, findingId: number, input: { findingVersion: number }) {
-  const { job } = await findingJob(actor, jobPublicId, "approvals:send");
-  return db().transaction(async (tx) => {
-    const jobRow = (await tx("jobs as j")
-      .join("customers as c", "c.id", "j.customer_id")
-      .join("shops as s", "s.id", "j.shop_id")
-      .where({ "j.id": job.id, "j.shop_id": job.shopId })
-      .forUpdate()
-      .first("j.status", "c.name as customer_name", "c.email as customer_email", "s.name as shop_name", "s.currency")) as Record<string, string>;
-    await tx("findings").where({ id: findingId, shop_id: job.shopId }).forUpdate().first("id");
+export async function sendRequest(actor: Actor, { job }: JobAccess, findingId: number, input: { findingVersion: number }) {
+  return transaction(async (tx) => {
+    const jobRow = (await lockJobForRequest(tx, { shopId: job.shopId, jobId: job.id }))!;
+    await lockFinding(tx, { shopId: job.shopId, id: findingId });
     const finding = await getFinding({ shopId: job.shopId, jobId: job.id, id: findingId }, tx);
     if (!finding) throw new AppError("not_found", "That finding isn't on this job.");
     if (finding.version !== input.findingVersion) throw new AppError("conflict", "Someone changed this finding since you opened it. Check the new version, then send.");
-    const previous = await latestRequestOfFinding(tx, { shopId: job.shopId, findingId }, true);
+    const previous = await latestRequestOfFinding({ shopId: job.shopId, findingId }, tx, true);
     if (previous?.status === "answered") throw new AppError("conflict", "The owner has already answered this finding. Draft a new finding for more work.");
 
-    const status = jobRow.status as JobStatus;
+    const status = jobRow.status;
     const refusal = status === "waiting_approval" ? null : statusMoveError(status, "waiting_approval");
     if (refusal) throw new AppError("invalid", `This can't be sent while the job is "${JOB_STATUS_LABEL[status]}": ${refusal}`);
 
@@ -88,7 +72,7 @@ export async function sendRequest(actor: Actor, jobPublicId: string, findingId: 
       request: publicId,
       job: job.publicId,
       version: (previous?.version ?? 0) + 1,
-      currency: jobRow.currency!,
+      currency: jobRow.currency,
       finding: { title: finding.title, found: finding.found, whyItMatters: finding.whyItMatters, safety: finding.safety },
       evidence: finding.evidence.map((e) => evidenceLabels(choices, e)),
       lines: finding.lines.map(({ id: _id, ...line }) => line),
@@ -99,7 +83,7 @@ export async function sendRequest(actor: Actor, jobPublicId: string, findingId: 
     }
     const { canonical, hash } = sealSnapshot(snapshot);
     const { token, tokenHash } = newMailToken();
-    const to = jobRow.customer_email ?? null;
+    const to = jobRow.customerEmail;
     const id = await insertRequest(tx, { shopId: job.shopId, jobId: job.id, publicId, findingId, version: snapshot.version, snapshot, canonical, hash, tokenHash, sentTo: to, userId: actor.userId });
     if (previous?.status === "sent") {
       await markReplaced(tx, { shopId: job.shopId, id: previous.id, by: id });
@@ -120,9 +104,9 @@ export async function sendRequest(actor: Actor, jobPublicId: string, findingId: 
     });
     if (to) {
       await queueRequestMail(tx, {
-        shop: { id: job.shopId, name: jobRow.shop_name! },
+        shop: { id: job.shopId, name: jobRow.shopName },
         to,
-        ownerName: jobRow.customer_name!,
+        ownerName: jobRow.customerName,
         machine: describeMachine(job.machine),
         jobNumber: formatJobNumber(job.number),
         jobPublicId: job.publicId,
@@ -144,14 +128,13 @@ const SETTLED: Record<Exclude<RefusalReason, "changed">, string> = {
 };
 
 /** The newest version of the request's finding, for "see the current version". */
-async function currentVersion(k: Knex, shopId: number, findingId: number): Promise<string | null> {
-  const latest = await latestRequestOfFinding(k, { shopId, findingId });
+async function currentVersion(k: Tx, shopId: number, findingId: number): Promise<string | null> {
+  const latest = await latestRequestOfFinding({ shopId, findingId }, k);
   return latest && latest.status !== "withdrawn" ? latest.publicId : null;
 }
 
-export async function withdrawRequest(actor: Actor, requestPublicId: string, input: { reason: string | null }) {
-  const { request, job } = await requestAccess(actor, requestPublicId, "approvals:send");
-  await db().transaction(async (tx) => {
+export async function withdrawRequest(actor: Actor, { request, job }: Resolved<"request">, input: { reason: string | null }) {
+  await transaction(async (tx) => {
     const r = await lockRequest(tx, { shopId: job.shopId, id: request.id });
     if (!r || r.status !== "sent") {
       const reason = (r?.status ?? "withdrawn") as Exclude<RefusalReason, "changed">;
@@ -198,7 +181,7 @@ async function storedDecision(shopId: number, requestId: number): Promise<Decisi
 async function decide(actor: Actor, request: { id: number; findingId: number }, job: { shopId: number; id: number }, d: Decide): Promise<DecisionRow> {
   const already = (decision: DecisionRow) => new ApprovalRefusal("conflict", `${SETTLED.answered} Here is the answer that was recorded.`, { reason: "answered", current: null, decision });
   try {
-    await db().transaction(async (tx) => {
+    await transaction(async (tx) => {
       const r = await lockRequest(tx, { shopId: job.shopId, id: request.id });
       if (!r) throw new AppError("not_found", "No such approval request.");
       const existing = (await listDecisions({ shopId: job.shopId, requestIds: [r.id] }, tx)).get(r.id);
@@ -256,8 +239,7 @@ async function decide(actor: Actor, request: { id: number; findingId: number }, 
 }
 
 /** The machine's owner answers online, line by line, signing with their typed name. */
-export async function answerRequest(actor: Actor, requestPublicId: string, input: AnswerInput, meta: { ip: string | null; userAgent: string | null }) {
-  const { request, job } = await requestAccess(actor, requestPublicId, "approvals:answer");
+export async function answerRequest(actor: Actor, { request, job }: Resolved<"request">, input: AnswerInput, meta: { ip: string | null; userAgent: string | null }) {
   const decision = await decide(actor, request, job, {
     method: "online",
     shownHash: input.shownHash,
@@ -276,8 +258,7 @@ export async function answerRequest(actor: Actor, requestPublicId: string, input
 }
 
 /** The desk notes an answer given by phone or in person, with what consent rules ask for (REFERENCES §6). */
-export async function recordDecision(actor: Actor, requestPublicId: string, input: RecordDecisionInput) {
-  const { request, job } = await requestAccess(actor, requestPublicId, "approvals:record-decision");
+export async function recordDecision(actor: Actor, { request, job }: Resolved<"request">, input: RecordDecisionInput) {
   const now = Date.now();
   if (input.decidedAt.getTime() > now + 5 * 60_000) throw new AppError("invalid", "The answer can't be in the future.", { decidedAt: ["Enter when the owner answered, not a time to come."] });
   if (input.decidedAt.getTime() < new Date(request.sentAt).getTime() - 60_000) {

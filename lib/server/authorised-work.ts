@@ -1,9 +1,8 @@
 import "server-only";
-import type { Knex } from "knex";
+import type { Tx } from "@/db/transaction";
 import { listDecisions, listRequests } from "@/db/queries/approvals";
 import type { DecisionMethod } from "@/lib/approvals";
 import type { InvoiceLine } from "@/lib/invoices";
-import { db } from "@/lib/server/db";
 
 // What the owner authorised on a job, read from the approval records: the approved lines with
 // their prices as shown (the frozen snapshots), the authorised pre-tax total, and the record of who
@@ -38,7 +37,8 @@ export type AuthorisedWork = {
   openRequests: { publicId: string; title: string }[];
 };
 
-export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId: number }, k: Knex = db()): Promise<AuthorisedWork> {
+/** Read in the caller's transaction when `k` is given, else on the pool. */
+export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId: number }, k?: Tx): Promise<AuthorisedWork> {
   const requests = await listRequests({ shopId, jobId }, k);
   const decisions = await listDecisions({ shopId, requestIds: requests.map((r) => r.id) }, k);
   const lines: InvoiceLine[] = [];

@@ -6,10 +6,10 @@ import { deleteSpec, insertSpec } from "@/db/queries/bench-specs";
 import { getShopBySlug } from "@/db/queries/shops";
 import { AppError } from "@/lib/errors";
 import { parseMoney, parseQuantity } from "@/lib/money";
-import { type Action, type Actor } from "@/lib/permissions";
+import type { Actor } from "@/lib/permissions";
 import type { PartInput, SpecInput } from "@/lib/schemas/bench";
-import { authorize } from "@/lib/server/authorize";
-import { benchJob, onField } from "@/lib/server/bench";
+import type { JobAccess, Resolved } from "@/lib/server/access";
+import { onField } from "@/lib/server/bench";
 import { assertPassPercents } from "@/lib/tightening-passes";
 import type { PartStatus } from "@/lib/bench";
 import type { TorqueUnit } from "@/lib/torque";
@@ -19,8 +19,7 @@ import type { TorqueUnit } from "@/lib/torque";
 // Not done here on purpose: the e-mail to the owner when the last part arrives. It needs the
 // mail outbox (issue 7); the shared status entry the move writes is what the owner sees today.
 
-export async function addJobPart(actor: Actor, input: PartInput) {
-  const job = await benchJob(actor, input.job, "parts:manage");
+export async function addJobPart(actor: Actor, { job }: JobAccess, input: PartInput) {
   const shop = await getShopBySlug({ slug: job.shopSlug });
   const qtyThousandths = onField("qty", () => parseQuantity(input.qty));
   if (qtyThousandths === 0) throw new AppError("invalid", "The quantity must be above zero.", { qty: ["The quantity must be above zero."] });
@@ -34,8 +33,7 @@ export async function addJobPart(actor: Actor, input: PartInput) {
   return { ...made, job };
 }
 
-export async function changeJobPartStatus(actor: Actor, input: { job: string; part: number; from: PartStatus; to: PartStatus; expectedOn: string | null }) {
-  const job = await benchJob(actor, input.job, "parts:manage");
+export async function changeJobPartStatus(actor: Actor, { job }: JobAccess, input: { part: number; from: PartStatus; to: PartStatus; expectedOn: string | null }) {
   // A blank date on a status change leaves the expected date as it was.
   const made = await changePartStatus({
     shopId: job.shopId,
@@ -49,33 +47,22 @@ export async function changeJobPartStatus(actor: Actor, input: { job: string; pa
   return { ...made, job };
 }
 
-/** The shop behind a spec-library or settings request; an unknown slug looks like someone else's shop. */
-export async function shopFor(actor: Actor, slug: string, action: Action) {
-  const shop = await getShopBySlug({ slug });
-  if (!shop) throw new AppError("forbidden", "You don't have access to this shop.");
-  authorize(actor, action, { shopId: shop.id });
-  return shop;
-}
-
-export async function addSpec(actor: Actor, input: SpecInput) {
-  const shop = await shopFor(actor, input.shop, "specs:manage");
+export async function addSpec(actor: Actor, { shop }: Resolved<"shop">, input: SpecInput) {
   const { shop: _slug, ...spec } = input;
   // A torque spec stores its unit id (nm, lbf_ft…) so the torque form can pre-fill from it.
   const id = await insertSpec({ shopId: shop.id, userId: actor.userId, spec });
   return { id, shop };
 }
 
-export async function removeSpec(actor: Actor, input: { shop: string; spec: number }) {
-  const shop = await shopFor(actor, input.shop, "specs:manage");
+export async function removeSpec({ shop }: Resolved<"shop">, input: { spec: number }) {
   if (!(await deleteSpec({ shopId: shop.id, id: input.spec }))) throw new AppError("not_found", "That spec is already gone.");
   return { shop };
 }
 
 export async function updateBenchSettings(
-  actor: Actor,
-  input: { shop: string; torqueUnit: TorqueUnit; passes: number[]; chainLimitPct: number; clipMaxMinutes: number; clipMaxGb: number },
+  { shop }: Resolved<"shop">,
+  input: { torqueUnit: TorqueUnit; passes: number[]; chainLimitPct: number; clipMaxMinutes: number; clipMaxGb: number },
 ) {
-  const shop = await shopFor(actor, input.shop, "shop:manage-settings");
   onField("passes", () => assertPassPercents(input.passes));
   await saveBenchSettings({ shopId: shop.id, settings: { torqueUnit: input.torqueUnit, passPercents: input.passes, chainLimitPct: input.chainLimitPct } });
   await saveClipLimits({ shopId: shop.id, maxSeconds: Math.round(input.clipMaxMinutes * 60), maxBytes: Math.round(input.clipMaxGb * 1024 ** 3) });

@@ -3,23 +3,18 @@ import { getBenchSettings, insertReading, insertTeardownStep, insertTorqueRecord
 import type { ReadingBody, TorqueBody } from "@/lib/bench";
 import { chainCheck } from "@/lib/chain-wear";
 import { AppError } from "@/lib/errors";
-import type { Action, Actor } from "@/lib/permissions";
+import type { Actor } from "@/lib/permissions";
 import { evaluateReading } from "@/lib/readings";
 import { formatFixed, roundHalfUp } from "@/lib/rounding";
 import type { ChainReadingInput, ReadingInput, TeardownStepInput, TorqueRecordInput } from "@/lib/schemas/bench";
-import { journalAccess } from "@/lib/server/journal";
+import type { JobAccess } from "@/lib/server/access";
 import { passSchedule } from "@/lib/tightening-passes";
 import { supportsCrossPattern } from "@/lib/tightening-order";
 import type { TorqueUnit } from "@/lib/torque";
 
-// Bench records for one job: parse (done by the caller's zod schema) → authorise through the
-// job's journal access (someone else's job is a 404) → check with the pure domain modules →
-// write the row and its timeline entry together.
-
-/** The job, for someone allowed to do `action` on it. */
-export async function benchJob(actor: Actor, publicId: string, action: Action = "bench:record") {
-  return (await journalAccess(actor, publicId, action)).job;
-}
+// Bench records for one job, already resolved and authorised by the caller's declaration
+// (lib/server/access.ts): check with the pure domain modules → write the row and its timeline
+// entry together.
 
 /** Runs a domain check and pins its message to the form field it is about. */
 export function onField<T>(field: string, check: () => T): T {
@@ -37,8 +32,7 @@ function checkTorque(value: number, unit: TorqueUnit, passPercents: readonly num
   return boltCount != null && supportsCrossPattern(boltCount) ? ("cross" as const) : null;
 }
 
-export async function recordTorque(actor: Actor, input: TorqueRecordInput) {
-  const job = await benchJob(actor, input.job);
+export async function recordTorque(actor: Actor, { job }: JobAccess, input: TorqueRecordInput) {
   const settings = await getBenchSettings({ shopId: job.shopId });
   const passPercents = input.passes ?? settings.passPercents;
   const body: TorqueBody = {
@@ -57,8 +51,7 @@ export async function recordTorque(actor: Actor, input: TorqueRecordInput) {
   return { ...made, job };
 }
 
-export async function recordReading(actor: Actor, input: ReadingInput) {
-  const job = await benchJob(actor, input.job);
+export async function recordReading(actor: Actor, { job }: JobAccess, input: ReadingInput) {
   const result = onField("min", () => evaluateReading({ value: input.value, min: input.min, max: input.max, unit: input.unit }));
   const body: ReadingBody = {
     label: input.label,
@@ -75,8 +68,7 @@ export async function recordReading(actor: Actor, input: ReadingInput) {
 }
 
 /** Chain wear over N pitches → elongation % as the reading, the shop's (or typed) limit as its maximum. */
-export async function recordChainReading(actor: Actor, input: ChainReadingInput) {
-  const job = await benchJob(actor, input.job);
+export async function recordChainReading(actor: Actor, { job }: JobAccess, input: ChainReadingInput) {
   const limitPct = input.limitPct ?? (await getBenchSettings({ shopId: job.shopId })).chainLimitPct;
   const check = onField("measuredMm", () => chainCheck({ pitchMm: input.pitchMm, pitches: input.pitches, measuredMm: input.measuredMm, limitPct }));
   const value = roundHalfUp(check.elongationPct, 3);
@@ -96,8 +88,7 @@ export async function recordChainReading(actor: Actor, input: ChainReadingInput)
   return { ...(await insertReading({ shopId: job.shopId, jobId: job.id, userId: actor.userId, body })), job, check };
 }
 
-export async function addTeardownStep(actor: Actor, input: TeardownStepInput) {
-  const job = await benchJob(actor, input.job);
+export async function addTeardownStep(actor: Actor, { job }: JobAccess, input: TeardownStepInput) {
   if (input.photo && !(await jobHasPhoto({ shopId: job.shopId, jobId: job.id, publicId: input.photo }))) {
     throw new AppError("invalid", "Choose one of this job's posted photos.", { photo: ["Choose one of this job's posted photos."] });
   }
@@ -115,22 +106,19 @@ function found(ok: boolean) {
   if (!ok) throw new AppError("not_found", "That teardown step isn't on this job.");
 }
 
-export async function setTeardownTorque(actor: Actor, input: { job: string; step: number; torqueValue: number; torqueUnit: TorqueUnit; boltCount: number | null }) {
-  const job = await benchJob(actor, input.job);
+export async function setTeardownTorque(actor: Actor, { job }: JobAccess, input: { step: number; torqueValue: number; torqueUnit: TorqueUnit; boltCount: number | null }) {
   const settings = await getBenchSettings({ shopId: job.shopId });
   checkTorque(input.torqueValue, input.torqueUnit, settings.passPercents, input.boltCount);
   found(await setStepTorque({ shopId: job.shopId, jobId: job.id, stepId: input.step, torque: { value: input.torqueValue, unit: input.torqueUnit, boltCount: input.boltCount } }));
   return { job };
 }
 
-export async function tickTeardownStep(actor: Actor, input: { job: string; step: number; value: boolean }) {
-  const job = await benchJob(actor, input.job);
+export async function tickTeardownStep(actor: Actor, { job }: JobAccess, input: { step: number; value: boolean }) {
   found(await setStepChecked({ shopId: job.shopId, jobId: job.id, stepId: input.step, userId: actor.userId, done: input.value }));
   return { job };
 }
 
-export async function markStepReplaced(actor: Actor, input: { job: string; step: number; value: boolean }) {
-  const job = await benchJob(actor, input.job);
+export async function markStepReplaced(actor: Actor, { job }: JobAccess, input: { step: number; value: boolean }) {
   found(await setStepReplaced({ shopId: job.shopId, jobId: job.id, stepId: input.step, replaced: input.value }));
   return { job };
 }

@@ -1,11 +1,11 @@
 import "server-only";
-import { applyVideoEvent, createClipEntry, getClipLimits, newClipPublicId, type VideoEvent } from "@/db/queries/clips";
-import { db } from "@/lib/server/db";
+import { type RejectedClip, applyVideoEvent, clearFailedClip, createClipEntry, getClipLimits, listFailedClips, newClipPublicId } from "@/db/queries/clips";
 import { AppError } from "@/lib/errors";
 import { type NewClip, clipLimitProblem } from "@/lib/clips";
 import type { Actor } from "@/lib/permissions";
+import { firstIssue, videoEventSchema } from "@/lib/schemas/webhooks";
 import { appUrl } from "@/lib/server/config";
-import { journalAccess } from "@/lib/server/journal";
+import type { JobAccess } from "@/lib/server/access";
 import { cancelDirectUpload, createDirectUpload, mux } from "@/lib/server/video";
 
 /**
@@ -13,8 +13,7 @@ import { cancelDirectUpload, createDirectUpload, mux } from "@/lib/server/video"
  * service and puts a "processing" entry on the timeline at once. The browser then sends the
  * file straight to the upload URL, in resumable chunks.
  */
-export async function startClipUpload(actor: Actor, jobPublicId: string, clip: NewClip) {
-  const { job } = await journalAccess(actor, jobPublicId, "journal:post");
+export async function startClipUpload(actor: Actor, { job }: JobAccess, clip: NewClip) {
   const limits = await getClipLimits({ shopId: job.shopId });
   const problem = clipLimitProblem(clip, limits);
   if (problem) throw new AppError("too_large", problem, { size: [problem] });
@@ -39,30 +38,64 @@ export async function startClipUpload(actor: Actor, jobPublicId: string, clip: N
   }
 }
 
-/** Verifies a webhook delivery on its raw body and applies it once. */
-export async function receiveVideoWebhook(rawBody: string, headers: Headers): Promise<{ applied: boolean }> {
+/**
+ * Verifies a webhook delivery on its raw body and applies it once. A signed delivery we can't use
+ * (not JSON, the wrong shape, a type we don't act on) is logged and acknowledged: the service
+ * retries anything but a 2xx, so refusing it would bring it back forever.
+ */
+export async function receiveVideoWebhook(rawBody: string, headers: Headers): Promise<{ applied: boolean; ignored?: string }> {
   const secret = process.env.MUX_WEBHOOK_SECRET;
   if (!secret) throw new AppError("unavailable", "Video webhooks are not configured (MUX_WEBHOOK_SECRET).");
-  let event: VideoEvent;
   try {
-    event = (await mux().webhooks.unwrap(rawBody, headers, secret)) as unknown as VideoEvent;
-  } catch {
+    await mux().webhooks.verifySignature(rawBody, headers, secret);
+  } catch (error) {
+    if (error instanceof AppError) throw error;
     throw new AppError("unauthenticated", "The webhook signature is missing, wrong or too old.");
   }
-  const applied = await applyVideoEvent(event);
-  if (applied && event.type === "video.asset.ready") await enforceDuration(event);
+  let body: unknown;
+  try {
+    body = JSON.parse(rawBody);
+  } catch {
+    return ignored("the body is not JSON");
+  }
+  const parsed = videoEventSchema.safeParse(body);
+  if (!parsed.success) return ignored(`unusable video event (${firstIssue(parsed.error)})`);
+  const event = parsed.data;
+  if (!HANDLED_VIDEO_EVENTS.has(event.type)) {
+    console.info(`video webhook: ${event.type} ${event.id} is not one we act on; acknowledged`);
+    return { applied: false, ignored: `type ${event.type}` };
+  }
+  const { applied, rejected } = await applyVideoEvent(event);
+  // Off the timeline, so off the service too: nothing is kept of a clip that can't be played.
+  for (const clip of rejected) await forgetAsset(clip);
   return { applied };
 }
 
-/** The browser's declared length can be wrong: the processed asset is what counts. */
-async function enforceDuration(event: VideoEvent) {
-  const assetId = event.data.id;
-  if (!assetId || event.data.duration == null) return;
-  const row = await db()("clips as c").join("shops as s", "s.id", "c.shop_id").where("c.asset_id", assetId).first("c.id", "s.clip_max_seconds");
-  if (!row || event.data.duration <= Number(row.clip_max_seconds)) return;
-  const problem = clipLimitProblem({ size: 0, durationSeconds: event.data.duration }, { maxSeconds: Number(row.clip_max_seconds), maxBytes: Infinity });
-  await db()("clips").where({ id: row.id }).update({ status: "errored", playback_id: null, error: problem });
-  await mux()
-    .video.assets.delete(assetId)
-    .catch(() => undefined);
+const HANDLED_VIDEO_EVENTS = new Set(["video.upload.asset_created", "video.upload.errored", "video.upload.cancelled", "video.asset.ready", "video.asset.errored", "video.asset.deleted"]);
+
+function ignored(reason: string) {
+  console.warn(`video webhook ignored: ${reason}`);
+  return { applied: false, ignored: reason };
+}
+
+async function forgetAsset(clip: RejectedClip) {
+  if (!clip.assetId) return;
+  try {
+    await mux().video.assets.delete(clip.assetId);
+  } catch (error) {
+    if ((error as { status?: number }).status === 404) return; // already gone
+    // The clip is already off the timeline; the service's copy is logged for follow-up.
+    console.error(`clip ${clip.publicId}: deleting its rejected asset at the video service failed`, error);
+  }
+}
+
+/** The job's clips the video service rejected: not on the timeline, listed for staff until cleared. */
+export function failedClips({ job }: JobAccess) {
+  return listFailedClips({ shopId: job.shopId, jobId: job.id });
+}
+
+/** Clears one failed upload from the job's list (404 when there is no such failed clip). */
+export async function clearFailedClipOfJob({ job }: JobAccess, clipPublicId: string) {
+  if (!(await clearFailedClip({ shopId: job.shopId, jobId: job.id, publicId: clipPublicId }))) throw new AppError("not_found", "No such failed clip on this job.");
+  return { cleared: clipPublicId };
 }

@@ -1,22 +1,20 @@
 import "server-only";
 import { latestRequestOfFinding } from "@/db/queries/approvals";
 import { type FindingWrite, type StoredEvidence, type StoredLine, getFinding, getMoneySettings, insertFinding, listEvidenceChoices, updateFinding } from "@/db/queries/findings";
+import { getShopCurrency } from "@/db/queries/shops";
 import type { DraftLine, ShopMoneySettings } from "@/lib/approvals";
 import { AppError } from "@/lib/errors";
 import { parseHours, parseMoney, parseQuantity } from "@/lib/money";
 import { type Actor, can } from "@/lib/permissions";
 import type { EvidenceInput, FindingInput, LineInput } from "@/lib/schemas/approvals";
-import { db } from "@/lib/server/db";
-import { journalAccess } from "@/lib/server/journal";
+import type { JobAccess } from "@/lib/server/access";
 
 // Findings: the technician drafts (what was found, why it matters, evidence, proposed lines);
 // the desk prices. Typed numbers are read with lib/money.ts in the shop's currency and a bad one
-// is refused with the field it came from. Someone else's job answers 404 (journalAccess).
+// is refused with the field it came from. Who may draft is declared by the handler (lib/server/access.ts).
 
-export async function findingJob(actor: Actor, publicId: string, action: "approvals:draft" | "approvals:send" = "approvals:draft") {
-  const access = await journalAccess(actor, publicId, action);
-  return { ...access, mayPrice: can(actor, "approvals:send", access.resource) };
-}
+/** Prices come from the desk only: the people who may send a request. */
+const mayPriceOn = (actor: Actor, found: JobAccess) => can(actor, "approvals:send", found.resource);
 
 /** Reads one typed value, pinning a bad one to its field (`lines.2.unitPrice`). */
 function field<T>(key: string, read: () => T): T {
@@ -114,14 +112,9 @@ async function toWrite(job: { shopId: number; id: number }, input: FindingInput,
   };
 }
 
-async function shopCurrency(shopId: number): Promise<string> {
-  const row = (await db()("shops").where({ id: shopId }).first("currency")) as { currency: string } | undefined;
-  return row?.currency ?? "USD";
-}
-
-export async function createFinding(actor: Actor, publicId: string, input: FindingInput) {
-  const { job, mayPrice } = await findingJob(actor, publicId);
-  const write = await toWrite(job, input, [], mayPrice, await shopCurrency(job.shopId));
+export async function createFinding(actor: Actor, found: JobAccess, input: FindingInput) {
+  const { job } = found;
+  const write = await toWrite(job, input, [], mayPriceOn(actor, found), await getShopCurrency({ shopId: job.shopId }));
   const id = await insertFinding({ shopId: job.shopId, jobId: job.id, userId: actor.userId, finding: write });
   return { id, version: 1, job };
 }
@@ -130,14 +123,14 @@ export async function createFinding(actor: Actor, publicId: string, input: Findi
  * Saves a finding. An answered finding is closed (its decision stands; more work is a new
  * finding); while a request is out, the saved finding is the draft of a revision.
  */
-export async function saveFinding(actor: Actor, publicId: string, findingId: number, input: FindingInput) {
-  const { job, mayPrice } = await findingJob(actor, publicId);
+export async function saveFinding(actor: Actor, found: JobAccess, findingId: number, input: FindingInput) {
+  const { job } = found;
   if (input.version == null) throw new AppError("invalid", "Say which version of the finding you edited.", { version: ["Reload and try again."] });
   const finding = await getFinding({ shopId: job.shopId, jobId: job.id, id: findingId });
   if (!finding) throw new AppError("not_found", "That finding isn't on this job.");
-  const latest = await latestRequestOfFinding(db(), { shopId: job.shopId, findingId });
+  const latest = await latestRequestOfFinding({ shopId: job.shopId, findingId });
   if (latest?.status === "answered") throw new AppError("conflict", "The owner has answered this finding, so it can't change. Draft a new finding for more work.");
-  const write = await toWrite(job, input, finding.lines, mayPrice, await shopCurrency(job.shopId));
+  const write = await toWrite(job, input, finding.lines, mayPriceOn(actor, found), await getShopCurrency({ shopId: job.shopId }));
   const version = await updateFinding({ shopId: job.shopId, jobId: job.id, id: findingId, expectedVersion: input.version, finding: write });
   return { id: findingId, version, job };
 }

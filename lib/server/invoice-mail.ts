@@ -1,7 +1,8 @@
 import "server-only";
-import type { Knex } from "knex";
+import type { Tx } from "@/db/transaction";
 import type { InvoiceRow } from "@/db/queries/invoices";
 import { enqueueMail } from "@/db/queries/outbox";
+import { getShopName } from "@/db/queries/shops";
 import { PAYMENT_METHOD_LABEL, type PaymentKind, type PaymentMethod, formatInvoiceNumber } from "@/lib/invoices";
 import { describeMachine, type MachineKind } from "@/lib/machine";
 import { formatMoney } from "@/lib/money";
@@ -18,17 +19,13 @@ type Owner = { to: string; ownerName: string };
 
 export const ownerInvoicePath = (jobPublicId: string) => `/my/jobs/${jobPublicId}/invoice`;
 
-async function shopName(k: Knex, shopId: number): Promise<string> {
-  return String(((await k("shops").where({ id: shopId }).first("name")) as { name: string }).name);
-}
-
 const context = (job: MailJob) => `${formatJobNumber(job.number)} · ${describeMachine(job.machine)}`;
 const FOOTNOTE = "The button opens your job on Benchside. If you aren't signed in, ask for a sign-in link with this e-mail address and you'll come straight back to it. Reply to this e-mail to reach the shop.";
 
-export async function queueInvoiceMail(tx: Knex.Transaction, m: Owner & { invoice: InvoiceRow; job: MailJob }) {
+export async function queueInvoiceMail(tx: Tx, m: Owner & { invoice: InvoiceRow; job: MailJob }) {
   const i = m.invoice;
   const money = (n: number) => formatMoney(n, i.currency);
-  const name = await shopName(tx, m.job.shopId);
+  const name = await getShopName({ shopId: m.job.shopId }, tx);
   const number = formatInvoiceNumber(i.number);
   const rows: [string, string][] = [["Work and parts", money(i.subtotalMinor)]];
   if (i.discountMinor) rows.push(["Discount", `−${money(i.discountMinor)}`]);
@@ -54,8 +51,8 @@ export async function queueInvoiceMail(tx: Knex.Transaction, m: Owner & { invoic
   await enqueueMail(tx, { shopId: m.job.shopId, kind: "invoice", to: m.to, ...(await renderMoneyMail(content)), dedupeKey: `invoice:${i.publicId}:issued` });
 }
 
-export async function queueDepositMail(tx: Knex.Transaction, m: Owner & { deposit: { publicId: string; amountMinor: number; currency: string; note: string | null }; job: MailJob }) {
-  const name = await shopName(tx, m.job.shopId);
+export async function queueDepositMail(tx: Tx, m: Owner & { deposit: { publicId: string; amountMinor: number; currency: string; note: string | null }; job: MailJob }) {
+  const name = await getShopName({ shopId: m.job.shopId }, tx);
   const amount = formatMoney(m.deposit.amountMinor, m.deposit.currency);
   const content: MoneyMailContent = {
     shopName: name,
@@ -76,7 +73,7 @@ const RECEIPT_HEADING: Record<PaymentKind, string> = { payment: "Payment receive
 
 /** A receipt for one payment, deposit or refund (dedupe key: the payment row). */
 export async function queueReceiptMail(
-  tx: Knex.Transaction,
+  tx: Tx,
   m: Owner & {
     paymentId: number;
     kind: PaymentKind;
@@ -89,7 +86,7 @@ export async function queueReceiptMail(
   },
 ) {
   const money = (n: number) => formatMoney(n, m.currency);
-  const name = await shopName(tx, m.job.shopId);
+  const name = await getShopName({ shopId: m.job.shopId }, tx);
   const i = m.invoice;
   const rows: [string, string][] = [["How", PAYMENT_METHOD_LABEL[m.method]]];
   if (m.reference) rows.push(["Reference", m.reference]);

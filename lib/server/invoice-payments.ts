@@ -1,24 +1,26 @@
 import "server-only";
 import { getRequestByPublicId } from "@/db/queries/approvals";
 import { getLiveInvoice, lockJob } from "@/db/queries/invoices";
-import { insertEntry } from "@/db/queries/journal";
-import { getDepositByPublicId, getMoneyJob, insertCheckout, insertDeposit, listJobPayments, listOpenCheckouts } from "@/db/queries/payments";
+import { insertEntry } from "@/db/queries/entries";
+import { getDepositByPublicId, getMoneyJob, insertCheckout, insertDeposit, listJobPayments, listOpenCheckouts, setDepositStatus } from "@/db/queries/payments";
+import { getShopCurrency, getShopName } from "@/db/queries/shops";
+import { transaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
-import { INVOICE_PUBLIC_ID_PATTERN, type PaymentEntryBody, formatInvoiceNumber } from "@/lib/invoices";
+import { type PaymentEntryBody, formatInvoiceNumber } from "@/lib/invoices";
 import { formatMoney, parseMoney } from "@/lib/money";
 import type { Actor } from "@/lib/permissions";
 import type { RecordDepositInput, RecordPaymentInput, RefundInput, RequestDepositInput } from "@/lib/schemas/invoices";
 import { formatJobNumber } from "@/lib/schemas/jobs";
+import type { JobAccess, Resolved } from "@/lib/server/access";
 import { appUrl } from "@/lib/server/config";
-import { db } from "@/lib/server/db";
 import { ownerInvoicePath, queueDepositMail } from "@/lib/server/invoice-mail";
-import { invoiceAccess, invoiceJobAccess } from "@/lib/server/invoices";
 import { recordMoney } from "@/lib/server/money-moved";
 import { paymentsError, stripe } from "@/lib/server/payments";
 
 // Taking money: counter payments and deposits the desk records, parts deposits it asks for, online
 // checkout for the owner, and refunds by the shop owner. Amounts are typed text read in the
-// invoice's currency; nothing is taken past what is owed.
+// invoice's currency; nothing is taken past what is owed. Who may do each is declared by the handler
+// or action ("jobMoney", "invoice", "deposit" in lib/server/access.ts).
 
 function amount(text: string, currency: string, field = "amount"): number {
   try {
@@ -32,10 +34,9 @@ function amount(text: string, currency: string, field = "amount"): number {
 }
 
 /** The desk records cash, a card at the counter or a cheque against an issued invoice. */
-export async function recordCounterPayment(actor: Actor, input: RecordPaymentInput) {
-  const { invoice, job } = await invoiceAccess(actor, input.invoice, "invoice:record-payment");
+export async function recordCounterPayment(actor: Actor, { invoice, job }: Resolved<"invoice">, input: RecordPaymentInput) {
   const minor = amount(input.amount, invoice.currency);
-  await db().transaction(async (tx) => {
+  await transaction(async (tx) => {
     await lockJob(tx, { shopId: job.shopId, jobId: job.id });
     const live = await getLiveInvoice({ shopId: job.shopId, jobId: job.id }, tx, true);
     if (!live || live.id !== invoice.id || live.status === "draft") throw new AppError("conflict", "Payments are taken against an issued invoice. Issue it first.");
@@ -50,17 +51,16 @@ export async function recordCounterPayment(actor: Actor, input: RecordPaymentInp
 }
 
 /** The desk asks for a parts deposit, on its own or with an approval request of the job. */
-export async function requestDeposit(actor: Actor, input: RequestDepositInput) {
-  const { job } = await invoiceJobAccess(actor, input.job, "invoice:create");
+export async function requestDeposit(actor: Actor, { job }: JobAccess, input: RequestDepositInput) {
   if (input.request) {
     const request = await getRequestByPublicId({ publicId: input.request });
     if (!request || request.jobId !== job.id) throw new AppError("invalid", "That approval request isn't on this job.", { request: ["Choose a request of this job."] });
   }
-  const shop = (await db()("shops").where({ id: job.shopId }).first("currency")) as { currency: string };
-  const minor = amount(input.amount, shop.currency);
-  return db().transaction(async (tx) => {
+  const currency = await getShopCurrency({ shopId: job.shopId });
+  const minor = amount(input.amount, currency);
+  return transaction(async (tx) => {
     const owner = (await lockJob(tx, { shopId: job.shopId, jobId: job.id }))!;
-    const deposit = await insertDeposit(tx, { shopId: job.shopId, jobId: job.id, amountMinor: minor, currency: shop.currency, note: input.note, requestPublicId: input.request, userId: actor.userId });
+    const deposit = await insertDeposit(tx, { shopId: job.shopId, jobId: job.id, amountMinor: minor, currency, note: input.note, requestPublicId: input.request, userId: actor.userId });
     const body: PaymentEntryBody = { event: "deposit_requested", invoice: null, number: null, method: null };
     await insertEntry(tx, { shopId: job.shopId, jobId: job.id, kind: "payment", authorId: actor.userId, visibility: "shared", body });
     if (owner.customerEmail) await queueDepositMail(tx, { to: owner.customerEmail, ownerName: owner.customerName, deposit, job: (await getMoneyJob(tx, job.id))! });
@@ -68,23 +68,14 @@ export async function requestDeposit(actor: Actor, input: RequestDepositInput) {
   });
 }
 
-async function depositAccess(actor: Actor, depositPublicId: string, action: "invoice:view" | "invoice:record-payment" | "invoice:pay") {
-  const deposit = INVOICE_PUBLIC_ID_PATTERN.test(depositPublicId) ? await getDepositByPublicId({ publicId: depositPublicId }) : null;
-  if (!deposit) throw new AppError("not_found", "No such deposit, or it isn't yours to see.");
-  const jobRow = (await db()("jobs").where({ id: deposit.jobId }).first("public_id")) as { public_id: string };
-  const { job } = await invoiceJobAccess(actor, jobRow.public_id, action);
-  return { deposit, job };
-}
-
 /** The desk records a deposit paid at the counter: the whole amount asked for. */
-export async function recordDeposit(actor: Actor, input: RecordDepositInput) {
-  const { deposit, job } = await depositAccess(actor, input.deposit, "invoice:record-payment");
-  await db().transaction(async (tx) => {
+export async function recordDeposit(actor: Actor, { deposit, job }: Resolved<"deposit">, input: RecordDepositInput) {
+  await transaction(async (tx) => {
     await lockJob(tx, { shopId: job.shopId, jobId: job.id });
     const fresh = (await getDepositByPublicId({ publicId: deposit.publicId }, tx, true))!;
     if (fresh.status !== "open") throw new AppError("conflict", fresh.status === "paid" ? "This deposit is already paid." : "This deposit request was cancelled.");
     await recordMoney(tx, { shopId: job.shopId, jobId: job.id, kind: "deposit", method: input.method, amountMinor: fresh.amountMinor, currency: fresh.currency, reference: input.reference, depositId: fresh.id, userId: actor.userId, authorId: actor.userId });
-    await tx("deposit_requests").where({ id: fresh.id }).update({ status: "paid", paid_at: tx.fn.now(3) });
+    await setDepositStatus(tx, { shopId: job.shopId, id: fresh.id, status: "paid" });
   });
   return { job };
 }
@@ -94,12 +85,12 @@ type Target = { kind: "invoice"; id: number; publicId: string; number: number } 
 /** Opens (or reuses) a hosted checkout for what is owed, and returns where to send the owner. */
 async function checkout(actor: Actor, job: { id: number; shopId: number; number: number; publicId: string }, target: Target, amountMinor: number, currency: string): Promise<{ url: string }> {
   const key = { shopId: job.shopId, jobId: job.id, invoiceId: target.kind === "invoice" ? target.id : null, depositId: target.kind === "deposit" ? target.id : null };
-  const open = await listOpenCheckouts(db(), key);
+  const open = await listOpenCheckouts(key);
   const hour = Date.now() - 3600_000;
   const reusable = open.find((c) => c.amountMinor === amountMinor && c.url && new Date(c.createdAt).getTime() > hour);
   if (reusable?.url) return { url: reusable.url };
 
-  const shop = (await db()("shops").where({ id: job.shopId }).first("name")) as { name: string };
+  const shopName = await getShopName({ shopId: job.shopId });
   const what = target.kind === "invoice" ? `Invoice ${formatInvoiceNumber(target.number)}` : "Parts deposit";
   const metadata = { job: job.publicId, [target.kind]: target.publicId, purpose: target.kind === "invoice" ? "balance" : "deposit" };
   const back = `${appUrl()}${ownerInvoicePath(job.publicId)}`;
@@ -108,7 +99,7 @@ async function checkout(actor: Actor, job: { id: number; shopId: number; number:
     session = await stripe().checkout.sessions.create(
       {
         mode: "payment",
-        line_items: [{ quantity: 1, price_data: { currency: currency.toLowerCase(), unit_amount: amountMinor, product_data: { name: `${what} · ${formatJobNumber(job.number)} · ${shop.name}`.slice(0, 250) } } }],
+        line_items: [{ quantity: 1, price_data: { currency: currency.toLowerCase(), unit_amount: amountMinor, product_data: { name: `${what} · ${formatJobNumber(job.number)} · ${shopName}`.slice(0, 250) } } }],
         success_url: `${back}?paid={CHECKOUT_SESSION_ID}`,
         cancel_url: `${back}?cancelled=1`,
         client_reference_id: target.publicId,
@@ -124,7 +115,7 @@ async function checkout(actor: Actor, job: { id: number; shopId: number; number:
   }
   if (!session.url) throw new AppError("unavailable", "The payments service gave no payment page. Try again in a moment.");
   // The same session comes back for a repeated tap (idempotency key): record it once.
-  await insertCheckout(db(), { ...key, sessionId: session.id, url: session.url, amountMinor, currency, userId: actor.userId }).catch((error: unknown) => {
+  await insertCheckout({ ...key, sessionId: session.id, url: session.url, amountMinor, currency, userId: actor.userId }).catch((error: unknown) => {
     if ((error as { code?: string }).code !== "ER_DUP_ENTRY") throw error;
   });
   // Older pages for the same thing would let it be paid twice: close them (best effort; their expiry webhooks mark them).
@@ -132,15 +123,13 @@ async function checkout(actor: Actor, job: { id: number; shopId: number; number:
   return { url: session.url };
 }
 
-export async function startInvoiceCheckout(actor: Actor, invoicePublicId: string) {
-  const { invoice, job } = await invoiceAccess(actor, invoicePublicId, "invoice:pay");
+export async function startInvoiceCheckout(actor: Actor, { invoice, job }: Resolved<"invoice">) {
   if (invoice.status === "void") throw new AppError("conflict", "This invoice was cancelled by the shop.");
   if (invoice.balanceMinor <= 0) throw new AppError("conflict", "Nothing is left to pay on this invoice.");
   return checkout(actor, job, { kind: "invoice", id: invoice.id, publicId: invoice.publicId, number: invoice.number }, invoice.balanceMinor, invoice.currency);
 }
 
-export async function startDepositCheckout(actor: Actor, depositPublicId: string) {
-  const { deposit, job } = await depositAccess(actor, depositPublicId, "invoice:pay");
+export async function startDepositCheckout(actor: Actor, { deposit, job }: Resolved<"deposit">) {
   if (deposit.status !== "open") throw new AppError("conflict", deposit.status === "paid" ? "This deposit is already paid." : "The shop cancelled this deposit request.");
   return checkout(actor, job, { kind: "deposit", id: deposit.id, publicId: deposit.publicId }, deposit.amountMinor, deposit.currency);
 }
@@ -150,16 +139,14 @@ export async function startDepositCheckout(actor: Actor, depositPublicId: string
  * refund is recorded from its answer; the webhook that follows finds it recorded), counter ones
  * are recorded as handed back the same way. Never more than what is left of that payment.
  */
-export async function refundPayment(actor: Actor, input: RefundInput) {
-  const row = (await db()("payments").where({ id: input.payment }).first("job_id")) as { job_id: number } | undefined;
-  const jobRow = row && ((await db()("jobs").where({ id: row.job_id }).first("public_id")) as { public_id: string });
-  if (!jobRow) throw new AppError("not_found", "No such payment.");
-  const { job } = await invoiceJobAccess(actor, jobRow.public_id, "invoice:refund");
-  await db().transaction(async (tx) => {
+export async function refundPayment(actor: Actor, { job }: JobAccess, input: RefundInput) {
+  await transaction(async (tx) => {
     await lockJob(tx, { shopId: job.shopId, jobId: job.id });
     const payments = await listJobPayments({ shopId: job.shopId, jobId: job.id }, tx);
     const original = payments.find((p) => p.id === input.payment);
-    if (!original || original.kind === "refund") throw new AppError("invalid", "Only a payment or a deposit can be refunded.");
+    // The payment must be this job's: the form names both, and the job is what access was checked on.
+    if (!original) throw new AppError("not_found", "No such payment on this job.");
+    if (original.kind === "refund") throw new AppError("invalid", "Only a payment or a deposit can be refunded.");
     const refunded = payments.filter((p) => p.refundOfPaymentId === original.id).reduce((sum, p) => sum + p.amountMinor, 0);
     const left = original.amountMinor - refunded;
     const minor = amount(input.amount, original.currency);

@@ -1,11 +1,10 @@
 import "server-only";
-import { type InvoiceRow, listInvoiceLines, listJobInvoices } from "@/db/queries/invoices";
+import { type InvoiceRow, getInvoiceHeader, listInvoiceLines, listJobInvoices } from "@/db/queries/invoices";
 import { type DepositRow, type PaymentRow, listJobDeposits, listJobPayments } from "@/db/queries/payments";
 import { type Balance, type PricedLine, balanceOf, formatInvoiceNumber } from "@/lib/invoices";
 import { describeMachine } from "@/lib/machine";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { type AuthorisationEntry, authorisedWork, lineKey } from "@/lib/server/authorised-work";
-import { db } from "@/lib/server/db";
 
 // One read of everything an invoice page, the PDF and the JSON route show: the shop's details, the
 // job and machine, the live invoice with its priced lines, payments and deposits, and the
@@ -31,13 +30,8 @@ export type InvoiceView = {
 };
 
 export async function invoiceView(jobId: number, audience: "shop" | "owner"): Promise<InvoiceView> {
-  const j = (await db()("jobs as j")
-    .join("shops as s", "s.id", "j.shop_id")
-    .join("customers as c", "c.id", "j.customer_id")
-    .join("machines as m", "m.id", "j.machine_id")
-    .where("j.id", jobId)
-    .first("j.id", "j.shop_id", "j.public_id", "j.number", "s.name as shop_name", "s.email as shop_email", "s.phone as shop_phone", "s.timezone", "s.currency", "c.name as customer_name", "m.year", "m.make", "m.model", "m.serial")) as Record<string, unknown>;
-  const key = { shopId: Number(j.shop_id), jobId };
+  const h = (await getInvoiceHeader({ jobId }))!;
+  const key = { shopId: h.job.shopId, jobId };
   const [invoices, payments, deposits, work] = await Promise.all([listJobInvoices(key), listJobPayments(key), listJobDeposits(key), authorisedWork(key)]);
   // The owner sees an invoice once it is issued; a draft is the desk's working copy.
   const live = invoices.find((i) => i.status !== "void" && (audience === "shop" || i.status !== "draft")) ?? null;
@@ -61,16 +55,16 @@ export async function invoiceView(jobId: number, audience: "shop" | "owner"): Pr
   }
   const onInvoice = new Set(rows.map(lineKey));
   return {
-    shop: { name: String(j.shop_name), email: (j.shop_email as string | null) ?? null, phone: (j.shop_phone as string | null) ?? null, timezone: String(j.timezone) },
+    shop: { name: h.shop.name, email: h.shop.email, phone: h.shop.phone, timezone: h.shop.timezone },
     job: {
       id: jobId,
       shopId: key.shopId,
-      publicId: String(j.public_id),
-      number: Number(j.number),
-      label: formatJobNumber(Number(j.number)),
-      machine: describeMachine({ year: j.year == null ? null : Number(j.year), make: String(j.make), model: String(j.model) }),
-      serial: (j.serial as string | null) ?? null,
-      customerName: String(j.customer_name),
+      publicId: h.job.publicId,
+      number: h.job.number,
+      label: formatJobNumber(h.job.number),
+      machine: describeMachine(h.machine),
+      serial: h.machine.serial,
+      customerName: h.job.customerName,
     },
     invoice,
     voided: invoices.filter((i) => i.status === "void" && (audience === "shop" || i.issuedAt)).map((i) => ({ label: formatInvoiceNumber(i.number), voidedAt: i.voidedAt, note: i.note })),
@@ -80,6 +74,6 @@ export async function invoiceView(jobId: number, audience: "shop" | "owner"): Pr
     record: work.record,
     openRequests: work.openRequests,
     missingAuthorised: live?.status === "draft" ? work.lines.filter((l) => !onInvoice.has(lineKey(l))).length : 0,
-    currency: live?.currency ?? String(j.currency),
+    currency: live?.currency ?? h.shop.currency,
   };
 }

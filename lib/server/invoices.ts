@@ -1,5 +1,4 @@
 import "server-only";
-import type { Knex } from "knex";
 import { getMoneySettings } from "@/db/queries/findings";
 import {
   type InvoiceRow,
@@ -11,57 +10,36 @@ import {
   insertInvoice,
   insertInvoiceLines,
   listInvoiceLines,
+  lockInvoice,
   lockJob,
   newInvoicePublicId,
   updateInvoice,
 } from "@/db/queries/invoices";
-import { insertEntry } from "@/db/queries/journal";
+import { insertEntry } from "@/db/queries/entries";
 import { listJobPayments } from "@/db/queries/payments";
+import { getShopCurrency } from "@/db/queries/shops";
 import { toMoneyLine } from "@/lib/approvals";
 import { AppError } from "@/lib/errors";
-import { INVOICE_PUBLIC_ID_PATTERN, type InvoiceEntryBody, balanceOf, formatInvoiceNumber, priceInvoice, statusAfter } from "@/lib/invoices";
+import { type InvoiceEntryBody, balanceOf, formatInvoiceNumber, priceInvoice, statusAfter } from "@/lib/invoices";
 import { type Discount, parseMoney, parsePercent } from "@/lib/money";
-import { type Action, type Actor, can } from "@/lib/permissions";
+import type { Actor } from "@/lib/permissions";
 import type { AddLineInput, DraftDetailsInput } from "@/lib/schemas/invoices";
+import type { JobAccess, Resolved } from "@/lib/server/access";
 import { authorisedWork, lineKey } from "@/lib/server/authorised-work";
-import { db } from "@/lib/server/db";
+import { type Tx, transaction } from "@/db/transaction";
 import { readLines } from "@/lib/server/findings";
 import { queueInvoiceMail } from "@/lib/server/invoice-mail";
-import { journalAccess } from "@/lib/server/journal";
 
 // Invoices made from authorised work: create (numbered under the shop row's lock), edit the draft,
 // issue, cancel. Every change runs in one transaction with the job row and then the invoice locked,
 // and re-prices the invoice and its balance from the stored lines and the job's payments.
-
-const NO_INVOICE = "No such invoice, or it isn't yours to see.";
-
-/** The job and what this person may do with its money; followers and strangers get a 404. */
-export async function invoiceJobAccess(actor: Actor, jobPublicId: string, action: Action = "invoice:view") {
-  const access = await journalAccess(actor, jobPublicId);
-  if (!can(actor, "invoice:view", access.resource)) {
-    // Staff without money roles are told no; anyone else isn't told the invoice exists.
-    if (access.audience === "shop") throw new AppError("forbidden", "Invoices are for the service desk and the shop owner.");
-    throw new AppError("not_found", NO_INVOICE);
-  }
-  if (!can(actor, action, access.resource)) throw new AppError("forbidden", "You don't have access to this.");
-  return access;
-}
-
-export async function invoiceAccess(actor: Actor, invoicePublicId: string, action: Action = "invoice:view") {
-  const invoice = INVOICE_PUBLIC_ID_PATTERN.test(invoicePublicId) ? await getInvoiceByPublicId({ publicId: invoicePublicId }) : null;
-  if (!invoice) throw new AppError("not_found", NO_INVOICE);
-  const job = (await db()("jobs").where({ id: invoice.jobId }).first("public_id")) as { public_id: string };
-  const access = await invoiceJobAccess(actor, job.public_id, action);
-  // A draft is the desk's working copy: the owner sees an invoice once it is issued.
-  if (invoice.status === "draft" && access.audience !== "shop") throw new AppError("not_found", NO_INVOICE);
-  return { invoice, ...access };
-}
+// Who may do each is declared by the handler or action ("jobMoney" / "invoice" in lib/server/access.ts).
 
 /**
  * Re-prices the invoice from its lines and the job's payments, and stores the result. Call it
  * inside the transaction that changed something, with the job row locked.
  */
-export async function recompute(tx: Knex.Transaction, invoice: InvoiceRow) {
+export async function recompute(tx: Tx, invoice: InvoiceRow) {
   const lines = await listInvoiceLines({ shopId: invoice.shopId, invoiceId: invoice.id }, tx);
   const work = await authorisedWork({ shopId: invoice.shopId, jobId: invoice.jobId }, tx);
   const { pricing, tolerance } = invoice.snapshot;
@@ -94,59 +72,47 @@ export async function recompute(tx: Knex.Transaction, invoice: InvoiceRow) {
   return { priced, balance, status, becamePaid: status === "paid" && invoice.status !== "paid" };
 }
 
-function isRetryable(error: unknown): boolean {
-  const code = (error as { code?: string } | null)?.code;
-  return code === "ER_LOCK_DEADLOCK" || code === "ER_LOCK_WAIT_TIMEOUT";
-}
-
 /**
  * The desk turns the job's authorised work into a draft invoice. The shop row is locked first (for
- * the number), then the job row: the same order everywhere, so two desks can't deadlock; a
- * rolled-back attempt gives its number back, so numbers have no gaps.
+ * the number), then the job row: the same order everywhere, so two desks can't deadlock (a lost
+ * lock conflict is retried by `transaction`); a rolled-back attempt gives its number back, so
+ * numbers have no gaps.
  */
-export async function createInvoice(actor: Actor, jobPublicId: string) {
-  const { job } = await invoiceJobAccess(actor, jobPublicId, "invoice:create");
-  for (let attempt = 1; ; attempt++) {
-    try {
-      return await db().transaction(async (tx) => {
-        const number = await allocateInvoiceNumber(tx, job.shopId);
-        await lockJob(tx, { shopId: job.shopId, jobId: job.id });
-        const live = await getLiveInvoice({ shopId: job.shopId, jobId: job.id }, tx);
-        if (live) throw new AppError("conflict", `This job already has invoice ${formatInvoiceNumber(live.number)}. Open it, or cancel it to start again.`);
-        const work = await authorisedWork({ shopId: job.shopId, jobId: job.id }, tx);
-        if (!work.lines.length) throw new AppError("invalid", "Nothing has been authorised on this job yet: an invoice is made from lines the owner approved.");
-        const settings = await getMoneySettings({ shopId: job.shopId }, tx);
-        const shop = (await tx("shops").where({ id: job.shopId }).first("currency")) as { currency: string };
-        const publicId = newInvoicePublicId();
-        const blank: InvoiceTotalsSnapshot = {
-          format: 1,
-          pricing: { tax: settings.tax, supplies: settings.supplies },
-          tolerance: settings.tolerance,
-          authorisedPreTaxMinor: 0,
-          toleranceMinor: 0,
-          ceilingMinor: 0,
-          flaggedCount: 0,
-          preTaxTotalMinor: 0,
-          taxableBaseMinor: 0,
-          lines: [],
-        };
-        const returnedPartsNote = work.wantsPartsBack ? "You asked for the replaced parts back: they are packed with your machine." : null;
-        const id = await insertInvoice(tx, { shopId: job.shopId, jobId: job.id, publicId, number, currency: shop.currency, snapshot: blank, returnedPartsNote, userId: actor.userId });
-        await insertInvoiceLines(tx, { shopId: job.shopId, invoiceId: id, lines: work.lines, from: 1 });
-        await recompute(tx, (await getInvoiceByPublicId({ publicId }, tx))!);
-        return { publicId, number, job };
-      });
-    } catch (error) {
-      if (attempt < 3 && isRetryable(error)) continue;
-      throw error;
-    }
-  }
+export async function createInvoice(actor: Actor, { job }: JobAccess) {
+  return transaction(async (tx) => {
+    const number = await allocateInvoiceNumber(tx, job.shopId);
+    await lockJob(tx, { shopId: job.shopId, jobId: job.id });
+    const live = await getLiveInvoice({ shopId: job.shopId, jobId: job.id }, tx);
+    if (live) throw new AppError("conflict", `This job already has invoice ${formatInvoiceNumber(live.number)}. Open it, or cancel it to start again.`);
+    const work = await authorisedWork({ shopId: job.shopId, jobId: job.id }, tx);
+    if (!work.lines.length) throw new AppError("invalid", "Nothing has been authorised on this job yet: an invoice is made from lines the owner approved.");
+    const settings = await getMoneySettings({ shopId: job.shopId }, tx);
+    const currency = await getShopCurrency({ shopId: job.shopId }, tx);
+    const publicId = newInvoicePublicId();
+    const blank: InvoiceTotalsSnapshot = {
+      format: 1,
+      pricing: { tax: settings.tax, supplies: settings.supplies },
+      tolerance: settings.tolerance,
+      authorisedPreTaxMinor: 0,
+      toleranceMinor: 0,
+      ceilingMinor: 0,
+      flaggedCount: 0,
+      preTaxTotalMinor: 0,
+      taxableBaseMinor: 0,
+      lines: [],
+    };
+    const returnedPartsNote = work.wantsPartsBack ? "You asked for the replaced parts back: they are packed with your machine." : null;
+    const id = await insertInvoice(tx, { shopId: job.shopId, jobId: job.id, publicId, number, currency, snapshot: blank, returnedPartsNote, userId: actor.userId });
+    await insertInvoiceLines(tx, { shopId: job.shopId, invoiceId: id, lines: work.lines, from: 1 });
+    await recompute(tx, (await getInvoiceByPublicId({ publicId }, tx))!);
+    return { publicId, number, job };
+  });
 }
 
 /** Locks the job row, then reads the invoice fresh; refuses a stale version or the wrong status. */
-async function lockedInvoice(tx: Knex.Transaction, invoice: InvoiceRow, version: number | null, allowed: InvoiceRow["status"][]): Promise<InvoiceRow> {
+async function lockedInvoice(tx: Tx, invoice: InvoiceRow, version: number | null, allowed: InvoiceRow["status"][]): Promise<InvoiceRow> {
   await lockJob(tx, { shopId: invoice.shopId, jobId: invoice.jobId });
-  await tx("invoices").where({ id: invoice.id }).forUpdate().first("id");
+  await lockInvoice(tx, { id: invoice.id });
   const fresh = (await getInvoiceByPublicId({ publicId: invoice.publicId }, tx))!;
   if (version !== null && fresh.version !== version) throw new AppError("conflict", "Someone changed this invoice since you opened it. Check it again, then repeat your change.");
   if (!allowed.includes(fresh.status)) {
@@ -155,9 +121,8 @@ async function lockedInvoice(tx: Knex.Transaction, invoice: InvoiceRow, version:
   return fresh;
 }
 
-async function draftChange(actor: Actor, invoicePublicId: string, version: number, change: (tx: Knex.Transaction, invoice: InvoiceRow) => Promise<InvoiceRow | void>) {
-  const { invoice, job } = await invoiceAccess(actor, invoicePublicId, "invoice:create");
-  await db().transaction(async (tx) => {
+async function draftChange({ invoice, job }: Resolved<"invoice">, version: number, change: (tx: Tx, invoice: InvoiceRow) => Promise<InvoiceRow | void>) {
+  await transaction(async (tx) => {
     const fresh = await lockedInvoice(tx, invoice, version, ["draft"]);
     // recompute stores the new totals and bumps the version.
     await recompute(tx, (await change(tx, fresh)) ?? fresh);
@@ -166,8 +131,8 @@ async function draftChange(actor: Actor, invoicePublicId: string, version: numbe
 }
 
 /** Brings in authorised lines not yet on the draft (answers that came after it was made). */
-export async function syncAuthorised(actor: Actor, invoicePublicId: string, version: number) {
-  return draftChange(actor, invoicePublicId, version, async (tx, invoice) => {
+export async function syncAuthorised(found: Resolved<"invoice">, version: number) {
+  return draftChange(found, version, async (tx, invoice) => {
     const lines = await listInvoiceLines({ shopId: invoice.shopId, invoiceId: invoice.id }, tx);
     const have = new Set(lines.map(lineKey));
     const work = await authorisedWork({ shopId: invoice.shopId, jobId: invoice.jobId }, tx);
@@ -177,8 +142,8 @@ export async function syncAuthorised(actor: Actor, invoicePublicId: string, vers
   });
 }
 
-export async function addLine(actor: Actor, invoicePublicId: string, input: AddLineInput) {
-  return draftChange(actor, invoicePublicId, input.version, async (tx, invoice) => {
+export async function addLine(found: Resolved<"invoice">, input: AddLineInput) {
+  return draftChange(found, input.version, async (tx, invoice) => {
     const settings = await getMoneySettings({ shopId: invoice.shopId }, tx);
     let draft;
     try {
@@ -197,8 +162,8 @@ export async function addLine(actor: Actor, invoicePublicId: string, input: AddL
   });
 }
 
-export async function removeLine(actor: Actor, invoicePublicId: string, input: { version: number; line: number }) {
-  return draftChange(actor, invoicePublicId, input.version, async (tx, invoice) => {
+export async function removeLine(found: Resolved<"invoice">, input: { version: number; line: number }) {
+  return draftChange(found, input.version, async (tx, invoice) => {
     if (!(await deleteInvoiceLine(tx, { shopId: invoice.shopId, invoiceId: invoice.id, lineId: input.line }))) throw new AppError("not_found", "That line isn't on this invoice any more.");
   });
 }
@@ -215,8 +180,8 @@ export function readDiscount(input: Pick<DraftDetailsInput, "discountKind" | "di
   }
 }
 
-export async function updateDraft(actor: Actor, invoicePublicId: string, input: DraftDetailsInput) {
-  return draftChange(actor, invoicePublicId, input.version, async (tx, invoice) => {
+export async function updateDraft(found: Resolved<"invoice">, input: DraftDetailsInput) {
+  return draftChange(found, input.version, async (tx, invoice) => {
     const discount = readDiscount(input, invoice.currency);
     await updateInvoice(tx, { shopId: invoice.shopId, id: invoice.id, change: { discount, returnedPartsNote: input.returnedPartsNote, note: input.note } });
     return { ...invoice, discount, returnedPartsNote: input.returnedPartsNote, note: input.note };
@@ -224,9 +189,8 @@ export async function updateDraft(actor: Actor, invoicePublicId: string, input: 
 }
 
 /** Sends the invoice: no flagged lines, something to charge; a shared timeline entry and the owner's e-mail go with it. */
-export async function issueInvoice(actor: Actor, invoicePublicId: string, version: number) {
-  const { invoice, job } = await invoiceAccess(actor, invoicePublicId, "invoice:create");
-  await db().transaction(async (tx) => {
+export async function issueInvoice(actor: Actor, { invoice, job }: Resolved<"invoice">, version: number) {
+  await transaction(async (tx) => {
     const fresh = await lockedInvoice(tx, invoice, version, ["draft"]);
     const locked = (await lockJob(tx, { shopId: fresh.shopId, jobId: fresh.jobId }))!;
     const { priced } = await recompute(tx, fresh);
@@ -246,9 +210,8 @@ export async function issueInvoice(actor: Actor, invoicePublicId: string, versio
 }
 
 /** Cancels an invoice; its number stays used, and payments stay on the job for the next invoice. */
-export async function voidInvoice(actor: Actor, invoicePublicId: string, input: { version: number; reason: string }) {
-  const { invoice, job } = await invoiceAccess(actor, invoicePublicId, "invoice:create");
-  await db().transaction(async (tx) => {
+export async function voidInvoice(actor: Actor, { invoice, job }: Resolved<"invoice">, input: { version: number; reason: string }) {
+  await transaction(async (tx) => {
     const fresh = await lockedInvoice(tx, invoice, input.version, ["draft", "issued", "paid"]);
     await updateInvoice(tx, { shopId: fresh.shopId, id: fresh.id, change: { voided: true, note: `Cancelled: ${input.reason}`.slice(0, 1000) } });
     if (fresh.status !== "draft") {

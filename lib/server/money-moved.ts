@@ -1,7 +1,7 @@
 import "server-only";
-import type { Knex } from "knex";
+import type { Tx } from "@/db/transaction";
 import { getLiveInvoice, lockJob } from "@/db/queries/invoices";
-import { insertEntry } from "@/db/queries/journal";
+import { insertEntry } from "@/db/queries/entries";
 import { getMoneyJob, insertPayment, type NewPayment } from "@/db/queries/payments";
 import { type PaymentEntryBody, formatInvoiceNumber } from "@/lib/invoices";
 import { queueReceiptMail } from "@/lib/server/invoice-mail";
@@ -14,7 +14,7 @@ import { recompute } from "@/lib/server/invoices";
 
 export type RecordedMoney = { paymentId: number; balanceMinor: number | null } | null;
 
-export async function recordMoney(tx: Knex.Transaction, p: NewPayment & { authorId: number | null }): Promise<RecordedMoney> {
+export async function recordMoney(tx: Tx, p: NewPayment & { authorId: number | null }): Promise<RecordedMoney> {
   const owner = await lockJob(tx, { shopId: p.shopId, jobId: p.jobId });
   if (!owner) throw new Error(`job ${p.jobId} not found`);
   const live = await getLiveInvoice({ shopId: p.shopId, jobId: p.jobId }, tx, true);

@@ -1,5 +1,4 @@
 import "server-only";
-import type { Knex } from "knex";
 import {
   type MailJob,
   type Recipient,
@@ -7,6 +6,7 @@ import {
   dueAlertIds,
   dueDailyJobs,
   dueProgressJobs,
+  getInviterName,
   lockAlert,
   lockPendingUpdates,
   mailJob,
@@ -19,7 +19,7 @@ import {
 } from "@/db/queries/notifications";
 import { enqueueMail } from "@/db/queries/outbox";
 import { lastDailyCutoff } from "@/lib/following";
-import { db } from "@/lib/server/db";
+import { type Tx, transaction } from "@/db/transaction";
 import { type Composed, composeAlert, composeProgress, entryViews } from "@/lib/server/emails/compose";
 import { renderMail } from "@/lib/server/emails/render";
 
@@ -34,19 +34,14 @@ export function dailyDigestHour(): number {
   return Number.isInteger(n) && n >= 0 && n <= 23 ? n : 18;
 }
 
-async function queue(tx: Knex.Transaction, job: MailJob, r: Recipient, composed: Composed, kind: string, dedupeKey: string) {
+async function queue(tx: Tx, job: MailJob, r: Recipient, composed: Composed, kind: string, dedupeKey: string) {
   const { html, text } = await renderMail(composed.element);
   await enqueueMail(tx, { shopId: job.shopId, kind, to: r.email, subject: composed.subject, html, text, headers: composed.headers, dedupeKey });
 }
 
-async function inviterName(tx: Knex.Transaction, subscriberId: number): Promise<string | null> {
-  const row = await tx("job_subscribers as s").join("users as u", "u.id", "s.invited_by_user_id").where("s.id", subscriberId).first("u.name");
-  return row ? String(row.name) : null;
-}
-
 /** One alert: to its one subscriber (invitations) or to everyone on the job who hasn't stopped e-mail. */
 async function sendAlert(alertId: number): Promise<number> {
-  return db().transaction(async (tx) => {
+  return transaction(async (tx) => {
     const alert = await lockAlert(tx, alertId);
     if (!alert) return 0;
     const job = await mailJob(tx, alert.jobId);
@@ -54,7 +49,7 @@ async function sendAlert(alertId: number): Promise<number> {
     const recipients = alert.payload?.followersOnly === true ? everyone.filter((r) => r.role === "follower") : everyone;
     let queued = 0;
     for (const r of recipients) {
-      const extra = alert.kind === "invitation" ? { inviterName: await inviterName(tx, r.id) } : {};
+      const extra = alert.kind === "invitation" ? { inviterName: await getInviterName({ subscriberId: r.id }, tx) } : {};
       const composed = composeAlert(job!, r, alert.kind, alert.payload, extra);
       if (!composed) continue;
       await queue(tx, job!, r, composed, alert.kind.replace("_", "-"), `alert:${alert.id}:${r.id}`);
@@ -68,7 +63,7 @@ async function sendAlert(alertId: number): Promise<number> {
 /** One job's pending updates for one kind of reader, as one e-mail per subscriber. */
 async function sendDigest(jobId: number, digest: "every" | "daily", now: Date, before?: Date): Promise<number> {
   const column: UpdateColumn = digest === "every" ? "every_sent_at" : "daily_sent_at";
-  return db().transaction(async (tx) => {
+  return transaction(async (tx) => {
     const rows = await lockPendingUpdates(tx, { jobId, column, before });
     if (!rows.length) return 0;
     const job = await mailJob(tx, jobId);

@@ -15,6 +15,9 @@ export type OutboxSettings = {
   maxAttempts: number;
   backoffBaseMs: number;
   backoffMaxMs: number;
+  /** Priority mail (sign-in links) is retried sooner: someone is waiting for it. */
+  priorityBackoffBaseMs: number;
+  priorityBackoffMaxMs: number;
 };
 
 const envNumber = (key: string, fallback: number, min = 0) => {
@@ -29,6 +32,8 @@ export function outboxSettings(): OutboxSettings {
     maxAttempts: envNumber("OUTBOX_MAX_ATTEMPTS", 8, 1),
     backoffBaseMs: envNumber("OUTBOX_BACKOFF_BASE_MS", 30_000),
     backoffMaxMs: envNumber("OUTBOX_BACKOFF_MAX_MS", 3_600_000),
+    priorityBackoffBaseMs: envNumber("OUTBOX_PRIORITY_BACKOFF_BASE_MS", 1_000),
+    priorityBackoffMaxMs: envNumber("OUTBOX_PRIORITY_BACKOFF_MAX_MS", 15_000),
   };
 }
 
@@ -76,14 +81,24 @@ function isRetryable(o: Extract<SendOutcome, { ok: false }>): boolean {
 
 export type OutboxRun = { claimed: number; sent: number; retrying: number; dead: number; released: number };
 
-/** Claims one batch and sends it, one mail at a time (the hosted API allows a few requests a second). */
-export async function runOutboxOnce(overrides: Partial<OutboxSettings> = {}): Promise<OutboxRun> {
+/**
+ * Claims one batch and sends it, one mail at a time (the hosted API allows a few requests a second).
+ * `lane: "priority"` claims only priority mail (the worker's fast lane).
+ */
+export async function runOutboxOnce(overrides: Partial<OutboxSettings> = {}, lane: "all" | "priority" = "all"): Promise<OutboxRun> {
   const s = { ...outboxSettings(), ...overrides };
-  const batch = await claimBatch({ limit: s.batchSize, leaseMs: s.leaseMs });
+  const batch = await claimBatch({ limit: s.batchSize, leaseMs: s.leaseMs, priorityOnly: lane === "priority" });
   const run: OutboxRun = { claimed: batch.length, sent: 0, retrying: 0, dead: 0, released: 0 };
   for (let i = 0; i < batch.length; i++) {
     const mail = batch[i]!;
-    if (mail.attempts > s.maxAttempts) {
+    if (mail.sendBefore && mail.sendBefore.getTime() <= Date.now()) {
+      // A sign-in link past its end: sending it now would only confuse.
+      await markFailed(mail, { error: "no longer useful: its send-before time passed", retryInMs: null });
+      run.dead++;
+      continue;
+    }
+    // Mail with a send-before time is retried until then; the rest a fixed number of times.
+    if (!mail.sendBefore && mail.attempts > s.maxAttempts) {
       // Claimed again and again with no outcome recorded: whatever stops its worker, stop here.
       await markFailed(mail, { error: `no outcome recorded after ${mail.attempts - 1} claims`, retryInMs: null });
       run.dead++;
@@ -96,8 +111,9 @@ export async function runOutboxOnce(overrides: Partial<OutboxSettings> = {}): Pr
       continue;
     }
     const error = `${outcome.status ?? "no status"} ${outcome.name}: ${outcome.message}`;
-    const retry = isRetryable(outcome) && mail.attempts < s.maxAttempts;
-    const wait = Math.max(backoffMs(mail.attempts, s), outcome.retryAfterMs ?? 0);
+    const backoff = mail.priority > 0 ? { backoffBaseMs: s.priorityBackoffBaseMs, backoffMaxMs: s.priorityBackoffMaxMs } : s;
+    const wait = Math.max(backoffMs(mail.attempts, backoff), outcome.retryAfterMs ?? 0);
+    const retry = isRetryable(outcome) && (mail.sendBefore ? Date.now() + wait < mail.sendBefore.getTime() : mail.attempts < s.maxAttempts);
     await markFailed(mail, { error, retryInMs: retry ? wait : null });
     if (retry) run.retrying++;
     else run.dead++;
@@ -116,36 +132,54 @@ export type OutboxWorker = { stop(): Promise<void> };
 
 /**
  * Every `intervalMs`: turn due notifications into mail (notify-sweep.ts), then send until the
- * outbox has nothing due. Errors are logged and the loop goes on; stop() waits for the round.
+ * outbox has nothing due. Beside it, a fast lane every `priorityIntervalMs` (OUTBOX_PRIORITY_POLL_MS,
+ * default 500 ms) sends priority mail only, so a sign-in link never waits for a slow poll or
+ * behind a long batch of digests. Errors are logged and the loops go on; stop() waits for both.
  */
-export function startOutboxWorker({ intervalMs }: { intervalMs: number }): OutboxWorker {
+export function startOutboxWorker({
+  intervalMs,
+  priorityIntervalMs = envNumber("OUTBOX_PRIORITY_POLL_MS", Math.min(500, intervalMs), 50),
+}: {
+  intervalMs: number;
+  priorityIntervalMs?: number;
+}): OutboxWorker {
   let stopped = false;
-  let wake: (() => void) | null = null;
-  const loop = (async () => {
+  const wakers = new Set<() => void>();
+  const drain = async (lane: "all" | "priority") => {
+    const { batchSize } = outboxSettings();
+    for (let run = await runOutboxOnce({}, lane); run.claimed === batchSize && !stopped; run = await runOutboxOnce({}, lane));
+  };
+  const repeat = async (everyMs: number, label: string, round: () => Promise<void>) => {
     while (!stopped) {
       try {
-        await sweepNotifications();
-        const { batchSize } = outboxSettings();
-        for (let run = await runOutboxOnce(); run.claimed === batchSize && !stopped; run = await runOutboxOnce());
+        await round();
       } catch (error) {
-        console.error("outbox: round failed", error);
+        console.error(`outbox: ${label} round failed`, error);
       }
       if (stopped) break;
       await new Promise<void>((resolve) => {
-        const timer = setTimeout(resolve, intervalMs);
-        wake = () => {
+        const wake = () => {
           clearTimeout(timer);
+          wakers.delete(wake);
           resolve();
         };
+        const timer = setTimeout(wake, everyMs);
+        wakers.add(wake);
       });
-      wake = null;
     }
-  })();
+  };
+  const loops = [
+    repeat(intervalMs, "mail", async () => {
+      await sweepNotifications();
+      await drain("all");
+    }),
+    repeat(priorityIntervalMs, "priority mail", () => drain("priority")),
+  ];
   return {
     async stop() {
       stopped = true;
-      (wake as (() => void) | null)?.();
-      await loop;
+      for (const wake of [...wakers]) wake();
+      await Promise.all(loops);
     },
   };
 }

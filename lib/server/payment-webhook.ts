@@ -1,13 +1,11 @@
 import "server-only";
-import type { Knex } from "knex";
 import type Stripe from "stripe";
 import { lockJob } from "@/db/queries/invoices";
 import { closeCheckout, getCheckoutBySessionId, getPaymentByProviderId, listJobPayments, recordWebhookEvent, setDepositStatus } from "@/db/queries/payments";
-import type { Actor } from "@/lib/permissions";
-import { db } from "@/lib/server/db";
-import { invoiceJobAccess } from "@/lib/server/invoices";
+import { type Tx, transaction } from "@/db/transaction";
 import { recordMoney } from "@/lib/server/money-moved";
 import { stripe, verifyWebhook } from "@/lib/server/payments";
+import { PAYMENT_EVENT_OBJECTS, firstIssue, paymentEventSchema } from "@/lib/schemas/webhooks";
 
 // What the payments service tells us, applied exactly once: the event id is recorded in the same
 // transaction as its effect (a redelivery finds it and does nothing), and the provider's payment and
@@ -16,12 +14,12 @@ import { stripe, verifyWebhook } from "@/lib/server/payments";
 const idOf = (v: string | { id: string } | null | undefined) => (typeof v === "string" ? v : (v?.id ?? null));
 
 /** A completed, paid session: the payment, the deposit or invoice it settles, entry and receipt. */
-export async function applyCheckoutCompleted(tx: Knex.Transaction, session: Stripe.Checkout.Session): Promise<boolean> {
+export async function applyCheckoutCompleted(tx: Tx, session: Stripe.Checkout.Session): Promise<boolean> {
   if (session.payment_status !== "paid") return false;
-  const found = await getCheckoutBySessionId(tx, session.id);
+  const found = await getCheckoutBySessionId({ sessionId: session.id }, tx);
   if (!found) return false; // not one of ours (another integration on the same account)
   await lockJob(tx, { shopId: found.shopId, jobId: found.jobId });
-  const checkout = (await getCheckoutBySessionId(tx, session.id, true))!;
+  const checkout = (await getCheckoutBySessionId({ sessionId: session.id }, tx, true))!;
   await closeCheckout(tx, { id: checkout.id, status: "complete" });
   const intent = idOf(session.payment_intent as string | { id: string } | null);
   const recorded = await recordMoney(tx, {
@@ -47,7 +45,7 @@ export async function applyCheckoutCompleted(tx: Knex.Transaction, session: Stri
 type RefundLike = { id: string; amount: number; payment_intent: string | { id: string } | null };
 
 /** Refunds the service made (ours, or from its dashboard): each recorded once, by its id. */
-export async function applyChargeRefunded(tx: Knex.Transaction, charge: Stripe.Charge & { refunds?: { data?: RefundLike[] } | null }): Promise<boolean> {
+export async function applyChargeRefunded(tx: Tx, charge: Stripe.Charge & { refunds?: { data?: RefundLike[] } | null }): Promise<boolean> {
   const intent = idOf(charge.payment_intent as string | { id: string } | null);
   const original = intent ? await getPaymentByProviderId(tx, intent) : null;
   if (!original) return false;
@@ -69,24 +67,43 @@ export async function applyChargeRefunded(tx: Knex.Transaction, charge: Stripe.C
   return (await recordMoney(tx, { ...base, amountMinor: missing, reference: charge.id })) !== null;
 }
 
-async function applyCheckoutExpired(tx: Knex.Transaction, session: Stripe.Checkout.Session): Promise<boolean> {
-  const checkout = await getCheckoutBySessionId(tx, session.id);
+async function applyCheckoutExpired(tx: Tx, session: Stripe.Checkout.Session): Promise<boolean> {
+  const checkout = await getCheckoutBySessionId({ sessionId: session.id }, tx);
   if (!checkout || checkout.status !== "open") return false;
   await closeCheckout(tx, { id: checkout.id, status: "expired" });
   return true;
 }
 
-/** POST /api/webhooks/payments: verify on the raw body, then apply once. */
-export async function receivePaymentWebhook(rawBody: string, signature: string | null): Promise<{ received: true; duplicate: boolean; applied: boolean }> {
-  const event = verifyWebhook(rawBody, signature);
-  return db().transaction(async (tx) => {
+export type WebhookAnswer = { received: true; duplicate: boolean; applied: boolean; ignored?: string };
+
+/**
+ * POST /api/webhooks/payments: verify on the raw body, check its shape, then apply once. A signed
+ * delivery we can't use (not JSON, wrong shape, a type we don't handle) is logged, acknowledged
+ * and changes nothing: the service would retry anything but a 2xx for days.
+ */
+export async function receivePaymentWebhook(rawBody: string, signature: string | null): Promise<WebhookAnswer> {
+  const parsed = paymentEventSchema.safeParse(verifyWebhook(rawBody, signature));
+  if (!parsed.success) return ignored(`unusable payment event (${firstIssue(parsed.error)})`);
+  const event = parsed.data;
+  const objectSchema = PAYMENT_EVENT_OBJECTS[event.type as keyof typeof PAYMENT_EVENT_OBJECTS];
+  if (!objectSchema) return ignored(`payment event ${event.id} of type ${event.type}: not one we act on`);
+  const object = objectSchema.safeParse(event.data.object);
+  if (!object.success) return ignored(`payment event ${event.id} (${event.type}): ${firstIssue(object.error)}`);
+  // The shapes above are the SDK's types trimmed to what the apply functions read.
+  const data = object.data as unknown;
+  return transaction(async (tx) => {
     if (!(await recordWebhookEvent(tx, { eventId: event.id, type: event.type }))) return { received: true, duplicate: true, applied: false };
     let applied = false;
-    if (event.type === "checkout.session.completed" || event.type === "checkout.session.async_payment_succeeded") applied = await applyCheckoutCompleted(tx, event.data.object);
-    else if (event.type === "checkout.session.expired") applied = await applyCheckoutExpired(tx, event.data.object);
-    else if (event.type === "charge.refunded") applied = await applyChargeRefunded(tx, event.data.object);
+    if (event.type === "checkout.session.completed" || event.type === "checkout.session.async_payment_succeeded") applied = await applyCheckoutCompleted(tx, data as Stripe.Checkout.Session);
+    else if (event.type === "checkout.session.expired") applied = await applyCheckoutExpired(tx, data as Stripe.Checkout.Session);
+    else if (event.type === "charge.refunded") applied = await applyChargeRefunded(tx, data as Stripe.Charge);
     return { received: true, duplicate: false, applied };
   });
+}
+
+function ignored(reason: string): WebhookAnswer {
+  console.warn(`payments webhook ignored: ${reason}`);
+  return { received: true, duplicate: false, applied: false, ignored: reason };
 }
 
 export type ReturnState = "paid" | "open" | "expired" | "unknown";
@@ -94,16 +111,17 @@ export type ReturnState = "paid" | "open" | "expired" | "unknown";
 /**
  * The owner is back from the payment page with ?paid=<session>. The webhook may not have arrived
  * yet: ask the service, and record the payment now if it is done (the webhook then finds it recorded).
+ * `job` is one whose money the caller may see (the page resolves "jobMoney"); a session of
+ * another job is "unknown".
  */
-export async function confirmReturn(actor: Actor, jobPublicId: string, sessionId: string): Promise<ReturnState> {
-  const { job } = await invoiceJobAccess(actor, jobPublicId);
-  const checkout = await getCheckoutBySessionId(db(), sessionId);
+export async function confirmReturn(job: { id: number }, sessionId: string): Promise<ReturnState> {
+  const checkout = await getCheckoutBySessionId({ sessionId });
   if (!checkout || checkout.jobId !== job.id) return "unknown";
   if (checkout.status === "complete") return "paid";
   try {
     const session = await stripe().checkout.sessions.retrieve(sessionId);
     if (session.status === "complete" && session.payment_status === "paid") {
-      await db().transaction((tx) => applyCheckoutCompleted(tx, session));
+      await transaction((tx) => applyCheckoutCompleted(tx, session));
       return "paid";
     }
     return session.status === "expired" ? "expired" : "open";

@@ -38,14 +38,24 @@ export function paymentsError(error: unknown, doing: string): AppError {
   return new AppError("unavailable", `The payments service didn't answer while ${doing}. Nothing was changed; try again in a moment.`);
 }
 
-/** Verifies a webhook delivery on its raw body; a missing, wrong, altered or stale signature is a 401. */
-export function verifyWebhook(rawBody: string, signature: string | null): Stripe.Event {
+/**
+ * Verifies a webhook delivery on its raw body (a missing, wrong, altered or stale signature is a
+ * 401) and parses it. What it holds is checked by the caller: a signed body that isn't JSON comes
+ * back as `undefined`, to be acknowledged and ignored rather than retried by the service forever.
+ */
+export function verifyWebhook(rawBody: string, signature: string | null): unknown {
   const secret = process.env.STRIPE_WEBHOOK_SECRET;
   if (!secret) throw new AppError("unavailable", "Payment webhooks are not configured (STRIPE_WEBHOOK_SECRET).");
   try {
     // 300 s tolerance (the SDK's default): an old delivery replayed later is refused.
-    return Stripe.webhooks.constructEvent(rawBody, signature ?? "", secret);
+    // `signature` is always set by the SDK's module (its type allows null before set-up).
+    Stripe.webhooks.signature!.verifyHeader(rawBody, signature ?? "", secret);
   } catch {
     throw new AppError("unauthenticated", "The webhook signature is missing, wrong or too old.");
+  }
+  try {
+    return JSON.parse(rawBody) as unknown;
+  } catch {
+    return undefined;
   }
 }

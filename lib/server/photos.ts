@@ -3,6 +3,7 @@ import { randomBytes } from "node:crypto";
 import { fileTypeFromBuffer } from "file-type";
 import sharp from "sharp";
 import { AppError } from "@/lib/errors";
+import { type ReceivedFile, receiveFile } from "@/lib/server/multipart-file";
 import { storage, type ObjectStorage } from "@/lib/server/storage";
 
 // Uploaded photos are never served as sent: the type is read from the bytes, the size and pixel
@@ -15,6 +16,24 @@ export const PHOTO_LIMITS = {
   displayLongEdge: 1600,
   thumbLongEdge: 400,
 } as const;
+
+/** Room for the multipart envelope (boundaries, part headers) around one photo at the size limit. */
+const ENVELOPE_BYTES = 64 * 1024;
+
+/**
+ * The photo of an upload request (multipart, field "photo"), streamed to a temporary file with
+ * the size limit enforced as it arrives: 413 at the limit with nothing more read, whatever
+ * Content-Length said or didn't. The caller disposes of it when done.
+ */
+export function receivePhotoFile(req: Request): Promise<ReceivedFile> {
+  return receiveFile(req, {
+    field: "photo",
+    maxFileBytes: PHOTO_LIMITS.maxBytes,
+    maxBodyBytes: PHOTO_LIMITS.maxBytes + ENVELOPE_BYTES,
+    tooLargeMessage: `Photos can be at most ${PHOTO_LIMITS.maxBytes / 1024 / 1024} MB each.`,
+    missingMessage: "Attach a photo.",
+  });
+}
 
 export const ACCEPTED_PHOTO_TYPES = ["image/jpeg", "image/png", "image/webp"] as const;
 export type AcceptedPhotoType = (typeof ACCEPTED_PHOTO_TYPES)[number];

@@ -2,34 +2,18 @@ import "server-only";
 import { randomBytes } from "node:crypto";
 import { getReassemblyProgress } from "@/db/queries/bench";
 import { listTimeline } from "@/db/queries/journal";
-import { type ItemRow, type StoryRow, getStory, listItems, saveCuration, saveShopProfile, shareableEntryKinds, shareablePhotos, slugTaken } from "@/db/queries/portfolio";
+import { type ItemRow, type StoryRow, listItems, saveCuration, saveShopProfile, shareableEntryKinds, shareablePhotos, slugTaken } from "@/db/queries/portfolio";
 import { AppError, type FieldErrors } from "@/lib/errors";
-import { type Actor } from "@/lib/permissions";
 import { ITEM_ENTRY_KIND, type PrivateFacts, type ShopProfileInput, type StoryCuration, privateTextProblems } from "@/lib/portfolio";
 import { type NoteDoc, noteText, parseNote } from "@/lib/rich-text/note";
-import { authorize } from "@/lib/server/authorize";
-import { db } from "@/lib/server/db";
+import type { Resolved } from "@/lib/server/access";
+import { transaction } from "@/db/transaction";
 import { processPhoto } from "@/lib/server/photos";
 import { storage } from "@/lib/server/storage";
-import { getShopBySlug } from "@/db/queries/shops";
 
 // Staff curation: which shared entries a story shows and in what order, its words and cover, all
 // checked against the job (only its shared, undeleted entries) and against what must never be
 // public (the owner's name, the serial or a VIN, prices). Also the shop's public profile.
-
-export async function shopForStaff(actor: Actor, shopSlug: string, action: "portfolio:curate" | "portfolio:publish" | "portfolio:propose") {
-  const shop = await getShopBySlug({ slug: shopSlug });
-  if (!shop) throw new AppError("forbidden", "You don't have access to this shop.");
-  authorize(actor, action, { shopId: shop.id });
-  return shop;
-}
-
-export async function staffStory(actor: Actor, shopSlug: string, storyId: number, action: "portfolio:curate" | "portfolio:publish"): Promise<StoryRow> {
-  const shop = await shopForStaff(actor, shopSlug, action);
-  const story = await getStory({ shopId: shop.id, storyId });
-  if (!story) throw new AppError("not_found", "No such story in this shop.");
-  return story;
-}
 
 const factsOf = (story: StoryRow): PrivateFacts => ({ customerName: story.customer.name, serial: story.machine.serial });
 
@@ -64,8 +48,7 @@ function checkWords(fields: FieldErrors, key: string, text: string | null | unde
 }
 
 /** Saves title, address, write-up, cover and items in one go, if the story is still at `version`. */
-export async function curateStory(actor: Actor, shopSlug: string, input: StoryCuration): Promise<StoryRow & { previousSlug: string }> {
-  const story = await staffStory(actor, shopSlug, input.story, "portfolio:curate");
+export async function curateStory({ story }: Resolved<"story">, input: StoryCuration): Promise<StoryRow & { previousSlug: string }> {
   const facts = factsOf(story);
   const fields: FieldErrors = {};
   const writeUp = writeUpFrom(input.writeUp);
@@ -74,7 +57,7 @@ export async function curateStory(actor: Actor, shopSlug: string, input: StoryCu
   input.items.forEach((it, i) => checkWords(fields, `items.${i}.caption`, it.caption, facts, `Item ${i + 1}'s caption`));
 
   const key = { shopId: story.shopId, jobId: story.jobId };
-  const [entries, photos] = await Promise.all([shareableEntryKinds(db(), key), shareablePhotos(db(), key)]);
+  const [entries, photos] = await Promise.all([shareableEntryKinds(key), shareablePhotos(key)]);
   const items: ItemRow[] = [];
   let checklists = 0;
   input.items.forEach((it, i) => {
@@ -102,12 +85,12 @@ export async function curateStory(actor: Actor, shopSlug: string, input: StoryCu
   });
   const cover = input.cover ? photos.get(input.cover) : undefined;
   if (input.cover && !cover) fields.cover = ["Pick the cover from this job's shared photos."];
-  if (input.slug !== story.slug && (await slugTaken(db(), { shopId: story.shopId, slug: input.slug, exceptId: story.id }))) {
+  if (input.slug !== story.slug && (await slugTaken({ shopId: story.shopId, slug: input.slug, exceptId: story.id }))) {
     fields.slug = ["Another story of this shop already uses that address."];
   }
   if (Object.keys(fields).length) throw new AppError("invalid", "Some fields need attention.", fields);
 
-  await db().transaction((tx) =>
+  await transaction((tx) =>
     saveCuration(tx, { shopId: story.shopId, storyId: story.id, version: input.version, title: input.title, slug: input.slug, writeUp, coverPhotoId: cover?.id ?? null, items }),
   );
   return { ...story, title: input.title, slug: input.slug, version: input.version + 1, previousSlug: story.slug };
@@ -143,10 +126,7 @@ export async function curationChoices(story: StoryRow) {
 const LOGO_MAX_BYTES = 5 * 1024 * 1024;
 
 /** The shop owner's public profile, with an optional new logo (checked and re-encoded like any photo). */
-export async function saveProfile(actor: Actor, input: ShopProfileInput, logo: File | null) {
-  const shop = await getShopBySlug({ slug: input.shop });
-  if (!shop) throw new AppError("forbidden", "You don't have access to this shop.");
-  authorize(actor, "shop:manage-settings", { shopId: shop.id });
+export async function saveProfile({ shop }: Resolved<"shop">, input: ShopProfileInput, logo: File | null) {
   let logoKey: string | null | undefined = input.removeLogo ? null : undefined;
   if (logo && logo.size > 0) {
     if (logo.size > LOGO_MAX_BYTES) throw new AppError("invalid", "The logo must be under 5 MB.", { logo: ["The logo must be under 5 MB."] });

@@ -20,8 +20,6 @@ import {
   type PublicStory,
   type PublicStoryCard,
   type PublicStoryItem,
-  SHOP_SLUG_PATTERN,
-  STORY_SLUG_PATTERN,
   publicClipUrls,
   publicPhotoUrl,
   redactNote,
@@ -29,6 +27,7 @@ import {
   shopLogoPath,
 } from "@/lib/portfolio";
 import { type NoteDoc, noteExcerpt } from "@/lib/rich-text/note";
+import { ids } from "@/lib/server/access";
 
 // Turns published rows into what the public reads. Only what is listed here leaves: no entry
 // ids, no job numbers, no prices, no names of people; the owner's name and the serial are
@@ -124,7 +123,7 @@ export async function buildPublicStory({ shopId, storyId, shopSlug }: { shopId: 
   return toPublicStory(shop, rows);
 }
 
-const validSlugs = (shopSlug: string, storySlug: string) => SHOP_SLUG_PATTERN.test(shopSlug) && STORY_SLUG_PATTERN.test(storySlug) && storySlug.length <= 80;
+const validSlugs = (shopSlug: string, storySlug: string) => ids.shop.safeParse(shopSlug).success && ids.story.safeParse(storySlug).success;
 
 /** The public story, straight from the database (the JSON route; pages go through the cache in portfolio-cache.ts). */
 export async function getPublicStory(shopSlug: string, storySlug: string): Promise<PublicStory | null> {
@@ -146,7 +145,7 @@ export function parseKind(raw: unknown): MachineKind | null {
  * null for an unknown shop, and for a shop that has neither a profile nor a published story.
  */
 export async function getPublicShopPage(shopSlug: string, kind: MachineKind | null) {
-  if (!SHOP_SLUG_PATTERN.test(shopSlug)) return null;
+  if (!ids.shop.safeParse(shopSlug).success) return null;
   const row = await getPublicShop({ shopSlug });
   if (!row) return null;
   const [stories, kinds] = await Promise.all([listPublishedStories({ shopId: row.id, kind }), publishedKinds({ shopId: row.id })]);

@@ -1,5 +1,4 @@
 import "server-only";
-import { getJobByPublicId } from "@/db/queries/jobs";
 import { enqueueMail } from "@/db/queries/outbox";
 import {
   type StoryRow,
@@ -14,20 +13,20 @@ import {
   moveStory,
   slugTaken,
 } from "@/db/queries/portfolio";
+import { getShopName } from "@/db/queries/shops";
 import { AppError } from "@/lib/errors";
-import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
 import { describeMachine } from "@/lib/machine";
-import { type Actor, can } from "@/lib/permissions";
+import type { Actor } from "@/lib/permissions";
 import { CONSENT_FROM, CONSENT_TO, type ConsentDecision, PUBLISHABLE_FROM, type StoryStatus, isReservedSlug, slugify } from "@/lib/portfolio";
-import { authorize } from "@/lib/server/authorize";
 import { appUrl } from "@/lib/server/config";
-import { db } from "@/lib/server/db";
+import { transaction } from "@/db/transaction";
 import { renderConsentMail } from "@/lib/server/emails/portfolio-consent";
-import { jobResource } from "@/lib/server/following";
-import { curationProblems, staffStory } from "@/lib/server/portfolio-curation";
+import { curationProblems } from "@/lib/server/portfolio-curation";
+import type { JobAccess, Resolved } from "@/lib/server/access";
 
 // Proposing a finished job, the machine owner's consent (given, refused, withdrawn) and the shop
-// owner's publish / take-down. Each is: find the resource → authorise → one transaction. Pages and
+// owner's publish / take-down. Each gets its resource found and authorised by the caller's declaration (lib/server/access.ts),
+// then runs in one transaction. Pages and
 // caches are refreshed by the server actions that call these (app/…/actions.ts).
 
 /** Where the owner answers (linked from the e-mail and the owner's job page). */
@@ -40,7 +39,7 @@ async function uniqueSlug(shopId: number, base: string): Promise<string> {
   const root = isReservedSlug(slugged) ? `${slugged.slice(0, 66)}-story` : slugged;
   for (let n = 1; n < 50; n++) {
     const slug = n === 1 ? root : `${root}-${n}`;
-    if (!(await slugTaken(db(), { shopId, slug }))) return slug;
+    if (!(await slugTaken({ shopId, slug }))) return slug;
   }
   return `${root}-${Date.now().toString(36)}`;
 }
@@ -50,19 +49,17 @@ async function uniqueSlug(shopId: number, base: string): Promise<string> {
  * the outbox (in the same transaction); without an e-mail on file the story waits as "proposed".
  * Proposing twice returns the story already there.
  */
-export async function proposeStory(actor: Actor, jobPublicId: string): Promise<{ story: StoryRow; created: boolean; mailed: boolean }> {
-  const job = JOB_PUBLIC_ID_PATTERN.test(jobPublicId) ? await getJobByPublicId({ publicId: jobPublicId }) : null;
-  if (!job || !can(actor, "shop:view-board", { shopId: job.shopId })) throw new AppError("not_found", "No such job, or it isn't yours to see.");
-  authorize(actor, "portfolio:propose", { shopId: job.shopId });
+export async function proposeStory(actor: Actor, { job }: JobAccess): Promise<{ story: StoryRow; created: boolean; mailed: boolean }> {
+  const jobPublicId = job.publicId;
   const existing = await getStoryForJob({ shopId: job.shopId, jobId: job.id });
   if (existing) return { story: existing, created: false, mailed: false };
   if (job.status !== "picked_up") throw new AppError("conflict", "Only jobs the owner has collected can go in the portfolio.");
   const machine = describeMachine(job.machine);
   const slug = await uniqueSlug(job.shopId, machine);
-  const email = await getCustomerEmail(db(), { shopId: job.shopId, customerId: job.customerId });
+  const email = await getCustomerEmail({ shopId: job.shopId, customerId: job.customerId });
   let storyId = 0;
   try {
-    storyId = await db().transaction(async (tx) => {
+    storyId = await transaction(async (tx) => {
       const id = await insertStory(tx, { shopId: job.shopId, jobId: job.id, slug, title: machine, status: email ? "consent_requested" : "proposed", proposedBy: actor.userId });
       if (email) await queueConsentMail(tx, { shopId: job.shopId, shopName: job.shopName, to: email, ownerName: job.customerName, machine, jobPublicId, storyId: id });
       return id;
@@ -85,14 +82,14 @@ async function queueConsentMail(
 }
 
 /** A story proposed while the owner had no e-mail on file: ask now that there is one. */
-export async function askOwnerAgain(actor: Actor, shopSlug: string, storyId: number): Promise<StoryRow> {
-  const story = await staffStory(actor, shopSlug, storyId, "portfolio:curate");
+export async function askOwnerAgain({ story }: Resolved<"story">): Promise<StoryRow> {
+  const storyId = story.id;
   if (story.status !== "proposed") throw new AppError("conflict", "The owner has already been asked; their answer shows on this page.");
   if (!story.customer.email) throw new AppError("conflict", "The owner has no e-mail address on file. Add one to their record, then ask again.");
-  await db().transaction(async (tx) => {
-    if (!(await moveStory(tx, { shopId: story.shopId, storyId, from: ["proposed"], to: "consent_requested" }))) throw new AppError("conflict", "This story changed meanwhile; reload the page.");
-    const shop = await tx("shops").where({ id: story.shopId }).first("name");
-    await queueConsentMail(tx, { shopId: story.shopId, shopName: String(shop.name), to: story.customer.email!, ownerName: story.customer.name, machine: describeMachine(story.machine), jobPublicId: story.jobPublicId, storyId });
+  await transaction(async (tx) => {
+    if (!(await moveStory({ shopId: story.shopId, storyId, from: ["proposed"], to: "consent_requested" }, tx))) throw new AppError("conflict", "This story changed meanwhile; reload the page.");
+    const shopName = await getShopName({ shopId: story.shopId }, tx);
+    await queueConsentMail(tx, { shopId: story.shopId, shopName, to: story.customer.email!, ownerName: story.customer.name, machine: describeMachine(story.machine), jobPublicId: story.jobPublicId, storyId });
   });
   return (await getStory({ shopId: story.shopId, storyId }))!;
 }
@@ -107,15 +104,6 @@ const CONSENT_REFUSALS: Partial<Record<StoryStatus, string>> = {
   proposed: "You haven't agreed yet, so there is nothing to withdraw.",
 };
 
-/** The owner's story for one of their jobs, or the same 404 for a job that isn't theirs. */
-export async function ownerStory(actor: Actor, jobPublicId: string) {
-  const job = JOB_PUBLIC_ID_PATTERN.test(jobPublicId) ? await getJobByPublicId({ publicId: jobPublicId }) : null;
-  const resource = job && (await jobResource(actor, job));
-  if (!job || !resource || !can(actor, "job:view", resource)) throw new AppError("not_found", "No such job, or it isn't yours to see.");
-  authorize(actor, "portfolio:consent", resource);
-  return { job, story: await getStoryForJob({ shopId: job.shopId, jobId: job.id }) };
-}
-
 /**
  * The machine owner's answer: given, refused or withdrawn, with the name they typed, when, from
  * which address and browser. Recorded and applied in one transaction on the locked story row,
@@ -123,21 +111,21 @@ export async function ownerStory(actor: Actor, jobPublicId: string) {
  */
 export async function decideConsent(
   actor: Actor,
-  jobPublicId: string,
+  { job }: JobAccess,
   input: { decision: ConsentDecision; name: string },
   meta: { ip: string; userAgent: string | null },
 ): Promise<{ story: StoryRow; status: StoryStatus }> {
-  const { story } = await ownerStory(actor, jobPublicId);
+  const story = await getStoryForJob({ shopId: job.shopId, jobId: job.id });
   if (!story) throw new AppError("not_found", NOT_ASKED);
   const name = input.name.trim();
   if (!name) throw new AppError("invalid", "Type your name to sign your answer.", { name: ["Type your name to sign your answer."] });
   const to = CONSENT_TO[input.decision];
-  await db().transaction(async (tx) => {
+  await transaction(async (tx) => {
     const locked = await lockStory(tx, { shopId: story.shopId, storyId: story.id });
     if (!locked) throw new AppError("not_found", NOT_ASKED);
     if (!CONSENT_FROM[input.decision].includes(locked.status)) throw new AppError("conflict", CONSENT_REFUSALS[locked.status] ?? "That answer doesn't apply now; reload the page.");
     await insertConsent(tx, { shopId: story.shopId, storyId: story.id, userId: actor.userId, name, decision: input.decision, ip: meta.ip, userAgent: meta.userAgent });
-    await moveStory(tx, { shopId: story.shopId, storyId: story.id, from: [locked.status], to });
+    await moveStory({ shopId: story.shopId, storyId: story.id, from: [locked.status], to }, tx);
   });
   return { story, status: to };
 }
@@ -151,24 +139,24 @@ const PUBLISH_REFUSALS: Partial<Record<StoryStatus, string>> = {
 };
 
 /** The shop owner publishes, only with the machine owner's standing consent and nothing private in the words. */
-export async function publishStory(actor: Actor, shopSlug: string, storyId: number): Promise<StoryRow> {
-  const story = await staffStory(actor, shopSlug, storyId, "portfolio:publish");
+export async function publishStory(actor: Actor, { story }: Resolved<"story">): Promise<StoryRow> {
+  const storyId = story.id;
   const problems = await curationProblems(story);
   if (problems) throw new AppError("invalid", `This story can't go public yet: ${problems}`);
-  await db().transaction(async (tx) => {
+  await transaction(async (tx) => {
     const locked = await lockStory(tx, { shopId: story.shopId, storyId });
     if (!locked || !PUBLISHABLE_FROM.includes(locked.status)) throw new AppError("conflict", PUBLISH_REFUSALS[locked?.status ?? "proposed"] ?? "This story can't be published now.");
     // The status says consent was given; the record must say so too.
     if ((await latestConsent(tx, { shopId: story.shopId, storyId })) !== "given") throw new AppError("conflict", PUBLISH_REFUSALS.consent_requested!);
     if ((await countItems(tx, { shopId: story.shopId, storyId })) === 0) throw new AppError("conflict", "Add at least one photo, clip or record to the story before publishing it.");
-    await moveStory(tx, { shopId: story.shopId, storyId, from: PUBLISHABLE_FROM, to: "published", publishedBy: actor.userId });
+    await moveStory({ shopId: story.shopId, storyId, from: PUBLISHABLE_FROM, to: "published", publishedBy: actor.userId }, tx);
   });
   return (await getStory({ shopId: story.shopId, storyId }))!;
 }
 
 /** Takes a public story down (the owner's consent stands; it can be published again). */
-export async function unpublishStory(actor: Actor, shopSlug: string, storyId: number): Promise<StoryRow> {
-  const story = await staffStory(actor, shopSlug, storyId, "portfolio:curate");
-  if (!(await moveStory(db(), { shopId: story.shopId, storyId, from: ["published"], to: "unpublished" }))) throw new AppError("conflict", "This story isn't public.");
+export async function unpublishStory({ story }: Resolved<"story">): Promise<StoryRow> {
+  const storyId = story.id;
+  if (!(await moveStory({ shopId: story.shopId, storyId, from: ["published"], to: "unpublished" }))) throw new AppError("conflict", "This story isn't public.");
   return (await getStory({ shopId: story.shopId, storyId }))!;
 }

@@ -1,8 +1,11 @@
 import "server-only";
 import crypto from "node:crypto";
-import { claimCustomerRecords, countMemberships, getUserByEmail, isCustomerAddress, touchLastSignIn } from "@/db/queries/users";
-import { deleteSignInLink, insertSignInLink, pruneSignInRecords, redeemSignInLink, reserveAttempt, settleAttempt } from "@/db/queries/sign-in";
-import { escapeHtml, sendMail } from "@/lib/server/mail";
+import { claimCustomerRecords, getStaffSignIn, isCustomerAddress, touchLastSignIn } from "@/db/queries/users";
+import { insertSignInLink, pruneSignInRecords, redeemSignInLink, reserveAttempt, settleAttempt } from "@/db/queries/sign-in";
+import { pruneSessions } from "@/db/queries/sessions";
+import { MAIL_PRIORITY, enqueueMail } from "@/db/queries/outbox";
+import { transaction } from "@/db/transaction";
+import { escapeHtml } from "@/lib/server/mail";
 import { timingDecoyHash, verifyPassword } from "@/lib/server/password";
 import { appUrl } from "@/lib/server/config";
 
@@ -22,18 +25,21 @@ export const LIMITS = {
   linkTtlMinutes: 20,
 };
 
+// The answers never tell whether an address has an account: a wrong address and a wrong
+// password get the same words, and a link request is answered the same for every address.
 export const SIGN_IN_FAILURES = {
   "invalid-input": "Enter your e-mail address and password.",
-  "unknown-email": "No shop account uses that e-mail address. Check it, or ask your shop owner to add you.",
-  "wrong-password": "That password doesn't match this account. Check it and try again.",
+  "wrong-credentials": "That e-mail address and password don't match a shop account. Check both and try again, or ask your shop owner to add you.",
   "too-many-attempts": `Too many tries. Wait ${LIMITS.passwordFailuresPerEmail.minutes} minutes, then try again.`,
-  "unknown-customer": "We don't have a job under that e-mail address. Use the address you gave the shop, or ask them to check it.",
-  "too-many-links": `We've sent several links already. Use the newest one, or wait ${LIMITS.linkRequestsPerEmail.minutes} minutes and ask again.`,
+  "too-many-links": `Several links were asked for already. Use the newest one, or wait ${LIMITS.linkRequestsPerEmail.minutes} minutes and ask again.`,
   "link-unknown": "This sign-in link isn't valid. Ask for a new one below.",
   "link-used": "This sign-in link has already been used. Each link works once; ask for a new one below.",
   "link-expired": `This sign-in link has expired. Links last ${LIMITS.linkTtlMinutes} minutes; ask for a new one below.`,
 };
 export type SignInFailureCode = keyof typeof SIGN_IN_FAILURES;
+
+/** What the link form answers for every address it accepts, known or not. */
+export const LINK_REQUEST_ANSWER = `If a shop knows that address, a sign-in link is on its way. It works once and lasts ${LIMITS.linkTtlMinutes} minutes.`;
 
 export class SignInFailure extends Error {
   constructor(readonly code: SignInFailureCode) {
@@ -41,23 +47,29 @@ export class SignInFailure extends Error {
   }
 }
 
-/** Now and then, forget attempts and links old enough to no longer matter to any limit. */
+/** Now and then, forget attempts, links and sessions old enough to no longer matter. */
 async function housekeeping() {
-  if (Math.random() < 0.02) await pruneSignInRecords({ olderThanHours: 24 });
+  if (Math.random() < 0.02) {
+    await pruneSignInRecords({ olderThanHours: 24 });
+    await pruneSessions({ olderThanHours: 24 });
+  }
 }
 
+/**
+ * A staff sign-in. An unknown address, an account with no shop role or no password, and a wrong
+ * password all fail the same way after the same work (one query, one bcrypt comparison: against
+ * a decoy hash when there is no real one), so neither the answer nor its timing tells them apart.
+ */
 export async function checkPassword({ email, password, ip }: { email: string; password: string; ip: string }) {
   await housekeeping();
   const byEmail = await reserveAttempt({ kind: "password", subject: email, limit: LIMITS.passwordFailuresPerEmail, counting: "failures" });
   const byIp = await reserveAttempt({ kind: "password", subject: `ip:${ip}`, limit: LIMITS.passwordFailuresPerIp, counting: "failures" });
   if (!byEmail.allowed || !byIp.allowed) throw new SignInFailure("too-many-attempts");
 
-  const user = await getUserByEmail({ email });
-  if (!user?.passwordHash || (await countMemberships({ userId: user.id })) === 0) {
-    await verifyPassword(password, await timingDecoyHash());
-    throw new SignInFailure("unknown-email");
-  }
-  if (!(await verifyPassword(password, user.passwordHash))) throw new SignInFailure("wrong-password");
+  const user = await getStaffSignIn({ email });
+  const usable = user?.passwordHash && user.roles > 0 ? user.passwordHash : null;
+  const matches = await verifyPassword(password, usable ?? (await timingDecoyHash()));
+  if (!user || !usable || !matches) throw new SignInFailure("wrong-credentials");
   await settleAttempt({ id: byEmail.id, succeeded: true });
   await settleAttempt({ id: byIp.id, succeeded: true });
   await touchLastSignIn({ userId: user.id });
@@ -68,31 +80,46 @@ function hashToken(token: string): string {
   return crypto.createHash("sha256").update(`${token}${process.env.AUTH_SECRET ?? ""}`).digest("hex");
 }
 
-/** E-mails a one-time sign-in link to a machine owner (staff sign in with their password). */
-export async function requestSignInLink({ email, ip, next }: { email: string; ip: string; next?: string }) {
+/** Thrown inside the link transaction to roll back the work done for an unknown address. */
+class NotForThisAddress extends Error {}
+
+/**
+ * Queues a one-time sign-in link for a machine owner (staff sign in with their password) and
+ * answers the same whether or not the address is known: the limits count every address alike,
+ * and an unknown address goes through the same work (the link and its e-mail are written, then
+ * rolled back), so neither the answer nor its timing tells. The e-mail goes through the outbox
+ * at sign-in priority (the worker's fast lane): asked for while mail is down, it is sent when
+ * mail is back, and not at all once the link has expired.
+ */
+export async function requestSignInLink({ email, ip, next }: { email: string; ip: string; next?: string }): Promise<void> {
   await housekeeping();
-  // The network address is counted even for unknown e-mails, so addresses can't be probed in bulk.
   const byIp = await reserveAttempt({ kind: "link_request", subject: `ip:${ip}`, limit: LIMITS.linkRequestsPerIp, counting: "accepted" });
   if (!byIp.allowed) throw new SignInFailure("too-many-links");
-  if (!(await isCustomerAddress({ email }))) throw new SignInFailure("unknown-customer");
   const byEmail = await reserveAttempt({ kind: "link_request", subject: email, limit: LIMITS.linkRequestsPerEmail, counting: "accepted" });
   if (!byEmail.allowed) throw new SignInFailure("too-many-links");
 
+  const known = await isCustomerAddress({ email });
   const token = crypto.randomBytes(32).toString("base64url");
-  const id = await insertSignInLink({ email, tokenHash: hashToken(token), ttlMinutes: LIMITS.linkTtlMinutes });
   const url = `${appUrl()}/sign-in/link?token=${token}${next ? `&next=${encodeURIComponent(next)}` : ""}`;
+  const sendBefore = new Date(Date.now() + LIMITS.linkTtlMinutes * 60_000);
+  const lines = `It works once and expires in ${LIMITS.linkTtlMinutes} minutes. If you didn't ask for it, ignore this e-mail.`;
   try {
-    await sendMail({
-      to: email,
-      subject: "Your Benchside sign-in link",
-      text: `Open this link to follow your machine's job:\n\n${url}\n\nIt works once and expires in ${LIMITS.linkTtlMinutes} minutes. If you didn't ask for it, ignore this e-mail.`,
-      html: `<p>Open this link to follow your machine's job:</p><p><a href="${escapeHtml(url)}">Sign in to Benchside</a></p><p>It works once and expires in ${LIMITS.linkTtlMinutes} minutes. If you didn't ask for it, ignore this e-mail.</p>`,
+    await transaction(async (tx) => {
+      await insertSignInLink(tx, { email, tokenHash: hashToken(token), ttlMinutes: LIMITS.linkTtlMinutes });
+      await enqueueMail(tx, {
+        shopId: null,
+        kind: "sign-in-link",
+        to: email,
+        subject: "Your Benchside sign-in link",
+        text: `Open this link to follow your machine's job:\n\n${url}\n\n${lines}`,
+        html: `<p>Open this link to follow your machine's job:</p><p><a href="${escapeHtml(url)}">Sign in to Benchside</a></p><p>${lines}</p>`,
+        priority: MAIL_PRIORITY.signInLink,
+        sendBefore,
+      });
+      if (!known) throw new NotForThisAddress();
     });
   } catch (error) {
-    // An unsent link must not be usable, nor count against the owner's limit.
-    await deleteSignInLink({ id });
-    await settleAttempt({ id: byEmail.id, succeeded: false });
-    throw error;
+    if (!(error instanceof NotForThisAddress)) throw error;
   }
 }
 

@@ -100,6 +100,23 @@ export async function startMariadb(dir, port) {
   throw new SetupError(`MariaDB did not start on port ${port}; see ${p.errorLog}: ${tail}`);
 }
 
+/** Resolves once the server of this data folder is no longer running (checked every second). */
+export async function waitForMariadbExit(dir, everyMs = 1000) {
+  const { pidFile } = mariadbPaths(dir);
+  const readPid = () => {
+    try {
+      return Number(fs.readFileSync(pidFile, "utf8")) || null;
+    } catch {
+      return null;
+    }
+  };
+  const pid = readPid();
+  for (;;) {
+    if (!pid || !isAlive(pid)) return;
+    await new Promise((r) => setTimeout(r, everyMs));
+  }
+}
+
 export async function stopMariadb(dir) {
   const { pidFile } = mariadbPaths(dir);
   if (!fs.existsSync(pidFile)) return;

@@ -1,7 +1,8 @@
 // Child processes of a run (app, fakes, test runners) and the run itself.
 import { spawn } from "node:child_process";
 import { ROOT, SetupError, acquireLock, say, sleep } from "./setup.mjs";
-import { startMariadb, stopMariadb } from "./mariadb.mjs";
+import { startMariadb, stopMariadb, waitForMariadbExit } from "./mariadb.mjs";
+import { Restarter } from "./restart.mjs";
 
 const children = new Set();
 
@@ -20,10 +21,16 @@ export function startService(name, command, args, env, { onExit } = {}) {
   prefix(child.stdout, process.stdout);
   prefix(child.stderr, process.stderr);
   children.add(child);
-  child.on("exit", (code, signal) => {
+  // A command that can't be spawned at all reports 'error' (and maybe no 'exit'): one ending either way.
+  let ended = false;
+  const end = (code, signal, error) => {
+    if (ended) return;
+    ended = true;
     children.delete(child);
-    onExit?.(code, signal);
-  });
+    onExit?.(code, signal, error);
+  };
+  child.on("exit", (code, signal) => end(code, signal));
+  child.on("error", (error) => end(null, null, error));
   return child;
 }
 
@@ -90,10 +97,17 @@ export async function waitForHttp(url, { timeoutMs = 60_000, label = url } = {})
 export class Run {
   #releaseLock = null;
   #stopDb = null;
+  #restarters = [];
   stopping = false;
 
-  constructor(tag) {
+  /**
+   * `restart: true` (npm start): a service that dies on its own is started again with back-off
+   * (scripts/lib/restart.mjs). Without it (npm test) one dying service stops the whole run, so a
+   * test never runs against half a set-up.
+   */
+  constructor(tag, { restart = false } = {}) {
     this.tag = tag;
+    this.restart = restart;
     process.on("SIGINT", () => void this.stop(130));
     process.on("SIGTERM", () => void this.stop(143));
   }
@@ -106,14 +120,39 @@ export class Run {
     // Known before the server answers, so a Ctrl-C during start-up still stops it.
     this.#stopDb = () => stopMariadb(dir);
     await startMariadb(dir, port);
+    if (!this.restart) return;
+    // Already up: the first round only watches it; later rounds start it again.
+    let first = true;
+    this.#restarters.push(
+      new Restarter({
+        name: "MariaDB",
+        start: async () => {
+          if (!first) await startMariadb(dir, port);
+          first = false;
+          await waitForMariadbExit(dir);
+          return { reason: "its process is gone" };
+        },
+      }),
+    );
   }
 
-  /** A long-running helper; if it dies on its own, the whole run stops (nothing half-up). */
+  /**
+   * A long-running helper. Under `restart` it is started again when it dies on its own; otherwise
+   * its death stops the whole run (nothing half-up).
+   */
   serve(name, command, args, env) {
+    if (this.restart) {
+      const restarter = new Restarter({
+        name,
+        start: () => new Promise((resolve) => startService(name, command, args, env, { onExit: (code, signal, error) => resolve({ code, signal, error }) })),
+      });
+      this.#restarters.push(restarter);
+      return restarter;
+    }
     return startService(name, command, args, env, {
-      onExit: (code) => {
+      onExit: (code, signal, error) => {
         if (this.stopping) return;
-        console.error(`${name} stopped unexpectedly (exit ${code}); stopping everything.`);
+        console.error(`${name} stopped unexpectedly (${error ? error.message : `exit ${code}`}); stopping everything.`);
         void this.stop(1);
       },
     });
@@ -122,6 +161,8 @@ export class Run {
   async stop(code) {
     if (this.stopping) return;
     this.stopping = true;
+    // First no more restarts, then everything this run started.
+    for (const restarter of this.#restarters) restarter.stop();
     if (this.#releaseLock) say(this.tag, "stopping…");
     await stopServices();
     await this.#stopDb?.();

@@ -1,14 +1,28 @@
-import { type APIRequestContext, expect, test } from "@playwright/test";
+import { expect, test } from "@playwright/test";
 import mysql from "mysql2/promise";
 import { type Persona, storageStatePath } from "./personas";
 
-// Every page and route handler of the shop and owner areas × every kind of visitor.
-// "in" = the visitor gets the thing; "sign-in" = sent to sign in; "403" = refused;
-// "404" = answered as if it didn't exist (job and photo ids can't be probed).
+// Every page of the shop and owner areas × every kind of visitor. (Route handlers and server
+// actions are covered, all of them, by access-generated.spec.ts.)
+// "in" = the visitor gets the page; "sign-in" = sent to sign in; "403" = refused; "404" =
+// answered as if it didn't exist (lib/server/access.ts: someone else's job, request or money
+// isn't confirmed to exist; a shop is public knowledge, so a shop's pages refuse with 403).
 type Outcome = "in" | "sign-in" | "403" | "404";
 type Visitor = "anonymous" | Persona;
 
-const VISITORS: Visitor[] = ["anonymous", "owner", "writer", "technician", "otherShopTechnician", "jobCustomer", "otherCustomer"];
+const VISITORS: Visitor[] = [
+  "anonymous",
+  "owner",
+  "writer",
+  "technician",
+  "otherShopOwner",
+  "otherShopWriter",
+  "otherShopTechnician",
+  "deactivatedTechnician",
+  "jobCustomer",
+  "otherCustomer",
+  "follower",
+];
 
 let customerJobPath = "";
 let demoRequest = "";
@@ -30,135 +44,47 @@ test.beforeAll(async () => {
   demoFinding = Number(requests[0]!.finding_id);
 });
 
-/** Only the shop's own staff get in. */
-const STAFF_OF_THE_SHOP: Record<Visitor, Outcome> = {
-  anonymous: "sign-in",
-  owner: "in",
-  writer: "in",
-  technician: "in",
-  otherShopTechnician: "403",
-  jobCustomer: "403",
-  otherCustomer: "403",
-};
+const all = (outcome: Outcome) => Object.fromEntries(VISITORS.map((v) => [v, outcome])) as Record<Visitor, Outcome>;
+const signedIn = (outcome: Outcome) => ({ ...all(outcome), anonymous: "sign-in" as const });
 
-const EVERYONE_IN = Object.fromEntries(VISITORS.map((v) => [v, "in"])) as Record<Visitor, Outcome>;
-const EVERYONE_404 = Object.fromEntries(VISITORS.map((v) => [v, "404"])) as Record<Visitor, Outcome>;
+/** Only the shop's own staff get in; every other signed-in visitor is refused (a deactivated technician too). */
+const STAFF_OF_THE_SHOP: Record<Visitor, Outcome> = { ...signedIn("403"), owner: "in", writer: "in", technician: "in" };
+/** J-0005 through the owner's area: anyone who may see the job (staff, its customer, its follower); to anyone else it doesn't exist. */
+const READS_THE_JOB: Record<Visitor, Outcome> = { ...signedIn("404"), owner: "in", writer: "in", technician: "in", jobCustomer: "in", follower: "in" };
+/** Its approval request: the same, but a follower never sees prices or decisions. */
+const READS_THE_REQUEST: Record<Visitor, Outcome> = { ...READS_THE_JOB, follower: "404" };
+const EVERYONE_IN = all("in");
 
-const TARGETS: { name: string; kind: "page" | "api"; path: () => string; expect: Record<Visitor, Outcome> }[] = [
-  {
-    name: "shop job board",
-    kind: "page",
-    path: () => "/shop/copper-gulch",
-    expect: STAFF_OF_THE_SHOP,
-  },
-  {
-    name: "shop job page",
-    kind: "page",
-    path: () => "/shop/copper-gulch/jobs/5",
-    expect: STAFF_OF_THE_SHOP,
-  },
-  {
-    name: "job board API",
-    kind: "api",
-    path: () => "/api/shops/copper-gulch/jobs",
-    expect: STAFF_OF_THE_SHOP,
-  },
+const TARGETS: { name: string; kind: "page" | "file"; path: () => string; expect: Record<Visitor, Outcome> }[] = [
+  { name: "shop job board", kind: "page", path: () => "/shop/copper-gulch", expect: STAFF_OF_THE_SHOP },
+  { name: "shop job page", kind: "page", path: () => "/shop/copper-gulch/jobs/5", expect: STAFF_OF_THE_SHOP },
   { name: "check-in page", kind: "page", path: () => "/shop/copper-gulch/jobs/new", expect: STAFF_OF_THE_SHOP },
   { name: "bench tools page", kind: "page", path: () => "/shop/copper-gulch/jobs/5/bench", expect: STAFF_OF_THE_SHOP },
   { name: "shop spec library page", kind: "page", path: () => "/shop/copper-gulch/specs", expect: STAFF_OF_THE_SHOP },
-  { name: "check-in owner search API", kind: "api", path: () => "/api/shops/copper-gulch/customers?q=Calloway", expect: STAFF_OF_THE_SHOP },
-  {
-    // Failed mail of the shop: the desk (owner, service writer) only.
-    name: "shop outbox page",
-    kind: "page",
-    path: () => "/shop/copper-gulch/outbox",
-    expect: { ...STAFF_OF_THE_SHOP, technician: "403" },
-  },
+  // Failed mail of the shop: the desk (owner, service writer) only.
+  { name: "shop outbox page", kind: "page", path: () => "/shop/copper-gulch/outbox", expect: { ...STAFF_OF_THE_SHOP, technician: "403" } },
   { name: "draft a finding page", kind: "page", path: () => "/shop/copper-gulch/jobs/5/findings/new", expect: STAFF_OF_THE_SHOP },
   { name: "finding page", kind: "page", path: () => `/shop/copper-gulch/jobs/5/findings/${demoFinding}`, expect: STAFF_OF_THE_SHOP },
-  {
-    name: "job approvals API",
-    kind: "api",
-    path: () => `/api/jobs/${customerJobPath.split("/").pop()}/approvals`,
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "404", jobCustomer: "403", otherCustomer: "404" },
-  },
-  {
-    name: "owner's approval request page",
-    kind: "page",
-    path: () => `${customerJobPath}/approvals/${demoRequest}`,
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
-  },
-  {
-    // Staff land on the finding's page, the machine's owner on the answer page.
-    name: "approval link from the timeline",
-    kind: "page",
-    path: () => `/my/approvals/${demoRequest}`,
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
-  },
-  {
-    name: "approval request API",
-    kind: "api",
-    path: () => `/api/approvals/${demoRequest}`,
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "404", jobCustomer: "in", otherCustomer: "404" },
-  },
-  {
-    // A photo that isn't evidence of the request: the same 404 for everyone signed in.
-    name: "approval evidence photo API",
-    kind: "api",
-    path: () => `/api/approvals/${demoRequest}/evidence/${"A".repeat(22)}/thumb`,
-    expect: { anonymous: "sign-in", owner: "404", writer: "404", technician: "404", otherShopTechnician: "404", jobCustomer: "404", otherCustomer: "404" },
-  },
-  {
-    name: "owner's job page",
-    kind: "page",
-    path: () => customerJobPath,
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
-  },
-  {
-    name: "job timeline API",
-    kind: "api",
-    path: () => `/api/jobs/${customerJobPath.split("/").pop()}/timeline`,
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "404", jobCustomer: "in", otherCustomer: "404" },
-  },
+  { name: "owner's approval request page", kind: "page", path: () => `${customerJobPath}/approvals/${demoRequest}`, expect: READS_THE_REQUEST },
+  // Staff land on the finding's page, the machine's owner on the answer page.
+  { name: "approval link from the timeline", kind: "page", path: () => `/my/approvals/${demoRequest}`, expect: READS_THE_REQUEST },
+  { name: "owner's job page", kind: "page", path: () => customerJobPath, expect: READS_THE_JOB },
   // Invoices (issue 9): the desk and the shop owner; the job's customer on their own page; technicians see no money.
   { name: "staff invoice page", kind: "page", path: () => "/shop/copper-gulch/jobs/5/invoice", expect: { ...STAFF_OF_THE_SHOP, technician: "403" } },
-  {
-    name: "owner's invoice page",
-    kind: "page",
-    path: () => `${customerJobPath}/invoice`,
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "403", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
-  },
-  {
-    name: "job invoice API",
-    kind: "api",
-    path: () => `/api/jobs/${customerJobPath.split("/").pop()}/invoice`,
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "403", otherShopTechnician: "404", jobCustomer: "in", otherCustomer: "404" },
-  },
-  {
-    name: "staff home",
-    kind: "page",
-    path: () => "/shop",
-    expect: { anonymous: "sign-in", owner: "in", writer: "in", technician: "in", otherShopTechnician: "in", jobCustomer: "403", otherCustomer: "403" },
-  },
+  // Staff without money rights are told no; anyone else isn't told the money exists.
+  { name: "owner's invoice page", kind: "page", path: () => `${customerJobPath}/invoice`, expect: { ...READS_THE_JOB, technician: "403", follower: "404" } },
+  // Any staff member, of any shop; a deactivated membership counts for nothing.
+  { name: "staff home", kind: "page", path: () => "/shop", expect: { ...signedIn("403"), owner: "in", writer: "in", technician: "in", otherShopOwner: "in", otherShopWriter: "in", otherShopTechnician: "in" } },
   // Public portfolio (issue 8): the desk curates, the shop owner edits the profile, only the
   // machine's owner answers; the public pages and files are for everyone.
   { name: "shop portfolio page", kind: "page", path: () => "/shop/copper-gulch/portfolio", expect: { ...STAFF_OF_THE_SHOP, technician: "403" } },
   { name: "shop profile editor", kind: "page", path: () => "/shop/copper-gulch/portfolio/profile", expect: { ...STAFF_OF_THE_SHOP, writer: "403", technician: "403" } },
-  {
-    name: "owner's portfolio consent page",
-    kind: "page",
-    path: () => `${customerJobPath}/portfolio`,
-    expect: { anonymous: "sign-in", owner: "403", writer: "403", technician: "403", otherShopTechnician: "403", jobCustomer: "in", otherCustomer: "403" },
-  },
+  // Those who may see the job but not answer for it are refused; to anyone else it doesn't exist.
+  { name: "owner's portfolio consent page", kind: "page", path: () => `${customerJobPath}/portfolio`, expect: { ...READS_THE_JOB, owner: "403", writer: "403", technician: "403", follower: "403" } },
   { name: "shop's public page", kind: "page", path: () => "/s/copper-gulch", expect: EVERYONE_IN },
-  { name: "unknown public story API", kind: "api", path: () => "/api/public/stories/copper-gulch/no-such-story", expect: EVERYONE_404 },
-  { name: "sitemap", kind: "api", path: () => "/sitemap.xml", expect: EVERYONE_IN },
-  { name: "robots.txt", kind: "api", path: () => "/robots.txt", expect: EVERYONE_IN },
+  { name: "sitemap", kind: "file", path: () => "/sitemap.xml", expect: EVERYONE_IN },
+  { name: "robots.txt", kind: "file", path: () => "/robots.txt", expect: EVERYONE_IN },
 ];
-
-async function apiStatus(request: APIRequestContext, path: string) {
-  return (await request.get(path, { maxRedirects: 0 })).status();
-}
 
 for (const visitor of VISITORS) {
   test.describe(`as ${visitor}`, () => {
@@ -167,14 +93,16 @@ for (const visitor of VISITORS) {
     for (const target of TARGETS) {
       const outcome = target.expect[visitor];
       test(`${target.name}: ${outcome}`, async ({ page }) => {
-        if (target.kind === "api") {
-          const status = await apiStatus(page.request, target.path());
-          expect(status).toBe({ in: 200, "403": 403, "404": 404, "sign-in": 401 }[outcome]);
+        if (target.kind === "file") {
+          expect((await page.request.get(target.path(), { maxRedirects: 0 })).status()).toBe(200);
           return;
         }
         const response = await page.goto(target.path());
         if (outcome === "sign-in") {
           await expect(page).toHaveURL(/\/sign-in\?next=/);
+        } else if (outcome === "404") {
+          expect(response?.status()).toBe(404);
+          await expect(page.getByRole("heading", { name: /can.t find that page/i })).toBeVisible();
         } else if (outcome === "403") {
           expect(response?.status()).toBe(403);
           await expect(page.getByRole("heading", { name: /isn.t yours to open/i })).toBeVisible();

@@ -80,14 +80,21 @@ test("a clip goes up in 1 MB chunks through a failed chunk, turns playable by it
   await staff.close();
 });
 
-test("a file that isn't a video ends as a clip that couldn't be processed, with the reason", async ({ page }) => {
+test("a file that isn't a video leaves no entry: the bench is told why, and the failed upload can be cleared", async ({ page }) => {
   test.setTimeout(60_000);
   const bench = new JobPage(page);
   await bench.open("/shop/copper-gulch/jobs/3");
   await page.getByRole("tab", { name: "Clip" }).click();
   await page.getByLabel("Choose clips").setInputFiles({ name: "parts-list.mp4", mimeType: "video/mp4", buffer: Buffer.from("this is a parts list, not a video\n") });
-  await expect(page.getByRole("list", { name: "Clips on their way" }).getByText(/Sent\./)).toBeVisible({ timeout: 30_000 });
-  await expect(page.getByRole("article").filter({ hasText: /not a decodable video|couldn.t be processed/i }).first()).toBeVisible({ timeout: 45_000 });
+  const queued = page.getByRole("list", { name: "Clips on their way" });
+  // The composer's own line turns from "Sent" to the service's reason once the clip is turned down.
+  await expect(queued.getByText(/couldn.t use it: .*not a decodable video.*not added to the journal/i)).toBeVisible({ timeout: 45_000 });
+  const failed = page.getByRole("list", { name: "Clips that couldn't be used" });
+  await expect(failed.getByText(/parts-list\.mp4/)).toBeVisible();
+  // Nothing of it is left on the timeline.
+  await expect(page.getByRole("article").filter({ hasText: /not a decodable video|parts-list/i })).toHaveCount(0);
+  await failed.getByRole("button", { name: "Clear parts-list.mp4 from the list" }).first().click();
+  await expect(page.getByRole("list", { name: "Clips that couldn't be used" })).toHaveCount(0);
 });
 
 test("a clip longer than the shop allows is refused with a clear message before it is sent", async ({ page }) => {

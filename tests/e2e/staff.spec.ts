@@ -47,15 +47,15 @@ test("staff signs in with a password and sees the shop's job table", async ({ pa
 
 test("a wrong password shows a clear error and signs nobody in", async ({ page }) => {
   await new SignInPage(page).signInAsStaff("priya@coppergulch.test", "not-the-password");
-  await expect(page.getByRole("main").getByRole("alert")).toContainText("That password doesn't match this account");
+  await expect(page.getByRole("main").getByRole("alert")).toContainText("That e-mail address and password don't match a shop account");
   await expect(page).toHaveURL(/\/sign-in/);
   await page.goto("/shop");
   await expect(page).toHaveURL(/\/sign-in\?next=%2Fshop/);
 });
 
-test("an unknown staff e-mail says so", async ({ page }) => {
+test("an unknown staff e-mail gets the same answer as a wrong password: accounts can't be probed", async ({ page }) => {
   await new SignInPage(page).signInAsStaff("nobody@coppergulch.test", "whatever-it-is");
-  await expect(page.getByRole("main").getByRole("alert")).toContainText("No shop account uses that e-mail address");
+  await expect(page.getByRole("main").getByRole("alert")).toContainText("That e-mail address and password don't match a shop account");
 });
 
 test("the job list API needs a session and a membership", async ({ request }) => {
@@ -76,7 +76,7 @@ test("after five wrong passwords the account says to wait, even for the right on
   const signIn = new SignInPage(page);
   for (let i = 0; i < 5; i++) {
     await signIn.signInAsStaff(wren.email, `wrong-${i}`);
-    await expect(page.getByRole("main").getByRole("alert")).toContainText("That password doesn't match");
+    await expect(page.getByRole("main").getByRole("alert")).toContainText("That e-mail address and password don't match");
   }
   await signIn.signInAsStaff(wren.email, wren.password);
   await expect(page.getByRole("main").getByRole("alert")).toContainText("Too many tries. Wait 15 minutes");

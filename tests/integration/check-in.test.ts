@@ -72,16 +72,16 @@ describe("checking a machine in", () => {
       created_by_user_id: writer,
     });
     expect(job.publicId).toMatch(/^[A-Za-z0-9_-]{16}$/);
-    expect(await db("customers").where({ id: row.customer_id }).first()).toMatchObject({
+    expect(await db("customers").where({ id: row!.customer_id }).first()).toMatchObject({
       shop_id: shop.id,
       name: "Hollis Varga",
       email: "hollis.varga@mail.test",
       phone: "+1 555 010 2233",
       user_id: null,
     });
-    expect(await db("machines").where({ id: row.machine_id }).first()).toMatchObject({
+    expect(await db("machines").where({ id: row!.machine_id }).first()).toMatchObject({
       shop_id: shop.id,
-      customer_id: row.customer_id,
+      customer_id: row!.customer_id,
       kind: "dirt_bike",
       year: 2020,
       make: "Corvane",
@@ -179,7 +179,7 @@ describe("checking a machine in", () => {
     });
     expect(await snapshot([shop.id])).toEqual(before);
     const job = await checkInJob({ shopId: shop.id, userId: shop.staff.owner!.id, input: { ...input, promisedOn: "2026-12-01" }, today: "2026-12-01" });
-    expect((await db("jobs").where({ id: job.id }).first()).promised_on).toBe("2026-12-01");
+    expect((await db("jobs").where({ id: job.id }).first())!.promised_on).toBe("2026-12-01");
   });
 
   it("refuses a new owner whose e-mail this shop already has, and writes nothing", async () => {
@@ -207,7 +207,7 @@ describe("checking a machine in", () => {
       userId: shop.staff.owner!.id,
       input: checkInSchema.parse({ customerMode: "existing", customerId: String(onFile.customerId), machineMode: "existing", machineId: String(onFile.machineId), concern: "c" }),
     });
-    expect((await db("customers").where({ id: onFile.customerId }).first()).user_id).toBe(Number(laterUser));
+    expect((await db("customers").where({ id: onFile.customerId }).first())!.user_id).toBe(Number(laterUser));
   });
 });
 

@@ -20,8 +20,12 @@ describe("demo seed", () => {
   });
 
   it("has an owner, a service writer and a technician who can sign in with the README passwords", async () => {
-    const staff = await fresh.knex("memberships as m").join("users as u", "u.id", "m.user_id").join("shops as s", "s.id", "m.shop_id").where("s.slug", "copper-gulch").select("m.role", "u.password_hash");
+    const members = fresh.knex("memberships as m").join("users as u", "u.id", "m.user_id").join("shops as s", "s.id", "m.shop_id").where("s.slug", "copper-gulch");
+    const staff = await members.clone().whereNull("m.deactivated_at").select("m.role", "u.password_hash");
     expect(staff.map((s) => s.role).sort()).toEqual(["owner", "service_writer", "technician"]);
+    // And a technician who has left: kept for the history, no longer on the staff.
+    const former = await members.clone().whereNotNull("m.deactivated_at").select("m.role", "u.email");
+    expect(former).toEqual([{ role: "technician", email: "rafe@coppergulch.test" }]);
     const byRole = Object.fromEntries(staff.map((s) => [s.role, s.password_hash]));
     expect(await bcrypt.compare(DEMO_PASSWORDS.owner, byRole.owner)).toBe(true);
     expect(await bcrypt.compare(DEMO_PASSWORDS.service_writer, byRole.service_writer)).toBe(true);
@@ -30,15 +34,15 @@ describe("demo seed", () => {
 
   it("has three customers with machines and jobs in at least five different states, each with its history", async () => {
     const shop = await fresh.knex("shops").where({ slug: "copper-gulch" }).first();
-    expect(await fresh.knex("customers").where({ shop_id: shop.id }).count({ n: "*" }).first()).toEqual({ n: 3 });
-    const jobs = await fresh.knex("jobs").where({ shop_id: shop.id }).select("id", "status", "number");
+    expect(await fresh.knex("customers").where({ shop_id: shop!.id }).count({ n: "*" }).first()).toEqual({ n: 3 });
+    const jobs = await fresh.knex("jobs").where({ shop_id: shop!.id }).select("id", "status", "number");
     expect(new Set(jobs.map((j) => j.status)).size).toBeGreaterThanOrEqual(5);
     for (const status of new Set(jobs.map((j) => j.status))) expect(JOB_STATUSES).toContain(status);
-    expect(Number(shop.next_job_number)).toBe(jobs.length + 1);
+    expect(Number(shop!.next_job_number)).toBe(jobs.length + 1);
     for (const job of jobs) {
       const last = await fresh.knex("job_status_changes").where({ job_id: job.id }).orderBy("changed_at", "desc").orderBy("id", "desc").first();
-      expect(last.to_status).toBe(job.status);
-      expect(new Date(last.changed_at).getTime()).toBeLessThanOrEqual(Date.now());
+      expect(last!.to_status).toBe(job.status);
+      expect(new Date(last!.changed_at).getTime()).toBeLessThanOrEqual(Date.now());
     }
   });
 });

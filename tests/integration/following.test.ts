@@ -10,8 +10,9 @@ import { checkInJob } from "@/db/queries/check-in";
 import { notifyNow, subscribeOwner } from "@/db/queries/following";
 import { claimCustomerRecords, isCustomerAddress } from "@/db/queries/users";
 import { checkInSchema } from "@/lib/schemas/check-in";
-import type { Actor } from "@/lib/permissions";
-import { db } from "@/lib/server/db";
+import type { Action, Actor } from "@/lib/permissions";
+import { db } from "@/db/client";
+import { access } from "@/lib/server/access";
 import { inviteFollowerAs, setOwnFrequency } from "@/lib/server/following";
 import { changeJobStatus, postEntry, readTimeline } from "@/lib/server/journal";
 import { runOutboxOnce } from "@/lib/server/outbox-worker";
@@ -46,7 +47,9 @@ async function deliver(at = new Date()) {
   return swept;
 }
 const mailTo = async (to: string, subject: string) => (await listMail(fake.url, { to })).filter((m) => m.subject.includes(subject));
-const subscriberOf = async (email: string) => k("job_subscribers").where({ job_id: jobId, email }).first();
+const subscriberOf = async (email: string) => (await k("job_subscribers").where({ job_id: jobId, email }).first())!;
+/** The job as the owner's and staff's actions and the timeline handler find it: resolved and authorised (lib/server/access.ts). */
+const onJob = (actor: Actor, permission: Action) => access(actor, "job", publicId, permission);
 const post = (token: string, cookie?: string) =>
   unsubscribePost(new NextRequest(`${APP}/u/${token}`, { method: "POST", body: "List-Unsubscribe=One-Click", headers: { "content-type": "application/x-www-form-urlencoded", ...(cookie ? { cookie } : {}) } }), { params: Promise.resolve({ token }) });
 
@@ -64,8 +67,8 @@ beforeAll(async () => {
   const [userId] = await k("users").insert({ email: OWNER, name: "Vera Lindgren" });
   const made = await makeCustomerWithJobs(k, shop.id, { name: "Vera Lindgren", email: OWNER, userId: Number(userId), statuses: ["in_progress"] });
   jobId = made.jobIds[0]!;
-  publicId = String((await k("jobs").where({ id: jobId }).first("public_id")).public_id);
-  await subscribeOwner(db(), { shopId: shop.id, jobId, email: OWNER, userId: Number(userId) });
+  publicId = String((await k("jobs").where({ id: jobId }).first("public_id"))!.public_id);
+  await subscribeOwner({ shopId: shop.id, jobId, email: OWNER, userId: Number(userId) });
   owner = { userId: Number(userId), email: OWNER, name: "Vera Lindgren", memberships: [] };
   tech = { userId: shop.staff.technician!.id, email: shop.staff.technician!.email, name: "Tech", memberships: [{ shopId: shop.id, shopSlug: shop.slug, shopName: "Kettle Creek Motors", role: "technician" }] };
 });
@@ -90,10 +93,10 @@ describe("following a job", () => {
   });
 
   it("the owner invites a follower, who gets an invitation, may ask for a sign-in link, and is linked on sign-in", async () => {
-    await expect(inviteFollowerAs(tech, publicId, FOLLOWER)).rejects.toMatchObject({ code: "forbidden" });
-    await expect(inviteFollowerAs(owner, publicId, OWNER)).rejects.toMatchObject({ code: "conflict" });
-    await inviteFollowerAs(owner, publicId, FOLLOWER);
-    await expect(inviteFollowerAs(owner, publicId, FOLLOWER.toUpperCase())).rejects.toMatchObject({ code: "conflict" });
+    await expect(access(tech, "job", publicId, "job:follow-manage")).rejects.toMatchObject({ code: "forbidden" });
+    await expect(inviteFollowerAs(owner, await onJob(owner, "job:follow-manage"), OWNER)).rejects.toMatchObject({ code: "conflict" });
+    await inviteFollowerAs(owner, await onJob(owner, "job:follow-manage"), FOLLOWER);
+    await expect(inviteFollowerAs(owner, await onJob(owner, "job:follow-manage"), FOLLOWER.toUpperCase())).rejects.toMatchObject({ code: "conflict" });
     expect(await isCustomerAddress({ email: FOLLOWER })).toBe(true);
     expect((await deliver()).alerts).toBe(1);
     const [invite] = await mailTo(FOLLOWER, "invited you to follow");
@@ -103,13 +106,13 @@ describe("following a job", () => {
     const user = await claimCustomerRecords({ email: FOLLOWER });
     expect((await subscriberOf(FOLLOWER)).user_id).toBe(user.id);
     const follower: Actor = { userId: user.id, email: FOLLOWER, name: user.name, memberships: [] };
-    expect((await readTimeline(follower, publicId, { order: "desc", limit: 10, as: "owner" })).audience).toBe("follower");
+    expect((await readTimeline(follower, await onJob(follower, "job:view"), { order: "desc", limit: 10, as: "owner" })).audience).toBe("follower");
   });
 
   it("groups 5 entries shared within the window into one e-mail per subscriber", async () => {
     const texts = ["Carb off", "Float bowl varnished", "Jets cleaned", "New bowl gasket", "Carb refitted"];
-    for (const text of texts) await postEntry(tech, publicId, { kind: "note", note: note(text), visibility: "shared" });
-    await postEntry(tech, publicId, { kind: "note", note: note("Customer haggles, quote high"), visibility: "shop" });
+    for (const text of texts) await postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note(text), visibility: "shared" });
+    await postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note("Customer haggles, quote high"), visibility: "shop" });
     expect((await deliver()).progress).toBe(0); // the window (15 minutes) hasn't passed
     expect(await mailTo(OWNER, "5 updates")).toHaveLength(0);
     expect((await deliver(minutes(16))).progress).toBe(2);
@@ -136,9 +139,9 @@ describe("following a job", () => {
   });
 
   it("ready to collect goes out at once to every subscriber, even one who wants only pick-up and approvals", async () => {
-    const follower = (await subscriberOf(FOLLOWER)) as { user_id: number };
-    await setOwnFrequency({ userId: follower.user_id, email: FOLLOWER, name: "T", memberships: [] }, publicId, "decisions");
-    await changeJobStatus(tech, publicId, { from: "in_progress", to: "ready", note: null });
+    const follower: Actor = { userId: (await subscriberOf(FOLLOWER)).user_id!, email: FOLLOWER, name: "T", memberships: [] };
+    await setOwnFrequency(follower, await onJob(follower, "job:follow"), "decisions");
+    await changeJobStatus(tech, await onJob(tech, "job:change-status"), { from: "in_progress", to: "ready", note: null });
     expect((await deliver()).alerts).toBeGreaterThan(0);
     expect(await mailTo(FOLLOWER, "Ready to collect")).toHaveLength(1);
     const [ready] = await mailTo(OWNER, "Ready to collect");
@@ -148,10 +151,10 @@ describe("following a job", () => {
 
   it("followers never get money or decisions: not on their timeline, not in their mail", async () => {
     const [entryId] = await k("journal_entries").insert({ shop_id: shop.id, job_id: jobId, kind: "approval", visibility: "shared", body: JSON.stringify({ total: 48000 }) });
-    const follower = (await subscriberOf(FOLLOWER)) as { user_id: number };
-    const asFollower = await readTimeline({ userId: follower.user_id, email: FOLLOWER, name: "T", memberships: [] }, publicId, { order: "desc", limit: 50 });
+    const follower: Actor = { userId: (await subscriberOf(FOLLOWER)).user_id!, email: FOLLOWER, name: "T", memberships: [] };
+    const asFollower = await readTimeline(follower, await onJob(follower, "job:view"), { order: "desc", limit: 50 });
     expect(asFollower.entries.map((e) => e.id)).not.toContain(Number(entryId));
-    expect((await readTimeline(owner, publicId, { order: "desc", limit: 50 })).entries.map((e) => e.id)).toContain(Number(entryId));
+    expect((await readTimeline(owner, await onJob(owner, "job:view"), { order: "desc", limit: 50 })).entries.map((e) => e.id)).toContain(Number(entryId));
 
     await db().transaction((tx) => notifyNow(tx, { shopId: shop.id, jobId, kind: "approval_request", payload: { title: "Rear pads at 1 mm: replace", link: "/my/jobs/x" } }));
     await deliver();
@@ -191,18 +194,18 @@ describe("following a job", () => {
     expect((await subscriberOf(OWNER)).unsubscribed_at).not.toBeNull();
     expect((await post(good)).status).toBe(200); // twice is fine
 
-    await postEntry(tech, publicId, { kind: "note", note: note("Test ride done"), visibility: "shared" });
+    await postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note("Test ride done"), visibility: "shared" });
     await deliver(minutes(16));
     expect(await mailTo(OWNER, "1 update")).toHaveLength(0);
-    await setOwnFrequency(owner, publicId, "every"); // re-subscribing from the job page
+    await setOwnFrequency(owner, await onJob(owner, "job:follow"), "every"); // re-subscribing from the job page
     expect((await subscriberOf(OWNER)).unsubscribed_at).toBeNull();
   });
 
   it("a daily subscriber gets one digest after the shop's digest hour, not one per batch", async () => {
-    const follower = (await subscriberOf(FOLLOWER)) as { user_id: number };
-    await setOwnFrequency({ userId: follower.user_id, email: FOLLOWER, name: "T", memberships: [] }, publicId, "daily");
-    await postEntry(tech, publicId, { kind: "note", note: note("Chain adjusted"), visibility: "shared" });
-    await postEntry(tech, publicId, { kind: "note", note: note("Tyres at 18 psi"), visibility: "shared" });
+    const follower: Actor = { userId: (await subscriberOf(FOLLOWER)).user_id!, email: FOLLOWER, name: "T", memberships: [] };
+    await setOwnFrequency(follower, await onJob(follower, "job:follow"), "daily");
+    await postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note("Chain adjusted"), visibility: "shared" });
+    await postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note("Tyres at 18 psi"), visibility: "shared" });
     expect((await deliver()).daily).toBe(0);
     expect((await deliver(minutes(25 * 60))).daily).toBe(1);
     const [digest] = await mailTo(FOLLOWER, "Today at Kettle Creek Motors");
@@ -212,12 +215,12 @@ describe("following a job", () => {
   });
   it("the last part arriving tells the owner at once, in one e-mail, not again in the digest", async () => {
     // Back on the bench after "ready" above (a comeback before pick-up), then waiting on a part.
-    await changeJobStatus(tech, publicId, { from: "ready", to: "in_progress", note: null });
+    await changeJobStatus(tech, await onJob(tech, "job:change-status"), { from: "ready", to: "in_progress", note: null });
     await deliver(minutes(16));
-    const part = await addJobPart(tech, { job: publicId, description: "Clutch cable", partNumber: null, supplier: null, qty: "1", cost: "12.00", status: "ordered", expectedOn: null });
+    const part = await addJobPart(tech, await onJob(tech, "parts:manage"), { job: publicId, description: "Clutch cable", partNumber: null, supplier: null, qty: "1", cost: "12.00", status: "ordered", expectedOn: null });
     expect(part.jobMovedTo).toBe("waiting_parts");
     await deliver(minutes(16));
-    await changeJobPartStatus(tech, { job: publicId, part: part.id, from: "ordered", to: "received", expectedOn: null });
+    await changeJobPartStatus(tech, await onJob(tech, "parts:manage"), { part: part.id, from: "ordered", to: "received", expectedOn: null });
     expect((await deliver()).alerts).toBeGreaterThan(0);
     expect(await mailTo(OWNER, "Parts are in")).toHaveLength(1);
     await deliver(minutes(40));

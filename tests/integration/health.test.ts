@@ -1,6 +1,7 @@
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
+import { NextRequest } from "next/server";
 import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from "vitest";
 import { createMailFake, type MailFake } from "@/fakes/mail/server";
 import { connectTestDatabase } from "../support/db";
@@ -27,7 +28,7 @@ beforeEach(async () => {
 
 async function health() {
   const { GET } = await import("@/app/api/health/route");
-  const res = await GET();
+  const res = await GET(new NextRequest("http://app.test/api/health"), { params: Promise.resolve({}) });
   return { status: res.status, body: (await res.json()) as Record<string, unknown> };
 }
 

@@ -5,8 +5,9 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { changeEntry, getPhotoAccess, listTimeline, moveJobStatus } from "@/db/queries/journal";
 import { AppError } from "@/lib/errors";
-import type { Actor } from "@/lib/permissions";
-import { db } from "@/lib/server/db";
+import type { Action, Actor } from "@/lib/permissions";
+import { db } from "@/db/client";
+import { access } from "@/lib/server/access";
 import { changeJobStatus, editEntry, postEntry, readTimeline, uploadPhoto } from "@/lib/server/journal";
 import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
 import { testKnex } from "../support/db";
@@ -27,6 +28,8 @@ describe("job journal", () => {
   let tech: Actor;
   let writer: Actor;
   let uploads: string;
+  /** The job as the entries and timeline handlers and the status action find it: resolved and authorised (lib/server/access.ts). */
+  const onJob = (actor: Actor, permission: Action) => access(actor, "job", publicId, permission);
 
   beforeAll(async () => {
     k = testKnex();
@@ -37,7 +40,7 @@ describe("job journal", () => {
     const [userId] = await k("users").insert({ email: `owner.${shop.slug}@mail.test`, name: "Rae Quill" });
     const made = await makeCustomerWithJobs(k, shop.id, { name: "Rae Quill", userId: Number(userId), statuses: ["checked_in"] });
     jobId = made.jobIds[0]!;
-    publicId = String((await k("jobs").where({ id: jobId }).first("public_id")).public_id);
+    publicId = String((await k("jobs").where({ id: jobId }).first("public_id"))!.public_id);
     owner = { userId: Number(userId), email: `owner.${shop.slug}@mail.test`, name: "Rae Quill", memberships: [] };
     tech = staffActor(shop, "technician");
     writer = staffActor(shop, "service_writer");
@@ -48,91 +51,91 @@ describe("job journal", () => {
   });
 
   it("new entries are shop-only; the owner sees only what is shared", async () => {
-    const hidden = await postEntry(tech, publicId, { kind: "note", note: note("metal flakes on the drain plug magnet"), visibility: "shop" });
-    const shown = await postEntry(tech, publicId, { kind: "note", note: note("Oil drained, filter off."), visibility: "shared" });
-    const forOwner = await readTimeline(owner, publicId, { order: "desc", limit: 50 });
+    const hidden = await postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note("metal flakes on the drain plug magnet"), visibility: "shop" });
+    const shown = await postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note("Oil drained, filter off."), visibility: "shared" });
+    const forOwner = await readTimeline(owner, await onJob(owner, "job:view"), { order: "desc", limit: 50 });
     expect(forOwner.audience).toBe("owner");
     const ids = forOwner.entries.map((e) => e.id);
     expect(ids).toContain(shown.id);
     expect(ids).not.toContain(hidden.id);
     // Staff-only fields are left out of the owner's answer altogether.
     expect(JSON.stringify(forOwner)).not.toMatch(/"version"|"mine"|metal flakes/);
-    const forShop = await readTimeline(tech, publicId, { order: "asc", limit: 50 });
+    const forShop = await readTimeline(tech, await onJob(tech, "job:view"), { order: "asc", limit: 50 });
     expect(forShop.entries.map((e) => e.id)).toEqual(expect.arrayContaining([hidden.id, shown.id]));
     expect(forShop.entries.find((e) => e.id === hidden.id)?.visibility).toBe("shop");
   });
 
   it("staff can read the timeline as the owner does", async () => {
-    const asOwner = await readTimeline(tech, publicId, { order: "desc", limit: 50, as: "owner" });
+    const asOwner = await readTimeline(tech, await onJob(tech, "job:view"), { order: "desc", limit: 50, as: "owner" });
     expect(asOwner.entries.every((e) => e.visibility === "shared")).toBe(true);
   });
 
   it("someone else's job answers 404, to staff of another shop and to another customer", async () => {
     const stranger: Actor = { userId: 999_999, email: "x@mail.test", name: "X", memberships: [] };
-    await expect(readTimeline(staffActor(other, "technician"), publicId, { order: "desc", limit: 10 })).rejects.toMatchObject({ code: "not_found" });
-    await expect(readTimeline(stranger, publicId, { order: "desc", limit: 10 })).rejects.toMatchObject({ code: "not_found" });
-    await expect(postEntry(owner, publicId, { kind: "note", note: note("hi"), visibility: "shared" })).rejects.toMatchObject({ code: "forbidden" });
+    await expect(access(staffActor(other, "technician"), "job", publicId, "job:view")).rejects.toMatchObject({ code: "not_found" });
+    await expect(access(stranger, "job", publicId, "job:view")).rejects.toMatchObject({ code: "not_found" });
+    await expect(access(owner, "job", publicId, "journal:post")).rejects.toMatchObject({ code: "forbidden" });
   });
 
   it("bad notes are refused and nothing is written", async () => {
     const before = await k("journal_entries").where({ job_id: jobId }).count({ n: "*" }).first();
-    await expect(postEntry(tech, publicId, { kind: "note", note: { type: "doc", content: [] }, visibility: "shop" })).rejects.toThrow();
-    await expect(postEntry(tech, publicId, { kind: "note", note: { type: "doc", content: [{ type: "script", text: "x" }] }, visibility: "shop" })).rejects.toThrow();
-    await expect(postEntry(tech, publicId, { kind: "note", note: note("x".repeat(200_000)), visibility: "shop" })).rejects.toThrow();
+    await expect(postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: { type: "doc", content: [] }, visibility: "shop" })).rejects.toThrow();
+    await expect(postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: { type: "doc", content: [{ type: "script", text: "x" }] }, visibility: "shop" })).rejects.toThrow();
+    await expect(postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note("x".repeat(200_000)), visibility: "shop" })).rejects.toThrow();
     const after = await k("journal_entries").where({ job_id: jobId }).count({ n: "*" }).first();
     expect(Number(after?.n)).toBe(Number(before?.n));
   });
 
   it("an edit keeps the old version in history; a stale version is refused; only the author may edit", async () => {
-    const { id } = await postEntry(tech, publicId, { kind: "note", note: note("first words"), visibility: "shop" });
-    const edited = await editEntry(tech, publicId, id, { version: 1, note: note("better words") });
+    const { id } = await postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note("first words"), visibility: "shop" });
+    const edited = await editEntry(tech, await onJob(tech, "journal:post"), id, { version: 1, note: note("better words") });
     expect(edited.version).toBe(2);
-    await expect(editEntry(tech, publicId, id, { version: 1, note: note("lost update") })).rejects.toMatchObject({ code: "conflict" });
-    await expect(editEntry(writer, publicId, id, { version: 2, visibility: "shared" })).rejects.toMatchObject({ code: "forbidden" });
+    await expect(editEntry(tech, await onJob(tech, "journal:post"), id, { version: 1, note: note("lost update") })).rejects.toMatchObject({ code: "conflict" });
+    await expect(editEntry(writer, await onJob(writer, "journal:post"), id, { version: 2, visibility: "shared" })).rejects.toMatchObject({ code: "forbidden" });
     const revisions = await k("journal_entry_revisions").where({ entry_id: id });
     expect(revisions).toHaveLength(1);
-    expect(JSON.stringify(revisions[0].body)).toContain("first words");
+    expect(JSON.stringify(revisions[0]!.body)).toContain("first words");
     // The shop owner may tidy anyone's entries.
-    await editEntry(staffActor(shop, "owner"), publicId, id, { version: 2, visibility: "shared" });
+    await editEntry(staffActor(shop, "owner"), await onJob(staffActor(shop, "owner"), "journal:post"), id, { version: 2, visibility: "shared" });
   });
 
   it("a deleted shared entry disappears for the owner and stays in history", async () => {
-    const { id } = await postEntry(tech, publicId, { kind: "note", note: note("to be deleted"), visibility: "shared" });
-    expect((await readTimeline(owner, publicId, { order: "desc", limit: 100 })).entries.map((e) => e.id)).toContain(id);
-    await editEntry(tech, publicId, id, { version: 1, delete: true });
-    expect((await readTimeline(owner, publicId, { order: "desc", limit: 100 })).entries.map((e) => e.id)).not.toContain(id);
-    expect((await readTimeline(tech, publicId, { order: "desc", limit: 100 })).entries.map((e) => e.id)).not.toContain(id);
+    const { id } = await postEntry(tech, await onJob(tech, "journal:post"), { kind: "note", note: note("to be deleted"), visibility: "shared" });
+    expect((await readTimeline(owner, await onJob(owner, "job:view"), { order: "desc", limit: 100 })).entries.map((e) => e.id)).toContain(id);
+    await editEntry(tech, await onJob(tech, "journal:post"), id, { version: 1, delete: true });
+    expect((await readTimeline(owner, await onJob(owner, "job:view"), { order: "desc", limit: 100 })).entries.map((e) => e.id)).not.toContain(id);
+    expect((await readTimeline(tech, await onJob(tech, "job:view"), { order: "desc", limit: 100 })).entries.map((e) => e.id)).not.toContain(id);
     const kept = await k("journal_entries").where({ id }).first();
-    expect(kept.deleted_at).not.toBeNull();
+    expect(kept?.deleted_at).not.toBeNull();
     expect(await k("journal_entry_revisions").where({ entry_id: id, change: "delete" })).toHaveLength(1);
   });
 
   it("photos: uploaded, posted as a set; a shop-only photo is not the owner's to fetch", async () => {
     const fixture = fs.readFileSync(path.join(__dirname, "../fixtures/photos/gps.jpg"));
-    const a = await uploadPhoto(tech, publicId, new File([fixture], "a.jpg", { type: "image/jpeg" }));
-    const b = await uploadPhoto(tech, publicId, new File([fixture], "b.jpg", { type: "image/jpeg" }));
+    const a = await uploadPhoto(tech, await onJob(tech, "journal:post"), new File([fixture], "a.jpg", { type: "image/jpeg" }));
+    const b = await uploadPhoto(tech, await onJob(tech, "journal:post"), new File([fixture], "b.jpg", { type: "image/jpeg" }));
     const exe = new File([Buffer.concat([Buffer.from("MZ"), Buffer.alloc(200)])], "c.jpg", { type: "image/jpeg" });
-    await expect(uploadPhoto(tech, publicId, exe)).rejects.toBeInstanceOf(AppError);
-    const { id } = await postEntry(tech, publicId, { kind: "photos", photoIds: [a.id, b.id], caption: "Cam chain slider", visibility: "shop" });
-    const entry = (await readTimeline(tech, publicId, { order: "desc", limit: 100 })).entries.find((e) => e.id === id);
+    await expect(uploadPhoto(tech, await onJob(tech, "journal:post"), exe)).rejects.toBeInstanceOf(AppError);
+    const { id } = await postEntry(tech, await onJob(tech, "journal:post"), { kind: "photos", photoIds: [a.id, b.id], caption: "Cam chain slider", visibility: "shop" });
+    const entry = (await readTimeline(tech, await onJob(tech, "job:view"), { order: "desc", limit: 100 })).entries.find((e) => e.id === id);
     expect(entry?.photos.map((p) => p.id)).toEqual([a.id, b.id]);
     expect((await getPhotoAccess({ publicId: a.id }))?.sharedWithOwner).toBe(false);
-    await editEntry(tech, publicId, id, { version: 1, visibility: "shared" });
+    await editEntry(tech, await onJob(tech, "journal:post"), id, { version: 1, visibility: "shared" });
     expect((await getPhotoAccess({ publicId: a.id }))?.sharedWithOwner).toBe(true);
     // Posting the same photos twice, or photos of another job, is refused.
-    await expect(postEntry(tech, publicId, { kind: "photos", photoIds: [a.id], visibility: "shop" })).rejects.toMatchObject({ code: "conflict" });
-    await expect(postEntry(tech, publicId, { kind: "photos", photoIds: ["A".repeat(22)], visibility: "shop" })).rejects.toMatchObject({ code: "not_found" });
+    await expect(postEntry(tech, await onJob(tech, "journal:post"), { kind: "photos", photoIds: [a.id], visibility: "shop" })).rejects.toMatchObject({ code: "conflict" });
+    await expect(postEntry(tech, await onJob(tech, "journal:post"), { kind: "photos", photoIds: ["A".repeat(22)], visibility: "shop" })).rejects.toMatchObject({ code: "not_found" });
   });
 
   it("a status jump the rules don't allow, or from a stale status, is refused and writes nothing", async () => {
     const count = async () => Number((await k("job_status_changes").where({ job_id: jobId }).count({ n: "*" }).first())?.n);
     const before = await count();
-    const status = String((await k("jobs").where({ id: jobId }).first("status")).status) as "checked_in";
-    await expect(changeJobStatus(tech, publicId, { from: status, to: "picked_up", note: null })).rejects.toMatchObject({ code: "invalid", message: expect.stringMatching(/can't go straight to "Collected"/) });
-    await expect(changeJobStatus(tech, publicId, { from: "ready", to: "picked_up", note: null })).rejects.toMatchObject({ code: "conflict" });
-    await expect(changeJobStatus(owner, publicId, { from: status, to: "inspecting", note: null })).rejects.toMatchObject({ code: "forbidden" });
+    const status = String((await k("jobs").where({ id: jobId }).first("status"))!.status) as "checked_in";
+    await expect(changeJobStatus(tech, await onJob(tech, "job:change-status"), { from: status, to: "picked_up", note: null })).rejects.toMatchObject({ code: "invalid", message: expect.stringMatching(/can't go straight to "Collected"/) });
+    await expect(changeJobStatus(tech, await onJob(tech, "job:change-status"), { from: "ready", to: "picked_up", note: null })).rejects.toMatchObject({ code: "conflict" });
+    await expect(access(owner, "job", publicId, "job:change-status")).rejects.toMatchObject({ code: "forbidden" });
     expect(await count()).toBe(before);
-    expect((await k("jobs").where({ id: jobId }).first("status")).status).toBe(status);
+    expect((await k("jobs").where({ id: jobId }).first("status"))!.status).toBe(status);
   });
 
   it("status moves: two people pressing at once give one move, one history row and one entry", async () => {
@@ -141,10 +144,10 @@ describe("job journal", () => {
     expect(await k("job_status_changes").where({ job_id: jobId, to_status: "inspecting" })).toHaveLength(1);
     const statusEntries = await k("journal_entries").where({ job_id: jobId, kind: "status" });
     expect(statusEntries).toHaveLength(1);
-    expect(statusEntries[0].visibility).toBe("shared");
+    expect(statusEntries[0]!.visibility).toBe("shared");
     // A status entry is a record: no edit, no hiding, no delete.
     for (const change of [{ caption: "x" }, { visibility: "shop" as const }, { delete: true as const }]) {
-      await expect(changeEntry({ shopId: shop.id, jobId, entryId: Number(statusEntries[0].id), userId: tech.userId, mayModerate: true, expectedVersion: 1, change })).rejects.toMatchObject({
+      await expect(changeEntry({ shopId: shop.id, jobId, entryId: Number(statusEntries[0]!.id), userId: tech.userId, mayModerate: true, expectedVersion: 1, change })).rejects.toMatchObject({
         code: "invalid",
       });
     }
@@ -167,7 +170,7 @@ describe("timeline queries", () => {
       shop_id: shop.id,
       job_id: jobId,
       kind: i % 3 === 0 ? "photos" : "note",
-      visibility: i % 2 ? "shared" : "shop",
+      visibility: i % 2 ? ("shared" as const) : ("shop" as const),
       author_user_id: userId,
       body: JSON.stringify(note(`entry ${i}`)),
     }));

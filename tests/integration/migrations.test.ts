@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { freshDatabase } from "../support/db";
 
-const TABLES = ["shops", "users", "memberships", "customers", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events"];
+const TABLES = ["shops", "users", "memberships", "customers", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events", "user_sessions"];
 
 describe("migrations on an empty database", () => {
   let fresh: Awaited<ReturnType<typeof freshDatabase>>;
@@ -30,6 +30,8 @@ describe("migrations on an empty database", () => {
       expect(t!.engine).toBe("InnoDB");
       expect(t!.collation).toMatch(/^utf8mb4_/);
     }
+    // Columns added to existing tables by later migrations.
+    expect(await db.schema.hasColumn("memberships", "deactivated_at")).toBe(true);
   });
 
   it("keep a job's customer and machine in the job's own shop (composite foreign keys)", async () => {

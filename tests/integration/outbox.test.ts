@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { createMailFake, type MailFake } from "@/fakes/mail/server";
 import { claimBatch, enqueueMail, listOutboxProblems, retryOutboxMail } from "@/db/queries/outbox";
-import { db } from "@/lib/server/db";
+import { db } from "@/db/client";
 import { resend } from "@/lib/server/mail";
 import { runOutboxOnce } from "@/lib/server/outbox-worker";
 import { freshDatabase } from "../support/db";
@@ -76,9 +76,9 @@ describe("enqueueMail", () => {
     expect(b).toBe(a);
     const row = await k("outbox").where({ id: a }).first();
     // RFC 5322 §3.2.4: a quoted display name, its quote escaped, keeps the comma from splitting the header.
-    expect(row.from_address).toBe('"Ridge, \\"Rock\\" & Son" <no-reply@benchside.test>');
-    expect(row.reply_to).toBe("desk@ridge-rock.test");
-    expect(row.idempotency_key).toMatch(/^[0-9a-f-]{36}$/);
+    expect(row!.from_address).toBe('"Ridge, \\"Rock\\" & Son" <no-reply@benchside.test>');
+    expect(row!.reply_to).toBe("desk@ridge-rock.test");
+    expect(row!.idempotency_key).toMatch(/^[0-9a-f-]{36}$/);
   });
 
   it("refuses a subject with a line break or a forged From header, writing nothing", async () => {
@@ -182,7 +182,7 @@ describe("the outbox worker", () => {
     await failNext(fake.url, 1, 429);
     const run = await runOutboxOnce({ ...now, batchSize: 3 });
     expect(run).toMatchObject({ claimed: 3, sent: 0, retrying: 1, released: 2 });
-    const rows = await k("outbox").whereIn("id", ids).orderBy("id").select("state", "attempts", k.raw("next_attempt_at > NOW(3) + INTERVAL 500000 MICROSECOND as later"));
+    const rows = await k("outbox").whereIn("id", ids).orderBy("id").select("state", "attempts", { later: k.raw("next_attempt_at > NOW(3) + INTERVAL 500000 MICROSECOND") });
     expect(rows.map((r) => [r.state, Number(r.attempts), Number(r.later)])).toEqual([
       ["retrying", 1, 1],
       ["retrying", 0, 1],

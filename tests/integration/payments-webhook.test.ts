@@ -12,12 +12,15 @@ import { createPaymentsFake, type PaymentsFake } from "../../fakes/payments/serv
 import { saveMoneySettings } from "@/db/queries/findings";
 import { DEFAULT_MONEY_SETTINGS } from "@/lib/approvals";
 import type { Actor } from "@/lib/permissions";
+import { access } from "@/lib/server/access";
 import { refundPayment, startDepositCheckout, startInvoiceCheckout, requestDeposit } from "@/lib/server/invoice-payments";
 import { createInvoice, issueInvoice } from "@/lib/server/invoices";
 import { confirmReturn, receivePaymentWebhook } from "@/lib/server/payment-webhook";
+import { readWebhookBody } from "@/lib/server/body-limit";
 import { authorise, ownerWithJobs, staffActor } from "../support/authorised-work";
 import { testKnex } from "../support/db";
 import { makeShop } from "../support/fixtures";
+import { sendStreamed, startNextLikeServer } from "../support/next-like-server";
 
 const KEY = "sk_test_benchside_webhook_test";
 const SECRET = "whsec_benchside_webhook_test";
@@ -65,8 +68,8 @@ describe("online payments through the payments fake", () => {
     ({ owner, jobs } = await ownerWithJobs(k, shop, 2));
     // $42.50 + 8.25 % tax $3.51 (REFERENCES §5, per-line worked value) = $46.01.
     await authorise({ writer, owner, jobPublicId: jobs[0]!.publicId, title: "Rotor", lines: [{ kind: "part", description: "Front rotor", qty: "1", unitPrice: "42.50" }] });
-    invoice = (await createInvoice(writer, jobs[0]!.publicId)).publicId;
-    await issueInvoice(writer, invoice, (await row()).version);
+    invoice = (await createInvoice(writer, await access(writer, "jobMoney", jobs[0]!.publicId, "invoice:create"))).publicId;
+    await issueInvoice(writer, await access(writer, "invoice", invoice, "invoice:create"), (await row())!.version);
   });
   afterAll(async () => {
     await fake?.close();
@@ -86,21 +89,62 @@ describe("online payments through the payments fake", () => {
     expect(await k("payment_webhook_events").where({ event_id: "evt_forged_1" })).toHaveLength(0);
   });
 
+  it("acknowledges a signed body it can't use and writes nothing (a 5xx would be retried forever)", async () => {
+    const sign = (body: string) => Stripe.webhooks.generateTestHeaderString({ payload: body, secret: SECRET });
+    const counts = async () => ({
+      events: Number((await k("payment_webhook_events").count({ n: "*" }).first())?.n),
+      payments: Number((await k("payments").count({ n: "*" }).first())?.n),
+      checkouts: await k("payment_checkouts").orderBy("id").select("id", "status"),
+    });
+    const before = await counts();
+    const unusable = [
+      "{}",
+      "not json at all",
+      JSON.stringify({ id: 7, type: null, data: [] }),
+      JSON.stringify({ id: "evt_wrong_shape", object: "event", type: "checkout.session.completed", data: { object: { id: 12, payment_status: "paid", amount_total: "lots" } } }),
+      JSON.stringify({ id: "evt_refund_shape", object: "event", type: "charge.refunded", data: { object: { id: "ch_1", amount_refunded: -5 } } }),
+      JSON.stringify({ id: "evt_not_ours", object: "event", type: "customer.created", data: { object: { id: "cus_1" } } }),
+    ];
+    for (const body of unusable) {
+      expect(await receivePaymentWebhook(body, sign(body)), body).toMatchObject({ received: true, applied: false, ignored: expect.any(String) });
+    }
+    expect(await counts()).toEqual(before);
+
+    // The route's path: the body capped at 1 MB while read, before the signature (forged, 5 MB: 413 at once).
+    const app = await startNextLikeServer(async (req) => receivePaymentWebhook(await readWebhookBody(req), req.headers.get("stripe-signature")), { closeOnRefusal: true });
+    try {
+      for (const body of unusable) {
+        const res = await sendStreamed(app.url, { total: 0, prefix: Buffer.from(body), headers: { "content-type": "application/json", "stripe-signature": sign(body) } });
+        expect(res.status, body).toBe(200);
+      }
+      const forged = await sendStreamed(app.url, { total: 5 * 1024 * 1024, headers: { "content-type": "application/json", "stripe-signature": "t=1,v1=00" } });
+      expect(forged.status).toBe(413);
+      expect(forged.ms).toBeLessThan(1000);
+      expect(app.records.at(-1)!.consumed).toBeLessThan(1024 * 1024 + 256 * 1024);
+    } finally {
+      await app.close();
+    }
+    expect(await counts()).toEqual(before);
+  });
+
   it("only the job's owner may start paying", async () => {
-    await expect(startInvoiceCheckout(writer, invoice)).rejects.toMatchObject({ code: "forbidden" });
-    const other = (await ownerWithJobs(k, { id: (await row()).shop_id, slug: "", staff: {} }, 1, "Not The Owner")).owner;
-    await expect(startInvoiceCheckout(other, invoice)).rejects.toMatchObject({ code: "not_found" });
+    await expect(access(writer, "invoice", invoice, "invoice:pay")).rejects.toMatchObject({ code: "forbidden" });
+    const other = (await ownerWithJobs(k, { id: (await row())!.shop_id, slug: "", staff: {} }, 1, "Not The Owner")).owner;
+    await expect(access(other, "invoice", invoice, "invoice:pay")).rejects.toMatchObject({ code: "not_found" });
   });
 
   it("a declined card leaves the invoice unpaid; the success card pays it once, even when the webhook comes twice", async () => {
-    const { url } = await startInvoiceCheckout(owner, invoice);
+    const paying = await access(owner, "invoice", invoice, "invoice:pay");
+    const { url } = await startInvoiceCheckout(owner, paying);
     expect(url).toMatch(new RegExp(`^${fake.url}/pay/cs_test_`));
     // A second tap reuses the same page.
-    expect((await startInvoiceCheckout(owner, invoice)).url).toBe(url);
+    expect((await startInvoiceCheckout(owner, await access(owner, "invoice", invoice, "invoice:pay"))).url).toBe(url);
     const declined = await submitPaymentPage(url, { card: "4000 0000 0000 0002" });
     expect(declined.html).toContain("Your card was declined.");
     const sessionId = url.split("/").pop()!;
-    expect(await confirmReturn(owner, jobs[0]!.publicId, sessionId)).toBe("open");
+    // The page resolves the job's money first ("jobMoney", invoice:view), then confirms.
+    const returning = await access(owner, "jobMoney", jobs[0]!.publicId, "invoice:view");
+    expect(await confirmReturn(returning.job, sessionId)).toBe("open");
     expect(await row()).toMatchObject({ status: "issued", balance_minor: 4601 });
 
     const paid = await submitPaymentPage(url, { card: "4242 4242 4242 4242" });
@@ -109,21 +153,29 @@ describe("online payments through the payments fake", () => {
     expect(await row()).toMatchObject({ status: "paid", paid_minor: 4601, balance_minor: 0 });
     await redeliverWebhook(fake.url, delivery.event.id);
     await expect.poll(async () => (await listWebhookDeliveries(fake.url, { objectId: sessionId })).find((d) => d.event.id === delivery.event.id)?.attempts.length).toBe(2);
-    expect(await confirmReturn(owner, jobs[0]!.publicId, sessionId)).toBe("paid");
+    expect(await confirmReturn(returning.job, sessionId)).toBe("paid");
+    // A session of this job confirmed against another job of the same owner is unknown there.
+    expect(await confirmReturn((await access(owner, "jobMoney", jobs[1]!.publicId, "invoice:view")).job, sessionId)).toBe("unknown");
     const rows = await payments(jobs[0]!.id);
     expect(rows).toHaveLength(1);
     expect(rows[0]).toMatchObject({ kind: "payment", method: "online", amount_minor: 4601, provider_session_id: sessionId });
     expect(await k("journal_entries").where({ job_id: jobs[0]!.id, kind: "payment" })).toHaveLength(1);
     const receipts = await k("outbox").where({ kind: "receipt", to_email: owner.email });
     expect(receipts).toHaveLength(1);
-    expect(receipts[0].text).toContain("Received: $46.01");
+    expect(receipts[0]!.text).toContain("Received: $46.01");
   });
 
   it("a refund reduces the paid amount once, whether the API answer or the webhook is seen first", async () => {
     const payment = (await payments(jobs[0]!.id))[0]!;
-    await expect(refundPayment(writer, { payment: payment.id, amount: "10.00", reason: null, confirmed: "yes" })).rejects.toMatchObject({ code: "forbidden" });
-    await expect(refundPayment(shopOwner, { payment: payment.id, amount: "46.02", reason: null, confirmed: "yes" })).rejects.toThrow(/At most \$46\.01/);
-    await refundPayment(shopOwner, { payment: payment.id, amount: "10.00", reason: "Goodwill", confirmed: "yes" });
+    const job = jobs[0]!.publicId;
+    await expect(access(writer, "jobMoney", job, "invoice:refund")).rejects.toMatchObject({ code: "forbidden" });
+    const refunding = await access(shopOwner, "jobMoney", job, "invoice:refund");
+    // The payment must be one of this job's: the other job's money is not refunded from here.
+    await expect(refundPayment(shopOwner, await access(shopOwner, "jobMoney", jobs[1]!.publicId, "invoice:refund"), { job: jobs[1]!.publicId, payment: payment.id, amount: "1.00", reason: null, confirmed: "yes" })).rejects.toMatchObject({
+      code: "not_found",
+    });
+    await expect(refundPayment(shopOwner, refunding, { job, payment: payment.id, amount: "46.02", reason: null, confirmed: "yes" })).rejects.toThrow(/At most \$46\.01/);
+    await refundPayment(shopOwner, refunding, { job, payment: payment.id, amount: "10.00", reason: "Goodwill", confirmed: "yes" });
     const intent = String(payment.provider_payment_id);
     const charge = String((await new Stripe(KEY, { host: "127.0.0.1", port: fake.port, protocol: "http" }).paymentIntents.retrieve(intent)).latest_charge);
     await waitForWebhook(fake.url, { type: "charge.refunded", objectId: charge });
@@ -138,14 +190,14 @@ describe("online payments through the payments fake", () => {
 
   it("a deposit paid online on return is recorded once when the webhook arrives later", async () => {
     const job = jobs[1]!;
-    const { deposit } = await requestDeposit(writer, { job: job.publicId, amount: "25.00", note: null, request: null });
+    const { deposit } = await requestDeposit(writer, await access(writer, "jobMoney", job.publicId, "invoice:create"), { job: job.publicId, amount: "25.00", note: null, request: null });
     await dropWebhooks(fake.url, true);
-    const { url } = await startDepositCheckout(owner, deposit.publicId);
+    const { url } = await startDepositCheckout(owner, await access(owner, "deposit", deposit.publicId, "invoice:pay"));
     const sessionId = url.split("/").pop()!;
     await submitPaymentPage(url, { card: "4242424242424242" });
     // Back on the invoice page before any webhook: the app asks the service and records it.
-    expect(await confirmReturn(owner, job.publicId, sessionId)).toBe("paid");
-    expect((await k("deposit_requests").where({ public_id: deposit.publicId }).first()).status).toBe("paid");
+    expect(await confirmReturn((await access(owner, "jobMoney", job.publicId, "invoice:view")).job, sessionId)).toBe("paid");
+    expect((await k("deposit_requests").where({ public_id: deposit.publicId }).first())!.status).toBe("paid");
     await dropWebhooks(fake.url, false);
     const dropped = await waitForWebhook(fake.url, { type: "checkout.session.completed", objectId: sessionId }, "dropped");
     await redeliverWebhook(fake.url, dropped.event.id);

@@ -13,15 +13,16 @@ import { GET as storyClip } from "@/app/(public)/s/[shop]/[story]/clips/[clip]/[
 import { GET as shopLogo } from "@/app/(public)/s/[shop]/logo/route";
 import exifr from "exifr";
 import { createClipEntry } from "@/db/queries/clips";
-import { insertEntry } from "@/db/queries/journal";
+import { insertEntry } from "@/db/queries/entries";
 import { StoryView } from "@/components/portfolio/story-view";
-import type { Actor } from "@/lib/permissions";
+import type { Action, Actor } from "@/lib/permissions";
 import type { PublicStory } from "@/lib/portfolio";
 import { decideConsent, proposeStory, publishStory, unpublishStory } from "@/lib/server/portfolio";
 import { curateStory, saveProfile } from "@/lib/server/portfolio-curation";
 import { shopProfileSchema } from "@/lib/portfolio";
 import { getPublicShopPage, getPublicStory, publicStoryGate } from "@/lib/server/portfolio-public";
 import { storage } from "@/lib/server/storage";
+import { access } from "@/lib/server/access";
 import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
 import { testKnex } from "../support/db";
 
@@ -85,8 +86,8 @@ describe("public portfolio", () => {
     stranger = { userId: Number(otherId), email: `someone.${shop.slug}@mail.test`, name: "Someone Else", memberships: [] };
     const made = await makeCustomerWithJobs(k, shop.id, { name: OWNER_NAME, email, userId: Number(userId), serial: SERIAL, statuses: ["picked_up", "in_progress"] });
     const [jobId, openJobId] = made.jobIds as [number, number];
-    jobPublicId = String((await k("jobs").where({ id: jobId }).first("public_id")).public_id);
-    openJobPublicId = String((await k("jobs").where({ id: openJobId }).first("public_id")).public_id);
+    jobPublicId = String((await k("jobs").where({ id: jobId }).first("public_id"))!.public_id);
+    openJobPublicId = String((await k("jobs").where({ id: openJobId }).first("public_id"))!.public_id);
 
     const shared = await addPhotoEntry(jobId, "shared", 2);
     const hidden = await addPhotoEntry(jobId, "shop", 1);
@@ -114,19 +115,24 @@ describe("public portfolio", () => {
 
   let storyId = 0;
   let slug = "";
+  // What the portfolio actions declare (app/(staff)/shop/[shop]/portfolio/actions.ts, app/(owner)/my/jobs/[job]/portfolio/actions.ts),
+  // resolved and authorised as the action wrapper does (lib/server/access.ts).
+  const onJob = (actor: Actor, publicId: string, permission: Action) => access(actor, "job", publicId, permission);
+  const onStory = (actor: Actor, permission: Action) => access(actor, "story", storyId, permission, { shop: shop.slug });
+  const onShop = (actor: Actor) => access(actor, "shop", shop.slug, "shop:manage-settings");
 
   it("staff propose only collected jobs; the desk may, the bench may not; the owner is asked by e-mail", async () => {
-    await expect(proposeStory(staff(shop, "technician"), jobPublicId)).rejects.toMatchObject({ code: "forbidden" });
-    await expect(proposeStory(staff(shop, "service_writer"), openJobPublicId)).rejects.toMatchObject({ code: "conflict" });
-    const { story, created, mailed } = await proposeStory(staff(shop, "service_writer"), jobPublicId);
+    await expect(onJob(staff(shop, "technician"), jobPublicId, "portfolio:propose")).rejects.toMatchObject({ code: "forbidden" });
+    await expect(proposeStory(staff(shop, "service_writer"), await onJob(staff(shop, "service_writer"), openJobPublicId, "portfolio:propose"))).rejects.toMatchObject({ code: "conflict" });
+    const { story, created, mailed } = await proposeStory(staff(shop, "service_writer"), await onJob(staff(shop, "service_writer"), jobPublicId, "portfolio:propose"));
     expect([created, mailed, story.status]).toEqual([true, true, "consent_requested"]);
     storyId = story.id;
     slug = story.slug;
     const mail = await k("outbox").where({ dedupe_scope: shop.id, dedupe_key: `portfolio-consent:${story.id}` }).first();
-    expect(mail.to_email).toBe(owner.email);
-    expect(mail.html).toContain(`/my/jobs/${jobPublicId}/portfolio`);
+    expect(mail?.to_email).toBe(owner.email);
+    expect(mail?.html).toContain(`/my/jobs/${jobPublicId}/portfolio`);
     // Twice is the same story, and no second mail.
-    expect((await proposeStory(staff(shop, "owner"), jobPublicId)).created).toBe(false);
+    expect((await proposeStory(staff(shop, "owner"), await onJob(staff(shop, "owner"), jobPublicId, "portfolio:propose"))).created).toBe(false);
     expect(await k("outbox").where({ dedupe_scope: shop.id }).where("dedupe_key", "like", "portfolio-consent:%")).toHaveLength(1);
   });
 
@@ -138,37 +144,37 @@ describe("public portfolio", () => {
       { kind: "clip" as const, entryId: ids.clip, momentSeconds: 1.5, caption: null },
       { kind: "torque" as const, entryId: ids.torque, caption: null },
     ];
-    await expect(curateStory(writer, shop.slug, { ...base, title: `${OWNER_NAME.split(" ")[0]}'s ATV`, items })).rejects.toMatchObject({ code: "invalid", fields: { title: [expect.stringMatching(/owner's name/)] } });
-    await expect(curateStory(writer, shop.slug, { ...base, title: `Serial ${SERIAL}`, items })).rejects.toMatchObject({ fields: { title: [expect.stringMatching(/serial/)] } });
-    await expect(curateStory(writer, shop.slug, { ...base, title: "Axle job", items: [{ ...items[0]!, caption: "All done for $240" }] })).rejects.toMatchObject({ fields: { "items.0.caption": [expect.stringMatching(/price/)] } });
-    await expect(curateStory(writer, shop.slug, { ...base, title: "Axle job", items: [{ kind: "photos", entryId: ids.hiddenPhotos, caption: null }] })).rejects.toMatchObject({ fields: { "items.0": [expect.stringMatching(/isn't a shared entry/)] } });
-    await expect(curateStory(writer, shop.slug, { ...base, title: "Axle job", cover: photo.hidden, items })).rejects.toMatchObject({ fields: { cover: [expect.any(String)] } });
-    await expect(curateStory(staff(shop, "technician"), shop.slug, { ...base, title: "Axle job", items })).rejects.toMatchObject({ code: "forbidden" });
-    const saved = await curateStory(writer, shop.slug, { ...base, title: "Front axle and brakes, back on the trail", items });
+    await expect(curateStory(await onStory(writer, "portfolio:curate"), { ...base, title: `${OWNER_NAME.split(" ")[0]}'s ATV`, items })).rejects.toMatchObject({ code: "invalid", fields: { title: [expect.stringMatching(/owner's name/)] } });
+    await expect(curateStory(await onStory(writer, "portfolio:curate"), { ...base, title: `Serial ${SERIAL}`, items })).rejects.toMatchObject({ fields: { title: [expect.stringMatching(/serial/)] } });
+    await expect(curateStory(await onStory(writer, "portfolio:curate"), { ...base, title: "Axle job", items: [{ ...items[0]!, caption: "All done for $240" }] })).rejects.toMatchObject({ fields: { "items.0.caption": [expect.stringMatching(/price/)] } });
+    await expect(curateStory(await onStory(writer, "portfolio:curate"), { ...base, title: "Axle job", items: [{ kind: "photos", entryId: ids.hiddenPhotos, caption: null }] })).rejects.toMatchObject({ fields: { "items.0": [expect.stringMatching(/isn't a shared entry/)] } });
+    await expect(curateStory(await onStory(writer, "portfolio:curate"), { ...base, title: "Axle job", cover: photo.hidden, items })).rejects.toMatchObject({ fields: { cover: [expect.any(String)] } });
+    await expect(onStory(staff(shop, "technician"), "portfolio:curate")).rejects.toMatchObject({ code: "forbidden" });
+    const saved = await curateStory(await onStory(writer, "portfolio:curate"), { ...base, title: "Front axle and brakes, back on the trail", items });
     slug = saved.slug;
     expect(saved.version).toBe(2);
     // Saving from a stale form is refused rather than silently overwriting.
-    await expect(curateStory(writer, shop.slug, { ...base, title: "Stale", items })).rejects.toMatchObject({ code: "conflict" });
+    await expect(curateStory(await onStory(writer, "portfolio:curate"), { ...base, title: "Stale", items })).rejects.toMatchObject({ code: "conflict" });
   });
 
   it("a story can't be published without the owner's consent, and only the shop owner publishes", async () => {
-    await expect(publishStory(staff(shop, "owner"), shop.slug, storyId)).rejects.toMatchObject({ code: "conflict", message: expect.stringMatching(/hasn't answered/) });
-    await expect(publishStory(staff(shop, "service_writer"), shop.slug, storyId)).rejects.toMatchObject({ code: "forbidden" });
+    await expect(publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"))).rejects.toMatchObject({ code: "conflict", message: expect.stringMatching(/hasn't answered/) });
+    await expect(onStory(staff(shop, "service_writer"), "portfolio:publish")).rejects.toMatchObject({ code: "forbidden" });
     // A status forced by hand without a consent record still doesn't publish.
     await k("stories").where({ id: storyId }).update({ status: "consented" });
-    await expect(publishStory(staff(shop, "owner"), shop.slug, storyId)).rejects.toMatchObject({ code: "conflict" });
+    await expect(publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"))).rejects.toMatchObject({ code: "conflict" });
     await k("stories").where({ id: storyId }).update({ status: "consent_requested" });
     expect(await getPublicStory(shop.slug, slug)).toBeNull();
     expect((await json(slug)).status).toBe(404);
   });
 
   it("only the machine's owner answers, with a typed name, time, address and browser on record", async () => {
-    await expect(decideConsent(stranger, jobPublicId, { decision: "given", name: "Someone Else" }, meta)).rejects.toMatchObject({ code: "not_found" });
-    await expect(decideConsent(staff(shop, "owner"), jobPublicId, { decision: "given", name: "Dana" }, meta)).rejects.toMatchObject({ code: "forbidden" });
-    await expect(decideConsent(owner, jobPublicId, { decision: "withdrawn", name: OWNER_NAME }, meta)).rejects.toMatchObject({ code: "conflict" });
-    await expect(decideConsent(owner, jobPublicId, { decision: "given", name: "  " }, meta)).rejects.toMatchObject({ code: "invalid" });
-    expect((await decideConsent(owner, jobPublicId, { decision: "given", name: OWNER_NAME }, meta)).status).toBe("consented");
-    const row = await k("story_consents").where({ story_id: storyId }).orderBy("id", "desc").first();
+    await expect(onJob(stranger, jobPublicId, "portfolio:consent")).rejects.toMatchObject({ code: "not_found" });
+    await expect(onJob(staff(shop, "owner"), jobPublicId, "portfolio:consent")).rejects.toMatchObject({ code: "forbidden" });
+    await expect(decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "withdrawn", name: OWNER_NAME }, meta)).rejects.toMatchObject({ code: "conflict" });
+    await expect(decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: "  " }, meta)).rejects.toMatchObject({ code: "invalid" });
+    expect((await decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: OWNER_NAME }, meta)).status).toBe("consented");
+    const row = (await k("story_consents").where({ story_id: storyId }).orderBy("id", "desc").first())!;
     expect([row.decision, row.name_typed, row.ip, row.user_agent, row.user_id]).toEqual(["given", OWNER_NAME, meta.ip, meta.userAgent, owner.userId]);
     expect(row.decided_at).toBeInstanceOf(Date);
   });
@@ -177,7 +183,7 @@ describe("public portfolio", () => {
   let clipId = "";
 
   it("published, the public JSON and HTML hold no owner's name, serial, prices or shop-only entries", async () => {
-    expect((await publishStory(staff(shop, "owner"), shop.slug, storyId)).status).toBe("published");
+    expect((await publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"))).status).toBe("published");
     const res = await json(slug);
     expect(res.status).toBe(200);
     const text = await res.text();
@@ -213,25 +219,25 @@ describe("public portfolio", () => {
   });
 
   it("withdrawing consent makes the story 404 at once: JSON, page loader, photos, grid; it can't be republished", async () => {
-    expect((await decideConsent(owner, jobPublicId, { decision: "withdrawn", name: OWNER_NAME }, meta)).status).toBe("withdrawn");
+    expect((await decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "withdrawn", name: OWNER_NAME }, meta)).status).toBe("withdrawn");
     expect((await json(slug)).status).toBe(404);
     expect(await publicStoryGate(shop.slug, slug)).toBeNull();
     expect((await image(slug, photo.shown)).status).toBe(404);
     expect((await video(slug, clipId)).status).toBe(404);
     expect((await getPublicShopPage(shop.slug, null))?.stories ?? []).toEqual([]);
-    await expect(publishStory(staff(shop, "owner"), shop.slug, storyId)).rejects.toMatchObject({ code: "conflict", message: expect.stringMatching(/withdrew/) });
+    await expect(publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"))).rejects.toMatchObject({ code: "conflict", message: expect.stringMatching(/withdrew/) });
     const decisions = await k("story_consents").where({ story_id: storyId }).orderBy("id").pluck("decision");
     expect(decisions).toEqual(["given", "withdrawn"]);
   });
 
   it("the owner may agree again; the shop then republishes, and can take it down itself", async () => {
-    await decideConsent(owner, jobPublicId, { decision: "given", name: OWNER_NAME }, meta);
-    await publishStory(staff(shop, "owner"), shop.slug, storyId);
+    await decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: OWNER_NAME }, meta);
+    await publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"));
     expect((await json(slug)).status).toBe(200);
     // An entry unshared after curation drops out of the public story by itself.
     await k("journal_entries").where({ id: ids.torque }).update({ visibility: "shop" });
     expect((await getPublicStory(shop.slug, slug))?.items.map((i) => i.kind)).toEqual(["photos", "clip"]);
-    await unpublishStory(staff(shop, "service_writer"), shop.slug, storyId);
+    await unpublishStory(await onStory(staff(shop, "service_writer"), "portfolio:curate"));
     expect((await json(slug)).status).toBe(404);
   });
 
@@ -241,17 +247,17 @@ describe("public portfolio", () => {
     expect(input.showLocation).toBe(false);
     expect(input.publicEmail).toBe("desk@shop.test");
     expect(shopProfileSchema.safeParse({ ...form, publicEmail: "not mail" }).success).toBe(false);
-    await expect(saveProfile(staff(shop, "service_writer"), input, null)).rejects.toMatchObject({ code: "forbidden" });
+    await expect(onShop(staff(shop, "service_writer"))).rejects.toMatchObject({ code: "forbidden" });
     // A photo with GPS in its EXIF (tests/fixtures/photos/make-fixtures.ts) as the logo.
     const gps = fs.readFileSync(path.join(__dirname, "..", "fixtures", "photos", "gps.jpg"));
     expect(await exifr.gps(gps)).toBeTruthy();
-    await saveProfile(staff(shop, "owner"), input, new File([new Uint8Array(gps)], "logo.jpg", { type: "image/jpeg" }));
+    await saveProfile(await onShop(staff(shop, "owner")), input, new File([new Uint8Array(gps)], "logo.jpg", { type: "image/jpeg" }));
     const page = await getPublicShopPage(shop.slug, null);
     expect(page?.shop).toMatchObject({ name: "Test Gulch Works", about: "Two bays.", location: null, email: "desk@shop.test", logoUrl: `/s/${shop.slug}/logo` });
     const logo = await shopLogo(new NextRequest(`http://app.test/s/${shop.slug}/logo`), { params: Promise.resolve({ shop: shop.slug }) });
     expect([logo.status, logo.headers.get("content-type")]).toEqual([200, "image/jpeg"]);
     expect(await exifr.gps(Buffer.from(await logo.arrayBuffer()))).toBeFalsy();
-    await saveProfile(staff(shop, "owner"), shopProfileSchema.parse({ ...form, showLocation: "on", removeLogo: "on" }), null);
+    await saveProfile(await onShop(staff(shop, "owner")), shopProfileSchema.parse({ ...form, showLocation: "on", removeLogo: "on" }), null);
     expect((await getPublicShopPage(shop.slug, null))?.shop).toMatchObject({ location: "By the old mill", logoUrl: null });
   });
 });

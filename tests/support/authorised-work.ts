@@ -2,6 +2,7 @@ import crypto from "node:crypto";
 import type { Knex } from "knex";
 import type { Actor } from "../../lib/permissions";
 import type { FindingInput } from "../../lib/schemas/approvals";
+import { access } from "../../lib/server/access";
 import { answerRequest, sendRequest } from "../../lib/server/approvals";
 import { createFinding } from "../../lib/server/findings";
 import type { makeShop } from "./fixtures";
@@ -24,7 +25,7 @@ export async function ownerWithJobs(k: Knex, shop: Shop, count: number, name = "
   const email = `owner.${crypto.randomBytes(4).toString("hex")}@mail.test`;
   const [userId] = await k("users").insert({ email, name });
   const made = await makeCustomerWithJobs(k, shop.id, { name, email, userId: Number(userId), statuses: Array(count).fill("inspecting") });
-  const jobs = await Promise.all(made.jobIds.map(async (id) => ({ id, publicId: String((await k("jobs").where({ id }).first("public_id")).public_id) })));
+  const jobs = await Promise.all(made.jobIds.map(async (id) => ({ id, publicId: String((await k("jobs").where({ id }).first("public_id"))!.public_id) })));
   const owner: Actor = { userId: Number(userId), email, name, memberships: [] };
   return { owner, jobs, customerId: made.customerId };
 }
@@ -41,12 +42,12 @@ export async function authorise(p: { writer: Actor; owner: Actor; jobPublicId: s
     evidence: [],
     lines: p.lines.map((l) => ({ ...l, partNumber: null })),
   };
-  const made = await createFinding(p.writer, p.jobPublicId, input);
-  const sent = await sendRequest(p.writer, p.jobPublicId, made.id, { findingVersion: made.version });
+  const made = await createFinding(p.writer, await access(p.writer, "job", p.jobPublicId, "approvals:draft"), input);
+  const sent = await sendRequest(p.writer, await access(p.writer, "job", p.jobPublicId, "approvals:send"), made.id, { findingVersion: made.version });
   const approve = new Set(p.approve ?? p.lines.map((_, i) => i));
   const { decision } = await answerRequest(
     p.owner,
-    sent.publicId,
+    await access(p.owner, "request", sent.publicId, "approvals:answer"),
     { shownHash: sent.hash, lines: p.lines.map((_, i) => ({ no: i + 1, answer: approve.has(i) ? "approved" : "declined" })), signature: p.owner.name, wantsPartsBack: p.wantsPartsBack ?? false, confirmed: true },
     { ip: "203.0.113.9", userAgent: "vitest" },
   );

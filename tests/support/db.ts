@@ -1,7 +1,7 @@
 import crypto from "node:crypto";
 import knex, { type Knex } from "knex";
 import { inject } from "vitest";
-import { knexConfig } from "../../lib/server/db-config";
+import { knexConfig } from "../../db/config";
 
 /** Points the app's db() at this run's test database. Call in beforeAll of an integration file. */
 export function connectTestDatabase(): string {

@@ -1,6 +1,6 @@
 import knex from "knex";
 import type { TestProject } from "vitest/node";
-import { knexConfig } from "../../lib/server/db-config";
+import { knexConfig } from "../../db/config";
 
 declare module "vitest" {
   export interface ProvidedContext {

@@ -7,6 +7,7 @@ import { AppError } from "@/lib/errors";
 import { linkRequestSchema, linkTokenSchema, passwordSignInSchema } from "@/lib/schemas/auth";
 import { signIn, signOut } from "@/lib/server/auth";
 import { clientIp } from "@/lib/server/client-ip";
+import { endEverySession } from "@/db/queries/sessions";
 import { SIGN_IN_FAILURES, SignInFailure, type SignInFailureCode, requestSignInLink } from "@/lib/server/sign-in";
 import { z } from "zod";
 
@@ -22,50 +23,41 @@ function refusal(error: unknown): never {
   throw error;
 }
 
-export const signInWithPassword = formAction({
-  public: true,
-  input: passwordSignInSchema.extend(nextField.shape),
-  run: async ({ input }) => {
-    try {
-      await signIn("password", { email: input.email, password: input.password, redirectTo: input.next ?? "/" });
-    } catch (error) {
-      refusal(error);
-    }
-  },
+export const signInWithPassword = formAction({ input: passwordSignInSchema.extend(nextField.shape), permission: "public" }, async ({ input }) => {
+  try {
+    await signIn("password", { email: input.email, password: input.password, redirectTo: input.next ?? "/" });
+  } catch (error) {
+    refusal(error);
+  }
 });
 
-export const requestOwnerLink = formAction({
-  public: true,
-  input: linkRequestSchema,
-  run: async ({ input }) => {
-    try {
-      await requestSignInLink({ email: input.email, ip: clientIp(await headers()), next: input.next });
-    } catch (error) {
-      if (error instanceof SignInFailure) {
-        throw new AppError(error.code === "too-many-links" ? "rate_limited" : "not_found", error.message, { email: [error.message] });
-      }
-      throw error;
-    }
-    redirect(`/sign-in/check-email?to=${encodeURIComponent(input.email)}`);
-  },
+export const requestOwnerLink = formAction({ input: linkRequestSchema, permission: "public" }, async ({ input }) => {
+  try {
+    await requestSignInLink({ email: input.email, ip: clientIp(await headers()), next: input.next });
+  } catch (error) {
+    // The only refusal left is a limit, and it is the same for known and unknown addresses.
+    if (error instanceof SignInFailure) throw new AppError("rate_limited", error.message, { email: [error.message] });
+    throw error;
+  }
+  redirect(`/sign-in/check-email?to=${encodeURIComponent(input.email)}`);
 });
 
-export const signInWithLink = formAction({
-  public: true,
-  input: linkTokenSchema.extend(nextField.shape),
-  run: async ({ input }) => {
-    try {
-      await signIn("email-link", { token: input.token, redirectTo: input.next ?? "/my" });
-    } catch (error) {
-      refusal(error);
-    }
-  },
+export const signInWithLink = formAction({ input: linkTokenSchema.extend(nextField.shape), permission: "public" }, async ({ input }) => {
+  try {
+    await signIn("email-link", { token: input.token, redirectTo: input.next ?? "/my" });
+  } catch (error) {
+    refusal(error);
+  }
 });
 
-export const signOutAction = formAction({
-  public: true, // signing out twice, or when the session has already expired, is harmless
-  input: z.object({}),
-  run: async () => {
-    await signOut({ redirectTo: "/sign-in" });
-  },
+// Public: signing out twice, or when the session has already expired, is harmless. Signing out
+// ends this session on the server too (the signOut event in lib/server/auth.ts).
+export const signOutAction = formAction({ input: z.object({}), permission: "public" }, async () => {
+  await signOut({ redirectTo: "/sign-in" });
+});
+
+/** Ends every session of the signed-in person, on every device, this one included. */
+export const signOutEverywhereAction = formAction({ input: z.object({}), permission: "signed-in" }, async ({ actor }) => {
+  await endEverySession({ userId: actor.userId });
+  await signOut({ redirectTo: "/sign-in?signed-out=everywhere" });
 });

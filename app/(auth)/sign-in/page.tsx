@@ -8,7 +8,7 @@ import { StaffSignInForm } from "./_components/staff-form";
 
 export const metadata: Metadata = { title: "Sign in" };
 
-type Props = { searchParams: Promise<{ next?: string; code?: string; error?: string }> };
+type Props = { searchParams: Promise<{ next?: string; code?: string; error?: string; "signed-out"?: string }> };
 
 export default async function SignInPage({ searchParams }: Props) {
   const params = await searchParams;
@@ -21,6 +21,7 @@ export default async function SignInPage({ searchParams }: Props) {
     <div className="space-y-6">
       <h1 className="text-2xl font-bold sm:text-3xl">Sign in to Benchside</h1>
       {code ? <Alert tone="error">{code}</Alert> : params.error ? <Alert tone="error">Sign-in failed. Try again.</Alert> : null}
+      {params["signed-out"] === "everywhere" && !actor ? <Alert tone="success">You&apos;re signed out on every device and browser.</Alert> : null}
       {actor ? (
         <Alert tone="info" action={<ButtonLink href="/">Continue</ButtonLink>}>
           You&apos;re signed in as {actor.email}.

@@ -1,5 +1,6 @@
 import { NextResponse } from "next/server";
-import { db } from "@/lib/server/db";
+import { pingDatabase } from "@/db/queries/health";
+import { route } from "@/lib/route";
 
 export const dynamic = "force-dynamic";
 
@@ -13,10 +14,10 @@ async function check(name: string, probe: () => Promise<unknown>): Promise<[stri
 }
 
 /** Liveness for load balancers and `npm start`: 200 when every dependency answers, else 503 naming what is down. */
-export async function GET() {
+export const GET = route({ permission: "public" }, async () => {
   const checks = Object.fromEntries(
     await Promise.all([
-      check("db", () => db().raw("SELECT 1")),
+      check("db", pingDatabase),
       check("mail", async () => {
         const base = process.env.RESEND_BASE_URL;
         // The hosted API is not probed on every health check; the local fake is.
@@ -28,4 +29,4 @@ export async function GET() {
   );
   const down = Object.entries(checks).filter(([, v]) => v !== "ok").map(([k]) => k);
   return NextResponse.json({ ...checks, ...(down.length ? { down } : {}) }, { status: down.length ? 503 : 200 });
-}
+});

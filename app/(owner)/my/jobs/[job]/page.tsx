@@ -1,18 +1,14 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
-import { getJobByPublicId } from "@/db/queries/jobs";
 import { listTimeline } from "@/db/queries/journal";
 import { StatusBadge } from "@/components/status-badge";
 import { Card, PageHeader } from "@/components/ui";
-import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
 import { describeMachine } from "@/lib/machine";
 import { formatJobNumber } from "@/lib/schemas/jobs";
-import { authorizePage, requirePageActor } from "@/lib/server/authorize";
+import { loadPage } from "@/lib/server/page-access";
 import { getShopBySlug } from "@/db/queries/shops";
 import { OwnerTimeline } from "./_components/owner-timeline";
 import { OwedDecisions } from "./_components/owed-decisions";
 import { FollowingCard } from "./_components/following-card";
-import { audienceFor, jobResource } from "@/lib/server/following";
 import { getReassemblyProgress } from "@/db/queries/bench";
 import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
 import { OwnerInvoiceCard } from "@/components/invoices/owner-invoice-card";
@@ -22,14 +18,9 @@ export const metadata: Metadata = { title: "Your job" };
 
 export default async function MyJobPage({ params }: { params: Promise<{ job: string }> }) {
   const { job: publicId } = await params;
-  const actor = await requirePageActor(`/my/jobs/${publicId}`);
-  if (!JOB_PUBLIC_ID_PATTERN.test(publicId)) notFound();
-  const job = await getJobByPublicId({ publicId });
-  const resource = job && (await jobResource(actor, job));
-  authorizePage(actor, "job:view", resource);
-  if (!job || !resource) notFound();
+  const { actor, job, resource, audience: seenAs } = await loadPage("job", { job: publicId }, "job:view", `/my/jobs/${publicId}`);
   // A follower reads without money or decisions; everyone else here reads as the owner.
-  const audience = audienceFor(actor, resource) === "follower" ? "follower" : "owner";
+  const audience = seenAs === "follower" ? "follower" : "owner";
   const shop = await getShopBySlug({ slug: job.shopSlug });
   const timeZone = shop?.timezone ?? "UTC";
   // The owner's page always reads as the owner, even for staff who look at their own machine.

@@ -3,17 +3,18 @@ import { revalidatePath, updateTag } from "next/cache";
 import { redirect } from "next/navigation";
 import { z } from "zod";
 import { formAction } from "@/lib/action";
-import { SHOP_SLUG_PATTERN, shopProfileSchema, storyCurationSchema, storyPath } from "@/lib/portfolio";
+import { ids } from "@/lib/server/access";
+import { shopProfileSchema, storyCurationSchema, storyPath } from "@/lib/portfolio";
 import type { StoryRow } from "@/db/queries/portfolio";
 import { shopCacheTag, storyCacheTag } from "@/lib/server/portfolio-cache";
 import { askOwnerAgain, proposeStory, publishStory, unpublishStory } from "@/lib/server/portfolio";
 import { curateStory, saveProfile } from "@/lib/server/portfolio-curation";
 
-// The staff's portfolio forms: zod → lib/server/portfolio* (authorises on the shop) → refresh the
+// The staff's portfolio forms: zod and the shop/story/job each names, authorised by the declaration → lib/server/portfolio* → refresh the
 // staff pages and drop the public pages' cached copies (the public pages also check live, so
 // these only save a stale entry from lingering).
 
-const storyRef = z.object({ shop: z.string().regex(SHOP_SLUG_PATTERN), story: z.coerce.number().int().positive() });
+const storyRef = z.object({ shop: ids.shop, story: z.coerce.number().int().positive() });
 
 function refresh(shopSlug: string, story: Pick<StoryRow, "id" | "shopId" | "slug">, oldSlug?: string) {
   updateTag(storyCacheTag(story.id));
@@ -25,59 +26,50 @@ function refresh(shopSlug: string, story: Pick<StoryRow, "id" | "shopId" | "slug
 }
 
 /** From the job page: propose a collected job; the owner is asked by e-mail. Opens the story. */
-export const proposeAction = formAction({
-  input: z.object({ shop: z.string().regex(SHOP_SLUG_PATTERN), job: z.string().max(32) }),
-  run: async ({ input, actor }) => {
-    const { story } = await proposeStory(actor, input.job);
+export const proposeAction = formAction(
+  { input: z.object({ shop: ids.shop, job: ids.job }), resource: "job", permission: "portfolio:propose" },
+  async ({ input, actor, found }) => {
+    const { story } = await proposeStory(actor, found);
     revalidatePath(`/shop/${input.shop}/jobs/${story.jobNumber}`);
     revalidatePath(`/shop/${input.shop}/portfolio`);
     redirect(`/shop/${input.shop}/portfolio/${story.id}`);
   },
-});
+);
 
-export const curateAction = formAction({
-  input: storyCurationSchema.extend({ shop: z.string().regex(SHOP_SLUG_PATTERN) }),
-  run: async ({ input, actor }) => {
-    const story = await curateStory(actor, input.shop, input);
+export const curateAction = formAction(
+  { input: storyCurationSchema.extend({ shop: ids.shop }), resource: "story", permission: "portfolio:curate" },
+  async ({ input, found }) => {
+    const story = await curateStory(found, input);
     refresh(input.shop, story, story.previousSlug);
     return { version: story.version };
   },
+);
+
+export const publishAction = formAction({ input: storyRef, resource: "story", permission: "portfolio:publish" }, async ({ input, actor, found }) => {
+  const story = await publishStory(actor, found);
+  refresh(input.shop, story);
+  return { status: story.status };
 });
 
-export const publishAction = formAction({
-  input: storyRef,
-  run: async ({ input, actor }) => {
-    const story = await publishStory(actor, input.shop, input.story);
-    refresh(input.shop, story);
-    return { status: story.status };
-  },
+export const unpublishAction = formAction({ input: storyRef, resource: "story", permission: "portfolio:curate" }, async ({ input, found }) => {
+  const story = await unpublishStory(found);
+  refresh(input.shop, story);
+  return { status: story.status };
 });
 
-export const unpublishAction = formAction({
-  input: storyRef,
-  run: async ({ input, actor }) => {
-    const story = await unpublishStory(actor, input.shop, input.story);
-    refresh(input.shop, story);
-    return { status: story.status };
-  },
+export const askOwnerAction = formAction({ input: storyRef, resource: "story", permission: "portfolio:curate" }, async ({ input, found }) => {
+  const story = await askOwnerAgain(found);
+  revalidatePath(`/shop/${input.shop}/portfolio`, "layout");
+  return { status: story.status };
 });
 
-export const askOwnerAction = formAction({
-  input: storyRef,
-  run: async ({ input, actor }) => {
-    const story = await askOwnerAgain(actor, input.shop, input.story);
-    revalidatePath(`/shop/${input.shop}/portfolio`, "layout");
-    return { status: story.status };
-  },
-});
-
-export const saveProfileAction = formAction({
-  input: shopProfileSchema.extend({ logo: z.instanceof(File).optional() }),
-  run: async ({ input, actor }) => {
-    const { shop } = await saveProfile(actor, input, input.logo ?? null);
+export const saveProfileAction = formAction(
+  { input: shopProfileSchema.extend({ logo: z.instanceof(File).optional() }), resource: "shop", permission: "shop:manage-settings" },
+  async ({ input, found }) => {
+    const { shop } = await saveProfile(found, input, input.logo ?? null);
     updateTag(shopCacheTag(shop.id));
     revalidatePath(`/s/${shop.slug}`, "layout");
     revalidatePath(`/shop/${shop.slug}/portfolio`, "layout");
     return { saved: true };
   },
-});
+);

@@ -4,31 +4,25 @@ import { formAction } from "@/lib/action";
 import { benchSettingsSchema, specDeleteSchema, specSchema } from "@/lib/schemas/bench";
 import { addSpec, removeSpec, updateBenchSettings } from "@/lib/server/bench-parts";
 
-// The spec library page's forms: zod → lib/server/bench-parts (authorises on the shop) → refresh.
+// The spec library page's forms: zod → lib/server/bench-parts (the shop named by the form, authorised by the declaration) → refresh.
 
-export const addSpecAction = formAction({
-  input: specSchema,
-  run: async ({ input, actor }) => {
-    const { id, shop } = await addSpec(actor, input);
-    revalidatePath(`/shop/${shop.slug}/specs`);
-    return { id };
-  },
+export const addSpecAction = formAction({ input: specSchema, resource: "shop", permission: "specs:manage" }, async ({ input, actor, found }) => {
+  const { id, shop } = await addSpec(actor, found, input);
+  revalidatePath(`/shop/${shop.slug}/specs`);
+  return { id };
 });
 
-export const deleteSpecAction = formAction({
-  input: specDeleteSchema,
-  run: async ({ input, actor }) => {
-    const { shop } = await removeSpec(actor, input);
-    revalidatePath(`/shop/${shop.slug}/specs`);
-    return { id: input.spec };
-  },
+export const deleteSpecAction = formAction({ input: specDeleteSchema, resource: "shop", permission: "specs:manage" }, async ({ input, found }) => {
+  const { shop } = await removeSpec(found, input);
+  revalidatePath(`/shop/${shop.slug}/specs`);
+  return { id: input.spec };
 });
 
-export const saveBenchSettingsAction = formAction({
-  input: benchSettingsSchema,
-  run: async ({ input, actor }) => {
-    const { shop } = await updateBenchSettings(actor, input);
+export const saveBenchSettingsAction = formAction(
+  { input: benchSettingsSchema, resource: "shop", permission: "shop:manage-settings" },
+  async ({ input, found }) => {
+    const { shop } = await updateBenchSettings(found, input);
     revalidatePath(`/shop/${shop.slug}/specs`);
     return { saved: true };
   },
-});
+);

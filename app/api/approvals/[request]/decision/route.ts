@@ -1,5 +1,7 @@
+import { z } from "zod";
 import { route } from "@/lib/route";
 import { answerSchema } from "@/lib/schemas/approvals";
+import { ids } from "@/lib/server/access";
 import { withRefusal } from "@/lib/server/approval-route";
 import { answerRequest } from "@/lib/server/approvals";
 import { clientIp } from "@/lib/server/client-ip";
@@ -8,11 +10,11 @@ import { clientIp } from "@/lib/server/client-ip";
  * POST /api/approvals/:request/decision {shownHash, lines[{no, answer}], signature, wantsPartsBack, confirmed}
  * — the machine's owner answers. 409 with `refusal` when it was answered, withdrawn, replaced or changed.
  */
-export const POST = route<typeof answerSchema, { request: string }>({
-  input: answerSchema,
-  run: ({ input, params, actor, req }) =>
+export const POST = route(
+  { params: z.object({ request: ids.request }), body: answerSchema, resource: "request", permission: "approvals:answer" },
+  ({ body, actor, found, req }) =>
     withRefusal(async () => {
-      const { decision } = await answerRequest(actor, params.request, input, { ip: clientIp(req.headers), userAgent: req.headers.get("user-agent") });
+      const { decision } = await answerRequest(actor, found, body, { ip: clientIp(req.headers), userAgent: req.headers.get("user-agent") });
       return { decision };
     }),
-});
+);

@@ -1,11 +1,9 @@
+import { z } from "zod";
 import { route } from "@/lib/route";
-import { invoiceJobAccess } from "@/lib/server/invoices";
+import { ids } from "@/lib/server/access";
 import { invoiceView } from "@/lib/server/invoice-views";
 
 /** GET /api/jobs/[job]/invoice — the job's invoice, payments, deposits and authorisation record (owner and desk). */
-export const GET = route<never, { job: string }>({
-  run: async ({ params, actor }) => {
-    const { job, audience } = await invoiceJobAccess(actor, params.job);
-    return invoiceView(job.id, audience === "shop" ? "shop" : "owner");
-  },
-});
+export const GET = route({ params: z.object({ job: ids.job }), resource: "jobMoney", permission: "invoice:view" }, ({ found }) =>
+  invoiceView(found.job.id, found.audience === "shop" ? "shop" : "owner"),
+);

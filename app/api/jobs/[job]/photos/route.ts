@@ -1,30 +1,20 @@
-import { AppError } from "@/lib/errors";
+import { z } from "zod";
 import { route } from "@/lib/route";
-import { journalAccess, uploadPhoto } from "@/lib/server/journal";
-import { PHOTO_LIMITS } from "@/lib/server/photos";
-
-// Room for the multipart envelope around one photo at the size limit.
-const MAX_REQUEST_BYTES = PHOTO_LIMITS.maxBytes + 64 * 1024;
+import { ids } from "@/lib/server/access";
+import { uploadPhoto } from "@/lib/server/journal";
+import { receivePhotoFile } from "@/lib/server/photos";
 
 /**
  * POST /api/jobs/:job/photos (multipart/form-data, one file in "photo") — checks, strips and
- * resizes the photo and keeps it for the shop until it is posted in a set.
+ * resizes the photo and keeps it for the shop until it is posted in a set. Access is checked
+ * before the body is read; the photo streams to a temporary file with its size limit enforced
+ * as it arrives (413, nothing more read), so an over-size or unannounced body never fills memory.
  */
-export const POST = route<never, { job: string }>({
-  run: async ({ params, req, actor }) => {
-    // Refuse before reading the body: a 50 MB upload never reaches memory.
-    await journalAccess(actor, params.job, "journal:post");
-    const declared = Number(req.headers.get("content-length") ?? "0");
-    if (declared > MAX_REQUEST_BYTES) throw new AppError("too_large", `Photos can be at most ${Math.round(PHOTO_LIMITS.maxBytes / 1024 / 1024)} MB each.`);
-    if (!req.headers.get("content-type")?.startsWith("multipart/form-data")) throw new AppError("bad_request", "Send the photo as multipart/form-data.");
-    let form: FormData;
-    try {
-      form = await req.formData();
-    } catch {
-      throw new AppError("bad_request", "The upload was cut off or is not valid form data; try again.");
-    }
-    const file = form.get("photo");
-    if (!(file instanceof File) || file.size === 0) throw new AppError("invalid", "Attach a photo (form field \"photo\").", { photo: ["Attach a photo."] });
-    return { photo: await uploadPhoto(actor, params.job, file) };
-  },
+export const POST = route({ params: z.object({ job: ids.job }), body: "multipart", resource: "job", permission: "journal:post" }, async ({ req, found, actor }) => {
+  const upload = await receivePhotoFile(req);
+  try {
+    return { photo: await uploadPhoto(actor, found, upload.file) };
+  } finally {
+    await upload.dispose();
+  }
 });

@@ -7,18 +7,12 @@ import { startDepositCheckout, startInvoiceCheckout } from "@/lib/server/invoice
 // The owner's Pay buttons: open (or reuse) a checkout at the payments service for what is owed,
 // then send the browser to its payment page. It comes back to the invoice page either way.
 
-export const payInvoiceAction = formAction({
-  input: payInvoiceSchema,
-  run: async ({ input, actor }) => {
-    const { url } = await startInvoiceCheckout(actor, input.invoice);
-    redirect(url);
-  },
+export const payInvoiceAction = formAction({ input: payInvoiceSchema, resource: "invoice", permission: "invoice:pay" }, async ({ actor, found }) => {
+  const { url } = await startInvoiceCheckout(actor, found);
+  redirect(url);
 });
 
-export const payDepositAction = formAction({
-  input: payDepositSchema,
-  run: async ({ input, actor }) => {
-    const { url } = await startDepositCheckout(actor, input.deposit);
-    redirect(url);
-  },
+export const payDepositAction = formAction({ input: payDepositSchema, resource: "deposit", permission: "invoice:pay" }, async ({ actor, found }) => {
+  const { url } = await startDepositCheckout(actor, found);
+  redirect(url);
 });

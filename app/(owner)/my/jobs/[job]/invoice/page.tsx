@@ -1,18 +1,14 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
-import { getJobByPublicId } from "@/db/queries/jobs";
 import { InvoiceDocument } from "@/components/invoices/invoice-document";
 import { InvoiceActions } from "@/components/invoices/invoice-actions";
 import { Alert, type AlertTone, Card, EmptyState, PageHeader } from "@/components/ui";
-import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
 import { describeMachine } from "@/lib/machine";
 import { formatMoney } from "@/lib/money";
 import { can } from "@/lib/permissions";
 import { invoiceReturnSchema } from "@/lib/schemas/invoices";
 import { formatJobNumber } from "@/lib/schemas/jobs";
-import { authorizePage, requirePageActor } from "@/lib/server/authorize";
-import { jobResource } from "@/lib/server/following";
 import { invoiceView } from "@/lib/server/invoice-views";
+import { loadPage } from "@/lib/server/page-access";
 import { type ReturnState, confirmReturn } from "@/lib/server/payment-webhook";
 import { PayButton } from "./_components/pay-button";
 
@@ -30,17 +26,11 @@ type Props = { params: Promise<{ job: string }>; searchParams: Promise<Record<st
 
 export default async function OwnerInvoicePage({ params, searchParams }: Props) {
   const { job: publicId } = await params;
-  const actor = await requirePageActor(`/my/jobs/${publicId}/invoice`);
-  if (!JOB_PUBLIC_ID_PATTERN.test(publicId)) notFound();
-  const job = await getJobByPublicId({ publicId });
-  const resource = job && (await jobResource(actor, job));
-  authorizePage(actor, "job:view", resource);
-  if (!job || !resource) notFound();
-  // Followers and technicians see no money.
-  authorizePage(actor, "invoice:view", resource);
+  // Money is for the desk and the machine's owner: a technician is refused, a follower or stranger gets a 404.
+  const { actor, job, resource } = await loadPage("jobMoney", { job: publicId }, "invoice:view", `/my/jobs/${publicId}/invoice`);
   const query = invoiceReturnSchema.parse(await searchParams);
   // Back from the payment page: confirm with the payments service before showing the invoice.
-  const returned: ReturnState | "cancelled" | null = query.paid ? await confirmReturn(actor, publicId, query.paid) : query.cancelled ? "cancelled" : null;
+  const returned: ReturnState | "cancelled" | null = query.paid ? await confirmReturn(job, query.paid) : query.cancelled ? "cancelled" : null;
   const view = await invoiceView(job.id, "owner");
   const inv = view.invoice;
   const mayPay = can(actor, "invoice:pay", resource);

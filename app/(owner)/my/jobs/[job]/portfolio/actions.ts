@@ -4,7 +4,7 @@ import { headers } from "next/headers";
 import { z } from "zod";
 import { formAction } from "@/lib/action";
 import { CONSENT_DECISIONS } from "@/lib/portfolio";
-import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
+import { ids } from "@/lib/server/access";
 import { clientIp } from "@/lib/server/client-ip";
 import { decideConsent } from "@/lib/server/portfolio";
 import { shopCacheTag, storyCacheTag } from "@/lib/server/portfolio-cache";
@@ -14,15 +14,24 @@ import { shopCacheTag, storyCacheTag } from "@/lib/server/portfolio-cache";
  * and browser; a withdrawal takes the story down in the same transaction (the public page checks
  * the status on every request) and its cached copies are dropped here.
  */
-export const consentAction = formAction({
-  input: z.object({
-    job: z.string().regex(JOB_PUBLIC_ID_PATTERN, "No such job."),
-    decision: z.enum(CONSENT_DECISIONS, { message: "Choose an answer." }),
-    name: z.string().trim().min(1, "Type your name to sign your answer.").max(120, "Keep your name under 120 characters."),
-  }),
-  run: async ({ input, actor }) => {
+export const consentAction = formAction(
+  {
+    input: z.object({
+      job: ids.job,
+      decision: z.enum(CONSENT_DECISIONS, { message: "Choose an answer." }),
+      name: z.string().trim().min(1, "Type your name to sign your answer.").max(120, "Keep your name under 120 characters."),
+    }),
+    resource: "job",
+    permission: "portfolio:consent",
+  },
+  async ({ input, actor, found }) => {
     const h = await headers();
-    const { story, status } = await decideConsent(actor, input.job, { decision: input.decision, name: input.name }, { ip: clientIp(h), userAgent: h.get("user-agent") });
+    const { story, status } = await decideConsent(
+      actor,
+      found,
+      { decision: input.decision, name: input.name },
+      { ip: clientIp(h), userAgent: h.get("user-agent") },
+    );
     updateTag(storyCacheTag(story.id));
     updateTag(shopCacheTag(story.shopId));
     revalidatePath(`/my/jobs/${input.job}`, "layout");
@@ -30,4 +39,4 @@ export const consentAction = formAction({
     revalidatePath("/s", "layout");
     return { status, decision: input.decision };
   },
-});
+);

@@ -1,15 +1,11 @@
 import type { Metadata } from "next";
-import { forbidden, notFound } from "next/navigation";
 import { CircleCheck, EyeOff, ImageOff } from "lucide-react";
-import { listConsents } from "@/db/queries/portfolio";
+import { getStoryForJob, listConsents } from "@/db/queries/portfolio";
 import { getShopBySlug } from "@/db/queries/shops";
 import { ButtonLink, Card, EmptyState, PageHeader } from "@/components/ui";
-import { AppError } from "@/lib/errors";
-import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
 import { describeMachine } from "@/lib/machine";
 import { CONSENT_DECISIONS, CONSENT_FROM, OWNER_STATUS_WORDS, storyPath } from "@/lib/portfolio";
-import { requirePageActor } from "@/lib/server/authorize";
-import { ownerStory } from "@/lib/server/portfolio";
+import { loadPage } from "@/lib/server/page-access";
 import { ConsentForm } from "./_components/consent-form";
 
 export const metadata: Metadata = { title: "Show this job in public?" };
@@ -17,14 +13,8 @@ export const metadata: Metadata = { title: "Show this job in public?" };
 /** The machine owner's answer to the shop's request to show a finished job in public. */
 export default async function PortfolioConsentPage({ params }: { params: Promise<{ job: string }> }) {
   const { job: publicId } = await params;
-  const actor = await requirePageActor(`/my/jobs/${publicId}/portfolio`);
-  if (!JOB_PUBLIC_ID_PATTERN.test(publicId)) notFound();
-  // As on the owner's job page: someone else's job, or one they can't answer for, is refused.
-  const access = await ownerStory(actor, publicId).catch((error: unknown) => {
-    if (error instanceof AppError && (error.code === "forbidden" || error.code === "not_found")) forbidden();
-    throw error;
-  });
-  const { job, story } = access;
+  const { job } = await loadPage("job", { job: publicId }, "portfolio:consent", `/my/jobs/${publicId}/portfolio`);
+  const story = await getStoryForJob({ shopId: job.shopId, jobId: job.id });
   const machine = describeMachine(job.machine);
   const header = <PageHeader title="Show this job in public?" description={`${job.shopName} · ${machine}`} back={{ href: `/my/jobs/${job.publicId}`, label: "Back to the job" }} />;
   if (!story) {

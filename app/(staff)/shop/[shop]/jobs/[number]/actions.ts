@@ -3,11 +3,11 @@ import { revalidatePath } from "next/cache";
 import { z } from "zod";
 import { formAction } from "@/lib/action";
 import { JOB_STATUSES } from "@/lib/job-status";
-import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
+import { ids } from "@/lib/server/access";
 import { changeJobStatus } from "@/lib/server/journal";
 
 const statusChangeSchema = z.object({
-  job: z.string().regex(JOB_PUBLIC_ID_PATTERN, "No such job."),
+  job: ids.job,
   from: z.enum(JOB_STATUSES),
   to: z.enum(JOB_STATUSES, { message: "Choose where the job goes next." }),
   note: z
@@ -18,11 +18,11 @@ const statusChangeSchema = z.object({
 });
 
 /** Moves a job along; the rules in lib/job-status.ts decide which moves exist. */
-export const changeStatusAction = formAction({
-  input: statusChangeSchema,
-  run: async ({ input, actor }) => {
-    const job = await changeJobStatus(actor, input.job, input);
+export const changeStatusAction = formAction(
+  { input: statusChangeSchema, resource: "job", permission: "job:change-status" },
+  async ({ input, actor, found }) => {
+    const job = await changeJobStatus(actor, found, input);
     revalidatePath(`/shop/${job.shopSlug}/jobs/${job.number}`);
     return { to: input.to };
   },
-});
+);

@@ -1,6 +1,4 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
-import { getJobByNumber } from "@/db/queries/jobs";
 import { getClipLimits } from "@/db/queries/clips";
 import { listTimeline } from "@/db/queries/journal";
 import { StatusBadge } from "@/components/status-badge";
@@ -9,8 +7,7 @@ import { ButtonLink, Card, PageHeader } from "@/components/ui";
 import { MACHINE_KIND_LABEL, describeMachine } from "@/lib/machine";
 import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
-import { authorizePage } from "@/lib/server/authorize";
-import { shopPageAccess } from "../../shop-access";
+import { staffJobPage } from "@/lib/server/page-access";
 import { ApprovalsPanel } from "./_components/approvals-panel";
 import { JobJournal } from "./_components/job-journal";
 import { PortfolioJobCard } from "../../portfolio/_components/job-card";
@@ -25,13 +22,7 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
 
 export default async function StaffJobPage({ params, searchParams }: Props) {
   const { shop: slug, number } = await params;
-  const { actor, shop } = await shopPageAccess(slug, "shop:view-board", `/shop/${slug}/jobs/${number}`);
-  const n = jobNumberParamSchema.safeParse(number);
-  if (!n.success) notFound();
-  const job = await getJobByNumber({ shopId: shop.id, number: n.data });
-  if (!job) notFound();
-  const resource = { shopId: job.shopId, customerUserId: job.customerUserId };
-  authorizePage(actor, "journal:view-shop-only", resource);
+  const { actor, shop, job, resource } = await staffJobPage(slug, number, "journal:view-shop-only");
   const intake = (await searchParams).intake === "1";
   const timeline = await listTimeline({ shopId: shop.id, jobId: job.id, audience: "shop", order: "desc", limit: 50, viewerUserId: actor.userId });
 

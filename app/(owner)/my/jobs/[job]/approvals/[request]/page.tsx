@@ -1,16 +1,13 @@
 import type { Metadata } from "next";
-import { forbidden, notFound } from "next/navigation";
+import { notFound } from "next/navigation";
 import { Alert, ButtonLink, Card, PageHeader } from "@/components/ui";
 import { DecisionRecord } from "@/components/approvals/decision-record";
 import { EvidenceList } from "@/components/approvals/evidence-list";
 import { FindingCaution } from "@/components/approvals/finding-caution";
 import { RequestLines } from "@/components/approvals/request-lines";
-import { AppError } from "@/lib/errors";
-import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
-import { REQUEST_PUBLIC_ID_PATTERN } from "@/lib/schemas/approvals";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { type RequestView, requestView } from "@/lib/server/approval-views";
-import { requirePageActor } from "@/lib/server/authorize";
+import { loadPage } from "@/lib/server/page-access";
 import { AnswerForm } from "./_components/answer-form";
 
 export const metadata: Metadata = { title: "The shop's request" };
@@ -20,16 +17,10 @@ type Props = { params: Promise<{ job: string; request: string }> };
 /** One approval request, for the machine's owner (to answer) and the job's staff (to see what was sent). */
 export default async function ApprovalRequestPage({ params }: Props) {
   const { job: jobPublicId, request: requestPublicId } = await params;
-  const actor = await requirePageActor(`/my/jobs/${jobPublicId}/approvals/${requestPublicId}`);
-  if (!JOB_PUBLIC_ID_PATTERN.test(jobPublicId) || !REQUEST_PUBLIC_ID_PATTERN.test(requestPublicId)) notFound();
-  let view: RequestView;
-  try {
-    view = await requestView(actor, jobPublicId, requestPublicId);
-  } catch (error) {
-    // Someone else's request looks like one that doesn't exist: refused either way.
-    if (error instanceof AppError && (error.code === "not_found" || error.code === "forbidden")) forbidden();
-    throw error;
-  }
+  // Someone else's request looks like one that doesn't exist; a request of another job in the address is a 404 too.
+  const { actor, ...found } = await loadPage("request", { request: requestPublicId }, "job:view", `/my/jobs/${jobPublicId}/approvals/${requestPublicId}`);
+  if (found.request.jobPublicId !== jobPublicId) notFound();
+  const view = await requestView(actor, found, jobPublicId);
   const { snapshot, job } = view;
   const when = new Intl.DateTimeFormat("en-US", { timeZone: job.timeZone, dateStyle: "medium", timeStyle: "short" });
   const jobPath = `/my/jobs/${jobPublicId}`;
@@ -54,10 +45,10 @@ export default async function ApprovalRequestPage({ params }: Props) {
       {view.status === "sent" && view.mayAnswer ? (
         <AnswerForm snapshot={snapshot} hash={view.hash} jobPublicId={jobPublicId} ownerName={job.ownerName} />
       ) : view.decision ? (
-        <DecisionRecord decision={view.decision} snapshot={snapshot} timeZone={job.timeZone} staff={view.audience === "shop"} />
+        <DecisionRecord decision={view.decision} snapshot={snapshot} timeZone={job.timeZone} staff={view.audience === "shop"} showMoney={view.mayViewMoney} />
       ) : (
         <Card as="section" title="What the shop proposed" headingId="lines-heading">
-          <RequestLines snapshot={snapshot} />
+          <RequestLines snapshot={snapshot} showMoney={view.mayViewMoney} />
         </Card>
       )}
     </div>

@@ -1,11 +1,24 @@
-import type { Actor } from "@/lib/permissions";
-import { can } from "@/lib/permissions";
+import { type Actor, can } from "@/lib/permissions";
+import { stripMoney } from "@/lib/money-fields";
 import { jobApprovals } from "@/lib/server/approval-views";
 import { ApprovalsPanelView } from "./approvals-panel-view";
 
-/** Findings and approval requests on the staff job page (loaded here, kept fresh by SWR in the view). */
-export async function ApprovalsPanel({ actor, job, basePath, timeZone }: { actor: Actor; job: { publicId: string; shopId: number; customerUserId: number | null }; basePath: string; timeZone: string }) {
-  const initial = await jobApprovals(actor, job.publicId);
+/**
+ * Findings and approval requests on the staff job page (loaded here, kept fresh by SWR in the view).
+ * What is handed to the browser follows the permission table: no amounts for a technician.
+ */
+export async function ApprovalsPanel({ actor, job, basePath, timeZone }: { actor: Actor; job: { id: number; publicId: string; shopId: number; customerUserId: number | null }; basePath: string; timeZone: string }) {
   const resource = { shopId: job.shopId, customerUserId: job.customerUserId };
-  return <ApprovalsPanelView jobPublicId={job.publicId} basePath={basePath} timeZone={timeZone} initial={initial} mayDraft={can(actor, "approvals:draft", resource)} />;
+  const overview = await jobApprovals(job);
+  const showMoney = can(actor, "money:view", resource);
+  return (
+    <ApprovalsPanelView
+      jobPublicId={job.publicId}
+      basePath={basePath}
+      timeZone={timeZone}
+      initial={showMoney ? overview : stripMoney(overview)}
+      mayDraft={can(actor, "approvals:draft", resource)}
+      showMoney={showMoney}
+    />
+  );
 }

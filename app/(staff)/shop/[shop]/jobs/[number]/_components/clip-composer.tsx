@@ -3,12 +3,12 @@ import { CircleCheck, CircleX, Pause, Play, Video, WifiOff, X } from "lucide-rea
 import { useEffect, useId, useRef, useState } from "react";
 import type { UpChunk } from "@mux/upchunk";
 import { Alert, Button } from "@/components/ui";
-import { CLIP_CHUNK_KIB, clipLimitProblem } from "@/lib/clips";
+import { CLIP_CHUNK_KIB, type FailedClip, clipLimitProblem } from "@/lib/clips";
 import { sendJson } from "@/lib/swr/fetcher";
 
 type Limits = { maxSeconds: number; maxBytes: number };
-type State = "checking" | "waiting" | "uploading" | "paused" | "offline" | "done" | "failed";
-type Item = { key: string; file: File; state: State; progress: number; message?: string };
+type State = "checking" | "waiting" | "uploading" | "paused" | "offline" | "done" | "failed" | "rejected";
+type Item = { key: string; file: File; state: State; progress: number; message?: string; clipId?: string };
 
 /** Reads a clip's length from the file itself, before anything is sent. */
 function readDuration(file: File): Promise<number | undefined> {
@@ -32,7 +32,7 @@ function readDuration(file: File): Promise<number | undefined> {
  * the video service with its own bar, pause/resume, and an automatic resume when the network
  * comes back. The entry shows on the timeline at once and turns ready by itself.
  */
-export function ClipComposer({ jobPublicId, limits, onStarted }: { jobPublicId: string; limits: Limits; onStarted: () => void }) {
+export function ClipComposer({ jobPublicId, limits, onStarted, rejected = [] }: { jobPublicId: string; limits: Limits; onStarted: () => void; rejected?: FailedClip[] }) {
   const [items, setItems] = useState<Item[]>([]);
   const [share, setShare] = useState(false);
   const uploads = useRef(new Map<string, UpChunk>());
@@ -53,13 +53,15 @@ export function ClipComposer({ jobPublicId, limits, onStarted }: { jobPublicId: 
     if (problem) return patch(item.key, { state: "failed", message: problem });
     let uploadUrl: string;
     try {
-      ({ uploadUrl } = await sendJson<{ uploadUrl: string }>(`/api/jobs/${jobPublicId}/clips`, "POST", {
+      let clipId: string;
+      ({ uploadUrl, clipId } = await sendJson<{ uploadUrl: string; clipId: string }>(`/api/jobs/${jobPublicId}/clips`, "POST", {
         name: item.file.name,
         size: item.file.size,
         type: item.file.type || undefined,
         durationSeconds,
         visibility,
       }));
+      patch(item.key, { clipId });
     } catch (e) {
       return patch(item.key, { state: "failed", message: (e as Error).message });
     }
@@ -109,6 +111,13 @@ export function ClipComposer({ jobPublicId, limits, onStarted }: { jobPublicId: 
     }
   }
 
+  // A clip the video service turned down after it was sent: the reason comes from the job's list of failed clips.
+  const reasons = new Map(rejected.map((r) => [r.id, r.error]));
+  const shown = items.map((it): Item => {
+    const reason = it.clipId ? reasons.get(it.clipId) : undefined;
+    return reason === undefined ? it : { ...it, state: "rejected", message: `The video service couldn't use it: ${reason} It was not added to the journal.` };
+  });
+
   const inputClass = "inline-flex min-h-14 flex-1 cursor-pointer items-center justify-center gap-2 rounded-lg px-4 py-3 text-lg font-semibold focus-within:outline focus-within:outline-2";
   return (
     <div className="space-y-4">
@@ -130,13 +139,13 @@ export function ClipComposer({ jobPublicId, limits, onStarted }: { jobPublicId: 
         <input type="checkbox" checked={share} onChange={(e) => setShare(e.target.checked)} className="size-6 accent-oil" />
         <span>Share new clips with the owner (otherwise shop only)</span>
       </label>
-      {items.length ? (
+      {shown.length ? (
         <ul className="space-y-2" aria-label="Clips on their way">
-          {items.map((it) => (
+          {shown.map((it) => (
             <li key={it.key} className="rounded-lg border border-line p-3">
               <div className="flex items-center gap-2">
                 {it.state === "done" ? <CircleCheck aria-hidden className="size-5 shrink-0 text-moss" /> : null}
-                {it.state === "failed" ? <CircleX aria-hidden className="size-5 shrink-0 text-rust" /> : null}
+                {it.state === "failed" || it.state === "rejected" ? <CircleX aria-hidden className="size-5 shrink-0 text-rust" /> : null}
                 {it.state === "offline" ? <WifiOff aria-hidden className="size-5 shrink-0 text-signal" /> : null}
                 <span className="min-w-0 flex-1 truncate font-semibold">{it.file.name}</span>
                 {it.state === "uploading" || it.state === "paused" ? (
@@ -144,14 +153,14 @@ export function ClipComposer({ jobPublicId, limits, onStarted }: { jobPublicId: 
                     {it.state === "paused" ? "Resume" : "Pause"}
                   </Button>
                 ) : null}
-                {it.state === "done" || it.state === "failed" ? (
+                {it.state === "done" || it.state === "failed" || it.state === "rejected" ? (
                   <Button variant="ghost" aria-label={`Clear ${it.file.name} from the list`} onClick={() => setItems((l) => l.filter((x) => x.key !== it.key))} icon={<X aria-hidden className="size-5" />} />
                 ) : null}
               </div>
               <progress className="mt-2 h-3 w-full accent-oil" max={1} value={it.progress} aria-label={`Upload of ${it.file.name}`} />
               <p className="text-sm text-ink-muted" aria-live="polite">
-                {it.state === "failed" ? <span className="text-rust">{it.message}</span> : null}
-                {it.state === "done" ? "Sent. It shows in the journal and turns playable by itself." : null}
+                {it.state === "failed" || it.state === "rejected" ? <span className="text-rust">{it.message}</span> : null}
+                {it.state === "done" ? "Sent. It shows in the journal and turns playable by itself (if the video service can't use it, you'll see why here)." : null}
                 {it.state === "uploading" ? `${Math.round(it.progress * 100)} %` : null}
                 {it.state === "paused" ? `Paused at ${Math.round(it.progress * 100)} %` : null}
                 {it.state === "offline" ? "Waiting for the network; it resumes by itself." : null}
@@ -161,7 +170,7 @@ export function ClipComposer({ jobPublicId, limits, onStarted }: { jobPublicId: 
           ))}
         </ul>
       ) : null}
-      {items.some((it) => it.state === "failed") ? <Alert tone="warning">Clips that failed were not added. The others are safe.</Alert> : null}
+      {shown.some((it) => it.state === "failed" || it.state === "rejected") ? <Alert tone="warning">Clips that failed were not added. The others are safe.</Alert> : null}
     </div>
   );
 }

@@ -1,16 +1,18 @@
 "use client";
 import { Camera, NotebookPen, Video } from "lucide-react";
-import { useCallback, useState } from "react";
+import { useCallback, useEffect, useState } from "react";
 import { Alert, Button, Card, Field, Input } from "@/components/ui";
 import { EntryCard } from "@/components/journal/entry-card";
 import { TimelineView } from "@/components/journal/timeline-view";
 import type { TimelineEntry } from "@/lib/journal";
 import type { NoteDoc } from "@/lib/rich-text/note";
 import { sendJson } from "@/lib/swr/fetcher";
+import { useFailedClips } from "@/lib/swr/use-failed-clips";
 import { type TimelineResponse, useJobTimeline } from "@/lib/swr/use-job-timeline";
 import type { JobStatus } from "@/lib/job-status";
 import { ClipComposer } from "./clip-composer";
 import { EntryControls } from "./entry-controls";
+import { FailedClips } from "./failed-clips";
 import { NoteComposer } from "./note-composer";
 import { PhotoComposer } from "./photo-composer";
 import { StatusForm } from "./status-form";
@@ -35,8 +37,19 @@ export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, may
   const [tab, setTab] = useState<"note" | "photos" | "clip">(startWith);
   const [editing, setEditing] = useState<number | null>(null);
   const timeline = useJobTimeline(jobPublicId, order, order === "desc" ? initial : undefined);
+  // Clips the video service rejects leave the timeline; their reasons come from this list.
+  const clipsPending = timeline.entries.some((e) => e.clip?.status === "uploading" || e.clip?.status === "processing");
+  const failed = useFailedClips(jobPublicId, clipsPending);
   const { mutate } = timeline;
-  const refresh = useCallback(() => void mutate(), [mutate]);
+  const { mutate: mutateFailed } = failed;
+  const refresh = useCallback(() => {
+    void mutate();
+    void mutateFailed();
+  }, [mutate, mutateFailed]);
+  // A clip that stops being pending either turned playable or was turned down: ask at once which.
+  useEffect(() => {
+    if (!clipsPending) void mutateFailed();
+  }, [clipsPending, mutateFailed]);
 
   const renderEntry = (entry: TimelineEntry, time: string) => (
     <EntryCard
@@ -96,7 +109,7 @@ export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, may
           ) : tab === "photos" ? (
             <PhotoComposer jobPublicId={jobPublicId} onPosted={refresh} defaultCaption={intakeCaption} />
           ) : (
-            <ClipComposer jobPublicId={jobPublicId} limits={clipLimits} onStarted={refresh} />
+            <ClipComposer jobPublicId={jobPublicId} limits={clipLimits} onStarted={refresh} rejected={failed.data?.clips} />
           )}
         </div>
       </Card>
@@ -105,6 +118,7 @@ export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, may
         <h2 id="timeline-heading" className="text-xl font-bold text-ink">
           Journal
         </h2>
+        <FailedClips jobPublicId={jobPublicId} clips={failed.data?.clips ?? []} onCleared={() => void mutateFailed()} />
         <TimelineView
           entries={timeline.entries}
           timeZone={timeZone}

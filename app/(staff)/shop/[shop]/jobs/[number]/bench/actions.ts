@@ -14,88 +14,62 @@ import {
 import { addTeardownStep, markStepReplaced, recordChainReading, recordReading, recordTorque, setTeardownTorque, tickTeardownStep } from "@/lib/server/bench";
 import { addJobPart, changeJobPartStatus } from "@/lib/server/bench-parts";
 
-// The bench page's forms. Each one: zod schema → lib/server/bench (authorises on the job, checks
-// with the domain modules, writes the row and its entry together) → refresh the bench and job pages.
+// The bench page's forms. Each one: zod schema and the job it names, authorised by its declaration
+// → lib/server/bench (checks with the domain modules, writes the row and its entry together) →
+// refresh the bench and job pages.
 
 function refresh(job: { shopSlug: string; number: number }) {
   revalidatePath(`/shop/${job.shopSlug}/jobs/${job.number}/bench`);
   revalidatePath(`/shop/${job.shopSlug}/jobs/${job.number}`);
 }
 
-export const recordTorqueAction = formAction({
-  input: torqueRecordSchema,
-  run: async ({ input, actor }) => {
-    const made = await recordTorque(actor, input);
-    refresh(made.job);
-    return { id: made.id };
-  },
+export const recordTorqueAction = formAction({ input: torqueRecordSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {
+  const made = await recordTorque(actor, found, input);
+  refresh(made.job);
+  return { id: made.id };
 });
 
-export const recordReadingAction = formAction({
-  input: readingSchema,
-  run: async ({ input, actor }) => {
-    const made = await recordReading(actor, input);
-    refresh(made.job);
-    return { id: made.id };
-  },
+export const recordReadingAction = formAction({ input: readingSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {
+  const made = await recordReading(actor, found, input);
+  refresh(made.job);
+  return { id: made.id };
 });
 
-export const recordChainAction = formAction({
-  input: chainReadingSchema,
-  run: async ({ input, actor }) => {
-    const made = await recordChainReading(actor, input);
-    refresh(made.job);
-    return { id: made.id, verdict: made.check.verdict };
-  },
+export const recordChainAction = formAction({ input: chainReadingSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {
+  const made = await recordChainReading(actor, found, input);
+  refresh(made.job);
+  return { id: made.id, verdict: made.check.verdict };
 });
 
-export const addTeardownStepAction = formAction({
-  input: teardownStepSchema,
-  run: async ({ input, actor }) => {
-    const made = await addTeardownStep(actor, input);
-    refresh(made.job);
-    return { id: made.id, seq: made.seq };
-  },
+export const addTeardownStepAction = formAction({ input: teardownStepSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {
+  const made = await addTeardownStep(actor, found, input);
+  refresh(made.job);
+  return { id: made.id, seq: made.seq };
 });
 
-export const setStepTorqueAction = formAction({
-  input: stepTorqueSchema,
-  run: async ({ input, actor }) => {
-    refresh((await setTeardownTorque(actor, input)).job);
-    return { step: input.step };
-  },
+export const setStepTorqueAction = formAction({ input: stepTorqueSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {
+  refresh((await setTeardownTorque(actor, found, input)).job);
+  return { step: input.step };
 });
 
-export const tickStepAction = formAction({
-  input: stepFlagSchema,
-  run: async ({ input, actor }) => {
-    refresh((await tickTeardownStep(actor, input)).job);
-    return { step: input.step };
-  },
+export const tickStepAction = formAction({ input: stepFlagSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {
+  refresh((await tickTeardownStep(actor, found, input)).job);
+  return { step: input.step };
 });
 
-export const markReplacedAction = formAction({
-  input: stepFlagSchema,
-  run: async ({ input, actor }) => {
-    refresh((await markStepReplaced(actor, input)).job);
-    return { step: input.step };
-  },
+export const markReplacedAction = formAction({ input: stepFlagSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {
+  refresh((await markStepReplaced(actor, found, input)).job);
+  return { step: input.step };
 });
 
-export const addPartAction = formAction({
-  input: partSchema,
-  run: async ({ input, actor }) => {
-    const made = await addJobPart(actor, input);
-    refresh(made.job);
-    return { id: made.id, jobMovedTo: made.jobMovedTo };
-  },
+export const addPartAction = formAction({ input: partSchema, resource: "job", permission: "parts:manage" }, async ({ input, actor, found }) => {
+  const made = await addJobPart(actor, found, input);
+  refresh(made.job);
+  return { id: made.id, jobMovedTo: made.jobMovedTo };
 });
 
-export const changePartStatusAction = formAction({
-  input: partStatusSchema,
-  run: async ({ input, actor }) => {
-    const made = await changeJobPartStatus(actor, input);
-    refresh(made.job);
-    return { jobMovedTo: made.jobMovedTo };
-  },
+export const changePartStatusAction = formAction({ input: partStatusSchema, resource: "job", permission: "parts:manage" }, async ({ input, actor, found }) => {
+  const made = await changeJobPartStatus(actor, found, input);
+  refresh(made.job);
+  return { jobMovedTo: made.jobMovedTo };
 });

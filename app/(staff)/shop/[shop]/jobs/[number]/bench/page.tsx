@@ -1,18 +1,15 @@
 import type { Metadata } from "next";
 import { BookOpen } from "lucide-react";
-import { notFound } from "next/navigation";
 import { ButtonLink, Caution, PageHeader } from "@/components/ui";
 import { getBenchSettings, listJobPhotos, listReadings, listTeardownSteps, listTorqueRecords } from "@/db/queries/bench";
 import { listParts } from "@/db/queries/bench-parts";
 import { listSpecs } from "@/db/queries/bench-specs";
-import { getJobByNumber } from "@/db/queries/jobs";
 import { CAUTIONS, type CautionKey } from "@/lib/cautions";
 import { describeMachine } from "@/lib/machine";
 import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
-import { authorizePage } from "@/lib/server/authorize";
 import { isTorqueUnit } from "@/lib/torque";
-import { shopPageAccess } from "../../../shop-access";
+import { staffJobPage } from "@/lib/server/page-access";
 import { PartsSection } from "./_components/parts-section";
 import { ReadingsSection } from "./_components/readings-section";
 import { ReassemblySection } from "./_components/reassembly-section";
@@ -40,13 +37,7 @@ const BENCH_CAUTIONS: CautionKey[] = ["lifting", "hot_oil", "used_oil", "fuel", 
 /** A job's bench tools, phone-first: torque, readings, teardown → reassembly, parts. */
 export default async function BenchPage({ params }: Props) {
   const { shop: slug, number } = await params;
-  const { actor, shop } = await shopPageAccess(slug, "shop:view-board", `/shop/${slug}/jobs/${number}/bench`);
-  const n = jobNumberParamSchema.safeParse(number);
-  if (!n.success) notFound();
-  const job = await getJobByNumber({ shopId: shop.id, number: n.data });
-  if (!job) notFound();
-  const resource = { shopId: job.shopId, customerUserId: job.customerUserId };
-  authorizePage(actor, "journal:view-shop-only", resource);
+  const { actor, shop, job, resource } = await staffJobPage(slug, number, "journal:view-shop-only", "/bench");
 
   const key = { shopId: shop.id, jobId: job.id };
   const [settings, records, readings, steps, parts, specs, photos] = await Promise.all([

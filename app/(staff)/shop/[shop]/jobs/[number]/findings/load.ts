@@ -1,30 +1,23 @@
 import "server-only";
-import { notFound } from "next/navigation";
-import { getJobByNumber } from "@/db/queries/jobs";
 import { getMoneySettings, listEvidenceChoices } from "@/db/queries/findings";
 import { can } from "@/lib/permissions";
-import { jobNumberParamSchema } from "@/lib/schemas/jobs";
-import { authorizePage } from "@/lib/server/authorize";
-import { shopPageAccess } from "../../../shop-access";
+import { staffJobPage } from "@/lib/server/page-access";
+import type { EditorSettings } from "./_components/form-state";
 
-/** The job behind a findings page, for its shop's staff, with what the editor needs. */
-export async function loadFindingsJob(slug: string, number: string, path: string) {
-  const { actor, shop } = await shopPageAccess(slug, "shop:view-board", path);
-  const n = jobNumberParamSchema.safeParse(number);
-  if (!n.success) notFound();
-  const job = await getJobByNumber({ shopId: shop.id, number: n.data });
-  if (!job) notFound();
-  const resource = { shopId: job.shopId, customerUserId: job.customerUserId };
-  authorizePage(actor, "approvals:draft", resource);
+/** The job behind a findings page, for its shop's staff, with what the editor needs (no money for a technician). */
+export async function loadFindingsJob(slug: string, number: string, suffix: string) {
+  const { actor, shop, job, resource, mayViewMoney } = await staffJobPage(slug, number, "approvals:draft", suffix);
   const [settings, choices] = await Promise.all([getMoneySettings({ shopId: shop.id }), listEvidenceChoices({ shopId: shop.id, jobId: job.id })]);
   return {
     actor,
     shop,
     job,
-    settings,
+    // A technician's editor gets no labour rate or supplies cap: a new labour line starts unpriced.
+    settings: { taxable: settings.taxable, tax: settings.tax, labourRateMinor: mayViewMoney ? settings.labourRateMinor : null, supplies: mayViewMoney ? settings.supplies : null } satisfies EditorSettings,
     choices,
     basePath: `/shop/${shop.slug}/jobs/${job.number}`,
     mayPrice: can(actor, "approvals:send", resource),
     mayRecord: can(actor, "approvals:record-decision", resource),
+    mayViewMoney,
   };
 }

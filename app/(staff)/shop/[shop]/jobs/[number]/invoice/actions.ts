@@ -17,8 +17,9 @@ import {
 import { recordCounterPayment, recordDeposit, refundPayment, requestDeposit } from "@/lib/server/invoice-payments";
 import { addLine, createInvoice, issueInvoice, removeLine, syncAuthorised, updateDraft, voidInvoice } from "@/lib/server/invoices";
 
-// The desk's invoice forms. Each one: zod schema → lib/server (authorises on the job, changes the
-// invoice, its payments, entry and e-mail in one transaction) → refresh the desk's and owner's pages.
+// The desk's invoice forms. Each one declares what it acts on and the permission it needs
+// (lib/action.ts), then lib/server changes the invoice, its payments, entry and e-mail in one
+// transaction, then the desk's and owner's pages are refreshed.
 
 function refresh(job: { shopSlug: string; number: number; publicId: string }) {
   revalidatePath(`/shop/${job.shopSlug}/jobs/${job.number}/invoice`);
@@ -33,15 +34,19 @@ async function done<T extends { job: { shopSlug: string; number: number; publicI
   return { saved: true };
 }
 
-export const createInvoiceAction = formAction({ input: jobRefSchema, run: ({ input, actor }) => done(createInvoice(actor, input.job)) });
+export const createInvoiceAction = formAction({ input: jobRefSchema, resource: "jobMoney", permission: "invoice:create" }, ({ actor, found }) => done(createInvoice(actor, found)));
 
-export const syncAuthorisedAction = formAction({ input: invoiceRefSchema, run: ({ input, actor }) => done(syncAuthorised(actor, input.invoice, input.version)) });
-export const addLineAction = formAction({ input: addLineSchema, run: ({ input, actor }) => done(addLine(actor, input.invoice, input)) });
-export const removeLineAction = formAction({ input: removeLineSchema, run: ({ input, actor }) => done(removeLine(actor, input.invoice, input)) });
-export const draftDetailsAction = formAction({ input: draftDetailsSchema, run: ({ input, actor }) => done(updateDraft(actor, input.invoice, input)) });
-export const issueInvoiceAction = formAction({ input: issueSchema, run: ({ input, actor }) => done(issueInvoice(actor, input.invoice, input.version)) });
-export const voidInvoiceAction = formAction({ input: voidSchema, run: ({ input, actor }) => done(voidInvoice(actor, input.invoice, input)) });
-export const recordPaymentAction = formAction({ input: recordPaymentSchema, run: ({ input, actor }) => done(recordCounterPayment(actor, input)) });
-export const requestDepositAction = formAction({ input: requestDepositSchema, run: ({ input, actor }) => done(requestDeposit(actor, input)) });
-export const recordDepositAction = formAction({ input: recordDepositSchema, run: ({ input, actor }) => done(recordDeposit(actor, input)) });
-export const refundAction = formAction({ input: refundSchema, run: ({ input, actor }) => done(refundPayment(actor, input)) });
+const draft = { resource: "invoice", permission: "invoice:create" } as const;
+export const syncAuthorisedAction = formAction({ input: invoiceRefSchema, ...draft }, ({ input, found }) => done(syncAuthorised(found, input.version)));
+export const addLineAction = formAction({ input: addLineSchema, ...draft }, ({ input, found }) => done(addLine(found, input)));
+export const removeLineAction = formAction({ input: removeLineSchema, ...draft }, ({ input, found }) => done(removeLine(found, input)));
+export const draftDetailsAction = formAction({ input: draftDetailsSchema, ...draft }, ({ input, found }) => done(updateDraft(found, input)));
+export const issueInvoiceAction = formAction({ input: issueSchema, ...draft }, ({ input, actor, found }) => done(issueInvoice(actor, found, input.version)));
+export const voidInvoiceAction = formAction({ input: voidSchema, ...draft }, ({ input, actor, found }) => done(voidInvoice(actor, found, input)));
+
+export const recordPaymentAction = formAction({ input: recordPaymentSchema, resource: "invoice", permission: "invoice:record-payment" }, ({ input, actor, found }) =>
+  done(recordCounterPayment(actor, found, input)),
+);
+export const requestDepositAction = formAction({ input: requestDepositSchema, resource: "jobMoney", permission: "invoice:create" }, ({ input, actor, found }) => done(requestDeposit(actor, found, input)));
+export const recordDepositAction = formAction({ input: recordDepositSchema, resource: "deposit", permission: "invoice:record-payment" }, ({ input, actor, found }) => done(recordDeposit(actor, found, input)));
+export const refundAction = formAction({ input: refundSchema, resource: "jobMoney", permission: "invoice:refund" }, ({ input, actor, found }) => done(refundPayment(actor, found, input)));

@@ -1,6 +1,4 @@
 import type { Metadata } from "next";
-import { notFound } from "next/navigation";
-import { getJobByNumber } from "@/db/queries/jobs";
 import { AuthorisationRecord } from "@/components/invoices/authorisation-record";
 import { InvoiceDocument } from "@/components/invoices/invoice-document";
 import { InvoiceActions } from "@/components/invoices/invoice-actions";
@@ -9,9 +7,8 @@ import { amountText } from "@/lib/invoices";
 import { formatMoney } from "@/lib/money";
 import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
-import { authorizePage } from "@/lib/server/authorize";
 import { invoiceView } from "@/lib/server/invoice-views";
-import { shopPageAccess } from "../../../shop-access";
+import { staffJobPage } from "@/lib/server/page-access";
 import { AddLineForm, CreateInvoiceButton, DetailsForm, IssueForm, RemoveLineButton, SyncButton, VoidForm } from "./_components/draft-forms";
 import { DepositsCard } from "./_components/deposits-card";
 import { RecordPaymentForm, RefundForm } from "./_components/payment-forms";
@@ -25,14 +22,8 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
 
 export default async function StaffInvoicePage({ params }: Props) {
   const { shop: slug, number } = await params;
-  const { actor, shop } = await shopPageAccess(slug, "shop:view-board", `/shop/${slug}/jobs/${number}/invoice`);
-  const n = jobNumberParamSchema.safeParse(number);
-  if (!n.success) notFound();
-  const job = await getJobByNumber({ shopId: shop.id, number: n.data });
-  if (!job) notFound();
-  const resource = { shopId: job.shopId, customerUserId: job.customerUserId };
   // Technicians see no money: the desk and the shop owner do.
-  authorizePage(actor, "invoice:view", resource);
+  const { actor, shop, job, resource } = await staffJobPage(slug, number, "invoice:view", "/invoice");
   const may = { create: can(actor, "invoice:create", resource), record: can(actor, "invoice:record-payment", resource), refund: can(actor, "invoice:refund", resource) };
   const view = await invoiceView(job.id, "shop");
   const inv = view.invoice;
@@ -118,7 +109,7 @@ export default async function StaffInvoicePage({ params }: Props) {
                       <span>
                         {m(p.amountMinor)} on {new Date(p.receivedAt).toLocaleDateString("en-US", { timeZone: view.shop.timezone })} ({p.method === "online" ? "online" : p.method.replace("_", " ")})
                       </span>
-                      <RefundForm payment={p.id} left={m(p.refundableMinor)} leftValue={amountText(p.refundableMinor, view.currency)} label={`the ${m(p.amountMinor)} payment`} online={p.method === "online"} />
+                      <RefundForm job={job.publicId} payment={p.id} left={m(p.refundableMinor)} leftValue={amountText(p.refundableMinor, view.currency)} label={`the ${m(p.amountMinor)} payment`} online={p.method === "online"} />
                     </li>
                   ))}
               </ul>

@@ -1,11 +1,10 @@
+import { z } from "zod";
 import { listEntryRevisions } from "@/db/queries/journal";
 import { route } from "@/lib/route";
-import { entryIdParam, journalAccess } from "@/lib/server/journal";
+import { ids } from "@/lib/server/access";
 
 /** GET /api/jobs/:job/entries/:entry/history — earlier versions of an entry, newest first (staff only). */
-export const GET = route<never, { job: string; entry: string }>({
-  run: async ({ params, actor }) => {
-    const { job } = await journalAccess(actor, params.job, "journal:view-shop-only");
-    return { revisions: await listEntryRevisions({ shopId: job.shopId, entryId: entryIdParam(params.entry) }) };
-  },
-});
+export const GET = route(
+  { params: z.object({ job: ids.job, entry: ids.row }), resource: "job", permission: "journal:view-shop-only" },
+  async ({ params, found }) => ({ revisions: await listEntryRevisions({ shopId: found.job.shopId, entryId: params.entry }) }),
+);

@@ -1,8 +1,10 @@
+import { z } from "zod";
 import { publicPhotoKeys } from "@/db/queries/portfolio-public";
 import { AppError } from "@/lib/errors";
-import { PHOTO_ID_PATTERN, PHOTO_SIZES, type PhotoSize } from "@/lib/journal";
-import { SHOP_SLUG_PATTERN, STORY_SLUG_PATTERN } from "@/lib/portfolio";
+import { PHOTO_SIZES } from "@/lib/journal";
+import { mayViewMedia } from "@/lib/permissions";
 import { route } from "@/lib/route";
+import { ids } from "@/lib/server/access";
 import { storage } from "@/lib/server/storage";
 
 /**
@@ -12,21 +14,20 @@ import { storage } from "@/lib/server/storage";
  * Renditions were re-encoded on upload with no EXIF/GPS. Shared caches must ask again each time
  * (no-cache + ETag), so a withdrawal also stops them at once; an unchanged photo costs a 304.
  */
-export const GET = route<never, { shop: string; story: string; photo: string; size: string }, true>({
-  public: true,
-  run: async ({ params, req }) => {
-    const notFound = new AppError("not_found", "No such photo.");
-    if (!SHOP_SLUG_PATTERN.test(params.shop) || !STORY_SLUG_PATTERN.test(params.story) || !PHOTO_ID_PATTERN.test(params.photo)) throw notFound;
-    if (!(PHOTO_SIZES as readonly string[]).includes(params.size)) throw notFound;
+export const GET = route(
+  { params: z.object({ shop: ids.shop, story: ids.story, photo: ids.media, size: z.enum(PHOTO_SIZES) }), permission: "public" },
+  async ({ params, req }) => {
+    // Found only while a published story shows it (and its entry is still shared): the "public" branch of the media rule.
     const keys = await publicPhotoKeys({ shopSlug: params.shop, storySlug: params.story, photoPublicId: params.photo });
-    if (!keys) throw notFound;
+    const facts = { shared: !!keys, moneyEntry: false, quotedInRequest: false, inPublishedStory: !!keys };
+    if (!keys || !mayViewMedia("public", facts)) throw new AppError("not_found", "No such photo.");
     // Renditions never change under a key: the key names the version.
-    const key = (params.size as PhotoSize) === "thumb" ? keys.thumbKey : keys.displayKey;
+    const key = params.size === "thumb" ? keys.thumbKey : keys.displayKey;
     const etag = `"${Buffer.from(key).toString("base64url")}"`;
     const headers = { "cache-control": "public, no-cache", etag, "x-content-type-options": "nosniff" };
     if (req.headers.get("if-none-match") === etag) return new Response(null, { status: 304, headers });
     const object = await storage().get(key);
-    if (!object) throw notFound;
+    if (!object) throw new AppError("not_found", "No such photo.");
     return new Response(new Uint8Array(object.body), { headers: { ...headers, "content-type": object.contentType, "content-length": String(object.size) } });
   },
-});
+);

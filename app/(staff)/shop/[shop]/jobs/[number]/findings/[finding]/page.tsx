@@ -6,7 +6,7 @@ import { getCustomerContact, getFinding } from "@/db/queries/findings";
 import { formatMoney } from "@/lib/money";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { JOB_STATUS_LABEL, statusMoveError } from "@/lib/job-status";
-import { findingIdParam } from "@/lib/server/approval-route";
+import { ids } from "@/lib/server/access";
 import { jobApprovals } from "@/lib/server/approval-views";
 import { AutoRefresh } from "../_components/auto-refresh";
 import { FindingEditor } from "../_components/finding-editor";
@@ -22,11 +22,12 @@ type Props = { params: Promise<{ shop: string; number: string; finding: string }
 /** One finding: its requests and answers, the editor (draft or price), and sending. */
 export default async function FindingPage({ params }: Props) {
   const { shop: slug, number, finding: raw } = await params;
-  const { actor, shop, job, settings, choices, basePath, mayPrice, mayRecord } = await loadFindingsJob(slug, number, `/shop/${slug}/jobs/${number}/findings/${raw}`);
-  const id = /^[1-9]\d{0,15}$/.test(raw) ? findingIdParam(raw) : notFound();
+  const { shop, job, settings, choices, basePath, mayPrice, mayRecord, mayViewMoney } = await loadFindingsJob(slug, number, `/findings/${raw}`);
+  const parsed = ids.row.safeParse(raw);
+  const id = parsed.success ? parsed.data : notFound();
   const finding = await getFinding({ shopId: shop.id, jobId: job.id, id });
   if (!finding) notFound();
-  const [overview, allRequests, contact] = await Promise.all([jobApprovals(actor, job.publicId), listRequests({ shopId: shop.id, jobId: job.id }), getCustomerContact({ shopId: shop.id, customerId: job.customerId })]);
+  const [overview, allRequests, contact] = await Promise.all([jobApprovals(job), listRequests({ shopId: shop.id, jobId: job.id }), getCustomerContact({ shopId: shop.id, customerId: job.customerId })]);
   const requests = allRequests.filter((r) => r.findingId === id).reverse();
   const decisions = await listDecisions({ shopId: shop.id, requestIds: requests.map((r) => r.id) });
   const summary = overview.findings.find((f) => f.id === id)!;
@@ -38,14 +39,15 @@ export default async function FindingPage({ params }: Props) {
     <div className="space-y-6">
       {open ? <AutoRefresh /> : null}
       <PageHeader title={finding.title} description={`${formatJobNumber(job.number)} · owner ${job.customerName}${finding.createdBy ? ` · drafted by ${finding.createdBy}` : ""}`} back={{ href: basePath, label: `Back to ${formatJobNumber(job.number)}` }} />
-      {overview.warnings
+      {/* Warnings quote amounts: the desk's, not the bench's. */}
+      {(mayViewMoney ? overview.warnings : [])
         .filter((w) => w.findingId === id)
         .map((w) => (
           <Alert key={w.findingId} tone="warning" title="Needs the owner's approval">
             {w.message}
           </Alert>
         ))}
-      {requests.length ? <RequestHistory requests={requests} decisions={decisions} timeZone={shop.timezone} mayPrice={mayPrice} mayRecord={mayRecord} owner={{ name: job.customerName, phone: contact.phone }} /> : null}
+      {requests.length ? <RequestHistory requests={requests} decisions={decisions} timeZone={shop.timezone} mayPrice={mayPrice} mayRecord={mayRecord} showMoney={mayViewMoney} owner={{ name: job.customerName, phone: contact.phone }} /> : null}
       <FindingEditor
         key={finding.version}
         jobPublicId={job.publicId}
@@ -57,7 +59,7 @@ export default async function FindingPage({ params }: Props) {
           whyItMatters: finding.whyItMatters ?? "",
           safety: finding.safety,
           evidence: finding.evidence,
-          lines: finding.lines.map((l) => toLineState(l, shop.currency)),
+          lines: finding.lines.map((l) => toLineState(l, shop.currency, mayViewMoney)),
         }}
         choices={choices}
         mayPrice={mayPrice}

@@ -4,11 +4,11 @@ import { useState } from "react";
 import { Alert, Button, Card, Field, Input, Select, Textarea } from "@/components/ui";
 import { FindingCaution } from "@/components/approvals/finding-caution";
 import type { EvidenceChoices } from "@/db/queries/findings";
-import { SAFETY_CATEGORIES, SAFETY_LABEL, type SafetyCategory, type ShopMoneySettings } from "@/lib/approvals";
+import { SAFETY_CATEGORIES, SAFETY_LABEL, type SafetyCategory } from "@/lib/approvals";
 import { postJson } from "@/lib/client/approvals";
 import { formatMoney } from "@/lib/money";
 import { EvidencePicker } from "./evidence-picker";
-import { type FindingState, emptyLine, payload, preview } from "./form-state";
+import { type EditorSettings, type FindingState, emptyLine, payload, preview } from "./form-state";
 import { LinesEditor } from "./lines-editor";
 
 type Props = {
@@ -20,7 +20,7 @@ type Props = {
   mayPrice: boolean;
   locked: boolean;
   currency: string;
-  settings: ShopMoneySettings;
+  settings: EditorSettings;
 };
 
 /** Draft (the bench) or price (the desk) a finding: what was found, why it matters, evidence and lines. */

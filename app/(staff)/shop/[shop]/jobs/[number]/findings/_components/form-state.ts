@@ -17,6 +17,8 @@ export type LineState = {
 };
 export type EvidenceState = { kind: EvidenceKind; ref: string; momentMs: number | null };
 export type FindingState = { title: string; found: string; whyItMatters: string; safety: SafetyCategory; evidence: EvidenceState[]; lines: LineState[] };
+/** The shop's settings the editor uses: money parts (the labour rate, the supplies cap) only for people who see money. */
+export type EditorSettings = Pick<ShopMoneySettings, "labourRateMinor" | "taxable" | "tax" | "supplies">;
 
 let counter = 0;
 export const newKey = () => `new-${++counter}`;
@@ -30,7 +32,9 @@ export function minorToText(minor: number | null, currency: string): string {
   return `${s.slice(0, -digits)}.${s.slice(-digits)}`;
 }
 
-export function toLineState(line: DraftLine & { id?: number }, currency: string): LineState {
+/** A stored line as form text; without `prices` (a technician's editor) the price fields start and stay empty. */
+export function toLineState(line: DraftLine & { id?: number }, currency: string, prices = true): LineState {
+  const price = (minor: number | null) => (prices ? minorToText(minor, currency) : "");
   return {
     key: line.id ? `line-${line.id}` : newKey(),
     id: line.id,
@@ -39,9 +43,9 @@ export function toLineState(line: DraftLine & { id?: number }, currency: string)
     partNumber: line.partNumber ?? "",
     qty: line.qtyThousandths == null ? "1" : formatQuantity(line.qtyThousandths),
     hours: line.hoursTenths == null ? "" : formatHours(line.hoursTenths),
-    unitPrice: minorToText(line.unitPriceMinor, currency),
-    rate: minorToText(line.rateMinor, currency),
-    amount: minorToText(line.amountMinor, currency),
+    unitPrice: price(line.unitPriceMinor),
+    rate: price(line.rateMinor),
+    amount: price(line.amountMinor),
     taxable: line.taxable,
   };
 }

@@ -13,6 +13,8 @@ type Props = {
   timeZone: string;
   mayPrice: boolean;
   mayRecord: boolean;
+  /** Amounts of what was sent and answered: not for a technician. */
+  showMoney: boolean;
   owner: { name: string; phone: string | null };
 };
 
@@ -24,7 +26,7 @@ function StateBadge({ r }: { r: RequestRow }) {
 }
 
 /** Every version sent for this finding, newest first: its life, the answer on record, and what the desk can still do. */
-export function RequestHistory({ requests, decisions, timeZone, mayPrice, mayRecord, owner }: Props) {
+export function RequestHistory({ requests, decisions, timeZone, mayPrice, mayRecord, showMoney, owner }: Props) {
   const when = new Intl.DateTimeFormat("en-US", { timeZone, dateStyle: "medium", timeStyle: "short" });
   const at = (iso: string | null) => (iso ? when.format(new Date(iso)) : null);
   return (
@@ -56,7 +58,11 @@ export function RequestHistory({ requests, decisions, timeZone, mayPrice, mayRec
               <Link href={`/my/jobs/${r.jobPublicId}/approvals/${r.publicId}`} className="inline-flex min-h-tap items-center font-semibold text-oil underline underline-offset-2">
                 See it as the owner does
               </Link>
-              {decision ? <DecisionRecord decision={decision} snapshot={r.snapshot} timeZone={timeZone} staff headingLevel={3} /> : <RequestLines snapshot={r.snapshot} label={`Lines of version ${r.version}`} />}
+              {decision ? (
+                <DecisionRecord decision={decision} snapshot={r.snapshot} timeZone={timeZone} staff headingLevel={3} showMoney={showMoney} />
+              ) : (
+                <RequestLines snapshot={r.snapshot} label={`Lines of version ${r.version}`} showMoney={showMoney} />
+              )}
               {r.status === "sent" && (mayPrice || mayRecord) ? (
                 <div className="flex flex-wrap gap-2">
                   {mayRecord ? <PhoneDecisionForm snapshot={r.snapshot} hash={r.hash} ownerName={owner.name} ownerPhone={owner.phone} /> : null}

@@ -17,7 +17,7 @@ type Props = { params: Promise<{ shop: string; number: string }>; searchParams: 
  */
 export default async function NewFindingPage({ params, searchParams }: Props) {
   const { shop: slug, number } = await params;
-  const { shop, job, settings, choices, basePath, mayPrice } = await loadFindingsJob(slug, number, `/shop/${slug}/jobs/${number}/findings/new`);
+  const { shop, job, settings, choices, basePath, mayPrice } = await loadFindingsJob(slug, number, "/findings/new");
   const start = startingPoint(await searchParams, choices);
   return (
     <div className="space-y-6">

@@ -97,7 +97,7 @@ export function RecordDepositForm({ deposit, amount }: { deposit: string; amount
   );
 }
 
-export function RefundForm({ payment, left, leftValue, label, online }: { payment: number; left: string; leftValue: string; label: string; online: boolean }) {
+export function RefundForm({ job, payment, left, leftValue, label, online }: { job: string; payment: number; left: string; leftValue: string; label: string; online: boolean }) {
   const form = useBenchForm(refundAction);
   const [open, setOpen] = useState(false);
   if (!open) {
@@ -109,6 +109,7 @@ export function RefundForm({ payment, left, leftValue, label, online }: { paymen
   }
   return (
     <form key={formKey(form.state, leftValue)} action={form.formAction} role="group" aria-label={`Refund ${label}`} className="w-full space-y-3 rounded-lg bg-rust-soft p-3">
+      <input type="hidden" name="job" value={job} />
       <input type="hidden" name="payment" value={payment} />
       <input type="hidden" name="confirmed" value="yes" />
       <FormError message={form.formError} />

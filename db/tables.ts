@@ -1,0 +1,666 @@
+import type { DecisionMethod, EvidenceKind, LineAnswer, LineKind, RequestStatus, SafetyCategory } from "@/lib/approvals";
+import type { PartStatus, SpecKind } from "@/lib/bench";
+import type { Frequency, SubscriberRole } from "@/lib/following";
+import type { InvoiceStatus, PaymentKind, PaymentMethod } from "@/lib/invoices";
+import type { JobStatus } from "@/lib/job-status";
+import type { ClipStatus, EntryVisibility } from "@/lib/journal";
+import type { MachineKind } from "@/lib/machine";
+import type { StaffRole } from "@/lib/permissions";
+import type { ConsentDecision, StoryItemKind, StoryStatus } from "@/lib/portfolio";
+import type { ReadingVerdict } from "@/lib/readings";
+import type { TorqueUnit } from "@/lib/torque";
+
+// Every table's row, once, as db/migrations defines it and as mysql2 hands it back with the
+// settings of db/config.ts. Registered with Knex below (its documented way), so `k("jobs")` knows
+// its columns: reads are typed and a write with a wrong column name or type doesn't compile.
+// Joined queries ("jobs as j") are typed by picking from these rows (see db/queries/*.ts).
+//
+// How columns come back: INT and BIGINT → number (supportBigNumbers: an id past 2^53 would be a
+// string; none is); DECIMAL → number (decimalNumbers; exact text needs CAST … AS CHAR); DATE →
+// "YYYY-MM-DD" string (typeCast); TIMESTAMP → Date; BOOLEAN (TINYINT(1)) → 0 or 1, written as
+// true/false; JSON (LONGTEXT in MariaDB) → the JSON text, written as JSON.stringify(…).
+
+/** TINYINT(1): reads back 0 or 1; written as a boolean. */
+export type Flag = 0 | 1 | boolean;
+/** A JSON column's text (MariaDB stores JSON as LONGTEXT). */
+export type JsonText = string;
+/** DATE, as "YYYY-MM-DD". */
+export type DateText = string;
+/** A left-joined table's columns: all null when no row matched. */
+export type Nullable<T> = { [K in keyof T]: T[K] | null };
+
+// ---- shops, people, jobs (migrations 01–03, 11, 13) ------------------------------------------
+
+export type ShopsTable = {
+  id: number;
+  slug: string;
+  name: string;
+  email: string | null;
+  phone: string | null;
+  timezone: string;
+  currency: string;
+  next_job_number: number;
+  next_invoice_number: number;
+  digest_window_minutes: number;
+  clip_max_seconds: number;
+  clip_max_bytes: number;
+  created_at: Date;
+};
+
+export type UsersTable = { id: number; email: string; name: string; password_hash: string | null; created_at: Date; last_sign_in_at: Date | null };
+
+/** `deactivated_at` set: taken off the staff, history kept (13). */
+export type MembershipsTable = { id: number; shop_id: number; user_id: number; role: StaffRole; created_at: Date; deactivated_at: Date | null };
+
+export type CustomersTable = { id: number; shop_id: number; user_id: number | null; name: string; email: string | null; phone: string | null; created_at: Date };
+
+export type MachinesTable = {
+  id: number;
+  shop_id: number;
+  customer_id: number;
+  kind: MachineKind;
+  year: number | null;
+  make: string;
+  model: string;
+  engine_cc: number | null;
+  serial: string | null;
+  hours: number | null;
+  odometer: number | null;
+  odometer_unit: "km" | "mi" | null;
+  created_at: Date;
+};
+
+export type JobsTable = {
+  id: number;
+  shop_id: number;
+  number: number;
+  public_id: string;
+  customer_id: number;
+  machine_id: number;
+  status: JobStatus;
+  concern: string;
+  intake_notes: string | null;
+  promised_on: DateText | null;
+  technician_user_id: number | null;
+  created_by_user_id: number | null;
+  created_at: Date;
+  updated_at: Date;
+};
+
+export type JobStatusChangesTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  from_status: JobStatus | null;
+  to_status: JobStatus;
+  changed_by_user_id: number | null;
+  note: string | null;
+  changed_at: Date;
+};
+
+export type SignInLinksTable = { id: number; email: string; token_hash: string; expires_at: Date; used_at: Date | null; created_at: Date };
+
+export type AuthAttemptsTable = { id: number; kind: "password" | "link_request" | "link_use"; subject: string; succeeded: Flag; created_at: Date };
+
+export type UserSessionsTable = { id: string; user_id: number; method: "password" | "link"; created_at: Date; expires_at: Date; ended_at: Date | null; ended_reason: string | null };
+
+// ---- the journal (04) and bench tools (05) ---------------------------------------------------
+
+export type JournalEntriesTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  kind: string;
+  visibility: EntryVisibility;
+  author_user_id: number | null;
+  body: JsonText | null;
+  caption: string | null;
+  version: number;
+  created_at: Date;
+  edited_at: Date | null;
+  shared_at: Date | null;
+  deleted_at: Date | null;
+};
+
+export type JournalEntryRevisionsTable = {
+  id: number;
+  shop_id: number;
+  entry_id: number;
+  version: number;
+  change: "edit" | "share" | "unshare" | "delete";
+  visibility: EntryVisibility;
+  body: JsonText | null;
+  caption: string | null;
+  changed_by_user_id: number | null;
+  changed_at: Date;
+};
+
+export type PhotosTable = {
+  id: number;
+  public_id: string;
+  shop_id: number;
+  job_id: number;
+  entry_id: number | null;
+  position: number;
+  uploaded_by_user_id: number | null;
+  original_name: string | null;
+  display_key: string;
+  thumb_key: string;
+  width: number;
+  height: number;
+  bytes: number;
+  created_at: Date;
+};
+
+export type ShopBenchSettingsTable = { shop_id: number; torque_unit: TorqueUnit; pass_percents: JsonText; chain_limit_pct: number; updated_at: Date };
+
+export type TorqueRecordsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  entry_id: number | null;
+  fastener: string;
+  spec_value: number;
+  unit: TorqueUnit;
+  applied_value: number | null;
+  tool: string | null;
+  pass_percents: JsonText;
+  bolt_count: number | null;
+  note: string | null;
+  recorded_by_user_id: number | null;
+  created_at: Date;
+};
+
+export type ReadingsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  entry_id: number | null;
+  label: string;
+  value: number;
+  unit: string | null;
+  min_value: number | null;
+  max_value: number | null;
+  source: string | null;
+  verdict: ReadingVerdict;
+  chain: JsonText | null;
+  recorded_by_user_id: number | null;
+  created_at: Date;
+};
+
+export type TeardownStepsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  entry_id: number | null;
+  seq: number;
+  removed: string;
+  count: number | null;
+  size: string | null;
+  notes: string | null;
+  storage_label: string | null;
+  photo_public_id: string | null;
+  torque_value: number | null;
+  torque_unit: TorqueUnit | null;
+  torque_bolt_count: number | null;
+  replaced_new: Flag;
+  checked_by_user_id: number | null;
+  checked_at: Date | null;
+  created_by_user_id: number | null;
+  created_at: Date;
+};
+
+export type JobPartsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  part_number: string | null;
+  description: string;
+  supplier: string | null;
+  qty_thousandths: number;
+  cost_minor: number | null;
+  status: PartStatus;
+  expected_on: DateText | null;
+  created_by_user_id: number | null;
+  created_at: Date;
+  updated_at: Date;
+};
+
+export type JobPartEventsTable = { id: number; shop_id: number; part_id: number; from_status: PartStatus | null; to_status: PartStatus; changed_by_user_id: number | null; changed_at: Date };
+
+export type SpecEntriesTable = {
+  id: number;
+  shop_id: number;
+  make: string;
+  model: string;
+  kind: SpecKind;
+  label: string;
+  value: number | null;
+  unit: string | null;
+  min_value: number | null;
+  max_value: number | null;
+  bolt_count: number | null;
+  notes: string | null;
+  source: string | null;
+  created_by_user_id: number | null;
+  created_at: Date;
+};
+
+// ---- mail and following (06) -----------------------------------------------------------------
+
+export type OutboxTable = {
+  id: number;
+  shop_id: number | null;
+  dedupe_scope: number;
+  dedupe_key: string | null;
+  kind: string;
+  from_address: string;
+  to_email: string;
+  reply_to: string | null;
+  subject: string;
+  html: string;
+  text: string;
+  headers: JsonText | null;
+  idempotency_key: string;
+  state: "queued" | "sending" | "retrying" | "sent" | "dead";
+  attempts: number;
+  next_attempt_at: Date;
+  locked_until: Date | null;
+  claim_token: string | null;
+  last_error: string | null;
+  provider_id: string | null;
+  priority: number;
+  send_before: Date | null;
+  created_at: Date;
+  sent_at: Date | null;
+};
+
+export type JobSubscribersTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  email: string;
+  user_id: number | null;
+  role: SubscriberRole;
+  frequency: Frequency;
+  unsubscribed_at: Date | null;
+  invited_by_user_id: number | null;
+  created_at: Date;
+};
+
+export type JobUpdateQueueTable = { id: number; shop_id: number; job_id: number; entry_id: number; shared_at: Date; every_sent_at: Date | null; daily_sent_at: Date | null };
+
+export type JobAlertsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  kind: string;
+  subscriber_id: number | null;
+  payload: JsonText | null;
+  dedupe_key: string | null;
+  created_at: Date;
+  sent_at: Date | null;
+};
+
+// ---- approvals (07) --------------------------------------------------------------------------
+
+export type ShopMoneySettingsTable = {
+  shop_id: number;
+  labour_rate_minor: number | null;
+  tax_rate_percent: number | string;
+  tax_method: "per_line" | "per_invoice";
+  parts_taxable: Flag;
+  labour_taxable: Flag;
+  fees_taxable: Flag;
+  supplies_percent: number | string | null;
+  supplies_base: "labour" | "parts_and_labour";
+  supplies_cap_minor: number | null;
+  supplies_taxable: Flag;
+  tolerance_kind: "strict" | "greater_of";
+  tolerance_fixed_minor: number;
+  tolerance_percent: number | string;
+  tolerance_cap_minor: number | null;
+  reminder_delay_hours: number;
+  updated_at: Date;
+};
+
+export type FindingsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  title: string;
+  found: string;
+  why_it_matters: string | null;
+  safety: SafetyCategory;
+  version: number;
+  created_by_user_id: number | null;
+  created_at: Date;
+  updated_at: Date;
+};
+
+export type FindingEvidenceTable = { id: number; shop_id: number; finding_id: number; position: number; kind: EvidenceKind; ref: string; moment_ms: number | null };
+
+export type FindingLinesTable = {
+  id: number;
+  shop_id: number;
+  finding_id: number;
+  position: number;
+  kind: LineKind;
+  description: string;
+  part_number: string | null;
+  qty_thousandths: number | null;
+  unit_price_minor: number | null;
+  hours_tenths: number | null;
+  rate_minor: number | null;
+  amount_minor: number | null;
+  taxable: Flag;
+};
+
+export type ApprovalRequestsTable = {
+  id: number;
+  public_id: string;
+  shop_id: number;
+  job_id: number;
+  finding_id: number;
+  version: number;
+  status: RequestStatus;
+  replaced_by_id: number | null;
+  snapshot: JsonText;
+  canonical: string;
+  hash: string;
+  token_hash: string;
+  currency: string;
+  estimate_pre_tax_minor: number;
+  estimate_tax_minor: number;
+  estimate_total_minor: number;
+  sent_to: string | null;
+  sent_by_user_id: number | null;
+  sent_at: Date;
+  opened_at: Date | null;
+  answered_at: Date | null;
+  withdrawn_at: Date | null;
+  withdrawn_by_user_id: number | null;
+};
+
+export type ApprovalDecisionsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  request_id: number;
+  method: DecisionMethod;
+  person_name: string;
+  signature_name: string | null;
+  phone_called: string | null;
+  note: string | null;
+  wants_parts_back: Flag;
+  decided_at: Date;
+  recorded_at: Date;
+  recorded_by_user_id: number | null;
+  ip: string | null;
+  user_agent: string | null;
+  shown_hash: string;
+  estimate_pre_tax_minor: number;
+  estimate_total_minor: number;
+  authorised_pre_tax_minor: number;
+  authorised_tax_minor: number;
+  authorised_total_minor: number;
+};
+
+export type ApprovalDecisionLinesTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  decision_id: number;
+  line_no: number;
+  answer: LineAnswer;
+  kind: LineKind;
+  description: string;
+  part_number: string | null;
+  qty_thousandths: number | null;
+  hours_tenths: number | null;
+  net_minor: number;
+  taxable: Flag;
+};
+
+/** The view of every approved line of every answered request (migration 07). */
+export type JobAuthorisedWorkView = Pick<ApprovalDecisionLinesTable, "shop_id" | "job_id" | "line_no" | "kind" | "description" | "part_number" | "qty_thousandths" | "hours_tenths" | "net_minor" | "taxable"> & {
+  request_id: number;
+  request_public_id: string;
+  decision_id: number;
+  method: DecisionMethod;
+  decided_at: Date;
+};
+
+// ---- clips (08, 12) --------------------------------------------------------------------------
+
+export type ClipsTable = {
+  id: number;
+  public_id: string;
+  shop_id: number;
+  job_id: number;
+  /** Null for a failed upload: the video service rejected it and its entry was removed (12). */
+  entry_id: number | null;
+  uploaded_by_user_id: number | null;
+  original_name: string | null;
+  bytes: number;
+  upload_id: string;
+  asset_id: string | null;
+  playback_id: string | null;
+  status: ClipStatus;
+  duration_seconds: number | null;
+  aspect_ratio: string | null;
+  error: string | null;
+  created_at: Date;
+  updated_at: Date;
+};
+
+export type ClipMomentsTable = { id: number; shop_id: number; clip_id: number; at_ms: number; label: string; created_by_user_id: number | null; created_at: Date };
+
+export type WebhookEventsTable = { event_id: string; type: string; received_at: Date };
+
+// ---- invoices and payments (09) --------------------------------------------------------------
+
+export type InvoicesTable = {
+  id: number;
+  public_id: string;
+  shop_id: number;
+  job_id: number;
+  number: number;
+  status: InvoiceStatus;
+  live_job_id: number | null;
+  currency: string;
+  totals: JsonText;
+  subtotal_minor: number;
+  discount_minor: number;
+  supplies_minor: number;
+  tax_minor: number;
+  total_minor: number;
+  paid_minor: number;
+  balance_minor: number;
+  discount_kind: "amount" | "percent" | null;
+  discount_amount_minor: number | null;
+  discount_percent: number | string | null;
+  returned_parts_note: string | null;
+  note: string | null;
+  version: number;
+  created_by_user_id: number | null;
+  created_at: Date;
+  issued_at: Date | null;
+  issued_by_user_id: number | null;
+  paid_at: Date | null;
+  voided_at: Date | null;
+};
+
+export type InvoiceLinesTable = {
+  id: number;
+  shop_id: number;
+  invoice_id: number;
+  position: number;
+  source: "authorised" | "added";
+  request_public_id: string | null;
+  request_line_no: number | null;
+  kind: LineKind;
+  description: string;
+  part_number: string | null;
+  qty_thousandths: number | null;
+  unit_price_minor: number | null;
+  hours_tenths: number | null;
+  rate_minor: number | null;
+  amount_minor: number | null;
+  taxable: Flag;
+};
+
+export type DepositRequestsTable = {
+  id: number;
+  public_id: string;
+  shop_id: number;
+  job_id: number;
+  request_public_id: string | null;
+  amount_minor: number;
+  currency: string;
+  note: string | null;
+  status: "open" | "paid" | "cancelled";
+  requested_by_user_id: number | null;
+  requested_at: Date;
+  paid_at: Date | null;
+};
+
+export type PaymentCheckoutsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  invoice_id: number | null;
+  deposit_id: number | null;
+  provider_session_id: string;
+  url: string | null;
+  amount_minor: number;
+  currency: string;
+  status: "open" | "complete" | "expired";
+  created_by_user_id: number | null;
+  created_at: Date;
+  closed_at: Date | null;
+};
+
+export type PaymentsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  invoice_id: number | null;
+  deposit_id: number | null;
+  kind: PaymentKind;
+  method: PaymentMethod;
+  amount_minor: number;
+  currency: string;
+  reference: string | null;
+  provider_payment_id: string | null;
+  provider_refund_id: string | null;
+  provider_session_id: string | null;
+  refund_of_payment_id: number | null;
+  recorded_by_user_id: number | null;
+  received_at: Date;
+};
+
+// ---- the public portfolio (10) ---------------------------------------------------------------
+
+export type ShopProfilesTable = {
+  shop_id: number;
+  display_name: string | null;
+  about: string | null;
+  logo_key: string | null;
+  location_text: string | null;
+  show_location: Flag;
+  public_email: string | null;
+  public_phone: string | null;
+  updated_at: Date;
+};
+
+export type StoriesTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  slug: string;
+  title: string;
+  write_up: JsonText | null;
+  cover_photo_id: number | null;
+  status: StoryStatus;
+  version: number;
+  proposed_by_user_id: number | null;
+  published_by_user_id: number | null;
+  published_at: Date | null;
+  created_at: Date;
+  updated_at: Date;
+};
+
+export type StoryItemsTable = {
+  id: number;
+  shop_id: number;
+  story_id: number;
+  position: number;
+  kind: StoryItemKind;
+  entry_id: number | null;
+  photo_id: number | null;
+  moment_ms: number | null;
+  caption: string | null;
+};
+
+export type StoryConsentsTable = {
+  id: number;
+  shop_id: number;
+  story_id: number;
+  user_id: number | null;
+  name_typed: string;
+  decision: ConsentDecision;
+  decided_at: Date;
+  ip: string;
+  user_agent: string | null;
+};
+
+declare module "knex/types/tables" {
+  interface Tables {
+    shops: ShopsTable;
+    users: UsersTable;
+    memberships: MembershipsTable;
+    customers: CustomersTable;
+    machines: MachinesTable;
+    jobs: JobsTable;
+    job_status_changes: JobStatusChangesTable;
+    sign_in_links: SignInLinksTable;
+    auth_attempts: AuthAttemptsTable;
+    user_sessions: UserSessionsTable;
+    journal_entries: JournalEntriesTable;
+    journal_entry_revisions: JournalEntryRevisionsTable;
+    photos: PhotosTable;
+    shop_bench_settings: ShopBenchSettingsTable;
+    torque_records: TorqueRecordsTable;
+    readings: ReadingsTable;
+    teardown_steps: TeardownStepsTable;
+    job_parts: JobPartsTable;
+    job_part_events: JobPartEventsTable;
+    spec_entries: SpecEntriesTable;
+    outbox: OutboxTable;
+    job_subscribers: JobSubscribersTable;
+    job_update_queue: JobUpdateQueueTable;
+    job_alerts: JobAlertsTable;
+    shop_money_settings: ShopMoneySettingsTable;
+    findings: FindingsTable;
+    finding_evidence: FindingEvidenceTable;
+    finding_lines: FindingLinesTable;
+    approval_requests: ApprovalRequestsTable;
+    approval_decisions: ApprovalDecisionsTable;
+    approval_decision_lines: ApprovalDecisionLinesTable;
+    job_authorised_work: JobAuthorisedWorkView;
+    clips: ClipsTable;
+    clip_moments: ClipMomentsTable;
+    video_webhook_events: WebhookEventsTable;
+    invoices: InvoicesTable;
+    invoice_lines: InvoiceLinesTable;
+    deposit_requests: DepositRequestsTable;
+    payment_checkouts: PaymentCheckoutsTable;
+    payments: PaymentsTable;
+    payment_webhook_events: WebhookEventsTable;
+    shop_profiles: ShopProfilesTable;
+    stories: StoriesTable;
+    story_items: StoryItemsTable;
+    story_consents: StoryConsentsTable;
+  }
+}

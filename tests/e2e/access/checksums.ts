@@ -1,0 +1,40 @@
+// "A refused request wrote nothing", measured: MariaDB's CHECKSUM TABLE over every table of the
+// database under test, before and after. Background work of the running app (the mail worker,
+// video webhooks) must have settled first: waitForQuiet.
+import mysql from "mysql2/promise";
+
+export type Checksums = Map<string, string>;
+
+export async function connect(): Promise<mysql.Connection> {
+  const url = process.env.DATABASE_URL;
+  if (!url) throw new Error("DATABASE_URL is not set; run the end-to-end tests through `npm test`.");
+  return mysql.createConnection(url);
+}
+
+export async function checksums(db: mysql.Connection): Promise<Checksums> {
+  const [tables] = await db.query<mysql.RowDataPacket[]>("SHOW FULL TABLES WHERE Table_type = 'BASE TABLE'");
+  const names = tables.map((row) => String(Object.values(row)[0]));
+  const [rows] = await db.query<mysql.RowDataPacket[]>(`CHECKSUM TABLE ${names.map((n) => `\`${n}\``).join(", ")}`);
+  return new Map(rows.map((r) => [String(r.Table).split(".").pop()!, String(r.Checksum)]));
+}
+
+/** Tables whose checksum differs (or that appeared or vanished). */
+export function changedTables(before: Checksums, after: Checksums): string[] {
+  const names = new Set([...before.keys(), ...after.keys()]);
+  return [...names].filter((n) => before.get(n) !== after.get(n)).sort();
+}
+
+/** Waits until two readings a second apart agree, so what changes next is the test's doing. */
+export async function waitForQuiet(db: mysql.Connection, timeoutMs = 60_000): Promise<Checksums> {
+  const until = Date.now() + timeoutMs;
+  let last = await checksums(db);
+  let busy: string[] = [];
+  while (Date.now() < until) {
+    await new Promise((r) => setTimeout(r, 1_000));
+    const now = await checksums(db);
+    busy = changedTables(last, now);
+    if (busy.length === 0) return now;
+    last = now;
+  }
+  throw new Error(`The database kept changing for ${timeoutMs / 1000} s (${busy.join(", ")}): something in the background is still writing.`);
+}

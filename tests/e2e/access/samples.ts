@@ -1,0 +1,122 @@
+// A minimal valid request for each declaration that takes a body or a form, against the
+// fixture (fixture.ts). Valid, so a refusal can only come from the wrapper or the resolver; and
+// where the allowed call would change shared demo data, one the handler itself turns down
+// (a stale version, a row that doesn't exist) — the wrapper has let it through by then.
+// A declaration with a body and no sample here fails the test: add one.
+import type { Body } from "./client";
+import type { PersonaName } from "./expected";
+import { type Fixture, PHOTO_FILE, note } from "./fixture";
+
+export type SampleContext = { f: Fixture; persona: PersonaName };
+export type HandlerSample = { body?: (c: SampleContext) => Body; query?: Record<string, string>; params?: (f: Fixture) => Record<string, string> };
+
+const json = (value: unknown): Body => ({ kind: "json", value });
+const STALE = "999999"; // a version no fixture row reaches
+const NO_ROW = "999999999"; // a row id no fixture row has
+
+/** Path params by name, for every route: the fixture's ids. */
+export function paramValues(f: Fixture): Record<string, string> {
+  return {
+    shop: f.shop,
+    job: f.job,
+    number: String(f.number),
+    entry: String(f.entry),
+    finding: String(f.finding),
+    request: f.request,
+    invoice: f.invoice,
+    clip: f.clip,
+    photo: f.photos.shared,
+    size: "thumb",
+    file: "poster.jpg",
+    story: f.storySlug,
+    token: "access-test",
+  };
+}
+
+export const HANDLER_SAMPLES: Record<string, HandlerSample> = {
+  "POST /api/approvals/[request]/decision": { body: () => json({ shownHash: "0".repeat(64), lines: [], signature: "Access Test", wantsPartsBack: false, confirmed: true }) },
+  "POST /api/approvals/[request]/recorded-decision": {
+    body: () => json({ shownHash: "0".repeat(64), lines: [], method: "in_person", personName: "Access Test", decidedAt: new Date().toISOString(), wantsPartsBack: false }),
+  },
+  "POST /api/approvals/[request]/withdraw": { body: () => json({ reason: "Access test" }) },
+  // The photo quoted as evidence of the request.
+  "GET /api/approvals/[request]/evidence/[photo]/[size]": { params: (f) => ({ photo: f.photos.quoted }) },
+  "POST /api/jobs/[job]/clips/[clip]/moments": { body: () => json({ atSeconds: 1, label: "Access test" }) },
+  "POST /api/jobs/[job]/clips": { body: () => json({ name: "access.mp4", size: 1000, durationSeconds: 1, type: "video/mp4", visibility: "shop" }) },
+  "PATCH /api/jobs/[job]/entries/[entry]": { body: () => json({ version: Number(STALE), visibility: "shop" }) },
+  "DELETE /api/jobs/[job]/entries/[entry]": { body: () => json({ version: Number(STALE) }) },
+  "PATCH /api/jobs/[job]/findings/[finding]": { body: () => json({ version: Number(STALE), title: "Access test", found: "Access test", safety: "none" }) },
+  "POST /api/jobs/[job]/findings/[finding]/send": { body: () => json({ findingVersion: Number(STALE) }) },
+  "POST /api/jobs/[job]/findings": { body: () => json({ title: "Access test finding", found: "Made by the access test.", safety: "none" }) },
+  "POST /api/jobs/[job]/entries": { body: ({ persona }) => json({ kind: "note", note: note(`Access test, ${persona}`), visibility: "shop" }) },
+  "POST /api/jobs/[job]/photos": { body: () => ({ kind: "multipart", fields: { photo: { name: "access.jpg", mimeType: "image/jpeg", buffer: PHOTO_FILE } } }) },
+  "GET /api/shops/[shop]/customers": { query: { q: "Calloway" } },
+  // Unsigned: the handler's signature check answers, after the wrapper let it through.
+  "POST /api/webhooks/payments": { body: () => ({ kind: "raw", text: "{}", contentType: "application/json" }) },
+  "POST /api/webhooks/video": { body: () => ({ kind: "raw", text: "{}", contentType: "application/json" }) },
+  // RFC 8058 one-click, with a token that isn't one.
+  "POST /u/[token]": { body: () => ({ kind: "raw", text: "List-Unsubscribe=One-Click", contentType: "application/x-www-form-urlencoded" }) },
+};
+
+const SIGN_IN = "app/(auth)/sign-in/actions.ts";
+const FOLLOWING = "app/(owner)/my/jobs/[job]/following-actions.ts";
+const OWNER_INVOICE = "app/(owner)/my/jobs/[job]/invoice/actions.ts";
+const BENCH = "app/(staff)/shop/[shop]/jobs/[number]/bench/actions.ts";
+const INVOICE = "app/(staff)/shop/[shop]/jobs/[number]/invoice/actions.ts";
+const PORTFOLIO = "app/(staff)/shop/[shop]/portfolio/actions.ts";
+const SPECS = "app/(staff)/shop/[shop]/specs/actions.ts";
+
+type Fields = (c: SampleContext) => Record<string, string>;
+const invoiceRef = (f: Fixture) => ({ invoice: f.invoice, version: STALE });
+
+export const ACTION_SAMPLES: Record<string, Fields> = {
+  // Addresses nobody has, one per persona (the per-address limits stay out of the way).
+  [`${SIGN_IN}#signInWithPassword`]: ({ f, persona }) => ({ email: `nobody.${f.run}.${persona.toLowerCase()}@access.test`, password: "not-the-password" }),
+  [`${SIGN_IN}#requestOwnerLink`]: ({ f, persona }) => ({ email: `nobody.${f.run}.${persona.toLowerCase()}@access.test` }),
+  [`${SIGN_IN}#signInWithLink`]: () => ({ token: "A".repeat(43) }),
+  [`${SIGN_IN}#signOutAction`]: () => ({}),
+  [`${SIGN_IN}#signOutEverywhereAction`]: () => ({}),
+  [`${FOLLOWING}#inviteFollowerAction`]: ({ f, persona }) => ({ job: f.job, email: `friend.${f.run}.${persona.toLowerCase()}@access.test` }),
+  [`${FOLLOWING}#removeFollowerAction`]: ({ f }) => ({ job: f.job, subscriber: NO_ROW }),
+  [`${FOLLOWING}#setFrequencyAction`]: ({ f }) => ({ job: f.job, frequency: "daily" }),
+  [`${OWNER_INVOICE}#payInvoiceAction`]: ({ f }) => ({ invoice: f.invoice }),
+  [`${OWNER_INVOICE}#payDepositAction`]: ({ f }) => ({ deposit: f.deposit }),
+  ["app/(owner)/my/jobs/[job]/portfolio/actions.ts#consentAction"]: ({ f }) => ({ job: f.job, decision: "refused", name: "Access Test" }),
+  // A move that doesn't exist: the job's status stays.
+  ["app/(staff)/shop/[shop]/jobs/[number]/actions.ts#changeStatusAction"]: ({ f }) => ({ job: f.job, from: "picked_up", to: "picked_up", note: "" }),
+  [`${BENCH}#recordTorqueAction`]: ({ f }) => ({ job: f.job, fastener: "Access test bolt", specValue: "10", unit: "nm" }),
+  [`${BENCH}#recordReadingAction`]: ({ f }) => ({ job: f.job, label: "Access test reading", value: "1" }),
+  [`${BENCH}#recordChainAction`]: ({ f }) => ({ job: f.job, pitchMm: "15.875", pitches: "20", measuredMm: "318" }),
+  [`${BENCH}#addTeardownStepAction`]: ({ f }) => ({ job: f.job, removed: "Access test cover" }),
+  [`${BENCH}#setStepTorqueAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, torqueValue: "10", torqueUnit: "nm" }),
+  [`${BENCH}#tickStepAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, value: "1" }),
+  [`${BENCH}#markReplacedAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, value: "1" }),
+  [`${BENCH}#addPartAction`]: ({ f }) => ({ job: f.job, description: "Access test part", status: "received" }),
+  [`${BENCH}#changePartStatusAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, from: "needed", to: "ordered" }),
+  // The job has its live invoice already; the rest name a stale version.
+  [`${INVOICE}#createInvoiceAction`]: ({ f }) => ({ job: f.job }),
+  [`${INVOICE}#syncAuthorisedAction`]: ({ f }) => invoiceRef(f),
+  [`${INVOICE}#addLineAction`]: ({ f }) => ({ ...invoiceRef(f), kind: "fee", description: "Access test fee", amount: "1.00" }),
+  [`${INVOICE}#removeLineAction`]: ({ f }) => ({ ...invoiceRef(f), line: NO_ROW }),
+  [`${INVOICE}#draftDetailsAction`]: ({ f }) => invoiceRef(f),
+  [`${INVOICE}#issueInvoiceAction`]: ({ f }) => ({ ...invoiceRef(f), confirmed: "yes" }),
+  [`${INVOICE}#voidInvoiceAction`]: ({ f }) => ({ ...invoiceRef(f), reason: "Access test", confirmed: "yes" }),
+  [`${INVOICE}#recordPaymentAction`]: ({ f }) => ({ invoice: f.invoice, method: "cash", amount: "1.00" }),
+  [`${INVOICE}#requestDepositAction`]: ({ f }) => ({ job: f.job, amount: "5.00" }),
+  [`${INVOICE}#recordDepositAction`]: ({ f }) => ({ deposit: f.deposit, method: "cash" }),
+  [`${INVOICE}#refundAction`]: ({ f }) => ({ job: f.job, payment: NO_ROW, amount: "1.00", confirmed: "yes" }),
+  // An owner on file that doesn't exist: nothing is checked in.
+  ["app/(staff)/shop/[shop]/jobs/new/actions.ts#checkInMachine"]: ({ f }) => ({ shop: f.shop, customerMode: "existing", customerId: NO_ROW, machineMode: "existing", machineId: NO_ROW, concern: "Access test" }),
+  ["app/(staff)/shop/[shop]/outbox/actions.ts#retryMailAction"]: ({ f }) => ({ shop: f.shop, id: NO_ROW }),
+  [`${PORTFOLIO}#proposeAction`]: ({ f }) => ({ shop: f.shop, job: f.job }),
+  [`${PORTFOLIO}#curateAction`]: ({ f }) => ({ shop: f.shop, story: String(f.story), version: STALE, title: "Access test story", slug: f.storySlug, items: "[]" }),
+  [`${PORTFOLIO}#publishAction`]: ({ f }) => ({ shop: f.shop, story: String(f.story) }),
+  [`${PORTFOLIO}#unpublishAction`]: ({ f }) => ({ shop: f.shop, story: String(f.story) }),
+  [`${PORTFOLIO}#askOwnerAction`]: ({ f }) => ({ shop: f.shop, story: String(f.story) }),
+  // The profile and settings as they are (and put back afterwards all the same).
+  [`${PORTFOLIO}#saveProfileAction`]: ({ f }) => ({ shop: f.shop, ...f.profile }),
+  [`${SPECS}#addSpecAction`]: ({ f }) => ({ shop: f.shop, make: `Access ${f.run}`, model: "Test", kind: "note", label: "Access test", notes: "Access test note" }),
+  [`${SPECS}#deleteSpecAction`]: ({ f }) => ({ shop: f.shop, spec: NO_ROW }),
+  [`${SPECS}#saveBenchSettingsAction`]: ({ f }) => ({ shop: f.shop, torqueUnit: "nm", passes: "30, 60, 100", chainLimitPct: "3", clipMaxMinutes: "10", clipMaxGb: "2" }),
+  ["app/unsubscribe/[token]/actions.ts#unsubscribeAction"]: () => ({ token: "access-test" }),
+};
