@@ -1,6 +1,8 @@
 import { NextResponse, type NextRequest } from "next/server";
 import { actionRefusal } from "@/lib/action-guard";
 import { badPathSegment, securityHeaders } from "@/lib/security-headers";
+import { DATABASE_UNAVAILABLE_MESSAGE } from "@/lib/errors";
+import { databaseAnswers } from "@/lib/server/db-health";
 
 // Runs before every page and API request (not static files, photo uploads or webhooks: see the
 // matcher). It never decides access; that is done inside each page, handler and action. It:
@@ -24,9 +26,13 @@ export async function proxy(request: NextRequest) {
     return NextResponse.json({ error: { code: "bad_request", message: "The address has a malformed %-escape; encode it again (UTF-8)." } }, { status: 400 });
   }
   const ownOrigins = new Set([request.nextUrl.origin, ...(process.env.APP_URL && URL.canParse(process.env.APP_URL) ? [new URL(process.env.APP_URL).origin] : [])]);
-  // /api/… and /u/… (one-click unsubscribe) are route handlers: Next never decodes them as actions.
-  const refusedAction = await actionRefusal(request, ownOrigins, { page: !/^\/(api|u)\//.test(pathname) });
+  // Any other path may end at a page (a not-found one, say), which Next decodes a multipart POST
+  // for as a possible no-JS form action; /u/<token> is the one-click route handler, which mail
+  // services post to as a form from elsewhere (RFC 8058).
+  const refusedAction = await actionRefusal(request, ownOrigins, { page: !/^\/u\/[^/]+$/.test(pathname) });
   if (refusedAction) return NextResponse.json({ error: { code: refusedAction.code, message: refusedAction.message } }, { status: refusedAction.status });
+  // Pages and form posts while the database is down: a real 503 (route handlers answer their own).
+  if (!pathname.startsWith("/api/") && !(await databaseAnswers())) return databaseDown(request);
   if (SIGNED_IN_AREAS.test(pathname) && !request.cookies.getAll().some((c) => SESSION_COOKIES.some((name) => c.name.startsWith(name)))) {
     const url = request.nextUrl.clone();
     url.pathname = "/sign-in";
@@ -44,9 +50,20 @@ export async function proxy(request: NextRequest) {
   return response;
 }
 
+/** 503 with Retry-After: a short page for a person, the usual error body for a form post or a client fetch. */
+function databaseDown(request: NextRequest) {
+  const headers = { "retry-after": "5", "cache-control": "no-store" };
+  if (request.method !== "GET" || !(request.headers.get("accept") ?? "").includes("text/html")) {
+    return NextResponse.json({ error: { code: "unavailable", message: DATABASE_UNAVAILABLE_MESSAGE } }, { status: 503, headers });
+  }
+  const page = `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1"><meta http-equiv="refresh" content="5"><title>Back in a moment · Benchside</title></head><body style="font-family:system-ui,sans-serif;max-width:32rem;margin:4rem auto;padding:0 1rem;line-height:1.5"><h1>Back in a moment</h1><p>${DATABASE_UNAVAILABLE_MESSAGE}</p><p>This page tries again by itself every few seconds; nothing you saved is lost.</p></body></html>`;
+  return new NextResponse(page, { status: 503, headers: { ...headers, "content-type": "text/html; charset=utf-8" } });
+}
+
 export const config = {
   // Everything but build assets, fonts, photo uploads and webhooks: the proxy reads at most 10 MB
-  // of a body, and those two take large or raw bodies. An upload path whose job segment is
-  // malformed still comes here (the exclusion names only well-formed ids) and gets its 400.
-  matcher: ["/((?!_next/static/|_next/image|fonts/|favicon\\.ico|api/webhooks/|api/jobs/[A-Za-z0-9_-]+/photos(?:/|$)).*)"],
+  // of a body, and those two take large or raw bodies. Only their exact paths are left out: an
+  // upload path whose job segment is malformed still comes here and gets its 400, and one with
+  // more segments (no route: the not-found page) gets its form post screened.
+  matcher: ["/((?!_next/static/|_next/image|fonts/|favicon\\.ico|api/webhooks/(?:payments|video)/?$|api/jobs/[A-Za-z0-9_-]+/photos/?$).*)"],
 };

@@ -36,8 +36,8 @@ export async function actionRefusal(request: Request, ownOrigins: ReadonlySet<st
   if ((site && site !== "same-origin" && site !== "none") || (origin !== null && (!ownOrigins.has(origin) || new URL(origin).host !== hostOf(request)))) {
     return refusal(403, "forbidden", "Requests from other sites are refused.");
   }
-  const type = (request.headers.get("content-type") ?? "").split(";")[0]!.trim().toLowerCase();
-  if (type !== "multipart/form-data") return refusal(415, "unsupported_media_type", "Send the form as multipart/form-data.");
+  // Exactly as Next tests it (case-sensitive): anything else it would decode as a JSON reply.
+  if (!(request.headers.get("content-type") ?? "").startsWith("multipart/form-data")) return refusal(415, "unsupported_media_type", "Send the form as multipart/form-data.");
   const length = request.headers.get("content-length");
   if (length === null || !/^\d{1,12}$/.test(length)) return refusal(411, "length_required", "Send the form with its length (Content-Length).");
   if (Number(length) > ACTION_BODY_LIMIT) return refusal(413, "too_large", "The form is too large (6 MB at most; job photos go through their own upload).");
@@ -62,10 +62,11 @@ function hostOf(request: Request): string {
 
 // A fetch action's arguments are React's reply encoding: field "0" is the JSON array of the
 // arguments, in which a string starting with "$" refers to another part ("$K1": the form's
-// fields, sent as "1_<name>"), and a literal "$…" string is escaped as "$$…". Our actions take
+// fields, sent as "_1_<name>"), and a literal "$…" string is escaped as "$$…". Our actions take
 // (previous state, form); the previous state is plain JSON. A reference to a part that isn't
 // there, or a root that isn't an array, makes Next's decoder throw (a 500): refused here.
-const VALUE_TOKENS = /^\$(?:\$.*|K[0-9a-f]+|D.*|n-?\d+|undefined|NaN|Infinity|-Infinity|-0)$/s;
+// Values that stand alone: a literal, a date, a BigInt (React refuses over 300 digits), the form.
+const VALUE_TOKENS = /^\$(?:\$.*|K[0-9a-f]+|D.*|n-?\d{1,300}|undefined|NaN|Infinity|-Infinity|-0)$/s;
 
 function plainArguments(value: unknown, depth = 0): boolean {
   if (depth > 64) return false;

@@ -6,6 +6,7 @@ import { AppError, type ErrorBody, toErrorBody } from "@/lib/errors";
 import type { Actor } from "@/lib/permissions";
 import { type Permission, type ResourceKind, type Resolved, checkDeclaration, resolve } from "@/lib/server/access";
 import { getActor } from "@/lib/server/actor";
+import { reportDatabaseUnavailable } from "@/lib/server/db-health";
 import { crossSiteRefusal } from "@/lib/server/request-guard";
 
 /** What a form action hands back to `useActionState`: nothing yet, success, or an error to show. */
@@ -56,6 +57,7 @@ export function formAction<S extends z.ZodType, T, const Pm extends Permission, 
       unstable_rethrow(error);
       const { status, body } = toErrorBody(error);
       if (status >= 500 && status !== 503) console.error(error);
+      if (status === 503) reportDatabaseUnavailable();
       return { ok: false, values, ...body };
     }
   };

@@ -6,7 +6,8 @@ import type { Actor } from "@/lib/permissions";
 import { type Permission, type ResourceKind, type Resolved, checkDeclaration, resolve } from "@/lib/server/access";
 import { getActor } from "@/lib/server/actor";
 import { crossSiteRefusal, mediaTypeRefusal } from "@/lib/server/request-guard";
-import { readJsonCapped } from "@/lib/server/body-limit";
+import { CLOSE_AFTER_REFUSAL, readJsonCapped } from "@/lib/server/body-limit";
+import { reportDatabaseUnavailable } from "@/lib/server/db-health";
 import { stripMoney } from "@/lib/money-fields";
 
 type Ctx = { params: Promise<Record<string, string | string[]>> };
@@ -87,7 +88,10 @@ export function route<
     } catch (error) {
       const { status, body } = toErrorBody(error);
       if (status >= 500 && status !== 503) console.error(error);
-      return NextResponse.json(body, { status, headers: status === 503 ? { "retry-after": "5" } : undefined });
+      if (status === 503) reportDatabaseUnavailable();
+      // 503: come back shortly; 413: the body was left unread, so the connection can't be reused.
+      const headers = status === 503 ? { "retry-after": "5" } : status === 413 ? CLOSE_AFTER_REFUSAL : undefined;
+      return NextResponse.json(body, { status, headers });
     }
   };
   return Object.assign(handler, { declaration: decl as RouteDeclaration<z.ZodType, z.ZodType, BodyKind, ResourceKind | undefined, Permission> });

@@ -10,14 +10,19 @@ import { z } from "zod";
 export const WEBHOOK_MAX_BYTES = 1024 * 1024;
 
 const id = z.string().min(1).max(255);
-const expandable = z.union([id, z.object({ id }).loose()]).nullish();
+/** Provider ids we also keep as a payment's reference (120 characters). */
+const ref = z.string().min(1).max(120);
+const expandable = z.union([ref, z.object({ id: ref }).loose()]).nullish();
+/** Video ids are kept in 64-character columns. */
+const videoId = z.string().min(1).max(64);
 
 // ---------------------------------------------------------------- payments (stripe-shaped)
 
+// Event ids and types are stored (payment_webhook_events: id 255, type 64; video_webhook_events: 64, 64).
 export const paymentEventSchema = z
   .object({
     id,
-    type: z.string().min(1).max(100),
+    type: z.string().min(1).max(64),
     data: z.object({ object: z.object({}).loose() }).loose(),
   })
   .loose();
@@ -35,12 +40,12 @@ export const checkoutSessionSchema = z
 
 export const chargeSchema = z
   .object({
-    id,
+    id: ref,
     payment_intent: expandable,
     amount_refunded: z.number().int().nonnegative(),
     refunds: z
       .object({
-        data: z.array(z.object({ id, amount: z.number().int().nonnegative(), payment_intent: expandable }).loose()).optional(),
+        data: z.array(z.object({ id: ref, amount: z.number().int().nonnegative(), payment_intent: expandable }).loose()).optional(),
       })
       .loose()
       .nullish(),
@@ -59,17 +64,17 @@ export const PAYMENT_EVENT_OBJECTS = {
 
 export const videoEventSchema = z
   .object({
-    id,
-    type: z.string().min(1).max(100),
+    id: videoId,
+    type: z.string().min(1).max(64),
     data: z
       .object({
-        id: id.optional(),
-        upload_id: id.optional(),
-        asset_id: id.optional(),
+        id: videoId.optional(),
+        upload_id: videoId.optional(),
+        asset_id: videoId.optional(),
         status: z.string().max(40).optional(),
         duration: z.number().nonnegative().finite().optional(),
         aspect_ratio: z.string().max(16).optional(),
-        playback_ids: z.array(z.object({ id, policy: z.string().max(20).optional() }).loose()).max(50).optional(),
+        playback_ids: z.array(z.object({ id: videoId, policy: z.string().max(20).optional() }).loose()).max(50).optional(),
         errors: z.object({ type: z.string().max(100).optional(), messages: z.array(z.string().max(2000)).max(20).optional() }).loose().optional(),
         error: z.object({ type: z.string().max(100).optional(), message: z.string().max(2000).optional() }).loose().optional(),
       })

@@ -71,7 +71,7 @@ test("health check reports the database", async ({ request }) => {
 });
 
 test("after five wrong passwords the account says to wait, even for the right one", async ({ page }) => {
-  // Wren's account is used by no other end-to-end test, so locking it affects nothing else.
+  // No other end-to-end test signs Wren in after auth.setup.ts (whose saved session a lock doesn't end), so locking her account affects nothing else.
   const wren = { email: "wren@saltmarsh.test", password: "saltmarsh-demo" };
   const signIn = new SignInPage(page);
   for (let i = 0; i < 5; i++) {

@@ -38,11 +38,11 @@ describe("mediaTypeRefusal", () => {
 
 describe("actionRefusal", () => {
   const own = new Set(["http://localhost:3110"]);
-  // As React's client encodes (previousState, formData): the arguments as "0", the form's fields as "1_<name>".
+  // As React's client encodes (previousState, formData): the arguments as "0", the form's fields as "_1_<name>".
   const form = (root: string | null = '[null,"$K1"]') => {
     const f = new FormData();
     if (root !== null) f.set("0", root);
-    f.set("1_job", "abc");
+    f.set("_1_job", "abc");
     return f;
   };
   const post = async (headers: Record<string, string>, body?: BodyInit) => {
@@ -75,7 +75,7 @@ describe("actionRefusal", () => {
   });
 
   it("answers 400 for argument lists Next's decoder would throw on", async () => {
-    for (const root of [null, "", "[", "42", "null", "{}", '"x"', '[null,"$@1"]', '[null,"$Q2"]', '["$T"]']) {
+    for (const root of [null, "", "[", "42", "null", "{}", '"x"', '[null,"$@1"]', '[null,"$Q2"]', '["$T"]', `[null,"$n${"1".repeat(301)}"]`]) {
       expect((await multipart({}, form(root)))?.status, String(root)).toBe(400);
     }
     for (const root of ["[]", "[null]", '[null,"$K2"]', '[{"ok":false,"values":{"note":"$$5"}},"$K1"]', '[{"at":"$D2026-01-01T00:00:00.000Z"},"$K1"]']) {

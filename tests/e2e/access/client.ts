@@ -15,7 +15,7 @@ export const APP_ORIGIN = new URL(APP_URL).origin;
  */
 export const ANONYMOUS_COOKIE = "authjs.session-token=";
 
-export type Seen = { status: number; code?: string; message?: string; redirect?: string; text: string };
+export type Seen = { status: number; code?: string; message?: string; fields?: Record<string, string[]>; redirect?: string; text: string };
 
 export type Body =
   | { kind: "none" }
@@ -32,8 +32,8 @@ async function read(res: Awaited<ReturnType<APIRequestContext["fetch"]>>): Promi
   if (location) seen.redirect = location;
   if ((res.headers()["content-type"] ?? "").includes("application/json")) {
     try {
-      const error = (JSON.parse(text) as { error?: { code?: string; message?: string } }).error;
-      if (error) Object.assign(seen, { code: error.code, message: error.message });
+      const error = (JSON.parse(text) as { error?: Pick<Seen, "code" | "message" | "fields"> }).error;
+      if (error) Object.assign(seen, { code: error.code, message: error.message, fields: error.fields });
     } catch {
       // Not JSON after all: the status says enough.
     }
@@ -56,9 +56,11 @@ export async function callHandler(ctx: APIRequestContext, call: HandlerCall, hea
 
 /** A server action as React's client sends it for `useActionState`: `(previousState, formData)`. */
 export async function callAction(ctx: APIRequestContext, a: { id: string; page: string; fields: Record<string, string> }, headers: Record<string, string> = {}): Promise<Seen> {
-  // encodeReply([null, formData]): the arguments as field "0", the form's entries prefixed "_1_".
-  const multipart: Record<string, string> = { "0": '[null,"$K1"]' };
-  for (const [key, value] of Object.entries(a.fields)) multipart[`_1_${key}`] = value;
+  // encodeReply([null, formData]): the form's entries prefixed "_1_", then the arguments as field
+  // "0" — last, as React sends it: the server resolves "$K1" from the entries read before it.
+  const multipart = new FormData();
+  for (const [key, value] of Object.entries(a.fields)) multipart.append(`_1_${key}`, value);
+  multipart.append("0", '[null,"$K1"]');
   const res = await ctx.fetch(a.page, {
     method: "POST",
     headers: { "next-action": a.id, accept: "text/x-component", origin: APP_ORIGIN, ...headers },
@@ -70,35 +72,31 @@ export async function callAction(ctx: APIRequestContext, a: { id: string; page: 
   const redirect = res.headers()["x-action-redirect"];
   if (redirect) seen.redirect = redirect.split(";")[0];
   const state = actionState((await res.body()).toString("utf8"));
-  if (state && state.ok === false) Object.assign(seen, { code: state.error?.code, message: state.error?.message });
+  if (state && state.ok === false) Object.assign(seen, { code: state.error?.code, message: state.error?.message, fields: state.error?.fields });
   if (state?.ok === true) seen.code = "ok";
   return seen;
 }
 
-type ActionState = { ok: boolean; error?: { code?: string; message?: string } };
+type ActionState = { ok: boolean; error?: Pick<Seen, "code" | "message" | "fields"> };
 
-/** The `{ok, …}` object anywhere in an RSC (text/x-component) answer: one JSON value per row. */
+/**
+ * The action's result in an RSC (text/x-component) answer: one JSON model per row "<id>:<json>";
+ * row 0 is `{"a": <result or "$@<row>">, …}`, the result an `{ok, …}` ActionState.
+ */
 export function actionState(flight: string): ActionState | null {
-  const find = (v: unknown): ActionState | null => {
-    if (!v || typeof v !== "object") return null;
-    if (typeof (v as ActionState).ok === "boolean") return v as ActionState;
-    for (const child of Object.values(v)) {
-      const hit = find(child);
-      if (hit) return hit;
-    }
-    return null;
-  };
+  const rows = new Map<string, unknown>();
   for (const line of flight.split("\n")) {
-    const row = /^[0-9a-f]+:([[{].*)$/.exec(line);
+    const row = /^([0-9a-f]+):([[{].*)$/.exec(line);
     if (!row) continue;
     try {
-      const hit = find(JSON.parse(row[1]!));
-      if (hit) return hit;
+      rows.set(row[1]!, JSON.parse(row[2]!));
     } catch {
       // A row that isn't a JSON model (text, hints): not the result.
     }
   }
-  return null;
+  let result = (rows.get("0") as { a?: unknown } | undefined)?.a;
+  if (typeof result === "string" && result.startsWith("$@")) result = rows.get(result.slice(2));
+  return result && typeof result === "object" && typeof (result as ActionState).ok === "boolean" ? (result as ActionState) : null;
 }
 
 /** The refusals lib/server/access.ts and the wrappers write, by their words (lib/route.ts, lib/action.ts). */
@@ -120,7 +118,8 @@ export function classify(seen: Seen): Outcome | "broken" {
 }
 
 export function describeSeen(seen: Seen): string {
-  const what = [seen.status, seen.code, seen.message && `"${seen.message}"`, seen.redirect && `→ ${seen.redirect}`].filter(Boolean).join(" ");
+  const fields = seen.fields && Object.entries(seen.fields).map(([k, v]) => `${k}: ${v.join(" ")}`).join("; ");
+  const what = [seen.status, seen.code, seen.message && `"${seen.message}"`, fields && `{${fields}}`, seen.redirect && `→ ${seen.redirect}`].filter(Boolean).join(" ");
   return seen.code || seen.redirect ? what : `${what} ${seen.text.slice(0, 120).replace(/\s+/g, " ")}`;
 }
 

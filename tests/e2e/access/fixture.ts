@@ -123,14 +123,15 @@ export async function makeFixture({ db, as, action, made }: Deps): Promise<Fixtu
       },
     }),
   );
-  f.finding = (JSON.parse(finding.text) as { id: number }).id;
-  const sent = await ok("send request", post("writer", `${api}/findings/${f.finding}/send`, { kind: "json", value: { findingVersion: 1 } }));
-  const { request, hash } = JSON.parse(sent.text) as { request: string; hash: string };
-  f.request = request;
-  await ok(
-    "owner approves",
-    post("jobCustomer", `/api/approvals/${request}/decision`, { kind: "json", value: { shownHash: hash, lines: [{ no: 1, answer: "approved" }], signature: "Ruth Calloway", wantsPartsBack: false, confirmed: true } }),
-  );
+  const drafted = JSON.parse(finding.text) as { id: number; version: number };
+  f.finding = drafted.id;
+  const sent = await ok("send request", post("writer", `${api}/findings/${f.finding}/send`, { kind: "json", value: { findingVersion: drafted.version } }));
+  f.request = (JSON.parse(sent.text) as { request: string }).request;
+  // The owner approves every line as shown (the request's frozen snapshot), as invoice.spec.ts does.
+  const shown = await one(db, "SELECT hash, snapshot FROM approval_requests WHERE public_id = ?", [f.request]);
+  const snapshot = (typeof shown.snapshot === "string" ? JSON.parse(shown.snapshot) : shown.snapshot) as { lines: { no: number }[] };
+  const lines = snapshot.lines.map((l) => ({ no: l.no, answer: "approved" }));
+  await ok("owner approves", post("jobCustomer", `/api/approvals/${f.request}/decision`, { kind: "json", value: { shownHash: shown.hash, lines, signature: "Ruth Calloway", wantsPartsBack: false, confirmed: true } }));
 
   const invoicePage = `/shop/${shop}/jobs/${number}/invoice`;
   const invoiceActions = "app/(staff)/shop/[shop]/jobs/[number]/invoice/actions.ts";

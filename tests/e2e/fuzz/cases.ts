@@ -132,11 +132,13 @@ export function handlerCase(rng: Rng, t: HandlerTarget, world: World): Case {
   const persona: Persona = d.crossSite ? "anonymous" : rng.pick<Persona>(["anonymous", STRANGER, STRANGER, ...PERMITTED]);
   const writes = STATE_CHANGING.has(d.method);
   const resourceParam = d.resource ? ({ shop: "shop", job: "job", jobMoney: "job", request: "request", invoice: "invoice", deposit: "deposit", photo: "photo", clip: "clip" } as Record<string, string>)[d.resource] : undefined;
-  // Real rows only where nothing can be written, or for the stranger.
-  const wantReal = !writes || persona === STRANGER || persona === "anonymous";
+  // Real rows only for the stranger or no session, or for a read whose query can't pass its
+  // schema: a valid read may write too (the owner opening a request marks it opened).
+  const badQuery = !writes && t.queryFields.length > 0 && rng.chance(0.5);
+  const wantReal = badQuery || persona === STRANGER || persona === "anonymous";
   const params = Object.fromEntries(d.params.map((p) => [p, paramValue(rng, p, world, wantReal)]));
   const reasons: string[] = [];
-  if (!writes) reasons.push("a read");
+  if (!writes) reasons.push(badQuery || !wantReal ? "a read" : "a read by a stranger");
   for (const [name, p] of Object.entries(params)) {
     if (p.kind === "bad-escape") reasons.push("malformed path escape");
     if (name === resourceParam && p.kind !== "real") reasons.push(`${p.kind} ${name} id`);
@@ -155,9 +157,18 @@ export function handlerCase(rng: Rng, t: HandlerTarget, world: World): Case {
     rest += `${rest.includes("?") ? "&" : "?"}${queryString(rng, t.queryFields)}`;
     mutation ||= "query:junk";
   }
+  if (badQuery) {
+    // Longer than any of these query fields allows (enums, numbers, searches of at most 100).
+    rest += `${rest.includes("?") ? "&" : "?"}${encodeURIComponent(rng.pick(t.queryFields))}=${"x".repeat(5000)}`;
+    mutation ||= "query:overlong-field";
+  }
   const c: Case = { target: t.id, mutation, safe: "", persona, method: d.method, path: at() + rest, headers: {}, expect: writes ? "refusal" : "read" };
-  if (d.body === "raw" && d.route.startsWith("/api/webhooks/")) Object.assign(c, webhookCase(rng, t));
-  else if (d.body === "raw" || (d.crossSite && writes)) {
+  if (d.body === "raw" && d.route.startsWith("/api/webhooks/")) {
+    const w = webhookCase(rng, t);
+    Object.assign(c, w);
+    reasons.push(w.safe);
+    mutation = w.mutation;
+  } else if (d.body === "raw" || (d.crossSite && writes)) {
     // RFC 8058 one-click: the token decides, and no token here is one the app signed.
     c.headers["content-type"] = rng.pick(["application/x-www-form-urlencoded", "multipart/form-data; boundary=x", "text/plain", ""]);
     c.body = Buffer.from(rng.pick(["List-Unsubscribe=One-Click", "", "List-Unsubscribe=%ZZ", "x".repeat(rng.int(100_000))]));
@@ -188,7 +199,7 @@ export function handlerCase(rng: Rng, t: HandlerTarget, world: World): Case {
     mutation = "header:foreign-origin";
   } else if (writes) c.headers.origin = APP_ORIGIN;
   if (c.body && rng.chance(0.06)) {
-    c.framing = rng.chance(0.5) ? "chunked" : { declaredLength: rng.pick([JSON_LIMIT + 1, 2 ** 31, 30 * 1024 * 1024, 99_999_999_999]) };
+    c.framing = rng.chance(0.5) ? "chunked" : { declaredLength: Math.max(c.body.length + 1, rng.pick([JSON_LIMIT + 1, 2 ** 31, 30 * 1024 * 1024, 99_999_999_999])) };
     mutation = typeof c.framing === "string" ? "framing:chunked" : "framing:declared-too-long";
     if (typeof c.framing !== "string") reasons.push("declared over the limit");
   }

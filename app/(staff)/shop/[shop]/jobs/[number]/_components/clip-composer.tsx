@@ -32,7 +32,7 @@ function readDuration(file: File): Promise<number | undefined> {
  * the video service with its own bar, pause/resume, and an automatic resume when the network
  * comes back. The entry shows on the timeline at once and turns ready by itself.
  */
-export function ClipComposer({ jobPublicId, limits, onStarted, rejected = [] }: { jobPublicId: string; limits: Limits; onStarted: () => void; rejected?: FailedClip[] }) {
+export function ClipComposer({ jobPublicId, limits, onStarted, rejected }: { jobPublicId: string; limits: Limits; onStarted: () => void; rejected?: FailedClip[] }) {
   const [items, setItems] = useState<Item[]>([]);
   const [share, setShare] = useState(false);
   const uploads = useRef(new Map<string, UpChunk>());
@@ -43,6 +43,19 @@ export function ClipComposer({ jobPublicId, limits, onStarted, rejected = [] }: 
     const live = uploads.current;
     return () => live.forEach((u) => u.abort());
   }, []);
+
+  // A clip the video service turned down after it was sent: the reason comes from the job's list
+  // of failed clips, and stays on the item even once that list is cleared.
+  useEffect(() => {
+    if (!rejected?.length) return;
+    const reasons = new Map(rejected.map((r) => [r.id, r.error]));
+    const turnedDown = (it: Item) => !!it.clipId && it.state !== "rejected" && reasons.has(it.clipId);
+    setItems((list) =>
+      list.some(turnedDown)
+        ? list.map((it) => (turnedDown(it) ? { ...it, state: "rejected", message: `The video service couldn't use it: ${reasons.get(it.clipId!)} It was not added to the journal.` } : it))
+        : list,
+    );
+  }, [rejected]);
 
   const patch = (key: string, change: Partial<Item>) => setItems((list) => list.map((it) => (it.key === key ? { ...it, ...change } : it)));
 
@@ -111,13 +124,6 @@ export function ClipComposer({ jobPublicId, limits, onStarted, rejected = [] }: 
     }
   }
 
-  // A clip the video service turned down after it was sent: the reason comes from the job's list of failed clips.
-  const reasons = new Map(rejected.map((r) => [r.id, r.error]));
-  const shown = items.map((it): Item => {
-    const reason = it.clipId ? reasons.get(it.clipId) : undefined;
-    return reason === undefined ? it : { ...it, state: "rejected", message: `The video service couldn't use it: ${reason} It was not added to the journal.` };
-  });
-
   const inputClass = "inline-flex min-h-14 flex-1 cursor-pointer items-center justify-center gap-2 rounded-lg px-4 py-3 text-lg font-semibold focus-within:outline focus-within:outline-2";
   return (
     <div className="space-y-4">
@@ -139,9 +145,9 @@ export function ClipComposer({ jobPublicId, limits, onStarted, rejected = [] }: 
         <input type="checkbox" checked={share} onChange={(e) => setShare(e.target.checked)} className="size-6 accent-oil" />
         <span>Share new clips with the owner (otherwise shop only)</span>
       </label>
-      {shown.length ? (
+      {items.length ? (
         <ul className="space-y-2" aria-label="Clips on their way">
-          {shown.map((it) => (
+          {items.map((it) => (
             <li key={it.key} className="rounded-lg border border-line p-3">
               <div className="flex items-center gap-2">
                 {it.state === "done" ? <CircleCheck aria-hidden className="size-5 shrink-0 text-moss" /> : null}
@@ -170,7 +176,7 @@ export function ClipComposer({ jobPublicId, limits, onStarted, rejected = [] }: 
           ))}
         </ul>
       ) : null}
-      {shown.some((it) => it.state === "failed" || it.state === "rejected") ? <Alert tone="warning">Clips that failed were not added. The others are safe.</Alert> : null}
+      {items.some((it) => it.state === "failed" || it.state === "rejected") ? <Alert tone="warning">Clips that failed were not added. The others are safe.</Alert> : null}
     </div>
   );
 }
