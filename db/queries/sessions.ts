@@ -2,6 +2,7 @@ import "server-only";
 import crypto from "node:crypto";
 import type { Knex } from "knex";
 import { db } from "@/db/client";
+import { transaction } from "@/db/transaction";
 
 // Server-side sessions behind the JWT cookie (migration 20261203_11). A session is live while
 // its row has no ended_at and has not passed expires_at; getActorBySession (users.ts) checks
@@ -60,4 +61,28 @@ export async function pruneSessions({ olderThanHours }: { olderThanHours: number
   const cutoff = db().raw("NOW(3) - INTERVAL ? HOUR", [olderThanHours]);
   await db()("user_sessions").where("expires_at", "<", cutoff).delete();
   await db()("user_sessions").where("ended_at", "<", cutoff).delete();
+}
+
+/**
+ * A new password: stored, and every other session of the person ended in the same transaction
+ * (the one that changed it, `keep`, stays). The shop set-up screens call this.
+ */
+export async function changePassword({ userId, passwordHash, keep }: { userId: number; passwordHash: string; keep: string | null }): Promise<number> {
+  return transaction(async (tx) => {
+    await tx("users").where({ id: userId }).update({ password_hash: passwordHash });
+    return endUserSessions(tx, { userId, reason: "password", keep });
+  });
+}
+
+/**
+ * Takes a staff member off a shop (kept for the history) or changes their role there; either
+ * way their sessions end, so the next request signs them in afresh with what they have now.
+ */
+export async function changeMembership({ shopId, userId, change }: { shopId: number; userId: number; change: { deactivate: true } | { role: "owner" | "service_writer" | "technician" } }): Promise<boolean> {
+  return transaction(async (tx) => {
+    const q = tx("memberships").where({ shop_id: shopId, user_id: userId }).whereNull("deactivated_at");
+    const changed = "deactivate" in change ? await q.update({ deactivated_at: tx.fn.now(3) }) : await q.update({ role: change.role });
+    if (changed) await endUserSessions(tx, { userId, reason: "deactivate" in change ? "deactivated" : "membership" });
+    return changed > 0;
+  });
 }

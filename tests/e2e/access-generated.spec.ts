@@ -104,10 +104,13 @@ test("every persona × handler and action gets what the table says; refused ones
       const isSignOut = (c: Call) => c.decl.kind === "action" && SIGN_OUTS.has(actionKey(c.decl));
       const reads = allowed.filter((c) => !isStateChanging(c.decl));
       const writes = allowed.filter((c) => isStateChanging(c.decl) && !isSignOut(c));
+      const beforeWrites = await checksums(db);
       for (const batch of [reads, writes]) {
         const seen = await pool(batch, 4, (c) => c.run(ctx(c.persona)));
         batch.forEach((c, i) => record(c, seen[i]!));
       }
+      // The same readings do see writes: the allowed ones wrote entries, records, payments.
+      expect(changedTables(beforeWrites, await checksums(db)), "tables the allowed writes changed").toEqual(expect.arrayContaining(["journal_entries", "torque_records", "payments"]));
       // Each sign-out with a session of its own, so the persona's shared one stays signed in.
       for (const c of allowed.filter(isSignOut)) {
         const own = await request.newContext(c.persona === "anonymous" ? { baseURL: APP_URL, extraHTTPHeaders: { cookie: ANONYMOUS_COOKIE } } : { baseURL: APP_URL, storageState: storageStatePath(c.persona) });

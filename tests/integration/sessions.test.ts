@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
-import { countLiveSessions, endEverySession, endSession, endUserSessions, pruneSessions, startSession } from "@/db/queries/sessions";
+import { changeMembership, changePassword, countLiveSessions, endEverySession, endSession, endUserSessions, pruneSessions, startSession } from "@/db/queries/sessions";
 import { getActorBySession } from "@/db/queries/users";
 import { sameAppPath } from "@/lib/server/auth";
 import { makeShop } from "../support/fixtures";
@@ -15,7 +15,7 @@ const pool = globalThis as { benchsideDb?: Knex };
 
 beforeAll(async () => {
   db = testKnex();
-  shop = await makeShop(db, { label: "sessions", roles: ["owner", "technician"] });
+  shop = await makeShop(db, { label: "sessions", roles: ["owner", "service_writer", "technician"] });
 });
 afterAll(async () => {
   await pool.benchsideDb?.destroy();
@@ -123,6 +123,35 @@ describe("ending sessions", () => {
     await pruneSessions({ olderThanHours: 24 });
     expect(await db("user_sessions").where({ id: old }).first()).toBeUndefined();
     expect(await db("user_sessions").where({ id: recent }).first()).toBeDefined();
+  });
+});
+
+describe("account changes end sessions with them", () => {
+  it("a new password ends every other session, in the same transaction, and keeps the one that changed it", async () => {
+    const userId = shop.staff.technician!.id;
+    const here = await startSession({ userId, method: "password", maxAgeSeconds: DAY });
+    const phone = await startSession({ userId, method: "password", maxAgeSeconds: DAY });
+    expect(await changePassword({ userId, passwordHash: "$2b$10$abcdefghijklmnopqrstuu5bIoYxSKdVH4ZlOEpUfVeUl6tyAHXS2", keep: here })).toBeGreaterThanOrEqual(1);
+    expect(await getActorBySession({ userId, sessionId: phone })).toBeNull();
+    expect(await getActorBySession({ userId, sessionId: here })).not.toBeNull();
+    expect((await db("user_sessions").where({ id: phone }).first("ended_reason"))?.ended_reason).toBe("password");
+  });
+
+  it("a role change or a deactivation ends the person's sessions; nothing else's", async () => {
+    const writer = shop.staff.service_writer!.id;
+    const owner = shop.staff.owner!.id;
+    const writerSession = await startSession({ userId: writer, method: "password", maxAgeSeconds: DAY });
+    const ownerSession = await startSession({ userId: owner, method: "password", maxAgeSeconds: DAY });
+    expect(await changeMembership({ shopId: shop.id, userId: writer, change: { role: "technician" } })).toBe(true);
+    expect(await getActorBySession({ userId: writer, sessionId: writerSession })).toBeNull();
+    const again = await startSession({ userId: writer, method: "password", maxAgeSeconds: DAY });
+    expect((await getActorBySession({ userId: writer, sessionId: again }))?.actor.memberships.map((m) => m.role)).toEqual(["technician"]);
+    expect(await changeMembership({ shopId: shop.id, userId: writer, change: { deactivate: true } })).toBe(true);
+    expect(await getActorBySession({ userId: writer, sessionId: again })).toBeNull();
+    expect((await db("user_sessions").where({ id: again }).first("ended_reason"))?.ended_reason).toBe("deactivated");
+    // Already off the staff: nothing more to change, and the owner was never touched.
+    expect(await changeMembership({ shopId: shop.id, userId: writer, change: { deactivate: true } })).toBe(false);
+    expect(await getActorBySession({ userId: owner, sessionId: ownerSession })).not.toBeNull();
   });
 });
 

@@ -15,6 +15,9 @@ export async function checksums(db: mysql.Connection): Promise<Checksums> {
   const [tables] = await db.query<mysql.RowDataPacket[]>("SHOW FULL TABLES WHERE Table_type = 'BASE TABLE'");
   const names = tables.map((row) => String(Object.values(row)[0]));
   const [rows] = await db.query<mysql.RowDataPacket[]>(`CHECKSUM TABLE ${names.map((n) => `\`${n}\``).join(", ")}`);
+  // NULL is what CHECKSUM TABLE answers for a table it couldn't read: that would compare equal forever.
+  const unread = rows.filter((r) => r.Checksum === null).map((r) => String(r.Table));
+  if (unread.length) throw new Error(`CHECKSUM TABLE gave no checksum for ${unread.join(", ")}`);
   return new Map(rows.map((r) => [String(r.Table).split(".").pop()!, String(r.Checksum)]));
 }
 
