@@ -11,7 +11,7 @@ import { spawn } from "node:child_process";
 import fs from "node:fs";
 import path from "node:path";
 import { ROOT, sleep } from "./lib/setup.mjs";
-import { compare, summarise } from "./lib/heap-snapshot.mjs";
+import { compare, retainers, summarise } from "./lib/heap-snapshot.mjs";
 
 const PORT = Number(process.env.TEST_APP_PORT ?? 3110);
 const OUT = path.join(ROOT, ".data", "fuzz-memory", new Date().toISOString().replace(/[:.]/g, "-"));
@@ -153,7 +153,15 @@ child.on("exit", async (code) => {
   for (let i = 1; i < summaries.length; i++) {
     for (const line of compare(`${summaries[i - 1].label} → ${summaries[i].label}`, summaries[i - 1].summary, summaries[i].summary)) note(line);
   }
-  const last = summaries.at(-1);
+  const [first, last] = [summaries[0], summaries.at(-1)];
+  if (first && last && first !== last) {
+    // Who holds what grew most from the first snapshot to the last.
+    const grown = [...last.summary.groups].map(([k, g]) => [k, g.size - (first.summary.groups.get(k)?.size ?? 0)]).sort((a, b) => b[1] - a[1]).slice(0, 3);
+    for (const [group, grew] of grown) {
+      note(`held at "${last.label}", ${group} (+${(grew / 1024 / 1024).toFixed(1)} MiB), its biggest:`);
+      for (const chain of retainers(last.file, group)) note(`  ${chain}`);
+    }
+  }
   if (last?.summary.bigStrings.length) note(`largest strings at "${last.label}": ${last.summary.bigStrings.map((s) => `${(s.size / 1024).toFixed(0)} KiB ${JSON.stringify(s.start)}`).join("; ")}`);
   fs.writeFileSync(path.join(OUT, "report.txt"), `${report.join("\n")}\n`);
   console.log(`[fuzz-memory] report, samples and snapshots in ${path.relative(ROOT, OUT)}`);

@@ -152,21 +152,23 @@ export async function getJobByNumber({ shopId, number }: { shopId: number; numbe
   return row ? toJob(row) : null;
 }
 
-export async function getJobByPublicId({ publicId }: { publicId: string }): Promise<(JobRow & { shopName: string; shopSlug: string }) | null> {
+type JobWithShop = JobRow & { shopName: string; shopSlug: string };
+
+async function jobWithShop(where: { "j.public_id": string } | { "j.id": number }): Promise<JobWithShop | null> {
   const row: (JobJoin & ShopNames) | undefined = await jobsWithDetails(db())
     .join("shops as s", "s.id", "j.shop_id")
-    .where("j.public_id", publicId)
+    .where(where)
     .first([...JOB_COLUMNS, "s.name as shop_name", "s.slug as shop_slug"]);
   return row ? { ...toJob(row), shopName: String(row.shop_name), shopSlug: String(row.shop_slug) } : null;
 }
 
+export async function getJobByPublicId({ publicId }: { publicId: string }): Promise<JobWithShop | null> {
+  return jobWithShop({ "j.public_id": publicId });
+}
+
 /** The same, by row id (an invoice's or a deposit's job). */
-export async function getJobById({ id }: { id: number }): Promise<(JobRow & { shopName: string; shopSlug: string }) | null> {
-  const row: (JobJoin & ShopNames) | undefined = await jobsWithDetails(db())
-    .join("shops as s", "s.id", "j.shop_id")
-    .where("j.id", id)
-    .first([...JOB_COLUMNS, "s.name as shop_name", "s.slug as shop_slug"]);
-  return row ? { ...toJob(row), shopName: String(row.shop_name), shopSlug: String(row.shop_slug) } : null;
+export async function getJobById({ id }: { id: number }): Promise<JobWithShop | null> {
+  return jobWithShop({ "j.id": id });
 }
 
 /** A job's public id from its row id (what an invoice, a deposit or a payment points at). */

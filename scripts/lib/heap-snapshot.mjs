@@ -56,21 +56,90 @@ function stringsAfter(buf, from) {
   return out;
 }
 
+function load(file) {
+  const buf = fs.readFileSync(file);
+  const metaEnd = buf.indexOf('"nodes":[');
+  const meta = JSON.parse(`${buf.toString("utf8", 0, metaEnd).replace(/,\s*$/, "")}}`).snapshot.meta;
+  const nodes = numbersAfter(buf, "nodes", metaEnd - 1);
+  return { buf, meta, nodes: nodes.values, end: nodes.end };
+}
+
+/** The group a node counts in (see `summarise`). */
+function groupOf(type, name) {
+  if (type === "object") return name;
+  if (type === "string" || type === "concatenated string" || type === "sliced string") return "(string)";
+  if (type === "native" || type === "hidden" || type === "closure" || type === "array") return `(${type}) ${name.replace(/\d+/g, "#").slice(0, 60)}`;
+  return `(${type})`;
+}
+
+/**
+ * Who holds the biggest objects of `group`: for a few of them, the chain of retainers up to a
+ * root (weak edges skipped), e.g. "Map ← table (closure) ← …". Reads the edges too.
+ */
+export function retainers(file, group, { samples = 3, depth = 10 } = {}) {
+  const { buf, meta, nodes, end } = load(file);
+  const width = meta.node_fields.length;
+  const types = meta.node_types[0];
+  const edgeTypes = meta.edge_types[0];
+  const [TYPE, NAME, SIZE, EDGES] = ["type", "name", "self_size", "edge_count"].map((f) => meta.node_fields.indexOf(f));
+  const { values: edges, end: edgesEnd } = numbersAfter(buf, "edges", end);
+  const strings = stringsAfter(buf, edgesEnd);
+  const ew = meta.edge_fields.length;
+  const count = nodes.length / width;
+  // Reverse index: for each node, the edges that point at it (edge index, from node).
+  const firstIn = new Int32Array(count + 1);
+  for (let e = 0; e < edges.length; e += ew) firstIn[edges[e + 2] / width + 1]++;
+  for (let i = 0; i < count; i++) firstIn[i + 1] += firstIn[i];
+  const inFrom = new Int32Array(edges.length / ew);
+  const inEdge = new Int32Array(edges.length / ew);
+  const fill = firstIn.slice();
+  for (let n = 0, e = 0; n < count; n++) {
+    for (let k = 0; k < nodes[n * width + EDGES]; k++, e += ew) {
+      const to = edges[e + 2] / width;
+      inFrom[fill[to]] = n;
+      inEdge[fill[to]++] = e;
+    }
+  }
+  const label = (n) => `${strings[nodes[n * width + NAME]]?.slice(0, 40) ?? "?"} (${types[nodes[n * width + TYPE]]})`;
+  const picks = [];
+  for (let n = 0; n < count; n++) {
+    if (groupOf(types[nodes[n * width + TYPE]], strings[nodes[n * width + NAME]] ?? "") === group) picks.push(n);
+  }
+  picks.sort((a, b) => nodes[b * width + SIZE] - nodes[a * width + SIZE]);
+  return picks.slice(0, samples).map((start) => {
+    const chain = [label(start)];
+    const seen = new Set([start]);
+    let n = start;
+    for (let d = 0; d < depth; d++) {
+      let next = -1;
+      for (let i = firstIn[n]; i < firstIn[n + 1]; i++) {
+        const kind = edgeTypes[edges[inEdge[i]]];
+        if (kind === "weak" || seen.has(inFrom[i])) continue;
+        const name = kind === "element" || kind === "hidden" ? `[${edges[inEdge[i] + 1]}]` : strings[edges[inEdge[i] + 1]];
+        chain.push(`${String(name).slice(0, 30)} of ${label(inFrom[i])}`);
+        next = inFrom[i];
+        break;
+      }
+      if (next < 0) break;
+      seen.add(next);
+      n = next;
+    }
+    return chain.join(" ← ");
+  });
+}
+
 /**
  * Self size and count per kind of object: constructor name for objects, "(string)", "(array)",
  * "(compiled code)", "(closure) name", "(system) name", and native memory as V8 names it.
  * Also the total, and the largest strings with their first characters.
  */
 export function summarise(file) {
-  const buf = fs.readFileSync(file);
-  const metaEnd = buf.indexOf('"nodes":[');
-  const meta = JSON.parse(`${buf.toString("utf8", 0, metaEnd).replace(/,\s*$/, "")}}`).snapshot.meta;
+  const { buf, meta, nodes, end } = load(file);
   const fields = meta.node_fields;
   const types = meta.node_types[0];
   const width = fields.length;
   const [TYPE, NAME, SIZE] = ["type", "name", "self_size"].map((f) => fields.indexOf(f));
-  const { values: nodes, end } = numbersAfter(buf, "nodes", metaEnd - 1);
-  const strings = stringsAfter(buf, end);
+  const strings = stringsAfter(buf, numbersAfter(buf, "edges", end).end);
   const groups = new Map();
   const bigStrings = [];
   let total = 0;
@@ -79,13 +148,8 @@ export function summarise(file) {
     const name = strings[nodes[i + NAME]] ?? "";
     const size = nodes[i + SIZE];
     total += size;
-    let key;
-    if (type === "object") key = name;
-    else if (type === "string" || type === "concatenated string" || type === "sliced string") {
-      key = "(string)";
-      if (size > 64 * 1024) bigStrings.push({ size, start: name.slice(0, 80) });
-    } else if (type === "native" || type === "hidden" || type === "closure" || type === "array") key = `(${type}) ${name.replace(/\d+/g, "#").slice(0, 60)}`;
-    else key = `(${type})`;
+    const key = groupOf(type, name);
+    if (key === "(string)" && size > 64 * 1024) bigStrings.push({ size, start: name.slice(0, 80) });
     const g = groups.get(key) ?? { size: 0, count: 0 };
     g.size += size;
     g.count += 1;

@@ -17,16 +17,16 @@ import { storageStatePath } from "./personas";
 // wrong types in every field, broken action envelopes, foreign origins, lying lengths.
 // Each request is harmless by construction (see fuzz/cases.ts); the test also checks that none
 // was accepted and that CHECKSUM TABLE of every table is the same before and after.
-//   FUZZ_REQUESTS=200000  the long form (default 12,000)
+//   FUZZ_REQUESTS=200000  the long form (default 10,800: 135 for each of 80 declarations)
 //   FUZZ_SEED=<n>|random  another sequence (default fixed, so `npm test` repeats itself)
-//   FUZZ_CONCURRENCY=<n>  requests in flight (default 24)
+//   FUZZ_CONCURRENCY=<n>  requests in flight (default 32)
 //   FUZZ_ONLY=17,4711     only these requests of the sequence (to replay a failure)
 //   FUZZ_HOLD_S=600       keep the app up and idle this long afterwards (scripts/fuzz-memory.mjs
 //                         measures its memory meanwhile; it also gets 30 s before the first request)
 
-const TOTAL = Number(process.env.FUZZ_REQUESTS ?? 12_000);
+const TOTAL = Number(process.env.FUZZ_REQUESTS ?? 10_800);
 const SEED = process.env.FUZZ_SEED === "random" ? Math.floor(Math.random() * 2 ** 31) : Number(process.env.FUZZ_SEED ?? 20261204);
-const CONCURRENCY = Number(process.env.FUZZ_CONCURRENCY ?? 24);
+const CONCURRENCY = Number(process.env.FUZZ_CONCURRENCY ?? 32);
 const ONLY = process.env.FUZZ_ONLY ? process.env.FUZZ_ONLY.split(",").map(Number) : null;
 const HOLD_S = Number(process.env.FUZZ_HOLD_S ?? 0);
 const PERSONAS: Persona[] = ["anonymous", STRANGER, ...PERMITTED];

@@ -17,7 +17,7 @@ const TIMEOUT_MS = 30_000;
  * reads a body whole before it runs), so not answering within this is no fault; answering
  * wrongly is.
  */
-export const PROMISED_BODY_WAIT_MS = 3_000;
+export const PROMISED_BODY_WAIT_MS = 1_500;
 
 /** The persona's cookies as a Cookie header, from the state auth.setup.ts saved; none when anonymous. */
 export function cookieHeader(persona: Persona): string {
@@ -35,7 +35,7 @@ export async function send(c: Case, ctx: APIRequestContext, cookie: string): Pro
     const h = res.headers();
     return { status: res.status(), contentType: h["content-type"] ?? "", location: h["location"] ?? "", actionRedirect: h["x-action-redirect"] ?? "", text: (await res.body()).toString("utf8") };
   } catch (error) {
-    return { status: 0, contentType: "", location: "", actionRedirect: "", text: "", error: String(error).slice(0, 200) };
+    return { status: 0, contentType: "", location: "", actionRedirect: "", text: "", error: String(error).split("\n")[0]!.replace(/^Error: apiRequestContext\.fetch: /, "").slice(0, 200) };
   }
 }
 
@@ -51,7 +51,8 @@ function sendRaw(c: Case, cookie: string): Promise<Outcome> {
       req.destroy();
       resolve(o);
     };
-    const req = http.request({ host: url.hostname, port: url.port, method: c.method, path: c.path, headers, agent: false }, (res) => {
+    // Long odd paths come back in a Location header: more header than node's 16 KiB default.
+    const req = http.request({ host: url.hostname, port: url.port, method: c.method, path: c.path, headers, agent: false, maxHeaderSize: 1024 * 1024 }, (res) => {
       const chunks: Buffer[] = [];
       res.on("data", (chunk: Buffer) => chunks.push(chunk));
       res.on("end", () =>

@@ -28,11 +28,11 @@ function refresh(shopSlug: string, story: Pick<StoryRow, "id" | "shopId" | "slug
 /** From the job page: propose a collected job; the owner is asked by e-mail. Opens the story. */
 export const proposeAction = formAction(
   { input: z.object({ shop: ids.shop, job: ids.job }), resource: "job", permission: "portfolio:propose" },
-  async ({ input, actor, found }) => {
+  async ({ actor, found }) => {
     const { story } = await proposeStory(actor, found);
-    revalidatePath(`/shop/${input.shop}/jobs/${story.jobNumber}`);
-    revalidatePath(`/shop/${input.shop}/portfolio`);
-    redirect(`/shop/${input.shop}/portfolio/${story.id}`);
+    revalidatePath(`/shop/${found.job.shopSlug}/jobs/${story.jobNumber}`);
+    revalidatePath(`/shop/${found.job.shopSlug}/portfolio`);
+    redirect(`/shop/${found.job.shopSlug}/portfolio/${story.id}`);
   },
 );
 
