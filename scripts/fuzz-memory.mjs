@@ -53,6 +53,22 @@ function memoryOf(pid) {
   return { rss: kib("VmRSS") / 1024, peak: kib("VmHWM") / 1024 };
 }
 
+/**
+ * Where the RSS is, from /proc/<pid>/smaps: glibc's main heap ([heap], grown with brk), other
+ * anonymous memory (V8's heap pages, other malloc arenas, buffers), and mapped files (code).
+ */
+function rssParts(pid) {
+  const parts = { "malloc [heap]": 0, anonymous: 0, files: 0, other: 0 };
+  let where = "other";
+  for (const line of fs.readFileSync(`/proc/${pid}/smaps`, "utf8").split("\n")) {
+    const head = /^[0-9a-f]+-[0-9a-f]+ \S+ \S+ \S+ \S+\s*(.*)$/.exec(line);
+    if (head) where = head[1] === "[heap]" ? "malloc [heap]" : head[1] === "" ? "anonymous" : head[1].startsWith("/") ? "files" : "other";
+    const rss = /^Rss:\s+(\d+) kB/.exec(line);
+    if (rss) parts[where] += Number(rss[1]) / 1024;
+  }
+  return Object.entries(parts).map(([k, v]) => `${k} ${v.toFixed(0)}`).join(", ");
+}
+
 let appPid = null;
 const marks = {};
 const snapshots = [];
@@ -61,6 +77,7 @@ async function snapshot(label) {
   if (!appPid) return;
   const before = new Set(fs.readdirSync(OUT));
   const rss = memoryOf(appPid).rss;
+  note(`${label}: RSS ${rss.toFixed(0)} MiB (${rssParts(appPid)} MiB)`);
   process.kill(appPid, "SIGUSR2");
   // Written when its size stops changing.
   let file = null;
@@ -77,7 +94,7 @@ async function snapshot(label) {
   const named = path.join(OUT, `${snapshots.length + 1}-${label}.heapsnapshot`);
   fs.renameSync(path.join(OUT, file), named);
   snapshots.push({ label, file: named, rss });
-  note(`${label}: heap snapshot taken (RSS ${rss.toFixed(0)} MiB before it)`);
+  note(`${label}: heap snapshot written`);
 }
 
 const env = {
