@@ -44,6 +44,7 @@ export type ShopsTable = {
   digest_window_minutes: number;
   clip_max_seconds: number;
   clip_max_bytes: number;
+  owner_wait_days: number;
   created_at: Date;
 };
 
@@ -95,6 +96,8 @@ export type JobStatusChangesTable = {
   to_status: JobStatus;
   changed_by_user_id: number | null;
   note: string | null;
+  /** The event that moved the job (lib/job-workflow.ts), or "manual". */
+  cause: string;
   changed_at: Date;
 };
 
@@ -221,6 +224,10 @@ export type JobPartsTable = {
   cost_minor: number | null;
   status: PartStatus;
   expected_on: DateText | null;
+  /** The finding the part is for: it waits the job once that finding's work is approved. */
+  finding_id: number | null;
+  /** Staff marked it as for work that needs no OK from the owner. */
+  no_ok_needed: Flag;
   created_by_user_id: number | null;
   created_at: Date;
   updated_at: Date;
@@ -251,6 +258,8 @@ export type SpecEntriesTable = {
 export type OutboxTable = {
   id: number;
   shop_id: number | null;
+  /** The job the mail is about (its sent log); null for mail of no job, such as sign-in links. */
+  job_id: number | null;
   dedupe_scope: number;
   dedupe_key: string | null;
   kind: string;
@@ -615,6 +624,24 @@ export type StoryConsentsTable = {
   user_agent: string | null;
 };
 
+export type ShopEventsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number | null;
+  kind: string;
+  inbox: Flag;
+  owner_visible: Flag;
+  payload: string;
+  actor_user_id: number | null;
+  created_at: Date;
+};
+
+export type InboxReadsTable = { user_id: number; event_id: number; read_at: Date };
+
+export type InboxPreferencesTable = { user_id: number; shop_id: number; kind: string; delivery: "now" | "digest" | "off" };
+
+export type InboxDigestsTable = { user_id: number; shop_id: number; through_event_id: number; last_sent_on: DateText | null };
+
 declare module "knex/types/tables" {
   interface Tables {
     shops: ShopsTable;
@@ -624,6 +651,10 @@ declare module "knex/types/tables" {
     machines: MachinesTable;
     jobs: JobsTable;
     job_status_changes: JobStatusChangesTable;
+    shop_events: ShopEventsTable;
+    inbox_reads: InboxReadsTable;
+    inbox_preferences: InboxPreferencesTable;
+    inbox_digests: InboxDigestsTable;
     sign_in_links: SignInLinksTable;
     auth_attempts: AuthAttemptsTable;
     user_sessions: UserSessionsTable;

@@ -159,22 +159,3 @@ export function checklistFromSteps(
   );
 }
 
-// ---- the waiting-on-parts rule ----
-
-export const PARTS_WAIT_NOTE = "Waiting for parts to arrive.";
-export const ALL_PARTS_IN_NOTE = "All parts are in; work continues.";
-
-/**
- * Where a parts change moves the job, if anywhere (our own workflow rule): a part still to come
- * while the job is being diagnosed or worked on parks it on "waiting on parts"; when the last
- * outstanding part arrives (or is otherwise settled) a parked job goes back on the bench.
- */
-export function partsWaitMove(p: { jobStatus: JobStatus; partTo: PartStatus; outstandingAfter: number }): { from: JobStatus; to: JobStatus; note: string } | null {
-  if (isOutstanding(p.partTo) && (p.jobStatus === "in_progress" || p.jobStatus === "inspecting")) {
-    return { from: p.jobStatus, to: "waiting_parts", note: PARTS_WAIT_NOTE };
-  }
-  if (!isOutstanding(p.partTo) && p.outstandingAfter === 0 && p.jobStatus === "waiting_parts") {
-    return { from: "waiting_parts", to: "in_progress", note: ALL_PARTS_IN_NOTE };
-  }
-  return null;
-}

@@ -33,7 +33,7 @@ export function isJobStatus(value: unknown): value is JobStatus {
  * the work needs; once collected it is closed (a comeback is a new job). Our own workflow rule.
  */
 export const NEXT_STATUSES: Record<JobStatus, readonly JobStatus[]> = {
-  checked_in: ["inspecting", "waiting_approval", "in_progress"],
+  checked_in: ["inspecting", "waiting_approval", "waiting_parts", "in_progress"],
   inspecting: ["waiting_approval", "waiting_parts", "in_progress", "ready"],
   waiting_approval: ["inspecting", "waiting_parts", "in_progress", "ready"],
   waiting_parts: ["inspecting", "waiting_approval", "in_progress"],

@@ -1,5 +1,6 @@
 // The job board's rows as sent to the browser (JSON-safe), shared by the page and the API.
 import type { JobStatus } from "@/lib/job-status";
+import { type WaitingOn, waitingOn } from "@/lib/job-workflow";
 import { describeMachine } from "@/lib/machine";
 import type { JobAttention } from "@/lib/schemas/jobs";
 
@@ -13,6 +14,15 @@ export type JobBoardRow = {
   promisedOn: string | null;
   technician: string | null;
   updatedAt: string;
+  /** Whom it waits on and the next thing to do; null once collected. */
+  waitingOn: WaitingOn | null;
+  next: string | null;
+  /** Since when it is in its status (ISO). */
+  since: string;
+  /** Quick-filter facts the server worked out (see db/queries/jobs.ts). */
+  answeredNotStarted: boolean;
+  readyUnpaid: boolean;
+  ownerWaitDays: number;
 };
 
 export type JobBoardPage = { rows: JobBoardRow[]; total: number; page: number; pageSize: number; pageCount: number };
@@ -26,7 +36,12 @@ export function toBoardRow(job: {
   promisedOn: string | null;
   technician: { name: string } | null;
   updatedAt: Date;
+  since: Date;
+  invoiceState: "none" | "draft" | "issued" | "paid";
+  ownerWaitDays: number;
+  answeredNotStarted: boolean;
 }): JobBoardRow {
+  const waits = waitingOn(job.status, { invoice: job.invoiceState, balanceMinor: job.invoiceState === "paid" ? 0 : 1 });
   return {
     number: job.number,
     status: job.status,
@@ -37,7 +52,24 @@ export function toBoardRow(job: {
     promisedOn: job.promisedOn,
     technician: job.technician?.name ?? null,
     updatedAt: job.updatedAt.toISOString(),
+    waitingOn: waits?.on ?? null,
+    next: waits?.next ?? null,
+    since: job.since.toISOString(),
+    answeredNotStarted: job.answeredNotStarted,
+    readyUnpaid: job.status === "ready" && job.invoiceState !== "paid",
+    ownerWaitDays: job.ownerWaitDays,
   };
+}
+
+/** Whole days from `since` to `now` (at least 0). */
+export function daysSince(since: string, now: Date = new Date()): number {
+  return Math.max(0, Math.floor((now.getTime() - Date.parse(since)) / 86_400_000));
+}
+
+/** "3 days", "1 day", "today": how long a job has been waiting. */
+export function waitedFor(since: string, now: Date = new Date()): string {
+  const d = daysSince(since, now);
+  return d === 0 ? "today" : `${d} ${d === 1 ? "day" : "days"}`;
 }
 
 /** Statuses in which a passed promised date no longer counts against the shop. */
@@ -56,10 +88,17 @@ export function daysOverdue(row: { status: JobStatus; promisedOn: string | null 
 }
 
 /** Why a job needs someone to act, the same tests the board's quick filters apply in SQL. */
-export function jobAttention(row: { status: JobStatus; promisedOn: string | null }, today: string): JobAttention[] {
+export function jobAttention(
+  row: { status: JobStatus; promisedOn: string | null } & Partial<Pick<JobBoardRow, "answeredNotStarted" | "readyUnpaid" | "since" | "ownerWaitDays">>,
+  today: string,
+  now: Date = new Date(),
+): JobAttention[] {
   const out: JobAttention[] = [];
   if (isOverdue(row, today)) out.push("overdue");
   if (row.status === "waiting_parts") out.push("waiting_parts");
+  if (row.answeredNotStarted) out.push("answered");
+  if (row.readyUnpaid) out.push("ready_unpaid");
+  if (row.status === "waiting_approval" && row.since && row.ownerWaitDays != null && daysSince(row.since, now) >= row.ownerWaitDays) out.push("owner_slow");
   return out;
 }
 

@@ -12,6 +12,8 @@ import * as portfolio from "./20261202_10_portfolio";
 import * as sessionsPriorityMail from "./20261203_11_sessions_priority_mail";
 import * as failedClips from "./20261203_12_failed_clips";
 import * as membershipDeactivation from "./20261204_13_membership_deactivation";
+import * as workflowInbox from "./20261204_14_workflow_inbox";
+import * as outboxJob from "./20261204_15_outbox_job";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -31,6 +33,8 @@ const MIGRATIONS: Migration[] = [
   { name: "20261203_11_sessions_priority_mail", module: sessionsPriorityMail },
   { name: "20261203_12_failed_clips", module: failedClips },
   { name: "20261204_13_membership_deactivation", module: membershipDeactivation },
+  { name: "20261204_14_workflow_inbox", module: workflowInbox },
+  { name: "20261204_15_outbox_job", module: outboxJob },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

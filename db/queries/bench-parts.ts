@@ -1,9 +1,9 @@
 import "server-only";
 import type { Knex } from "knex";
 import { insertEntry } from "@/db/queries/entries";
-import { moveJobStatus } from "@/db/queries/journal";
+import { applyJobEvent, clearedPartsQuery } from "@/db/queries/workflow";
 import { AppError } from "@/lib/errors";
-import { OUTSTANDING_PART_STATUSES, PART_STATUS_LABEL, type PartBody, type PartStatus, partsWaitMove } from "@/lib/bench";
+import { PART_STATUS_LABEL, type PartBody, type PartStatus, isOutstanding } from "@/lib/bench";
 import type { JobStatus } from "@/lib/job-status";
 import { formatQuantity } from "@/lib/money";
 import { db } from "@/db/client";
@@ -25,6 +25,8 @@ export type PartRow = {
   costMinor: number | null;
   status: PartStatus;
   expectedOn: string | null;
+  findingId: number | null;
+  noOkNeeded: boolean;
   history: { from: PartStatus | null; to: PartStatus; by: string | null; at: string }[];
 };
 
@@ -36,17 +38,23 @@ export type NewPart = {
   costMinor: number | null;
   status: PartStatus;
   expectedOn: string | null;
+  findingId: number | null;
+  noOkNeeded: boolean;
 };
 
-/** Locks the job and applies the waiting-on-parts rule after a part went to `partTo`. */
-async function settleJob(tx: Knex.Transaction, p: JobKey & { userId: number; partTo: PartStatus; status: JobStatus }): Promise<JobStatus | null> {
-  const row = await tx("job_parts").where({ shop_id: p.shopId, job_id: p.jobId }).whereIn("status", OUTSTANDING_PART_STATUSES).count({ n: "*" }).first();
-  const move = partsWaitMove({ jobStatus: p.status, partTo: p.partTo, outstandingAfter: Number(row?.n ?? 0) });
-  if (!move) return null;
-  // When the wait is over, the owner (and followers) hear at once, not in the next digest.
-  const alert = move.from === "waiting_parts" ? ("parts_in" as const) : undefined;
-  const moved = await moveJobStatus({ tx, shopId: p.shopId, jobId: p.jobId, from: move.from, to: move.to, userId: p.userId, note: move.note, alert });
-  return moved ? move.to : null;
+/**
+ * Applies the waiting-on-parts rule after a part went to `partTo` (lib/job-workflow.ts): a part
+ * still to come waits the job only when it is for cleared work (the owner approved its finding,
+ * or staff marked it as needing no OK), so the owner never hears "waiting for parts" about work
+ * they haven't been asked about.
+ */
+async function settleJob(tx: Knex.Transaction, p: JobKey & { userId: number; partId: number; partTo: PartStatus }): Promise<JobStatus | null> {
+  if (isOutstanding(p.partTo)) {
+    const cleared = await clearedPartsQuery(tx, p).where("p.id", p.partId).first("p.id");
+    if (!cleared) return null;
+  }
+  const move = await applyJobEvent(tx, { shopId: p.shopId, jobId: p.jobId, userId: p.userId, event: { kind: isOutstanding(p.partTo) ? "part_needed" : "part_received" } });
+  return move?.to ?? null;
 }
 
 async function lockJob(tx: Knex.Transaction, { shopId, jobId }: JobKey): Promise<JobStatus> {
@@ -62,8 +70,12 @@ function partBody(part: Pick<NewPart, "description" | "partNumber" | "qtyThousan
 
 export async function addPart(p: JobKey & { userId: number; part: NewPart }): Promise<{ id: number; jobMovedTo: JobStatus | null }> {
   return transaction(async (tx) => {
-    const status = await lockJob(tx, p);
+    await lockJob(tx, p);
     const part = p.part;
+    if (part.findingId !== null) {
+      const finding = await tx("findings").where({ id: part.findingId, shop_id: p.shopId, job_id: p.jobId }).first("id");
+      if (!finding) throw new AppError("invalid", "That finding isn't on this job.", { forWork: ["Choose a finding of this job, or the work it was booked in for."] });
+    }
     const [id] = await tx("job_parts").insert({
       shop_id: p.shopId,
       job_id: p.jobId,
@@ -74,11 +86,13 @@ export async function addPart(p: JobKey & { userId: number; part: NewPart }): Pr
       cost_minor: part.costMinor,
       status: part.status,
       expected_on: part.expectedOn,
+      finding_id: part.findingId,
+      no_ok_needed: part.noOkNeeded,
       created_by_user_id: p.userId,
     });
     await tx("job_part_events").insert({ shop_id: p.shopId, part_id: id, from_status: null, to_status: part.status, changed_by_user_id: p.userId });
     await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "part", authorId: p.userId, body: partBody(part, "added", null, part.status) });
-    const jobMovedTo = await settleJob(tx, { ...p, partTo: part.status, status });
+    const jobMovedTo = await settleJob(tx, { ...p, partId: Number(id), partTo: part.status });
     return { id: Number(id), jobMovedTo };
   });
 }
@@ -89,7 +103,7 @@ export async function changePartStatus(
 ): Promise<{ jobMovedTo: JobStatus | null }> {
   if (p.from === p.to && p.expectedOn === undefined) throw new AppError("invalid", `The part is already "${PART_STATUS_LABEL[p.to]}".`);
   return transaction(async (tx) => {
-    const status = await lockJob(tx, p);
+    await lockJob(tx, p);
     const part = await tx("job_parts").where({ id: p.partId, shop_id: p.shopId, job_id: p.jobId }).forUpdate().first();
     if (!part) throw new AppError("not_found", "That part isn't on this job.");
     if (part.status !== p.from) {
@@ -106,7 +120,7 @@ export async function changePartStatus(
       expectedOn: p.expectedOn !== undefined ? p.expectedOn : (part.expected_on ?? null),
     };
     await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "part", authorId: p.userId, body: partBody(snapshot, "status", p.from, p.to) });
-    return { jobMovedTo: await settleJob(tx, { ...p, partTo: p.to, status }) };
+    return { jobMovedTo: await settleJob(tx, { ...p, partId: p.partId, partTo: p.to }) };
   });
 }
 
@@ -132,6 +146,8 @@ export async function listParts({ shopId, jobId }: JobKey): Promise<PartRow[]> {
     costMinor: r.cost_minor == null ? null : Number(r.cost_minor),
     status: r.status,
     expectedOn: r.expected_on ?? null,
+    findingId: r.finding_id == null ? null : Number(r.finding_id),
+    noOkNeeded: Boolean(r.no_ok_needed),
     history: events
       .filter((e) => Number(e.part_id) === Number(r.id))
       .map((e) => ({ from: e.from_status ?? null, to: e.to_status, by: e.by_name ?? null, at: e.changed_at.toISOString() })),

@@ -3,6 +3,7 @@ import crypto from "node:crypto";
 import type { Knex } from "knex";
 import type { EntryKind, EntryVisibility } from "@/lib/journal";
 import { recordSharedEntry } from "./following";
+import { recordEvent } from "./shop-events";
 
 // The one writer of journal entries, on its own so that the modules of entry kinds (clips,
 // photos, bench records…) and the timeline reader can all use it without importing each other.
@@ -49,5 +50,7 @@ export async function insertEntry(
   });
   // Followers hear of it (batched) in the same transaction as the entry.
   if (visibility === "shared") await recordSharedEntry(k, { shopId: e.shopId, jobId: e.jobId, entryId: Number(id), kind: e.kind, body: e.body, alert: e.alert });
+  // Open pages (the board, the job page, the owner's page when shared) refresh on it.
+  await recordEvent(k, { shopId: e.shopId, jobId: e.jobId, kind: "entry_added", actorUserId: e.authorId, ownerVisible: visibility === "shared", payload: { entry: Number(id), entryKind: e.kind } });
   return Number(id);
 }

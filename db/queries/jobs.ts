@@ -95,6 +95,18 @@ function jobsWithDetails(k: Knex) {
     .leftJoin("users as t", "t.id", "j.technician_user_id");
 }
 
+// What the board adds to each job, as correlated subqueries on indexed keys so a page stays one
+// query: since when the job is in its status, the cause of its last move, its live invoice's state.
+const SINCE = "COALESCE((SELECT MAX(sc.changed_at) FROM job_status_changes sc WHERE sc.job_id = j.id), j.created_at)";
+const LAST_CAUSE = "(SELECT sc.cause FROM job_status_changes sc WHERE sc.job_id = j.id ORDER BY sc.id DESC LIMIT 1)";
+const INVOICE_STATE =
+  "(SELECT CASE WHEN i.status = 'draft' THEN 'draft' WHEN i.status = 'paid' OR i.balance_minor <= 0 THEN 'paid' ELSE 'issued' END FROM invoices i WHERE i.job_id = j.id AND i.status <> 'void' ORDER BY i.id DESC LIMIT 1)";
+const OWNER_WAIT_DAYS = "(SELECT s.owner_wait_days FROM shops s WHERE s.id = j.shop_id)";
+/** Owner answered and the job went back to the bench, but nobody has recorded bench work since. */
+const ANSWERED_NOT_STARTED = `j.status = 'in_progress' AND ${LAST_CAUSE} = 'request_answered' AND NOT EXISTS (SELECT 1 FROM journal_entries e WHERE e.job_id = j.id AND e.kind NOT IN ('status', 'approval') AND e.created_at > ${SINCE})`;
+
+export type BoardExtras = { since: Date; invoiceState: "none" | "draft" | "issued" | "paid"; ownerWaitDays: number; answeredNotStarted: boolean };
+
 const SORT_COLUMNS: Record<JobListQuery["sort"], string> = {
   number: "j.number",
   status: "j.status",
@@ -118,6 +130,11 @@ export async function listJobs({ shopId, query, today = shopToday("UTC") }: { sh
         w.orWhere((o) => o.where("j.promised_on", "<", today).whereNotIn("j.status", DONE_STATUSES));
       }
       if (query.attention.includes("waiting_parts")) w.orWhere("j.status", "waiting_parts");
+      if (query.attention.includes("answered")) w.orWhereRaw(ANSWERED_NOT_STARTED);
+      if (query.attention.includes("ready_unpaid")) w.orWhere((o) => o.where("j.status", "ready").whereRaw(`COALESCE(${INVOICE_STATE}, 'none') <> 'paid'`));
+      if (query.attention.includes("owner_slow")) {
+        w.orWhere((o) => o.where("j.status", "waiting_approval").whereRaw(`${SINCE} <= NOW(3) - INTERVAL ${OWNER_WAIT_DAYS} DAY`));
+      }
     });
   }
   if (query.technician) base.where("j.technician_user_id", query.technician);
@@ -136,15 +153,33 @@ export async function listJobs({ shopId, query, today = shopToday("UTC") }: { sh
   const countRow = await base.clone().clearSelect().count({ n: "j.id" }).first();
   const total = Number(countRow?.n ?? 0);
   const direction = query.dir;
-  const rows: JobJoin[] = await base
+  const rows: (JobJoin & { since: Date; invoice_state: BoardExtras["invoiceState"] | null; owner_wait_days: number; answered_not_started: number })[] = await base
     .clone()
     .select(JOB_COLUMNS)
+    .select(
+      db().raw(`${SINCE} AS since`),
+      db().raw(`${INVOICE_STATE} AS invoice_state`),
+      db().raw(`${OWNER_WAIT_DAYS} AS owner_wait_days`),
+      db().raw(`(${ANSWERED_NOT_STARTED}) AS answered_not_started`),
+    )
     .orderByRaw(`${SORT_COLUMNS[query.sort]} IS NULL`) // undated jobs last, whichever way
     .orderBy(SORT_COLUMNS[query.sort], direction)
     .orderBy("j.number", "desc")
     .limit(query.pageSize)
     .offset((query.page - 1) * query.pageSize);
-  return { rows: rows.map(toJob), total, page: query.page, pageSize: query.pageSize, pageCount: Math.max(1, Math.ceil(total / query.pageSize)) };
+  return {
+    rows: rows.map((r) => ({
+      ...toJob(r),
+      since: new Date(r.since),
+      invoiceState: r.invoice_state ?? "none",
+      ownerWaitDays: Number(r.owner_wait_days),
+      answeredNotStarted: Boolean(Number(r.answered_not_started)),
+    })),
+    total,
+    page: query.page,
+    pageSize: query.pageSize,
+    pageCount: Math.max(1, Math.ceil(total / query.pageSize)),
+  };
 }
 
 export async function getJobByNumber({ shopId, number }: { shopId: number; number: number }): Promise<JobRow | null> {

@@ -5,11 +5,13 @@ import type { CustomersTable, JournalEntriesTable, JournalEntryRevisionsTable, N
 import { transaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
 import type { JobStatus } from "@/lib/job-status";
+import type { WorkflowCause } from "@/lib/job-workflow";
 import type { EntryKind, EntryVisibility, TimelineAudience, TimelineEntry, TimelinePage, TimelinePhoto } from "@/lib/journal";
 import { MONEY_ENTRY_KINDS, RECORD_ENTRY_KINDS, photoUrl } from "@/lib/journal";
 import { clipsForEntries } from "./clips";
 import { insertEntry, newPhotoPublicId } from "./entries";
 import { recordSharedEntry } from "./following";
+import { recordEvent } from "./shop-events";
 
 const asDate = (v: unknown) => (v == null ? null : (v as Date).toISOString());
 const parseJson = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (v ?? null));
@@ -231,6 +233,9 @@ export async function changeEntry(p: {
     };
     await tx("journal_entries").where({ id: p.entryId }).update(update);
     if (shareChange === "shared") await recordSharedEntry(tx, { shopId: p.shopId, jobId: p.jobId, entryId: p.entryId, kind, body: parseJson(row.body) });
+    // The owner's page refreshes when what they see changed: a shared entry, or one just (un)shared.
+    const ownerVisible = row.visibility === "shared" || shareChange !== null;
+    await recordEvent(tx, { shopId: p.shopId, jobId: p.jobId, kind: "entry_changed", actorUserId: p.userId, ownerVisible, payload: { entry: p.entryId, change } });
     return { version };
   });
 }
@@ -262,17 +267,20 @@ export async function moveJobStatus(p: {
   jobId: number;
   from: JobStatus;
   to: JobStatus;
-  userId: number;
+  userId: number | null;
   note: string | null;
+  /** The workflow event that moved it (lib/job-workflow.ts); a hand move when left out. */
+  cause?: WorkflowCause;
   tx?: Knex.Transaction;
   alert?: "parts_in";
 }): Promise<boolean> {
   const run = async (tx: Knex.Transaction) => {
     const moved = await tx("jobs").where({ id: p.jobId, shop_id: p.shopId, status: p.from }).update({ status: p.to, updated_at: tx.fn.now() });
     if (moved !== 1) return false;
-    await tx("job_status_changes").insert({ shop_id: p.shopId, job_id: p.jobId, from_status: p.from, to_status: p.to, changed_by_user_id: p.userId, note: p.note });
+    const cause = p.cause ?? "manual";
+    await tx("job_status_changes").insert({ shop_id: p.shopId, job_id: p.jobId, from_status: p.from, to_status: p.to, changed_by_user_id: p.userId, note: p.note, cause });
     // The owner sees the status on their page anyway, so its entry is shared from the start.
-    await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "status", authorId: p.userId, visibility: "shared", body: { from: p.from, to: p.to, note: p.note }, alert: p.alert });
+    await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "status", authorId: p.userId, visibility: "shared", body: { from: p.from, to: p.to, note: p.note, cause }, alert: p.alert });
     return true;
   };
   return p.tx ? run(p.tx) : transaction(run);

@@ -109,6 +109,12 @@ export const partSchema = jobRef.extend({
   cost: optText(20, "the cost"),
   status: partStatus.default("needed"),
   expectedOn: isoDate,
+  // What work the part is for: the work booked in (needs no further OK) or a finding, whose
+  // part waits the job only once the owner approves it.
+  forWork: z
+    .string({ message: "Say what work the part is for." })
+    .regex(/^(booked|finding:\d{1,12})$/, "Say what work the part is for.")
+    .transform((v) => (v === "booked" ? { findingId: null, noOkNeeded: true } : { findingId: Number(v.slice("finding:".length)), noOkNeeded: false })),
 });
 export type PartInput = z.output<typeof partSchema>;
 

@@ -5,7 +5,7 @@ export const JOB_SORTS = ["number", "status", "promised", "customer", "updated"]
 export const PAGE_SIZES = [10, 25, 50, 100] as const;
 
 /** A list in a query string: repeated keys or comma-separated, known values only, no duplicates. */
-function listParam<const T extends readonly [string, ...string[]]>(values: T, unknownLabel: string) {
+export function listParam<const T extends readonly [string, ...string[]]>(values: T, unknownLabel: string) {
   return z.union([z.enum(values), z.array(z.enum(values)), z.string()]).transform((v, ctx) => {
     const list = Array.isArray(v) ? v : v.split(",").filter(Boolean);
     const bad = list.filter((s) => !(values as readonly string[]).includes(s));
@@ -21,7 +21,7 @@ function listParam<const T extends readonly [string, ...string[]]>(values: T, un
  * Quick filters for jobs that need someone to act: past their promised date while still in
  * the shop, or held up waiting on parts. Several together show jobs with any of them.
  */
-export const JOB_ATTENTION = ["overdue", "waiting_parts"] as const;
+export const JOB_ATTENTION = ["overdue", "waiting_parts", "answered", "ready_unpaid", "owner_slow"] as const;
 export type JobAttention = (typeof JOB_ATTENTION)[number];
 
 /** Query of the shop's job table (search params of the page and of GET /api/shops/[shop]/jobs). */

@@ -4,7 +4,8 @@ import { getFinding, getMoneySettings, listEvidenceChoices, lockFinding } from "
 import { notifyNow } from "@/db/queries/following";
 import { lockJobForRequest } from "@/db/queries/jobs";
 import { insertEntry } from "@/db/queries/entries";
-import { moveJobStatus } from "@/db/queries/journal";
+import { recordEvent } from "@/db/queries/shop-events";
+import { applyJobEvent, lockJobRow } from "@/db/queries/workflow";
 import { type Tx, transaction } from "@/db/transaction";
 import { type EvidenceRef, type RequestSnapshot, asSnapshot, buildSnapshot, checkAnswers, decisionTotals, snapshotContent } from "@/lib/approvals";
 import { AppError, type ErrorCode } from "@/lib/errors";
@@ -90,7 +91,7 @@ export async function sendRequest(actor: Actor, { job }: JobAccess, findingId: n
       await cancelReminder(tx, { shopId: job.shopId, requestPublicId: previous.publicId });
     }
     if (status !== "waiting_approval") {
-      const moved = await moveJobStatus({ tx, shopId: job.shopId, jobId: job.id, from: status, to: "waiting_approval", userId: actor.userId, note: null });
+      const moved = await applyJobEvent(tx, { shopId: job.shopId, jobId: job.id, userId: actor.userId, event: { kind: "request_sent" } });
       if (!moved) throw new AppError("conflict", "Someone moved this job at the same moment. Check its status, then send again.");
     }
     await insertEntry(tx, {
@@ -135,6 +136,7 @@ async function currentVersion(k: Tx, shopId: number, findingId: number): Promise
 
 export async function withdrawRequest(actor: Actor, { request, job }: Resolved<"request">, input: { reason: string | null }) {
   await transaction(async (tx) => {
+    await lockJobRow(tx, { shopId: job.shopId, jobId: job.id });
     const r = await lockRequest(tx, { shopId: job.shopId, id: request.id });
     if (!r || r.status !== "sent") {
       const reason = (r?.status ?? "withdrawn") as Exclude<RefusalReason, "changed">;
@@ -150,6 +152,8 @@ export async function withdrawRequest(actor: Actor, { request, job }: Resolved<"
       visibility: "shared",
       body: { event: "withdrawn", request: r.publicId, title: r.snapshot.finding.title, version: r.version, reason: input.reason },
     });
+    // The last open request withdrawn: nobody waits on the owner any more.
+    await applyJobEvent(tx, { shopId: job.shopId, jobId: job.id, userId: actor.userId, event: { kind: "request_withdrawn" } });
   });
   return { job };
 }
@@ -182,6 +186,7 @@ async function decide(actor: Actor, request: { id: number; findingId: number }, 
   const already = (decision: DecisionRow) => new ApprovalRefusal("conflict", `${SETTLED.answered} Here is the answer that was recorded.`, { reason: "answered", current: null, decision });
   try {
     await transaction(async (tx) => {
+      await lockJobRow(tx, { shopId: job.shopId, jobId: job.id });
       const r = await lockRequest(tx, { shopId: job.shopId, id: request.id });
       if (!r) throw new AppError("not_found", "No such approval request.");
       const existing = (await listDecisions({ shopId: job.shopId, requestIds: [r.id] }, tx)).get(r.id);
@@ -226,6 +231,26 @@ async function decide(actor: Actor, request: { id: number; findingId: number }, 
         visibility: "shared",
         body: { event: "answered", request: r.publicId, title: snapshot.finding.title, version: r.version, approved: t.approvedCount, declined: t.declinedCount, method: d.method, by: d.personName },
       });
+      // The desk hears what was approved and declined; the last answer moves the job off the owner.
+      const line = (no: number) => snapshot.lines.find((l) => l.no === no)!.description;
+      const lineNos = snapshot.lines.map((l) => l.no);
+      await recordEvent(tx, {
+        shopId: job.shopId,
+        jobId: job.id,
+        kind: "owner_answered",
+        actorUserId: actor.userId,
+        payload: {
+          request: r.publicId,
+          title: snapshot.finding.title,
+          method: d.method,
+          by: d.personName,
+          approved: lineNos.filter((no) => answers[no] === "approved").map(line),
+          declined: lineNos.filter((no) => answers[no] === "declined").map(line),
+          authorisedTotalMinor: t.authorised.totalMinor,
+          currency: snapshot.currency,
+        },
+      });
+      await applyJobEvent(tx, { shopId: job.shopId, jobId: job.id, userId: actor.userId, event: { kind: "request_answered" } });
     });
   } catch (error) {
     // Two answers that both got past the status check: the unique key stops the second one.

@@ -28,7 +28,7 @@ export async function addJobPart(actor: Actor, { job }: JobAccess, input: PartIn
     shopId: job.shopId,
     jobId: job.id,
     userId: actor.userId,
-    part: { partNumber: input.partNumber, description: input.description, supplier: input.supplier, qtyThousandths, costMinor, status: input.status, expectedOn: input.expectedOn },
+    part: { partNumber: input.partNumber, description: input.description, supplier: input.supplier, qtyThousandths, costMinor, status: input.status, expectedOn: input.expectedOn, ...input.forWork },
   });
   return { ...made, job };
 }

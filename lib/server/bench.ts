@@ -1,4 +1,5 @@
 import "server-only";
+import { settleReassembly } from "@/db/queries/workflow";
 import { getBenchSettings, insertReading, insertTeardownStep, insertTorqueRecord, jobHasPhoto, setStepChecked, setStepReplaced, setStepTorque } from "@/db/queries/bench";
 import type { ReadingBody, TorqueBody } from "@/lib/bench";
 import { chainCheck } from "@/lib/chain-wear";
@@ -115,7 +116,9 @@ export async function setTeardownTorque(actor: Actor, { job }: JobAccess, input:
 
 export async function tickTeardownStep(actor: Actor, { job }: JobAccess, input: { step: number; value: boolean }) {
   found(await setStepChecked({ shopId: job.shopId, jobId: job.id, stepId: input.step, userId: actor.userId, done: input.value }));
-  return { job };
+  // The last step back together: the job follows (ready, when nothing else is awaited).
+  const moved = input.value ? await settleReassembly({ shopId: job.shopId, jobId: job.id, userId: actor.userId }) : null;
+  return { job, jobMovedTo: moved?.to ?? null };
 }
 
 export async function markStepReplaced(actor: Actor, { job }: JobAccess, input: { step: number; value: boolean }) {

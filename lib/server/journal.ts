@@ -1,7 +1,8 @@
 import "server-only";
 import { markClipDeleted } from "@/db/queries/clips";
 import { insertEntry } from "@/db/queries/entries";
-import { changeEntry, createPhotoEntry, insertPendingPhoto, listTimeline, moveJobStatus } from "@/db/queries/journal";
+import { changeEntry, createPhotoEntry, insertPendingPhoto, listTimeline } from "@/db/queries/journal";
+import { applyJobEvent, lockJobRow } from "@/db/queries/workflow";
 import { AppError } from "@/lib/errors";
 import { JOB_STATUS_LABEL, type JobStatus, statusMoveError } from "@/lib/job-status";
 import type { NewEntry } from "@/lib/journal";
@@ -101,13 +102,18 @@ export async function uploadPhoto(actor: Actor, { job }: JobAccess, file: File) 
  * Moves a job to another status if the rules allow it and nobody moved it since the form was
  * shown (`from`); the move is recorded in the history and as a shared timeline entry.
  */
-export async function changeJobStatus(actor: Actor, { job }: JobAccess, input: { from: JobStatus; to: JobStatus; note: string | null }) {
-  if (job.status !== input.from) {
-    throw new AppError("conflict", `Someone else has just moved this job to "${JOB_STATUS_LABEL[job.status]}". Check the timeline, then try again.`);
-  }
-  const refusal = statusMoveError(job.status, input.to);
+export async function changeJobStatus(actor: Actor, { job }: JobAccess, input: { from: JobStatus; to: JobStatus; note: string | null; override?: string | null }) {
+  const refusal = statusMoveError(input.from, input.to);
   if (refusal) throw new AppError("invalid", refusal, { to: [refusal] });
-  const moved = await moveJobStatus({ shopId: job.shopId, jobId: job.id, from: input.from, to: input.to, userId: actor.userId, note: input.note });
-  if (!moved) throw new AppError("conflict", "Someone else moved this job at the same moment. Check the timeline, then try again.");
+  await transaction(async (tx) => {
+    const status = await lockJobRow(tx, { shopId: job.shopId, jobId: job.id });
+    if (status !== input.from) {
+      throw new AppError("conflict", `Someone else has just moved this job to "${JOB_STATUS_LABEL[status]}". Check the timeline, then try again.`);
+    }
+    // Handing the machine back goes through the collection gate: paid, or a reason recorded.
+    const event = input.to === "picked_up" ? ({ kind: "collected", override: input.override ?? null } as const) : ({ kind: "manual", to: input.to } as const);
+    const moved = await applyJobEvent(tx, { shopId: job.shopId, jobId: job.id, userId: actor.userId, event, note: input.note });
+    if (!moved) throw new AppError("conflict", "Someone else moved this job at the same moment. Check the timeline, then try again.");
+  });
   return job;
 }

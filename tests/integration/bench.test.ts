@@ -2,7 +2,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { getBenchSettings, getReassemblyProgress, insertTeardownStep, insertTorqueRecord, listTeardownSteps } from "@/db/queries/bench";
 import { listParts } from "@/db/queries/bench-parts";
-import { ALL_PARTS_IN_NOTE, PARTS_WAIT_NOTE, checklistFromSteps } from "@/lib/bench";
+import { checklistFromSteps } from "@/lib/bench";
+import { CAUSE_LABEL } from "@/lib/job-workflow";
 import type { Action, Actor } from "@/lib/permissions";
 import { type JobAccess, access } from "@/lib/server/access";
 import { addJobPart, changeJobPartStatus, updateBenchSettings } from "@/lib/server/bench-parts";
@@ -105,13 +106,13 @@ describe("bench tools", () => {
 
   it("parts needed → ordered → received park the job on parts and bring it back with one shared entry", async () => {
     const job = jobs[1]!;
-    const part = async (description: string) => addJobPart(tech, await onJob(tech, job.publicId, "parts:manage"), { job: job.publicId, description, partNumber: null, supplier: "Invented Supply Co.", qty: "1", cost: "42.50", status: "needed", expectedOn: null });
+    const part = async (description: string) => addJobPart(tech, await onJob(tech, job.publicId, "parts:manage"), { job: job.publicId, description, partNumber: null, supplier: "Invented Supply Co.", qty: "1", cost: "42.50", status: "needed", expectedOn: null, forWork: { findingId: null, noOkNeeded: true } });
     const chain = await part("Cam chain");
     expect(chain.jobMovedTo).toBe("waiting_parts");
     expect(await status(job.id)).toBe("waiting_parts");
     const parked = (await entries(job.id)).filter((e) => e.kind === "status");
     expect(parked).toHaveLength(1);
-    expect(JSON.stringify(parked[0]!.body)).toContain(PARTS_WAIT_NOTE);
+    expect(JSON.stringify(parked[0]!.body)).toContain(CAUSE_LABEL.part_needed);
     const guide = await part("Cam chain guide");
     expect(guide.jobMovedTo).toBeNull();
 
@@ -127,7 +128,7 @@ describe("bench tools", () => {
     const shared = (await entries(job.id)).filter((e) => e.visibility === "shared").slice(sharedBefore);
     expect(shared).toHaveLength(1);
     expect(shared[0]!.kind).toBe("status");
-    expect(JSON.stringify(shared[0]!.body)).toContain(ALL_PARTS_IN_NOTE);
+    expect(JSON.stringify(shared[0]!.body)).toContain(CAUSE_LABEL.part_received);
     // The owner is told at once: one "parts in" alert for the mail sweep, and not a digest item too.
     const alerts = await k("job_alerts").where({ job_id: job.id, kind: "parts_in" });
     expect(alerts).toHaveLength(1);
@@ -180,7 +181,7 @@ describe("bench tools", () => {
     await expect(act(stranger, job.publicId, "bench:record", (found) => recordTorque(stranger, found, torque))).rejects.toMatchObject({ code: "not_found" });
     const step = { job: job.publicId, removed: "Seat", count: null, size: null, notes: null, storage: null, photo: null };
     await expect(act(stranger, job.publicId, "bench:record", (found) => addTeardownStep(stranger, found, step))).rejects.toMatchObject({ code: "not_found" });
-    const bolt = { job: job.publicId, description: "Bolt", partNumber: null, supplier: null, qty: "1", cost: null, status: "needed" as const, expectedOn: null };
+    const bolt = { job: job.publicId, description: "Bolt", partNumber: null, supplier: null, qty: "1", cost: null, status: "needed" as const, expectedOn: null, forWork: { findingId: null, noOkNeeded: true } };
     await expect(act(stranger, job.publicId, "parts:manage", (found) => addJobPart(stranger, found, bolt))).rejects.toMatchObject({ code: "not_found" });
     await expect(act(customer, job.publicId, "bench:record", (found) => recordTorque(customer, found, torque))).rejects.toMatchObject({ code: "forbidden" });
     expect(await k("torque_records").where({ fastener: "Axle nut" }).count({ n: "*" }).first()).toEqual({ n: 0 });

@@ -217,7 +217,7 @@ describe("following a job", () => {
     // Back on the bench after "ready" above (a comeback before pick-up), then waiting on a part.
     await changeJobStatus(tech, await onJob(tech, "job:change-status"), { from: "ready", to: "in_progress", note: null });
     await deliver(minutes(16));
-    const part = await addJobPart(tech, await onJob(tech, "parts:manage"), { job: publicId, description: "Clutch cable", partNumber: null, supplier: null, qty: "1", cost: "12.00", status: "ordered", expectedOn: null });
+    const part = await addJobPart(tech, await onJob(tech, "parts:manage"), { job: publicId, description: "Clutch cable", partNumber: null, supplier: null, qty: "1", cost: "12.00", status: "ordered", expectedOn: null, forWork: { findingId: null, noOkNeeded: true } });
     expect(part.jobMovedTo).toBe("waiting_parts");
     await deliver(minutes(16));
     await changeJobPartStatus(tech, await onJob(tech, "parts:manage"), { part: part.id, from: "ordered", to: "received", expectedOn: null });

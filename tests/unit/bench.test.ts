@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { ALL_PARTS_IN_NOTE, PARTS_WAIT_NOTE, checklistFromSteps, partsWaitMove, torqueProof, torqueViews } from "@/lib/bench";
+import { checklistFromSteps, torqueProof, torqueViews } from "@/lib/bench";
 import { partSchema, passPercentsText, specSchema, torqueRecordSchema } from "@/lib/schemas/bench";
 
 const JOB = "AAAAAAAAAAAAAAAA";
@@ -19,21 +19,6 @@ describe("torque display", () => {
     const base = { specValue: 10, unit: "nm" as const, displayUnit: "nm" as const, passPercents: [30, 60, 100] };
     expect(torqueProof({ ...base, appliedValue: null, pattern: "cross" })).toBe("torqued to spec, 3 passes (30 → 60 → 100 %) and a check pass, cross pattern");
     expect(torqueProof({ ...base, appliedValue: 9, pattern: null })).toBe("torqued to 9.0 N·m (spec 10.0 N·m), 3 passes (30 → 60 → 100 %) and a check pass");
-  });
-});
-
-describe("waiting on parts (our own workflow rule, no published source)", () => {
-  it("parks a job being worked on when a part is still to come", () => {
-    expect(partsWaitMove({ jobStatus: "in_progress", partTo: "needed", outstandingAfter: 1 })).toEqual({ from: "in_progress", to: "waiting_parts", note: PARTS_WAIT_NOTE });
-    expect(partsWaitMove({ jobStatus: "inspecting", partTo: "back_ordered", outstandingAfter: 2 })).toMatchObject({ to: "waiting_parts" });
-    // A job waiting on the owner's OK stays there: the parts wait doesn't overrule it.
-    expect(partsWaitMove({ jobStatus: "waiting_approval", partTo: "ordered", outstandingAfter: 1 })).toBeNull();
-  });
-
-  it("sends it back to the bench only when the last outstanding part is in", () => {
-    expect(partsWaitMove({ jobStatus: "waiting_parts", partTo: "received", outstandingAfter: 1 })).toBeNull();
-    expect(partsWaitMove({ jobStatus: "waiting_parts", partTo: "received", outstandingAfter: 0 })).toEqual({ from: "waiting_parts", to: "in_progress", note: ALL_PARTS_IN_NOTE });
-    expect(partsWaitMove({ jobStatus: "in_progress", partTo: "received", outstandingAfter: 0 })).toBeNull();
   });
 });
 

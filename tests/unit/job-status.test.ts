@@ -39,7 +39,7 @@ describe("status transitions", () => {
 
   it("explains a refusal in plain words, naming the allowed moves", () => {
     expect(statusMoveError("checked_in", "ready")).toBe(
-      'A job that is "Booked in" can\'t go straight to "Ready to collect". It can go to "Diagnosing", "Needs owner\'s OK", "On the bench".',
+      'A job that is "Booked in" can\'t go straight to "Ready to collect". It can go to "Diagnosing", "Needs owner\'s OK", "Waiting on parts", "On the bench".',
     );
     expect(statusMoveError("picked_up", "in_progress")).toMatch(/closed/);
     expect(statusMoveError("ready", "ready")).toMatch(/already/);

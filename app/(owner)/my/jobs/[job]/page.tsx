@@ -7,12 +7,18 @@ import { formatJobNumber } from "@/lib/schemas/jobs";
 import { loadPage } from "@/lib/server/page-access";
 import { getShopBySlug } from "@/db/queries/shops";
 import { OwnerTimeline } from "./_components/owner-timeline";
+import { LiveJobUpdates } from "@/components/live-updates";
+import { latestEventId } from "@/db/queries/shop-events";
 import { OwedDecisions } from "./_components/owed-decisions";
 import { FollowingCard } from "./_components/following-card";
 import { getReassemblyProgress } from "@/db/queries/bench";
 import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
 import { OwnerInvoiceCard } from "@/components/invoices/owner-invoice-card";
 import { PortfolioConsentNotice } from "./portfolio/_components/consent-notice";
+import { collectedAt, jobFacts } from "@/db/queries/workflow";
+import { ownerStanding } from "@/lib/job-workflow";
+import { shopToday } from "@/lib/jobs-view";
+import { authorisedWork } from "@/lib/server/authorised-work";
 
 export const metadata: Metadata = { title: "Your job" };
 
@@ -25,10 +31,27 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
   const timeZone = shop?.timezone ?? "UTC";
   // The owner's page always reads as the owner, even for staff who look at their own machine.
   const timeline = await listTimeline({ shopId: job.shopId, jobId: job.id, audience, order: "desc", limit: 50 });
-  // Shown once the shop has logged the machine coming apart; null before that.
-  const reassembly = await getReassemblyProgress({ shopId: job.shopId, jobId: job.id });
+  // Shown once the shop has logged the machine coming apart and is putting it back together: not
+  // while it waits on the owner's answer or on parts, when a percentage would promise too much.
+  const key = { shopId: job.shopId, jobId: job.id };
+  const [reassembly, facts, collected, work] = await Promise.all([
+    job.status === "in_progress" || job.status === "ready" ? getReassemblyProgress(key) : null,
+    jobFacts(key),
+    job.status === "picked_up" ? collectedAt(key) : null,
+    audience === "owner" ? authorisedWork(key) : null,
+  ]);
+  const standing = ownerStanding({
+    status: job.status,
+    promisedOn: job.promisedOn,
+    facts,
+    declined: work ? work.record.flatMap((e) => e.declined.map((d) => d.description)) : [],
+    collectedOn: collected ? shopToday(timeZone, collected) : null,
+  });
+  // The page follows the job live (what its reader may hear), from the newest event at render.
+  const since = await latestEventId();
   return (
     <div className="space-y-4">
+      <LiveJobUpdates jobPublicId={job.publicId} since={since} />
       <PageHeader
         title={describeMachine(job.machine)}
         description={`${job.shopName} · ${formatJobNumber(job.number)}`}
@@ -40,7 +63,12 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
       <Card as="section" title="Where it stands" headingId="where-it-stands">
         <div className="space-y-2">
           <StatusBadge status={job.status} />
-          <p>{job.promisedOn ? `The shop expects to have it ready by ${job.promisedOn}.` : "The shop hasn't set a ready date yet."}</p>
+          <p className="font-semibold text-ink" data-testid="standing">
+            {standing.headline}
+          </p>
+          {standing.lines.map((line) => (
+            <p key={line}>{line}</p>
+          ))}
         </div>
       </Card>
       {reassembly ? <ReassemblyProgress {...reassembly} /> : null}

@@ -2,7 +2,7 @@
 import Link from "next/link";
 import { useEffect, useMemo, useState } from "react";
 import { type ColumnDef, type SortingState, flexRender, getCoreRowModel, useReactTable } from "@tanstack/react-table";
-import { ClipboardList, Package, TriangleExclamationPoint, type LucideIcon } from "lucide-react";
+import { ClipboardList, Hourglass, MessageSquareReply, Package, ReceiptText, TriangleExclamationPoint, type LucideIcon } from "lucide-react";
 import clsx from "clsx";
 import { StatusBadge } from "@/components/status-badge";
 import { Alert, EmptyState, Field, Input, Pagination, Select, Table, TBody, TD, TH, THead, TR } from "@/components/ui";
@@ -10,7 +10,7 @@ import { JOB_STATUSES, JOB_STATUS_LABEL, type JobStatus } from "@/lib/job-status
 import { type JobBoardPage, type JobBoardRow, jobAttention } from "@/lib/jobs-view";
 import { JOB_ATTENTION, type JobAttention, type JobListQuery, formatJobNumber } from "@/lib/schemas/jobs";
 import { jobQueryToSearch, useJobBoard } from "@/lib/swr/use-job-board";
-import { JobCard, OverdueBadge, attentionClasses } from "./job-card";
+import { JobCard, OverdueBadge, WaitsOn, attentionClasses } from "./job-card";
 
 type Props = {
   shopSlug: string;
@@ -33,6 +33,9 @@ const SORT_KEY: Partial<Record<string, JobListQuery["sort"]>> = {
 const ATTENTION_LOOK: Record<JobAttention, { label: string; icon: LucideIcon }> = {
   overdue: { label: "Overdue", icon: TriangleExclamationPoint },
   waiting_parts: { label: "Held for parts", icon: Package },
+  answered: { label: "Answered, not started", icon: MessageSquareReply },
+  ready_unpaid: { label: "Ready, unpaid", icon: ReceiptText },
+  owner_slow: { label: "Owner slow to answer", icon: Hourglass },
 };
 
 export function JobBoard({ shopSlug, today, technicians, initialQuery, initialData }: Props) {
@@ -74,6 +77,7 @@ export function JobBoard({ shopSlug, today, technicians, initialQuery, initialDa
           </div>
         ),
       },
+      { id: "waitingOn", header: "Waits on", cell: ({ row }) => <WaitsOn row={row.original} /> },
       { id: "customerName", header: "Owner", cell: ({ row }) => row.original.customerName },
       { id: "concern", header: "Concern", cell: ({ row }) => <span className="line-clamp-2 max-w-xs">{row.original.concern}</span> },
       {

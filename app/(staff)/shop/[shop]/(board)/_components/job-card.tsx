@@ -3,7 +3,8 @@ import { TriangleExclamationPoint } from "lucide-react";
 import clsx from "clsx";
 import { StatusBadge } from "@/components/status-badge";
 import { Badge } from "@/components/ui";
-import { type JobBoardRow, daysOverdue, jobAttention, overdueLabel } from "@/lib/jobs-view";
+import { WAITING_ON_LABEL } from "@/lib/job-workflow";
+import { type JobBoardRow, daysOverdue, jobAttention, overdueLabel, waitedFor } from "@/lib/jobs-view";
 import { type JobAttention, formatJobNumber } from "@/lib/schemas/jobs";
 
 /**
@@ -12,8 +13,22 @@ import { type JobAttention, formatJobNumber } from "@/lib/schemas/jobs";
  */
 export function attentionClasses(flags: JobAttention[]): { tint?: string; edge?: string } {
   if (flags.includes("overdue")) return { tint: "bg-rust-soft/40", edge: "border-l-4 border-l-rust" };
+  if (flags.includes("owner_slow") || flags.includes("answered") || flags.includes("ready_unpaid")) return { tint: "bg-signal-soft/40", edge: "border-l-4 border-l-signal" };
   if (flags.includes("waiting_parts")) return { tint: "bg-signal-soft/40", edge: "border-l-4 border-l-signal" };
   return {};
+}
+
+/** Whom the job waits on, for how long, and the next thing to do. */
+export function WaitsOn({ row }: { row: Pick<JobBoardRow, "waitingOn" | "next" | "since" | "answeredNotStarted"> }) {
+  if (!row.waitingOn) return <span className="text-ink-muted">Nobody</span>;
+  return (
+    <div className="space-y-0.5" data-testid="waits-on">
+      <div className="whitespace-nowrap font-medium">
+        {WAITING_ON_LABEL[row.waitingOn]} · <time dateTime={row.since}>{waitedFor(row.since)}</time>
+      </div>
+      <div className="text-sm text-ink-muted">{row.answeredNotStarted ? "Owner answered: start the work" : row.next}</div>
+    </div>
+  );
 }
 
 /** "Overdue 3 days" with a warning icon, or nothing while the job is on time. */
@@ -44,6 +59,7 @@ export function JobCard({ row, shopSlug, today }: { row: JobBoardRow; shopSlug: 
         {row.customerName} · {row.technician ?? "Unassigned"}
       </div>
       <p className="line-clamp-2 text-sm">{row.concern}</p>
+      <WaitsOn row={row} />
       {row.promisedOn ? (
         <div className="flex flex-wrap items-center gap-2 text-sm">
           <span>Promised {row.promisedOn}</span>

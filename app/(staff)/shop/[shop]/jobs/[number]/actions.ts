@@ -15,6 +15,13 @@ const statusChangeSchema = z.object({
     .trim()
     .max(500, "Keep the note under 500 characters.")
     .transform((s) => s || null),
+  // Handing back before the invoice is paid: why (recorded in the history).
+  override: z
+    .string()
+    .trim()
+    .max(300, "Keep the reason under 300 characters.")
+    .optional()
+    .transform((s) => s || null),
 });
 
 /** Moves a job along; the rules in lib/job-status.ts decide which moves exist. */

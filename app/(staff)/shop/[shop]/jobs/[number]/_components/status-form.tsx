@@ -3,6 +3,7 @@ import { useActionState, useEffect } from "react";
 import { Alert, Button, Field, Input, Select } from "@/components/ui";
 import type { ActionState } from "@/lib/action";
 import { JOB_STATUS_LABEL, NEXT_STATUSES, type JobStatus } from "@/lib/job-status";
+import { SUGGESTED_NEXT } from "@/lib/job-workflow";
 import { changeStatusAction } from "../actions";
 
 /** Moves the job to one of the statuses its rules allow; the move becomes a shared timeline entry. */
@@ -21,7 +22,7 @@ export function StatusForm({ jobPublicId, status, onMoved }: { jobPublicId: stri
       <input type="hidden" name="from" value={status} />
       {error && !error.fields ? <Alert tone="error">{error.message}</Alert> : null}
       <Field id="status-to" label="Move to" error={error?.fields?.to?.[0]} required>
-        <Select name="to" defaultValue={options[0]} key={status}>
+        <Select name="to" defaultValue={SUGGESTED_NEXT[status] ?? options[0]} key={status}>
           {options.map((s) => (
             <option key={s} value={s}>
               {JOB_STATUS_LABEL[s]}
@@ -32,6 +33,16 @@ export function StatusForm({ jobPublicId, status, onMoved }: { jobPublicId: stri
       <Field id="status-note" label="Note for the owner (optional)" hint="The owner sees status changes and this note." error={error?.fields?.note?.[0]}>
         <Input name="note" maxLength={500} key={`${status}-note`} />
       </Field>
+      {status === "ready" ? (
+        <Field
+          id="status-override"
+          label="Reason to hand it back before it is paid"
+          hint="Only needed when the invoice isn't issued and paid; it is kept in the job's history."
+          error={error?.fields?.override?.[0]}
+        >
+          <Input name="override" maxLength={300} key={`${status}-override`} />
+        </Field>
+      ) : null}
       <Button type="submit" loading={pending} fullWidth>
         Change status
       </Button>

@@ -3,6 +3,7 @@ import { BookOpen } from "lucide-react";
 import { ButtonLink, Caution, PageHeader } from "@/components/ui";
 import { getBenchSettings, listJobPhotos, listReadings, listTeardownSteps, listTorqueRecords } from "@/db/queries/bench";
 import { listParts } from "@/db/queries/bench-parts";
+import { listFindingClearance } from "@/db/queries/workflow";
 import { listSpecs } from "@/db/queries/bench-specs";
 import { CAUTIONS, type CautionKey } from "@/lib/cautions";
 import { describeMachine } from "@/lib/machine";
@@ -40,7 +41,7 @@ export default async function BenchPage({ params }: Props) {
   const { actor, shop, job, resource } = await staffJobPage(slug, number, "journal:view-shop-only", "/bench");
 
   const key = { shopId: shop.id, jobId: job.id };
-  const [settings, records, readings, steps, parts, specs, photos] = await Promise.all([
+  const [settings, records, readings, steps, parts, specs, photos, findings] = await Promise.all([
     getBenchSettings({ shopId: shop.id }),
     listTorqueRecords(key),
     listReadings(key),
@@ -48,6 +49,7 @@ export default async function BenchPage({ params }: Props) {
     listParts(key),
     listSpecs({ shopId: shop.id, make: job.machine.make, model: job.machine.model }),
     listJobPhotos(key),
+    listFindingClearance(key),
   ]);
   const torqueSpecs = specs.flatMap((s) =>
     s.kind === "torque" && s.value != null && s.unit && isTorqueUnit(s.unit) ? [{ id: s.id, label: s.label, value: s.value, unit: s.unit, boltCount: s.boltCount, source: s.source }] : [],
@@ -98,7 +100,7 @@ export default async function BenchPage({ params }: Props) {
       <ReadingsSection jobPublicId={job.publicId} readings={readings} specs={limitSpecs} chainLimitPct={settings.chainLimitPct} timeZone={shop.timezone} mayRecord={mayRecord} />
       <TeardownSection jobPublicId={job.publicId} steps={steps} photos={photos} shopUnit={settings.torqueUnit} mayRecord={mayRecord} />
       <ReassemblySection jobPublicId={job.publicId} steps={steps} passPercents={settings.passPercents} shopUnit={settings.torqueUnit} timeZone={shop.timezone} mayRecord={mayRecord} />
-      <PartsSection jobPublicId={job.publicId} parts={parts} currency={shop.currency} timeZone={shop.timezone} mayManage={can(actor, "parts:manage", resource)} />
+      <PartsSection jobPublicId={job.publicId} parts={parts} currency={shop.currency} timeZone={shop.timezone} mayManage={can(actor, "parts:manage", resource)} findings={findings} />
     </div>
   );
 }

@@ -3,9 +3,17 @@ import { Button, Field, Input, Select } from "@/components/ui";
 import { PART_STATUSES, PART_STATUS_LABEL } from "@/lib/bench";
 import { addPartAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import type { FindingClearance } from "@/db/queries/workflow";
+
+const CLEARANCE_LABEL: Record<FindingClearance["state"], string> = {
+  not_sent: "not asked yet",
+  waiting: "waiting for the owner",
+  approved: "approved",
+  declined: "declined",
+};
 
 /** Adds a part to the job; a part still to come parks a job in progress on "waiting on parts". */
-export function PartForm({ jobPublicId, currency }: { jobPublicId: string; currency: string }) {
+export function PartForm({ jobPublicId, currency, findings }: { jobPublicId: string; currency: string; findings: FindingClearance[] }) {
   const form = useBenchForm(addPartAction);
   const { values, fieldError } = form;
   return (
@@ -14,6 +22,25 @@ export function PartForm({ jobPublicId, currency }: { jobPublicId: string; curre
       <FormError message={form.formError} />
       <Field id="part-description" label="Part" hint="What it is, e.g. “cam chain, 112 links”" error={fieldError("description")} required>
         <Input name="description" defaultValue={values?.description} maxLength={200} />
+      </Field>
+      <Field
+        id="part-for"
+        label="For which work"
+        hint="A part for a finding waits the job only once the owner approves that finding."
+        error={fieldError("forWork")}
+        required
+      >
+        <Select name="forWork" key={`for-${values?.forWork ?? ""}`} defaultValue={values?.forWork ?? ""} required>
+          <option value="" disabled>
+            Choose…
+          </option>
+          <option value="booked">The work it was booked in for (no further OK needed)</option>
+          {findings.map((f) => (
+            <option key={f.id} value={`finding:${f.id}`}>
+              {f.title} ({CLEARANCE_LABEL[f.state]})
+            </option>
+          ))}
+        </Select>
       </Field>
       <div className="grid grid-cols-2 gap-3">
         <Field id="part-number" label="Part number (optional)" error={fieldError("partNumber")}>

@@ -5,12 +5,21 @@ import { PART_STATUS_LABEL, isOutstanding } from "@/lib/bench";
 import { formatMoney, formatQuantity } from "@/lib/money";
 import { PartForm } from "./part-form";
 import { PartStatusForm } from "./part-status-form";
+import type { FindingClearance } from "@/db/queries/workflow";
 import { whenText } from "./when";
 
-type Props = { jobPublicId: string; parts: PartRow[]; currency: string; timeZone: string; mayManage: boolean };
+type Props = { jobPublicId: string; parts: PartRow[]; currency: string; timeZone: string; mayManage: boolean; findings: FindingClearance[] };
+
+/** What the part is for, and whether it can wait the job yet. */
+function forWhat(p: PartRow, findings: FindingClearance[]): string {
+  if (p.noOkNeeded) return "For the booked work";
+  const f = findings.find((x) => x.id === p.findingId);
+  if (!f) return "For work not named";
+  return f.state === "approved" ? `For “${f.title}” (approved)` : `For “${f.title}”: doesn't hold the job until the owner approves it`;
+}
 
 /** Parts on the job with their status, expected date and history; costs stay on this staff page. */
-export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage }: Props) {
+export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage, findings }: Props) {
   const waiting = parts.filter((p) => isOutstanding(p.status)).length;
   return (
     <Card
@@ -22,7 +31,7 @@ export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage
     >
       <div className="space-y-4">
         {parts.length === 0 ? (
-          <EmptyState icon={Package} title="No parts on this job" description="Add what the job needs. While a part is still to come, the job shows as waiting on parts." />
+          <EmptyState icon={Package} title="No parts on this job" description="Add what the job needs. While a part for approved or booked work is still to come, the job shows as waiting on parts." />
         ) : (
           <ul className="space-y-3" aria-label="Parts on this job">
             {parts.map((p) => (
@@ -36,6 +45,7 @@ export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage
                 <p className="text-sm text-ink-muted">
                   {[p.partNumber, `qty ${formatQuantity(p.qtyThousandths)}`, p.supplier, p.costMinor != null ? `${formatMoney(p.costMinor, currency)} each` : null].filter(Boolean).join(" · ")}
                 </p>
+                <p className="text-sm text-ink">{forWhat(p, findings)}</p>
                 {p.expectedOn && isOutstanding(p.status) ? <p>Expected {p.expectedOn}</p> : null}
                 <details>
                   <summary className="inline-flex min-h-tap cursor-pointer items-center rounded-md px-2 font-semibold text-oil hover:bg-oil-soft">History</summary>
@@ -53,7 +63,7 @@ export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage
             ))}
           </ul>
         )}
-        {mayManage ? <PartForm jobPublicId={jobPublicId} currency={currency} /> : null}
+        {mayManage ? <PartForm jobPublicId={jobPublicId} currency={currency} findings={findings} /> : null}
       </div>
     </Card>
   );
