@@ -1,7 +1,8 @@
 import Link from "next/link";
+import type { ReactNode } from "react";
 
 /** The shop area's sections, under the header; only the ones this person may open are passed in. */
-export function ShopNav({ links }: { links: { href: string; label: string }[] }) {
+export function ShopNav({ links }: { links: { href: string; label: string; badge?: ReactNode }[] }) {
   if (links.length < 2) return null;
   return (
     <nav aria-label="This shop" className="border-b border-line bg-surface">
@@ -10,6 +11,7 @@ export function ShopNav({ links }: { links: { href: string; label: string }[] })
           <li key={l.href}>
             <Link href={l.href} className="inline-flex min-h-tap items-center whitespace-nowrap rounded-lg px-3 font-medium text-oil hover:bg-oil-soft">
               {l.label}
+              {l.badge}
             </Link>
           </li>
         ))}

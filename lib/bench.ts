@@ -1,7 +1,6 @@
 // Bench records as the timeline and the bench page read them: statuses, the snapshot bodies
-// kept in journal entries, the waiting-on-parts rule and display helpers. Pure: no I/O, safe in
-// the browser and on the server.
-import type { JobStatus } from "@/lib/job-status";
+// kept in journal entries and display helpers (the waiting-on-parts rule is in job-workflow.ts).
+// Pure: no I/O, safe in the browser and on the server.
 import type { ReadingVerdict } from "@/lib/readings";
 import { type ChecklistItem, reassemblyChecklist } from "@/lib/reassembly";
 import { formatFixed } from "@/lib/rounding";

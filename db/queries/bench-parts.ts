@@ -9,6 +9,7 @@ import { formatQuantity } from "@/lib/money";
 import { db } from "@/db/client";
 import type { JobPartEventsTable, JobPartsTable } from "@/db/tables";
 import { transaction } from "@/db/transaction";
+import { type InboxEvent, recordInboxEvent } from "@/lib/server/inbox";
 
 // Parts on a job and the waiting-on-parts rule. A part change, its history row, its (shop-only)
 // timeline entry and any job move it causes commit together: the job row is locked first, so two
@@ -68,6 +69,12 @@ function partBody(part: Pick<NewPart, "description" | "partNumber" | "qtyThousan
   return { event, description: part.description, partNumber: part.partNumber, qty: formatQuantity(part.qtyThousandths), from, to, expectedOn: part.expectedOn };
 }
 
+/** The desk inbox's line for a part that came in (no cost: technicians read it too). */
+function partsReceived(p: JobKey & { userId: number }, part: Pick<NewPart, "description" | "partNumber" | "qtyThousandths">, partId: number): InboxEvent {
+  const number = part.partNumber ? ` (${part.partNumber})` : "";
+  return { shopId: p.shopId, jobId: p.jobId, kind: "parts_received", actorUserId: p.userId, summary: `${formatQuantity(part.qtyThousandths)} × ${part.description}${number} received`, extra: { part: partId } };
+}
+
 export async function addPart(p: JobKey & { userId: number; part: NewPart }): Promise<{ id: number; jobMovedTo: JobStatus | null }> {
   return transaction(async (tx) => {
     await lockJob(tx, p);
@@ -92,6 +99,7 @@ export async function addPart(p: JobKey & { userId: number; part: NewPart }): Pr
     });
     await tx("job_part_events").insert({ shop_id: p.shopId, part_id: id, from_status: null, to_status: part.status, changed_by_user_id: p.userId });
     await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "part", authorId: p.userId, body: partBody(part, "added", null, part.status) });
+    if (part.status === "received") await recordInboxEvent(tx, partsReceived(p, part, Number(id)));
     const jobMovedTo = await settleJob(tx, { ...p, partId: Number(id), partTo: part.status });
     return { id: Number(id), jobMovedTo };
   });
@@ -120,6 +128,7 @@ export async function changePartStatus(
       expectedOn: p.expectedOn !== undefined ? p.expectedOn : (part.expected_on ?? null),
     };
     await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "part", authorId: p.userId, body: partBody(snapshot, "status", p.from, p.to) });
+    if (p.to === "received") await recordInboxEvent(tx, partsReceived(p, snapshot, p.partId));
     return { jobMovedTo: await settleJob(tx, { ...p, partId: p.partId, partTo: p.to }) };
   });
 }

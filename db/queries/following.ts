@@ -134,8 +134,14 @@ export async function followerUserIds({ jobId }: { jobId: number }): Promise<num
   return rows.map((r) => Number(r.user_id));
 }
 
-/** A new follower and their invitation e-mail, in one transaction. Refuses the owner, a repeat, and more than MAX_FOLLOWERS. */
-export async function inviteFollower(p: { shopId: number; jobId: number; email: string; invitedBy: number }): Promise<number> {
+/**
+ * A new follower and their invitation e-mail, in one transaction. Refuses the owner, a repeat, and
+ * more than MAX_FOLLOWERS. `added` runs in the same transaction (the desk inbox hears of it).
+ */
+export async function inviteFollower(
+  p: { shopId: number; jobId: number; email: string; invitedBy: number },
+  added?: (tx: Knex.Transaction, subscriberId: number) => Promise<unknown>,
+): Promise<number> {
   const email = p.email.toLowerCase();
   return transaction(async (tx) => {
     // Locking the job row makes two invitations at once count followers one after the other.
@@ -156,6 +162,7 @@ export async function inviteFollower(p: { shopId: number; jobId: number; email: 
       throw error;
     }
     await insertAlert(tx, { shopId: p.shopId, jobId: p.jobId, kind: "invitation", subscriberId: Number(id) });
+    if (added) await added(tx, Number(id));
     return Number(id);
   });
 }

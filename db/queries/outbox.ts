@@ -3,6 +3,7 @@ import crypto from "node:crypto";
 import type { Knex } from "knex";
 import { z } from "zod";
 import { AppError } from "@/lib/errors";
+import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
 import { db } from "@/db/client";
 import type { OutboxTable } from "@/db/tables";
 import { transaction } from "@/db/transaction";
@@ -16,6 +17,9 @@ export const MAIL_PRIORITY = { signInLink: 10 } as const;
 export type NewMail = {
   /** The shop the mail speaks for (its name in From, its e-mail as Reply-To); null for mail of no shop. */
   shopId: number | null;
+  /** The job it is about (its sent log, db/queries/mail-log.ts), by id or public id, within `shopId`; left out for mail of no job. */
+  jobId?: number | null;
+  jobPublicId?: string | null;
   /** What the mail is, for the staff list and logs: "progress", "daily", "ready", "invitation", … */
   kind: string;
   to: string;
@@ -49,6 +53,8 @@ const email = z.string().trim().toLowerCase().max(254).pipe(z.email({ error: "Th
 
 const mailSchema = z.object({
   shopId: z.number().int().positive().nullable(),
+  jobId: z.number().int().positive().nullable().optional(),
+  jobPublicId: z.string().regex(JOB_PUBLIC_ID_PATTERN, "That is not a job's public id.").nullable().optional(),
   kind: z.string().regex(/^[a-z][a-z0-9_-]{0,39}$/, "kind: lower-case letters, digits, - and _ (at most 40)."),
   to: email,
   subject: oneLine(300, "The subject"),
@@ -63,7 +69,7 @@ const mailSchema = z.object({
   sendBefore: z.date().nullable().optional(),
   priority: z.number().int().min(0).max(255).optional(),
   dedupeKey: oneLine(190, "The dedupe key").nullable().optional(),
-});
+}).refine((m) => (m.jobId == null && m.jobPublicId == null) || (m.shopId != null && (m.jobId == null || m.jobPublicId == null)), "A job's mail names its shop, and its job once.");
 
 function isDuplicateKey(error: unknown): boolean {
   return (error as { code?: string } | null)?.code === "ER_DUP_ENTRY";
@@ -94,9 +100,17 @@ export async function enqueueMail(k: Knex, mail: NewMail): Promise<number> {
     from = fromForShop(shop.name);
     if (m.replyTo === undefined) replyTo = shop.email ? shop.email.toLowerCase() : null;
   }
+  let jobId = m.jobId ?? null;
+  if (m.jobPublicId != null) {
+    const job = await k("jobs").where({ shop_id: m.shopId!, public_id: m.jobPublicId }).first("id");
+    if (!job) throw new AppError("not_found", `No job ${m.jobPublicId} in shop ${m.shopId} to send mail about.`);
+    jobId = Number(job.id);
+  }
   const dedupeScope = m.shopId ?? 0;
   const row = {
     shop_id: m.shopId,
+    // The (shop_id, job_id) foreign key refuses a job of another shop.
+    job_id: jobId,
     dedupe_scope: dedupeScope,
     dedupe_key: m.dedupeKey ?? null,
     kind: m.kind,
@@ -126,6 +140,10 @@ export async function enqueueMail(k: Knex, mail: NewMail): Promise<number> {
 
 export type ClaimedMail = {
   id: number;
+  /** Whose mail it is and what about (the desk hears of mail given up on: lib/server/inbox.ts). */
+  shopId: number | null;
+  jobId: number | null;
+  kind: string;
   claimToken: string;
   attempts: number;
   from: string;
@@ -174,6 +192,9 @@ export async function claimBatch({ limit, leaseMs, priorityOnly = false }: { lim
   const rows = await db()("outbox").whereIn("id", ids).where("claim_token", claimToken).orderBy("id");
   return rows.map((r) => ({
     id: Number(r.id),
+    shopId: r.shop_id == null ? null : Number(r.shop_id),
+    jobId: r.job_id == null ? null : Number(r.job_id),
+    kind: String(r.kind),
     claimToken,
     attempts: Number(r.attempts),
     from: String(r.from_address),
@@ -189,17 +210,24 @@ export async function claimBatch({ limit, leaseMs, priorityOnly = false }: { lim
   }));
 }
 
-const mine = (m: Pick<ClaimedMail, "id" | "claimToken">) => db()("outbox").where({ id: m.id, claim_token: m.claimToken, state: "sending" });
+const mine = (m: Pick<ClaimedMail, "id" | "claimToken">, k: Knex = db()) => k("outbox").where({ id: m.id, claim_token: m.claimToken, state: "sending" });
 
 /** Each outcome applies only while this worker still holds the row, so a late worker can't undo a newer claim. */
 export async function markSent(m: ClaimedMail, providerId: string): Promise<void> {
   await mine(m).update({ state: "sent", sent_at: db().fn.now(3), provider_id: providerId.slice(0, 100), locked_until: null, claim_token: null, last_error: null });
 }
 
-export async function markFailed(m: ClaimedMail, failure: { error: string; retryInMs: number | null }): Promise<void> {
+/**
+ * A failed try: retried after `retryInMs`, or (null) given up on. `onDead` runs in the transaction
+ * that gives the mail up, only if this worker still held it, so the desk hears of it exactly once.
+ */
+export async function markFailed(m: ClaimedMail, failure: { error: string; retryInMs: number | null }, onDead?: (tx: Knex.Transaction) => Promise<unknown>): Promise<void> {
   const error = failure.error.slice(0, 500);
   if (failure.retryInMs == null) {
-    await mine(m).update({ state: "dead", last_error: error, locked_until: null, claim_token: null });
+    await transaction(async (tx) => {
+      const given = await mine(m, tx).update({ state: "dead", last_error: error, locked_until: null, claim_token: null });
+      if (given === 1 && onDead) await onDead(tx);
+    });
     return;
   }
   const next = db().raw("NOW(3) + INTERVAL ? MICROSECOND", [Math.max(0, Math.round(failure.retryInMs)) * 1000]);
@@ -212,18 +240,36 @@ export async function releaseClaim(m: ClaimedMail, afterMs: number): Promise<voi
   await mine(m).update({ state: "retrying", attempts: db().raw("GREATEST(attempts, 1) - 1"), next_attempt_at: next, locked_until: null, claim_token: null });
 }
 
-export type OutboxProblem = { id: number; kind: string; to: string; subject: string; state: "retrying" | "dead"; attempts: number; lastError: string | null; nextAttemptAt: Date; createdAt: Date };
+export type OutboxProblem = {
+  id: number;
+  /** The job the mail is about (for the link to its sent log), or null. */
+  jobNumber: number | null;
+  kind: string;
+  to: string;
+  subject: string;
+  state: "retrying" | "dead";
+  attempts: number;
+  lastError: string | null;
+  nextAttemptAt: Date;
+  createdAt: Date;
+};
 
 /** The shop's mail that failed at least once and is not sent yet, newest first. */
 export async function listOutboxProblems({ shopId, limit = 100 }: { shopId: number; limit?: number }): Promise<OutboxProblem[]> {
-  const rows = await db()("outbox")
-    .where("shop_id", shopId)
-    .whereIn("state", ["retrying", "dead"])
-    .orderBy("id", "desc")
+  const rows: (Pick<OutboxTable, "id" | "kind" | "to_email" | "subject" | "state" | "attempts" | "last_error" | "next_attempt_at" | "created_at"> & { job_number: number | null })[] = await db()(
+    "outbox as o",
+  )
+    .leftJoin("jobs as j", function () {
+      this.on("j.shop_id", "o.shop_id").andOn("j.id", "o.job_id");
+    })
+    .where("o.shop_id", shopId)
+    .whereIn("o.state", ["retrying", "dead"])
+    .orderBy("o.id", "desc")
     .limit(limit)
-    .select("id", "kind", "to_email", "subject", "state", "attempts", "last_error", "next_attempt_at", "created_at");
+    .select("o.id", "o.kind", "o.to_email", "o.subject", "o.state", "o.attempts", "o.last_error", "o.next_attempt_at", "o.created_at", "j.number as job_number");
   return rows.map((r) => ({
     id: Number(r.id),
+    jobNumber: r.job_number == null ? null : Number(r.job_number),
     kind: String(r.kind),
     to: String(r.to_email),
     subject: String(r.subject),

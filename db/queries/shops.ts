@@ -3,11 +3,18 @@ import type { Knex } from "knex";
 import { db } from "@/db/client";
 import type { StaffRole } from "@/lib/permissions";
 
-export type ShopRow = { id: number; slug: string; name: string; timezone: string; currency: string };
+export type ShopRow = { id: number; slug: string; name: string; timezone: string; currency: string; ownerWaitDays: number };
 
 export async function getShopBySlug({ slug }: { slug: string }): Promise<ShopRow | null> {
-  const row = await db()("shops").where({ slug }).first("id", "slug", "name", "timezone", "currency");
-  return row ? { id: Number(row.id), slug: String(row.slug), name: String(row.name), timezone: String(row.timezone), currency: String(row.currency) } : null;
+  const row = await db()("shops").where({ slug }).first("id", "slug", "name", "timezone", "currency", "owner_wait_days");
+  return row
+    ? { id: Number(row.id), slug: String(row.slug), name: String(row.name), timezone: String(row.timezone), currency: String(row.currency), ownerWaitDays: Number(row.owner_wait_days) }
+    : null;
+}
+
+/** After how many days waiting on the owner the board flags a job. */
+export async function saveOwnerWaitDays({ shopId, days }: { shopId: number; days: number }): Promise<void> {
+  await db()("shops").where({ id: shopId }).update({ owner_wait_days: days });
 }
 
 /** The shop's currency code; "USD" for a shop that isn't there (callers reach it through a job of the shop). */

@@ -77,6 +77,8 @@ export function payWithCard(ctx: FakeContext, s: StoredSession, cardNumber: stri
   if (card.outcome === "decline") {
     intent.last_payment_error = card.error;
     persist(ctx);
+    // As the hosted service does for each failed attempt; the session stays open for another card.
+    ctx.webhooks.emit("payment_intent.payment_failed", intent);
     return { ok: false, error: card.error };
   }
   const charge: Charge = {

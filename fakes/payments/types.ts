@@ -76,7 +76,7 @@ export type Charge = {
   livemode: false;
 };
 
-export type EventType = "checkout.session.completed" | "checkout.session.expired" | "charge.refunded";
+export type EventType = "checkout.session.completed" | "checkout.session.expired" | "charge.refunded" | "payment_intent.payment_failed";
 
 export type StripeEvent = {
   id: string;

@@ -158,4 +158,10 @@ export const benchSettingsSchema = shopRef.extend({
   // Clips from the bench (defaults 10 minutes, 2 GB).
   clipMaxMinutes: reqDecimal("The longest clip (minutes)", { min: 1, max: 60 }),
   clipMaxGb: reqDecimal("The largest clip (GB)", { min: 0.1, max: 10 }),
+  // The board's "owner slow to answer" filter: days a job may wait on the owner (default 3).
+  ownerWaitDays: z.coerce
+    .number({ message: "Enter a number of days." })
+    .int("Enter whole days.")
+    .min(1, "At least 1 day.")
+    .max(60, "At most 60 days."),
 });

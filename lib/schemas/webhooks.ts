@@ -52,12 +52,28 @@ export const chargeSchema = z
   })
   .loose();
 
+/** A payment attempt that failed (stripe: PaymentIntent): what it was for (our metadata) and why. */
+export const paymentIntentSchema = z
+  .object({
+    id: ref,
+    amount: z.number().int().nonnegative(),
+    currency: z.string().min(3).max(3),
+    metadata: z.record(z.string(), z.string()).nullish(),
+    last_payment_error: z
+      .object({ message: z.string().max(1000).nullish(), code: z.string().max(100).nullish(), decline_code: z.string().max(100).nullish() })
+      .loose()
+      .nullish(),
+  })
+  .loose();
+
 /** The payment events we act on and the shape of what each carries. */
 export const PAYMENT_EVENT_OBJECTS = {
   "checkout.session.completed": checkoutSessionSchema,
   "checkout.session.async_payment_succeeded": checkoutSessionSchema,
+  "checkout.session.async_payment_failed": checkoutSessionSchema,
   "checkout.session.expired": checkoutSessionSchema,
   "charge.refunded": chargeSchema,
+  "payment_intent.payment_failed": paymentIntentSchema,
 } as const;
 
 // ---------------------------------------------------------------- video (mux-shaped)

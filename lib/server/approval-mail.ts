@@ -53,10 +53,10 @@ export async function queueRequestMail(
     thumbnails: m.snapshot.evidence.filter((e) => e.kind === "photo").map((e, i) => ({ url: mailThumbUrl(request, e.ref, m.token), alt: e.label ?? `Photo ${i + 1} of what was found` })),
   };
   const first = await renderApprovalMail({ ...base, reminder: false });
-  const mailId = await enqueueMail(tx, { shopId: m.shop.id, kind: "approval", to: m.to, ...first, dedupeKey: requestMailKey(request) });
+  const mailId = await enqueueMail(tx, { shopId: m.shop.id, jobPublicId: m.jobPublicId, kind: "approval", to: m.to, ...first, dedupeKey: requestMailKey(request) });
   const again = await renderApprovalMail({ ...base, reminder: true });
   const sendAfter = new Date((m.now ?? new Date()).getTime() + m.reminderDelayHours * HOUR);
-  const reminderId = await enqueueMail(tx, { shopId: m.shop.id, kind: "approval-reminder", to: m.to, ...again, sendAfter, dedupeKey: reminderMailKey(request) });
+  const reminderId = await enqueueMail(tx, { shopId: m.shop.id, jobPublicId: m.jobPublicId, kind: "approval-reminder", to: m.to, ...again, sendAfter, dedupeKey: reminderMailKey(request) });
   return { mailId, reminderId };
 }
 

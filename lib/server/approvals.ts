@@ -4,7 +4,6 @@ import { getFinding, getMoneySettings, listEvidenceChoices, lockFinding } from "
 import { notifyNow } from "@/db/queries/following";
 import { lockJobForRequest } from "@/db/queries/jobs";
 import { insertEntry } from "@/db/queries/entries";
-import { recordEvent } from "@/db/queries/shop-events";
 import { applyJobEvent, lockJobRow } from "@/db/queries/workflow";
 import { type Tx, transaction } from "@/db/transaction";
 import { type EvidenceRef, type RequestSnapshot, asSnapshot, buildSnapshot, checkAnswers, decisionTotals, snapshotContent } from "@/lib/approvals";
@@ -17,6 +16,7 @@ import { formatJobNumber } from "@/lib/schemas/jobs";
 import type { JobAccess, Resolved } from "@/lib/server/access";
 import { newMailToken, sealIntact, sealSnapshot } from "@/lib/server/approval-hash";
 import { cancelReminder, queueRequestMail } from "@/lib/server/approval-mail";
+import { recordInboxEvent } from "@/lib/server/inbox";
 
 // Sending, withdrawing and answering approval requests. Every change runs in one transaction
 // with the request row locked, so an answer, a withdrawal and a revision can't cross; the unique
@@ -233,22 +233,18 @@ async function decide(actor: Actor, request: { id: number; findingId: number }, 
       });
       // The desk hears what was approved and declined; the last answer moves the job off the owner.
       const line = (no: number) => snapshot.lines.find((l) => l.no === no)!.description;
-      const lineNos = snapshot.lines.map((l) => l.no);
-      await recordEvent(tx, {
+      const approved = snapshot.lines.filter((l) => answers[l.no] === "approved").map((l) => line(l.no));
+      const declined = snapshot.lines.filter((l) => answers[l.no] === "declined").map((l) => line(l.no));
+      await recordInboxEvent(tx, {
         shopId: job.shopId,
         jobId: job.id,
         kind: "owner_answered",
         actorUserId: actor.userId,
-        payload: {
-          request: r.publicId,
-          title: snapshot.finding.title,
-          method: d.method,
-          by: d.personName,
-          approved: lineNos.filter((no) => answers[no] === "approved").map(line),
-          declined: lineNos.filter((no) => answers[no] === "declined").map(line),
-          authorisedTotalMinor: t.authorised.totalMinor,
-          currency: snapshot.currency,
-        },
+        summary: `${d.personName} answered “${snapshot.finding.title}”${d.method === "online" ? "" : d.method === "phone" ? " (by phone)" : " (in person)"}`,
+        detail: [approved.length ? `Approved: ${approved.join(", ")}.` : "", declined.length ? `Declined: ${declined.join(", ")}.` : ""].filter(Boolean).join(" "),
+        amountMinor: t.authorised.totalMinor,
+        currency: snapshot.currency,
+        extra: { request: r.publicId, title: snapshot.finding.title, method: d.method, by: d.personName, approved, declined },
       });
       await applyJobEvent(tx, { shopId: job.shopId, jobId: job.id, userId: actor.userId, event: { kind: "request_answered" } });
     });

@@ -3,7 +3,7 @@ import { saveClipLimits } from "@/db/queries/clips";
 import { saveBenchSettings } from "@/db/queries/bench";
 import { addPart, changePartStatus } from "@/db/queries/bench-parts";
 import { deleteSpec, insertSpec } from "@/db/queries/bench-specs";
-import { getShopBySlug } from "@/db/queries/shops";
+import { getShopBySlug, saveOwnerWaitDays } from "@/db/queries/shops";
 import { AppError } from "@/lib/errors";
 import { parseMoney, parseQuantity } from "@/lib/money";
 import type { Actor } from "@/lib/permissions";
@@ -61,10 +61,11 @@ export async function removeSpec({ shop }: Resolved<"shop">, input: { spec: numb
 
 export async function updateBenchSettings(
   { shop }: Resolved<"shop">,
-  input: { torqueUnit: TorqueUnit; passes: number[]; chainLimitPct: number; clipMaxMinutes: number; clipMaxGb: number },
+  input: { torqueUnit: TorqueUnit; passes: number[]; chainLimitPct: number; clipMaxMinutes: number; clipMaxGb: number; ownerWaitDays: number },
 ) {
   onField("passes", () => assertPassPercents(input.passes));
   await saveBenchSettings({ shopId: shop.id, settings: { torqueUnit: input.torqueUnit, passPercents: input.passes, chainLimitPct: input.chainLimitPct } });
   await saveClipLimits({ shopId: shop.id, maxSeconds: Math.round(input.clipMaxMinutes * 60), maxBytes: Math.round(input.clipMaxGb * 1024 ** 3) });
+  await saveOwnerWaitDays({ shopId: shop.id, days: input.ownerWaitDays });
   return { shop };
 }

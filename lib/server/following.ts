@@ -12,6 +12,7 @@ import { AppError } from "@/lib/errors";
 import type { Frequency } from "@/lib/following";
 import { type Actor, type Resource, can, rolesFor } from "@/lib/permissions";
 import type { JobAccess } from "@/lib/server/access";
+import { recordInboxEvent } from "@/lib/server/inbox";
 import { readUnsubscribeToken } from "@/lib/server/signed-token";
 
 type JobKey = { id: number; shopId: number; customerUserId: number | null };
@@ -21,7 +22,16 @@ export async function inviteFollowerAs(actor: Actor, { job }: JobAccess, email: 
   if (email.toLowerCase() === actor.email.toLowerCase()) {
     throw new AppError("conflict", "That's your own address: you already follow this job.", { email: ["That's your own address."] });
   }
-  const id = await inviteFollower({ shopId: job.shopId, jobId: job.id, email, invitedBy: actor.userId });
+  const id = await inviteFollower({ shopId: job.shopId, jobId: job.id, email, invitedBy: actor.userId }, (tx, subscriber) =>
+    recordInboxEvent(tx, {
+      shopId: job.shopId,
+      jobId: job.id,
+      kind: "follower_added",
+      actorUserId: actor.userId,
+      summary: `${actor.name} invited ${email.toLowerCase()} to follow the job`,
+      extra: { subscriber, name: actor.name },
+    }),
+  );
   return { job, id };
 }
 

@@ -48,7 +48,7 @@ export async function queueInvoiceMail(tx: Tx, m: Owner & { invoice: InvoiceRow;
     button: { href: `${appUrl()}${ownerInvoicePath(m.job.publicId)}`, label: i.balanceMinor > 0 ? "See the invoice and pay" : "See the invoice" },
     footnote: FOOTNOTE,
   };
-  await enqueueMail(tx, { shopId: m.job.shopId, kind: "invoice", to: m.to, ...(await renderMoneyMail(content)), dedupeKey: `invoice:${i.publicId}:issued` });
+  await enqueueMail(tx, { shopId: m.job.shopId, jobPublicId: m.job.publicId, kind: "invoice", to: m.to, ...(await renderMoneyMail(content)), dedupeKey: `invoice:${i.publicId}:issued` });
 }
 
 export async function queueDepositMail(tx: Tx, m: Owner & { deposit: { publicId: string; amountMinor: number; currency: string; note: string | null }; job: MailJob }) {
@@ -66,7 +66,7 @@ export async function queueDepositMail(tx: Tx, m: Owner & { deposit: { publicId:
     button: { href: `${appUrl()}${ownerInvoicePath(m.job.publicId)}`, label: "Pay the deposit" },
     footnote: FOOTNOTE,
   };
-  await enqueueMail(tx, { shopId: m.job.shopId, kind: "deposit", to: m.to, ...(await renderMoneyMail(content)), dedupeKey: `deposit:${m.deposit.publicId}` });
+  await enqueueMail(tx, { shopId: m.job.shopId, jobPublicId: m.job.publicId, kind: "deposit", to: m.to, ...(await renderMoneyMail(content)), dedupeKey: `deposit:${m.deposit.publicId}` });
 }
 
 const RECEIPT_HEADING: Record<PaymentKind, string> = { payment: "Payment received", deposit: "Deposit received", refund: "Refund sent" };
@@ -110,5 +110,5 @@ export async function queueReceiptMail(
     button: { href: `${appUrl()}${ownerInvoicePath(m.job.publicId)}`, label: "See the invoice" },
     footnote: "Keep this e-mail as your receipt. Reply to it to reach the shop.",
   };
-  await enqueueMail(tx, { shopId: m.job.shopId, kind: "receipt", to: m.to, ...(await renderMoneyMail(content)), dedupeKey: `receipt:${m.paymentId}` });
+  await enqueueMail(tx, { shopId: m.job.shopId, jobPublicId: m.job.publicId, kind: "receipt", to: m.to, ...(await renderMoneyMail(content)), dedupeKey: `receipt:${m.paymentId}` });
 }

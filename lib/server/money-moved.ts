@@ -3,8 +3,9 @@ import type { Tx } from "@/db/transaction";
 import { getLiveInvoice, lockJob } from "@/db/queries/invoices";
 import { insertEntry } from "@/db/queries/entries";
 import { getMoneyJob, insertPayment, type NewPayment } from "@/db/queries/payments";
-import { type PaymentEntryBody, formatInvoiceNumber } from "@/lib/invoices";
+import { type PaymentEntryBody, type PaymentKind, type PaymentMethod, formatInvoiceNumber } from "@/lib/invoices";
 import { queueReceiptMail } from "@/lib/server/invoice-mail";
+import { recordInboxEvent } from "@/lib/server/inbox";
 import { recompute } from "@/lib/server/invoices";
 
 // The one way money is recorded, whoever reports it (the desk, the payments webhook, the owner's
@@ -31,6 +32,17 @@ export async function recordMoney(tx: Tx, p: NewPayment & { authorId: number | n
     p.kind === "refund" ? "refunded" : p.kind === "deposit" ? "deposit_paid" : shown && shown.balanceMinor <= 0 ? "paid_in_full" : "part_paid";
   const body: PaymentEntryBody = { event, invoice: shown?.publicId ?? null, number: shown ? formatInvoiceNumber(shown.number) : null, method: p.method };
   await insertEntry(tx, { shopId: p.shopId, jobId: p.jobId, kind: "payment", authorId: p.authorId, visibility: "shared", body });
+  // The desk's inbox: the amount rides beside the line, for staff who may see money only.
+  await recordInboxEvent(tx, {
+    shopId: p.shopId,
+    jobId: p.jobId,
+    kind: p.kind === "refund" ? "payment_refunded" : "payment_received",
+    actorUserId: p.authorId,
+    summary: inboxLine(p.kind, event, p.method, body.number),
+    amountMinor: p.amountMinor,
+    currency: p.currency,
+    extra: { payment: paymentId, method: p.method },
+  });
   if (owner.customerEmail) {
     const job = (await getMoneyJob(tx, p.jobId))!;
     await queueReceiptMail(tx, {
@@ -47,4 +59,14 @@ export async function recordMoney(tx: Tx, p: NewPayment & { authorId: number | n
     });
   }
   return { paymentId, balanceMinor: shown?.balanceMinor ?? null };
+}
+
+const HOW: Record<PaymentMethod, string> = { online: "online", cash: "in cash", card_terminal: "by card at the counter", cheque: "by cheque" };
+
+/** The inbox line for money that moved, without the amount. */
+function inboxLine(kind: PaymentKind, event: PaymentEntryBody["event"], method: PaymentMethod, invoiceNumber: string | null): string {
+  const on = invoiceNumber ? ` on invoice ${invoiceNumber}` : "";
+  if (kind === "refund") return `Refund${on} ${method === "online" ? "through the payments service" : `paid back ${HOW[method]}`}`;
+  if (kind === "deposit") return `Parts deposit paid ${HOW[method]}`;
+  return event === "paid_in_full" ? `Paid in full ${HOW[method]}${on}` : `Part payment ${HOW[method]}${on}`;
 }

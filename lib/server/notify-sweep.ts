@@ -17,6 +17,7 @@ import {
   sharedEntriesForMail,
   shopsWithPendingDaily,
 } from "@/db/queries/notifications";
+import { SENT_MAIL_KEEP_DAYS } from "@/db/queries/mail-log";
 import { enqueueMail } from "@/db/queries/outbox";
 import { lastDailyCutoff } from "@/lib/following";
 import { type Tx, transaction } from "@/db/transaction";
@@ -36,7 +37,7 @@ export function dailyDigestHour(): number {
 
 async function queue(tx: Tx, job: MailJob, r: Recipient, composed: Composed, kind: string, dedupeKey: string) {
   const { html, text } = await renderMail(composed.element);
-  await enqueueMail(tx, { shopId: job.shopId, kind, to: r.email, subject: composed.subject, html, text, headers: composed.headers, dedupeKey });
+  await enqueueMail(tx, { shopId: job.shopId, jobId: job.id, kind, to: r.email, subject: composed.subject, html, text, headers: composed.headers, dedupeKey });
 }
 
 /** One alert: to its one subscriber (invitations) or to everyone on the job who hasn't stopped e-mail. */
@@ -118,6 +119,6 @@ export async function sweepNotifications({ now = new Date() }: { now?: Date } = 
     }
   }
   // Now and then, forget what no digest needs any more.
-  if (Math.random() < 0.01) await pruneNotifications({ queueDays: 14, outboxDays: 30 });
+  if (Math.random() < 0.01) await pruneNotifications({ queueDays: 14, outboxDays: SENT_MAIL_KEEP_DAYS });
   return result;
 }

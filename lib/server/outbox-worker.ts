@@ -1,5 +1,8 @@
 import "server-only";
 import { type ClaimedMail, claimBatch, markFailed, markSent, releaseClaim } from "@/db/queries/outbox";
+import type { Tx } from "@/db/transaction";
+import { reportUndeliverable } from "@/lib/server/inbox";
+import { sweepInboxDigests } from "@/lib/server/inbox-digest";
 import { resend } from "@/lib/server/mail";
 import { sweepNotifications } from "@/lib/server/notify-sweep";
 
@@ -81,6 +84,9 @@ function isRetryable(o: Extract<SendOutcome, { ok: false }>): boolean {
 
 export type OutboxRun = { claimed: number; sent: number; retrying: number; dead: number; released: number };
 
+/** Given up on: the desk's inbox hears who it was for and what it was, in the same transaction. */
+const toInbox = (mail: ClaimedMail, error: string) => (tx: Tx) => reportUndeliverable(tx, { shopId: mail.shopId, jobId: mail.jobId, kind: mail.kind, to: mail.to, subject: mail.subject, error });
+
 /**
  * Claims one batch and sends it, one mail at a time (the hosted API allows a few requests a second).
  * `lane: "priority"` claims only priority mail (the worker's fast lane).
@@ -93,14 +99,16 @@ export async function runOutboxOnce(overrides: Partial<OutboxSettings> = {}, lan
     const mail = batch[i]!;
     if (mail.sendBefore && mail.sendBefore.getTime() <= Date.now()) {
       // A sign-in link past its end: sending it now would only confuse.
-      await markFailed(mail, { error: "no longer useful: its send-before time passed", retryInMs: null });
+      const why = "no longer useful: its send-before time passed";
+      await markFailed(mail, { error: why, retryInMs: null }, toInbox(mail, why));
       run.dead++;
       continue;
     }
     // Mail with a send-before time is retried until then; the rest a fixed number of times.
     if (!mail.sendBefore && mail.attempts > s.maxAttempts) {
       // Claimed again and again with no outcome recorded: whatever stops its worker, stop here.
-      await markFailed(mail, { error: `no outcome recorded after ${mail.attempts - 1} claims`, retryInMs: null });
+      const why = `no outcome recorded after ${mail.attempts - 1} claims`;
+      await markFailed(mail, { error: why, retryInMs: null }, toInbox(mail, why));
       run.dead++;
       continue;
     }
@@ -114,7 +122,7 @@ export async function runOutboxOnce(overrides: Partial<OutboxSettings> = {}, lan
     const backoff = mail.priority > 0 ? { backoffBaseMs: s.priorityBackoffBaseMs, backoffMaxMs: s.priorityBackoffMaxMs } : s;
     const wait = Math.max(backoffMs(mail.attempts, backoff), outcome.retryAfterMs ?? 0);
     const retry = isRetryable(outcome) && (mail.sendBefore ? Date.now() + wait < mail.sendBefore.getTime() : mail.attempts < s.maxAttempts);
-    await markFailed(mail, { error, retryInMs: retry ? wait : null });
+    await markFailed(mail, { error, retryInMs: retry ? wait : null }, toInbox(mail, error));
     if (retry) run.retrying++;
     else run.dead++;
     if (outcome.status === 429) {
@@ -130,9 +138,11 @@ export async function runOutboxOnce(overrides: Partial<OutboxSettings> = {}, lan
 
 export type OutboxWorker = { stop(): Promise<void> };
 
+const INBOX_DIGEST_EVERY_MS = 60_000;
+
 /**
- * Every `intervalMs`: turn due notifications into mail (notify-sweep.ts), then send until the
- * outbox has nothing due. Beside it, a fast lane every `priorityIntervalMs` (OUTBOX_PRIORITY_POLL_MS,
+ * Every `intervalMs`: turn due notifications into mail (notify-sweep.ts) and, once a minute, the
+ * staff's inbox digests (inbox-digest.ts), then send until the outbox has nothing due. Beside it, a fast lane every `priorityIntervalMs` (OUTBOX_PRIORITY_POLL_MS,
  * default 500 ms) sends priority mail only, so a sign-in link never waits for a slow poll or
  * behind a long batch of digests. Errors are logged and the loops go on; stop() waits for both.
  */
@@ -144,6 +154,7 @@ export function startOutboxWorker({
   priorityIntervalMs?: number;
 }): OutboxWorker {
   let stopped = false;
+  let inboxSweptAt = 0;
   const wakers = new Set<() => void>();
   const drain = async (lane: "all" | "priority") => {
     const { batchSize } = outboxSettings();
@@ -171,6 +182,11 @@ export function startOutboxWorker({
   const loops = [
     repeat(intervalMs, "mail", async () => {
       await sweepNotifications();
+      // The staff's morning inbox digests: a minute's precision is plenty for a daily mail.
+      if (Date.now() - inboxSweptAt >= INBOX_DIGEST_EVERY_MS) {
+        inboxSweptAt = Date.now();
+        await sweepInboxDigests().catch((error: unknown) => console.error("outbox: inbox digest round failed", error));
+      }
       await drain("all");
     }),
     repeat(priorityIntervalMs, "priority mail", () => drain("priority")),

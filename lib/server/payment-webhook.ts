@@ -1,11 +1,15 @@
 import "server-only";
 import type Stripe from "stripe";
+import type { z } from "zod";
 import { lockJob } from "@/db/queries/invoices";
+import { getJobByPublicId } from "@/db/queries/jobs";
 import { closeCheckout, getCheckoutBySessionId, getPaymentByProviderId, listJobPayments, recordWebhookEvent, setDepositStatus } from "@/db/queries/payments";
 import { type Tx, transaction } from "@/db/transaction";
+import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
+import { recordInboxEvent } from "@/lib/server/inbox";
 import { recordMoney } from "@/lib/server/money-moved";
 import { stripe, verifyWebhook } from "@/lib/server/payments";
-import { PAYMENT_EVENT_OBJECTS, firstIssue, paymentEventSchema } from "@/lib/schemas/webhooks";
+import { PAYMENT_EVENT_OBJECTS, firstIssue, paymentEventSchema, type paymentIntentSchema } from "@/lib/schemas/webhooks";
 
 // What the payments service tells us, applied exactly once: the event id is recorded in the same
 // transaction as its effect (a redelivery finds it and does nothing), and the provider's payment and
@@ -74,6 +78,49 @@ async function applyCheckoutExpired(tx: Tx, session: Stripe.Checkout.Session): P
   return true;
 }
 
+type FailedIntent = z.output<typeof paymentIntentSchema>;
+
+/**
+ * A payment attempt that failed (a declined card; the owner may try another): nothing about the
+ * money changes, the desk hears why. The job is the one our checkout named in the intent's metadata.
+ */
+async function applyPaymentFailed(tx: Tx, intent: FailedIntent): Promise<boolean> {
+  const publicId = intent.metadata?.job;
+  const job = publicId && JOB_PUBLIC_ID_PATTERN.test(publicId) ? await getJobByPublicId({ publicId }) : null;
+  if (!job) return false; // not one of ours
+  const error = intent.last_payment_error;
+  const reason = error?.decline_code ?? error?.code ?? null;
+  await recordInboxEvent(tx, {
+    shopId: job.shopId,
+    jobId: job.id,
+    kind: "payment_failed",
+    actorUserId: null,
+    summary: `Online payment didn't go through: ${error?.message ?? "the payment was not completed."}`,
+    detail: reason ? `Reason given by the payments service: ${reason}` : null,
+    amountMinor: intent.amount,
+    currency: intent.currency.toUpperCase(),
+    extra: { intent: intent.id, reason },
+  });
+  return true;
+}
+
+/** A delayed payment method (a bank debit) that failed after checkout: the desk hears of it. */
+async function applyAsyncPaymentFailed(tx: Tx, session: Stripe.Checkout.Session): Promise<boolean> {
+  const checkout = await getCheckoutBySessionId({ sessionId: session.id }, tx);
+  if (!checkout) return false;
+  await recordInboxEvent(tx, {
+    shopId: checkout.shopId,
+    jobId: checkout.jobId,
+    kind: "payment_failed",
+    actorUserId: null,
+    summary: "Online payment didn't go through: the bank turned it down after checkout.",
+    amountMinor: session.amount_total ?? checkout.amountMinor,
+    currency: (session.currency ?? checkout.currency).toUpperCase(),
+    extra: { session: session.id },
+  });
+  return true;
+}
+
 export type WebhookAnswer = { received: true; duplicate: boolean; applied: boolean; ignored?: string };
 
 /**
@@ -97,6 +144,8 @@ export async function receivePaymentWebhook(rawBody: string, signature: string |
     if (event.type === "checkout.session.completed" || event.type === "checkout.session.async_payment_succeeded") applied = await applyCheckoutCompleted(tx, data as Stripe.Checkout.Session);
     else if (event.type === "checkout.session.expired") applied = await applyCheckoutExpired(tx, data as Stripe.Checkout.Session);
     else if (event.type === "charge.refunded") applied = await applyChargeRefunded(tx, data as Stripe.Charge);
+    else if (event.type === "payment_intent.payment_failed") applied = await applyPaymentFailed(tx, data as FailedIntent);
+    else if (event.type === "checkout.session.async_payment_failed") applied = await applyAsyncPaymentFailed(tx, data as Stripe.Checkout.Session);
     return { received: true, duplicate: false, applied };
   });
 }

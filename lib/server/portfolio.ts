@@ -18,7 +18,9 @@ import { AppError } from "@/lib/errors";
 import { describeMachine } from "@/lib/machine";
 import type { Actor } from "@/lib/permissions";
 import { CONSENT_FROM, CONSENT_TO, type ConsentDecision, PUBLISHABLE_FROM, type StoryStatus, isReservedSlug, slugify } from "@/lib/portfolio";
+import type { InboxKind } from "@/lib/shop-events";
 import { appUrl } from "@/lib/server/config";
+import { recordInboxEvent } from "@/lib/server/inbox";
 import { transaction } from "@/db/transaction";
 import { renderConsentMail } from "@/lib/server/emails/portfolio-consent";
 import { curationProblems } from "@/lib/server/portfolio-curation";
@@ -78,7 +80,7 @@ async function queueConsentMail(
   m: { shopId: number; shopName: string; to: string; ownerName: string; machine: string; jobPublicId: string; storyId: number },
 ) {
   const mail = await renderConsentMail({ shopName: m.shopName, ownerName: m.ownerName, machine: m.machine, answerUrl: `${appUrl()}${consentPath(m.jobPublicId)}` });
-  await enqueueMail(tx, { shopId: m.shopId, kind: "portfolio-consent", to: m.to, ...mail, dedupeKey: `portfolio-consent:${m.storyId}` });
+  await enqueueMail(tx, { shopId: m.shopId, jobPublicId: m.jobPublicId, kind: "portfolio-consent", to: m.to, ...mail, dedupeKey: `portfolio-consent:${m.storyId}` });
 }
 
 /** A story proposed while the owner had no e-mail on file: ask now that there is one. */
@@ -126,9 +128,24 @@ export async function decideConsent(
     if (!CONSENT_FROM[input.decision].includes(locked.status)) throw new AppError("conflict", CONSENT_REFUSALS[locked.status] ?? "That answer doesn't apply now; reload the page.");
     await insertConsent(tx, { shopId: story.shopId, storyId: story.id, userId: actor.userId, name, decision: input.decision, ip: meta.ip, userAgent: meta.userAgent });
     await moveStory({ shopId: story.shopId, storyId: story.id, from: [locked.status], to }, tx);
+    await recordInboxEvent(tx, {
+      shopId: story.shopId,
+      jobId: story.jobId,
+      kind: CONSENT_INBOX_KIND[input.decision],
+      actorUserId: actor.userId,
+      summary: `${name} ${CONSENT_INBOX_WORDS[input.decision]} "${story.title}"`,
+      extra: { story: story.id, name },
+    });
   });
   return { story, status: to };
 }
+
+const CONSENT_INBOX_KIND = { given: "consent_given", refused: "consent_refused", withdrawn: "consent_withdrawn" } as const satisfies Record<ConsentDecision, InboxKind>;
+const CONSENT_INBOX_WORDS: Record<ConsentDecision, string> = {
+  given: "agreed to the public story",
+  refused: "said no to the public story",
+  withdrawn: "withdrew consent for the public story",
+};
 
 const PUBLISH_REFUSALS: Partial<Record<StoryStatus, string>> = {
   proposed: "The owner hasn't been asked yet: nothing is published without their consent.",

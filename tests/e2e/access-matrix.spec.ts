@@ -62,8 +62,13 @@ const TARGETS: { name: string; path: () => string; expect: Record<Visitor, Outco
   { name: "check-in page", path: () => "/shop/copper-gulch/jobs/new", expect: STAFF_OF_THE_SHOP },
   { name: "bench tools page", path: () => "/shop/copper-gulch/jobs/5/bench", expect: STAFF_OF_THE_SHOP },
   { name: "shop spec library page", path: () => "/shop/copper-gulch/specs", expect: STAFF_OF_THE_SHOP },
+  // The desk inbox and each person's e-mail settings for it: everyone on the shop's staff.
+  { name: "shop inbox page", path: () => "/shop/copper-gulch/inbox", expect: STAFF_OF_THE_SHOP },
+  { name: "inbox e-mail settings page", path: () => "/shop/copper-gulch/inbox/settings", expect: STAFF_OF_THE_SHOP },
   // Failed mail of the shop: the desk (owner, service writer) only.
   { name: "shop outbox page", path: () => "/shop/copper-gulch/outbox", expect: { ...STAFF_OF_THE_SHOP, technician: "403" } },
+  // One job's sent log: the same people as the failed-mail page.
+  { name: "job mail log page", path: () => "/shop/copper-gulch/jobs/5/mail", expect: { ...STAFF_OF_THE_SHOP, technician: "403" } },
   { name: "draft a finding page", path: () => "/shop/copper-gulch/jobs/5/findings/new", expect: STAFF_OF_THE_SHOP },
   { name: "finding page", path: () => `/shop/copper-gulch/jobs/5/findings/${demoFinding}`, expect: STAFF_OF_THE_SHOP },
   { name: "owner's approval request page", path: () => `${customerJobPath}/approvals/${demoRequest}`, expect: READS_THE_REQUEST },

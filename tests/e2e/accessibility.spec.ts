@@ -1,5 +1,6 @@
 import AxeBuilder from "@axe-core/playwright";
 import { type Page, expect, test } from "@playwright/test";
+import { sql } from "./db";
 import { type Persona, storageStatePath } from "./personas";
 
 // WCAG 2.2 AA (W3C Recommendation, 2023) through axe-core's rule tags; target-size (2.5.8)
@@ -24,10 +25,32 @@ const SCREENS: { name: string; path: string; as?: Persona }[] = [
   { name: "finding with a request out", path: "/shop/copper-gulch/jobs/5/findings/1", as: "writer" },
   { name: "owner's machines", path: "/my", as: "jobCustomer" },
   { name: "shop outbox", path: "/shop/copper-gulch/outbox", as: "writer" },
+  { name: "desk inbox", path: "/shop/copper-gulch/inbox", as: "writer" },
+  { name: "desk inbox (technician, no amounts)", path: "/shop/copper-gulch/inbox", as: "technician" },
+  { name: "inbox e-mail settings", path: "/shop/copper-gulch/inbox/settings", as: "technician" },
+  { name: "job mail log", path: "/shop/copper-gulch/jobs/5/mail", as: "writer" },
   { name: "shop's public page", path: "/s/copper-gulch" },
   { name: "portfolio list", path: "/shop/copper-gulch/portfolio", as: "writer" },
   { name: "shop profile editor", path: "/shop/copper-gulch/portfolio/profile", as: "owner" },
 ];
+
+// The seed queues no mail: give J-0005's sent log (and the failed-mail page) one sent and one
+// failed e-mail to show, in states the worker leaves alone, and take them away afterwards.
+const MAIL_KEY = "e2e-accessibility-mail-log";
+test.beforeAll(async () => {
+  const [job] = await sql("SELECT j.id, j.shop_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5");
+  const row = (n: number, state: "sent" | "dead") => [job!.shop_id, job!.id, job!.shop_id, `${MAIL_KEY}:${n}`, "progress", '"Copper Gulch" <no-reply@benchside.test>', "a.very.long.address.for.reflow@mail.test", "Two updates on your machine", "<p>x</p>", "x", crypto.randomUUID(), state, state === "sent" ? 1 : 5, state === "sent" ? "re_e2e_provider_id_0123456789" : null, state === "dead" ? "The mail service refused the address" : null];
+  await sql("DELETE FROM outbox WHERE dedupe_key LIKE ?", [`${MAIL_KEY}:%`]);
+  for (const [n, state] of [[1, "sent"], [2, "dead"]] as const) {
+    await sql(
+      "INSERT INTO outbox (shop_id, job_id, dedupe_scope, dedupe_key, kind, from_address, to_email, subject, html, text, idempotency_key, state, attempts, provider_id, last_error, sent_at) VALUES (?,?,?,?,?,?,?,?,?,?,?,?,?,?,?, IF(? = 'sent', NOW(3), NULL))",
+      [...row(n, state), state],
+    );
+  }
+});
+test.afterAll(async () => {
+  await sql("DELETE FROM outbox WHERE dedupe_key LIKE ?", [`${MAIL_KEY}:%`]);
+});
 
 for (const colorScheme of ["light", "dark"] as const) {
   test.describe(`${colorScheme} mode`, () => {
@@ -43,13 +66,15 @@ for (const colorScheme of ["light", "dark"] as const) {
       });
     }
 
-    test("phone width: job board cards and sign-in reflow without sideways scrolling", async ({ browser }) => {
+    test("phone width: job board cards, a job's sent log and sign-in reflow without sideways scrolling", async ({ browser }) => {
       // WCAG 2.2 SC 1.4.10 Reflow: content at 320 CSS px wide without two-way scrolling.
       const context = await browser.newContext({ viewport: { width: 320, height: 640 }, colorScheme, storageState: storageStatePath("owner") });
       const page = await context.newPage();
-      for (const path of ["/shop/copper-gulch", "/sign-in"]) {
+      for (const path of ["/shop/copper-gulch", "/shop/copper-gulch/jobs/5/mail", "/sign-in"]) {
         await page.goto(path);
         await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
+        // The sent log shows one card per message on a phone, not its table.
+        if (path.endsWith("/mail")) expect(await page.getByTestId("message-card").count()).toBeGreaterThanOrEqual(2);
         const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
         expect(overflow, path).toBeLessThanOrEqual(0);
       }

@@ -45,6 +45,7 @@ const PAGES: { path: () => string; as?: Persona; capture?: true }[] = [
   { path: () => "/shop/copper-gulch/jobs/new", as: "technician" },
   { path: () => "/shop/copper-gulch/specs", as: "owner" },
   { path: () => "/shop/copper-gulch/outbox", as: "writer" },
+  { path: () => "/shop/copper-gulch/jobs/5/mail", as: "writer" },
   { path: () => "/shop/copper-gulch/jobs/5/findings/new", as: "technician" },
   { path: () => `/shop/copper-gulch/jobs/5/findings/${demoFinding}`, as: "writer" },
   { path: () => "/shop/copper-gulch/jobs/5/invoice", as: "writer" },

@@ -187,11 +187,12 @@ describe("bench tools", () => {
     expect(await k("torque_records").where({ fastener: "Axle nut" }).count({ n: "*" }).first()).toEqual({ n: 0 });
   });
   it("the shop owner sets the bench and clip limits; a technician can't", async () => {
-    const input = { shop: shop.slug, torqueUnit: "lbf_ft" as const, passes: [30, 70, 100], chainLimitPct: 1.5, clipMaxMinutes: 5, clipMaxGb: 0.5 };
+    const input = { shop: shop.slug, torqueUnit: "lbf_ft" as const, passes: [30, 70, 100], chainLimitPct: 1.5, clipMaxMinutes: 5, clipMaxGb: 0.5, ownerWaitDays: 5 };
     // As the settings action declares it (specs/actions.ts): the shop, with shop:manage-settings.
     await expect(access(tech, "shop", shop.slug, "shop:manage-settings")).rejects.toMatchObject({ code: "forbidden" });
     await updateBenchSettings(await access(actorOf(shop, "owner"), "shop", shop.slug, "shop:manage-settings"), input);
     expect(await getClipLimits({ shopId: shop.id })).toEqual({ maxSeconds: 300, maxBytes: 512 * 1024 * 1024 });
     expect(await getBenchSettings({ shopId: shop.id })).toMatchObject({ torqueUnit: "lbf_ft", passPercents: [30, 70, 100], chainLimitPct: 1.5 });
+    expect((await k("shops").where({ id: shop.id }).first("owner_wait_days"))!.owner_wait_days).toBe(5);
   });
 });

@@ -114,4 +114,71 @@ describe("job board quick filters: overdue and waiting on parts", () => {
     expect(await numbers({ q: "gvh8-17" })).toHaveLength(8);
     expect(await numbers({ q: "GVH9" })).toEqual([]);
   });
+
+  describe("whom a job waits on, and the quick filters that follow from it", () => {
+    let own: number;
+    const at = (daysAgo: number) => new Date(Date.now() - daysAgo * 86_400_000);
+    const board = async (raw: Record<string, string>) => (await listJobs({ shopId: own, query: jobListQuerySchema.parse({ sort: "number", dir: "asc", ...raw }) })).rows;
+
+    beforeAll(async () => {
+      const shop = await makeShop(db, { label: "waits" });
+      own = shop.id;
+      await db("shops").where({ id: own }).update({ owner_wait_days: 3 });
+      // 1: waiting on the owner 5 days; 2: waiting on the owner 1 day; 3: owner answered, nothing done
+      // since; 4: owner answered, a note posted after; 5: ready, invoice issued and unpaid; 6: ready, paid.
+      const { jobIds } = await makeCustomerWithJobs(db, own, { name: "Ivo Brand", statuses: ["waiting_approval", "waiting_approval", "in_progress", "in_progress", "ready", "ready"] });
+      const change = (i: number, to: string, cause: string, when: Date) =>
+        db("job_status_changes").insert({ shop_id: own, job_id: jobIds[i]!, from_status: "inspecting", to_status: to as "ready", cause, changed_at: when });
+      await change(0, "waiting_approval", "request_sent", at(5));
+      await change(1, "waiting_approval", "request_sent", at(1));
+      await change(2, "in_progress", "request_answered", at(2));
+      await change(3, "in_progress", "request_answered", at(2));
+      await db("journal_entries").insert({ shop_id: own, job_id: jobIds[3]!, kind: "note", visibility: "shop", created_at: at(1) });
+      const invoice = (i: number, status: "issued" | "paid", balance: number) =>
+        db("invoices").insert({ shop_id: own, job_id: jobIds[i]!, public_id: `inv${i}${own}`.padEnd(16, "x").slice(0, 16), number: i + 1, status, currency: "USD", totals: "{}", balance_minor: balance });
+      await invoice(4, "issued", 5000);
+      await invoice(5, "paid", 0);
+    });
+
+    it("each row says whom it waits on and what comes next", async () => {
+      const rows = (await board({})).map((r) => toBoardRow(r));
+      expect(rows.map((r) => r.waitingOn)).toEqual(["owner", "owner", "shop", "shop", "payment", "owner"]);
+      expect(rows[4]!.next).toBe("Take payment");
+      expect(rows[2]!.answeredNotStarted).toBe(true);
+      expect(rows[3]!.answeredNotStarted).toBe(false);
+    });
+
+    it("filters: owner slow past the shop's N days, answered but not started, ready but unpaid", async () => {
+      expect((await board({ attention: "owner_slow" })).map((r) => r.number)).toEqual([1]);
+      expect((await board({ attention: "answered" })).map((r) => r.number)).toEqual([3]);
+      expect((await board({ attention: "ready_unpaid" })).map((r) => r.number)).toEqual([5]);
+      // The browser marks the same rows the server finds.
+      const all = (await board({})).map((r) => toBoardRow(r));
+      for (const flag of ["owner_slow", "answered", "ready_unpaid"] as const) {
+        expect(all.filter((r) => jobAttention(r, "2026-12-01").includes(flag)).map((r) => r.number)).toEqual((await board({ attention: flag })).map((r) => r.number));
+      }
+      await db("shops").where({ id: own }).update({ owner_wait_days: 1 });
+      expect((await board({ attention: "owner_slow" })).map((r) => r.number)).toEqual([1, 2]);
+      await db("shops").where({ id: own }).update({ owner_wait_days: 3 });
+    });
+
+    it("a page costs the same number of queries whatever its size", async () => {
+      const count = async (pageSize: string) => {
+        let n = 0;
+        const on = () => n++;
+        const k = (await import("@/db/client")).db();
+        k.on("query", on);
+        try {
+          await board({ pageSize, attention: "owner_slow,answered,ready_unpaid,overdue" });
+          await board({ pageSize });
+        } finally {
+          k.off("query", on);
+        }
+        return n;
+      };
+      expect(await count("10")).toBe(await count("100"));
+      expect(await count("10")).toBeLessThanOrEqual(4);
+    });
+  });
 });
+

@@ -105,8 +105,10 @@ describe("the job follows what happens", () => {
     expect(answered).toHaveLength(2);
     expect(answered.map((e) => Boolean(e.inbox))).toEqual([true, true]);
     const payload = (e: { payload: unknown }) => (typeof e.payload === "string" ? JSON.parse(e.payload) : e.payload);
-    expect(payload(answered[0]!)).toMatchObject({ title: "Cam chain stretched", approved: ["Cam chain", "Fit cam chain"], declined: [], method: "online", authorisedTotalMinor: 24_800 });
-    expect(payload(answered[1]!)).toMatchObject({ title: "Rear tyre worn", approved: [], declined: ["Rear tyre"], method: "phone" });
+    expect(payload(answered[0]!)).toMatchObject({ title: "Cam chain stretched", approved: ["Cam chain", "Fit cam chain"], declined: [], method: "online", amountMinor: 24_800, currency: "USD" });
+    expect(payload(answered[0]!).detail).toBe("Approved: Cam chain, Fit cam chain.");
+    expect(payload(answered[1]!)).toMatchObject({ title: "Rear tyre worn", approved: [], declined: ["Rear tyre"], method: "phone", detail: "Declined: Rear tyre." });
+    expect(payload(answered[1]!).summary).toMatch(/answered “Rear tyre worn” \(by phone\)/);
     expect((await events(job.id, "status_moved")).length).toBeGreaterThanOrEqual(2);
 
     // The part arrives: back on the bench, and the owner hears at once.

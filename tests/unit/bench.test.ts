@@ -63,7 +63,15 @@ describe("bench form schemas", () => {
   });
 
   it("checks part dates and defaults a part to needed", () => {
-    expect(partSchema.parse({ job: JOB, description: "Cam chain" })).toMatchObject({ status: "needed", qty: "1", expectedOn: null, cost: null });
-    expect(partSchema.safeParse({ job: JOB, description: "Cam chain", expectedOn: "next week" }).success).toBe(false);
+    expect(partSchema.parse({ job: JOB, description: "Cam chain", forWork: "booked" })).toMatchObject({ status: "needed", qty: "1", expectedOn: null, cost: null, forWork: { findingId: null, noOkNeeded: true } });
+    expect(partSchema.safeParse({ job: JOB, description: "Cam chain", forWork: "booked", expectedOn: "next week" }).success).toBe(false);
+  });
+
+  it("asks what work a part is for: the booked work, or a finding that must be approved first", () => {
+    expect(partSchema.parse({ job: JOB, description: "Cam chain", forWork: "finding:12" }).forWork).toEqual({ findingId: 12, noOkNeeded: false });
+    const missing = partSchema.safeParse({ job: JOB, description: "Cam chain" });
+    expect(missing.success).toBe(false);
+    expect(missing.error?.issues[0]?.message).toBe("Say what work the part is for.");
+    expect(partSchema.safeParse({ job: JOB, description: "Cam chain", forWork: "finding:abc" }).success).toBe(false);
   });
 });

@@ -47,13 +47,14 @@ export function entryViews(entries: MailEntry[], timeZone: string, now: Date): M
   const when = new Intl.DateTimeFormat("en-US", { timeZone, weekday: "short", month: "short", day: "numeric", hour: "numeric", minute: "2-digit" });
   const expires = new Date(now.getTime() + THUMB_LINK_DAYS * 24 * 60 * 60 * 1000);
   return entries.map((e) => {
-    const { label, text } = summarizeEntry({ kind: e.kind, body: e.body, caption: e.caption, photoCount: e.photoIds.length });
+    const { label, text, note } = summarizeEntry({ kind: e.kind, body: e.body, caption: e.caption, photoCount: e.photoIds.length });
     return {
       id: e.id,
       time: when.format(e.createdAt),
       author: e.author,
       label,
       text,
+      note: note ?? null,
       thumbs: e.photoIds.slice(0, THUMBS_PER_ENTRY).map((id) => `${appUrl()}/api/mail-thumbs/${mailThumbToken(id, expires)}`),
       morePhotos: Math.max(0, e.photoIds.length - THUMBS_PER_ENTRY),
     };

@@ -3,14 +3,25 @@ import { JOB_STATUS_LABEL } from "@/lib/job-status";
 import { ENTRY_KIND_LABEL, type EntryKind, isStatusBody } from "@/lib/journal";
 import type { NoteDoc } from "@/lib/rich-text/note";
 import { noteExcerpt } from "@/lib/rich-text/note-text";
+import { capNote } from "./note-cap";
 
-/** What one shared entry says in an e-mail: a short label and a line or two of text. Pure. */
-export function summarizeEntry(e: { kind: string; body: unknown; caption: string | null; photoCount: number }): { label: string; text: string | null } {
+export type EntrySummary = {
+  label: string;
+  /** A line or two; for a note, its one-line excerpt (photo alt text, previews). */
+  text: string | null;
+  /** A note's start in its structure (headings, lists, emphasis), within MAIL_NOTE_LIMITS; `cut` when some was left out. */
+  note?: { doc: NoteDoc; cut: boolean };
+};
+
+/** What one shared entry says in an e-mail: a short label and a line or two of text, or a note's blocks. Pure. */
+export function summarizeEntry(e: { kind: string; body: unknown; caption: string | null; photoCount: number }): EntrySummary {
   const label = ENTRY_KIND_LABEL[e.kind as EntryKind] ?? "Update";
   const b = e.body;
   switch (e.kind) {
-    case "note":
-      return { label, text: excerpt(b) };
+    case "note": {
+      const note = capNote(b);
+      return { label, text: excerpt(b), ...(note.doc.content?.length ? { note } : {}) };
+    }
     case "photos":
       return { label: `${e.photoCount} photo${e.photoCount === 1 ? "" : "s"}`, text: e.caption };
     case "status":

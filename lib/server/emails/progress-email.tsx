@@ -1,8 +1,20 @@
 import { Img, Link, Section, Text } from "@react-email/components";
+import type { NoteDoc } from "@/lib/rich-text/note-types";
 import { MailButton, type MailFooter, MailLayout, paragraph } from "./layout";
+import { NoteMail } from "./note-mail";
 import { mailColors as c } from "./theme";
 
-export type MailEntryView = { id: number; time: string; author: string | null; label: string; text: string | null; thumbs: string[]; morePhotos: number };
+export type MailEntryView = {
+  id: number;
+  time: string;
+  author: string | null;
+  label: string;
+  text: string | null;
+  /** A note's blocks (capped, see note-cap.ts): shown in place of `text`; `cut` adds the link to the rest. */
+  note: { doc: NoteDoc; cut: boolean } | null;
+  thumbs: string[];
+  morePhotos: number;
+};
 
 /** Several shared entries in one e-mail: the "every update" batch and the daily digest. */
 export function ProgressEmail(p: { shopName: string; heading: string; intro: string; entries: MailEntryView[]; jobUrl: string; footer: MailFooter }) {
@@ -15,7 +27,20 @@ export function ProgressEmail(p: { shopName: string; heading: string; intro: str
             {e.time}
             {e.author ? ` · ${e.author}` : ""} · <strong style={{ color: c.ink }}>{e.label}</strong>
           </Text>
-          {e.text ? <Text style={{ ...paragraph, whiteSpace: "pre-line" }}>{e.text}</Text> : null}
+          {e.note ? (
+            <>
+              <NoteMail doc={e.note.doc} />
+              {e.note.cut ? (
+                <Text style={paragraph}>
+                  <Link href={p.jobUrl} style={{ color: c.oil, textDecoration: "underline" }}>
+                    Read the rest on the job page
+                  </Link>
+                </Text>
+              ) : null}
+            </>
+          ) : e.text ? (
+            <Text style={{ ...paragraph, whiteSpace: "pre-line" }}>{e.text}</Text>
+          ) : null}
           {e.thumbs.length ? (
             // Left out of the text part, where the label already says how many photos there are.
             <Text data-skip-in-text="true" style={{ margin: "4px 0 0" }}>

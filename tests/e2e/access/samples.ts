@@ -3,6 +3,7 @@
 // where the allowed call would change shared demo data, one the handler itself turns down
 // (a stale version, a row that doesn't exist) — the wrapper has let it through by then.
 // A declaration with a body and no sample here fails the test: add one.
+import { DEFAULT_DELIVERY } from "../../../lib/shop-events";
 import type { Body } from "./client";
 import type { PersonaName } from "./expected";
 import { type Fixture, PHOTO_FILE, note } from "./fixture";
@@ -65,6 +66,7 @@ const BENCH = "app/(staff)/shop/[shop]/jobs/[number]/bench/actions.ts";
 const INVOICE = "app/(staff)/shop/[shop]/jobs/[number]/invoice/actions.ts";
 const PORTFOLIO = "app/(staff)/shop/[shop]/portfolio/actions.ts";
 const SPECS = "app/(staff)/shop/[shop]/specs/actions.ts";
+const INBOX = "app/(staff)/shop/[shop]/inbox/actions.ts";
 
 type Fields = (c: SampleContext) => Record<string, string>;
 const invoiceRef = (f: Fixture) => ({ invoice: f.invoice, version: STALE });
@@ -91,7 +93,7 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${BENCH}#setStepTorqueAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, torqueValue: "10", torqueUnit: "nm" }),
   [`${BENCH}#tickStepAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, value: "1" }),
   [`${BENCH}#markReplacedAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, value: "1" }),
-  [`${BENCH}#addPartAction`]: ({ f }) => ({ job: f.job, description: "Access test part", status: "received" }),
+  [`${BENCH}#addPartAction`]: ({ f }) => ({ job: f.job, description: "Access test part", status: "received", forWork: "booked" }),
   [`${BENCH}#changePartStatusAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, from: "needed", to: "ordered" }),
   // The job has its live invoice already; the rest name a stale version.
   [`${INVOICE}#createInvoiceAction`]: ({ f }) => ({ job: f.job }),
@@ -108,6 +110,10 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   // An owner on file that doesn't exist: nothing is checked in.
   ["app/(staff)/shop/[shop]/jobs/new/actions.ts#checkInMachine"]: ({ f }) => ({ shop: f.shop, customerMode: "existing", customerId: NO_ROW, machineMode: "existing", machineId: NO_ROW, concern: "Access test" }),
   ["app/(staff)/shop/[shop]/outbox/actions.ts#retryMailAction"]: ({ f }) => ({ shop: f.shop, id: NO_ROW }),
+  // The desk inbox: an item that doesn't exist; "mark all" up to item 0 (marks nothing); the settings as the defaults.
+  [`${INBOX}#markReadAction`]: ({ f }) => ({ shop: f.shop, item: NO_ROW }),
+  [`${INBOX}#markAllReadAction`]: ({ f }) => ({ shop: f.shop, through: "0", kind: "", job: "" }),
+  [`${INBOX}#saveInboxSettingsAction`]: ({ f }) => ({ shop: f.shop, ...DEFAULT_DELIVERY }),
   [`${PORTFOLIO}#proposeAction`]: ({ f }) => ({ shop: f.shop, job: f.job }),
   [`${PORTFOLIO}#curateAction`]: ({ f }) => ({ shop: f.shop, story: String(f.story), version: STALE, title: "Access test story", slug: f.storySlug, items: "[]" }),
   [`${PORTFOLIO}#publishAction`]: ({ f }) => ({ shop: f.shop, story: String(f.story) }),
@@ -117,6 +123,6 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${PORTFOLIO}#saveProfileAction`]: ({ f }) => ({ shop: f.shop, ...f.profile }),
   [`${SPECS}#addSpecAction`]: ({ f }) => ({ shop: f.shop, make: `Access ${f.run}`, model: "Test", kind: "note", label: "Access test", notes: "Access test note" }),
   [`${SPECS}#deleteSpecAction`]: ({ f }) => ({ shop: f.shop, spec: NO_ROW }),
-  [`${SPECS}#saveBenchSettingsAction`]: ({ f }) => ({ shop: f.shop, torqueUnit: "nm", passes: "30, 60, 100", chainLimitPct: "3", clipMaxMinutes: "10", clipMaxGb: "2" }),
+  [`${SPECS}#saveBenchSettingsAction`]: ({ f }) => ({ shop: f.shop, torqueUnit: "nm", passes: "30, 60, 100", chainLimitPct: "3", clipMaxMinutes: "10", clipMaxGb: "2", ownerWaitDays: "3" }),
   ["app/unsubscribe/[token]/actions.ts#unsubscribeAction"]: () => ({ token: "access-test" }),
 };

@@ -1,28 +1,37 @@
 import type { ReactNode } from "react";
 import { AppHeader } from "@/components/app-header";
+import { InboxBadge } from "@/components/inbox-badge";
 import { ShopNav } from "@/components/shop-nav";
+import { LiveShopUpdates } from "@/components/live-updates";
+import { latestEventId } from "@/db/queries/shop-events";
 import { can } from "@/lib/permissions";
+import { unreadCountFor } from "@/lib/server/inbox-view";
 import { shopPageAccess } from "./shop-access";
 
 export default async function ShopLayout({ children, params }: { children: ReactNode; params: Promise<{ shop: string }> }) {
   const { shop: slug } = await params;
-  const { actor, shop } = await shopPageAccess(slug, "shop:view-board", `/shop/${slug}`);
+  const found = await shopPageAccess(slug, "shop:view-board", `/shop/${slug}`);
+  const { actor, shop } = found;
+  const unread = await unreadCountFor(actor, found);
   const here = { shopId: shop.id };
   const base = `/shop/${shop.slug}`;
   const links = [
     { href: base, label: "Jobs" },
+    { href: `${base}/inbox`, label: "Inbox", badge: <InboxBadge shopSlug={shop.slug} initial={unread} /> },
     ...(can(actor, "job:check-in", here) ? [{ href: `${base}/jobs/new`, label: "Check in" }] : []),
     { href: `${base}/specs`, label: "Shop specs" },
     ...(can(actor, "portfolio:curate", here) ? [{ href: `${base}/portfolio`, label: "Portfolio" }] : []),
     ...(can(actor, "outbox:manage", here) ? [{ href: `${base}/outbox`, label: "Outgoing mail" }] : []),
   ];
+  // Every staff page of the shop listens to the shop's live stream, once (components/live-updates.tsx).
+  const since = await latestEventId();
   return (
-    <>
+    <LiveShopUpdates shopSlug={shop.slug} since={since}>
       <AppHeader actor={actor} context={shop.name} />
       <ShopNav links={links} />
       <main id="main" tabIndex={-1} className="mx-auto max-w-6xl px-4 py-6">
         {children}
       </main>
-    </>
+    </LiveShopUpdates>
   );
 }

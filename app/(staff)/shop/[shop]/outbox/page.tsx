@@ -1,7 +1,9 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 import { CircleX, MailCheck, RotateCw } from "lucide-react";
 import { listOutboxProblems } from "@/db/queries/outbox";
 import { Badge, EmptyState, PageHeader, TBody, TD, TH, THead, TR, Table } from "@/components/ui";
+import { formatJobNumber } from "@/lib/schemas/jobs";
 import { shopPageAccess } from "../shop-access";
 import { RetryButton } from "./retry-button";
 
@@ -28,6 +30,7 @@ export default async function OutboxPage({ params }: { params: Promise<{ shop: s
             <TR>
               <TH>Queued</TH>
               <TH>To</TH>
+              <TH>Job</TH>
               <TH>Subject</TH>
               <TH>State</TH>
               <TH>Last error</TH>
@@ -41,6 +44,17 @@ export default async function OutboxPage({ params }: { params: Promise<{ shop: s
               <TR key={p.id}>
                 <TD className="whitespace-nowrap">{when.format(p.createdAt)}</TD>
                 <TD className="break-all">{p.to}</TD>
+                <TD className="whitespace-nowrap">
+                  {/* The job's sent log: everything else sent about it, to whom and when. */}
+                  {p.jobNumber != null ? (
+                    <Link href={`/shop/${shop.slug}/jobs/${p.jobNumber}/mail`} className="inline-flex min-h-tap items-center font-semibold text-oil underline underline-offset-2 hover:no-underline">
+                      {formatJobNumber(p.jobNumber)}
+                      <span className="sr-only">: mail sent about this job</span>
+                    </Link>
+                  ) : (
+                    "—"
+                  )}
+                </TD>
                 <TD>{p.subject}</TD>
                 <TD>
                   {p.state === "dead" ? (

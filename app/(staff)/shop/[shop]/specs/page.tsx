@@ -87,8 +87,8 @@ export default async function SpecsPage({ params }: { params: Promise<{ shop: st
         </Card>
       ) : null}
       {can(actor, "shop:manage-settings", { shopId: shop.id }) ? (
-        <Card as="section" title="Bench and clip settings" headingId="bench-settings">
-          <SettingsForm shopSlug={shop.slug} settings={settings} clipLimits={await getClipLimits({ shopId: shop.id })} />
+        <Card as="section" title="Bench, clip and board settings" headingId="bench-settings">
+          <SettingsForm shopSlug={shop.slug} settings={settings} clipLimits={await getClipLimits({ shopId: shop.id })} ownerWaitDays={shop.ownerWaitDays} />
         </Card>
       ) : null}
     </div>

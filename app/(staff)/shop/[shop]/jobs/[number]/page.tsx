@@ -1,4 +1,6 @@
 import type { Metadata } from "next";
+import { jobFacts } from "@/db/queries/workflow";
+import { WAITING_ON_LABEL, waitingOn } from "@/lib/job-workflow";
 import { getClipLimits } from "@/db/queries/clips";
 import { listTimeline } from "@/db/queries/journal";
 import { StatusBadge } from "@/components/status-badge";
@@ -25,6 +27,7 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
   const { actor, shop, job, resource } = await staffJobPage(slug, number, "journal:view-shop-only");
   const intake = (await searchParams).intake === "1";
   const timeline = await listTimeline({ shopId: shop.id, jobId: job.id, audience: "shop", order: "desc", limit: 50, viewerUserId: actor.userId });
+  const waits = waitingOn(job.status, await jobFacts({ shopId: shop.id, jobId: job.id }));
 
   return (
     <div className="space-y-6">
@@ -32,7 +35,7 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
         title={`${formatJobNumber(job.number)} · ${describeMachine(job.machine)}`}
         description={`${MACHINE_KIND_LABEL[job.machine.kind]} · owner ${job.customerName}`}
         back={{ href: `/shop/${shop.slug}`, label: "All jobs" }}
-        actions={<><ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/bench`} variant="secondary">Bench tools</ButtonLink>{can(actor, "invoice:view", resource) ? <ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/invoice`} variant="secondary">Invoice</ButtonLink> : null}</>}
+        actions={<><ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/bench`} variant="secondary">Bench tools</ButtonLink>{can(actor, "invoice:view", resource) ? <ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/invoice`} variant="secondary">Invoice</ButtonLink> : null}{can(actor, "outbox:manage", resource) ? <ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/mail`} variant="secondary">Mail sent</ButtonLink> : null}</>}
       />
       <div className="grid gap-4 md:grid-cols-2">
         <Card as="section" title="Where it stands" headingId="job-facts">
@@ -41,6 +44,8 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
             <dd>
               <StatusBadge status={job.status} />
             </dd>
+            <dt className="text-ink-muted">Waits on</dt>
+            <dd data-testid="staff-waits-on">{waits ? `${WAITING_ON_LABEL[waits.on]}: ${waits.next}` : "Nobody: it has been collected"}</dd>
             <dt className="text-ink-muted">Promised</dt>
             <dd>{job.promisedOn ?? "No date set"}</dd>
             <dt className="text-ink-muted">Technician</dt>

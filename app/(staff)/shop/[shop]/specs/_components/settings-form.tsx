@@ -6,7 +6,17 @@ import { TORQUE_UNITS } from "@/lib/torque";
 import { saveBenchSettingsAction } from "../actions";
 
 /** The shop's bench settings: the torque unit shown first, the pass schedule, the chain limit, clip limits. */
-export function SettingsForm({ shopSlug, settings, clipLimits }: { shopSlug: string; settings: BenchSettings; clipLimits: { maxSeconds: number; maxBytes: number } }) {
+export function SettingsForm({
+  shopSlug,
+  settings,
+  clipLimits,
+  ownerWaitDays,
+}: {
+  shopSlug: string;
+  settings: BenchSettings;
+  clipLimits: { maxSeconds: number; maxBytes: number };
+  ownerWaitDays: number;
+}) {
   const form = useBenchForm(saveBenchSettingsAction);
   const { values, fieldError } = form;
   return (
@@ -34,6 +44,9 @@ export function SettingsForm({ shopSlug, settings, clipLimits }: { shopSlug: str
         </Field>
         <Field id="settings-clip-gb" label="Largest clip (GB)" error={fieldError("clipMaxGb")}>
           <Input name="clipMaxGb" inputMode="decimal" defaultValue={values?.clipMaxGb ?? String(+(clipLimits.maxBytes / 1024 ** 3).toFixed(1))} maxLength={5} />
+        </Field>
+        <Field id="settings-owner-wait" label="Owner slow to answer after (days)" hint="The board flags a job waiting on the owner this long" error={fieldError("ownerWaitDays")}>
+          <Input name="ownerWaitDays" inputMode="numeric" defaultValue={values?.ownerWaitDays ?? String(ownerWaitDays)} maxLength={2} />
         </Field>
       </div>
       <Button type="submit" loading={form.pending}>

@@ -1,0 +1,17 @@
+import { Banknote, CreditCard, ImageOff, ImageUp, Images, type LucideIcon, MailX, MessageCircleQuestionMark, MessageSquareReply, PackageCheck, Undo2, UserPlus } from "lucide-react";
+import type { InboxKind } from "@/lib/shop-events";
+
+/** Each kind's icon beside its label (the label carries the meaning; the icon helps the eye). */
+export const KIND_ICON: Record<InboxKind, LucideIcon> = {
+  owner_answered: MessageSquareReply,
+  payment_received: Banknote,
+  payment_failed: CreditCard,
+  payment_refunded: Undo2,
+  consent_given: ImageUp,
+  consent_refused: ImageOff,
+  consent_withdrawn: Images,
+  follower_added: UserPlus,
+  mail_undeliverable: MailX,
+  parts_received: PackageCheck,
+  owner_question: MessageCircleQuestionMark,
+};
