@@ -23,6 +23,9 @@ export default async function Home() {
           <ButtonLink href="/sign-in" size="lg">
             Sign in
           </ButtonLink>
+          <ButtonLink href="/start" size="lg" variant="secondary">
+            Start your shop
+          </ButtonLink>
         </div>
       </main>
     </div>

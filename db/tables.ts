@@ -1,5 +1,6 @@
 import type { DecisionMethod, EvidenceKind, LineAnswer, LineKind, RequestStatus, SafetyCategory } from "@/lib/approvals";
 import type { PartStatus, SpecKind } from "@/lib/bench";
+import type { ContactPreference } from "@/lib/customers";
 import type { Frequency, SubscriberRole } from "@/lib/following";
 import type { InvoiceStatus, PaymentKind, PaymentMethod } from "@/lib/invoices";
 import type { JobStatus } from "@/lib/job-status";
@@ -45,6 +46,9 @@ export type ShopsTable = {
   clip_max_seconds: number;
   clip_max_bytes: number;
   owner_wait_days: number;
+  /** 16: postal address and opening hours (JSON text, lib/shop-settings.ts OpeningHours). */
+  address: string | null;
+  opening_hours: JsonText | null;
   created_at: Date;
 };
 
@@ -53,7 +57,29 @@ export type UsersTable = { id: number; email: string; name: string; password_has
 /** `deactivated_at` set: taken off the staff, history kept (13). */
 export type MembershipsTable = { id: number; shop_id: number; user_id: number; role: StaffRole; created_at: Date; deactivated_at: Date | null };
 
-export type CustomersTable = { id: number; shop_id: number; user_id: number | null; name: string; email: string | null; phone: string | null; created_at: Date };
+export type CustomersTable = {
+  id: number;
+  shop_id: number;
+  user_id: number | null;
+  name: string;
+  email: string | null;
+  phone: string | null;
+  /** How they like to be reached (migration 18); null until someone asks. */
+  contact_preference: ContactPreference | null;
+  created_at: Date;
+};
+
+/** A duplicate folded into the record kept (migration 18): the removed row's content and what moved. */
+export type CustomerMergesTable = {
+  id: number;
+  shop_id: number;
+  kept_customer_id: number;
+  removed_customer_id: number;
+  removed: JsonText;
+  moved: JsonText;
+  merged_by_user_id: number | null;
+  merged_at: Date;
+};
 
 export type MachinesTable = {
   id: number;
@@ -103,7 +129,49 @@ export type JobStatusChangesTable = {
 
 export type SignInLinksTable = { id: number; email: string; token_hash: string; expires_at: Date; used_at: Date | null; created_at: Date };
 
-export type AuthAttemptsTable = { id: number; kind: "password" | "link_request" | "link_use"; subject: string; succeeded: Flag; created_at: Date };
+export type AuthAttemptsTable = {
+  id: number;
+  /** reset_request, token_use, password_change: migration 17; signup_request, signup_use, booking_request: 20. */
+  kind: "password" | "link_request" | "link_use" | "reset_request" | "token_use" | "password_change" | "signup_request" | "signup_use" | "booking_request";
+  subject: string;
+  succeeded: Flag;
+  created_at: Date;
+};
+
+/** An e-mailed invitation to a shop's staff; only the token's hash is kept (17). */
+export type StaffInvitesTable = {
+  id: number;
+  shop_id: number;
+  email: string;
+  name: string;
+  role: StaffRole;
+  token_hash: string;
+  invited_by_user_id: number | null;
+  expires_at: Date;
+  used_at: Date | null;
+  revoked_at: Date | null;
+  created_at: Date;
+};
+
+/** A shop waiting for its owner to confirm the e-mail address (20); only the token's hash is kept. */
+export type ShopSignupsTable = {
+  id: number;
+  token_hash: string;
+  email: string;
+  owner_name: string;
+  password_hash: string;
+  shop_name: string;
+  slug: string;
+  timezone: string;
+  currency: string;
+  expires_at: Date;
+  used_at: Date | null;
+  shop_id: number | null;
+  created_at: Date;
+};
+
+/** A forgotten-password link (17). */
+export type PasswordResetsTable = { id: number; user_id: number; token_hash: string; expires_at: Date; used_at: Date | null; created_at: Date };
 
 export type UserSessionsTable = { id: string; user_id: number; method: "password" | "link"; created_at: Date; expires_at: Date; ended_at: Date | null; ended_reason: string | null };
 
@@ -330,8 +398,13 @@ export type ShopMoneySettingsTable = {
   tolerance_percent: number | string;
   tolerance_cap_minor: number | null;
   reminder_delay_hours: number;
+  /** 16: named labour rates, JSON [{name, rateMinor}]. */
+  labour_rates: JsonText | null;
   updated_at: Date;
 };
+
+/** 16: one row per saved settings section: who, when, the values before and after (JSON). */
+export type ShopSettingChangesTable = { id: number; shop_id: number; user_id: number | null; section: string; before: JsonText; after: JsonText; at: Date };
 
 export type FindingsTable = {
   id: number;
@@ -580,6 +653,8 @@ export type ShopProfilesTable = {
   show_location: Flag;
   public_email: string | null;
   public_phone: string | null;
+  /** What the shop takes in, in its own words (20). */
+  takes_in: string | null;
   updated_at: Date;
 };
 
@@ -642,12 +717,40 @@ export type InboxPreferencesTable = { user_id: number; shop_id: number; kind: st
 
 export type InboxDigestsTable = { user_id: number; shop_id: number; through_event_id: number; last_sent_on: DateText | null };
 
+/** The authorisation signed at drop-off (migration 19); the signature columns are null until signed. */
+export type DropoffAuthorisationsTable = {
+  id: number;
+  public_id: string;
+  shop_id: number;
+  job_id: number;
+  snapshot: JsonText;
+  canonical: string;
+  hash: string;
+  currency: string;
+  diagnosis_minor: number;
+  authorised_up_to_minor: number;
+  created_by_user_id: number | null;
+  created_at: Date;
+  updated_at: Date;
+  sent_to: string | null;
+  sent_at: Date | null;
+  method: "online" | "in_person" | null;
+  signature_name: string | null;
+  wants_parts_back: Flag;
+  signed_at: Date | null;
+  shown_hash: string | null;
+  ip: string | null;
+  user_agent: string | null;
+  recorded_by_user_id: number | null;
+};
+
 declare module "knex/types/tables" {
   interface Tables {
     shops: ShopsTable;
     users: UsersTable;
     memberships: MembershipsTable;
     customers: CustomersTable;
+    customer_merges: CustomerMergesTable;
     machines: MachinesTable;
     jobs: JobsTable;
     job_status_changes: JobStatusChangesTable;
@@ -657,6 +760,9 @@ declare module "knex/types/tables" {
     inbox_digests: InboxDigestsTable;
     sign_in_links: SignInLinksTable;
     auth_attempts: AuthAttemptsTable;
+    staff_invites: StaffInvitesTable;
+    password_resets: PasswordResetsTable;
+    shop_signups: ShopSignupsTable;
     user_sessions: UserSessionsTable;
     journal_entries: JournalEntriesTable;
     journal_entry_revisions: JournalEntryRevisionsTable;
@@ -673,6 +779,7 @@ declare module "knex/types/tables" {
     job_update_queue: JobUpdateQueueTable;
     job_alerts: JobAlertsTable;
     shop_money_settings: ShopMoneySettingsTable;
+    shop_setting_changes: ShopSettingChangesTable;
     findings: FindingsTable;
     finding_evidence: FindingEvidenceTable;
     finding_lines: FindingLinesTable;
@@ -693,5 +800,6 @@ declare module "knex/types/tables" {
     stories: StoriesTable;
     story_items: StoryItemsTable;
     story_consents: StoryConsentsTable;
+    dropoff_authorisations: DropoffAuthorisationsTable;
   }
 }

@@ -66,10 +66,25 @@ export type PriceInput = {
   lines: readonly InvoiceLine[];
   settings: Pick<TotalsSettings, "tax" | "supplies">;
   discount: Discount | null;
-  /** Sum of the pre-tax totals the owner authorised (approval decisions). */
+  /** Everything the owner authorised before tax: `totalAuthorisedPreTax` of the job's records. */
   authorisedPreTaxMinor: number;
   tolerance: ToleranceSetting;
 };
+
+/**
+ * What the owner authorised on a job, before tax: the "authorised up to" amount signed at drop-off
+ * (the written estimate; it already includes the diagnosis charge) plus the authorised pre-tax
+ * total of every answered approval request (the consents to added work). The invoice is compared
+ * with this sum plus the shop's tolerance (REFERENCES §6: no charge above the written estimate,
+ * as increased by later consents, without further consent; tax left out of the comparison).
+ */
+export function totalAuthorisedPreTax(dropoffUpToMinor: number | null, requestsPreTaxMinor: readonly number[]): number {
+  const all = [dropoffUpToMinor ?? 0, ...requestsPreTaxMinor];
+  if (!all.every((n) => Number.isSafeInteger(n) && n >= 0)) throw new MoneyError("Authorised amounts must be whole, non-negative minor units.");
+  const sum = all.reduce((a, b) => a + b, 0);
+  if (!Number.isSafeInteger(sum)) throw new MoneyError("The authorised total is too large.");
+  return sum;
+}
 
 /**
  * Prices an invoice. Authorised lines are always chargeable. Added lines are taken in order while

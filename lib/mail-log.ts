@@ -38,6 +38,7 @@ export const MAIL_KIND_LABEL: Record<string, string> = {
   deposit: "Deposit request",
   receipt: "Receipt",
   "portfolio-consent": "Portfolio consent request",
+  "dropoff-authorisation": "Drop-off authorisation to sign",
   inbox: "Desk inbox alert (staff)",
   "inbox-digest": "Desk inbox digest (staff)",
 };

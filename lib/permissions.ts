@@ -59,8 +59,11 @@ export const PERMISSIONS = {
   "invoice:record-payment": ["owner", "service_writer"],
   "invoice:refund": ["owner"],
   "invoice:pay": ["customer"],
+  // The shop's customers and machines: every staff role reads them; whoever may check a machine in
+  // (and so types an owner's contact details) may correct them; the desk merges duplicates.
   "customer:view": ["owner", "service_writer", "technician"],
-  "customer:edit": ["owner", "service_writer"],
+  "customer:edit": ["owner", "service_writer", "technician"],
+  "customer:merge": ["owner", "service_writer"],
   // Public portfolio: the desk proposes collected jobs and curates stories; only the shop owner
   // publishes; only the machine's owner consents (or refuses, or withdraws).
   "portfolio:propose": ["owner", "service_writer"],

@@ -143,6 +143,7 @@ export const shopProfileSchema = z.object({
   displayName: optionalLine(120, "the name"),
   about: optionalLine(2000, "the about text"),
   locationText: optionalLine(200, "the location"),
+  takesIn: optionalLine(600, "what the shop takes in"),
   showLocation: z
     .string()
     .optional()
@@ -222,6 +223,8 @@ export type PublicShop = {
   slug: string;
   name: string;
   about: string | null;
+  /** Kinds of machines and work the shop takes, in its own words. */
+  takesIn: string | null;
   logoUrl: string | null;
   location: string | null;
   email: string | null;

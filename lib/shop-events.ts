@@ -14,6 +14,7 @@ export const INBOX_KINDS = [
   "mail_undeliverable",
   "parts_received",
   "owner_question",
+  "booking_request",
 ] as const;
 
 export const LIVE_KINDS = ["entry_added", "entry_changed", "status_moved", "job_changed"] as const;
@@ -38,6 +39,7 @@ export const INBOX_KIND_LABEL: Record<InboxKind, string> = {
   mail_undeliverable: "Mail not delivered",
   parts_received: "Parts received",
   owner_question: "Question from an owner",
+  booking_request: "Booking request",
 };
 
 /** How a staff member hears of an inbox kind by e-mail. */
@@ -57,6 +59,8 @@ export const DEFAULT_DELIVERY: Record<InboxKind, Delivery> = {
   mail_undeliverable: "now",
   parts_received: "digest",
   owner_question: "now",
+  // Someone new asking for a slot: the desk answers while they still want it.
+  booking_request: "now",
 };
 
 /** One event as the stream sends it and the inbox lists it (JSON-safe). */

@@ -8,7 +8,12 @@ import type { ActionState } from "@/lib/action";
 
 type Action<T> = (prev: ActionState<T>, formData: FormData) => Promise<ActionState<T>>;
 
-export function useBenchForm<T>(action: Action<T>, { onSuccess }: { onSuccess?: (data: T) => void } = {}) {
+/**
+ * `visible`: the field names this form shows beside their inputs (lib/schemas/form-fields.ts). When
+ * given, a message for any other field (an id or version the form fills itself) goes in the banner
+ * instead of a "see the messages beside them" that points at nothing.
+ */
+export function useBenchForm<T>(action: Action<T>, { onSuccess, visible }: { onSuccess?: (data: T) => void; visible?: readonly string[] } = {}) {
   // onSuccess runs inside the action's transition (e.g. to clear controlled fields), not in an effect.
   const [state, formAction, pending] = useActionState<ActionState<T>, FormData>(async (prev, formData) => {
     const result = await action(prev, formData);
@@ -27,8 +32,14 @@ export function useBenchForm<T>(action: Action<T>, { onSuccess }: { onSuccess?: 
     values,
     fieldError: (name: string) => error?.fields?.[name]?.[0],
     /** A message that belongs to no single field (or a check that failed on the server). */
-    formError: error && !error.fields ? error.message : error?.fields && Object.keys(error.fields).length ? "Some fields need attention: see the messages beside them." : null,
+    formError: error && !error.fields ? error.message : error?.fields && Object.keys(error.fields).length ? bannerFor(error.fields, visible) : null,
   };
+}
+
+function bannerFor(fields: Record<string, string[]>, visible: readonly string[] | undefined): string {
+  const unseen = visible ? Object.entries(fields).filter(([name]) => !visible.includes(name)).map(([, messages]) => messages[0]) : [];
+  const beside = visible ? Object.keys(fields).some((name) => visible.includes(name)) : true;
+  return [...new Set(unseen), ...(beside ? ["Some fields need attention: see the messages beside them."] : [])].join(" ");
 }
 
 export function FormError({ message }: { message: string | null }) {
@@ -54,7 +65,8 @@ export function ActionButton<T>({
   /** Said once the action went through, for actions whose result shows elsewhere. */
   done?: ReactNode;
 }) {
-  const { state, formAction, pending, error } = useBenchForm(action);
+  // Every field of a one-button form is hidden: any message goes in its banner.
+  const { state, formAction, pending, formError } = useBenchForm(action, { visible: [] });
   return (
     <form action={formAction} className={className}>
       {Object.entries(fields).map(([name, value]) => (
@@ -63,7 +75,7 @@ export function ActionButton<T>({
       <Button type="submit" variant={variant} loading={pending} icon={icon}>
         {children}
       </Button>
-      {error ? <Alert tone="error" className="mt-2">{error.message}</Alert> : null}
+      {formError ? <Alert tone="error" className="mt-2">{formError}</Alert> : null}
       {state?.ok && done ? <Alert tone="success" className="mt-2">{done}</Alert> : null}
     </form>
   );

@@ -25,10 +25,14 @@ export function AuthorisationRecord({ record, timeZone, headingLevel = 2 }: { re
               {e.version > 1 ? ` (version ${e.version})` : ""}
             </p>
             <p>
-              {e.method === "online" ? `Approved online by ${e.personName}, signed “${e.signatureName ?? e.personName}”` : `${METHOD_LABEL[e.method]}: ${e.personName}${e.phoneCalled ? ` at ${e.phoneCalled}` : ""}`}
+              {e.kind === "dropoff"
+                ? `${e.method === "online" ? "Signed online" : "Signed at the counter"} by ${e.personName}`
+                : e.method === "online"
+                  ? `Approved online by ${e.personName}, signed “${e.signatureName ?? e.personName}”`
+                  : `${METHOD_LABEL[e.method]}: ${e.personName}${e.phoneCalled ? ` at ${e.phoneCalled}` : ""}`}
               {" on "}
               <time dateTime={e.decidedAt}>{formatWhen(e.decidedAt, timeZone)}</time>
-              {e.method !== "online" && e.recordedBy ? `, noted by ${e.recordedBy}` : ""}.
+              {e.method !== "online" && e.recordedBy ? `, ${e.kind === "dropoff" ? "witnessed" : "noted"} by ${e.recordedBy}` : ""}.
             </p>
             {e.approved.length ? (
               <p>
@@ -41,9 +45,9 @@ export function AuthorisationRecord({ record, timeZone, headingLevel = 2 }: { re
               </p>
             ) : null}
             <p className="text-sm text-ink-muted">
-              Authorised total {formatMoney(e.authorisedTotalMinor, e.currency)} · {e.wantsPartsBack ? "asked for the replaced parts back" : "did not ask for the parts back"} · record {e.shownHash.slice(0, 12)}
+              {e.kind === "dropoff" ? `Authorised up to ${formatMoney(e.authorisedTotalMinor, e.currency)} before tax` : `Authorised total ${formatMoney(e.authorisedTotalMinor, e.currency)}`} · {e.wantsPartsBack ? "asked for the replaced parts back" : "did not ask for the parts back"} · record {e.shownHash.slice(0, 12)}
             </p>
-            {e.note ? <p className="whitespace-pre-line text-sm">{e.note}</p> : null}
+            {e.note ? <p className="whitespace-pre-line text-sm">{e.kind === "dropoff" ? `Wording signed: ${e.note}` : e.note}</p> : null}
           </li>
         ))}
       </ol>

@@ -14,6 +14,11 @@ import * as failedClips from "./20261203_12_failed_clips";
 import * as membershipDeactivation from "./20261204_13_membership_deactivation";
 import * as workflowInbox from "./20261204_14_workflow_inbox";
 import * as outboxJob from "./20261204_15_outbox_job";
+import * as shopSettings from "./20261204_16_shop_settings";
+import * as staffInvites from "./20261204_17_staff_invites";
+import * as customerContact from "./20261204_18_customer_contact";
+import * as dropoffAuthorisation from "./20261204_19_dropoff_authorisation";
+import * as shopSignup from "./20261204_20_shop_signup";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -35,6 +40,11 @@ const MIGRATIONS: Migration[] = [
   { name: "20261204_13_membership_deactivation", module: membershipDeactivation },
   { name: "20261204_14_workflow_inbox", module: workflowInbox },
   { name: "20261204_15_outbox_job", module: outboxJob },
+  { name: "20261204_16_shop_settings", module: shopSettings },
+  { name: "20261204_17_staff_invites", module: staffInvites },
+  { name: "20261204_18_customer_contact", module: customerContact },
+  { name: "20261204_19_dropoff_authorisation", module: dropoffAuthorisation },
+  { name: "20261204_20_shop_signup", module: shopSignup },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

@@ -24,9 +24,9 @@ export async function getBenchSettings({ shopId }: { shopId: number }, k: Knex =
   return { torqueUnit: row.torque_unit, passPercents: json(row.pass_percents) as number[], chainLimitPct: Number(row.chain_limit_pct) };
 }
 
-export async function saveBenchSettings({ shopId, settings }: { shopId: number; settings: BenchSettings }): Promise<void> {
-  const row = { torque_unit: settings.torqueUnit, pass_percents: JSON.stringify(settings.passPercents), chain_limit_pct: settings.chainLimitPct, updated_at: db().fn.now() };
-  await db()("shop_bench_settings").insert({ shop_id: shopId, ...row }).onConflict("shop_id").merge(row);
+export async function saveBenchSettings({ shopId, settings }: { shopId: number; settings: BenchSettings }, k: Knex = db()): Promise<void> {
+  const row = { torque_unit: settings.torqueUnit, pass_percents: JSON.stringify(settings.passPercents), chain_limit_pct: settings.chainLimitPct, updated_at: k.fn.now() };
+  await k("shop_bench_settings").insert({ shop_id: shopId, ...row }).onConflict("shop_id").merge(row);
 }
 
 /**

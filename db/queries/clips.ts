@@ -9,14 +9,14 @@ import { type EntryVisibility, MONEY_ENTRY_KINDS, type TimelineClip } from "@/li
 import type { VideoEventBody } from "@/lib/schemas/webhooks";
 import { insertEntry, newPhotoPublicId } from "./entries";
 
-export async function getClipLimits({ shopId }: { shopId: number }) {
+export async function getClipLimits({ shopId }: { shopId: number }, k: Knex = db()) {
   // Callers come through a job of the shop, so the row is there.
-  const row = (await db()("shops").where({ id: shopId }).first("clip_max_seconds", "clip_max_bytes"))!;
+  const row = (await k("shops").where({ id: shopId }).first("clip_max_seconds", "clip_max_bytes"))!;
   return { maxSeconds: Number(row.clip_max_seconds), maxBytes: Number(row.clip_max_bytes) };
 }
 
-export async function saveClipLimits({ shopId, maxSeconds, maxBytes }: { shopId: number; maxSeconds: number; maxBytes: number }) {
-  await db()("shops").where({ id: shopId }).update({ clip_max_seconds: maxSeconds, clip_max_bytes: maxBytes });
+export async function saveClipLimits({ shopId, maxSeconds, maxBytes }: { shopId: number; maxSeconds: number; maxBytes: number }, k: Knex = db()) {
+  await k("shops").where({ id: shopId }).update({ clip_max_seconds: maxSeconds, clip_max_bytes: maxBytes });
 }
 
 /**

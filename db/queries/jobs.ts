@@ -22,12 +22,13 @@ export type JobRow = {
   customerId: number;
   customerName: string;
   customerUserId: number | null;
+  machineId: number;
   machine: { kind: MachineKind; year: number | null; make: string; model: string; serial: string | null };
   technician: { id: number; name: string } | null;
 };
 
 /** A row of JOB_COLUMNS: the job with its customer, machine and technician (left-joined). */
-type JobJoin = Pick<JobsTable, "id" | "shop_id" | "number" | "public_id" | "status" | "concern" | "intake_notes" | "promised_on" | "created_at" | "updated_at" | "customer_id" | "technician_user_id"> & {
+type JobJoin = Pick<JobsTable, "id" | "shop_id" | "number" | "public_id" | "status" | "concern" | "intake_notes" | "promised_on" | "created_at" | "updated_at" | "customer_id" | "machine_id" | "technician_user_id"> & {
   customer_name: CustomersTable["name"];
   customer_user_id: CustomersTable["user_id"];
   machine_kind: MachinesTable["kind"];
@@ -53,6 +54,7 @@ const JOB_COLUMNS = [
   "j.customer_id",
   "c.name as customer_name",
   "c.user_id as customer_user_id",
+  "j.machine_id",
   "m.kind as machine_kind",
   "m.year as machine_year",
   "m.make as machine_make",
@@ -77,6 +79,7 @@ function toJob(r: JobJoin): JobRow {
     customerId: Number(r.customer_id),
     customerName: String(r.customer_name),
     customerUserId: r.customer_user_id == null ? null : Number(r.customer_user_id),
+    machineId: Number(r.machine_id),
     machine: {
       kind: r.machine_kind,
       year: r.machine_year == null ? null : Number(r.machine_year),

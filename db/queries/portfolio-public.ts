@@ -52,17 +52,18 @@ export type PublicShopRow = {
   showLocation: boolean;
   publicEmail: string | null;
   publicPhone: string | null;
+  takesIn: string | null;
   hasProfile: boolean;
 };
 
 /** A shop and its public profile (the profile's fields null when it has none), by address or id. */
 export async function getPublicShop(by: { shopSlug: string } | { shopId: number }, k: Knex = db()): Promise<PublicShopRow | null> {
   type Row = Pick<ShopsTable, "id" | "slug" | "name"> &
-    Nullable<Pick<ShopProfilesTable, "display_name" | "about" | "logo_key" | "location_text" | "show_location" | "public_email" | "public_phone">> & { profile_shop: number | null };
+    Nullable<Pick<ShopProfilesTable, "display_name" | "about" | "logo_key" | "location_text" | "show_location" | "public_email" | "public_phone" | "takes_in">> & { profile_shop: number | null };
   const r: Row | undefined = await k("shops as s")
     .leftJoin("shop_profiles as p", "p.shop_id", "s.id")
     .where("shopSlug" in by ? { "s.slug": by.shopSlug } : { "s.id": by.shopId })
-    .first("s.id", "s.slug", "s.name", "p.shop_id as profile_shop", "p.display_name", "p.about", "p.logo_key", "p.location_text", "p.show_location", "p.public_email", "p.public_phone");
+    .first("s.id", "s.slug", "s.name", "p.shop_id as profile_shop", "p.display_name", "p.about", "p.logo_key", "p.location_text", "p.show_location", "p.public_email", "p.public_phone", "p.takes_in");
   if (!r) return null;
   return {
     id: Number(r.id),
@@ -75,6 +76,7 @@ export async function getPublicShop(by: { shopSlug: string } | { shopId: number 
     showLocation: Boolean(r.show_location),
     publicEmail: r.public_email ?? null,
     publicPhone: r.public_phone ?? null,
+    takesIn: r.takes_in ?? null,
     hasProfile: r.profile_shop != null,
   };
 }

@@ -249,6 +249,7 @@ export type ProfileChange = {
   displayName: string | null;
   about: string | null;
   locationText: string | null;
+  takesIn: string | null;
   showLocation: boolean;
   publicEmail: string | null;
   publicPhone: string | null;
@@ -263,6 +264,7 @@ export async function saveShopProfile(p: ProfileChange): Promise<string | null> 
       display_name: p.displayName,
       about: p.about,
       location_text: p.locationText,
+      takes_in: p.takesIn,
       show_location: p.showLocation,
       public_email: p.publicEmail,
       public_phone: p.publicPhone,

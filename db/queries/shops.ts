@@ -13,8 +13,8 @@ export async function getShopBySlug({ slug }: { slug: string }): Promise<ShopRow
 }
 
 /** After how many days waiting on the owner the board flags a job. */
-export async function saveOwnerWaitDays({ shopId, days }: { shopId: number; days: number }): Promise<void> {
-  await db()("shops").where({ id: shopId }).update({ owner_wait_days: days });
+export async function saveOwnerWaitDays({ shopId, days }: { shopId: number; days: number }, k: Knex = db()): Promise<void> {
+  await k("shops").where({ id: shopId }).update({ owner_wait_days: days });
 }
 
 /** The shop's currency code; "USD" for a shop that isn't there (callers reach it through a job of the shop). */

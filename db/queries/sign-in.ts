@@ -2,7 +2,7 @@ import "server-only";
 import type { Knex } from "knex";
 import { db } from "@/db/client";
 
-export type AttemptKind = "password" | "link_request" | "link_use";
+export type AttemptKind = "password" | "link_request" | "link_use" | "reset_request" | "token_use" | "password_change" | "signup_request" | "signup_use" | "booking_request";
 
 /**
  * Records an attempt first and counts after, so of any number of simultaneous attempts at

@@ -8,6 +8,7 @@ const PROFILES: Record<string, Record<string, unknown>> = {
     display_name: "Copper Gulch Powersports",
     about:
       "A two-bay shop for ATVs, side-by-sides, dirt bikes and sleds. We film and photograph the work as we go, so you see what came apart, what we found and how it went back together.",
+    takes_in: "ATVs, side-by-sides, dirt bikes and snowmobiles. Engine, clutch, brake, suspension and electrical work; no bodywork or paint.",
     location_text: "Copper Gulch, off the old mill road",
     show_location: true,
     public_email: "desk@coppergulch.test",

@@ -120,7 +120,9 @@ export type PartInput = z.output<typeof partSchema>;
 
 export const partStatusSchema = jobRef.extend({ part: recordId("part"), from: partStatus, to: partStatus, expectedOn: isoDate });
 
-export const shopRef = z.object({ shop: z.string().trim().min(1).max(60) });
+// The shop's hidden field: a message only a tampered or stale page can get, said in the banner.
+const noShop = "This page names no shop of yours: reload it and try again.";
+export const shopRef = z.object({ shop: z.string({ error: noShop }).trim().min(1, noShop).max(60, noShop) });
 
 export const specSchema = shopRef
   .extend({

@@ -33,14 +33,16 @@ const recordId = (message: string) => z.string().trim().regex(/^\d{1,10}$/, mess
 export const LATEST_MODEL_YEAR = new Date().getUTCFullYear() + 1;
 const yearMessage = `Year is four digits, from 1900 to ${LATEST_MODEL_YEAR}`;
 
-const email = z
+/** An e-mail as typed at the desk (also the customer page's contact form). */
+export const email = z
   .string()
   .trim()
   .toLowerCase()
   .max(254, "That e-mail address is too long")
   .pipe(z.email({ error: "That doesn't look like an e-mail address" }));
 
-const phone = text(40, "A phone number is at most 40 characters").regex(
+/** A phone number as typed at the desk (also the customer page's contact form). */
+export const phone = text(40, "A phone number is at most 40 characters").regex(
   /^\+?[\d\s().-]*\d[\d\s().-]*$/,
   "Use digits, spaces, brackets, dashes and a leading + only",
 );

@@ -14,7 +14,7 @@ const optional = (max: number, what: string) =>
     .transform((s) => (s ? s : null));
 const typed = z.string().trim().max(20, "That number is too long.");
 const checkbox = z
-  .union([z.literal("on"), z.literal("true"), z.literal("false"), z.literal("")])
+  .union([z.literal("on"), z.literal("true"), z.literal("false"), z.literal("")], { error: "Tick the box or leave it empty." })
   .optional()
   .transform((v) => v === "on" || v === "true");
 
@@ -22,7 +22,7 @@ export const jobRefSchema = z.object({ job: publicId("job") });
 export const invoiceRefSchema = z.object({
   invoice: publicId("invoice"),
   /** The version on the sender's screen: a change made meanwhile by someone else is refused, not overwritten. */
-  version: z.coerce.number().int().positive("Reload the invoice and try again."),
+  version: z.coerce.number({ error: "Reload the invoice and try again." }).int("Reload the invoice and try again.").positive("Reload the invoice and try again."),
 });
 
 export const addLineSchema = invoiceRefSchema.extend({
@@ -38,7 +38,7 @@ export const addLineSchema = invoiceRefSchema.extend({
 });
 export type AddLineInput = z.output<typeof addLineSchema>;
 
-export const removeLineSchema = invoiceRefSchema.extend({ line: z.coerce.number().int().positive("No such line.") });
+export const removeLineSchema = invoiceRefSchema.extend({ line: z.coerce.number({ error: "No such line: reload the invoice." }).int("No such line: reload the invoice.").positive("No such line: reload the invoice.") });
 
 export const draftDetailsSchema = invoiceRefSchema.extend({
   discountKind: z.enum(["none", "amount", "percent"], { message: "Choose no discount, an amount or a percent." }).default("none"),

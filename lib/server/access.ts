@@ -2,10 +2,12 @@ import "server-only";
 import { z } from "zod";
 import { getRequestByPublicId } from "@/db/queries/approvals";
 import { getClipAccess } from "@/db/queries/clips";
+import { getCustomer } from "@/db/queries/customers";
 import { followerUserIds } from "@/db/queries/following";
 import { getInvoiceByPublicId } from "@/db/queries/invoices";
 import { getJobById, getJobByPublicId, getJobByNumber } from "@/db/queries/jobs";
 import { getPhotoAccess } from "@/db/queries/journal";
+import { getMachine } from "@/db/queries/machines";
 import { getDepositByPublicId } from "@/db/queries/payments";
 import { getStory } from "@/db/queries/portfolio";
 import { getShopBySlug } from "@/db/queries/shops";
@@ -15,6 +17,7 @@ import { AppError } from "@/lib/errors";
 import { type Action, type Actor, type MediaViewer, PERMISSIONS, type Resource, can, mayViewMedia, rolesFor } from "@/lib/permissions";
 import { SHOP_SLUG_PATTERN, STORY_SLUG_PATTERN } from "@/lib/portfolio";
 import { REQUEST_PUBLIC_ID_PATTERN } from "@/lib/schemas/approvals";
+import { recordIdParam } from "@/lib/schemas/customers";
 
 // The one place that turns an id from a path or a form into a row and decides who may touch it.
 // Route handlers and server actions name a resolver and a permission in their declaration
@@ -37,6 +40,8 @@ export const ids = {
   /** A row number (entry, finding, step…): positive, at most 15 digits. */
   row: z.string().regex(/^[1-9]\d{0,14}$/, "No such item.").transform(Number),
   jobNumber: z.string().regex(/^[1-9]\d{0,8}$/, "No such job.").transform(Number),
+  /** A customer or machine id (INT UNSIGNED): positive, at most 10 digits. */
+  record: recordIdParam.transform(Number),
 };
 
 type Job = NonNullable<Awaited<ReturnType<typeof getJobByPublicId>>>;
@@ -130,6 +135,28 @@ export const RESOLVERS = {
       const story = id ? await getStory({ shopId: shop.shop.id, storyId: id }) : null;
       if (!story) throw hidden("story");
       return { ...shop, story };
+    },
+  }),
+  /** A customer of the shop named beside it (`shop` field), for that shop's staff; another shop's id is a 404. */
+  customer: resolver({
+    field: "customer",
+    load: async (actor, customerId, from) => {
+      const shop = await shopAccess(actor, String(from.shop ?? ""));
+      const id = ids.record.safeParse(customerId).data;
+      const customer = id ? await getCustomer({ shopId: shop.shop.id, customerId: id }) : null;
+      if (!customer) throw hidden("customer");
+      return { ...shop, customer };
+    },
+  }),
+  /** A machine of the shop named beside it (`shop` field), for that shop's staff; another shop's id is a 404. */
+  machine: resolver({
+    field: "machine",
+    load: async (actor, machineId, from) => {
+      const shop = await shopAccess(actor, String(from.shop ?? ""));
+      const id = ids.record.safeParse(machineId).data;
+      const machine = id ? await getMachine({ shopId: shop.shop.id, machineId: id }) : null;
+      if (!machine) throw hidden("machine");
+      return { ...shop, machine };
     },
   }),
   /** The job's money (invoice, deposits, payments). */

@@ -1,14 +1,20 @@
 import "server-only";
 import type { Tx } from "@/db/transaction";
 import { listDecisions, listRequests } from "@/db/queries/approvals";
+import { type DropoffRow, getDropoff } from "@/db/queries/dropoff";
 import type { DecisionMethod } from "@/lib/approvals";
-import type { InvoiceLine } from "@/lib/invoices";
+import { diagnosisLine } from "@/lib/dropoff";
+import { type InvoiceLine, totalAuthorisedPreTax } from "@/lib/invoices";
 
 // What the owner authorised on a job, read from the approval records: the approved lines with
 // their prices as shown (the frozen snapshots), the authorised pre-tax total, and the record of who
-// approved what, when and how, which the invoice prints.
+// approved what, when and how, which the invoice prints. The signed drop-off authorisation
+// (lib/server/dropoff.ts) counts too: its diagnosis charge is an authorised line, its "authorised
+// up to" amount is part of what the owner authorised, and it heads the record.
 
 export type AuthorisationEntry = {
+  /** "dropoff": the authorisation signed at drop-off (`request` is its public id, `note` its wording). */
+  kind: "request" | "dropoff";
   request: string;
   title: string;
   version: number;
@@ -33,6 +39,8 @@ export type AuthorisedWork = {
   authorisedPreTaxMinor: number;
   record: AuthorisationEntry[];
   wantsPartsBack: boolean;
+  /** The job's drop-off authorisation, signed or not (only a signed one counts above). */
+  dropoff: DropoffRow | null;
   /** Requests sent and not answered yet: their lines aren't authorised. */
   openRequests: { publicId: string; title: string }[];
 };
@@ -41,8 +49,35 @@ export type AuthorisedWork = {
 export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId: number }, k?: Tx): Promise<AuthorisedWork> {
   const requests = await listRequests({ shopId, jobId }, k);
   const decisions = await listDecisions({ shopId, requestIds: requests.map((r) => r.id) }, k);
+  const dropoff = await getDropoff({ shopId, jobId }, k);
   const lines: InvoiceLine[] = [];
   const record: AuthorisationEntry[] = [];
+  const signed = dropoff?.signature ? { ...dropoff, signature: dropoff.signature } : null;
+  if (signed) {
+    const diagnosis = diagnosisLine(signed.snapshot);
+    if (diagnosis) lines.push({ ...diagnosis, source: "authorised", requestPublicId: signed.publicId, requestLineNo: 1 });
+    const sig = signed.signature;
+    record.push({
+      kind: "dropoff",
+      request: signed.publicId,
+      title: "Authorisation at drop-off",
+      version: 1,
+      method: sig.method,
+      personName: sig.signatureName,
+      signatureName: sig.signatureName,
+      phoneCalled: null,
+      note: [signed.snapshot.wording, signed.snapshot.terms ? `Also agreed: ${signed.snapshot.terms}` : ""].filter(Boolean).join(" "),
+      decidedAt: sig.signedAt,
+      recordedBy: sig.recordedBy,
+      wantsPartsBack: sig.wantsPartsBack,
+      shownHash: sig.shownHash,
+      currency: signed.currency,
+      approved: diagnosis ? [{ no: 1, description: signed.snapshot.diagnosis.description, netMinor: signed.snapshot.diagnosis.netMinor }] : [],
+      declined: [],
+      authorisedPreTaxMinor: signed.authorisedUpToMinor,
+      authorisedTotalMinor: signed.authorisedUpToMinor,
+    });
+  }
   for (const r of requests) {
     const d = decisions.get(r.id);
     if (!d) continue;
@@ -54,6 +89,7 @@ export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId:
     }
     const pick = (answer: "approved" | "declined") => d.lines.filter((l) => l.answer === answer).map((l) => ({ no: l.no, description: l.description, netMinor: l.netMinor }));
     record.push({
+      kind: "request",
       request: r.publicId,
       title: r.snapshot.finding.title,
       version: r.version,
@@ -75,9 +111,13 @@ export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId:
   }
   return {
     lines,
-    authorisedPreTaxMinor: record.reduce((sum, e) => sum + e.authorisedPreTaxMinor, 0),
+    authorisedPreTaxMinor: totalAuthorisedPreTax(
+      signed?.authorisedUpToMinor ?? null,
+      record.filter((e) => e.kind === "request").map((e) => e.authorisedPreTaxMinor),
+    ),
     record,
     wantsPartsBack: record.some((e) => e.wantsPartsBack),
+    dropoff,
     openRequests: requests.filter((r) => r.status === "sent").map((r) => ({ publicId: r.publicId, title: r.snapshot.finding.title })),
   };
 }

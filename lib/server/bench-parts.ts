@@ -1,6 +1,8 @@
 import "server-only";
-import { saveClipLimits } from "@/db/queries/clips";
-import { saveBenchSettings } from "@/db/queries/bench";
+import { getClipLimits, saveClipLimits } from "@/db/queries/clips";
+import { getBenchSettings, saveBenchSettings } from "@/db/queries/bench";
+import { getShopRowSettings } from "@/db/queries/shop-settings";
+import { transaction } from "@/db/transaction";
 import { addPart, changePartStatus } from "@/db/queries/bench-parts";
 import { deleteSpec, insertSpec } from "@/db/queries/bench-specs";
 import { getShopBySlug, saveOwnerWaitDays } from "@/db/queries/shops";
@@ -11,7 +13,8 @@ import type { PartInput, SpecInput } from "@/lib/schemas/bench";
 import type { JobAccess, Resolved } from "@/lib/server/access";
 import { onField } from "@/lib/server/bench";
 import { assertPassPercents } from "@/lib/tightening-passes";
-import type { PartStatus } from "@/lib/bench";
+import type { BenchSettings, PartStatus } from "@/lib/bench";
+import { type Save, saveSection } from "@/lib/server/shop-settings";
 import type { TorqueUnit } from "@/lib/torque";
 
 // Parts on a job (with the waiting-on-parts rule), the shop's spec library and its bench settings.
@@ -59,13 +62,26 @@ export async function removeSpec({ shop }: Resolved<"shop">, input: { spec: numb
   return { shop };
 }
 
+/** Saved in one transaction; with the actor given (the settings page), recorded in the shop's settings changes. */
 export async function updateBenchSettings(
-  { shop }: Resolved<"shop">,
+  found: Resolved<"shop">,
   input: { torqueUnit: TorqueUnit; passes: number[]; chainLimitPct: number; clipMaxMinutes: number; clipMaxGb: number; ownerWaitDays: number },
+  actor: Actor | null = null,
 ) {
   onField("passes", () => assertPassPercents(input.passes));
-  await saveBenchSettings({ shopId: shop.id, settings: { torqueUnit: input.torqueUnit, passPercents: input.passes, chainLimitPct: input.chainLimitPct } });
-  await saveClipLimits({ shopId: shop.id, maxSeconds: Math.round(input.clipMaxMinutes * 60), maxBytes: Math.round(input.clipMaxGb * 1024 ** 3) });
-  await saveOwnerWaitDays({ shopId: shop.id, days: input.ownerWaitDays });
-  return { shop };
+  const save: Save<{ bench: BenchSettings; clips: { maxSeconds: number; maxBytes: number }; ownerWaitDays: number }> = async (tx, shopId) => {
+    const before = { bench: await getBenchSettings({ shopId }, tx), clips: await getClipLimits({ shopId }, tx), ownerWaitDays: (await getShopRowSettings({ shopId }, tx)).ownerWaitDays };
+    const after = {
+      bench: { torqueUnit: input.torqueUnit, passPercents: input.passes, chainLimitPct: input.chainLimitPct },
+      clips: { maxSeconds: Math.round(input.clipMaxMinutes * 60), maxBytes: Math.round(input.clipMaxGb * 1024 ** 3) },
+      ownerWaitDays: input.ownerWaitDays,
+    };
+    await saveBenchSettings({ shopId, settings: after.bench }, tx);
+    await saveClipLimits({ shopId, ...after.clips }, tx);
+    await saveOwnerWaitDays({ shopId, days: after.ownerWaitDays }, tx);
+    return { before, after };
+  };
+  if (actor) await saveSection(actor, found, "bench", save);
+  else await transaction((tx) => save(tx, found.shop.id));
+  return { shop: found.shop };
 }

@@ -144,11 +144,12 @@ export async function renderInvoicePdf(view: InvoiceView): Promise<Buffer> {
     doc.font("Helvetica-Bold");
     text(`${e.title}${e.version > 1 ? ` (version ${e.version})` : ""}`, LEFT, { width: RIGHT - LEFT });
     doc.font("Helvetica");
-    const how = e.method === "online" ? `Approved online by ${e.personName}, signed "${e.signatureName ?? e.personName}"` : `${METHOD_LABEL[e.method]}: ${e.personName}${e.phoneCalled ? ` at ${e.phoneCalled}` : ""}`;
-    text(`${how} on ${when(e.decidedAt, tz)}${e.method !== "online" && e.recordedBy ? `, noted by ${e.recordedBy}` : ""}.`, LEFT, { width: RIGHT - LEFT });
+    const how = e.kind === "dropoff" ? `${e.method === "online" ? "Signed online" : "Signed at the counter"} by ${e.personName}` : e.method === "online" ? `Approved online by ${e.personName}, signed "${e.signatureName ?? e.personName}"` : `${METHOD_LABEL[e.method]}: ${e.personName}${e.phoneCalled ? ` at ${e.phoneCalled}` : ""}`;
+    text(`${how} on ${when(e.decidedAt, tz)}${e.method !== "online" && e.recordedBy ? `, ${e.kind === "dropoff" ? "witnessed" : "noted"} by ${e.recordedBy}` : ""}.`, LEFT, { width: RIGHT - LEFT });
+    if (e.kind === "dropoff" && e.note) text(`Wording signed: ${pdfText(e.note)}`, LEFT, { width: RIGHT - LEFT });
     if (e.approved.length) text(`Approved: ${e.approved.map((l) => `${l.description} (${pdfText(formatMoney(l.netMinor, e.currency))})`).join("; ")}.`, LEFT, { width: RIGHT - LEFT });
     if (e.declined.length) text(`Declined: ${e.declined.map((l) => l.description).join("; ")}.`, LEFT, { width: RIGHT - LEFT });
-    text(`Authorised total ${pdfText(formatMoney(e.authorisedTotalMinor, e.currency))} · ${e.wantsPartsBack ? "asked for the replaced parts back" : "did not ask for the parts back"} · record ${e.shownHash.slice(0, 12)}`, LEFT, { width: RIGHT - LEFT });
+    text(`${e.kind === "dropoff" ? "Authorised up to" : "Authorised total"} ${pdfText(formatMoney(e.authorisedTotalMinor, e.currency))}${e.kind === "dropoff" ? " before tax" : ""} · ${e.wantsPartsBack ? "asked for the replaced parts back" : "did not ask for the parts back"} · record ${e.shownHash.slice(0, 12)}`, LEFT, { width: RIGHT - LEFT });
     doc.moveDown(0.5);
   }
   doc.end();

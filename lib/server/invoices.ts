@@ -18,7 +18,7 @@ import {
 import { insertEntry } from "@/db/queries/entries";
 import { listJobPayments } from "@/db/queries/payments";
 import { getShopCurrency } from "@/db/queries/shops";
-import { toMoneyLine } from "@/lib/approvals";
+import { type DraftLine, toMoneyLine } from "@/lib/approvals";
 import { AppError } from "@/lib/errors";
 import { type InvoiceEntryBody, balanceOf, formatInvoiceNumber, priceInvoice, statusAfter } from "@/lib/invoices";
 import { type Discount, parseMoney, parsePercent } from "@/lib/money";
@@ -85,7 +85,8 @@ export async function createInvoice(actor: Actor, { job }: JobAccess) {
     const live = await getLiveInvoice({ shopId: job.shopId, jobId: job.id }, tx);
     if (live) throw new AppError("conflict", `This job already has invoice ${formatInvoiceNumber(live.number)}. Open it, or cancel it to start again.`);
     const work = await authorisedWork({ shopId: job.shopId, jobId: job.id }, tx);
-    if (!work.lines.length) throw new AppError("invalid", "Nothing has been authorised on this job yet: an invoice is made from lines the owner approved.");
+    // A signed drop-off authorisation with a free diagnosis brings no line, but work up to its amount may be invoiced.
+    if (!work.lines.length && !work.dropoff?.signature) throw new AppError("invalid", "Nothing has been authorised on this job yet: an invoice is made from lines the owner approved.");
     const settings = await getMoneySettings({ shopId: job.shopId }, tx);
     const currency = await getShopCurrency({ shopId: job.shopId }, tx);
     const publicId = newInvoicePublicId();
@@ -147,7 +148,12 @@ export async function addLine(found: Resolved<"invoice">, input: AddLineInput) {
     const settings = await getMoneySettings({ shopId: invoice.shopId }, tx);
     let draft;
     try {
-      [draft] = readLines([{ ...input, partNumber: input.partNumber }], [], { currency: invoice.currency, mayPrice: true, settings });
+      // An empty rate means "the shop's rate" (the form's hint): readLines fills in the default
+      // when the rate is left out, and "" would read as "no rate".
+      const rate = input.rate === "" ? undefined : input.rate;
+      [draft] = readLines([{ ...input, rate, partNumber: input.partNumber }], [], { currency: invoice.currency, mayPrice: true, settings });
+      const price = missingPrice(draft!, settings.labourRateMinor != null);
+      if (price) throw new AppError("invalid", price.message, { [price.field]: [price.message] });
       toMoneyLine(draft!, 0);
     } catch (error) {
       // readLines names fields as "lines.0.qty"; this form has one line.
@@ -160,6 +166,16 @@ export async function addLine(found: Resolved<"invoice">, input: AddLineInput) {
     const { id: _id, ...line } = draft!;
     await insertInvoiceLines(tx, { shopId: invoice.shopId, invoiceId: invoice.id, lines: [{ ...line, source: "added", requestPublicId: null, requestLineNo: null }], from: (lines.at(-1)?.position ?? 0) + 1 });
   });
+}
+
+/** The price a new invoice line still lacks, named by the add-line form's field for it. */
+function missingPrice(line: DraftLine, shopHasRate: boolean): { field: string; message: string } | null {
+  if (line.kind === "part" && line.unitPriceMinor == null) return { field: "unitPrice", message: "Enter the unit price." };
+  if (line.kind === "fee" && line.amountMinor == null) return { field: "amount", message: "Enter the amount." };
+  if (line.kind === "labour" && line.rateMinor == null) {
+    return { field: "rate", message: shopHasRate ? "Enter the rate per hour." : "The shop has no default labour rate yet: enter the rate here, or ask the shop owner to set one in Settings." };
+  }
+  return null;
 }
 
 export async function removeLine(found: Resolved<"invoice">, input: { version: number; line: number }) {

@@ -137,7 +137,7 @@ export async function saveProfile({ shop }: Resolved<"shop">, input: ShopProfile
     logoKey = `shops/${shop.id}/logo/${randomBytes(12).toString("hex")}.jpg`;
     await storage().put(logoKey, processed.thumb.data, processed.thumb.contentType);
   }
-  const replaced = await saveShopProfile({ shopId: shop.id, displayName: input.displayName, about: input.about, locationText: input.locationText, showLocation: input.showLocation, publicEmail: input.publicEmail, publicPhone: input.publicPhone, logoKey });
+  const replaced = await saveShopProfile({ shopId: shop.id, displayName: input.displayName, about: input.about, locationText: input.locationText, takesIn: input.takesIn, showLocation: input.showLocation, publicEmail: input.publicEmail, publicPhone: input.publicPhone, logoKey });
   if (replaced) await storage().delete(replaced).catch(() => undefined);
   return { shop };
 }

@@ -40,6 +40,7 @@ export function publicShop(row: PublicShopRow): PublicShop {
     slug: row.slug,
     name: row.displayName ?? row.name,
     about: row.about,
+    takesIn: row.takesIn,
     logoUrl: row.logoKey ? shopLogoPath(row.slug) : null,
     location: row.showLocation ? row.locationText : null,
     email: row.publicEmail,

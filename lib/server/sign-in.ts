@@ -9,7 +9,8 @@ import { escapeHtml } from "@/lib/server/mail";
 import { timingDecoyHash, verifyPassword } from "@/lib/server/password";
 import { appUrl } from "@/lib/server/config";
 
-const envCount = (key: string, fallback: number) => {
+/** A positive whole number from the environment, or the fallback (per-address limits that are settings). */
+export const envCount = (key: string, fallback: number) => {
   const n = Number(process.env[key]);
   return Number.isInteger(n) && n > 0 ? n : fallback;
 };
@@ -76,7 +77,7 @@ export async function checkPassword({ email, password, ip }: { email: string; pa
   return { id: user.id, email: user.email, name: user.name };
 }
 
-function hashToken(token: string): string {
+export function hashToken(token: string): string {
   return crypto.createHash("sha256").update(`${token}${process.env.AUTH_SECRET ?? ""}`).digest("hex");
 }
 

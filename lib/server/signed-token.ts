@@ -7,7 +7,7 @@ import crypto from "node:crypto";
 // changing any byte fails the check.
 
 const VERSION = 1;
-const PURPOSE = { unsubscribe: 1, "mail-thumb": 2 } as const;
+const PURPOSE = { unsubscribe: 1, "mail-thumb": 2, "booking-form": 3 } as const;
 type Purpose = keyof typeof PURPOSE;
 const MAC_BYTES = 16;
 
@@ -62,4 +62,18 @@ export function readMailThumbToken(token: string, now = new Date()): string | nu
   if (!payload || payload.length < 5) return null;
   if (payload.readUInt32BE(0) * 1000 < now.getTime()) return null;
   return payload.subarray(4).toString("latin1");
+}
+
+/** The booking form's ticket: which shop's page made it and when, so a post that comes too soon after the page was rendered is told to wait. */
+export function bookingTicket(shopId: number, issuedAt = new Date()): string {
+  const payload = Buffer.alloc(12);
+  payload.writeUInt32BE(shopId, 0);
+  payload.writeBigUInt64BE(BigInt(issuedAt.getTime()), 4);
+  return signToken("booking-form", payload);
+}
+
+export function readBookingTicket(token: string): { shopId: number; issuedAt: number } | null {
+  const payload = verifyToken("booking-form", token);
+  if (!payload || payload.length !== 12) return null;
+  return { shopId: payload.readUInt32BE(0), issuedAt: Number(payload.readBigUInt64BE(4)) };
 }

@@ -28,6 +28,8 @@ const VISITORS: Visitor[] = [
 let customerJobPath = "";
 let demoRequest = "";
 let demoFinding = 0;
+let demoCustomer = 0;
+let demoMachine = 0;
 
 test.beforeAll(async () => {
   // The owner-facing address of job J-0005 (the job customer's), read from the test database.
@@ -39,6 +41,12 @@ test.beforeAll(async () => {
   const [requests] = await db.query<mysql.RowDataPacket[]>(
     "SELECT r.public_id, r.finding_id FROM approval_requests r JOIN jobs j ON j.id = r.job_id JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5 ORDER BY r.id LIMIT 1",
   );
+  // J-0005's owner and machine, for the customer and machine pages (issue 16 §4).
+  const [owners] = await db.query<mysql.RowDataPacket[]>(
+    "SELECT j.customer_id, j.machine_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5",
+  );
+  demoCustomer = Number(owners[0]!.customer_id);
+  demoMachine = Number(owners[0]!.machine_id);
   await db.end();
   customerJobPath = `/my/jobs/${rows[0]!.public_id}`;
   demoRequest = String(requests[0]!.public_id);
@@ -62,6 +70,12 @@ const TARGETS: { name: string; path: () => string; expect: Record<Visitor, Outco
   { name: "check-in page", path: () => "/shop/copper-gulch/jobs/new", expect: STAFF_OF_THE_SHOP },
   { name: "bench tools page", path: () => "/shop/copper-gulch/jobs/5/bench", expect: STAFF_OF_THE_SHOP },
   { name: "shop spec library page", path: () => "/shop/copper-gulch/specs", expect: STAFF_OF_THE_SHOP },
+  // Customers and machines (issue 16 §4): every member of the shop's staff reads them.
+  { name: "customer list page", path: () => "/shop/copper-gulch/customers", expect: STAFF_OF_THE_SHOP },
+  { name: "customer page", path: () => `/shop/copper-gulch/customers/${demoCustomer}`, expect: STAFF_OF_THE_SHOP },
+  { name: "machine history page", path: () => `/shop/copper-gulch/machines/${demoMachine}`, expect: STAFF_OF_THE_SHOP },
+  // Shop settings (issue 16 §2): the shop owner only.
+  { name: "shop settings page", path: () => "/shop/copper-gulch/settings", expect: { ...STAFF_OF_THE_SHOP, writer: "403", technician: "403" } },
   // The desk inbox and each person's e-mail settings for it: everyone on the shop's staff.
   { name: "shop inbox page", path: () => "/shop/copper-gulch/inbox", expect: STAFF_OF_THE_SHOP },
   { name: "inbox e-mail settings page", path: () => "/shop/copper-gulch/inbox/settings", expect: STAFF_OF_THE_SHOP },
@@ -75,6 +89,8 @@ const TARGETS: { name: string; path: () => string; expect: Record<Visitor, Outco
   // Staff land on the finding's page, the machine's owner on the answer page.
   { name: "approval link from the timeline", path: () => `/my/approvals/${demoRequest}`, expect: READS_THE_REQUEST },
   { name: "owner's job page", path: () => customerJobPath, expect: READS_THE_JOB },
+  // The drop-off authorisation (issue 16 §5): money, so like the owner's invoice page.
+  { name: "owner's drop-off authorisation page", path: () => `${customerJobPath}/authorisation`, expect: { ...READS_THE_JOB, technician: "403", follower: "404" } },
   // Invoices (issue 9): the desk and the shop owner; the job's customer on their own page; technicians see no money.
   { name: "staff invoice page", path: () => "/shop/copper-gulch/jobs/5/invoice", expect: { ...STAFF_OF_THE_SHOP, technician: "403" } },
   // Staff without money rights are told no; anyone else isn't told the money exists.
@@ -87,6 +103,17 @@ const TARGETS: { name: string; path: () => string; expect: Record<Visitor, Outco
   { name: "shop profile editor", path: () => "/shop/copper-gulch/portfolio/profile", expect: { ...STAFF_OF_THE_SHOP, writer: "403", technician: "403" } },
   // Those who may see the job but not answer for it are refused; to anyone else it doesn't exist.
   { name: "owner's portfolio consent page", path: () => `${customerJobPath}/portfolio`, expect: { ...READS_THE_JOB, owner: "403", writer: "403", technician: "403", follower: "403" } },
+  // Staff accounts (issue 16 §3): the staff page is the shop owner's; "Your account" is every staff member's own;
+  // the invitation and password pages are public (without a token they say the link isn't valid).
+  { name: "shop staff page", path: () => "/shop/copper-gulch/staff", expect: { ...STAFF_OF_THE_SHOP, writer: "403", technician: "403" } },
+  { name: "your account page", path: () => "/shop/copper-gulch/account", expect: STAFF_OF_THE_SHOP },
+  { name: "join a shop page", path: () => "/join", expect: EVERYONE_IN },
+  { name: "forgot password page", path: () => "/sign-in/forgot", expect: EVERYONE_IN },
+  { name: "choose a new password page", path: () => "/sign-in/reset", expect: EVERYONE_IN },
+  // A new shop (issue 16 §1): the sign-up pages are public (without a token, confirm says the link isn't valid).
+  { name: "start your shop page", path: () => "/start", expect: EVERYONE_IN },
+  { name: "start: check your e-mail page", path: () => "/start/check-email", expect: EVERYONE_IN },
+  { name: "start: confirm page", path: () => "/start/confirm", expect: EVERYONE_IN },
   { name: "shop's public page", path: () => "/s/copper-gulch", expect: EVERYONE_IN },
   { name: "sitemap", path: () => "/sitemap.xml", expect: EVERYONE_IN },
   { name: "robots.txt", path: () => "/robots.txt", expect: EVERYONE_IN },
@@ -134,6 +161,12 @@ test.describe("missing and malformed", () => {
     const body = await res.json();
     expect(body.error.code).toBe("invalid");
     expect(Object.keys(body.error.fields).sort()).toEqual(["pageSize", "q", "status"]);
+  });
+
+  test("a customer or machine the shop doesn't have is a real 404", async ({ page }) => {
+    for (const path of ["/shop/copper-gulch/customers/999999", "/shop/copper-gulch/customers/x1", "/shop/copper-gulch/machines/999999", "/shop/copper-gulch/machines/0"]) {
+      expect((await page.goto(path))?.status(), path).toBe(404);
+    }
   });
 
   test("a job number the shop doesn't have is a real 404", async ({ page }) => {

@@ -20,10 +20,15 @@ const SCREENS: { name: string; path: string; as?: Persona }[] = [
   { name: "check-in form", path: "/shop/copper-gulch/jobs/new", as: "technician" },
   { name: "bench tools", path: "/shop/copper-gulch/jobs/2/bench", as: "technician" },
   { name: "spec library", path: "/shop/copper-gulch/specs", as: "owner" },
+  { name: "customer list", path: "/shop/copper-gulch/customers", as: "writer" },
+  { name: "customer search, nothing found", path: "/shop/copper-gulch/customers?q=nobody-by-this-name", as: "technician" },
+  { name: "shop settings", path: "/shop/copper-gulch/settings", as: "owner" },
   { name: "draft a finding", path: "/shop/copper-gulch/jobs/5/findings/new", as: "technician" },
   // The demo seed's one finding (db/seeds/demo-approvals.ts), priced and sent: the desk's view.
   { name: "finding with a request out", path: "/shop/copper-gulch/jobs/5/findings/1", as: "writer" },
   { name: "owner's machines", path: "/my", as: "jobCustomer" },
+  // The staff job page with the drop-off authorisation card (its prepare form on a job without one).
+  { name: "staff job page, desk view", path: "/shop/copper-gulch/jobs/5", as: "writer" },
   { name: "shop outbox", path: "/shop/copper-gulch/outbox", as: "writer" },
   { name: "desk inbox", path: "/shop/copper-gulch/inbox", as: "writer" },
   { name: "desk inbox (technician, no amounts)", path: "/shop/copper-gulch/inbox", as: "technician" },
@@ -32,6 +37,15 @@ const SCREENS: { name: string; path: string; as?: Persona }[] = [
   { name: "shop's public page", path: "/s/copper-gulch" },
   { name: "portfolio list", path: "/shop/copper-gulch/portfolio", as: "writer" },
   { name: "shop profile editor", path: "/shop/copper-gulch/portfolio/profile", as: "owner" },
+  { name: "shop staff", path: "/shop/copper-gulch/staff", as: "owner" },
+  { name: "your account", path: "/shop/copper-gulch/account", as: "technician" },
+  { name: "forgot password", path: "/sign-in/forgot" },
+  { name: "forgot password, link sent", path: "/sign-in/forgot?sent=1" },
+  { name: "join a shop, link not valid", path: "/join" },
+  { name: "choose a new password, link not valid", path: "/sign-in/reset" },
+  { name: "start your shop", path: "/start" },
+  { name: "start your shop, check your e-mail", path: "/start/check-email?to=new.owner%40shop.test" },
+  { name: "start your shop, link not valid", path: "/start/confirm" },
 ];
 
 // The seed queues no mail: give J-0005's sent log (and the failed-mail page) one sent and one
@@ -66,15 +80,40 @@ for (const colorScheme of ["light", "dark"] as const) {
       });
     }
 
+    test.describe("customer and machine pages", () => {
+      test.use({ storageState: storageStatePath("writer") });
+      test("J-0005's customer page (with the merge form) and machine history have no WCAG 2.2 AA violations axe can find", async ({ page }) => {
+        const [job] = await sql("SELECT j.customer_id, j.machine_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5");
+        for (const path of [`/shop/copper-gulch/customers/${job!.customer_id}`, `/shop/copper-gulch/machines/${job!.machine_id}`]) {
+          await page.goto(path);
+          await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
+          await expectNoViolations(page);
+        }
+      });
+    });
+
+    test.describe("owner's drop-off authorisation page", () => {
+      test.use({ storageState: storageStatePath("jobCustomer") });
+      test("owner's drop-off authorisation page has no WCAG 2.2 AA violations axe can find", async ({ page }) => {
+        // J-0005's owner-facing address (the seed prepares no authorisation: the "nothing to sign" state).
+        const [job] = await sql("SELECT j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5");
+        await page.goto(`/my/jobs/${job!.public_id}/authorisation`);
+        await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
+        await expectNoViolations(page);
+      });
+    });
+
     test("phone width: job board cards, a job's sent log and sign-in reflow without sideways scrolling", async ({ browser }) => {
       // WCAG 2.2 SC 1.4.10 Reflow: content at 320 CSS px wide without two-way scrolling.
       const context = await browser.newContext({ viewport: { width: 320, height: 640 }, colorScheme, storageState: storageStatePath("owner") });
       const page = await context.newPage();
-      for (const path of ["/shop/copper-gulch", "/shop/copper-gulch/jobs/5/mail", "/sign-in"]) {
+      for (const path of ["/shop/copper-gulch", "/shop/copper-gulch/jobs/5/mail", "/shop/copper-gulch/customers", "/sign-in"]) {
         await page.goto(path);
         await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
         // The sent log shows one card per message on a phone, not its table.
         if (path.endsWith("/mail")) expect(await page.getByTestId("message-card").count()).toBeGreaterThanOrEqual(2);
+        // The customer list likewise: cards, not its table.
+        if (path.endsWith("/customers")) expect(await page.getByTestId("customer-card").count()).toBeGreaterThanOrEqual(3);
         const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
         expect(overflow, path).toBeLessThanOrEqual(0);
       }

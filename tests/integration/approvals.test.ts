@@ -323,5 +323,6 @@ describe("approval requests", () => {
     } finally {
       await fresh.drop();
     }
-  });
+    // A database of its own, migrated from nothing and seeded: slow on a busy machine.
+  }, 90_000);
 });

@@ -1,10 +1,7 @@
-import fs from "node:fs";
-import os from "node:os";
-import path from "node:path";
 import { NextRequest } from "next/server";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
-import { createMailFake, type MailFake } from "@/fakes/mail/server";
+import type { MailFake } from "@/fakes/mail/server";
 import { GET as unsubscribeGet, POST as unsubscribePost } from "@/app/u/[token]/route";
 import { checkInJob } from "@/db/queries/check-in";
 import { notifyNow, subscribeOwner } from "@/db/queries/following";
@@ -20,6 +17,7 @@ import { addJobPart, changeJobPartStatus } from "@/lib/server/bench-parts";
 import { sweepNotifications } from "@/lib/server/notify-sweep";
 import { mailThumbToken, unsubscribeToken } from "@/lib/server/signed-token";
 import { freshDatabase } from "../support/db";
+import { freshMailWorld } from "../support/mail-world";
 import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
 import { type MailMessage, listMail } from "../support/mailbox";
 
@@ -54,14 +52,7 @@ const post = (token: string, cookie?: string) =>
   unsubscribePost(new NextRequest(`${APP}/u/${token}`, { method: "POST", body: "List-Unsubscribe=One-Click", headers: { "content-type": "application/x-www-form-urlencoded", ...(cookie ? { cookie } : {}) } }), { params: Promise.resolve({ token }) });
 
 beforeAll(async () => {
-  fresh = await freshDatabase();
-  await fresh.knex.migrate.latest();
-  k = fresh.knex;
-  process.env.DATABASE_URL = fresh.url;
-  process.env.APP_URL = APP;
-  fake = await createMailFake({ port: 0, dir: fs.mkdtempSync(path.join(os.tmpdir(), "bs-following-")) });
-  process.env.RESEND_BASE_URL = fake.url;
-  process.env.RESEND_API_KEY = "re_test_key";
+  ({ fresh, k, fake } = await freshMailWorld("following", APP));
   shop = await makeShop(k, { label: "following", roles: ["owner", "technician"] });
   await k("shops").where({ id: shop.id }).update({ name: "Kettle Creek Motors", email: "desk@kettle-creek.test", phone: "+1 555 010 4400" });
   const [userId] = await k("users").insert({ email: OWNER, name: "Vera Lindgren" });

@@ -2,12 +2,9 @@
 // due row they can see): each person's choice per kind (at once, morning digest, none), never a
 // mail about what they did themselves, no amounts for a technician, the digest once a day, and
 // mail the outbox gave up on reported to the desk (but not the desk's own mail, so no loop).
-import fs from "node:fs";
-import os from "node:os";
-import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
-import { createMailFake, type MailFake } from "@/fakes/mail/server";
+import type { MailFake } from "@/fakes/mail/server";
 import { enqueueMail } from "@/db/queries/outbox";
 import { transaction } from "@/db/transaction";
 import { effectiveDeliveries } from "@/lib/inbox";
@@ -20,6 +17,7 @@ import { inboxSettingsFor, markItemRead, saveInboxSettings } from "@/lib/server/
 import { runOutboxOnce } from "@/lib/server/outbox-worker";
 import { staffActor } from "../support/authorised-work";
 import { freshDatabase } from "../support/db";
+import { freshMailWorld } from "../support/mail-world";
 import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
 import { failNext, listMail } from "../support/mailbox";
 
@@ -46,14 +44,7 @@ async function drain() {
 }
 
 beforeAll(async () => {
-  fresh = await freshDatabase();
-  await fresh.knex.migrate.latest();
-  k = fresh.knex;
-  process.env.DATABASE_URL = fresh.url;
-  process.env.APP_URL = APP;
-  fake = await createMailFake({ port: 0, dir: fs.mkdtempSync(path.join(os.tmpdir(), "bs-inbox-mail-")) });
-  process.env.RESEND_BASE_URL = fake.url;
-  process.env.RESEND_API_KEY = "re_test_key";
+  ({ fresh, k, fake } = await freshMailWorld("inbox-mail", APP));
   shop = await makeShop(k, { label: "inbox-mail", roles: ["owner", "service_writer", "technician"] });
   await k("shops").where({ id: shop.id }).update({ name: "Pine Hollow Engines", timezone: "America/Denver" });
   [owner, writer, tech] = [staffActor(shop, "owner"), staffActor(shop, "service_writer"), staffActor(shop, "technician")];

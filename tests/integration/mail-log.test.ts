@@ -1,9 +1,6 @@
-import fs from "node:fs";
-import os from "node:os";
-import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
-import { createMailFake, type MailFake } from "@/fakes/mail/server";
+import type { MailFake } from "@/fakes/mail/server";
 import { subscribeOwner } from "@/db/queries/following";
 import { listJobMessages } from "@/db/queries/mail-log";
 import { enqueueMail, listOutboxProblems } from "@/db/queries/outbox";
@@ -15,6 +12,7 @@ import { postEntry } from "@/lib/server/journal";
 import { runOutboxOnce } from "@/lib/server/outbox-worker";
 import { sweepNotifications } from "@/lib/server/notify-sweep";
 import { freshDatabase } from "../support/db";
+import { freshMailWorld } from "../support/mail-world";
 import { ownerWithJobs, staffActor } from "../support/authorised-work";
 import { makeShop } from "../support/fixtures";
 import { listMail } from "../support/mailbox";
@@ -55,14 +53,7 @@ async function sendAll() {
 }
 
 beforeAll(async () => {
-  fresh = await freshDatabase();
-  await fresh.knex.migrate.latest();
-  k = fresh.knex;
-  process.env.DATABASE_URL = fresh.url;
-  process.env.APP_URL = APP;
-  fake = await createMailFake({ port: 0, dir: fs.mkdtempSync(path.join(os.tmpdir(), "bs-mail-log-")) });
-  process.env.RESEND_BASE_URL = fake.url;
-  process.env.RESEND_API_KEY = "re_test_key";
+  ({ fresh, k, fake } = await freshMailWorld("mail-log", APP));
   shopA = await makeShop(k, { label: "maillog-a", roles: ["owner", "service_writer", "technician"] });
   shopB = await makeShop(k, { label: "maillog-b", roles: ["owner", "technician"] });
   a = await ownerWithJobs(k, shopA, 2, "Vera Lindgren");
@@ -169,9 +160,10 @@ describe("a job's sent log", () => {
     const before = await k("outbox").orderBy("id").select("id", "job_id", "dedupe_key");
     // Every kind this file queued with a key that names a job: progress (subscriber) and approval (request).
     expect(before.filter((r) => r.dedupe_key && r.job_id != null).length).toBeGreaterThanOrEqual(3);
-    await k.migrate.down(); // 20261204_15_outbox_job
+    // That one migration, whatever came after it.
+    await k.migrate.down({ name: "20261204_15_outbox_job" });
     expect(await k.schema.hasColumn("outbox", "job_id")).toBe(false);
-    await k.migrate.up();
+    await k.migrate.up({ name: "20261204_15_outbox_job" });
     const after = await k("outbox").orderBy("id").select("id", "job_id");
     // Keyed mail gets its job back; mail queued without a key (the test's own) stays unfiled.
     expect(after).toEqual(before.map((r) => ({ id: r.id, job_id: r.dedupe_key ? r.job_id : null })));

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { freshDatabase } from "../support/db";
 
-const TABLES = ["shops", "users", "memberships", "customers", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events", "user_sessions"];
+const TABLES = ["shops", "users", "memberships", "customers", "customer_merges", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events", "user_sessions", "shop_setting_changes", "dropoff_authorisations", "staff_invites", "password_resets", "shop_signups"];
 
 describe("migrations on an empty database", () => {
   let fresh: Awaited<ReturnType<typeof freshDatabase>>;
@@ -32,7 +32,10 @@ describe("migrations on an empty database", () => {
     }
     // Columns added to existing tables by later migrations.
     expect(await db.schema.hasColumn("memberships", "deactivated_at")).toBe(true);
-  });
+    expect(await db.schema.hasColumn("shops", "opening_hours")).toBe(true);
+    expect(await db.schema.hasColumn("shop_money_settings", "labour_rates")).toBe(true);
+    expect(await db.schema.hasColumn("customers", "contact_preference")).toBe(true);
+  }, 90_000); // every migration from nothing: some 20 s on a busy 2-core machine
 
   it("keep a job's customer and machine in the job's own shop (composite foreign keys)", async () => {
     const [a] = await db("shops").insert({ slug: "mig-a", name: "A" });
@@ -56,6 +59,6 @@ describe("migrations on an empty database", () => {
     const [, names] = await db.migrate.latest();
     expect(names).toHaveLength((await migrationSource.getMigrations([])).length);
     expect((await tables()).map((t) => t.name)).toEqual(expect.arrayContaining(TABLES));
-    // Thirteen migrations down and up are some 150 DDL statements: about 15 s on a busy 2-core machine.
-  }, 90_000);
+    // Twenty migrations down and up are some 250 DDL statements: up to a minute on a busy 2-core machine.
+  }, 180_000);
 });

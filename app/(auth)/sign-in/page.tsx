@@ -8,7 +8,7 @@ import { StaffSignInForm } from "./_components/staff-form";
 
 export const metadata: Metadata = { title: "Sign in" };
 
-type Props = { searchParams: Promise<{ next?: string; code?: string; error?: string; "signed-out"?: string }> };
+type Props = { searchParams: Promise<{ next?: string; code?: string; error?: string; "signed-out"?: string; password?: string; joined?: string }> };
 
 export default async function SignInPage({ searchParams }: Props) {
   const params = await searchParams;
@@ -22,6 +22,8 @@ export default async function SignInPage({ searchParams }: Props) {
       <h1 className="text-2xl font-bold sm:text-3xl">Sign in to Benchside</h1>
       {code ? <Alert tone="error">{code}</Alert> : params.error ? <Alert tone="error">Sign-in failed. Try again.</Alert> : null}
       {params["signed-out"] === "everywhere" && !actor ? <Alert tone="success">You&apos;re signed out on every device and browser.</Alert> : null}
+      {params.password === "changed" ? <Alert tone="success">Your password is changed and you&apos;re signed out everywhere. Sign in with the new password.</Alert> : null}
+      {params.joined === "1" ? <Alert tone="success">You&apos;ve joined the shop. Sign in with your e-mail address and password.</Alert> : null}
       {actor ? (
         <Alert tone="info" action={<ButtonLink href="/">Continue</ButtonLink>}>
           You&apos;re signed in as {actor.email}.

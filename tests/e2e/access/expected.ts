@@ -59,7 +59,8 @@ export function expectedOutcome(persona: PersonaName, target: Target): Outcome {
   const audience: MediaViewer = may("journal:view-shop-only") ? "shop" : p.customer ? "owner" : "follower";
   const staffHere = p.staff !== null;
   // A shop's existence is public: anyone not on its staff is refused, not told it doesn't exist.
-  if (target.resource === "shop" || target.resource === "story") return staffHere ? permitted : "403";
+  // A customer or machine is found through its shop (lib/server/access.ts): the shop refuses first.
+  if (target.resource === "shop" || target.resource === "story" || target.resource === "customer" || target.resource === "machine") return staffHere ? permitted : "403";
   if (target.resource === "shopJob" && !staffHere) return "403";
   // Someone else's job is answered like one that doesn't exist.
   if (!may("job:view")) return "404";

@@ -17,6 +17,8 @@ export type Fixture = {
   shop: string;
   shopId: number;
   jobId: number;
+  /** Ruth Calloway's customer record (the customer resolver's id). */
+  customer: number;
   job: string;
   number: number;
   entry: number;
@@ -87,7 +89,7 @@ export async function makeFixture({ db, as, action, made }: Deps): Promise<Fixtu
   const number = Number(/\/jobs\/(\d+)/.exec(checkIn.redirect ?? "")?.[1]);
   const job = await one(db, "SELECT id, public_id FROM jobs WHERE shop_id = ? AND number = ?", [ruth.shop_id, number]);
   made(Number(job.id));
-  const f = { run, shop, shopId: Number(ruth.shop_id), jobId: Number(job.id), job: String(job.public_id), number } as Fixture;
+  const f = { run, shop, shopId: Number(ruth.shop_id), jobId: Number(job.id), customer: Number(ruth.id), job: String(job.public_id), number } as Fixture;
 
   // A follower of this job: the follower persona (signed in already, so its user exists).
   const follower = await one(db, "SELECT id FROM users WHERE email = ?", [CUSTOMERS.follower.email]);
@@ -146,11 +148,12 @@ export async function makeFixture({ db, as, action, made }: Deps): Promise<Fixtu
   const [story] = await db.query<mysql.ResultSetHeader>("INSERT INTO stories (shop_id, job_id, slug, title, status) VALUES (?, ?, ?, 'Access test story', 'proposed')", [f.shopId, f.jobId, f.storySlug]);
   f.story = story.insertId;
 
-  const profile = await one(db, "SELECT display_name, about, location_text, show_location, public_email, public_phone FROM shop_profiles WHERE shop_id = ?", [f.shopId]);
+  const profile = await one(db, "SELECT display_name, about, location_text, takes_in, show_location, public_email, public_phone FROM shop_profiles WHERE shop_id = ?", [f.shopId]);
   f.profile = {
     displayName: profile.display_name ?? "",
     about: profile.about ?? "",
     locationText: profile.location_text ?? "",
+    takesIn: profile.takes_in ?? "",
     publicEmail: profile.public_email ?? "",
     publicPhone: profile.public_phone ?? "",
     ...(profile.show_location ? { showLocation: "on" } : {}),
@@ -165,7 +168,7 @@ type Saved = { rows: Record<string, mysql.RowDataPacket[]>; clipLimits: mysql.Ro
 
 /** What the allowed requests may save at shop level, to put back afterwards. */
 export async function saveShopSettings(db: mysql.Connection, slug: string): Promise<Saved> {
-  const shop = await one(db, "SELECT id, clip_max_seconds, clip_max_bytes FROM shops WHERE slug = ?", [slug]);
+  const shop = await one(db, "SELECT id, clip_max_seconds, clip_max_bytes, opening_hours, (SELECT COALESCE(MAX(id), 0) FROM shop_setting_changes WHERE shop_id = shops.id) AS last_change FROM shops WHERE slug = ?", [slug]);
   const rows: Saved["rows"] = {};
   for (const table of ["shop_profiles", "shop_bench_settings"]) [rows[table]] = await db.query<mysql.RowDataPacket[]>(`SELECT * FROM ${table} WHERE shop_id = ?`, [shop.id]);
   return { rows, clipLimits: shop };
@@ -174,6 +177,10 @@ export async function saveShopSettings(db: mysql.Connection, slug: string): Prom
 export async function restoreShopSettings(db: mysql.Connection, saved: Saved): Promise<void> {
   const shopId = saved.clipLimits.id;
   await db.query("UPDATE shops SET clip_max_seconds = ?, clip_max_bytes = ? WHERE id = ?", [saved.clipLimits.clip_max_seconds, saved.clipLimits.clip_max_bytes, shopId]);
+  // The settings page's opening hours, and the record of the changes the allowed requests made.
+  const hours = saved.clipLimits.opening_hours;
+  await db.query("UPDATE shops SET opening_hours = ? WHERE id = ?", [hours && typeof hours === "object" ? JSON.stringify(hours) : hours, shopId]);
+  await db.query("DELETE FROM shop_setting_changes WHERE shop_id = ? AND id > ?", [shopId, saved.clipLimits.last_change]);
   for (const [table, rows] of Object.entries(saved.rows)) {
     await db.query(`DELETE FROM ${table} WHERE shop_id = ?`, [shopId]);
     for (const row of rows) {

@@ -20,6 +20,7 @@ export function paramValues(f: Fixture): Record<string, string> {
   return {
     shop: f.shop,
     job: f.job,
+    customer: String(f.customer),
     number: String(f.number),
     entry: String(f.entry),
     finding: String(f.finding),
@@ -66,7 +67,9 @@ const BENCH = "app/(staff)/shop/[shop]/jobs/[number]/bench/actions.ts";
 const INVOICE = "app/(staff)/shop/[shop]/jobs/[number]/invoice/actions.ts";
 const PORTFOLIO = "app/(staff)/shop/[shop]/portfolio/actions.ts";
 const SPECS = "app/(staff)/shop/[shop]/specs/actions.ts";
+const SETTINGS = "app/(staff)/shop/[shop]/settings/actions.ts";
 const INBOX = "app/(staff)/shop/[shop]/inbox/actions.ts";
+const DROPOFF = "app/(staff)/shop/[shop]/jobs/[number]/dropoff-actions.ts";
 
 type Fields = (c: SampleContext) => Record<string, string>;
 const invoiceRef = (f: Fixture) => ({ invoice: f.invoice, version: STALE });
@@ -84,6 +87,12 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${OWNER_INVOICE}#payInvoiceAction`]: ({ f }) => ({ invoice: f.invoice }),
   [`${OWNER_INVOICE}#payDepositAction`]: ({ f }) => ({ deposit: f.deposit }),
   ["app/(owner)/my/jobs/[job]/portfolio/actions.ts#consentAction"]: ({ f }) => ({ job: f.job, decision: "refused", name: "Access Test" }),
+  // The drop-off authorisation on the fixture's own job. Signatures carry a hash nothing was shown
+  // with, so the handler refuses them ("changed" or "nothing to sign") after the wrapper let them through.
+  [`${DROPOFF}#prepareDropoffAction`]: ({ f }) => ({ job: f.job, chargeKind: "amount", chargeAmount: "95.00", description: "Inspection and diagnosis", authorisedUpTo: "300.00" }),
+  [`${DROPOFF}#sendDropoffLinkAction`]: ({ f }) => ({ job: f.job }),
+  [`${DROPOFF}#signDropoffAtCounterAction`]: ({ f }) => ({ job: f.job, shownHash: "0".repeat(64), signature: "Access Test", agree: "on" }),
+  ["app/(owner)/my/jobs/[job]/authorisation/actions.ts#signDropoffOnlineAction"]: ({ f }) => ({ job: f.job, shownHash: "0".repeat(64), signature: "Access Test", agree: "on" }),
   // A move that doesn't exist: the job's status stays.
   ["app/(staff)/shop/[shop]/jobs/[number]/actions.ts#changeStatusAction"]: ({ f }) => ({ job: f.job, from: "picked_up", to: "picked_up", note: "" }),
   [`${BENCH}#recordTorqueAction`]: ({ f }) => ({ job: f.job, fastener: "Access test bolt", specValue: "10", unit: "nm" }),
@@ -109,6 +118,10 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${INVOICE}#refundAction`]: ({ f }) => ({ job: f.job, payment: NO_ROW, amount: "1.00", confirmed: "yes" }),
   // An owner on file that doesn't exist: nothing is checked in.
   ["app/(staff)/shop/[shop]/jobs/new/actions.ts#checkInMachine"]: ({ f }) => ({ shop: f.shop, customerMode: "existing", customerId: NO_ROW, machineMode: "existing", machineId: NO_ROW, concern: "Access test" }),
+  // Customers (issue 16 §4), on Ruth Calloway's record: an e-mail another customer of the shop has
+  // (409 beside the field), and a duplicate that doesn't exist (refused by the merge, nothing moves).
+  ["app/(staff)/shop/[shop]/customers/[customer]/actions.ts#saveContactAction"]: ({ f }) => ({ shop: f.shop, customer: String(f.customer), name: "Ruth Calloway", email: "jonah.pike@mail.test", phone: "+1 555 013 2290", contactPreference: "" }),
+  ["app/(staff)/shop/[shop]/customers/[customer]/actions.ts#mergeCustomerAction"]: ({ f }) => ({ shop: f.shop, customer: String(f.customer), duplicate: NO_ROW, confirm: "yes" }),
   ["app/(staff)/shop/[shop]/outbox/actions.ts#retryMailAction"]: ({ f }) => ({ shop: f.shop, id: NO_ROW }),
   // The desk inbox: an item that doesn't exist; "mark all" up to item 0 (marks nothing); the settings as the defaults.
   [`${INBOX}#markReadAction`]: ({ f }) => ({ shop: f.shop, item: NO_ROW }),
@@ -123,6 +136,50 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${PORTFOLIO}#saveProfileAction`]: ({ f }) => ({ shop: f.shop, ...f.profile }),
   [`${SPECS}#addSpecAction`]: ({ f }) => ({ shop: f.shop, make: `Access ${f.run}`, model: "Test", kind: "note", label: "Access test", notes: "Access test note" }),
   [`${SPECS}#deleteSpecAction`]: ({ f }) => ({ shop: f.shop, spec: NO_ROW }),
+  // Shop settings (issue 16 §2), on the demo shop: the seed's own values (saved again, nothing
+  // changes and no change is recorded), or values the server turns down after the wrapper (an
+  // amount with too many decimals, a percent that isn't one). Opening hours have no server-side
+  // refusal: the owner's call sets the demo shop's hours, which restoreShopSettings (fixture.ts) puts back.
+  [`${SETTINGS}#saveProfileAction`]: ({ f }) => ({ shop: f.shop, name: "Copper Gulch Powersports", email: "desk@coppergulch.test", phone: "+1 555 010 4471", address: "" }),
+  [`${SETTINGS}#saveHoursAction`]: ({ f }) => ({ shop: f.shop, ...Object.fromEntries(["mon", "tue", "wed", "thu", "fri", "sat"].flatMap((d) => [[`${d}Open`, "08:00"], [`${d}Close`, "17:30"]])), sunClosed: "on" }),
+  [`${SETTINGS}#saveRegionAction`]: ({ f }) => ({ shop: f.shop, timezone: "America/Denver", currency: "USD" }),
+  [`${SETTINGS}#saveLabourAction`]: ({ f }) => ({ shop: f.shop, defaultRate: "95.001" }),
+  [`${SETTINGS}#saveTaxAction`]: ({ f }) => ({ shop: f.shop, taxMethod: "per_line", taxRate: "eight" }),
+  [`${SETTINGS}#saveSuppliesAction`]: ({ f }) => ({ shop: f.shop, suppliesPercent: "five", suppliesBase: "labour" }),
+  [`${SETTINGS}#saveToleranceAction`]: ({ f }) => ({ shop: f.shop, toleranceKind: "custom", tolerancePercent: "ten" }),
+  [`${SETTINGS}#saveDigestAction`]: ({ f }) => ({ shop: f.shop, digestWindowMinutes: "15" }),
   [`${SPECS}#saveBenchSettingsAction`]: ({ f }) => ({ shop: f.shop, torqueUnit: "nm", passes: "30, 60, 100", chainLimitPct: "3", clipMaxMinutes: "10", clipMaxGb: "2", ownerWaitDays: "3" }),
   ["app/unsubscribe/[token]/actions.ts#unsubscribeAction"]: () => ({ token: "access-test" }),
+  // Staff accounts (issue 16 §3): an invitation to someone already on the staff (409), people and
+  // invitations that don't exist (404), a wrong current password, tokens that aren't any link's.
+  ["app/(staff)/shop/[shop]/staff/actions.ts#inviteStaffAction"]: ({ f }) => ({ shop: f.shop, email: "dana@coppergulch.test", name: "Access Test", role: "technician" }),
+  ["app/(staff)/shop/[shop]/staff/actions.ts#changeStaffRoleAction"]: ({ f }) => ({ shop: f.shop, user: NO_ROW, role: "technician" }),
+  ["app/(staff)/shop/[shop]/staff/actions.ts#deactivateStaffAction"]: ({ f }) => ({ shop: f.shop, user: NO_ROW }),
+  ["app/(staff)/shop/[shop]/staff/actions.ts#reactivateStaffAction"]: ({ f }) => ({ shop: f.shop, user: NO_ROW }),
+  ["app/(staff)/shop/[shop]/staff/actions.ts#revokeInviteAction"]: ({ f }) => ({ shop: f.shop, invite: NO_ROW }),
+  ["app/(staff)/shop/[shop]/account/actions.ts#changeOwnPasswordAction"]: () => ({ current: "not-the-password", password: "access test passphrase" }),
+  ["app/(auth)/join/actions.ts#acceptInviteAction"]: () => ({ token: "A".repeat(43), name: "Access Test", password: "access test passphrase" }),
+  ["app/(auth)/sign-in/password-actions.ts#requestPasswordResetAction"]: ({ f, persona }) => ({ email: `nobody.${f.run}.${persona.toLowerCase()}@access.test` }),
+  ["app/(auth)/sign-in/password-actions.ts#resetPasswordAction"]: () => ({ token: "A".repeat(43), password: "access test passphrase" }),
+  // A new shop (issue 16 §1): a reserved address, refused beside its field before anything is
+  // written or mailed; a confirmation token that is no sign-up's (404 from the handler, not the wrapper).
+  ["app/(auth)/start/actions.ts#startShopAction"]: ({ f, persona }) => ({
+    shopName: "Access Test Shop",
+    slug: "admin",
+    timezone: "UTC",
+    currency: "USD",
+    ownerName: "Access Test",
+    email: `nobody.${f.run}.${persona.toLowerCase()}@access.test`,
+    password: "access test passphrase",
+  }),
+  ["app/(auth)/start/actions.ts#confirmShopAction"]: () => ({ token: "A".repeat(43), password: "access test passphrase" }),
+  // A booking request (issue 16 §6) with a ticket no page signed: refused before anything is written.
+  ["app/(public)/s/[shop]/booking-actions.ts#requestBookingAction"]: ({ persona }) => ({
+    shop: "copper-gulch",
+    ticket: "A".repeat(40),
+    name: "Access Test",
+    email: `booking.${persona.toLowerCase()}@access.test`,
+    machine: "Access test machine",
+    work: "Access test: nothing to do",
+  }),
 };

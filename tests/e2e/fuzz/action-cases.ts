@@ -20,6 +20,16 @@ export const PUBLIC_BREAKERS: Record<string, ((rng: Rng) => Record<string, strin
   signInWithLink: (rng) => ({ token: rng.pick([rng.string(42), rng.string(44), `${rng.string(42)}!`, "", "x".repeat(10_000)]) }),
   // Over the 200 characters the schema allows.
   unsubscribeAction: (rng) => ({ token: "x".repeat(201 + rng.int(20_000)) }),
+  // Staff accounts (issue 16 §3): a token of the wrong shape, an address with no @, a current password over the cap.
+  acceptInviteAction: (rng) => ({ token: rng.pick([rng.string(42), rng.string(44), `${rng.string(42)}!`, ""]) }),
+  resetPasswordAction: (rng) => ({ token: rng.pick([rng.string(42), rng.string(44), `${rng.string(42)}!`, ""]) }),
+  requestPasswordResetAction: (rng) => ({ email: noAt(rng) }),
+  changeOwnPasswordAction: (rng) => ({ current: "x".repeat(401 + rng.int(5_000)) }),
+  // A new shop (issue 16 §1): an address with no @; a confirmation token of the wrong shape.
+  startShopAction: (rng) => ({ email: noAt(rng) }),
+  confirmShopAction: (rng) => ({ token: rng.pick([rng.string(42), rng.string(44), `${rng.string(42)}!`, ""]) }),
+  // A booking request from the public page (issue 16 §6): an address with no @.
+  requestBookingAction: (rng) => ({ email: noAt(rng) }),
   // Any form at all is valid for these: they get broken envelopes only.
   signOutAction: null,
   signOutEverywhereAction: null,

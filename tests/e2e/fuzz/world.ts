@@ -25,6 +25,8 @@ const RESOLVER_FIELDS: Record<string, string[]> = {
   deposit: ["deposit"],
   photo: ["photo"],
   clip: ["clip"],
+  customer: ["shop", "customer"],
+  machine: ["shop", "machine"],
 };
 
 /** The kind of id a path param or form field holds, by its name. */
@@ -35,7 +37,7 @@ export function idKind(name: string, where: "path" | "form"): IdKind | null {
   if (name === "shop") return "shop";
   if (name === "story") return where === "path" ? "storySlug" : "row";
   if (name === "number") return "number";
-  if (["entry", "finding", "step", "part", "line", "payment", "spec", "id", "subscriber", "customerId", "machineId", "technicianId"].includes(name)) return "row";
+  if (["entry", "finding", "step", "part", "line", "payment", "spec", "id", "subscriber", "customerId", "machineId", "technicianId", "customer", "machine", "duplicate"].includes(name)) return "row";
   if (name === "token") return "token";
   if (name === "size") return "size";
   if (name === "file") return "file";
@@ -81,6 +83,8 @@ export async function loadWorld(db: mysql.Connection): Promise<World> {
     story: await of("stories", "id"),
     storySlug: await of("stories", "slug"),
     shop: [DEMO_SHOP],
+    // The demo shop's customers (their page bundles the customer actions); a stranger is refused by the shop.
+    customer: await column(db, `SELECT id FROM customers WHERE shop_id = ${Number(shop.id)} ORDER BY id LIMIT 40`),
   };
   const taken = new Set<string>();
   for (const [table, col] of [["jobs", "public_id"], ["approval_requests", "public_id"], ["invoices", "public_id"], ["deposit_requests", "public_id"], ["photos", "public_id"], ["clips", "public_id"], ["shops", "slug"], ["stories", "slug"]]) {
@@ -124,7 +128,7 @@ export function targetsOf(scan: DeclarationScan, manifest: Map<string, ActionRef
   for (const decl of scan.handlers) {
     targets.push({ kind: "handler", id: declarationId(decl), decl, fields: decl.body === "json" ? (schemaFields(decl) ?? []) : [], queryFields: decl.query ? (schemaFields(decl, "query") ?? []) : [] });
   }
-  const pageValues: Record<string, string> = { shop: DEMO_SHOP, number: world.real.number![0]!, job: world.real.job![0]!, request: world.real.request?.[0] ?? "x", story: world.real.story?.[0] ?? "1", token: "fuzz" };
+  const pageValues: Record<string, string> = { shop: DEMO_SHOP, number: world.real.number![0]!, job: world.real.job![0]!, request: world.real.request?.[0] ?? "x", story: world.real.story?.[0] ?? "1", customer: world.real.customer?.[0] ?? "1", token: "fuzz" };
   for (const decl of scan.actions) {
     const ref = manifest.get(`${decl.file}#${decl.name}`);
     if (!ref) throw new Error(`fuzz: ${declarationId(decl)} is not in the build's server-reference manifest`);

@@ -1,4 +1,5 @@
 "use client";
+import Link from "next/link";
 import { useActionState } from "react";
 import { Button, Field, Input } from "@/components/ui";
 import { signInWithPassword } from "../actions";
@@ -20,6 +21,11 @@ export function StaffSignInForm({ next }: { next?: string }) {
       <Button type="submit" loading={pending} fullWidth>
         Sign in
       </Button>
+      <p className="text-sm">
+        <Link href="/sign-in/forgot" className="inline-flex min-h-tap items-center font-semibold text-oil underline underline-offset-2 hover:no-underline">
+          Forgot your password?
+        </Link>
+      </p>
     </form>
   );
 }

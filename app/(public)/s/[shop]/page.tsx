@@ -4,11 +4,15 @@ import { notFound } from "next/navigation";
 import { cache } from "react";
 import clsx from "clsx";
 import { Wrench } from "lucide-react";
+import { OpeningHours } from "@/components/portfolio/opening-hours";
 import { ShopContactList } from "@/components/portfolio/shop-contact";
+import { StoryPlaceholder } from "@/components/portfolio/story-placeholder";
 import { EmptyState } from "@/components/ui";
 import { MACHINE_KIND_LABEL, type MachineKind } from "@/lib/machine";
 import { type PublicStoryCard, storyPath } from "@/lib/portfolio";
+import { publicFaceFor } from "@/lib/server/booking";
 import { getPublicShopPage, parseKind } from "@/lib/server/portfolio-public";
+import { BookingForm } from "./_components/booking-form";
 
 // The shop's public page: who they are, where (as they choose to say it), how to reach them, and
 // their finished-job stories, filterable by kind of machine. Rendered per request from a couple of
@@ -35,8 +39,8 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
 export default async function ShopPortfolioPage({ params, searchParams }: Props) {
   const { shop: slug } = await params;
   const kind = parseKind((await searchParams).kind);
-  const page = await load(slug, kind);
-  if (!page) notFound();
+  const [page, face] = await Promise.all([load(slug, kind), publicFaceFor(slug)]);
+  if (!page || !face) notFound();
   const { shop } = page;
   return (
     <main id="main" tabIndex={-1} className="mx-auto max-w-5xl space-y-8 px-4 py-8">
@@ -48,9 +52,26 @@ export default async function ShopPortfolioPage({ params, searchParams }: Props)
         <div className="min-w-0 space-y-3">
           <h1 className="text-3xl font-extrabold leading-tight text-ink sm:text-4xl">{shop.name}</h1>
           {shop.about ? <p className="max-w-prose whitespace-pre-line text-lg text-ink">{shop.about}</p> : null}
+          {shop.takesIn ? (
+            <div className="max-w-prose">
+              <h2 className="text-sm font-semibold uppercase tracking-wide text-oil">What we take in</h2>
+              <p className="whitespace-pre-line text-ink">{shop.takesIn}</p>
+            </div>
+          ) : null}
           <ShopContactList shop={shop} label="How to find and reach the shop" />
         </div>
       </header>
+
+      <div className="grid gap-8 md:grid-cols-[auto_1fr]">
+        <OpeningHours hours={face.openingHours} timezone={face.timezone} />
+        <section aria-labelledby="booking-heading" className="relative max-w-2xl space-y-3">
+          <h2 id="booking-heading" className="text-xl font-bold text-ink">
+            Ask for a booking
+          </h2>
+          <p className="text-ink-muted">Tell the shop about your machine; they answer by e-mail or phone.</p>
+          <BookingForm shop={shop.slug} ticket={face.ticket} />
+        </section>
+      </div>
 
       <section aria-labelledby="stories-heading" className="space-y-4">
         <h2 id="stories-heading" className="text-2xl font-bold text-ink">
@@ -61,7 +82,7 @@ export default async function ShopPortfolioPage({ params, searchParams }: Props)
           <ul className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
             {page.stories.map((s) => (
               <li key={s.slug}>
-                <StoryCard shop={shop.slug} story={s} />
+                <StoryCard shop={shop.slug} shopName={shop.name} story={s} />
               </li>
             ))}
           </ul>
@@ -101,16 +122,14 @@ function KindFilter({ slug, kinds, current }: { slug: string; kinds: MachineKind
   );
 }
 
-function StoryCard({ shop, story }: { shop: string; story: PublicStoryCard }) {
+function StoryCard({ shop, shopName, story }: { shop: string; shopName: string; story: PublicStoryCard }) {
   return (
     <article className="flex h-full flex-col overflow-hidden rounded-xl border border-line bg-surface shadow-sm">
       {story.cover ? (
         // eslint-disable-next-line @next/next/no-img-element -- served by the story's own photo route
         <img src={story.cover.thumbUrl} alt="" width={story.cover.width} height={story.cover.height} loading="lazy" className="aspect-[4/3] w-full bg-sunken object-cover" />
       ) : (
-        <div aria-hidden className="flex aspect-[4/3] w-full items-center justify-center bg-sunken text-ink-muted">
-          <Wrench className="size-10" />
-        </div>
+        <StoryPlaceholder id={story.slug} shopName={shopName} />
       )}
       <div className="flex flex-1 flex-col gap-2 p-4">
         <p className="text-sm font-semibold uppercase tracking-wide text-oil">{story.machine.kindLabel}</p>

@@ -19,9 +19,13 @@ export default async function ShopLayout({ children, params }: { children: React
     { href: base, label: "Jobs" },
     { href: `${base}/inbox`, label: "Inbox", badge: <InboxBadge shopSlug={shop.slug} initial={unread} /> },
     ...(can(actor, "job:check-in", here) ? [{ href: `${base}/jobs/new`, label: "Check in" }] : []),
+    ...(can(actor, "customer:view", here) ? [{ href: `${base}/customers`, label: "Customers" }] : []),
     { href: `${base}/specs`, label: "Shop specs" },
     ...(can(actor, "portfolio:curate", here) ? [{ href: `${base}/portfolio`, label: "Portfolio" }] : []),
     ...(can(actor, "outbox:manage", here) ? [{ href: `${base}/outbox`, label: "Outgoing mail" }] : []),
+    ...(can(actor, "shop:manage-settings", here) ? [{ href: `${base}/settings`, label: "Settings" }] : []),
+    ...(can(actor, "shop:manage-staff", here) ? [{ href: `${base}/staff`, label: "Staff" }] : []),
+    { href: `${base}/account`, label: "Your account" },
   ];
   // Every staff page of the shop listens to the shop's live stream, once (components/live-updates.tsx).
   const since = await latestEventId();

@@ -10,6 +10,7 @@ import { OwnerTimeline } from "./_components/owner-timeline";
 import { LiveJobUpdates } from "@/components/live-updates";
 import { latestEventId } from "@/db/queries/shop-events";
 import { OwedDecisions } from "./_components/owed-decisions";
+import { DropoffNotice } from "./_components/dropoff-notice";
 import { FollowingCard } from "./_components/following-card";
 import { getReassemblyProgress } from "@/db/queries/bench";
 import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
@@ -58,6 +59,7 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
         back={{ href: "/my", label: "My machines" }}
       />
       <OwedDecisions actor={actor} job={job} />
+      <DropoffNotice actor={actor} job={job} resource={resource} timeZone={timeZone} />
       <OwnerInvoiceCard actor={actor} job={job} resource={resource} />
       <PortfolioConsentNotice actor={actor} job={job} resource={resource} />
       <Card as="section" title="Where it stands" headingId="where-it-stands">

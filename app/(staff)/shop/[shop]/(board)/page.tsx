@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { listJobs } from "@/db/queries/jobs";
 import { listShopTechnicians } from "@/db/queries/shops";
+import { readFirstRun } from "@/db/queries/shop-signup";
 import { ClipboardPlus } from "lucide-react";
 import { Alert, ButtonLink, PageHeader } from "@/components/ui";
 import { shopToday, toBoardRow } from "@/lib/jobs-view";
@@ -8,6 +9,7 @@ import { can } from "@/lib/permissions";
 import { jobListQuerySchema } from "@/lib/schemas/jobs";
 import { searchParamsObject } from "@/lib/route";
 import { shopPageAccess } from "../shop-access";
+import { FirstRunChecklist } from "./_components/first-run";
 import { JobBoard } from "./_components/job-board";
 
 export const metadata: Metadata = { title: "Jobs" };
@@ -25,6 +27,9 @@ export default async function JobBoardPage({ params, searchParams }: Props) {
   const today = shopToday(shop.timezone);
   const [page, technicians] = await Promise.all([listJobs({ shopId: shop.id, query, today }), listShopTechnicians({ shopId: shop.id })]);
   const checkInHref = can(actor, "job:check-in", { shopId: shop.id }) ? `/shop/${shop.slug}/jobs/new` : null;
+  // Owners see the first-run checklist until its steps are done.
+  const firstRun = can(actor, "shop:manage-settings", { shopId: shop.id }) ? await readFirstRun({ shopId: shop.id }) : null;
+  const showFirstRun = firstRun && !(firstRun.labourRate && firstRun.staff && firstRun.firstJob);
 
   return (
     <div className="space-y-4">
@@ -39,6 +44,7 @@ export default async function JobBoardPage({ params, searchParams }: Props) {
           ) : null
         }
       />
+      {showFirstRun ? <FirstRunChecklist shopSlug={shop.slug} done={firstRun} /> : null}
       {parsed.success ? null : <Alert tone="warning">Some filters in the address were not understood and were reset.</Alert>}
       <JobBoard
         shopSlug={shop.slug}

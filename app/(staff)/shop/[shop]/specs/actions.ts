@@ -20,8 +20,10 @@ export const deleteSpecAction = formAction({ input: specDeleteSchema, resource: 
 
 export const saveBenchSettingsAction = formAction(
   { input: benchSettingsSchema, resource: "shop", permission: "shop:manage-settings" },
-  async ({ input, found }) => {
-    const { shop } = await updateBenchSettings(found, input);
+  async ({ input, actor, found }) => {
+    const { shop } = await updateBenchSettings(found, input, actor);
+    // The form is on the settings page; the specs page shows values in the chosen unit.
+    revalidatePath(`/shop/${shop.slug}/settings`);
     revalidatePath(`/shop/${shop.slug}/specs`);
     return { saved: true };
   },

@@ -1,15 +1,14 @@
 import type { Metadata } from "next";
 import { BookOpen } from "lucide-react";
+import Link from "next/link";
 import { Card, EmptyState, PageHeader, Table, TBody, TD, TH, THead, TR } from "@/components/ui";
 import { getBenchSettings } from "@/db/queries/bench";
-import { getClipLimits } from "@/db/queries/clips";
 import { type SpecRow, listShopMachineModels, listSpecs } from "@/db/queries/bench-specs";
 import { SPEC_KIND_LABEL, limitText, plainNumber, torqueText } from "@/lib/bench";
 import { can } from "@/lib/permissions";
 import { type TorqueUnit, isTorqueUnit } from "@/lib/torque";
 import { shopPageAccess } from "../shop-access";
 import { DeleteSpecButton } from "./_components/delete-spec-button";
-import { SettingsForm } from "./_components/settings-form";
 import { SpecForm } from "./_components/spec-form";
 
 export const metadata: Metadata = { title: "Shop specs" };
@@ -87,9 +86,13 @@ export default async function SpecsPage({ params }: { params: Promise<{ shop: st
         </Card>
       ) : null}
       {can(actor, "shop:manage-settings", { shopId: shop.id }) ? (
-        <Card as="section" title="Bench, clip and board settings" headingId="bench-settings">
-          <SettingsForm shopSlug={shop.slug} settings={settings} clipLimits={await getClipLimits({ shopId: shop.id })} ownerWaitDays={shop.ownerWaitDays} />
-        </Card>
+        <p>
+          The torque unit, pass schedule, chain limit and clip limits are in the{" "}
+          <Link className="font-semibold text-oil underline" href={`/shop/${shop.slug}/settings#bench-settings`}>
+            shop settings
+          </Link>
+          .
+        </p>
       ) : null}
     </div>
   );

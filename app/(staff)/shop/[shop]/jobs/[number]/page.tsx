@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import Link from "next/link";
 import { jobFacts } from "@/db/queries/workflow";
 import { WAITING_ON_LABEL, waitingOn } from "@/lib/job-workflow";
 import { getClipLimits } from "@/db/queries/clips";
@@ -11,6 +12,7 @@ import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
 import { staffJobPage } from "@/lib/server/page-access";
 import { ApprovalsPanel } from "./_components/approvals-panel";
+import { DropoffCard } from "./_components/dropoff-card";
 import { JobJournal } from "./_components/job-journal";
 import { PortfolioJobCard } from "../../portfolio/_components/job-card";
 
@@ -51,7 +53,26 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
             <dt className="text-ink-muted">Technician</dt>
             <dd>{job.technician?.name ?? "Unassigned"}</dd>
             <dt className="text-ink-muted">Owner</dt>
-            <dd>{job.customerName}</dd>
+            <dd>
+              {/* The owner's and the machine's pages: contact details and the machine's history across jobs. */}
+              {can(actor, "customer:view", resource) ? (
+                <Link href={`/shop/${shop.slug}/customers/${job.customerId}`} className="inline-flex min-h-tap items-center font-semibold text-oil underline underline-offset-2 hover:no-underline">
+                  {job.customerName}
+                </Link>
+              ) : (
+                job.customerName
+              )}
+            </dd>
+            <dt className="text-ink-muted">Machine</dt>
+            <dd>
+              {can(actor, "customer:view", resource) ? (
+                <Link href={`/shop/${shop.slug}/machines/${job.machineId}`} className="inline-flex min-h-tap items-center font-semibold text-oil underline underline-offset-2 hover:no-underline">
+                  {describeMachine(job.machine)}: history
+                </Link>
+              ) : (
+                describeMachine(job.machine)
+              )}
+            </dd>
             <dt className="text-ink-muted">Serial / VIN</dt>
             <dd>{job.machine.serial ?? "Not recorded"}</dd>
           </dl>
@@ -66,6 +87,7 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
           ) : null}
         </Card>
       </div>
+      <DropoffCard actor={actor} resource={resource} job={job} currency={shop.currency} timeZone={shop.timezone} />
       <ApprovalsPanel actor={actor} job={job} basePath={`/shop/${shop.slug}/jobs/${job.number}`} timeZone={shop.timezone} />
       <JobJournal
         jobPublicId={job.publicId}

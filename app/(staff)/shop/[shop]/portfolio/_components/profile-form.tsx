@@ -18,6 +18,9 @@ export function ProfileForm({ shopSlug, profile, logoUrl }: { shopSlug: string; 
       <Field id="profile-about" label="About the shop" hint="A few sentences: what you work on, how you like to work." error={form.fieldError("about")}>
         <Textarea name="about" defaultValue={v?.about ?? profile.about ?? ""} maxLength={2000} rows={5} />
       </Field>
+      <Field id="profile-takes-in" label="What you take in" hint="Kinds of machines and work, e.g. “ATVs, dirt bikes and sleds; engine and suspension work, no bodywork”." error={form.fieldError("takesIn")}>
+        <Textarea name="takesIn" defaultValue={v?.takesIn ?? profile.takesIn ?? ""} maxLength={600} rows={3} />
+      </Field>
       <Field id="profile-location" label="Location, as you want it shown" hint="A town, a neighbourhood or a full address: your choice." error={form.fieldError("locationText")}>
         <Input name="locationText" defaultValue={v?.locationText ?? profile.locationText ?? ""} maxLength={200} />
       </Field>

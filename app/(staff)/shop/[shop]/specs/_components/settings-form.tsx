@@ -2,6 +2,7 @@
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { Button, Field, Input, Select } from "@/components/ui";
 import type { BenchSettings } from "@/lib/bench";
+import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 import { TORQUE_UNITS } from "@/lib/torque";
 import { saveBenchSettingsAction } from "../actions";
 
@@ -17,7 +18,7 @@ export function SettingsForm({
   clipLimits: { maxSeconds: number; maxBytes: number };
   ownerWaitDays: number;
 }) {
-  const form = useBenchForm(saveBenchSettingsAction);
+  const form = useBenchForm(saveBenchSettingsAction, { visible: FORM_FIELDS.benchSettings.visible });
   const { values, fieldError } = form;
   return (
     <form action={form.formAction} className="space-y-4">

@@ -8,6 +8,7 @@ import { formatMoney } from "@/lib/money";
 import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
 import { invoiceView } from "@/lib/server/invoice-views";
+import { labourRateChoices } from "@/lib/server/shop-settings";
 import { staffJobPage } from "@/lib/server/page-access";
 import { AddLineForm, CreateInvoiceButton, DetailsForm, IssueForm, RemoveLineButton, SyncButton, VoidForm } from "./_components/draft-forms";
 import { DepositsCard } from "./_components/deposits-card";
@@ -76,7 +77,7 @@ export default async function StaffInvoicePage({ params }: Props) {
             <IssueForm refs={refs} blocked={inv.flaggedCount ? "Remove the flagged lines (or get them approved) before issuing." : null} to="The owner gets it by e-mail and can pay online." />
             <section aria-labelledby="add-line-heading" className="space-y-2">
               <h3 id="add-line-heading" className="text-lg font-bold text-ink">Add a line</h3>
-              <AddLineForm refs={refs} currency={view.currency} />
+              <AddLineForm refs={refs} currency={view.currency} rates={await labourRateChoices(shop.id, view.currency)} />
             </section>
             <section aria-labelledby="details-heading" className="space-y-2">
               <h3 id="details-heading" className="text-lg font-bold text-ink">Discount and notes</h3>

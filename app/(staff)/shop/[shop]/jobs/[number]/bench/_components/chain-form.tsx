@@ -6,6 +6,7 @@ import { CHAIN_PITCHES, chainCheck } from "@/lib/chain-wear";
 import { formatFixed } from "@/lib/rounding";
 import { recordChainAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 
 const num = (s: string) => (/^\d+(?:[.,]\d+)?$/.test(s.trim()) ? Number(s.trim().replace(",", ".")) : null);
 
@@ -20,7 +21,7 @@ function preview(pitchMm: number | null, pitches: number | null, measuredMm: num
 
 /** Chain wear over N pitches: elongation and verdict as the numbers are typed, then logged as a reading. */
 export function ChainForm({ jobPublicId, defaultLimitPct }: { jobPublicId: string; defaultLimitPct: number }) {
-  const form = useBenchForm(recordChainAction);
+  const form = useBenchForm(recordChainAction, { visible: FORM_FIELDS.chainReading.visible });
   const { fieldError } = form;
   const [size, setSize] = useState<string>("#520");
   const [pitch, setPitch] = useState(String(CHAIN_PITCHES["#520"]));

@@ -3,6 +3,7 @@ import { Button, Field, Input, Select } from "@/components/ui";
 import { PART_STATUSES, PART_STATUS_LABEL } from "@/lib/bench";
 import { addPartAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 import type { FindingClearance } from "@/db/queries/workflow";
 
 const CLEARANCE_LABEL: Record<FindingClearance["state"], string> = {
@@ -14,7 +15,7 @@ const CLEARANCE_LABEL: Record<FindingClearance["state"], string> = {
 
 /** Adds a part to the job; a part still to come parks a job in progress on "waiting on parts". */
 export function PartForm({ jobPublicId, currency, findings }: { jobPublicId: string; currency: string; findings: FindingClearance[] }) {
-  const form = useBenchForm(addPartAction);
+  const form = useBenchForm(addPartAction, { visible: FORM_FIELDS.part.visible });
   const { values, fieldError } = form;
   return (
     <form action={form.formAction} className="space-y-4">

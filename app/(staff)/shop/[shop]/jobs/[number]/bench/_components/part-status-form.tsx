@@ -3,10 +3,11 @@ import { Button, Field, Input, Select } from "@/components/ui";
 import { PART_STATUSES, PART_STATUS_LABEL, type PartStatus, USUAL_NEXT_PART_STATUS } from "@/lib/bench";
 import { changePartStatusAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 
 /** Moves one part along (the status it was in is sent, so two people at once give one change). */
 export function PartStatusForm({ jobPublicId, partId, status, description }: { jobPublicId: string; partId: number; status: PartStatus; description: string }) {
-  const form = useBenchForm(changePartStatusAction);
+  const form = useBenchForm(changePartStatusAction, { visible: FORM_FIELDS.partStatus.visible });
   const next = PART_STATUSES.filter((s) => s !== status);
   const id = (name: string) => `part-${partId}-${name}`;
   return (

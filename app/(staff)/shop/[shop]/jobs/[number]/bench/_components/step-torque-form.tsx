@@ -3,12 +3,13 @@ import { Button, Field, Input, Select } from "@/components/ui";
 import { TORQUE_UNITS, type TorqueUnit } from "@/lib/torque";
 import { setStepTorqueAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 
 type Current = { value: number; unit: TorqueUnit; boltCount: number | null } | null;
 
 /** The torque a teardown step's fasteners go back on with; shown on the reassembly checklist. */
 export function StepTorqueForm({ jobPublicId, stepId, current, shopUnit }: { jobPublicId: string; stepId: number; current: Current; shopUnit: TorqueUnit }) {
-  const form = useBenchForm(setStepTorqueAction);
+  const form = useBenchForm(setStepTorqueAction, { visible: FORM_FIELDS.stepTorque.visible });
   const { values, fieldError } = form;
   const id = (name: string) => `step-${stepId}-${name}`;
   return (

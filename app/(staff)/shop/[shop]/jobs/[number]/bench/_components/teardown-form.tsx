@@ -2,10 +2,11 @@
 import { Button, Field, Input, Select, Textarea } from "@/components/ui";
 import { addTeardownStepAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 
 /** Logs the next thing that came off; steps number themselves in removal order. */
 export function TeardownForm({ jobPublicId, nextSeq, photos }: { jobPublicId: string; nextSeq: number; photos: { id: string; caption: string | null }[] }) {
-  const form = useBenchForm(addTeardownStepAction);
+  const form = useBenchForm(addTeardownStepAction, { visible: FORM_FIELDS.teardownStep.visible });
   const { values, fieldError } = form;
   return (
     <form action={form.formAction} className="space-y-4">

@@ -4,6 +4,7 @@ import { useState } from "react";
 import { ActionButton, FormError, useBenchForm } from "@/components/bench/action-form";
 import { Alert, Button, Field, Input, Select, Textarea } from "@/components/ui";
 import { LINE_KINDS, LINE_KIND_LABEL, type LineKind } from "@/lib/approvals";
+import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 import { formKey } from "./form-key";
 import { addLineAction, createInvoiceAction, draftDetailsAction, issueInvoiceAction, removeLineAction, syncAuthorisedAction, voidInvoiceAction } from "../actions";
 
@@ -41,8 +42,11 @@ export function RemoveLineButton({ refs, lineId, description }: { refs: Ref; lin
   );
 }
 
-export function AddLineForm({ refs, currency }: { refs: Ref; currency: string }) {
-  const form = useBenchForm(addLineAction);
+/** The shop's labour rates as typed text: its default (null until the owner sets one) and the named ones. */
+export type RateChoices = { defaultRate: string | null; named: { name: string; rate: string }[] };
+
+export function AddLineForm({ refs, currency, rates }: { refs: Ref; currency: string; rates: RateChoices }) {
+  const form = useBenchForm(addLineAction, { visible: FORM_FIELDS.addLine.visible });
   const [kind, setKind] = useState<LineKind>("part");
   const { values, fieldError } = form;
   return (
@@ -50,7 +54,7 @@ export function AddLineForm({ refs, currency }: { refs: Ref; currency: string })
       <Hidden fields={hidden(refs)} />
       <FormError message={form.formError} />
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field id="line-kind" label="Kind">
+        <Field id="line-kind" label="Kind" error={fieldError("kind")}>
           <Select name="kind" value={kind} onChange={(e) => setKind(e.target.value as LineKind)}>
             {LINE_KINDS.map((k) => (
               <option key={k} value={k}>
@@ -76,9 +80,21 @@ export function AddLineForm({ refs, currency }: { refs: Ref; currency: string })
             <Field id="line-hours" label="Hours" error={fieldError("hours")}>
               <Input name="hours" inputMode="decimal" defaultValue={values?.hours} maxLength={8} />
             </Field>
-            <Field id="line-rate" label={`Rate per hour (${currency})`} hint="Leave empty for the shop's rate" error={fieldError("rate")}>
-              <Input name="rate" inputMode="decimal" defaultValue={values?.rate} maxLength={16} />
+            <Field
+              id="line-rate"
+              label={`Rate per hour (${currency})`}
+              hint={rates.defaultRate ? `Leave empty for the shop's rate, ${rates.defaultRate}` : "The shop has no default rate yet: type the rate"}
+              error={fieldError("rate")}
+            >
+              <Input name="rate" inputMode="decimal" defaultValue={values?.rate} maxLength={16} list={rates.named.length ? "line-rate-named" : undefined} />
             </Field>
+            {rates.named.length ? (
+              <datalist id="line-rate-named">
+                {rates.named.map((r) => (
+                  <option key={r.name} value={r.rate} label={r.name} />
+                ))}
+              </datalist>
+            ) : null}
           </>
         ) : (
           <Field id="line-amount" label={`Amount (${currency})`} error={fieldError("amount")}>
@@ -87,9 +103,14 @@ export function AddLineForm({ refs, currency }: { refs: Ref; currency: string })
         )}
       </div>
       <label className="flex min-h-tap items-center gap-2">
-        <input type="checkbox" name="taxable" defaultChecked={kind === "part"} key={kind} className="size-5" />
+        <input type="checkbox" name="taxable" defaultChecked={kind === "part"} key={kind} className="size-5" aria-describedby={fieldError("taxable") ? "line-taxable-error" : undefined} />
         Taxable
       </label>
+      {fieldError("taxable") ? (
+        <p id="line-taxable-error" className="text-sm font-medium text-rust">
+          {fieldError("taxable")}
+        </p>
+      ) : null}
       <p className="text-sm text-ink-muted">A line that takes the total past what the owner authorised (plus the shop&apos;s tolerance) is flagged and not charged: it needs a new approval.</p>
       <Button type="submit" variant="secondary" loading={form.pending}>
         Add the line
@@ -99,14 +120,14 @@ export function AddLineForm({ refs, currency }: { refs: Ref; currency: string })
 }
 
 export function DetailsForm({ refs, currency, discount, returnedPartsNote, note }: { refs: Ref; currency: string; discount: { kind: "none" | "amount" | "percent"; value: string }; returnedPartsNote: string | null; note: string | null }) {
-  const form = useBenchForm(draftDetailsAction);
+  const form = useBenchForm(draftDetailsAction, { visible: FORM_FIELDS.draftDetails.visible });
   const { values, fieldError } = form;
   return (
     <form key={formKey(form.state, refs.version)} action={form.formAction} className="space-y-3" aria-label="Discount and notes">
       <Hidden fields={hidden(refs)} />
       <FormError message={form.formError} />
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field id="discount-kind" label="Discount">
+        <Field id="discount-kind" label="Discount" error={fieldError("discountKind")}>
           <Select name="discountKind" defaultValue={values?.discountKind ?? discount.kind}>
             <option value="none">No discount</option>
             <option value="amount">An amount ({currency})</option>
@@ -132,13 +153,13 @@ export function DetailsForm({ refs, currency, discount, returnedPartsNote, note 
 }
 
 export function IssueForm({ refs, blocked, to }: { refs: Ref; blocked: string | null; to: string }) {
-  const form = useBenchForm(issueInvoiceAction);
+  const form = useBenchForm(issueInvoiceAction, { visible: FORM_FIELDS.issue.visible });
   const [confirming, setConfirming] = useState(false);
   if (blocked) return <Alert tone="warning" title="Not ready to issue">{blocked}</Alert>;
   return (
     <form action={form.formAction} className="space-y-2">
       <Hidden fields={{ ...hidden(refs), confirmed: "yes" }} />
-      <FormError message={form.error?.message ?? null} />
+      <FormError message={form.formError} />
       {confirming ? (
         <div role="group" aria-label="Confirm issuing" className="flex flex-wrap items-center gap-2 rounded-lg bg-oil-soft p-3">
           <span className="flex-1 font-semibold text-ink">Issue the invoice? {to}</span>
@@ -159,7 +180,7 @@ export function IssueForm({ refs, blocked, to }: { refs: Ref; blocked: string | 
 }
 
 export function VoidForm({ refs }: { refs: Ref }) {
-  const form = useBenchForm(voidInvoiceAction);
+  const form = useBenchForm(voidInvoiceAction, { visible: FORM_FIELDS.void.visible });
   const [open, setOpen] = useState(false);
   if (!open) {
     return (

@@ -2,6 +2,7 @@
 import { HandCoins, Undo2 } from "lucide-react";
 import { useState } from "react";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 import { Alert, Button, Field, Input, Select } from "@/components/ui";
 import { COUNTER_METHODS, PAYMENT_METHOD_LABEL } from "@/lib/invoices";
 import { formKey } from "./form-key";
@@ -30,7 +31,7 @@ function MethodFields({ id, values, fieldError }: { id: string; values?: Record<
 }
 
 export function RecordPaymentForm({ invoice, balance, currency }: { invoice: string; balance: string; currency: string }) {
-  const form = useBenchForm(recordPaymentAction);
+  const form = useBenchForm(recordPaymentAction, { visible: FORM_FIELDS.recordPayment.visible });
   return (
     <form key={formKey(form.state, balance)} action={form.formAction} className="space-y-3" aria-label="Record a payment at the counter">
       <input type="hidden" name="invoice" value={invoice} />
@@ -50,7 +51,7 @@ export function RecordPaymentForm({ invoice, balance, currency }: { invoice: str
 }
 
 export function RequestDepositForm({ job, currency, requests }: { job: string; currency: string; requests: { publicId: string; title: string }[] }) {
-  const form = useBenchForm(requestDepositAction);
+  const form = useBenchForm(requestDepositAction, { visible: FORM_FIELDS.requestDeposit.visible });
   return (
     <form key={formKey(form.state)} action={form.formAction} className="space-y-3" aria-label="Ask for a parts deposit">
       <input type="hidden" name="job" value={job} />
