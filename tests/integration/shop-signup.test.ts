@@ -117,6 +117,23 @@ describe("a new shop signs up", () => {
   });
 });
 
+describe("an address known as a machine owner", () => {
+  it("an account with no password (link sign-in only) takes the password chosen on the form, and becomes the owner", async () => {
+    const email = "rider@signup.test";
+    await db("users").insert({ email, name: "Rider Only" });
+    await startShop({ input: form({ slug: "rider-garage", email }), ip: freshIp() });
+    const token = await tokenFor(email);
+    expect(await viewShopSignup({ token })).toMatchObject({ ok: true, existingAccount: false });
+    await confirmShop({ token, password: PASSWORD, ip: freshIp() });
+    const user = await db("users").where({ email }).first("id", "name");
+    // The name they had stays; the password now signs them in as the shop's owner.
+    expect(user?.name).toBe("Rider Only");
+    expect((await checkPassword({ email, password: PASSWORD, ip: freshIp() })).id).toBe(user!.id);
+    const shop = await db("shops").where({ slug: "rider-garage" }).first("id");
+    expect(await db("memberships").where({ shop_id: shop!.id, user_id: user!.id }).first("role")).toEqual({ role: "owner" });
+  });
+});
+
 describe("refusals", () => {
   it("a taken address is refused beside the slug field, and nothing is stored or mailed", async () => {
     await makeShop(db, { label: "taken" }).then((s) => db("shops").where({ id: s.id }).update({ slug: "taken-slug" }));

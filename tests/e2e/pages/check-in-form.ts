@@ -4,13 +4,13 @@ import { type Page, expect } from "@playwright/test";
 export class CheckInForm {
   constructor(private readonly page: Page) {}
 
-  async openFromBoard() {
-    await this.page.goto("/shop/copper-gulch");
+  async openFromBoard(shop = "copper-gulch") {
+    await this.page.goto(`/shop/${shop}`);
     // A click that lands while the board is still hydrating can be lost: click again until the
     // address changes, then look for the form.
     await expect(async () => {
       if (!/\/jobs\/new$/.test(this.page.url())) await this.page.getByRole("link", { name: "Check in a machine" }).click();
-      await this.page.waitForURL(/\/shop\/copper-gulch\/jobs\/new$/, { timeout: 5_000 });
+      await this.page.waitForURL(new RegExp(`/shop/${shop}/jobs/new$`), { timeout: 5_000 });
     }).toPass({ timeout: 30_000 });
     await expect(this.page.getByRole("heading", { level: 1, name: "Check in a machine" })).toBeVisible({ timeout: 20_000 });
   }
