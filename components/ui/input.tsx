@@ -34,3 +34,16 @@ export function Select({ className, children, ...rest }: SelectProps) {
     </div>
   );
 }
+
+/** One `<option>` per value, the value as its label: time zones, currency codes. */
+export function PlainOptions({ values }: { values: readonly string[] }) {
+  return (
+    <>
+      {values.map((v) => (
+        <option key={v} value={v}>
+          {v}
+        </option>
+      ))}
+    </>
+  );
+}

@@ -87,7 +87,8 @@ export async function applyJobEvent(tx: Knex.Transaction, p: JobKey & { userId: 
     userId: p.userId,
     note,
     cause: move.cause,
-    alert: status === "waiting_parts" && move.to !== "waiting_approval" ? "parts_in" : undefined,
+    // The owner hears at once that the parts are in, only when that is what moved the job.
+    alert: move.cause === "part_received" && move.to === "in_progress" ? "parts_in" : undefined,
   });
   if (!moved) return null;
   await recordEvent(tx, { shopId: p.shopId, jobId: p.jobId, kind: "status_moved", actorUserId: p.userId, ownerVisible: true, payload: { from: status, to: move.to, cause: move.cause } });

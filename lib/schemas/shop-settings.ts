@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { SUPPORTED_CURRENCIES, TOLERANCE_CHOICES, WEEKDAYS, isTimeZone } from "@/lib/shop-settings";
+import { SUPPORTED_CURRENCIES, TOLERANCE_CHOICES, WEEKDAYS, type Weekday, isTimeZone } from "@/lib/shop-settings";
 import { shopRef } from "./bench";
 
 // The shop settings page's forms, one per section (FormData, so everything arrives as text).
@@ -28,7 +28,33 @@ export const profileSettingsSchema = shopRef.extend({
 export type ProfileSettingsInput = z.output<typeof profileSettingsSchema>;
 
 /** Per weekday: `monClosed` (checkbox), `monOpen` and `monClose` ("HH:MM", needed unless closed). */
-const hoursShape = Object.fromEntries(WEEKDAYS.flatMap((d) => [[`${d}Closed`, checkbox], [`${d}Open`, time], [`${d}Close`, time]])) as Record<string, typeof checkbox | typeof time>;
+// Written out, so tools that read schemas from the source (the fuzz test) see every field; the
+// check below fails to compile when a weekday is missing.
+const hoursShape = {
+  monClosed: checkbox,
+  monOpen: time,
+  monClose: time,
+  tueClosed: checkbox,
+  tueOpen: time,
+  tueClose: time,
+  wedClosed: checkbox,
+  wedOpen: time,
+  wedClose: time,
+  thuClosed: checkbox,
+  thuOpen: time,
+  thuClose: time,
+  friClosed: checkbox,
+  friOpen: time,
+  friClose: time,
+  satClosed: checkbox,
+  satOpen: time,
+  satClose: time,
+  sunClosed: checkbox,
+  sunOpen: time,
+  sunClose: time,
+};
+const _everyDay: Record<`${Weekday}${"Closed" | "Open" | "Close"}`, unknown> = hoursShape;
+void _everyDay;
 const HHMM = /^([01]\d|2[0-3]):[0-5]\d$/;
 export const hoursSettingsSchema = shopRef.extend(hoursShape).superRefine((v, ctx) => {
   const values = v as Record<string, unknown>;
@@ -49,13 +75,22 @@ export const regionSettingsSchema = shopRef.extend({
 
 /** Named rates as numbered rows (`rateName0`, `rateAmount0`…); an empty row is left out. */
 export const LABOUR_RATE_ROWS = 5;
-const rateRows = Object.fromEntries(
-  Array.from({ length: LABOUR_RATE_ROWS }, (_, i) => [
-    [`rateName${i}`, z.string({ error: "Enter a name." }).trim().max(60, "Keep the name under 60 characters.").default("")],
-    [`rateAmount${i}`, typed],
-  ]).flat(),
-) as Record<string, typeof typed>;
-export const labourSettingsSchema = shopRef.extend({ defaultRate: typed, ...rateRows }).superRefine((v, ctx) => {
+const rateName = z.string({ error: "Enter a name." }).trim().max(60, "Keep the name under 60 characters.").default("");
+// Written out like the hours above; one name and one amount for each of LABOUR_RATE_ROWS rows.
+const rateRows = {
+  rateName0: rateName,
+  rateAmount0: typed,
+  rateName1: rateName,
+  rateAmount1: typed,
+  rateName2: rateName,
+  rateAmount2: typed,
+  rateName3: rateName,
+  rateAmount3: typed,
+  rateName4: rateName,
+  rateAmount4: typed,
+};
+if (Object.keys(rateRows).length !== LABOUR_RATE_ROWS * 2) throw new Error("labour rate rows: one name and one amount per row");
+export const labourSettingsSchema = shopRef.extend({ defaultRate: typed }).extend(rateRows).superRefine((v, ctx) => {
   const values = v as Record<string, string>;
   const seen = new Set<string>();
   for (let i = 0; i < LABOUR_RATE_ROWS; i++) {

@@ -5,6 +5,7 @@ import { RESET_LIMITS, changeOwnPassword, requestPasswordReset, resetPassword, v
 import { checkPassword } from "@/lib/server/sign-in";
 import { makeShop } from "../support/fixtures";
 import { freshDatabase } from "../support/db";
+import { refusalOf } from "../support/refusal";
 
 // Forgotten and changed passwords (issue 16 §3). The reset e-mail is read from its outbox row
 // (no worker runs here), so this file has a database of its own.
@@ -16,14 +17,7 @@ let ipCounter = 0;
 const freshIp = () => `192.0.2.${++ipCounter}`; // documentation range (RFC 5737)
 const pool = globalThis as { benchsideDb?: Knex };
 
-const codeOf = async (work: Promise<unknown>) => {
-  try {
-    await work;
-  } catch (error) {
-    return (error as { code?: string }).code;
-  }
-  return "no failure";
-};
+const codeOf = async (work: Promise<unknown>) => (await refusalOf(work)).code;
 const mailsTo = (to: string) => db("outbox").where({ to_email: to }).orderBy("id");
 const tokenIn = (text: unknown) => /\/sign-in\/reset\?token=([A-Za-z0-9_-]{43})/.exec(String(text))?.[1];
 

@@ -9,6 +9,7 @@ import { checkPassword } from "@/lib/server/sign-in";
 import { TOKEN_FAILURES_PER_IP, acceptInvitation, inviteStaff, viewInvite } from "@/lib/server/staff-invites";
 import { makeShop } from "../support/fixtures";
 import { freshDatabase } from "../support/db";
+import { refusalOf } from "../support/refusal";
 
 // Staff accounts (issue 16 §3): invitations by e-mail, roles, deactivation, the last owner. The
 // outbox is read directly (no worker runs here), so this file has a database of its own.
@@ -19,14 +20,7 @@ let ipCounter = 0;
 const freshIp = () => `203.0.113.${++ipCounter}`; // documentation range (RFC 5737)
 const pool = globalThis as { benchsideDb?: Knex };
 
-const codeOf = async (work: Promise<unknown>) => {
-  try {
-    await work;
-  } catch (error) {
-    return (error as { code?: string }).code;
-  }
-  return "no failure";
-};
+const codeOf = async (work: Promise<unknown>) => (await refusalOf(work)).code;
 
 /** The token in the newest invitation e-mail to `to`, read from the outbox row. */
 async function tokenMailedTo(to: string, pathPart: string) {

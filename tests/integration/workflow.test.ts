@@ -166,6 +166,16 @@ describe("the job follows what happens", () => {
     expect(await lastChange(other.id)).toMatchObject({ to_status: "picked_up", note: "Handed back before payment: Fleet customer, invoiced monthly" });
   });
 
+  it("a hand move off parts tells the owner nothing about parts; only the last part in does", async () => {
+    const [job] = (await ownerWithJobs(k, shop, 1, "Cal Rusk")).jobs;
+    await changeJobStatus(tech, await on(tech, job!.publicId, "job:change-status"), { from: "inspecting", to: "in_progress", note: null });
+    const chain = await part(job!.publicId, "Drive chain", { findingId: null, noOkNeeded: true });
+    expect(chain.jobMovedTo).toBe("waiting_parts");
+    await changeJobStatus(tech, await on(tech, job!.publicId, "job:change-status"), { from: "waiting_parts", to: "in_progress", note: "Fitting the old chain for a test ride" });
+    expect(await lastChange(job!.id)).toMatchObject({ cause: "manual" });
+    expect(await k("job_alerts").where({ job_id: job!.id, kind: "parts_in" })).toHaveLength(0);
+  });
+
   it("withdrawing the last open request takes the job off the owner", async () => {
     const [job] = (await ownerWithJobs(k, shop, 1, "Bo Fenn")).jobs;
     const sent = await send(job!.publicId, "Grips", [{ kind: "fee", description: "Heated grips", amount: "80.00" }]);

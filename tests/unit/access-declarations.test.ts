@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { declarationId, routeOf, scanActionSource, scanDeclarations, scanRouteSource } from "../support/declarations";
+import { schemaFields } from "../support/schema-fields";
 
 // The generated access test (tests/e2e/access-generated.spec.ts) calls whatever this parser finds.
 // If a parsing regression made it find nothing, that test would pass having called nothing: these
@@ -75,5 +76,15 @@ describe("the declaration parser on small sources", () => {
 
   it("ignores modules that aren't \"use server\"", () => {
     expect(scanActionSource("app/x/helpers.ts", `export const x = 1; export function y() {}`)).toEqual({ handlers: [], actions: [], problems: [] });
+  });
+});
+
+describe("schemas the fuzz test reads", () => {
+  // tests/e2e/fuzz.spec.ts puts wrong values into every field of every action; it reads the field
+  // names from the source and stops on a schema it can't read (keys computed at run time).
+  // Finding that here costs a second, not an end-to-end run.
+  it("every server action's input schema has field names readable from the source", () => {
+    const unreadable = scanDeclarations().actions.filter((d) => schemaFields(d) === null).map((d) => `${d.file}#${d.name}`);
+    expect(unreadable).toEqual([]);
   });
 });

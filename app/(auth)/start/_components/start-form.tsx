@@ -1,7 +1,7 @@
 "use client";
 import { useEffect, useRef, useState } from "react";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
-import { Button, Field, Input, Select } from "@/components/ui";
+import { Button, Field, Input, PlainOptions, Select } from "@/components/ui";
 import { PASSWORD_MIN_LENGTH } from "@/lib/password-rules";
 import { SHOP_SIGNUP_VISIBLE, suggestSlug } from "@/lib/shop-signup";
 import { startShopAction } from "../actions";
@@ -60,20 +60,12 @@ export function StartShopForm({ zones, currencies, appOrigin }: Props) {
         <div className="grid gap-4 sm:grid-cols-2">
           <Field id="start-timezone" label="Time zone" hint="The shop's clock: dates on invoices, morning mail" error={err("timezone")} required>
             <Select name="timezone" ref={zoneRef} defaultValue={values?.timezone ?? "UTC"}>
-              {zones.map((z) => (
-                <option key={z} value={z}>
-                  {z}
-                </option>
-              ))}
+              <PlainOptions values={zones} />
             </Select>
           </Field>
           <Field id="start-currency" label="Currency" hint="Prices and invoices; change it before the first estimate" error={err("currency")} required>
             <Select name="currency" defaultValue={values?.currency ?? "USD"}>
-              {currencies.map((c) => (
-                <option key={c} value={c}>
-                  {c}
-                </option>
-              ))}
+              <PlainOptions values={currencies} />
             </Select>
           </Field>
         </div>

@@ -1,5 +1,5 @@
 "use client";
-import { Field, Input, Select, Textarea } from "@/components/ui";
+import { Field, Input, PlainOptions, Select, Textarea } from "@/components/ui";
 import { type OpeningHours, SUPPORTED_CURRENCIES, WEEKDAYS, WEEKDAY_LABEL } from "@/lib/shop-settings";
 import { saveDigestAction, saveHoursAction, saveProfileAction, saveRegionAction } from "../actions";
 import { Checkbox, SaveRow, SettingsFormTop, useSettingsForm } from "./use-settings-form";
@@ -71,20 +71,12 @@ export function RegionForm({ shopSlug, timezone, currency, zones }: { shopSlug: 
       <div className="grid gap-3 sm:grid-cols-2">
         <Field id="region-timezone" label="Time zone" hint="The shop's clock: morning mail, dates on invoices" error={fieldError("timezone")}>
           <Select name="timezone" defaultValue={values?.timezone ?? timezone}>
-            {(zones.includes(timezone) ? zones : [timezone, ...zones]).map((z) => (
-              <option key={z} value={z}>
-                {z}
-              </option>
-            ))}
+            <PlainOptions values={zones.includes(timezone) ? zones : [timezone, ...zones]} />
           </Select>
         </Field>
         <Field id="region-currency" label="Currency" hint="For new invoices. Amounts in these settings are not converted: check the rates after a change." error={fieldError("currency")}>
           <Select name="currency" defaultValue={values?.currency ?? currency}>
-            {SUPPORTED_CURRENCIES.map((c) => (
-              <option key={c} value={c}>
-                {c}
-              </option>
-            ))}
+            <PlainOptions values={SUPPORTED_CURRENCIES} />
           </Select>
         </Field>
       </div>
