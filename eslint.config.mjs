@@ -1,9 +1,16 @@
-import nextVitals from "eslint-config-next/core-web-vitals";
+import nextBase from "eslint-config-next";
 import nextTs from "eslint-config-next/typescript";
 
 const config = [
-  ...nextVitals,
+  ...nextBase,
   ...nextTs,
+  // Next's stricter set: a plain <a> to a page, or a synchronous script, is an error, not a warning.
+  {
+    rules: {
+      "@next/next/no-html-link-for-pages": "error",
+      "@next/next/no-sync-scripts": "error",
+    },
+  },
   {
     ignores: [".next/**", ".next-test/**", ".data/**", "node_modules/**", "next-env.d.ts", "test-results/**", "playwright-report/**"],
   },
