@@ -6,6 +6,7 @@ import { checkPassword } from "@/lib/server/sign-in";
 import { makeShop } from "../support/fixtures";
 import { freshDatabase } from "../support/db";
 import { refusalOf } from "../support/refusal";
+import { dropAppDatabase, freshAppDatabase } from "../support/mail-world";
 
 // Forgotten and changed passwords (issue 16 §3). The reset e-mail is read from its outbox row
 // (no worker runs here), so this file has a database of its own.
@@ -15,23 +16,15 @@ let fresh: Awaited<ReturnType<typeof freshDatabase>>;
 let db: Knex;
 let ipCounter = 0;
 const freshIp = () => `192.0.2.${++ipCounter}`; // documentation range (RFC 5737)
-const pool = globalThis as { benchsideDb?: Knex };
 
 const codeOf = async (work: Promise<unknown>) => (await refusalOf(work)).code;
 const mailsTo = (to: string) => db("outbox").where({ to_email: to }).orderBy("id");
 const tokenIn = (text: unknown) => /\/sign-in\/reset\?token=([A-Za-z0-9_-]{43})/.exec(String(text))?.[1];
 
 beforeAll(async () => {
-  fresh = await freshDatabase();
-  await fresh.knex.migrate.latest();
-  db = fresh.knex;
-  process.env.DATABASE_URL = fresh.url;
-  process.env.APP_URL = "http://localhost:3999";
+  ({ fresh, k: db } = await freshAppDatabase("http://localhost:3999"));
 });
-afterAll(async () => {
-  await pool.benchsideDb?.destroy();
-  await fresh?.drop();
-});
+afterAll(() => dropAppDatabase(fresh));
 
 describe("a forgotten password", () => {
   it("is reset by an e-mailed link, end to end: every session ends, the new password works, the old doesn't", async () => {

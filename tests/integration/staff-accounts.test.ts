@@ -10,6 +10,7 @@ import { TOKEN_FAILURES_PER_IP, acceptInvitation, inviteStaff, viewInvite } from
 import { makeShop } from "../support/fixtures";
 import { freshDatabase } from "../support/db";
 import { refusalOf } from "../support/refusal";
+import { dropAppDatabase, freshAppDatabase } from "../support/mail-world";
 
 // Staff accounts (issue 16 §3): invitations by e-mail, roles, deactivation, the last owner. The
 // outbox is read directly (no worker runs here), so this file has a database of its own.
@@ -18,7 +19,6 @@ let fresh: Awaited<ReturnType<typeof freshDatabase>>;
 let db: Knex;
 let ipCounter = 0;
 const freshIp = () => `203.0.113.${++ipCounter}`; // documentation range (RFC 5737)
-const pool = globalThis as { benchsideDb?: Knex };
 
 const codeOf = async (work: Promise<unknown>) => (await refusalOf(work)).code;
 
@@ -37,16 +37,9 @@ async function signInAs(email: string, password: string) {
 }
 
 beforeAll(async () => {
-  fresh = await freshDatabase();
-  await fresh.knex.migrate.latest();
-  db = fresh.knex;
-  process.env.DATABASE_URL = fresh.url;
-  process.env.APP_URL = "http://localhost:3999";
+  ({ fresh, k: db } = await freshAppDatabase("http://localhost:3999"));
 });
-afterAll(async () => {
-  await pool.benchsideDb?.destroy();
-  await fresh?.drop();
-});
+afterAll(() => dropAppDatabase(fresh));
 
 describe("an invitation", () => {
   it("is mailed with a link; accepting it sets the password and the person signs in with the role", async () => {
