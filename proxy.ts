@@ -1,6 +1,6 @@
 import { NextResponse, type NextRequest } from "next/server";
 import { actionRefusal } from "@/lib/action-guard";
-import { badPathSegment, securityHeaders } from "@/lib/security-headers";
+import { badPathSegment, needsNonce, securityHeaders } from "@/lib/security-headers";
 import { DATABASE_UNAVAILABLE_MESSAGE } from "@/lib/errors";
 import { databaseAnswers } from "@/lib/server/db-health";
 
@@ -10,11 +10,12 @@ import { databaseAnswers } from "@/lib/server/db-health";
 // - screens server-action posts (lib/action-guard.ts): a foreign origin, a body that isn't a
 //   readable multipart form of at most 6 MB gets a 4xx before Next decodes it (Next: 500);
 // - sends visitors with no session cookie to sign-in first, for the shop and owner areas;
-// - gives each request a fresh CSP nonce (request header `x-nonce`, and the request's
-//   Content-Security-Policy, from which Next puts the nonce on its own scripts), and sets the
-//   security headers of lib/security-headers.ts on the answer.
-// A nonce on every page means every page is rendered per request (app/layout.tsx); cached
-// HTML would carry a stale nonce and its scripts would be refused.
+// - gives each request for a page rendered per request a fresh CSP nonce (request header
+//   `x-nonce`, and the request's Content-Security-Policy, from which Next puts the nonce on its
+//   own scripts), and sets the security headers of lib/security-headers.ts on the answer.
+// The shops' public pages (/s/…) are served from Next's cache (ISR), so they get a policy
+// without a nonce (lib/security-headers.ts says why) and no nonce reaches their render: the
+// signed-in areas and every other page stay per request (the layouts call connection()).
 
 // (Large sessions are split into "….0", "….1" cookies, hence the prefix match.)
 const SESSION_COOKIES = ["authjs.session-token", "__Secure-authjs.session-token"];
@@ -40,11 +41,17 @@ export async function proxy(request: NextRequest) {
     return NextResponse.redirect(url);
   }
 
-  const nonce = btoa(crypto.randomUUID());
+  const nonce = needsNonce(pathname) ? btoa(crypto.randomUUID()) : null;
   const headers = securityHeaders(pathname, nonce, process.env);
   const forward = new Headers(request.headers);
-  forward.set("x-nonce", nonce);
-  forward.set("content-security-policy", headers["Content-Security-Policy"]!);
+  if (nonce) {
+    forward.set("x-nonce", nonce);
+    forward.set("content-security-policy", headers["Content-Security-Policy"]!);
+  } else {
+    // Next takes a nonce from the request's policy: none may come from the visitor into a cached page.
+    forward.delete("x-nonce");
+    forward.delete("content-security-policy");
+  }
   const response = NextResponse.next({ request: { headers: forward } });
   for (const [name, value] of Object.entries(headers)) response.headers.set(name, value);
   return response;

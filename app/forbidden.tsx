@@ -1,5 +1,5 @@
 import { House, Lock } from "lucide-react";
-import { ButtonLink } from "@/components/ui/button";
+import { buttonClasses } from "@/components/ui/button-classes";
 
 // Shown when forbidden() is called: signed in, but this job, shop or page belongs to someone else.
 // Server-only on purpose — Next ships this file with every route.
@@ -14,9 +14,12 @@ export default function Forbidden() {
         You&apos;re signed in, but this page belongs to a different shop or customer. If you think you
         should see it, ask the shop to share it with you.
       </p>
-      <ButtonLink href="/" size="lg" icon={<House aria-hidden className="size-5" />}>
+      {/* A plain link in the button look: next/link would add its client code to every page, which ships this screen. */}
+      {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- see above */}
+      <a href="/" className={buttonClasses("primary", "lg")}>
+        <House aria-hidden className="size-5" />
         Back to the start
-      </ButtonLink>
+      </a>
     </main>
   );
 }

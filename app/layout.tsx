@@ -1,6 +1,5 @@
 import type { Metadata, Viewport } from "next";
 import localFont from "next/font/local";
-import { connection } from "next/server";
 import type { ReactNode } from "react";
 import "./globals.css";
 
@@ -32,10 +31,10 @@ export const viewport: Viewport = {
   colorScheme: "light dark",
 };
 
-export default async function RootLayout({ children }: { children: ReactNode }) {
-  // Every page is rendered per request: its scripts carry that request's CSP nonce (proxy.ts).
-  // HTML prerendered at build time would carry none, and the browser would refuse its scripts.
-  await connection();
+// Not rendered per request here: the shops' public pages (/s/…) are served from the cache (ISR,
+// with a policy that needs no nonce). Every other area's layout calls connection(), so its pages
+// are rendered per request and their scripts carry that request's CSP nonce (proxy.ts).
+export default function RootLayout({ children }: { children: ReactNode }) {
   return (
     <html lang="en" className={archivo.variable}>
       <body className="min-h-dvh">

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { House, SearchX } from "lucide-react";
-import { ButtonLink } from "@/components/ui/button";
+import { buttonClasses } from "@/components/ui/button-classes";
 
 export const metadata: Metadata = { title: "Not found" };
 
@@ -14,9 +14,12 @@ export default function NotFound() {
       <p className="text-ink-muted">
         The link may be old, or the job may have been moved. Check the address, or head back to the start.
       </p>
-      <ButtonLink href="/" size="lg" icon={<House aria-hidden className="size-5" />}>
+      {/* A plain link in the button look: next/link would add its client code to every page, which ships this screen. */}
+      {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- see above */}
+      <a href="/" className={buttonClasses("primary", "lg")}>
+        <House aria-hidden className="size-5" />
         Back to the start
-      </ButtonLink>
+      </a>
     </main>
   );
 }

@@ -1,10 +1,13 @@
 import { redirect } from "next/navigation";
+import { connection } from "next/server";
 import { Wrench } from "lucide-react";
 import { Brand } from "@/components/brand";
 import { ButtonLink } from "@/components/ui";
 import { getActor } from "@/lib/server/actor";
 
 export default async function Home() {
+  // Rendered per request: the page's scripts carry this request's CSP nonce (proxy.ts).
+  await connection();
   const actor = await getActor();
   if (actor) redirect(actor.memberships.length ? "/shop" : "/my");
   return (

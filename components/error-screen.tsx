@@ -2,7 +2,7 @@
 
 import { useEffect, useState } from "react";
 import { Hourglass, House, RotateCcw, TriangleExclamationPoint } from "lucide-react";
-import { Button, ButtonLink } from "@/components/ui/button";
+import { buttonClasses } from "@/components/ui/button-classes";
 import { DATABASE_UNAVAILABLE_MESSAGE } from "@/lib/errors";
 
 const PROBE_EVERY_MS = 3000;
@@ -82,12 +82,16 @@ export function ErrorScreen({ error, retry }: { error: unknown; retry: () => voi
       </div>
       {digest ? <p className="text-sm text-ink-muted">Reference: {digest}</p> : null}
       <div className="flex w-full flex-col gap-2 sm:w-auto sm:flex-row">
-        <Button size="lg" onClick={() => retry()} icon={<RotateCcw aria-hidden className="size-5" />}>
+        {/* Plain elements in the button look: Button's module brings next/link, and this screen ships with every page. A full load of the start page is the surer way back after an error. */}
+        <button type="button" className={buttonClasses("primary", "lg")} onClick={() => retry()}>
+          <RotateCcw aria-hidden className="size-5" />
           Try again
-        </Button>
-        <ButtonLink href="/" size="lg" variant="secondary" icon={<House aria-hidden className="size-5" />}>
+        </button>
+        {/* eslint-disable-next-line @next/next/no-html-link-for-pages -- see above */}
+        <a href="/" className={buttonClasses("secondary", "lg")}>
+          <House aria-hidden className="size-5" />
           Back to the start
-        </ButtonLink>
+        </a>
       </div>
     </main>
   );

@@ -112,6 +112,10 @@ export type JobsTable = {
   created_by_user_id: number | null;
   created_at: Date;
   updated_at: Date;
+  /** The owner's name, copied by triggers from customers for the board's sort and search (21); never written by the app. */
+  customer_name?: string;
+  /** STORED generated (21): 1 when promised_on is null, for the board's "undated last" order; never written. */
+  promised_undated?: Flag;
 };
 
 export type JobStatusChangesTable = {
@@ -223,7 +227,7 @@ export type PhotosTable = {
   created_at: Date;
 };
 
-export type ShopBenchSettingsTable = { shop_id: number; torque_unit: TorqueUnit; pass_percents: JsonText; chain_limit_pct: number; updated_at: Date };
+export type ShopBenchSettingsTable = { shop_id: number; torque_unit: TorqueUnit; pass_percents: JsonText; chain_limit_pct: number; wrench_class: string; updated_at: Date };
 
 export type TorqueRecordsTable = {
   id: number;
@@ -240,6 +244,11 @@ export type TorqueRecordsTable = {
   note: string | null;
   recorded_by_user_id: number | null;
   created_at: Date;
+  /** Issue 18 (migration 22): null on rows written before it. */
+  tolerance_pct: number | null;
+  wrench_class: string | null;
+  passes_done: Flag | null;
+  check_pass_done: Flag | null;
 };
 
 export type ReadingsTable = {
@@ -393,6 +402,13 @@ export type ShopMoneySettingsTable = {
   supplies_base: "labour" | "parts_and_labour";
   supplies_cap_minor: number | null;
   supplies_taxable: Flag;
+  /** Rates of their own for labour, fees and the supplies fee; NULL = the shop's rate (migration 23). */
+  labour_tax_rate_percent: number | string | null;
+  fee_tax_rate_percent: number | string | null;
+  supplies_tax_rate_percent: number | string | null;
+  /** The shop's standard drop-off terms, both set or both NULL (migration 23). */
+  dropoff_charge_minor: number | null;
+  dropoff_up_to_minor: number | null;
   tolerance_kind: "strict" | "greater_of";
   tolerance_fixed_minor: number;
   tolerance_percent: number | string;
@@ -697,6 +713,8 @@ export type StoryConsentsTable = {
   decided_at: Date;
   ip: string;
   user_agent: string | null;
+  /** SHA-256 of the curated content a "given" answer was made on (migration 24). */
+  shown_hash: string | null;
 };
 
 export type ShopEventsTable = {

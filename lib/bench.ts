@@ -6,6 +6,7 @@ import { type ChecklistItem, reassemblyChecklist } from "@/lib/reassembly";
 import { formatFixed } from "@/lib/rounding";
 import { DEFAULT_PASS_PERCENTS } from "@/lib/tightening-passes";
 import { TORQUE_UNIT_IDS, type TorqueUnit, convertTorque, isTorqueUnit, torqueUnitLabel } from "@/lib/torque";
+import { DEFAULT_WRENCH_CLASS, WRENCH_CLASSES, type WrenchClass, outcomeText, passesText } from "@/lib/torque-check";
 
 export const PART_STATUSES = ["needed", "ordered", "back_ordered", "received", "fitted", "returned"] as const;
 export type PartStatus = (typeof PART_STATUSES)[number];
@@ -34,8 +35,9 @@ export const SPEC_KINDS = ["torque", "limit", "capacity", "note"] as const;
 export type SpecKind = (typeof SPEC_KINDS)[number];
 export const SPEC_KIND_LABEL: Record<SpecKind, string> = { torque: "Torque", limit: "Service limit", capacity: "Capacity", note: "Note" };
 
-export type BenchSettings = { torqueUnit: TorqueUnit; passPercents: number[]; chainLimitPct: number };
-export const DEFAULT_BENCH_SETTINGS: BenchSettings = { torqueUnit: "nm", passPercents: [...DEFAULT_PASS_PERCENTS], chainLimitPct: 3 };
+/** wrenchClass: the wrench the shop usually tightens with; its ISO 6789-1 class gives a record's default tolerance. */
+export type BenchSettings = { torqueUnit: TorqueUnit; passPercents: number[]; chainLimitPct: number; wrenchClass: WrenchClass };
+export const DEFAULT_BENCH_SETTINGS: BenchSettings = { torqueUnit: "nm", passPercents: [...DEFAULT_PASS_PERCENTS], chainLimitPct: 3, wrenchClass: DEFAULT_WRENCH_CLASS };
 
 // ---- what a timeline entry of each bench kind holds (a snapshot at the time of recording) ----
 
@@ -50,9 +52,22 @@ export type TorqueBody = {
   /** "cross" when a bolt count had a tightening pattern drawn for it. */
   pattern: "cross" | null;
   note: string | null;
-  /** The shop's preferred unit when recorded, shown first. */
+  /** The shop's preferred unit when recorded, shown beside the unit entered. */
   displayUnit: TorqueUnit;
+  // Issue 18: absent on entries written before; read as "not recorded" (tolerance: the default wrench's).
+  /** ± % of spec applied may be off and still be "within tolerance". */
+  tolerancePct?: number;
+  wrenchClass?: WrenchClass | null;
+  passesDone?: boolean | null;
+  checkPass?: boolean | null;
+  /** The plausibility warning the technician confirmed when recording (lib/torque-check.ts). */
+  warning?: string | null;
 };
+
+/** A record's tolerance: its own, or its wrench's, or the usual click wrench's. */
+export function toleranceOf(b: Pick<TorqueBody, "tolerancePct" | "wrenchClass">): number {
+  return b.tolerancePct ?? WRENCH_CLASSES[b.wrenchClass ?? DEFAULT_WRENCH_CLASS].tolerancePct;
+}
 
 export type ChainSnapshot = { pitchMm: number; pitches: number; measuredMm: number; limitPct: number };
 export type ReadingBody = {
@@ -115,20 +130,23 @@ export function torqueText(value: number, from: TorqueUnit, to: TorqueUnit = fro
   return `${formatFixed(convertTorque(value, from, to), DECIMALS[to])} ${torqueUnitLabel(to)}`;
 }
 
-/** The value in the shop's unit first, then every other unit (shown one tap away). */
-export function torqueViews(value: number, unit: TorqueUnit, displayUnit: TorqueUnit): { primary: string; others: string[] } {
+/** The value in the unit it was entered in first, then every other unit (shown one tap away). */
+export function torqueViews(value: number, unit: TorqueUnit, displayUnit: TorqueUnit): { primary: string; shop: string | null; others: string[] } {
   return {
-    primary: torqueText(value, unit, displayUnit),
-    others: TORQUE_UNIT_IDS.filter((u) => u !== displayUnit).map((u) => torqueText(value, unit, u)),
+    primary: torqueText(value, unit),
+    shop: unit === displayUnit ? null : torqueText(value, unit, displayUnit),
+    others: TORQUE_UNIT_IDS.filter((u) => u !== unit).map((u) => torqueText(value, unit, u)),
   };
 }
 
-/** "torqued to spec, 3 passes and a check pass, cross pattern" — the proof line the owner reads. */
-export function torqueProof(b: Pick<TorqueBody, "specValue" | "appliedValue" | "unit" | "displayUnit" | "passPercents" | "pattern">): string {
-  const applied = b.appliedValue == null || b.appliedValue === b.specValue ? "torqued to spec" : `torqued to ${torqueText(b.appliedValue, b.unit, b.displayUnit)} (spec ${torqueText(b.specValue, b.unit, b.displayUnit)})`;
-  const n = b.passPercents.length;
-  const passes = `${n} pass${n === 1 ? "" : "es"} (${b.passPercents.join(" → ")} %) and a check pass`;
-  return [applied, passes, b.pattern === "cross" ? "cross pattern" : null].filter(Boolean).join(", ");
+type ProofFields = "specValue" | "appliedValue" | "unit" | "displayUnit" | "passPercents" | "pattern" | "tolerancePct" | "wrenchClass" | "passesDone" | "checkPass";
+/**
+ * "torqued to 72.0 lbf·ft (97.6 N·m), within ±4 % of …; 3 passes (30 → 60 → 100 %) done; …" — the
+ * proof line staff, the owner and e-mails read. Never "to spec" unless applied is within tolerance.
+ */
+export function torqueProof(b: Pick<TorqueBody, ProofFields>): string {
+  const outcome = outcomeText({ specValue: b.specValue, appliedValue: b.appliedValue, unit: b.unit, tolerancePct: toleranceOf(b) }, b.displayUnit);
+  return [outcome, passesText(b), b.pattern === "cross" ? "cross pattern" : null].filter(Boolean).join("; ");
 }
 
 /** "torqued to spec, …" → "Torqued to spec, …" for the start of a sentence. */

@@ -1,35 +1,10 @@
-// Bench clips: what the browser declares before an upload, checked against the shop's limits.
-// Pure: no I/O.
-import { z } from "zod";
+// Bench clips: limits, media addresses and durations. Pure: no I/O. What the browser declares
+// before an upload is checked by the schemas in lib/schemas/clips.ts (kept apart so the player
+// and the composer don't carry zod to the browser).
 
 export const DEFAULT_CLIP_LIMITS = { maxSeconds: 600, maxBytes: 2 * 1024 ** 3 };
 /** Upload chunk size for @mux/upchunk, in KiB (a multiple of 256): small enough to resume cheaply on garage Wi-Fi. */
 export const CLIP_CHUNK_KIB = 1024;
-
-export const newClipSchema = z.object({
-  name: z.string().trim().max(255).optional(),
-  size: z.number({ message: "Say how large the clip is." }).int().positive("The clip is empty."),
-  /** Read by the browser from the file before sending; the processed asset is checked again. */
-  durationSeconds: z.number().nonnegative().finite().optional(),
-  type: z
-    .string()
-    .max(100)
-    .optional()
-    .refine((t) => !t || t.startsWith("video/"), "Only video files can be added as clips."),
-  caption: z
-    .string()
-    .trim()
-    .max(500, "Keep the caption under 500 characters.")
-    .optional()
-    .transform((s) => s || null),
-  visibility: z.enum(["shop", "shared"]).default("shop"),
-});
-export type NewClip = z.output<typeof newClipSchema>;
-
-export const newMomentSchema = z.object({
-  atSeconds: z.number({ message: "Say where in the clip." }).nonnegative().max(24 * 3600),
-  label: z.string().trim().min(1, "Say what is seen at that moment.").max(120, "Keep it under 120 characters."),
-});
 
 /**
  * Where the browser plays a clip from: always our own route, which checks who is asking before

@@ -1,6 +1,6 @@
 // One error vocabulary for route handlers and server actions: a code, a safe message,
-// optional per-field messages. Never a stack trace to the client.
-import { z } from "zod";
+// optional per-field messages. Never a stack trace to the client. No zod here: client
+// components import this module; mapping a zod failure is lib/error-body.ts's (server side).
 
 export const ERROR_STATUS = {
   bad_request: 400,
@@ -33,15 +33,6 @@ export class AppError extends Error {
   get status(): number {
     return ERROR_STATUS[this.code];
   }
-}
-
-export function fieldErrors(error: z.ZodError): FieldErrors {
-  const out: FieldErrors = {};
-  for (const issue of error.issues) {
-    const key = issue.path.join(".") || "_";
-    (out[key] ??= []).push(issue.message);
-  }
-  return out;
 }
 
 export const DATABASE_UNAVAILABLE_MESSAGE = "The shop's records are briefly unavailable. Try again in a few seconds.";
@@ -78,16 +69,4 @@ export function isDatabaseUnavailable(error: unknown, depth = 0): boolean {
   // "Can't add new command when connection is in closed state" is fatal and has no code.
   if (e.fatal === true && (code === undefined || SOCKET_CODES.has(code))) return true;
   return depth < 2 && e.cause !== undefined && isDatabaseUnavailable(e.cause, depth + 1);
-}
-
-/** Maps anything thrown to the error body and HTTP status we show; unknown errors become a plain 500. */
-export function toErrorBody(error: unknown): { status: number; body: ErrorBody } {
-  if (error instanceof AppError) {
-    return { status: error.status, body: { error: { code: error.code, message: error.message, ...(error.fields ? { fields: error.fields } : {}) } } };
-  }
-  if (error instanceof z.ZodError) {
-    return { status: 422, body: { error: { code: "invalid", message: "Some fields need attention.", fields: fieldErrors(error) } } };
-  }
-  if (isDatabaseUnavailable(error)) return { status: 503, body: { error: { code: "unavailable", message: DATABASE_UNAVAILABLE_MESSAGE } } };
-  return { status: 500, body: { error: { code: "internal", message: "Something went wrong on our side. Try again in a moment." } } };
 }

@@ -1,5 +1,5 @@
-// Following a job: who gets e-mail about it and how often. Pure: no I/O.
-import { z } from "zod";
+// Following a job: who gets e-mail about it and how often. Pure: no I/O. The forms' schemas are
+// in lib/schemas/following.ts, so the owner's page can import this module without zod.
 
 export const SUBSCRIBER_ROLES = ["owner", "follower"] as const;
 export type SubscriberRole = (typeof SUBSCRIBER_ROLES)[number];
@@ -24,21 +24,6 @@ export type AlertKind = (typeof ALERT_KINDS)[number];
 
 /** Enough for family and a riding club; few enough that a job can't become a mailing list. */
 export const MAX_FOLLOWERS = 20;
-
-const email = z
-  .string({ error: "Enter an e-mail address" })
-  .trim()
-  .toLowerCase()
-  .max(254, "That e-mail address is too long")
-  .pipe(z.email({ error: "That doesn't look like an e-mail address" }));
-
-export const jobPublicIdField = z.string().regex(/^[A-Za-z0-9_-]{16}$/, "No such job.");
-export const inviteFollowerSchema = z.object({ job: jobPublicIdField, email });
-export const removeFollowerSchema = z.object({ job: jobPublicIdField, subscriber: z.coerce.number().int().positive("No such follower.") });
-export const frequencySchema = z.object({
-  job: jobPublicIdField,
-  frequency: z.enum(FREQUENCIES, { message: "Choose how often you want e-mail." }),
-});
 
 /**
  * The most recent daily-digest moment (`hour`:00 on the shop's clock) at or before `now`.

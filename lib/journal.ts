@@ -1,6 +1,6 @@
-// The job's timeline: entry shapes shared by the API, the SWR hooks and the pages, and the
-// zod schemas for what clients send. Pure: no I/O.
-import { z } from "zod";
+// The job's timeline: entry shapes shared by the API, the SWR hooks and the pages. Pure: no I/O.
+// The zod schemas for what clients send are in lib/schemas/journal.ts, so the browser bundles
+// that import this module don't carry the validation library.
 import type { JobStatus } from "@/lib/job-status";
 import { JOB_STATUSES } from "@/lib/job-status";
 
@@ -82,48 +82,39 @@ export function photoUrl(id: string, size: PhotoSize): string {
   return `/api/photos/${id}/${size}`;
 }
 
-export const timelineQuerySchema = z.object({
-  order: z.enum(["asc", "desc"]).default("desc"),
-  after: z.coerce.number().int().positive().optional(),
-  limit: z.coerce.number().int().min(1).max(100).default(50),
-  /** Staff can read a timeline as its owner sees it (the owner's own page does). */
-  as: z.literal("owner").optional(),
-});
+/**
+ * Narrower copies of the display rendition that the photo routes make on first request
+ * (size `w640`…), so a phone downloads a photo near the size it shows it at.
+ */
+export const PHOTO_WIDTHS = [640, 960, 1280] as const;
+export type PhotoWidth = (typeof PHOTO_WIDTHS)[number];
+/** The sizes a photo route answers for: the two renditions, then the copies (`w` + PHOTO_WIDTHS). */
+export const PHOTO_ROUTE_SIZES = ["thumb", "display", "w640", "w960", "w1280"] as const;
+export type PhotoRouteSize = (typeof PHOTO_ROUTE_SIZES)[number];
+/** The long edge of the thumbnail rendition (lib/server/photos.ts makes it). */
+export const THUMB_LONG_EDGE = 400;
 
-const visibility = z.enum(["shop", "shared"], { message: 'Choose "shop" or "shared".' });
-const caption = z
-  .string()
-  .trim()
-  .max(500, "Keep the caption under 500 characters.")
-  .transform((s) => (s === "" ? null : s));
-const photoId = z.string().regex(PHOTO_ID_PATTERN, "That is not a photo id.");
+/** The width of a copy size ("w960" → 960), or undefined for the renditions themselves. */
+export function photoWidthOf(size: PhotoRouteSize): PhotoWidth | undefined {
+  return PHOTO_WIDTHS.find((w) => `w${w}` === size);
+}
 
-export const newEntrySchema = z.discriminatedUnion(
-  "kind",
-  [
-    // The note's document is checked by parseNote (lib/rich-text/note.ts) after this.
-    z.object({ kind: z.literal("note"), note: z.unknown(), visibility: visibility.default("shop") }),
-    z.object({
-      kind: z.literal("photos"),
-      photoIds: z.array(photoId).min(1, "Add at least one photo.").max(MAX_PHOTOS_PER_SET, `Post at most ${MAX_PHOTOS_PER_SET} photos at once.`),
-      caption: caption.optional(),
-      visibility: visibility.default("shop"),
-    }),
-  ],
-  { message: 'Say what to post: "note" or "photos".' },
-);
-export type NewEntry = z.output<typeof newEntrySchema>;
-
-export const entryChangeSchema = z
-  .object({
-    version: z.number().int().positive(),
-    note: z.unknown().optional(),
-    caption: caption.nullable().optional(),
-    visibility: visibility.optional(),
-  })
-  .refine((v) => v.note !== undefined || v.caption !== undefined || v.visibility !== undefined, { message: "Nothing to change." });
-
-export const entryDeleteSchema = z.object({ version: z.coerce.number().int().positive() });
+/**
+ * The `srcset` of a photo: its thumbnail, the narrower copies below its width, and the display
+ * rendition itself, each with its real width, so the browser picks by `sizes` and screen density.
+ * A copy's address is the display one with the size segment changed (a query such as an e-mail
+ * token stays).
+ */
+export function photoSrcSet(photo: Pick<TimelinePhoto, "width" | "height" | "thumbUrl" | "displayUrl">): string {
+  const thumbWidth = Math.round(photo.width * Math.min(1, THUMB_LONG_EDGE / Math.max(photo.width, photo.height, 1)));
+  const candidates = [`${photo.thumbUrl} ${thumbWidth}w`];
+  const copies = /\/display(?=$|\?)/.test(photo.displayUrl);
+  for (const w of PHOTO_WIDTHS) {
+    if (copies && w > thumbWidth && w < photo.width) candidates.push(`${photo.displayUrl.replace(/\/display(?=$|\?)/, `/w${w}`)} ${w}w`);
+  }
+  if (photo.width > thumbWidth) candidates.push(`${photo.displayUrl} ${photo.width}w`);
+  return candidates.join(", ");
+}
 
 /** Groups entries by calendar day in the shop's time zone, keeping their order. */
 export function groupByDay<T extends { createdAt: string }>(entries: T[], timeZone: string): { day: string; label: string; entries: T[] }[] {

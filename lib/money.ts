@@ -5,6 +5,7 @@
 // MariaDB returns DECIMAL columns) read exactly, so 8.25 % is 825/10000 and never 0.08249999….
 import cc from "currency-codes";
 import { AppError } from "@/lib/errors";
+import { exampleIn, numberStyleFor, parseNumberInput } from "@/lib/number-input";
 
 /** Thrown for any bad amount, rate or line; an `invalid` AppError, so handlers answer 422 with the message. */
 export class MoneyError extends AppError {
@@ -27,7 +28,13 @@ export type FeeLine = LineCommon & { kind: "fee"; amountMinor: number };
 export type Line = PartLine | LabourLine | FeeLine;
 
 export type TaxMethod = "per_line" | "per_invoice";
-export type TaxSetting = { ratePercent: Percent; method: TaxMethod };
+/**
+ * ratePercent is the shop's rate; kindRates, when present, gives labour, fees or the supplies fee
+ * a rate of their own (a part always takes ratePercent). Absent means every kind takes ratePercent,
+ * so settings and snapshots sealed before kinds had rates of their own read and hash as they did.
+ */
+export type TaxSetting = { ratePercent: Percent; method: TaxMethod; kindRates?: TaxKindRates };
+export type TaxKindRates = Partial<Record<"labour" | "fee" | "supplies", Percent>>;
 /** capMinor: the largest fee, null for no cap. */
 export type SuppliesSetting = { percent: Percent; base: "labour" | "parts_and_labour"; capMinor: number | null; taxable: boolean };
 export type TotalsSettings = { tax: TaxSetting; supplies?: SuppliesSetting | null; subtotalDiscount?: Discount | null };
@@ -55,6 +62,8 @@ export type Totals = {
   taxableBaseMinor: number;
   /** per_line: the line taxes plus the supplies fee's own tax when taxable; per_invoice: tax on the base. */
   taxMinor: number;
+  /** The tax by rate, lowest rate first (one entry when every kind shares the shop's rate). */
+  taxByRate: { ratePercent: Percent; baseMinor: number; taxMinor: number }[];
   /** subtotal − discounts + supplies: what estimate/authorisation comparisons use. */
   preTaxTotalMinor: number;
   totalMinor: number;
@@ -108,13 +117,15 @@ export function currencyDigits(currency: string): number {
   return record.digits;
 }
 
-/** "1,234.5" with `scale` allowed decimals → integer in units of 10^-scale. Only "." as decimal point. */
+/** Canonical "1234.5" (from readTyped) with `scale` allowed decimals → integer in units of 10^-scale. */
 function parseScaled(text: string, scale: number, what: string, example: string, allowNegative: boolean): bigint {
   const m = typeof text === "string" ? /^(-)?(\d{1,3}(?:,\d{3})+|\d*)(?:\.(\d+))?$/.exec(text.trim()) : null;
   if (!m || (m[2] === "" && m[3] === undefined)) {
     throw new MoneyError(`${JSON.stringify(text)} is not a valid ${what}. Use digits with an optional decimal point, e.g. ${example}.`);
   }
-  const fraction = m[3] ?? "";
+  // Zeros past the scale change nothing ("1.2500" L is 1250 thousandths): a CAD field may show one more.
+  const typedFraction = m[3] ?? "";
+  const fraction = typedFraction.length > scale && /^0+$/.test(typedFraction.slice(scale)) ? typedFraction.slice(0, scale) : typedFraction;
   if (fraction.length > scale) {
     throw new MoneyError(scale === 0 ? `A ${what} here has no decimal places (got ${text.trim()}).`
       : `A ${what} has at most ${scale} decimal place${scale === 1 ? "" : "s"} (got ${text.trim()}).`);
@@ -124,22 +135,43 @@ function parseScaled(text: string, scale: number, what: string, example: string,
   return m[1] ? -value : value;
 }
 
-/** User input ("12.50", "1,234.5", "-3" if allowed) → minor units of `currency`. */
+/**
+ * What someone typed → canonical text ("1234.5"), read by the one number reader in the style of the
+ * shop's currency (lib/number-input.ts), so money reads "1,200" exactly as torque does. A text with
+ * two readings, or written in another convention, is refused with the reader's message.
+ */
+function readTyped(text: string, currency: string, what: string): string {
+  const style = numberStyleFor(currency);
+  const read = parseNumberInput(typeof text === "string" ? text : "", style, { allowNegative: true, what: "The amount" });
+  if (read.ok) return read.canonical;
+  if (read.readings.length) throw new MoneyError(`${JSON.stringify(text)} is not a valid ${what}: ${read.message}`);
+  throw new MoneyError(`${JSON.stringify(text)} is not a valid ${what}. Use digits with an optional decimal mark, e.g. ${exampleIn(style)}.`);
+}
+
+/** User input ("12.50", "1,234.5", "-3" if allowed; "12,50" in a comma shop) → minor units of `currency`. */
 export function parseMoney(text: string, currency: string, options: { allowNegative?: boolean } = {}): number {
   const digits = currencyDigits(currency);
   const example = digits === 0 ? "1,234" : `1,234.${"5".padEnd(digits, "0")}`;
   const what = `${currency.toUpperCase()} amount`;
-  return toSafe(parseScaled(text, digits, what, example, options.allowNegative ?? false), "The amount");
+  return toSafe(parseScaled(readTyped(text, currency, what), digits, what, example, options.allowNegative ?? false), "The amount");
 }
 
-/** "1.5" hours → 15 tenths; "1.25" is refused. */
-export function parseHours(text: string): number {
-  return toSafe(parseScaled(text, 1, "number of hours", "1.5", false), "The hours");
+/** "1.5" hours → 15 tenths; "1.25" is refused. Read in the style of the shop's `currency`. */
+export function parseHours(text: string, currency = "USD"): number {
+  return toSafe(parseScaled(readTyped(text, currency, "number of hours"), 1, "number of hours", "1.5", false), "The hours");
 }
 
-/** "2" → 2000, "1.25" → 1250 thousandths. */
-export function parseQuantity(text: string): number {
-  return toSafe(parseScaled(text, 3, "quantity", "1.5", false), "The quantity");
+/** "2" → 2000, "1.25" → 1250 thousandths. Read in the style of the shop's `currency`. */
+export function parseQuantity(text: string, currency = "USD"): number {
+  return toSafe(parseScaled(readTyped(text, currency, "quantity"), 3, "quantity", "1.5", false), "The quantity");
+}
+
+/** Canonical text ("1234.50") as a field in the shop's style shows it ("1234,50"): no grouping, exact. */
+export function inputText(canonical: string, currency: string): string {
+  const style = numberStyleFor(currency);
+  const text = style.decimal === "," ? canonical.replace(".", ",") : canonical;
+  // Where a lone mark before three digits has two readings (CAD), one more zero keeps it one.
+  return !style.firm && /^-?[1-9]\d{0,2}[.,]\d{3}$/.test(text) ? `${text}0` : text;
 }
 
 /** Integer in units of 10^-scale → plain decimal string ("-1234.50"), exact for any safe integer. */
@@ -227,7 +259,7 @@ function allocate(total: number, weights: number[]): number[] {
  */
 export function totals(lines: readonly Line[], settings: TotalsSettings): Totals {
   if (!Array.isArray(lines)) throw new MoneyError("Lines must be a list.");
-  const rate = parsePercent(settings?.tax?.ratePercent, "Tax rate");
+  parsePercent(settings?.tax?.ratePercent, "Tax rate");
   const method = settings.tax.method;
   if (method !== "per_line" && method !== "per_invoice") throw new MoneyError(`Tax method must be per_line or per_invoice (got ${JSON.stringify(method)}).`);
 
@@ -250,11 +282,33 @@ export function totals(lines: readonly Line[], settings: TotalsSettings): Totals
     if (supplies.capMinor != null) suppliesMinor = Math.min(suppliesMinor, assertInt(supplies.capMinor, "Shop-supplies cap (minor units)"));
   }
 
-  const taxableItems = lines.flatMap((line, i) => (line.taxable ? [net[i]!] : []));
-  if (supplies?.taxable && suppliesMinor > 0) taxableItems.push(suppliesMinor);
-  const taxOn = (amount: number) => toSafe(divHalfUp(BigInt(amount) * rate.num, rate.den), "The tax");
-  const taxableBaseMinor = toSafe(BigInt(taxableItems.reduce((a, b) => a + b, 0)), "The taxable base");
-  const taxMinor = method === "per_line" ? taxableItems.reduce((sum, amount) => sum + taxOn(amount), 0) : taxOn(taxableBaseMinor);
+  // Each taxable amount with the rate of its kind; per_invoice rounds once per rate on that rate's base.
+  // Rates keyed by their trimmed text, so "8.250000" (as the database gives it) and "8.25" group as one.
+  const trim = (text: Percent) => (typeof text === "string" && text.includes(".") ? text.replace(/0+$/, "").replace(/\.$/, "") : text);
+  const rateText = (kind: "part" | "labour" | "fee" | "supplies"): Percent => trim((kind === "part" ? undefined : settings.tax.kindRates?.[kind]) ?? settings.tax.ratePercent);
+  const taxableItems: { amount: number; rate: Percent }[] = lines.flatMap((line, i) => (line.taxable ? [{ amount: net[i]!, rate: rateText(line.kind) }] : []));
+  if (supplies?.taxable && suppliesMinor > 0) taxableItems.push({ amount: suppliesMinor, rate: rateText("supplies") });
+  const parsed = new Map<Percent, PercentFraction>();
+  const fraction = (text: Percent) => parsed.get(text) ?? parsed.set(text, parsePercent(text, "Tax rate")).get(text)!;
+  // Every configured rate is checked, used or not: a bad setting is refused, never silently skipped.
+  for (const kind of ["part", "labour", "fee", "supplies"] as const) fraction(rateText(kind));
+  const taxOn = (amount: number, text: Percent) => {
+    const r = fraction(text);
+    return toSafe(divHalfUp(BigInt(amount) * r.num, r.den), "The tax");
+  };
+  const byRate = new Map<Percent, { baseMinor: number; taxMinor: number }>();
+  for (const item of taxableItems) {
+    const group = byRate.get(item.rate) ?? { baseMinor: 0, taxMinor: 0 };
+    group.baseMinor = toSafe(BigInt(group.baseMinor) + BigInt(item.amount), "The taxable base");
+    if (method === "per_line") group.taxMinor += taxOn(item.amount, item.rate);
+    byRate.set(item.rate, group);
+  }
+  if (method === "per_invoice") for (const [text, group] of byRate) group.taxMinor = taxOn(group.baseMinor, text);
+  const taxByRate = [...byRate]
+    .map(([ratePercent, g]) => ({ ratePercent, ...g }))
+    .sort((a, b) => Number(fraction(a.ratePercent).num * fraction(b.ratePercent).den - fraction(b.ratePercent).num * fraction(a.ratePercent).den));
+  const taxableBaseMinor = toSafe(BigInt(taxableItems.reduce((a, b) => a + b.amount, 0)), "The taxable base");
+  const taxMinor = taxByRate.reduce((sum, g) => sum + g.taxMinor, 0);
 
   const subtotalMinor = gross.reduce((a, b) => a + b, 0);
   const lineDiscountsMinor = lineDiscounts.reduce((a, b) => a + b, 0);
@@ -267,7 +321,7 @@ export function totals(lines: readonly Line[], settings: TotalsSettings): Totals
       subtotalDiscountShareMinor: shares[i]!,
       netMinor: net[i]!,
       taxable: line.taxable,
-      taxMinor: method === "per_line" ? (line.taxable ? taxOn(net[i]!) : 0) : null,
+      taxMinor: method === "per_line" ? (line.taxable ? taxOn(net[i]!, rateText(line.kind)) : 0) : null,
     })),
     subtotalMinor: toSafe(BigInt(subtotalMinor), "The subtotal"),
     lineDiscountsMinor,
@@ -276,9 +330,20 @@ export function totals(lines: readonly Line[], settings: TotalsSettings): Totals
     suppliesMinor,
     taxableBaseMinor,
     taxMinor,
+    taxByRate,
     preTaxTotalMinor: toSafe(BigInt(preTaxTotalMinor), "The pre-tax total"),
     totalMinor: toSafe(BigInt(preTaxTotalMinor + taxMinor), "The total"),
   };
+}
+
+/** How a tax row names its rates: "Tax (8.25 %)", or each kind's rate when they differ. */
+export function taxLabel(tax: TaxSetting): string {
+  const trim = (text: Percent) => (text.includes(".") ? text.replace(/0+$/, "").replace(/\.$/, "") : text);
+  const base = trim(tax.ratePercent);
+  const own = (["labour", "fee", "supplies"] as const).filter((k) => tax.kindRates?.[k] != null && trim(tax.kindRates[k]!) !== base);
+  if (!own.length) return `Tax (${base} %)`;
+  const names = { labour: "labour", fee: "fees", supplies: "supplies" } as const;
+  return `Tax (parts ${base} %, ${own.map((k) => `${names[k]} ${trim(tax.kindRates![k]!)} %`).join(", ")})`;
 }
 
 // ---- estimate, authorisation, tolerance ------------------------------------------------------

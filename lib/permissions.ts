@@ -49,6 +49,10 @@ export const PERMISSIONS = {
   "approvals:send": ["owner", "service_writer"],
   "approvals:record-decision": ["owner", "service_writer"],
   "approvals:answer": ["customer"],
+  // The authorisation signed at drop-off: the desk writes any terms (approvals:send); anyone at the
+  // counter, a technician checking a machine in included, may put the shop's standard terms in
+  // front of the owner and witness the typed signature (the owner reads the amounts on screen).
+  "dropoff:standard": ["owner", "service_writer", "technician"],
   // Invoices and payments: the desk invoices authorised work, asks for deposits and records
   // counter payments; technicians see no money; only the shop owner refunds; the machine's owner pays.
   "invoice:view": ["owner", "service_writer", "customer"],

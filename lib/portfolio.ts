@@ -21,7 +21,7 @@ export const STORY_STATUS_LABEL: Record<StoryStatus, string> = {
 
 /** The same statuses as the machine's owner reads them. */
 export const OWNER_STATUS_WORDS: Record<StoryStatus, string> = {
-  proposed: "The shop would like to show this job. Nothing is public.",
+  proposed: "The shop is writing this job up to show it. Nothing is public; you'll be asked once it is ready to read.",
   consent_requested: "The shop is waiting for your answer. Nothing is public.",
   consented: "You agreed. The shop hasn't published it yet.",
   declined: "You said no. Nothing is public.",
@@ -34,7 +34,8 @@ export const CONSENT_DECISIONS = ["given", "refused", "withdrawn"] as const;
 export type ConsentDecision = (typeof CONSENT_DECISIONS)[number];
 /** Where each of the owner's answers may be given from; anything else is a 409 that says why. */
 export const CONSENT_FROM: Record<ConsentDecision, readonly StoryStatus[]> = {
-  given: ["proposed", "consent_requested", "declined", "withdrawn"],
+  // Not while "proposed": the owner agrees to a written story, once the shop has asked about it.
+  given: ["consent_requested", "declined", "withdrawn"],
   refused: ["proposed", "consent_requested"],
   withdrawn: ["consented", "published", "unpublished"],
 };
@@ -113,10 +114,22 @@ const jsonArray = z.string().transform((s, ctx) => {
   }
 });
 
+/** The owner's consent form (consentAction adds `job`): the pressed button is the decision, the typed name signs it. */
+export const storyConsentFields = z.object({
+  decision: z.enum(CONSENT_DECISIONS, { message: "Choose an answer." }),
+  /** SHA-256 of the story the page showed; agreeing binds to it (lib/server/portfolio.ts). */
+  shownHash: z
+    .string()
+    .regex(/^[0-9a-f]{64}$/, "Reload the page and answer again.")
+    .optional(),
+  name: z.string({ message: "Type your name to sign your answer." }).trim().min(1, "Type your name to sign your answer.").max(120, "Keep your name under 120 characters."),
+});
+
 /** The curation form (a server action's FormData): the write-up is a JSON string from NoteEditor, "" for none. */
+const staleStory = "This story changed or couldn't be read: reload the page and try again.";
 export const storyCurationSchema = z.object({
-  story: z.coerce.number().int().positive(),
-  version: z.coerce.number().int().positive(),
+  story: z.coerce.number({ message: staleStory }).int(staleStory).positive(staleStory),
+  version: z.coerce.number({ message: staleStory }).int(staleStory).positive(staleStory),
   title: z.string().trim().min(3, "Give the story a title of at least 3 characters.").max(120, "Keep the title under 120 characters."),
   slug: storySlugSchema,
   writeUp: z.string().max(70_000).optional(),
@@ -126,7 +139,7 @@ export const storyCurationSchema = z.object({
     .refine((s) => s === "" || PHOTO_ID_PATTERN.test(s), "Pick a cover photo from the list.")
     .optional()
     .transform((s) => (s ? s : null)),
-  items: jsonArray.pipe(z.array(storyItemInputSchema).max(MAX_STORY_ITEMS, `A story shows at most ${MAX_STORY_ITEMS} items.`)),
+  items: jsonArray.pipe(z.array(storyItemInputSchema, { message: "The list of items couldn't be read; reload the page." }).max(MAX_STORY_ITEMS, `A story shows at most ${MAX_STORY_ITEMS} items.`)),
 });
 export type StoryCuration = z.output<typeof storyCurationSchema>;
 
@@ -139,7 +152,7 @@ const optionalLine = (max: number, what: string) =>
     .transform((s) => (s ? s : null));
 
 export const shopProfileSchema = z.object({
-  shop: z.string().regex(SHOP_SLUG_PATTERN),
+  shop: z.string().regex(SHOP_SLUG_PATTERN, "This page names no shop of yours: reload it and try again."),
   displayName: optionalLine(120, "the name"),
   about: optionalLine(2000, "the about text"),
   locationText: optionalLine(200, "the location"),
@@ -152,7 +165,7 @@ export const shopProfileSchema = z.object({
     .string()
     .trim()
     .toLowerCase()
-    .max(254)
+    .max(254, "That e-mail address is too long.")
     .optional()
     .transform((s) => (s ? s : null))
     .pipe(z.email({ error: "That is not an e-mail address." }).nullable()),

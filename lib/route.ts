@@ -1,7 +1,8 @@
 import "server-only";
 import { NextResponse, type NextRequest } from "next/server";
 import type { z } from "zod";
-import { AppError, toErrorBody } from "@/lib/errors";
+import { toErrorBody } from "@/lib/error-body";
+import { AppError } from "@/lib/errors";
 import type { Actor } from "@/lib/permissions";
 import { type Permission, type ResourceKind, type Resolved, checkDeclaration, resolve } from "@/lib/server/access";
 import { getActor } from "@/lib/server/actor";

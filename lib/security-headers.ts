@@ -1,6 +1,6 @@
 // The headers every page and API answer carries, worked out per request in proxy.ts (the nonce
-// is new each time; the hosts come from the environment the app runs in, not the one it was
-// built in). The fixed ones (nosniff, X-Frame-Options, Referrer-Policy) are in next.config.mjs
+// is new each time, on the pages rendered per request; the hosts come from the environment the
+// app runs in, not the one it was built in). The fixed ones (nosniff, X-Frame-Options, Referrer-Policy) are in next.config.mjs
 // for every path, static files and the routes the proxy leaves alone included.
 // No Node or Next imports: proxy.ts and the unit tests use it as it is.
 
@@ -57,18 +57,12 @@ export function paymentsOrigin(env: HeaderEnv): string | null {
 
 const isHttps = (env: HeaderEnv) => origin(env.APP_URL)?.startsWith("https://") ?? false;
 
-/**
- * The policy of an HTML page: scripts only with this request's nonce (and what they load:
- * 'strict-dynamic'), everything else from our own origin, plus the video upload host for
- * connections and the checkout host for forms. Inline style attributes stay allowed: React
- * renders them and the video player's shadow DOM needs them; a style can't run code.
- */
-export function pageCsp(nonce: string, env: HeaderEnv): string {
-  const dev = env.NODE_ENV !== "production";
+/** Everything but scripts, the same for every page: our own origin, plus the video upload host for connections and the checkout host for forms. */
+function pagePolicy(scriptSrc: string[], env: HeaderEnv): string {
   const directives = [
     "default-src 'self'",
-    // React's development build evaluates code for its error overlay and stack traces.
-    `script-src 'self' 'nonce-${nonce}' 'strict-dynamic'${dev ? " 'unsafe-eval'" : ""}`,
+    `script-src ${scriptSrc.join(" ")}`,
+    ...(scriptSrc.includes("'unsafe-inline'") ? ["script-src-attr 'none'"] : []),
     "style-src 'self' 'unsafe-inline'",
     "img-src 'self' data: blob:",
     "media-src 'self' blob:",
@@ -85,6 +79,40 @@ export function pageCsp(nonce: string, env: HeaderEnv): string {
   return directives.join("; ");
 }
 
+// React's development build evaluates code for its error overlay and stack traces.
+const devEval = (env: HeaderEnv) => (env.NODE_ENV !== "production" ? ["'unsafe-eval'"] : []);
+
+/**
+ * The policy of a page rendered per request: scripts only with this request's nonce (and what
+ * they load: 'strict-dynamic'), everything else from our own origin, plus the video upload host
+ * for connections and the checkout host for forms. Inline style attributes stay allowed: React
+ * renders them and the video player's shadow DOM needs them; a style can't run code.
+ */
+export function pageCsp(nonce: string, env: HeaderEnv): string {
+  return pagePolicy(["'self'", `'nonce-${nonce}'`, "'strict-dynamic'", ...devEval(env)], env);
+}
+
+/**
+ * The shops' public pages (/s/…) are prerendered on first visit and served from Next's cache
+ * (ISR) until a change drops them, so their HTML can't carry a per-request nonce. Next's App
+ * Router puts the page's data in inline <script> tags (self.__next_f.push(…)) that differ per page
+ * and per render; its experimental SRI hashes only the external bundles, and hashes of the inline
+ * ones would have to be worked out from each cached page. So these pages allow inline scripts,
+ * the "without nonces" policy of Next's CSP guide, and nothing else is loosened: scripts only
+ * from our own origin (no 'strict-dynamic', so nothing they load from elsewhere runs), no inline
+ * event-handler attributes (script-src-attr 'none', CSP Level 3), no plugins, no <base>, forms
+ * only to us and the checkout host, never framed. These pages show only what a shop published,
+ * with no session of ours (proxy.ts sends no signed-in area here), and React escapes every text.
+ */
+export function staticPageCsp(env: HeaderEnv): string {
+  return pagePolicy(["'self'", "'unsafe-inline'", ...devEval(env)], env);
+}
+
+/** Pages served from the static cache: the shops' public pages and what hangs off them (/s/…). */
+export function isStaticPage(pathname: string): boolean {
+  return pathname === "/s" || pathname.startsWith("/s/");
+}
+
 /** API answers (JSON, photos, PDFs) are never framed; anything more would get in the way of the PDF viewer. */
 export const API_CSP = "frame-ancestors 'none'";
 
@@ -96,11 +124,22 @@ export function permissionsPolicy(pathname: string): string {
   return `camera=${capture}, microphone=${capture}, geolocation=(), payment=(), usb=()`;
 }
 
-/** The per-request security headers for a path, with `nonce` for pages. */
-export function securityHeaders(pathname: string, nonce: string, env: HeaderEnv): Record<string, string> {
+/** Whether the path is a page rendered per request, which needs a fresh nonce (proxy.ts makes one only then). */
+export function needsNonce(pathname: string): boolean {
+  return !(pathname === "/api" || pathname.startsWith("/api/")) && !isStaticPage(pathname);
+}
+
+/** The per-request security headers for a path, with `nonce` for pages rendered per request (null elsewhere). */
+export function securityHeaders(pathname: string, nonce: string | null, env: HeaderEnv): Record<string, string> {
   const api = pathname === "/api" || pathname.startsWith("/api/");
+  let csp = API_CSP;
+  if (!api && isStaticPage(pathname)) csp = staticPageCsp(env);
+  else if (!api) {
+    if (!nonce) throw new Error(`${pathname} is rendered per request: its policy needs this request's nonce`);
+    csp = pageCsp(nonce, env);
+  }
   const headers: Record<string, string> = {
-    "Content-Security-Policy": api ? API_CSP : pageCsp(nonce, env),
+    "Content-Security-Policy": csp,
     "Permissions-Policy": permissionsPolicy(pathname),
   };
   if (isHttps(env)) headers["Strict-Transport-Security"] = "max-age=31536000";

@@ -1,6 +1,6 @@
 // The shop settings' pure parts: weekdays and opening hours, the currencies the settings page
 // offers, the statutory over-estimate rules it offers as presets, and time-zone checks. No I/O.
-import { MoneyError, type ToleranceSetting, currencyDigits } from "@/lib/money";
+import { MoneyError, type ToleranceSetting, currencyDigits, inputText } from "@/lib/money";
 
 export const WEEKDAYS = ["mon", "tue", "wed", "thu", "fri", "sat", "sun"] as const;
 export type Weekday = (typeof WEEKDAYS)[number];
@@ -88,13 +88,13 @@ export function assertCurrency(code: string): SupportedCurrency {
   return code;
 }
 
-/** Minor units → the plain text a settings field shows and parseMoney reads back ("1234.50", "¥" shops "1234"). */
+/** Minor units → the plain text a settings field shows and parseMoney reads back ("1234.50", "1234,50" in a comma shop, "¥" shops "1234"). */
 export function minorToInput(minor: number | null | undefined, currency: string): string {
   if (minor == null) return "";
   const digits = currencyDigits(currency);
   const text = String(Math.abs(minor)).padStart(digits + 1, "0");
   const body = digits ? `${text.slice(0, -digits)}.${text.slice(-digits)}` : text;
-  return minor < 0 ? `-${body}` : body;
+  return inputText(minor < 0 ? `-${body}` : body, currency);
 }
 
 /** "10.000000" (a DECIMAL column) → "10"; "8.250000" → "8.25". */

@@ -1,7 +1,10 @@
+import { connection } from "next/server";
 import type { ReactNode } from "react";
 import { Brand } from "@/components/brand";
 
-export default function AuthLayout({ children }: { children: ReactNode }) {
+export default async function AuthLayout({ children }: { children: ReactNode }) {
+  // Rendered per request: the page's scripts carry this request's CSP nonce (proxy.ts).
+  await connection();
   return (
     <div className="flex min-h-dvh flex-col">
       <header className="border-b border-line px-4 py-3">

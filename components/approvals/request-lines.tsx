@@ -1,7 +1,7 @@
 import { CircleCheck, CircleX } from "lucide-react";
 import { Badge, TBody, TD, TH, THead, TR, Table } from "@/components/ui";
 import { LINE_KIND_LABEL, type LineAnswer, type RequestSnapshot, type SnapshotLine } from "@/lib/approvals";
-import { formatHours, formatMoney, formatQuantity } from "@/lib/money";
+import { formatHours, formatMoney, formatQuantity, taxLabel } from "@/lib/money";
 
 /**
  * How a line is priced, in words: "2 × $21.25 · part FBP-220", "1.5 h at $115.00/h"; nothing for a fee.
@@ -62,7 +62,7 @@ export function RequestLines({ snapshot, answers, label = "Lines of the request"
           </TR>
         ) : null}
         <TR>
-          <TD colSpan={answers ? 2 : 1}>Tax ({snapshot.pricing.tax.ratePercent.replace(/\.?0+$/, "")} %)</TD>
+          <TD colSpan={answers ? 2 : 1}>{taxLabel(snapshot.pricing.tax)}</TD>
           <TD className="text-right tabular-nums">{money(t.taxMinor)}</TD>
         </TR>
         <TR>

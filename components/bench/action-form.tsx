@@ -2,6 +2,7 @@
 import { type ReactNode, useActionState } from "react";
 import { Alert, Button, type ButtonVariant } from "@/components/ui";
 import type { ActionState } from "@/lib/action";
+import { formBanner } from "@/lib/form-visible";
 
 // Shared plumbing for the bench forms: the action state, what was typed (kept after an error so
 // nothing is lost), per-field messages, and a one-button form for ticks and toggles.
@@ -32,14 +33,8 @@ export function useBenchForm<T>(action: Action<T>, { onSuccess, visible }: { onS
     values,
     fieldError: (name: string) => error?.fields?.[name]?.[0],
     /** A message that belongs to no single field (or a check that failed on the server). */
-    formError: error && !error.fields ? error.message : error?.fields && Object.keys(error.fields).length ? bannerFor(error.fields, visible) : null,
+    formError: formBanner(error, visible),
   };
-}
-
-function bannerFor(fields: Record<string, string[]>, visible: readonly string[] | undefined): string {
-  const unseen = visible ? Object.entries(fields).filter(([name]) => !visible.includes(name)).map(([, messages]) => messages[0]) : [];
-  const beside = visible ? Object.keys(fields).some((name) => visible.includes(name)) : true;
-  return [...new Set(unseen), ...(beside ? ["Some fields need attention: see the messages beside them."] : [])].join(" ");
 }
 
 export function FormError({ message }: { message: string | null }) {

@@ -3,8 +3,8 @@ import { torqueText, torqueViews } from "@/lib/bench";
 import { passSchedule } from "@/lib/tightening-passes";
 import { type TorqueUnit, torqueUnitLabel } from "@/lib/torque";
 
-// Torque as the bench reads it: the shop's unit first, the value as specified beside it when it
-// was given in another unit, and every other unit one tap away. No hooks: renders on the server
+// Torque as the bench reads it: the unit it was entered in first, the shop's unit beside it when
+// different, and every other unit one tap away. No hooks: renders on the server
 // and inside client lists alike; <details> opens without JavaScript.
 
 export function TorqueValue({ value, unit, displayUnit }: { value: number; unit: TorqueUnit; displayUnit: TorqueUnit }) {
@@ -12,7 +12,7 @@ export function TorqueValue({ value, unit, displayUnit }: { value: number; unit:
   return (
     <div className="flex flex-wrap items-center gap-x-3">
       <strong className="text-lg text-ink">{views.primary}</strong>
-      {unit !== displayUnit ? <span className="text-ink-muted">(spec {torqueText(value, unit)})</span> : null}
+      {views.shop ? <span className="text-ink-muted">({views.shop})</span> : null}
       <details className="group">
         <summary className="inline-flex min-h-tap cursor-pointer items-center rounded-md px-2 font-semibold text-oil hover:bg-oil-soft">Other units</summary>
         <p className="pb-2 text-ink">{views.others.join(" · ")}</p>

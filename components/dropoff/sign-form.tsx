@@ -3,7 +3,7 @@ import { PenLine } from "lucide-react";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { Alert, Button, Field, Input } from "@/components/ui";
 import type { ActionState } from "@/lib/action";
-import { FORM_FIELDS } from "@/lib/schemas/form-fields";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 
 // Signing the drop-off authorisation: the typed name, parts back or not, and a tick that the
 // wording was read (WCAG 3.3.4: nothing binding happens on a single slip). The same form on the
@@ -12,7 +12,7 @@ import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 type SignAction = (prev: ActionState<{ signed: boolean }>, formData: FormData) => Promise<ActionState<{ signed: boolean }>>;
 
 export function DropoffSignForm({ action, jobPublicId, hash, ownerName, atCounter }: { action: SignAction; jobPublicId: string; hash: string; ownerName: string; atCounter: boolean }) {
-  const form = useBenchForm(action, { visible: FORM_FIELDS.dropoffSign.visible });
+  const form = useBenchForm(action, { visible: FORM_VISIBLE.dropoffSign });
   if (form.state?.ok) return <Alert tone="success">Signed. The record is kept with the job and printed on the invoice.</Alert>;
   const id = atCounter ? "counter" : "online";
   return (

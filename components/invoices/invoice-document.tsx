@@ -35,7 +35,7 @@ export function InvoiceDocument({ view, children, lineAction }: { view: InvoiceV
   const rows: [string, string, boolean?][] = [["Work and parts", m(inv.subtotalMinor)]];
   if (inv.discountMinor) rows.push(["Discount", `−${m(inv.discountMinor)}`]);
   if (inv.suppliesMinor) rows.push(["Shop supplies", m(inv.suppliesMinor)]);
-  rows.push(["Tax", m(inv.taxMinor)], ["Total", m(inv.totalMinor), true]);
+  rows.push([inv.taxLabel, m(inv.taxMinor)], ["Total", m(inv.totalMinor), true]);
   if (inv.paidMinor) rows.push(["Paid (deposits and payments, less refunds)", `−${m(inv.paidMinor)}`]);
   rows.push([inv.balanceMinor < 0 ? "Owed back to you" : "Balance due", m(Math.abs(inv.balanceMinor)), true]);
   return (

@@ -1,10 +1,12 @@
 import { ArrowRight } from "lucide-react";
 import { BoltPattern } from "@/components/bench/bolt-pattern";
 import { ReadingVerdictBadge } from "@/components/bench/reading-verdict";
+import { TorqueOutcomeBadge } from "@/components/bench/torque-outcome";
 import { TorqueValue } from "@/components/bench/torque-value";
 import { Badge } from "@/components/ui";
-import { PART_STATUS_LABEL, isPartBody, isReadingBody, isTeardownBody, isTorqueBody, limitText, plainNumber, sentenceCase, torqueProof, torqueText } from "@/lib/bench";
+import { PART_STATUS_LABEL, isPartBody, isReadingBody, isTeardownBody, isTorqueBody, limitText, plainNumber, sentenceCase, torqueProof } from "@/lib/bench";
 import type { TimelineEntry } from "@/lib/journal";
+import { torqueHeadline } from "@/lib/torque-check";
 import { crossPatternOrder } from "@/lib/tightening-order";
 
 // Timeline bodies of the bench kinds, read from the snapshot each entry keeps. No hooks, so it
@@ -19,7 +21,10 @@ export function BenchEntryBody({ entry }: { entry: TimelineEntry }) {
   if (entry.kind === "torque" && isTorqueBody(body)) {
     return (
       <div className="space-y-2">
-        <p className="font-semibold text-ink">{body.fastener}</p>
+        <p className="flex flex-wrap items-center gap-2">
+          <span className="font-semibold text-ink">{body.fastener}</span>
+          <TorqueOutcomeBadge record={body} />
+        </p>
         <TorqueValue value={body.specValue} unit={body.unit} displayUnit={body.displayUnit} />
         <p>{sentenceCase(torqueProof(body))}.</p>
         {body.tool ? <p className="text-sm text-ink-muted">Tool: {body.tool}</p> : null}
@@ -65,7 +70,7 @@ export function BenchEntryBody({ entry }: { entry: TimelineEntry }) {
         </p>
         {body.notes ? <p className="whitespace-pre-line">{body.notes}</p> : null}
         {body.storage ? <p className="text-sm text-ink-muted">Kept in: {body.storage}</p> : null}
-        {body.torque ? <p className="text-sm text-ink-muted">Torque on the way back: {torqueText(body.torque.value, body.torque.unit, "nm")}</p> : null}
+        {body.torque ? <p className="text-sm text-ink-muted">Torque on the way back: {torqueHeadline(body.torque.value, body.torque.unit, body.torque.unit)}</p> : null}
       </div>
     );
   }

@@ -1,68 +1,22 @@
 "use client";
-import type MuxPlayerElement from "@mux/mux-player";
-import MuxPlayer from "@mux/mux-player-react/lazy";
-import { CircleAlert, LoaderCircle, MapPin } from "lucide-react";
-import { useRef, useState } from "react";
-import { formatDuration } from "@/lib/clips";
+import { CircleAlert, LoaderCircle } from "lucide-react";
+import { lazy, Suspense } from "react";
 import type { TimelineClip } from "@/lib/journal";
 
+// The player's code comes in its own chunk, fetched only where a ready clip is shown.
+const ClipVideo = lazy(() => import("./clip-video"));
+
 /**
- * A clip on the timeline. The player's code and the video load only when the clip scrolls into
- * view (the lazy build of the player), so a journal with fifty clips stays light; until then a
- * poster-sized placeholder holds its place.
+ * A clip on the timeline: the player (clip-video.tsx, a plain <video> with our controls) once it
+ * is ready, or where it stands (uploading, processing, failed). Until the player's code is in,
+ * the clip's poster holds its place.
  */
 export function ClipPlayer({ clip, title, startTime }: { clip: TimelineClip; title: string; startTime?: number }) {
-  const player = useRef<MuxPlayerElement | null>(null);
-  const [start, setStart] = useState(startTime);
-  /** A moment opens the clip at its second: seek the loaded player, or start the lazy one there. */
-  const openAt = (ms: number) => {
-    const el = player.current;
-    if (el) {
-      el.currentTime = ms / 1000;
-      void el.play()?.catch(() => undefined);
-    } else {
-      setStart(ms / 1000);
-    }
-  };
   if (clip.status === "ready" && clip.src) {
-    const [w, h] = (clip.aspectRatio ?? "16:9").split(":").map(Number);
     return (
-      <figure className="space-y-1">
-        <MuxPlayer
-          ref={player}
-          loading="viewport"
-          src={clip.src}
-          poster={clip.poster ?? undefined}
-          streamType="on-demand"
-          disableTracking
-          disableCookies
-          preload="metadata"
-          title={title}
-          startTime={start}
-          accentColor="rgb(var(--oil))"
-          style={{ aspectRatio: `${w || 16} / ${h || 9}`, width: "100%", borderRadius: "0.5rem", overflow: "hidden" }}
-        />
-        {clip.durationSeconds != null ? <figcaption className="text-sm text-ink-muted">Clip, {formatDuration(clip.durationSeconds)}</figcaption> : null}
-        {clip.moments?.length ? (
-          <ol aria-label="Moments in this clip" className="flex flex-wrap gap-2">
-            {clip.moments.map((m) => (
-              <li key={`${m.atMs}-${m.label}`}>
-                <a
-                  href={`#clip-${clip.id}-${Math.floor(m.atMs / 1000)}`}
-                  onClick={(e) => {
-                    e.preventDefault();
-                    openAt(m.atMs);
-                  }}
-                  className="inline-flex min-h-tap items-center gap-1.5 rounded-full border border-dusk/30 bg-dusk-soft px-3 text-sm font-semibold text-dusk"
-                >
-                  <MapPin aria-hidden className="size-4" />
-                  {formatDuration(m.atMs / 1000)} {m.label}
-                </a>
-              </li>
-            ))}
-          </ol>
-        ) : null}
-      </figure>
+      <Suspense fallback={<ClipPoster clip={clip} />}>
+        <ClipVideo clip={clip} src={clip.src} title={title} startTime={startTime} />
+      </Suspense>
     );
   }
   if (clip.status === "errored" || clip.status === "deleted") {
@@ -78,5 +32,15 @@ export function ClipPlayer({ clip, title, startTime }: { clip: TimelineClip; tit
       <LoaderCircle aria-hidden className="size-5 motion-safe:animate-spin" />
       {clip.status === "uploading" ? "Uploading from the bench…" : "Processing the clip…"}
     </p>
+  );
+}
+
+function ClipPoster({ clip }: { clip: TimelineClip }) {
+  const [w, h] = (clip.aspectRatio ?? "16:9").split(":").map(Number);
+  return (
+    <div aria-hidden className="w-full overflow-hidden rounded-lg bg-black" style={{ aspectRatio: `${w || 16} / ${h || 9}` }}>
+      {/* eslint-disable-next-line @next/next/no-img-element -- our own clip route, shown for a moment */}
+      {clip.poster ? <img src={clip.poster} alt="" className="size-full object-contain" /> : null}
+    </div>
   );
 }

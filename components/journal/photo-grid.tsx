@@ -2,6 +2,7 @@
 import { useState } from "react";
 import dynamic from "next/dynamic";
 import type { TimelinePhoto } from "@/lib/journal";
+import { PhotoImg } from "./photo-img";
 
 // The viewer's code loads only when someone opens a photo.
 const PhotoViewer = dynamic(() => import("./photo-viewer"), { ssr: false });
@@ -20,9 +21,8 @@ export function PhotoGrid({ photos, label }: { photos: TimelinePhoto[]; label: s
               className="block aspect-square w-full overflow-hidden rounded-lg border border-line bg-sunken focus-visible:outline focus-visible:outline-2 focus-visible:outline-offset-2 focus-visible:outline-oil"
               aria-label={`Open photo ${index + 1} of ${photos.length}`}
             >
-              {/* Served through our own authorised route, so next/image's optimiser is not used. */}
-              {/* eslint-disable-next-line @next/next/no-img-element */}
-              <img src={photo.thumbUrl} alt="" width={photo.width} height={photo.height} loading="lazy" className="size-full object-cover" />
+              {/* Three across on a phone, four from 640 px, in a column at most 768 px wide. */}
+              <PhotoImg photo={photo} alt="" sizes="(min-width: 768px) 180px, (min-width: 640px) 25vw, 33vw" className="size-full object-cover" />
             </button>
           </li>
         ))}

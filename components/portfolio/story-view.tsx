@@ -2,6 +2,7 @@ import { BoltPattern } from "@/components/bench/bolt-pattern";
 import { TorqueValue } from "@/components/bench/torque-value";
 import { ClipPlayer } from "@/components/journal/clip-player";
 import { PhotoGrid } from "@/components/journal/photo-grid";
+import { PhotoImg } from "@/components/journal/photo-img";
 import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
 import { NoteView } from "@/components/rich-text/note-view";
 import { Caution } from "@/components/ui";
@@ -30,13 +31,12 @@ export function StoryView({ story }: { story: PublicStory }) {
       </header>
       {story.cover ? (
         <figure>
-          {/* Served by the story's own public photo route, so next/image's optimiser is not used. */}
-          {/* eslint-disable-next-line @next/next/no-img-element */}
-          <img
-            src={story.cover.displayUrl}
+          {/* The page's largest image: fetched first, at the width of the column (768 px less its padding). */}
+          <PhotoImg
+            photo={story.cover}
+            priority
+            sizes="(min-width: 768px) 736px, calc(100vw - 2rem)"
             alt={`${story.machine.label}, the machine in this story`}
-            width={story.cover.width}
-            height={story.cover.height}
             className="h-auto w-full rounded-xl border border-line bg-sunken object-cover"
           />
         </figure>

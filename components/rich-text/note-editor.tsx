@@ -8,17 +8,21 @@
 // (`const ref = useRef<NoteEditorHandle>(null)` … `ref.current?.clear()`).
 import clsx from "clsx";
 import { Bold, Heading2, Heading3, Italic, Link, List, ListOrdered, Redo2, TextQuote, Undo2, Unlink } from "lucide-react";
+import { Selection } from "@tiptap/pm/state";
 import { EditorContent, useEditor, useEditorState, type ChainedCommands, type Editor, type JSONContent } from "@tiptap/react";
-import { useEffect, useId, useImperativeHandle, useMemo, useState, type ReactNode, type Ref } from "react";
+import { useEffect, useId, useImperativeHandle, useMemo, useRef, useState, type ReactNode, type Ref } from "react";
 import { Button, Field, Input } from "@/components/ui";
 import { noteExtensions } from "@/lib/rich-text/extensions";
 import { LINK_RULE_MESSAGE, hrefFromInput } from "@/lib/rich-text/href";
-import { NOTE_LIMITS } from "@/lib/rich-text/note";
+import { NOTE_LIMITS } from "@/lib/rich-text/note-types";
 
 export type NoteEditorHandle = {
   /** Empties the editor (and the hidden input), e.g. after the note was posted. */
   clear: () => void;
-  focus: () => void;
+  /** Puts the caret in the editor: where it was, or at the end. */
+  focus: (at?: "end") => void;
+  /** Replaces the content, as if typed (onChange is called). */
+  setContent: (doc: JSONContent) => void;
 };
 
 export type NoteEditorProps = {
@@ -37,6 +41,8 @@ export type NoteEditorProps = {
   invalid?: boolean;
   className?: string;
   ref?: Ref<NoteEditorHandle>;
+  /** Called once the editor exists and can take content and focus (LazyNoteEditor hands over to it). */
+  onReady?: (handle: NoteEditorHandle) => void;
 };
 
 const EMPTY_DOC: JSONContent = { type: "doc", content: [{ type: "paragraph" }] };
@@ -56,6 +62,7 @@ export function NoteEditor({
   invalid = false,
   className,
   ref,
+  onReady,
 }: NoteEditorProps) {
   const [serialised, setSerialised] = useState(() => JSON.stringify(defaultValue ?? EMPTY_DOC));
   const [linkOpen, setLinkOpen] = useState(false);
@@ -93,19 +100,33 @@ export function NoteEditor({
     editor?.setEditable(!disabled, false);
   }, [editor, disabled]);
 
-  useImperativeHandle(
-    ref,
+  const handle = useMemo<NoteEditorHandle>(
     () => ({
       clear: () => {
         setLinkOpen(false);
         editor?.commands.clearContent(true);
       },
-      focus: () => {
-        editor?.commands.focus();
+      focus: (at) => {
+        if (!editor) return;
+        if (at !== "end") return void editor.commands.focus();
+        // At once, not on the next frame as tiptap's focus command does: a hand-over from the
+        // stand-in box (LazyNoteEditor) must not leave a moment where keystrokes go nowhere.
+        editor.view.dispatch(editor.state.tr.setSelection(Selection.atEnd(editor.state.doc)));
+        editor.view.focus();
+      },
+      setContent: (doc) => {
+        editor?.commands.setContent(doc);
       },
     }),
     [editor],
   );
+  useImperativeHandle(ref, () => handle, [handle]);
+  const readyFor = useRef<Editor | null>(null);
+  useEffect(() => {
+    if (!editor || readyFor.current === editor) return;
+    readyFor.current = editor;
+    onReady?.(handle);
+  }, [editor, handle, onReady]);
 
   const state = useEditorState({
     editor,

@@ -19,6 +19,10 @@ import * as staffInvites from "./20261204_17_staff_invites";
 import * as customerContact from "./20261204_18_customer_contact";
 import * as dropoffAuthorisation from "./20261204_19_dropoff_authorisation";
 import * as shopSignup from "./20261204_20_shop_signup";
+import * as boardIndexes from "./20261204_21_board_indexes";
+import * as torqueOutcome from "./20261204_22_torque_outcome";
+import * as taxRatesByKind from "./20261204_23_tax_rates_by_kind";
+import * as consentShown from "./20261204_24_consent_shown";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -45,6 +49,10 @@ const MIGRATIONS: Migration[] = [
   { name: "20261204_18_customer_contact", module: customerContact },
   { name: "20261204_19_dropoff_authorisation", module: dropoffAuthorisation },
   { name: "20261204_20_shop_signup", module: shopSignup },
+  { name: "20261204_21_board_indexes", module: boardIndexes },
+  { name: "20261204_22_torque_outcome", module: torqueOutcome },
+  { name: "20261204_23_tax_rates_by_kind", module: taxRatesByKind },
+  { name: "20261204_24_consent_shown", module: consentShown },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

@@ -8,6 +8,7 @@ import { db } from "@/db/client";
 import type { JournalEntriesTable, Nullable, PhotosTable, ReadingsTable, TeardownStepsTable, TorqueRecordsTable, UsersTable } from "@/db/tables";
 import { transaction } from "@/db/transaction";
 import type { TorqueUnit } from "@/lib/torque";
+import { isWrenchClass } from "@/lib/torque-check";
 
 // Torque records, readings and the teardown log. Every record that reaches the timeline is
 // written together with its entry in one transaction: both or neither.
@@ -21,11 +22,16 @@ const json = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (
 export async function getBenchSettings({ shopId }: { shopId: number }, k: Knex = db()): Promise<BenchSettings> {
   const row = await k("shop_bench_settings").where({ shop_id: shopId }).first();
   if (!row) return { ...DEFAULT_BENCH_SETTINGS, passPercents: [...DEFAULT_BENCH_SETTINGS.passPercents] };
-  return { torqueUnit: row.torque_unit, passPercents: json(row.pass_percents) as number[], chainLimitPct: Number(row.chain_limit_pct) };
+  return {
+    torqueUnit: row.torque_unit,
+    passPercents: json(row.pass_percents) as number[],
+    chainLimitPct: Number(row.chain_limit_pct),
+    wrenchClass: isWrenchClass(row.wrench_class) ? row.wrench_class : DEFAULT_BENCH_SETTINGS.wrenchClass,
+  };
 }
 
 export async function saveBenchSettings({ shopId, settings }: { shopId: number; settings: BenchSettings }, k: Knex = db()): Promise<void> {
-  const row = { torque_unit: settings.torqueUnit, pass_percents: JSON.stringify(settings.passPercents), chain_limit_pct: settings.chainLimitPct, updated_at: k.fn.now() };
+  const row = { torque_unit: settings.torqueUnit, pass_percents: JSON.stringify(settings.passPercents), chain_limit_pct: settings.chainLimitPct, wrench_class: settings.wrenchClass, updated_at: k.fn.now() };
   await k("shop_bench_settings").insert({ shop_id: shopId, ...row }).onConflict("shop_id").merge(row);
 }
 
@@ -57,6 +63,10 @@ export async function insertTorqueRecord(p: JobKey & { userId: number; visibilit
         pass_percents: JSON.stringify(b.passPercents),
         bolt_count: b.boltCount,
         note: b.note,
+        tolerance_pct: b.tolerancePct ?? null,
+        wrench_class: b.wrenchClass ?? null,
+        passes_done: b.passesDone ?? null,
+        check_pass_done: b.checkPass ?? null,
         recorded_by_user_id: p.userId,
       }),
     ),
@@ -94,6 +104,11 @@ export async function listTorqueRecords({ shopId, jobId }: JobKey): Promise<Torq
       pattern: body?.pattern ?? null,
       note: str(r.note),
       displayUnit: body?.displayUnit ?? r.unit,
+      tolerancePct: r.tolerance_pct == null ? undefined : Number(r.tolerance_pct),
+      wrenchClass: isWrenchClass(r.wrench_class) ? r.wrench_class : null,
+      passesDone: r.passes_done == null ? null : Boolean(r.passes_done),
+      checkPass: r.check_pass_done == null ? null : Boolean(r.check_pass_done),
+      warning: body?.warning ?? null,
       entry: r.version == null || r.visibility == null ? null : { id: Number(r.entry_id), visibility: r.visibility, version: Number(r.version) },
       byUserId: num(r.recorded_by_user_id),
       by: str(r.by_name),

@@ -54,41 +54,40 @@ export function newClipPublicId(): string {
   return newPhotoPublicId();
 }
 
-/** The clips of these entries in one query, keyed by entry id. */
+/**
+ * The clips of these entries with their moments, in one query (a clip's row repeats once per
+ * moment), keyed by entry id: a timeline page stays a fixed number of queries (DESIGN.md §5).
+ */
 export async function clipsForEntries(k: Knex, shopId: number, entryIds: number[]): Promise<Map<number, TimelineClip>> {
   const out = new Map<number, TimelineClip>();
   if (!entryIds.length) return out;
-  const rows = await k("clips").where("shop_id", shopId).whereIn("entry_id", entryIds).select("id", "entry_id", "public_id", "status", "duration_seconds", "aspect_ratio", "playback_id", "error");
-  // The moments of all these clips in one more query.
-  const moments = new Map<number, { atMs: number; label: string }[]>();
-  if (rows.length) {
-    const marked = await k("clip_moments")
-      .where("shop_id", shopId)
-      .whereIn(
-        "clip_id",
-        rows.map((r) => Number(r.id)),
-      )
-      .orderBy(["clip_id", "at_ms", "id"])
-      .select("clip_id", "at_ms", "label");
-    for (const m of marked) {
-      const list = moments.get(Number(m.clip_id)) ?? [];
-      list.push({ atMs: Number(m.at_ms), label: String(m.label) });
-      moments.set(Number(m.clip_id), list);
-    }
-  }
+  type Row = Pick<ClipsTable, "id" | "entry_id" | "public_id" | "status" | "duration_seconds" | "aspect_ratio" | "playback_id" | "error"> & { at_ms: number | null; label: string | null };
+  const rows: Row[] = await k("clips as c")
+    .leftJoin("clip_moments as m", (j) => j.on("m.clip_id", "c.id").andOn("m.shop_id", "c.shop_id"))
+    .where("c.shop_id", shopId)
+    .whereIn("c.entry_id", entryIds)
+    .orderBy([{ column: "c.id" }, { column: "m.at_ms" }, { column: "m.id" }])
+    .select("c.id", "c.entry_id", "c.public_id", "c.status", "c.duration_seconds", "c.aspect_ratio", "c.playback_id", "c.error", "m.at_ms", "m.label");
   for (const r of rows) {
-    const status = r.status;
-    const urls = status === "ready" && r.playback_id ? clipMediaUrls(String(r.public_id)) : null;
-    out.set(Number(r.entry_id), {
-      id: String(r.public_id),
-      status,
-      durationSeconds: r.duration_seconds == null ? null : Number(r.duration_seconds),
-      aspectRatio: r.aspect_ratio ?? null,
-      src: urls?.src ?? null,
-      poster: urls?.poster ?? null,
-      error: r.error ?? null,
-      moments: moments.get(Number(r.id)) ?? [],
-    });
+    const entryId = Number(r.entry_id);
+    let clip = out.get(entryId);
+    let moments = clip?.moments;
+    if (!clip || !moments) {
+      moments = [];
+      const urls = r.status === "ready" && r.playback_id ? clipMediaUrls(String(r.public_id)) : null;
+      clip = {
+        id: String(r.public_id),
+        status: r.status,
+        durationSeconds: r.duration_seconds == null ? null : Number(r.duration_seconds),
+        aspectRatio: r.aspect_ratio ?? null,
+        src: urls?.src ?? null,
+        poster: urls?.poster ?? null,
+        error: r.error ?? null,
+        moments,
+      };
+      out.set(entryId, clip);
+    }
+    if (r.at_ms != null) moments.push({ atMs: Number(r.at_ms), label: String(r.label) });
   }
   return out;
 }

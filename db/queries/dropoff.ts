@@ -144,9 +144,3 @@ export async function signDropoff(tx: Knex.Transaction, s: DropoffSignature): Pr
     });
   return n === 1;
 }
-
-/** The address the signing link would go to (the job's customer record), or null. */
-export async function jobOwnerEmail({ shopId, jobId }: JobKey): Promise<string | null> {
-  const row = await db()("jobs as j").join("customers as c", "c.id", "j.customer_id").where({ "j.shop_id": shopId, "j.id": jobId }).first("c.email");
-  return row?.email ?? null;
-}

@@ -2,6 +2,7 @@ import "server-only";
 import type { Knex } from "knex";
 import { AppError } from "@/lib/errors";
 import { DEFAULT_MONEY_SETTINGS, type DraftLine, type EvidenceKind, type SafetyCategory, type ShopMoneySettings } from "@/lib/approvals";
+import type { TaxSetting } from "@/lib/money";
 import { type TimelinePhoto, photoUrl } from "@/lib/journal";
 import { db } from "@/db/client";
 import type { ClipsTable, FindingLinesTable, FindingsTable, JournalEntriesTable, PhotosTable, ReadingsTable, ShopMoneySettingsTable } from "@/db/tables";
@@ -14,20 +15,30 @@ type JobKey = { shopId: number; jobId: number };
 const num = (v: unknown) => (v == null ? null : Number(v));
 const iso = (v: unknown) => (v == null ? null : (v as Date).toISOString());
 
+const TAX_KINDS = ["labour", "fee", "supplies"] as const;
+type TaxKind = (typeof TAX_KINDS)[number];
+
+/** kindRates only when a kind has a rate of its own, so snapshots of one-rate shops seal as before. */
+function withKindRates(tax: TaxSetting, row: Record<`${TaxKind}_tax_text`, string | null>): TaxSetting {
+  const own = TAX_KINDS.filter((kind) => row[`${kind}_tax_text`] != null);
+  return own.length ? { ...tax, kindRates: Object.fromEntries(own.map((kind) => [kind, String(row[`${kind}_tax_text`])])) } : tax;
+}
+
 export async function getMoneySettings({ shopId }: { shopId: number }, k: Knex = db()): Promise<ShopMoneySettings> {
   // DECIMAL columns come back as exact text, never through a float.
-  const row: (ShopMoneySettingsTable & { tax_text: string; supplies_text: string | null; tolerance_text: string }) | undefined = await k("shop_money_settings")
+  const row: (ShopMoneySettingsTable & { tax_text: string; supplies_text: string | null; tolerance_text: string } & Record<`${TaxKind}_tax_text`, string | null>) | undefined = await k("shop_money_settings")
     .where({ shop_id: shopId })
     .first(
       "*",
       k.raw("CAST(tax_rate_percent AS CHAR) AS tax_text"),
       k.raw("CAST(supplies_percent AS CHAR) AS supplies_text"),
       k.raw("CAST(tolerance_percent AS CHAR) AS tolerance_text"),
+      ...TAX_KINDS.map((kind) => k.raw(`CAST(${kind}_tax_rate_percent AS CHAR) AS ${kind}_tax_text`)),
     );
   if (!row) return DEFAULT_MONEY_SETTINGS;
   return {
     labourRateMinor: num(row.labour_rate_minor),
-    tax: { ratePercent: String(row.tax_text), method: row.tax_method },
+    tax: withKindRates({ ratePercent: String(row.tax_text), method: row.tax_method }, row),
     taxable: { part: Boolean(row.parts_taxable), labour: Boolean(row.labour_taxable), fee: Boolean(row.fees_taxable) },
     supplies:
       row.supplies_text == null
@@ -47,6 +58,9 @@ export async function saveMoneySettings({ shopId, settings }: { shopId: number; 
     labour_rate_minor: settings.labourRateMinor,
     tax_rate_percent: settings.tax.ratePercent,
     tax_method: settings.tax.method,
+    labour_tax_rate_percent: settings.tax.kindRates?.labour ?? null,
+    fee_tax_rate_percent: settings.tax.kindRates?.fee ?? null,
+    supplies_tax_rate_percent: settings.tax.kindRates?.supplies ?? null,
     parts_taxable: settings.taxable.part,
     labour_taxable: settings.taxable.labour,
     fees_taxable: settings.taxable.fee,

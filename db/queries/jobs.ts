@@ -5,8 +5,9 @@ import { db } from "@/db/client";
 import type { CustomersTable, JobStatusChangesTable, JobsTable, MachinesTable, Nullable, ShopsTable, UsersTable } from "@/db/tables";
 import type { JobStatus } from "@/lib/job-status";
 import type { MachineKind } from "@/lib/machine";
-import { DONE_STATUSES, shopToday } from "@/lib/jobs-view";
+import { shopToday } from "@/lib/jobs-view";
 import type { JobListQuery } from "@/lib/schemas/jobs";
+import { ANSWERED_NOT_STARTED, type BoardExtras, boardJobs, boardOrder, INVOICE_STATE, OWNER_WAIT_DAYS, SINCE } from "./job-board";
 
 export type JobRow = {
   id: number;
@@ -98,78 +99,45 @@ function jobsWithDetails(k: Knex) {
     .leftJoin("users as t", "t.id", "j.technician_user_id");
 }
 
-// What the board adds to each job, as correlated subqueries on indexed keys so a page stays one
-// query: since when the job is in its status, the cause of its last move, its live invoice's state.
-const SINCE = "COALESCE((SELECT MAX(sc.changed_at) FROM job_status_changes sc WHERE sc.job_id = j.id), j.created_at)";
-const LAST_CAUSE = "(SELECT sc.cause FROM job_status_changes sc WHERE sc.job_id = j.id ORDER BY sc.id DESC LIMIT 1)";
-const INVOICE_STATE =
-  "(SELECT CASE WHEN i.status = 'draft' THEN 'draft' WHEN i.status = 'paid' OR i.balance_minor <= 0 THEN 'paid' ELSE 'issued' END FROM invoices i WHERE i.job_id = j.id AND i.status <> 'void' ORDER BY i.id DESC LIMIT 1)";
-const OWNER_WAIT_DAYS = "(SELECT s.owner_wait_days FROM shops s WHERE s.id = j.shop_id)";
-/** Owner answered and the job went back to the bench, but nobody has recorded bench work since. */
-const ANSWERED_NOT_STARTED = `j.status = 'in_progress' AND ${LAST_CAUSE} = 'request_answered' AND NOT EXISTS (SELECT 1 FROM journal_entries e WHERE e.job_id = j.id AND e.kind NOT IN ('status', 'approval') AND e.created_at > ${SINCE})`;
+export type { BoardExtras } from "./job-board";
 
-export type BoardExtras = { since: Date; invoiceState: "none" | "draft" | "issued" | "paid"; ownerWaitDays: number; answeredNotStarted: boolean };
-
-const SORT_COLUMNS: Record<JobListQuery["sort"], string> = {
-  number: "j.number",
-  status: "j.status",
-  promised: "j.promised_on",
-  customer: "c.name",
-  updated: "j.updated_at",
-};
+/** The board's two queries (count, page), exported for the EXPLAIN test (tests/integration/board-explain.test.ts). */
+export function boardQueries({ shopId, query, today = shopToday("UTC") }: { shopId: number; query: JobListQuery; today?: string }) {
+  const k = db();
+  const count = boardJobs(k, shopId, query, today).count({ n: "*" });
+  const order = boardOrder(query.sort, query.dir);
+  // The page's ids first, from jobs' indexes alone; the joins and the extras for those rows only.
+  const ids = boardJobs(k, shopId, query, today)
+    .select("j.id")
+    .orderBy(order)
+    .limit(query.pageSize)
+    .offset((query.page - 1) * query.pageSize);
+  const page = k
+    .from(ids.as("p"))
+    .join("jobs as j", "j.id", "p.id")
+    .join("customers as c", "c.id", "j.customer_id")
+    .join("machines as m", "m.id", "j.machine_id")
+    .leftJoin("users as t", "t.id", "j.technician_user_id")
+    .select(JOB_COLUMNS)
+    .select(
+      k.raw(`${SINCE} AS since`),
+      k.raw(`${INVOICE_STATE} AS invoice_state`),
+      k.raw(`${OWNER_WAIT_DAYS} AS owner_wait_days`),
+      k.raw(`(${ANSWERED_NOT_STARTED}) AS answered_not_started`),
+    )
+    .orderBy(order);
+  return { count, page };
+}
 
 /**
  * One page of a shop's jobs. Every query here is scoped by shop_id first. `today` is the
  * shop's calendar date (YYYY-MM-DD, see shopToday) that decides what is overdue; UTC if left out.
  */
 export async function listJobs({ shopId, query, today = shopToday("UTC") }: { shopId: number; query: JobListQuery; today?: string }) {
-  const base = jobsWithDetails(db()).where("j.shop_id", shopId);
-  if (query.status.length) base.whereIn("j.status", query.status);
-  if (query.attention.length) {
-    // Any of the chosen quick filters; both ride the (shop_id, status, promised_on) and
-    // (shop_id, promised_on) indexes, no per-row work.
-    base.where((w) => {
-      if (query.attention.includes("overdue")) {
-        w.orWhere((o) => o.where("j.promised_on", "<", today).whereNotIn("j.status", DONE_STATUSES));
-      }
-      if (query.attention.includes("waiting_parts")) w.orWhere("j.status", "waiting_parts");
-      if (query.attention.includes("answered")) w.orWhereRaw(ANSWERED_NOT_STARTED);
-      if (query.attention.includes("ready_unpaid")) w.orWhere((o) => o.where("j.status", "ready").whereRaw(`COALESCE(${INVOICE_STATE}, 'none') <> 'paid'`));
-      if (query.attention.includes("owner_slow")) {
-        w.orWhere((o) => o.where("j.status", "waiting_approval").whereRaw(`${SINCE} <= NOW(3) - INTERVAL ${OWNER_WAIT_DAYS} DAY`));
-      }
-    });
-  }
-  if (query.technician) base.where("j.technician_user_id", query.technician);
-  if (query.q) {
-    const q = query.q;
-    const number = /^(?:j-?)?0*(\d{1,9})$/i.exec(q)?.[1];
-    const like = `%${q.replace(/[\\%_]/g, (ch) => `\\${ch}`)}%`;
-    base.where((w) => {
-      if (number) w.orWhere("j.number", Number(number));
-      w.orWhere("c.name", "like", like)
-        .orWhere("m.make", "like", like)
-        .orWhere("m.model", "like", like)
-        .orWhere("m.serial", "like", like);
-    });
-  }
-  const countRow = await base.clone().clearSelect().count({ n: "j.id" }).first();
+  const { count, page } = boardQueries({ shopId, query, today });
+  const countRow = await count.first();
   const total = Number(countRow?.n ?? 0);
-  const direction = query.dir;
-  const rows: (JobJoin & { since: Date; invoice_state: BoardExtras["invoiceState"] | null; owner_wait_days: number; answered_not_started: number })[] = await base
-    .clone()
-    .select(JOB_COLUMNS)
-    .select(
-      db().raw(`${SINCE} AS since`),
-      db().raw(`${INVOICE_STATE} AS invoice_state`),
-      db().raw(`${OWNER_WAIT_DAYS} AS owner_wait_days`),
-      db().raw(`(${ANSWERED_NOT_STARTED}) AS answered_not_started`),
-    )
-    .orderByRaw(`${SORT_COLUMNS[query.sort]} IS NULL`) // undated jobs last, whichever way
-    .orderBy(SORT_COLUMNS[query.sort], direction)
-    .orderBy("j.number", "desc")
-    .limit(query.pageSize)
-    .offset((query.page - 1) * query.pageSize);
+  const rows: (JobJoin & { since: Date; invoice_state: BoardExtras["invoiceState"] | null; owner_wait_days: number; answered_not_started: number })[] = await page;
   return {
     rows: rows.map((r) => ({
       ...toJob(r),

@@ -18,8 +18,10 @@ const parseJson = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v
 
 /**
  * One page of a job's timeline in at most three queries (entries with their authors, then the
- * photos and the clips of those entries), whatever the number of entries. The owner's audience gets shared,
- * undeleted entries only; the shop's gets everything not deleted.
+ * photos of those entries, then their clips with the clips' moments), whatever the number of
+ * entries. The owner's audience gets shared, undeleted entries only; the shop's gets everything
+ * not deleted. With the session and the job's access (at most three more) a timeline request
+ * stays within DESIGN.md §5's six queries.
  */
 export async function listTimeline({
   shopId,
@@ -53,7 +55,7 @@ export async function listTimeline({
   const more = rows.length > limit;
   const page = more ? rows.slice(0, limit) : rows;
 
-  // One more query, only when the page holds clips: still a fixed number per page.
+  // One more query each, only when the page holds clips / photos: still a fixed number per page.
   const clips = await clipsForEntries(db(), shopId, page.filter((r) => r.kind === "clip").map((r) => Number(r.id)));
   const photoEntryIds = page.filter((r) => r.kind === "photos").map((r) => Number(r.id));
   const photosByEntry = new Map<number, TimelinePhoto[]>();

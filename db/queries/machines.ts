@@ -7,6 +7,7 @@ import type { JobStatus } from "@/lib/job-status";
 import type { MachineKind } from "@/lib/machine";
 import type { ReadingVerdict } from "@/lib/readings";
 import type { TorqueUnit } from "@/lib/torque";
+import { WRENCH_CLASSES, isWrenchClass } from "@/lib/torque-check";
 
 // A machine's page: the machine and its service history across every job it came in for.
 
@@ -85,6 +86,8 @@ export type MachineHistory = {
     specValue: number;
     appliedValue: number | null;
     unit: TorqueUnit;
+    /** Null on records made before tolerances were kept (lib/bench.ts toleranceOf reads the default). */
+    tolerancePct: number | null;
     at: Date;
   })[];
 };
@@ -117,14 +120,14 @@ export async function getMachineHistory({ shopId, machineId }: { shopId: number;
     .orderBy("p.updated_at", "desc")
     .orderBy("p.id", "desc")
     .select("p.id", "p.description", "p.part_number", "p.status", "p.qty_thousandths", "p.cost_minor", "p.updated_at", "j.number as job_number");
-  const torque: (Pick<TorqueRecordsTable, "id" | "fastener" | "spec_value" | "applied_value" | "unit" | "created_at"> & { job_number: number })[] = await db()(
+  const torque: (Pick<TorqueRecordsTable, "id" | "fastener" | "spec_value" | "applied_value" | "unit" | "tolerance_pct" | "wrench_class" | "created_at"> & { job_number: number })[] = await db()(
     "torque_records as t",
   )
     .join("jobs as j", onJob("t"))
     .where({ "t.shop_id": shopId, "j.machine_id": machineId })
     .orderBy("t.created_at", "desc")
     .orderBy("t.id", "desc")
-    .select("t.id", "t.fastener", "t.spec_value", "t.applied_value", "t.unit", "t.created_at", "j.number as job_number");
+    .select("t.id", "t.fastener", "t.spec_value", "t.applied_value", "t.unit", "t.tolerance_pct", "t.wrench_class", "t.created_at", "j.number as job_number");
   return {
     jobs: jobs.map((j) => ({
       number: Number(j.number),
@@ -159,6 +162,7 @@ export async function getMachineHistory({ shopId, machineId }: { shopId: number;
       specValue: Number(t.spec_value),
       appliedValue: t.applied_value == null ? null : Number(t.applied_value),
       unit: t.unit,
+      tolerancePct: t.tolerance_pct == null ? (isWrenchClass(t.wrench_class) ? WRENCH_CLASSES[t.wrench_class].tolerancePct : null) : Number(t.tolerance_pct),
       at: t.created_at,
     })),
   };

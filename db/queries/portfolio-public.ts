@@ -15,30 +15,17 @@ import { getReassemblyProgress } from "./bench";
 const parseJson = (v: unknown): unknown => (typeof v === "string" ? JSON.parse(v) : (v ?? null));
 
 /**
- * The live check every public story request makes: a published story of this shop, and what its
- * cache key needs: the story's version, the profile's last change, and the last change to the
- * entries it shows (an edit, unshare or delete writes a revision; a clip's state moves its row).
+ * A published story of this shop, by address: the check every render of a public story makes
+ * first (the page is then cached until a change drops it: lib/server/portfolio-cache.ts).
  */
-export type StoryGate = { storyId: number; shopId: number; version: number; contentKey: string };
+export type StoryGate = { storyId: number; shopId: number; version: number };
 
 export async function findPublishedStory({ shopSlug, storySlug }: { shopSlug: string; storySlug: string }, k: Knex = db()): Promise<StoryGate | null> {
-  const shown = "SELECT si.entry_id FROM story_items si WHERE si.story_id = st.id AND si.entry_id IS NOT NULL UNION SELECT cp.entry_id FROM photos cp WHERE cp.id = st.cover_photo_id";
-  type Row = Pick<StoriesTable, "id" | "shop_id" | "version"> & { profile_at: Date | null; revision: number | null; clips_at: Date | null };
-  const r: Row | undefined = await k("shops as s")
+  const r: Pick<StoriesTable, "id" | "shop_id" | "version"> | undefined = await k("shops as s")
     .join("stories as st", "st.shop_id", "s.id")
-    .leftJoin("shop_profiles as p", "p.shop_id", "s.id")
     .where({ "s.slug": shopSlug, "st.slug": storySlug, "st.status": "published" })
-    .first(
-      "st.id",
-      "st.shop_id",
-      "st.version",
-      "p.updated_at as profile_at",
-      k.raw(`(SELECT MAX(r.id) FROM journal_entry_revisions r WHERE r.shop_id = st.shop_id AND r.entry_id IN (${shown})) as revision`),
-      k.raw(`(SELECT MAX(c.updated_at) FROM clips c WHERE c.shop_id = st.shop_id AND c.entry_id IN (${shown})) as clips_at`),
-    );
-  if (!r) return null;
-  const at = (v: unknown) => (v instanceof Date ? v.getTime() : "-");
-  return { storyId: Number(r.id), shopId: Number(r.shop_id), version: Number(r.version), contentKey: `${at(r.profile_at)}.${r.revision ?? "-"}.${at(r.clips_at)}` };
+    .first("st.id", "st.shop_id", "st.version");
+  return r ? { storyId: Number(r.id), shopId: Number(r.shop_id), version: Number(r.version) } : null;
 }
 
 export type PublicShopRow = {
@@ -95,12 +82,12 @@ export type PublishedStoryRow = {
   serial: string | null;
 };
 
-function publishedStories(k: Knex, shopId: number) {
+function publishedStories(k: Knex, shopId: number, anyStatus = false) {
   return k("stories as st")
     .join("jobs as j", "j.id", "st.job_id")
     .join("machines as m", "m.id", "j.machine_id")
     .join("customers as c", "c.id", "j.customer_id")
-    .where({ "st.shop_id": shopId, "st.status": "published" })
+    .where({ "st.shop_id": shopId, ...(anyStatus ? {} : { "st.status": "published" }) })
     .select("st.id", "st.slug", "st.title", "st.write_up", "st.published_at", "st.job_id", "st.cover_photo_id", "m.kind", "m.year", "m.make", "m.model", "m.serial", "c.name as customer_name");
 }
 
@@ -114,8 +101,8 @@ function toPublished(r: PublishedJoin): PublishedStoryRow {
     slug: String(r.slug),
     title: String(r.title),
     writeUp: parseJson(r.write_up),
-    // Published stories always have it (moveStory sets it with the status).
-    publishedAt: r.published_at as Date,
+    // Published stories always have it (moveStory sets it with the status); a preview reads as if published now.
+    publishedAt: (r.published_at as Date | null) ?? new Date(),
     jobId: Number(r.job_id),
     coverPhotoId: r.cover_photo_id == null ? null : Number(r.cover_photo_id),
     machine: { kind: r.kind, year: r.year == null ? null : Number(r.year), make: String(r.make), model: String(r.model) },
@@ -169,8 +156,9 @@ export type StoryBodyRows = {
 };
 
 /** Everything one published story shows, in a fixed number of queries; null when it isn't published (any more). */
-export async function loadStoryBody({ shopId, storyId }: { shopId: number; storyId: number }, k: Knex = db()): Promise<StoryBodyRows | null> {
-  const row: PublishedJoin | undefined = await publishedStories(k, shopId).where("st.id", storyId).first();
+/** `anyStatus`: a story not (yet) public too, for the owner's preview before they answer. */
+export async function loadStoryBody({ shopId, storyId, anyStatus = false }: { shopId: number; storyId: number; anyStatus?: boolean }, k: Knex = db()): Promise<StoryBodyRows | null> {
+  const row: PublishedJoin | undefined = await publishedStories(k, shopId, anyStatus).where("st.id", storyId).first();
   if (!row) return null;
   const story = toPublished(row);
   const items = (await k("story_items").where({ shop_id: shopId, story_id: storyId }).orderBy("position").select("kind", "caption", "moment_ms", "entry_id", "photo_id")).map(
@@ -257,4 +245,10 @@ export async function listPublicShops(k: Knex = db()) {
     .limit(5000)
     .select("s.slug", "p.updated_at");
   return rows.map((r) => ({ shop: String(r.slug), updatedAt: r.updated_at ?? null }));
+}
+
+/** Whether the job's story is public now (one per job: the unique (shop_id, job_id) key), so a change to its entries must drop the shop's cached public pages. */
+export async function jobHasPublishedStory({ shopId, jobId }: { shopId: number; jobId: number }, k: Knex = db()): Promise<boolean> {
+  const r = await k("stories").where({ shop_id: shopId, job_id: jobId, status: "published" }).first("id");
+  return r !== undefined;
 }

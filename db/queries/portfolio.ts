@@ -188,8 +188,8 @@ export async function saveCuration(
 
 export type StaffItem = { kind: StoryItemKind; entryId: number | null; photoPublicId: string | null; momentMs: number | null; caption: string | null };
 
-export async function listItems({ shopId, storyId }: { shopId: number; storyId: number }): Promise<StaffItem[]> {
-  const rows: (Pick<StoryItemsTable, "kind" | "entry_id" | "moment_ms" | "caption"> & { photo_public_id: string | null })[] = await db()("story_items as si")
+export async function listItems({ shopId, storyId }: { shopId: number; storyId: number }, k: Knex = db()): Promise<StaffItem[]> {
+  const rows: (Pick<StoryItemsTable, "kind" | "entry_id" | "moment_ms" | "caption"> & { photo_public_id: string | null })[] = await k("story_items as si")
     .leftJoin("photos as p", "p.id", "si.photo_id")
     .where({ "si.shop_id": shopId, "si.story_id": storyId })
     .orderBy("si.position")
@@ -221,9 +221,10 @@ export async function shareableEntryKinds({ shopId, jobId }: { shopId: number; j
 
 export async function insertConsent(
   tx: Knex.Transaction,
-  c: { shopId: number; storyId: number; userId: number; name: string; decision: ConsentDecision; ip: string; userAgent: string | null },
+  c: { shopId: number; storyId: number; userId: number; name: string; decision: ConsentDecision; ip: string; userAgent: string | null; shownHash: string | null },
 ): Promise<void> {
   await tx("story_consents").insert({
+    shown_hash: c.shownHash,
     shop_id: c.shopId,
     story_id: c.storyId,
     user_id: c.userId,
@@ -287,6 +288,12 @@ export async function lockStory(tx: Knex.Transaction, { shopId, storyId }: { sho
 export async function latestConsent(k: Knex, { shopId, storyId }: { shopId: number; storyId: number }): Promise<ConsentDecision | null> {
   const r = await k("story_consents").where({ shop_id: shopId, story_id: storyId }).orderBy("id", "desc").first("decision");
   return r ? r.decision : null;
+}
+
+/** The content hash the owner's latest "given" answer was made on (null: none, or given before hashes were kept). */
+export async function consentedHash(k: Knex, { shopId, storyId }: { shopId: number; storyId: number }): Promise<string | null> {
+  const r = await k("story_consents").where({ shop_id: shopId, story_id: storyId, decision: "given" }).orderBy("id", "desc").first("shown_hash");
+  return r?.shown_hash ?? null;
 }
 
 export async function countItems(k: Knex, { shopId, storyId }: { shopId: number; storyId: number }): Promise<number> {

@@ -73,16 +73,3 @@ export async function changePassword({ userId, passwordHash, keep }: { userId: n
     return endUserSessions(tx, { userId, reason: "password", keep });
   });
 }
-
-/**
- * Takes a staff member off a shop (kept for the history) or changes their role there; either
- * way their sessions end, so the next request signs them in afresh with what they have now.
- */
-export async function changeMembership({ shopId, userId, change }: { shopId: number; userId: number; change: { deactivate: true } | { role: "owner" | "service_writer" | "technician" } }): Promise<boolean> {
-  return transaction(async (tx) => {
-    const q = tx("memberships").where({ shop_id: shopId, user_id: userId }).whereNull("deactivated_at");
-    const changed = "deactivate" in change ? await q.update({ deactivated_at: tx.fn.now(3) }) : await q.update({ role: change.role });
-    if (changed) await endUserSessions(tx, { userId, reason: "deactivate" in change ? "deactivated" : "membership" });
-    return changed > 0;
-  });
-}

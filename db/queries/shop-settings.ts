@@ -39,6 +39,21 @@ export async function updateShopRow(k: Knex, { shopId, change }: { shopId: numbe
     .update({ ...columns, ...(openingHours ? { opening_hours: JSON.stringify(openingHours) } : {}) });
 }
 
+/** The shop's standard drop-off terms, or null when the owner hasn't set them. */
+export type DropoffStandard = { chargeMinor: number; upToMinor: number };
+
+export async function getDropoffStandard({ shopId }: { shopId: number }, k: Knex = db()): Promise<DropoffStandard | null> {
+  const row = await k("shop_money_settings").where({ shop_id: shopId }).first("dropoff_charge_minor", "dropoff_up_to_minor");
+  if (row?.dropoff_charge_minor == null || row.dropoff_up_to_minor == null) return null;
+  return { chargeMinor: Number(row.dropoff_charge_minor), upToMinor: Number(row.dropoff_up_to_minor) };
+}
+
+export async function saveDropoffStandard(k: Knex, { shopId, standard }: { shopId: number; standard: DropoffStandard | null }): Promise<void> {
+  const row = { dropoff_charge_minor: standard?.chargeMinor ?? null, dropoff_up_to_minor: standard?.upToMinor ?? null };
+  // The other columns keep their defaults when the shop has no money settings yet.
+  await k("shop_money_settings").insert({ shop_id: shopId, ...row }).onConflict("shop_id").merge(row);
+}
+
 export async function getNamedRates({ shopId }: { shopId: number }, k: Knex = db()): Promise<NamedRate[]> {
   const row = await k("shop_money_settings").where({ shop_id: shopId }).first("labour_rates");
   const value: unknown = fromJson(row?.labour_rates ?? null);

@@ -3,12 +3,22 @@ import type { Knex } from "knex";
 import { db } from "@/db/client";
 import type { StaffRole } from "@/lib/permissions";
 
-export type ShopRow = { id: number; slug: string; name: string; timezone: string; currency: string; ownerWaitDays: number };
+/** The shop as its pages need it; the clip limits too, so the staff job page reads the row once. */
+export type ShopRow = { id: number; slug: string; name: string; timezone: string; currency: string; ownerWaitDays: number; clipMaxSeconds: number; clipMaxBytes: number };
 
 export async function getShopBySlug({ slug }: { slug: string }): Promise<ShopRow | null> {
-  const row = await db()("shops").where({ slug }).first("id", "slug", "name", "timezone", "currency", "owner_wait_days");
+  const row = await db()("shops").where({ slug }).first("id", "slug", "name", "timezone", "currency", "owner_wait_days", "clip_max_seconds", "clip_max_bytes");
   return row
-    ? { id: Number(row.id), slug: String(row.slug), name: String(row.name), timezone: String(row.timezone), currency: String(row.currency), ownerWaitDays: Number(row.owner_wait_days) }
+    ? {
+        id: Number(row.id),
+        slug: String(row.slug),
+        name: String(row.name),
+        timezone: String(row.timezone),
+        currency: String(row.currency),
+        ownerWaitDays: Number(row.owner_wait_days),
+        clipMaxSeconds: Number(row.clip_max_seconds),
+        clipMaxBytes: Number(row.clip_max_bytes),
+      }
     : null;
 }
 

@@ -44,3 +44,13 @@ export function noteExcerpt(doc: NoteDoc, max = 160): string {
   const atWord = cut.replace(/\s+\S*$/, "");
   return `${atWord.length >= cut.length * 0.6 ? atWord : cut}…`;
 }
+
+/**
+ * Plain text as a note: one paragraph a line (an empty line an empty paragraph), as the editor
+ * makes it when Enter is pressed. For what was typed into the plain box that stands in for the
+ * editor until its code has loaded (components/rich-text/lazy-note-editor.tsx).
+ */
+export function plainTextDoc(text: string): NoteDoc {
+  const lines = text.replace(/\r\n?/g, "\n").split("\n");
+  return { type: "doc", content: lines.map((line) => (line ? { type: "paragraph", content: [{ type: "text", text: line }] } : { type: "paragraph" })) };
+}

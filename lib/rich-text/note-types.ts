@@ -6,6 +6,15 @@ export const NOTE_NODE_TYPES = ["doc", "paragraph", "heading", "text", "hardBrea
 export const NOTE_MARK_TYPES = ["bold", "italic", "link"] as const;
 export const ORDERED_LIST_STYLES = ["1", "a", "A", "i", "I"] as const;
 
+export const NOTE_LIMITS = {
+  /** UTF-8 bytes of the JSON as sent: bounds storage and parsing work. */
+  maxBytes: 64 * 1024,
+  /** Characters (code points) of text a person typed. */
+  maxChars: 20_000,
+  /** Nesting of blocks (lists in lists, quotes): deeper only arrives from crafted input. */
+  maxDepth: 12,
+} as const;
+
 export type NoteMark = { type: "bold" } | { type: "italic" } | { type: "link"; attrs: { href: string } };
 /** Which node may sit inside which is the ProseMirror schema's job (checked in parseNote). */
 export type NoteNode =

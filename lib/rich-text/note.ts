@@ -7,20 +7,14 @@ import { z } from "zod";
 import { AppError } from "@/lib/errors";
 import { noteExtensions } from "@/lib/rich-text/extensions";
 import { HREF_MAX_LENGTH, LINK_RULE_MESSAGE, safeHref } from "@/lib/rich-text/href";
-import { NOTE_MARK_TYPES, type NoteDoc, type NoteMark, type NoteNode, ORDERED_LIST_STYLES } from "@/lib/rich-text/note-types";
+import { NOTE_LIMITS, NOTE_MARK_TYPES, type NoteDoc, type NoteMark, type NoteNode, ORDERED_LIST_STYLES } from "@/lib/rich-text/note-types";
 
 // The note's types live in note-types.ts; importers of this module keep finding them here.
 export { NOTE_MARK_TYPES, NOTE_NODE_TYPES, ORDERED_LIST_STYLES } from "@/lib/rich-text/note-types";
 export type { NoteDoc, NoteMark, NoteNode };
 
-export const NOTE_LIMITS = {
-  /** UTF-8 bytes of the JSON as sent: bounds storage and parsing work. */
-  maxBytes: 64 * 1024,
-  /** Characters (code points) of text a person typed. */
-  maxChars: 20_000,
-  /** Nesting of blocks (lists in lists, quotes): deeper only arrives from crafted input. */
-  maxDepth: 12,
-} as const;
+// The limits live in note-types.ts too, so the editor shows the characters left without zod.
+export { NOTE_LIMITS } from "@/lib/rich-text/note-types";
 
 const MESSAGES = {
   empty: "Write something before posting.",

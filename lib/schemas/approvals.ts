@@ -9,25 +9,33 @@ export const REQUEST_PUBLIC_ID_PATTERN = /^[A-Za-z0-9_-]{16}$/;
 export const HASH_PATTERN = /^[0-9a-f]{64}$/;
 export const MAX_FINDING_LINES = 30;
 export const MAX_EVIDENCE = 20;
+/** A version only a stale or tampered page sends wrong, said in the editor's banner. */
+const STALE_FINDING = "This finding changed or couldn't be read: reload the page and try again.";
 
-const text = (max: number, what: string) => z.string().trim().max(max, `Keep ${what} under ${max} characters.`);
+const text = (max: number, what: string) => z.string({ message: `Type ${what} as text.` }).trim().max(max, `Keep ${what} under ${max} characters.`);
 const required = (max: number, what: string, missing: string) => text(max, what).min(1, missing);
 const optional = (max: number, what: string) =>
   text(max, what)
     .nullish()
     .transform((s) => (s ? s : null));
 /** Typed amount: absent keeps what is stored, "" clears it. */
-const typed = z.string().trim().max(20, "That number is too long.").optional();
+const typed = z.string({ message: "Type a number, e.g. 1.5." }).trim().max(20, "That number is too long.").optional();
 
 export const evidenceInputSchema = z.object({
   kind: z.enum(EVIDENCE_KINDS, { message: "Evidence is a photo, a reading or a clip." }),
-  ref: z.string().trim().regex(/^[A-Za-z0-9_-]{1,64}$/, "That is not an evidence id."),
-  momentMs: z.number().int().min(0).max(24 * 3_600_000).nullish().transform((n) => n ?? null),
+  ref: z.string({ message: "That is not an evidence id." }).trim().regex(/^[A-Za-z0-9_-]{1,64}$/, "That is not an evidence id."),
+  momentMs: z
+    .number({ message: "The clip's moment couldn't be read: pick it again." })
+    .int("The clip's moment couldn't be read: pick it again.")
+    .min(0, "The clip's moment couldn't be read: pick it again.")
+    .max(24 * 3_600_000, "The clip's moment couldn't be read: pick it again.")
+    .nullish()
+    .transform((n) => n ?? null),
 });
 export type EvidenceInput = z.output<typeof evidenceInputSchema>;
 
 export const lineInputSchema = z.object({
-  id: z.number().int().positive().optional(),
+  id: z.number({ message: STALE_FINDING }).int(STALE_FINDING).positive(STALE_FINDING).optional(),
   kind: z.enum(LINE_KINDS, { message: "A line is a part, labour or a fee." }),
   description: required(200, "the description", "Say what this line is, e.g. “Front brake pads”."),
   partNumber: optional(60, "the part number"),
@@ -36,19 +44,19 @@ export const lineInputSchema = z.object({
   unitPrice: typed,
   rate: typed,
   amount: typed,
-  taxable: z.boolean().optional(),
+  taxable: z.boolean({ message: "Tick Taxable or leave it empty." }).optional(),
 });
 export type LineInput = z.output<typeof lineInputSchema>;
 
 export const findingInputSchema = z.object({
   /** The version the editor loaded; absent when drafting a new finding. */
-  version: z.number().int().positive().optional(),
+  version: z.number({ message: STALE_FINDING }).int(STALE_FINDING).positive(STALE_FINDING).optional(),
   title: required(200, "the title", "Give the finding a short title, e.g. “Front brake pads worn to the backing plate”."),
   found: required(4000, "what was found", "Say what you found."),
   whyItMatters: optional(4000, "why it matters"),
   safety: z.enum(SAFETY_CATEGORIES, { message: "Choose whether this is about brakes, steering, fuel, the throttle, or none." }),
-  evidence: z.array(evidenceInputSchema).max(MAX_EVIDENCE, `Attach at most ${MAX_EVIDENCE} pieces of evidence.`).default([]),
-  lines: z.array(lineInputSchema).max(MAX_FINDING_LINES, `A finding holds at most ${MAX_FINDING_LINES} lines.`).default([]),
+  evidence: z.array(evidenceInputSchema, { message: "The evidence list couldn't be read; reload the page." }).max(MAX_EVIDENCE, `Attach at most ${MAX_EVIDENCE} pieces of evidence.`).default([]),
+  lines: z.array(lineInputSchema, { message: "The lines couldn't be read; reload the page." }).max(MAX_FINDING_LINES, `A finding holds at most ${MAX_FINDING_LINES} lines.`).default([]),
 });
 export type FindingInput = z.output<typeof findingInputSchema>;
 
@@ -57,15 +65,20 @@ export const sendRequestSchema = z.object({
   findingVersion: z.number().int().positive(),
 });
 
+const STALE_ANSWERS = "The answers couldn't be read; reload the request and answer again.";
 const answers = z
-  .array(z.object({ no: z.number().int().min(1).max(MAX_FINDING_LINES), answer: z.enum(["approved", "declined"], { message: "Approve or decline each line." }) }))
-  .max(MAX_FINDING_LINES);
+  .array(z.object({ no: z.number({ message: STALE_ANSWERS }).int(STALE_ANSWERS).min(1, STALE_ANSWERS).max(MAX_FINDING_LINES, STALE_ANSWERS), answer: z.enum(["approved", "declined"], { message: "Approve or decline each line." }) }), {
+    message: "The answers couldn't be read; reload the request and answer again.",
+  })
+  .max(MAX_FINDING_LINES, "The answers couldn't be read; reload the request and answer again.");
+/** A tick box the page sends as true / false. */
+const partsBack = z.boolean({ message: "Say whether the owner wants the old parts back." }).default(false);
 
 export const answerSchema = z.object({
   shownHash: z.string().regex(HASH_PATTERN, "Reload the request and answer again."),
   lines: answers,
   signature: required(120, "your name", "Type your name to sign."),
-  wantsPartsBack: z.boolean().default(false),
+  wantsPartsBack: partsBack,
   /** Set by the confirm step: nothing is recorded from a single tap. */
   confirmed: z.literal(true, { message: "Check your answers and confirm." }),
 });
@@ -80,7 +93,7 @@ export const recordDecisionSchema = z
     phoneCalled: optional(40, "the phone number"),
     decidedAt: z.iso.datetime({ offset: true, message: "Enter the date and time the owner answered." }).transform((s) => new Date(s)),
     note: optional(500, "the note"),
-    wantsPartsBack: z.boolean().default(false),
+    wantsPartsBack: partsBack,
   })
   .superRefine((v, ctx) => {
     if (v.method === "phone" && !v.phoneCalled) ctx.addIssue({ code: "custom", path: ["phoneCalled"], message: "Enter the number you called." });

@@ -16,7 +16,7 @@ export const linkRequestSchema = z.object({
   email,
   next: z
     .string()
-    .max(300)
+    .max(300, "Bad return address")
     .regex(/^\/(?!\/)[A-Za-z0-9/_-]*$/, "Bad return address") // same-site paths only, never "//host"
     .optional(),
 });

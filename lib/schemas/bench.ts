@@ -3,6 +3,8 @@ import { PART_STATUSES, SPEC_KINDS } from "@/lib/bench";
 import { JOB_PUBLIC_ID_PATTERN, PHOTO_ID_PATTERN } from "@/lib/journal";
 import { MAX_PATTERN_BOLTS } from "@/lib/tightening-order";
 import { TORQUE_UNIT_IDS } from "@/lib/torque";
+import { DEFAULT_WRENCH_CLASS, WRENCH_CLASS_IDS } from "@/lib/torque-check";
+import { optNumberText, reqNumberText } from "./number";
 
 // The bench forms as they post (flat FormData strings, blanks for untouched fields). Field names
 // are the inputs' names so each message lands beside its own field.
@@ -12,20 +14,8 @@ const text = (max: number, what: string) => z.string().trim().max(max, `Keep ${w
 const optText = (max: number, what: string) => z.preprocess(blank, text(max, what).optional()).transform((s) => s ?? null);
 const reqText = (max: number, what: string, missing: string) => z.preprocess(blank, text(max, what).min(1, missing).optional()).pipe(z.string({ error: missing }));
 
-/** A decimal typed into a text box ("12.5", "0,125"); range-checked with a message naming the field. */
-function decimal(what: string, opts: { min?: number; max?: number; allowNegative?: boolean } = {}) {
-  const { min = 0, max = 1_000_000, allowNegative = false } = opts;
-  const pattern = allowNegative ? /^-?\d+(?:\.\d+)?$/ : /^\d+(?:\.\d+)?$|^\.\d+$/;
-  return z
-    .string()
-    .trim()
-    .transform((s) => s.replace(",", "."))
-    .refine((s) => pattern.test(s), `${what} must be a number${allowNegative ? "" : " (0 or more)"}, e.g. 12.5.`)
-    .transform(Number)
-    .pipe(z.number().min(min, `${what} must be at least ${min}.`).max(max, `${what} must be at most ${max}.`));
-}
-const optDecimal = (what: string, opts?: Parameters<typeof decimal>[1]) => z.preprocess(blank, decimal(what, opts).optional()).transform((n) => n ?? null);
-const reqDecimal = (what: string, opts?: Parameters<typeof decimal>[1]) => z.preprocess(blank, decimal(what, opts).optional()).pipe(z.number({ error: `Enter ${what.toLowerCase()}.` }));
+// Decimals stay the typed text here and are read on the server in the shop's style, with the
+// one parser (lib/number-input.ts via lib/schemas/number.ts): "1,200" is never 1.2.
 
 function wholeNumber(what: string, min: number, max: number) {
   const message = `${what} must be a whole number from ${min} to ${max}.`;
@@ -47,9 +37,16 @@ export const passPercentsText = z
 
 export const torqueRecordSchema = jobRef.extend({
   fastener: reqText(200, "what was torqued", "Say what was torqued, e.g. “pump cover bolts, 8 × M6”."),
-  specValue: reqDecimal("Spec torque", { min: 0.001, max: 100_000 }),
+  specValue: reqNumberText("Spec torque"),
   unit: torqueUnit,
-  appliedValue: optDecimal("Applied torque", { max: 100_000 }),
+  appliedValue: optNumberText("Applied torque"),
+  // The wrench's ISO 6789-1 class gives the default tolerance; a typed tolerance overrides it.
+  wrenchClass: z.preprocess(blank, z.enum(WRENCH_CLASS_IDS, { message: "Choose the wrench type from the list." }).optional()).transform((c) => c ?? null),
+  tolerancePct: optNumberText("The tolerance (%)"),
+  passesDone: checkbox.optional().default(false),
+  checkPass: checkbox.optional().default(false),
+  // Ticked after a plausibility warning: the value was checked against the maker's manual.
+  plausibleChecked: checkbox.optional().default(false),
   tool: optText(120, "the tool"),
   passes: z.preprocess(blank, passPercentsText.optional()).transform((p) => p ?? null),
   boltCount: optWhole("Bolt count", 1, 999),
@@ -60,20 +57,20 @@ export type TorqueRecordInput = z.output<typeof torqueRecordSchema>;
 
 export const readingSchema = jobRef.extend({
   label: reqText(200, "what was measured", "Say what was measured, e.g. “front brake disc thickness”."),
-  value: reqDecimal("The reading", { min: -1_000_000, allowNegative: true }),
+  value: reqNumberText("The reading"),
   unit: optText(20, "the unit"),
-  min: optDecimal("The minimum", { min: -1_000_000, allowNegative: true }),
-  max: optDecimal("The maximum", { min: -1_000_000, allowNegative: true }),
+  min: optNumberText("The minimum"),
+  max: optNumberText("The maximum"),
   source: optText(200, "the source"),
 });
 export type ReadingInput = z.output<typeof readingSchema>;
 
 export const chainReadingSchema = jobRef.extend({
   label: optText(200, "what was measured").transform((s) => s ?? "Drive chain wear"),
-  pitchMm: reqDecimal("The chain pitch (mm)", { min: 1, max: 100 }),
+  pitchMm: reqNumberText("The chain pitch (mm)"),
   pitches: wholeNumber("Pitches measured", 1, 500),
-  measuredMm: reqDecimal("The measured length (mm)", { min: 1, max: 100_000 }),
-  limitPct: optDecimal("The wear limit (%)", { min: 0.1, max: 50 }),
+  measuredMm: reqNumberText("The measured length (mm)"),
+  limitPct: optNumberText("The wear limit (%)"),
   source: optText(200, "the source"),
 });
 export type ChainReadingInput = z.output<typeof chainReadingSchema>;
@@ -91,7 +88,7 @@ export type TeardownStepInput = z.output<typeof teardownStepSchema>;
 
 export const stepTorqueSchema = jobRef.extend({
   step: recordId("step"),
-  torqueValue: reqDecimal("Torque", { min: 0.001, max: 100_000 }),
+  torqueValue: reqNumberText("Torque"),
   torqueUnit: torqueUnit,
   boltCount: optWhole("Bolt count", 1, 999),
 });
@@ -130,10 +127,10 @@ export const specSchema = shopRef
     model: reqText(80, "the model", "Enter the model."),
     kind: z.enum(SPEC_KINDS, { message: "Choose what kind of spec this is." }),
     label: reqText(200, "the label", "Say what the spec is for, e.g. “clutch cover bolts”."),
-    value: optDecimal("The value", { max: 100_000 }),
+    value: optNumberText("The value"),
     unit: optText(20, "the unit"),
-    min: optDecimal("The minimum", { min: -1_000_000, allowNegative: true }),
-    max: optDecimal("The maximum", { min: -1_000_000, allowNegative: true }),
+    min: optNumberText("The minimum"),
+    max: optNumberText("The maximum"),
     boltCount: optWhole("Bolt count", 1, MAX_PATTERN_BOLTS),
     notes: optText(1000, "the notes"),
     source: optText(200, "the source"),
@@ -145,7 +142,6 @@ export const specSchema = shopRef
       if (!s.unit || !(TORQUE_UNIT_IDS as readonly string[]).includes(s.unit)) need("unit", `Choose a torque unit: ${TORQUE_UNIT_IDS.join(", ")}.`);
     }
     if (s.kind === "limit" && s.min == null && s.max == null) need("max", "A service limit needs a minimum, a maximum or both.");
-    if (s.min != null && s.max != null && s.min > s.max) need("min", "The minimum can't be above the maximum.");
     if (s.kind === "capacity" && s.value == null) need("value", "A capacity needs its amount.");
     if (s.kind === "note" && !s.notes) need("notes", "Write the note.");
   });
@@ -156,10 +152,12 @@ export const specDeleteSchema = shopRef.extend({ spec: recordId("spec") });
 export const benchSettingsSchema = shopRef.extend({
   torqueUnit,
   passes: passPercentsText,
-  chainLimitPct: reqDecimal("The chain wear limit (%)", { min: 0.1, max: 50 }),
+  // The shop's usual wrench (ISO 6789-1 class): a new torque record's default tolerance.
+  wrenchClass: z.preprocess(blank, z.enum(WRENCH_CLASS_IDS, { message: "Choose the wrench type from the list." }).optional()).transform((c) => c ?? DEFAULT_WRENCH_CLASS),
+  chainLimitPct: reqNumberText("The chain wear limit (%)"),
   // Clips from the bench (defaults 10 minutes, 2 GB).
-  clipMaxMinutes: reqDecimal("The longest clip (minutes)", { min: 1, max: 60 }),
-  clipMaxGb: reqDecimal("The largest clip (GB)", { min: 0.1, max: 10 }),
+  clipMaxMinutes: reqNumberText("The longest clip (minutes)"),
+  clipMaxGb: reqNumberText("The largest clip (GB)"),
   // The board's "owner slow to answer" filter: days a job may wait on the owner (default 3).
   ownerWaitDays: z.coerce
     .number({ message: "Enter a number of days." })

@@ -3,7 +3,8 @@ import { SHOP_SLUG_PATTERN } from "@/lib/portfolio";
 
 // The booking request form on the shop's public page (issue 16 §6). FormData, so all text.
 // `website` is the honeypot: hidden from people (and from assistive technology), filled by bots.
-// `ticket` is signed by the page (lib/server/signed-token.ts) and carries when it was rendered.
+// `ticket` is signed by the server when the form opens (GET /api/public/shops/:shop/booking-ticket,
+// lib/server/signed-token.ts) and carries when: the page itself is cached for everyone.
 
 const line = (max: number, what: string) => z.string({ error: `Enter ${what}.` }).trim().max(max, `Keep ${what} under ${max} characters.`);
 

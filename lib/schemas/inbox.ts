@@ -37,7 +37,7 @@ const delivery = z.enum(DELIVERIES, { error: "Choose e-mail at once, in the morn
  * (the fuzz test) see every field; the check below fails to compile when a kind is missing.
  */
 export const inboxPreferencesSchema = z.object({
-  shop: z.string().max(60),
+  shop: z.string({ error: "This page names no shop of yours: reload it and try again." }).max(60, "This page names no shop of yours: reload it and try again."),
   owner_answered: delivery,
   payment_received: delivery,
   payment_failed: delivery,

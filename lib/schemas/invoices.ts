@@ -86,7 +86,7 @@ export type RecordDepositInput = z.output<typeof recordDepositSchema>;
 export const refundSchema = z.object({
   /** The job the payment was taken on: access is checked on the job, and the payment must be one of its own. */
   job: publicId("job"),
-  payment: z.coerce.number().int().positive("No such payment."),
+  payment: z.coerce.number({ message: "No such payment." }).int("No such payment.").positive("No such payment."),
   amount: typed.min(1, "Enter the amount to refund."),
   reason: optional(300, "the reason"),
   confirmed: z.literal("yes", { message: "Confirm the refund." }),

@@ -52,3 +52,24 @@ export const jobNumberParamSchema = z
 export function formatJobNumber(n: number): string {
   return `J-${String(n).padStart(4, "0")}`;
 }
+
+/**
+ * The job page's status form (changeStatusAction adds `job`): "from" is the status the page
+ * showed, filled by the page; a stale or tampered one is said in the form's banner.
+ */
+export const statusChangeFields = z.object({
+  from: z.enum(JOB_STATUSES, { message: "The job's status changed meanwhile: reload the page and try again." }),
+  to: z.enum(JOB_STATUSES, { message: "Choose where the job goes next." }),
+  note: z
+    .string({ message: "The form sent no note field: reload the page and try again." })
+    .trim()
+    .max(500, "Keep the note under 500 characters.")
+    .transform((s) => s || null),
+  // Handing back before the invoice is paid: why (recorded in the history).
+  override: z
+    .string()
+    .trim()
+    .max(300, "Keep the reason under 300 characters.")
+    .optional()
+    .transform((s) => s || null),
+});

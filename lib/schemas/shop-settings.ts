@@ -106,6 +106,10 @@ export const labourSettingsSchema = shopRef.extend({ defaultRate: typed }).exten
 export const taxSettingsSchema = shopRef.extend({
   taxMethod: z.enum(["per_line", "per_invoice"], { error: "Choose per line or per invoice." }),
   taxRate: typed,
+  /** Empty: labour, fees or the supplies fee are taxed at the shop's rate (taxRate). */
+  labourTaxRate: typed,
+  feeTaxRate: typed,
+  suppliesTaxRate: typed,
   partsTaxable: checkbox,
   labourTaxable: checkbox,
   feesTaxable: checkbox,
@@ -132,6 +136,17 @@ export const toleranceSettingsSchema = shopRef
     }
   });
 
+/** Both empty: no standard terms (the desk types them for each job). */
+export const dropoffSettingsSchema = shopRef
+  .extend({
+    dropoffCharge: typed,
+    dropoffUpTo: typed,
+  })
+  .superRefine((v, ctx) => {
+    if (v.dropoffCharge && !v.dropoffUpTo) ctx.addIssue({ code: "custom", path: ["dropoffUpTo"], message: "Enter the amount the owner authorises, or empty both." });
+    if (v.dropoffUpTo && !v.dropoffCharge) ctx.addIssue({ code: "custom", path: ["dropoffCharge"], message: "Enter the diagnosis charge (0 for none), or empty both." });
+  });
+
 export const digestSettingsSchema = shopRef.extend({
   digestWindowMinutes: z.coerce
     .number({ error: "Enter a number of minutes." })
@@ -147,3 +162,4 @@ export type TaxSettingsInput = z.output<typeof taxSettingsSchema>;
 export type SuppliesSettingsInput = z.output<typeof suppliesSettingsSchema>;
 export type ToleranceSettingsInput = z.output<typeof toleranceSettingsSchema>;
 export type DigestSettingsInput = z.output<typeof digestSettingsSchema>;
+export type DropoffSettingsInput = z.output<typeof dropoffSettingsSchema>;

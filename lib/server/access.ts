@@ -5,12 +5,11 @@ import { getClipAccess } from "@/db/queries/clips";
 import { getCustomer } from "@/db/queries/customers";
 import { followerUserIds } from "@/db/queries/following";
 import { getInvoiceByPublicId } from "@/db/queries/invoices";
-import { getJobById, getJobByPublicId, getJobByNumber } from "@/db/queries/jobs";
+import { getJobById, type getJobByPublicId } from "@/db/queries/jobs";
 import { getPhotoAccess } from "@/db/queries/journal";
 import { getMachine } from "@/db/queries/machines";
 import { getDepositByPublicId } from "@/db/queries/payments";
 import { getStory } from "@/db/queries/portfolio";
-import { getShopBySlug } from "@/db/queries/shops";
 import { INVOICE_PUBLIC_ID_PATTERN } from "@/lib/invoices";
 import { JOB_PUBLIC_ID_PATTERN, PHOTO_ID_PATTERN, type TimelineAudience } from "@/lib/journal";
 import { AppError } from "@/lib/errors";
@@ -18,6 +17,7 @@ import { type Action, type Actor, type MediaViewer, PERMISSIONS, type Resource, 
 import { SHOP_SLUG_PATTERN, STORY_SLUG_PATTERN } from "@/lib/portfolio";
 import { REQUEST_PUBLIC_ID_PATTERN } from "@/lib/schemas/approvals";
 import { recordIdParam } from "@/lib/schemas/customers";
+import { jobByNumber, jobByPublicId, shopBySlug } from "@/lib/server/request-cache";
 
 // The one place that turns an id from a path or a form into a row and decides who may touch it.
 // Route handlers and server actions name a resolver and a permission in their declaration
@@ -89,7 +89,8 @@ async function moneyAccess(actor: Actor, job: Job | null, what: string): Promise
 
 /** A shop, for its own staff; anyone else is refused (a shop's existence is public). */
 async function shopAccess(actor: Actor, slug: string) {
-  const shop = SHOP_SLUG_PATTERN.test(slug) ? await getShopBySlug({ slug }) : null;
+  // Read once per render: the staff layout and the page under it both come through here.
+  const shop = SHOP_SLUG_PATTERN.test(slug) ? await shopBySlug(slug) : null;
   const membership = shop && actor.memberships.find((m) => m.shopId === shop.id);
   if (!shop || !membership) throw refused();
   const resource: Resource = { shopId: shop.id };
@@ -113,7 +114,7 @@ export const RESOLVERS = {
   shop: resolver({ field: "shop", load: (actor, slug) => shopAccess(actor, slug) }),
   job: resolver({
     field: "job",
-    load: async (actor, publicId) => jobAccess(actor, JOB_PUBLIC_ID_PATTERN.test(publicId) ? await getJobByPublicId({ publicId }) : null),
+    load: async (actor, publicId) => jobAccess(actor, JOB_PUBLIC_ID_PATTERN.test(publicId) ? await jobByPublicId(publicId) : null),
   }),
   /** A job found by its shop and number (the staff pages' addresses): staff of that shop only. */
   shopJob: resolver({
@@ -121,7 +122,7 @@ export const RESOLVERS = {
     load: async (actor, number, from) => {
       const shop = await shopAccess(actor, String(from.shop ?? ""));
       const n = ids.jobNumber.safeParse(number);
-      const job = n.success ? await getJobByNumber({ shopId: shop.shop.id, number: n.data }) : null;
+      const job = n.success ? await jobByNumber(shop.shop.id, n.data) : null;
       if (!job) throw hidden("job");
       return { ...(await jobAccess(actor, { ...job, shopName: shop.shop.name, shopSlug: shop.shop.slug })), shop: shop.shop, role: shop.role };
     },
@@ -162,14 +163,14 @@ export const RESOLVERS = {
   /** The job's money (invoice, deposits, payments). */
   jobMoney: resolver({
     field: "job",
-    load: async (actor, publicId) => moneyAccess(actor, JOB_PUBLIC_ID_PATTERN.test(publicId) ? await getJobByPublicId({ publicId }) : null, "invoice"),
+    load: async (actor, publicId) => moneyAccess(actor, JOB_PUBLIC_ID_PATTERN.test(publicId) ? await jobByPublicId(publicId) : null, "invoice"),
   }),
   request: resolver({
     field: "request",
     load: async (actor, publicId) => {
       const request = REQUEST_PUBLIC_ID_PATTERN.test(publicId) ? await getRequestByPublicId({ publicId }) : null;
       if (!request) throw hidden("approval request");
-      const access = await jobAccess(actor, await getJobByPublicId({ publicId: request.jobPublicId })).catch(() => {
+      const access = await jobAccess(actor, await jobByPublicId(request.jobPublicId)).catch(() => {
         throw hidden("approval request");
       });
       // Prices and decisions are between the shop and the machine's owner: followers never see them.

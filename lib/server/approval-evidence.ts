@@ -1,11 +1,11 @@
 import "server-only";
 import { getEvidencePhoto, getRequestIdByTokenHash } from "@/db/queries/approvals";
 import { AppError } from "@/lib/errors";
-import type { PhotoSize } from "@/lib/journal";
+import type { PhotoRouteSize } from "@/lib/journal";
 import type { Actor } from "@/lib/permissions";
 import { access } from "@/lib/server/access";
 import { sha256Hex } from "@/lib/server/approval-hash";
-import { storage } from "@/lib/server/storage";
+import { photoRendition } from "@/lib/server/photos";
 
 // Evidence photos of a request. Sending a request shows its evidence to the owner, so the owner
 // sees these photos even when their journal entry is shop-only. In the e-mail the request's token
@@ -18,7 +18,7 @@ export const MAIL_THUMB_DAYS = 30;
  * The ids come checked from the route's params. With a token, no session is needed; without one,
  * it is the request's own rule (the job's staff and owner; others get a 404).
  */
-export async function evidencePhoto(p: { actor: Actor | null; requestPublicId: string; photoPublicId: string; size: PhotoSize; token: string | null }) {
+export async function evidencePhoto(p: { actor: Actor | null; requestPublicId: string; photoPublicId: string; size: PhotoRouteSize; token: string | null }) {
   const notFound = new AppError("not_found", "No such photo.");
   let requestId: number;
   if (p.token) {
@@ -33,7 +33,7 @@ export async function evidencePhoto(p: { actor: Actor | null; requestPublicId: s
   }
   const photo = await getEvidencePhoto({ requestId, photoPublicId: p.photoPublicId });
   if (!photo) throw notFound;
-  const object = await storage().get(p.size === "thumb" ? photo.thumbKey : photo.displayKey);
+  const object = await photoRendition(photo, p.size);
   if (!object) throw notFound;
   return object;
 }

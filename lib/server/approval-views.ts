@@ -1,6 +1,6 @@
 import "server-only";
 import { type DecisionRow, latestRequestOfFinding, listDecisions, listRequests, markOpened } from "@/db/queries/approvals";
-import { type EvidenceClip, getMoneySettings, listEvidenceChoices, listFindings } from "@/db/queries/findings";
+import { type EvidenceClip, listEvidenceChoices, listFindings } from "@/db/queries/findings";
 import { getShopBySlug, getShopCurrency } from "@/db/queries/shops";
 import { type ApprovalsOverview, buildOverview } from "@/lib/approvals-overview";
 import type { RequestSnapshot, RequestStatus } from "@/lib/approvals";
@@ -10,6 +10,7 @@ import type { TimelineClip, TimelinePhoto } from "@/lib/journal";
 import { describeMachine } from "@/lib/machine";
 import { type Actor, can } from "@/lib/permissions";
 import type { Resolved } from "@/lib/server/access";
+import { moneySettingsOf } from "@/lib/server/request-cache";
 
 // Read models for the approval screens: the staff panel's overview of a job, and one request as
 // its reader sees it (the owner's answer page, the desk's record of it).
@@ -18,9 +19,16 @@ import type { Resolved } from "@/lib/server/access";
  * The staff panel: findings, requests, decisions and warnings for one job (its caller has checked
  * that the reader is the shop's). Amounts included: they leave only for people with `money:view`.
  */
-export async function jobApprovals(job: { id: number; shopId: number }): Promise<ApprovalsOverview> {
+export async function jobApprovals(job: { id: number; shopId: number }, shopCurrency?: string): Promise<ApprovalsOverview> {
   const key = { shopId: job.shopId, jobId: job.id };
-  const [findings, requests, settings, currency] = await Promise.all([listFindings(key), listRequests(key), getMoneySettings({ shopId: job.shopId }), getShopCurrency({ shopId: job.shopId })]);
+  // Money settings through the render's cache (the staff job page's drop-off card reads them
+  // too); the currency from a caller that holds the shop row already.
+  const [findings, requests, settings, currency] = await Promise.all([
+    listFindings(key),
+    listRequests(key),
+    moneySettingsOf(job.shopId),
+    shopCurrency ?? getShopCurrency({ shopId: job.shopId }),
+  ]);
   const decisions = await listDecisions({ shopId: job.shopId, requestIds: requests.map((r) => r.id) });
   const byPublic = new Map(
     requests.flatMap((r) => {

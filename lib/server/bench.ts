@@ -1,17 +1,21 @@
 import "server-only";
 import { settleReassembly } from "@/db/queries/workflow";
 import { getBenchSettings, insertReading, insertTeardownStep, insertTorqueRecord, jobHasPhoto, setStepChecked, setStepReplaced, setStepTorque } from "@/db/queries/bench";
+import { getShopBySlug } from "@/db/queries/shops";
 import type { ReadingBody, TorqueBody } from "@/lib/bench";
+import { type NumberStyle, numberStyleFor } from "@/lib/number-input";
 import { chainCheck } from "@/lib/chain-wear";
 import { AppError } from "@/lib/errors";
 import type { Actor } from "@/lib/permissions";
 import { evaluateReading } from "@/lib/readings";
 import { formatFixed, roundHalfUp } from "@/lib/rounding";
 import type { ChainReadingInput, ReadingInput, TeardownStepInput, TorqueRecordInput } from "@/lib/schemas/bench";
+import { type NumberInput, readNumberField, readOptNumberField } from "@/lib/schemas/number";
 import type { JobAccess } from "@/lib/server/access";
 import { passSchedule } from "@/lib/tightening-passes";
 import { supportsCrossPattern } from "@/lib/tightening-order";
-import type { TorqueUnit } from "@/lib/torque";
+import { type TorqueUnit, convertTorque, torqueUnitLabel } from "@/lib/torque";
+import { WRENCH_CLASSES, plausibilityWarning } from "@/lib/torque-check";
 
 // Bench records for one job, already resolved and authorised by the caller's declaration
 // (lib/server/access.ts): check with the pure domain modules → write the row and its timeline
@@ -33,33 +37,92 @@ function checkTorque(value: number, unit: TorqueUnit, passPercents: readonly num
   return boltCount != null && supportsCrossPattern(boltCount) ? ("cross" as const) : null;
 }
 
-export async function recordTorque(actor: Actor, { job }: JobAccess, input: TorqueRecordInput) {
+/** The convention the shop's people type numbers in (lib/number-input.ts). */
+export async function shopNumberStyle(shopSlug: string): Promise<NumberStyle> {
+  return numberStyleFor((await getShopBySlug({ slug: shopSlug }))?.currency);
+}
+
+/**
+ * No powersports or small-engine fastener comes near 2,000 N·m (the largest axle and clutch nuts
+ * are a few hundred) — common trade practice, no published source. Above it is a typing slip.
+ */
+const MAX_TORQUE_NM = 2000;
+function readTorque(field: string, input: NumberInput, unit: TorqueUnit, style: NumberStyle, what: string): number {
+  // Three decimals: what the column keeps (DECIMAL(10,3)); more would be rounded without a word.
+  const value = readNumberField(field, input, style, { what, min: 0, max: 1_000_000, maxDecimals: 3 });
+  const say = (message: string) => new AppError("invalid", message, { [field]: [message] });
+  if (value === 0) throw say(`${what} can’t be 0${field === "appliedValue" ? ": leave it empty if it wasn’t measured" : ""}.`);
+  if (convertTorque(value, unit, "nm") > MAX_TORQUE_NM) {
+    throw say(`${what} of ${value} ${torqueUnitLabel(unit)} is over ${MAX_TORQUE_NM} N·m, more than any fastener on these machines: check the number and the unit.`);
+  }
+  return value;
+}
+
+/** What recordTorque takes: the form's fields as typed (text), or numbers from code. */
+export type TorqueRecordData = Omit<TorqueRecordInput, "specValue" | "appliedValue" | "tolerancePct" | "wrenchClass" | "passesDone" | "checkPass" | "plausibleChecked"> & {
+  specValue: NumberInput;
+  appliedValue: NumberInput | null;
+  tolerancePct?: NumberInput | null;
+  wrenchClass?: TorqueRecordInput["wrenchClass"];
+  passesDone?: boolean;
+  checkPass?: boolean;
+  plausibleChecked?: boolean;
+};
+
+export async function recordTorque(actor: Actor, { job }: JobAccess, input: TorqueRecordData) {
   const settings = await getBenchSettings({ shopId: job.shopId });
+  const style = await shopNumberStyle(job.shopSlug);
   const passPercents = input.passes ?? settings.passPercents;
+  const specValue = readTorque("specValue", input.specValue, input.unit, style, "Spec torque");
+  const appliedValue = input.appliedValue == null || input.appliedValue === "" ? null : readTorque("appliedValue", input.appliedValue, input.unit, style, "Applied torque");
+  // The wrench named on the record, else the shop's usual one (bench settings).
+  const wrenchClass = input.wrenchClass ?? settings.wrenchClass;
+  const tolerancePct =
+    readOptNumberField("tolerancePct", input.tolerancePct, style, { what: "The tolerance (%)", min: 0.5, max: 25, maxDecimals: 2 }) ?? WRENCH_CLASSES[wrenchClass].tolerancePct;
+  // Only a warning: a value the maker's manual gives is never refused, once someone has looked.
+  const warning = plausibilityWarning(specValue, input.unit, input.fastener);
+  if (warning && !input.plausibleChecked) {
+    const message = `${warning}. Check the number and the unit against the maker's manual; if it is right, tick “Value checked” and log it again.`;
+    throw new AppError("invalid", message, { specValue: [message] });
+  }
   const body: TorqueBody = {
     fastener: input.fastener,
-    specValue: input.specValue,
+    specValue,
     unit: input.unit,
-    appliedValue: input.appliedValue,
+    appliedValue,
     tool: input.tool,
     passPercents,
     boltCount: input.boltCount,
-    pattern: checkTorque(input.specValue, input.unit, passPercents, input.boltCount),
+    pattern: checkTorque(specValue, input.unit, passPercents, input.boltCount),
     note: input.note,
     displayUnit: settings.torqueUnit,
+    tolerancePct,
+    wrenchClass,
+    passesDone: input.passesDone ?? false,
+    checkPass: input.checkPass ?? false,
+    warning,
   };
   const made = await insertTorqueRecord({ shopId: job.shopId, jobId: job.id, userId: actor.userId, visibility: input.share ? "shared" : "shop", body });
   return { ...made, job };
 }
 
-export async function recordReading(actor: Actor, { job }: JobAccess, input: ReadingInput) {
-  const result = onField("min", () => evaluateReading({ value: input.value, min: input.min, max: input.max, unit: input.unit }));
+type Numbers<T, K extends keyof T> = Omit<T, K> & { [P in K]: T[P] extends string ? NumberInput : NumberInput | null };
+export type ReadingData = Numbers<ReadingInput, "value" | "min" | "max">;
+
+export async function recordReading(actor: Actor, { job }: JobAccess, input: ReadingData) {
+  const style = await shopNumberStyle(job.shopSlug);
+  // Six decimals: what the columns keep (DECIMAL(16,6)).
+  const rules = (what: string) => ({ what, min: -1_000_000, max: 1_000_000, allowNegative: true, maxDecimals: 6 });
+  const value = readNumberField("value", input.value, style, rules("The reading"));
+  const min = readOptNumberField("min", input.min, style, rules("The minimum"));
+  const max = readOptNumberField("max", input.max, style, rules("The maximum"));
+  const result = onField("min", () => evaluateReading({ value, min, max, unit: input.unit }));
   const body: ReadingBody = {
     label: input.label,
-    value: input.value,
+    value,
     unit: input.unit,
-    min: input.min,
-    max: input.max,
+    min,
+    max,
     source: input.source,
     verdict: result.verdict,
     marginText: result.marginText ?? null,
@@ -69,9 +132,13 @@ export async function recordReading(actor: Actor, { job }: JobAccess, input: Rea
 }
 
 /** Chain wear over N pitches → elongation % as the reading, the shop's (or typed) limit as its maximum. */
-export async function recordChainReading(actor: Actor, { job }: JobAccess, input: ChainReadingInput) {
-  const limitPct = input.limitPct ?? (await getBenchSettings({ shopId: job.shopId })).chainLimitPct;
-  const check = onField("measuredMm", () => chainCheck({ pitchMm: input.pitchMm, pitches: input.pitches, measuredMm: input.measuredMm, limitPct }));
+export type ChainReadingData = Numbers<ChainReadingInput, "pitchMm" | "measuredMm" | "limitPct">;
+export async function recordChainReading(actor: Actor, { job }: JobAccess, input: ChainReadingData) {
+  const style = await shopNumberStyle(job.shopSlug);
+  const pitchMm = readNumberField("pitchMm", input.pitchMm, style, { what: "The chain pitch (mm)", min: 1, max: 100 });
+  const measuredMm = readNumberField("measuredMm", input.measuredMm, style, { what: "The measured length (mm)", min: 1, max: 100_000 });
+  const limitPct = readOptNumberField("limitPct", input.limitPct, style, { what: "The wear limit (%)", min: 0.1, max: 50 }) ?? (await getBenchSettings({ shopId: job.shopId })).chainLimitPct;
+  const check = onField("measuredMm", () => chainCheck({ pitchMm, pitches: input.pitches, measuredMm, limitPct }));
   const value = roundHalfUp(check.elongationPct, 3);
   const gap = formatFixed(Math.abs(check.elongationPct - limitPct), 2);
   const body: ReadingBody = {
@@ -84,7 +151,7 @@ export async function recordChainReading(actor: Actor, { job }: JobAccess, input
     // The chain rule: due for replacement once it reaches the limit (lib/chain-wear.ts).
     verdict: check.verdict === "replace" ? "above" : "within",
     marginText: check.verdict === "replace" ? `at or past the replace-at limit by ${gap} %` : `${gap} % short of the replace-at limit`,
-    chain: { pitchMm: input.pitchMm, pitches: input.pitches, measuredMm: input.measuredMm, limitPct },
+    chain: { pitchMm, pitches: input.pitches, measuredMm, limitPct },
   };
   return { ...(await insertReading({ shopId: job.shopId, jobId: job.id, userId: actor.userId, body })), job, check };
 }
@@ -107,10 +174,11 @@ function found(ok: boolean) {
   if (!ok) throw new AppError("not_found", "That teardown step isn't on this job.");
 }
 
-export async function setTeardownTorque(actor: Actor, { job }: JobAccess, input: { step: number; torqueValue: number; torqueUnit: TorqueUnit; boltCount: number | null }) {
+export async function setTeardownTorque(actor: Actor, { job }: JobAccess, input: { step: number; torqueValue: NumberInput; torqueUnit: TorqueUnit; boltCount: number | null }) {
   const settings = await getBenchSettings({ shopId: job.shopId });
-  checkTorque(input.torqueValue, input.torqueUnit, settings.passPercents, input.boltCount);
-  found(await setStepTorque({ shopId: job.shopId, jobId: job.id, stepId: input.step, torque: { value: input.torqueValue, unit: input.torqueUnit, boltCount: input.boltCount } }));
+  const value = readTorque("torqueValue", input.torqueValue, input.torqueUnit, await shopNumberStyle(job.shopSlug), "Torque");
+  checkTorque(value, input.torqueUnit, settings.passPercents, input.boltCount);
+  found(await setStepTorque({ shopId: job.shopId, jobId: job.id, stepId: input.step, torque: { value, unit: input.torqueUnit, boltCount: input.boltCount } }));
   return { job };
 }
 

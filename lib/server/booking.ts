@@ -71,8 +71,12 @@ export async function requestBooking({ input, ip, now = Date.now() }: { input: B
   return { recorded: true };
 }
 
-/** What the public page shows beside its portfolio: opening hours and the booking form's fresh ticket. */
-export async function publicFaceFor(slug: string) {
+/**
+ * A fresh booking ticket for the shop's form (GET /api/public/shops/:shop/booking-ticket), or
+ * null for an unknown shop. Fetched by the form when it opens: the page itself is cached for
+ * every visitor, so a ticket baked into it would be as old as the page.
+ */
+export async function bookingTicketFor(slug: string, issuedAt = new Date()): Promise<string | null> {
   const face = await getPublicFace({ slug });
-  return face ? { ...face, ticket: bookingTicket(face.shopId) } : null;
+  return face ? bookingTicket(face.shopId, issuedAt) : null;
 }

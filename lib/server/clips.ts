@@ -1,7 +1,8 @@
 import "server-only";
 import { type RejectedClip, applyVideoEvent, clearFailedClip, createClipEntry, getClipLimits, listFailedClips, newClipPublicId } from "@/db/queries/clips";
 import { AppError } from "@/lib/errors";
-import { type NewClip, clipLimitProblem } from "@/lib/clips";
+import { clipLimitProblem } from "@/lib/clips";
+import type { NewClip } from "@/lib/schemas/clips";
 import type { Actor } from "@/lib/permissions";
 import { firstIssue, videoEventSchema } from "@/lib/schemas/webhooks";
 import { appUrl } from "@/lib/server/config";

@@ -4,8 +4,10 @@ import { getMoneySettings } from "@/db/queries/findings";
 import { lockJobForRequest } from "@/db/queries/jobs";
 import { enqueueMail } from "@/db/queries/outbox";
 import { lockJobRow } from "@/db/queries/workflow";
-import { transaction } from "@/db/transaction";
-import { type DiagnosisCharge, type DropoffMethod, buildDropoffSnapshot, dropoffCanonical } from "@/lib/dropoff";
+import { getDropoffStandard } from "@/db/queries/shop-settings";
+import { type Tx, transaction } from "@/db/transaction";
+import type { ShopMoneySettings } from "@/lib/approvals";
+import { DEFAULT_DIAGNOSIS_DESCRIPTION, type DiagnosisCharge, type DropoffMethod, buildDropoffSnapshot, dropoffCanonical } from "@/lib/dropoff";
 import { AppError } from "@/lib/errors";
 import { describeMachine } from "@/lib/machine";
 import { parseHours, parseMoney } from "@/lib/money";
@@ -43,6 +45,41 @@ export function dropoffIntact(row: Pick<DropoffRow, "snapshot" | "canonical" | "
 
 /** The desk writes (or, while unsigned, redoes) the job's drop-off authorisation. */
 export async function prepareDropoff(actor: Actor, { job }: JobAccess, input: DropoffFieldsInput) {
+  return writeDropoff(actor, job, async ({ locked, settings }) => {
+    const currency = locked.currency;
+    let diagnosis: DiagnosisCharge;
+    if (input.chargeKind === "amount") {
+      const amountMinor = read("chargeAmount", () => parseMoney(input.chargeAmount || "0", currency));
+      diagnosis = { kind: "fee", description: input.description, amountMinor, taxable: settings.taxable.fee };
+    } else {
+      const hoursTenths = read("chargeHours", () => parseHours(input.chargeHours, currency));
+      if (hoursTenths <= 0) throw new AppError("invalid", "Enter the labour time.", { chargeHours: ["Enter the time in hours, e.g. 0.5."] });
+      if (settings.labourRateMinor == null) throw new AppError("invalid", "The shop has no labour rate yet.", { chargeHours: ["The shop has no labour rate set: enter an amount instead."] });
+      diagnosis = { kind: "labour", description: input.description, hoursTenths, rateMinor: settings.labourRateMinor, taxable: settings.taxable.labour };
+    }
+    const authorisedUpToMinor = read("authorisedUpTo", () => parseMoney(input.authorisedUpTo, currency));
+    return { diagnosis, authorisedUpToMinor, terms: input.terms };
+  });
+}
+
+/**
+ * Anyone at the counter (a technician checking a machine in included) puts the shop's standard
+ * terms (shop settings) up for the owner to sign: nothing typed, so no money is chosen by them.
+ */
+export async function prepareStandardDropoff(actor: Actor, { job }: JobAccess) {
+  return writeDropoff(actor, job, async ({ tx, settings }) => {
+    const standard = await getDropoffStandard({ shopId: job.shopId }, tx);
+    if (!standard) throw new AppError("invalid", "The shop has no standard drop-off terms yet: the shop owner sets them in the shop settings, or the desk types them for this job.");
+    const diagnosis: DiagnosisCharge = { kind: "fee", description: DEFAULT_DIAGNOSIS_DESCRIPTION, amountMinor: standard.chargeMinor, taxable: settings.taxable.fee };
+    return { diagnosis, authorisedUpToMinor: standard.upToMinor, terms: null };
+  });
+}
+
+type Terms = { diagnosis: DiagnosisCharge; authorisedUpToMinor: number; terms: string | null };
+type Locked = NonNullable<Awaited<ReturnType<typeof lockJobForRequest>>>;
+
+/** Locks the job, refuses a signed authorisation, and seals the terms `make` gives as the new version. */
+async function writeDropoff(actor: Actor, job: JobAccess["job"], make: (c: { tx: Tx; locked: Locked; settings: ShopMoneySettings }) => Promise<Terms>) {
   return transaction(async (tx) => {
     const key = { shopId: job.shopId, jobId: job.id };
     const locked = await lockJobForRequest(tx, key);
@@ -50,18 +87,7 @@ export async function prepareDropoff(actor: Actor, { job }: JobAccess, input: Dr
     const existing = await getDropoff(key, tx, true);
     if (existing?.signature) throw new AppError("conflict", "The owner has already signed the drop-off authorisation; it can't be changed. Further work needs an approval request.");
     const settings = await getMoneySettings({ shopId: job.shopId }, tx);
-    const currency = locked.currency;
-    let diagnosis: DiagnosisCharge;
-    if (input.chargeKind === "amount") {
-      const amountMinor = read("chargeAmount", () => parseMoney(input.chargeAmount || "0", currency));
-      diagnosis = { kind: "fee", description: input.description, amountMinor, taxable: settings.taxable.fee };
-    } else {
-      const hoursTenths = read("chargeHours", () => parseHours(input.chargeHours));
-      if (hoursTenths <= 0) throw new AppError("invalid", "Enter the labour time.", { chargeHours: ["Enter the time in hours, e.g. 0.5."] });
-      if (settings.labourRateMinor == null) throw new AppError("invalid", "The shop has no labour rate yet.", { chargeHours: ["The shop has no labour rate set: enter an amount instead."] });
-      diagnosis = { kind: "labour", description: input.description, hoursTenths, rateMinor: settings.labourRateMinor, taxable: settings.taxable.labour };
-    }
-    const authorisedUpToMinor = read("authorisedUpTo", () => parseMoney(input.authorisedUpTo, currency));
+    const { diagnosis, authorisedUpToMinor, terms } = await make({ tx, locked, settings });
     const publicId = existing?.publicId ?? newDropoffPublicId();
     const snapshot = buildDropoffSnapshot({
       authorisation: publicId,
@@ -69,10 +95,10 @@ export async function prepareDropoff(actor: Actor, { job }: JobAccess, input: Dr
       shop: locked.shopName,
       machine: describeMachine(job.machine),
       owner: locked.customerName,
-      currency,
+      currency: locked.currency,
       diagnosis,
       authorisedUpToMinor,
-      terms: input.terms,
+      terms,
     });
     const canonical = dropoffCanonical(snapshot);
     await saveDropoff(tx, { ...key, publicId, snapshot, canonical, hash: sha256Hex(canonical), userId: actor.userId }, existing?.id ?? null);

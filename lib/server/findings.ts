@@ -60,10 +60,10 @@ export function readLines(input: LineInput[], existing: StoredLine[], opts: { cu
       taxable: opts.mayPrice && line.taxable !== undefined ? line.taxable : (sameKind?.taxable ?? opts.settings.taxable[line.kind]),
     };
     if (line.kind === "part") {
-      base.qtyThousandths = field(key("qty"), () => positive(parseQuantity(line.qty ?? ""), "The quantity"));
+      base.qtyThousandths = field(key("qty"), () => positive(parseQuantity(line.qty ?? "", opts.currency), "The quantity"));
       base.unitPriceMinor = money("unitPrice", sameKind?.unitPriceMinor ?? null);
     } else if (line.kind === "labour") {
-      base.hoursTenths = field(key("hours"), () => positive(parseHours(line.hours ?? ""), "The hours"));
+      base.hoursTenths = field(key("hours"), () => positive(parseHours(line.hours ?? "", opts.currency), "The hours"));
       base.rateMinor = money("rate", sameKind ? sameKind.rateMinor : opts.settings.labourRateMinor);
     } else {
       base.amountMinor = money("amount", sameKind?.amountMinor ?? null);

@@ -5,7 +5,7 @@ import { enqueueMail } from "@/db/queries/outbox";
 import { getShopName } from "@/db/queries/shops";
 import { PAYMENT_METHOD_LABEL, type PaymentKind, type PaymentMethod, formatInvoiceNumber } from "@/lib/invoices";
 import { describeMachine, type MachineKind } from "@/lib/machine";
-import { formatMoney } from "@/lib/money";
+import { formatMoney, taxLabel } from "@/lib/money";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { appUrl } from "@/lib/server/config";
 import { type MoneyMailContent, renderMoneyMail } from "@/lib/server/emails/money-email";
@@ -30,7 +30,7 @@ export async function queueInvoiceMail(tx: Tx, m: Owner & { invoice: InvoiceRow;
   const rows: [string, string][] = [["Work and parts", money(i.subtotalMinor)]];
   if (i.discountMinor) rows.push(["Discount", `−${money(i.discountMinor)}`]);
   if (i.suppliesMinor) rows.push(["Shop supplies", money(i.suppliesMinor)]);
-  rows.push(["Tax", money(i.taxMinor)], ["Invoice total", money(i.totalMinor)]);
+  rows.push([taxLabel(i.snapshot.pricing.tax), money(i.taxMinor)], ["Invoice total", money(i.totalMinor)]);
   if (i.paidMinor) rows.push(["Already paid (deposits and payments)", `−${money(i.paidMinor)}`]);
   rows.push([i.balanceMinor > 0 ? "Balance due" : "Balance", money(Math.max(i.balanceMinor, 0))]);
   const content: MoneyMailContent = {

@@ -106,7 +106,7 @@ export async function renderInvoicePdf(view: InvoiceView): Promise<Buffer> {
   const rows: [string, string, boolean][] = [["Work and parts", m(inv.subtotalMinor), false]];
   if (inv.discountMinor) rows.push(["Discount", `-${m(inv.discountMinor)}`, false]);
   if (inv.suppliesMinor) rows.push(["Shop supplies", m(inv.suppliesMinor), false]);
-  rows.push(["Tax", m(inv.taxMinor), false], ["Total", m(inv.totalMinor), true]);
+  rows.push([inv.taxLabel, m(inv.taxMinor), false], ["Total", m(inv.totalMinor), true]);
   if (inv.paidMinor) rows.push(["Paid (deposits and payments, less refunds)", `-${m(inv.paidMinor)}`, false]);
   rows.push([inv.balanceMinor < 0 ? "Owed back to you" : "Balance due", m(Math.abs(inv.balanceMinor)), true]);
   room(rows.length * 16);

@@ -3,6 +3,7 @@ import { type InvoiceRow, getInvoiceHeader, listInvoiceLines, listJobInvoices } 
 import { type DepositRow, type PaymentRow, listJobDeposits, listJobPayments } from "@/db/queries/payments";
 import { type Balance, type PricedLine, balanceOf, formatInvoiceNumber } from "@/lib/invoices";
 import { describeMachine } from "@/lib/machine";
+import { taxLabel } from "@/lib/money";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { type AuthorisationEntry, authorisedWork, lineKey } from "@/lib/server/authorised-work";
 
@@ -16,7 +17,7 @@ export type ViewPayment = PaymentRow & { refundableMinor: number };
 export type InvoiceView = {
   shop: { name: string; email: string | null; phone: string | null; timezone: string };
   job: { id: number; shopId: number; publicId: string; number: number; label: string; machine: string; serial: string | null; customerName: string };
-  invoice: (Omit<InvoiceRow, "snapshot"> & { label: string; lines: ViewLine[]; flaggedCount: number; ceilingMinor: number; authorisedPreTaxMinor: number; toleranceMinor: number }) | null;
+  invoice: (Omit<InvoiceRow, "snapshot"> & { label: string; taxLabel: string; lines: ViewLine[]; flaggedCount: number; ceilingMinor: number; authorisedPreTaxMinor: number; toleranceMinor: number }) | null;
   voided: { label: string; voidedAt: string | null; note: string | null }[];
   payments: ViewPayment[];
   deposits: DepositRow[];
@@ -47,6 +48,7 @@ export async function invoiceView(jobId: number, audience: "shop" | "owner"): Pr
       ...rest,
       label: formatInvoiceNumber(live.number),
       lines: rows.map((l, i) => ({ ...l, no: i + 1, grossMinor: priced[i]?.grossMinor ?? 0, netMinor: priced[i]?.netMinor ?? 0, taxMinor: priced[i]?.taxMinor ?? null, flagged: priced[i]?.flagged ?? false })),
+      taxLabel: taxLabel(snapshot.pricing.tax),
       flaggedCount: snapshot.flaggedCount,
       ceilingMinor: snapshot.ceilingMinor,
       authorisedPreTaxMinor: snapshot.authorisedPreTaxMinor,

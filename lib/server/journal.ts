@@ -5,7 +5,7 @@ import { changeEntry, createPhotoEntry, insertPendingPhoto, listTimeline } from 
 import { applyJobEvent, lockJobRow } from "@/db/queries/workflow";
 import { AppError } from "@/lib/errors";
 import { JOB_STATUS_LABEL, type JobStatus, statusMoveError } from "@/lib/job-status";
-import type { NewEntry } from "@/lib/journal";
+import type { NewEntry } from "@/lib/schemas/journal";
 import type { Actor } from "@/lib/permissions";
 import type { JobAccess } from "@/lib/server/access";
 import { parseNote } from "@/lib/rich-text/note";

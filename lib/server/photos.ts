@@ -3,8 +3,9 @@ import { randomBytes } from "node:crypto";
 import { fileTypeFromBuffer } from "file-type";
 import sharp from "sharp";
 import { AppError } from "@/lib/errors";
+import { PHOTO_WIDTHS, type PhotoRouteSize, type PhotoWidth, THUMB_LONG_EDGE, photoWidthOf } from "@/lib/journal";
 import { type ReceivedFile, receiveFile } from "@/lib/server/multipart-file";
-import { storage, type ObjectStorage } from "@/lib/server/storage";
+import { storage, type ObjectStorage, type StoredObject } from "@/lib/server/storage";
 
 // Uploaded photos are never served as sent: the type is read from the bytes, the size and pixel
 // count are capped, and what we keep is a fresh JPEG re-encoded by sharp with no EXIF/GPS/XMP.
@@ -14,7 +15,7 @@ export const PHOTO_LIMITS = {
   /** Refused before decoding, so a small file that claims huge dimensions can't exhaust memory. */
   maxPixels: 100_000_000,
   displayLongEdge: 1600,
-  thumbLongEdge: 400,
+  thumbLongEdge: THUMB_LONG_EDGE,
 } as const;
 
 /** Room for the multipart envelope (boundaries, part headers) around one photo at the size limit. */
@@ -169,8 +170,39 @@ export async function storePhotoRenditions(
   };
 }
 
-/** Removes both renditions of a stored photo; missing files are not an error. */
+/** Where the copy of a display rendition `width` pixels wide is kept: beside it, named by width. */
+export function variantKey(displayKey: string, width: PhotoWidth | undefined): string | null {
+  return width && /\.jpe?g$/.test(displayKey) ? displayKey.replace(/\.jpe?g$/, `-w${width}.jpg`) : null;
+}
+
+/**
+ * The stored image a photo route answers with, after the route has checked who is asking: the
+ * thumbnail, the display rendition, or (`w640`…) a narrower copy of the display rendition, made
+ * by sharp from it on first request and kept beside it. A photo no wider than `width` answers
+ * with the display rendition itself. Null when the rendition is missing.
+ */
+export async function photoRendition(keys: PhotoKeys, size: PhotoRouteSize, options: { store?: ObjectStorage } = {}): Promise<StoredObject | null> {
+  const store = options.store ?? storage();
+  if (size === "thumb") return store.get(keys.thumbKey);
+  const width = photoWidthOf(size);
+  const key = width ? variantKey(keys.displayKey, width) : null;
+  if (!width || !key) return store.get(keys.displayKey);
+  const kept = await store.get(key);
+  if (kept) return kept;
+  const display = await store.get(keys.displayKey);
+  if (!display) return null;
+  const made = await sharp(display.body).resize({ width, withoutEnlargement: true }).jpeg(JPEG_OPTIONS).toBuffer({ resolveWithObject: true });
+  // Not wider than asked: the display rendition is already the copy (and nothing is kept).
+  if (made.info.width < width) return display;
+  // Two requests may make the same copy at once: both write the same bytes. A copy that can't be
+  // kept is still answered; the next request makes it again.
+  await store.put(key, made.data, "image/jpeg").catch(() => undefined);
+  return { body: made.data, contentType: "image/jpeg", size: made.data.length };
+}
+
+/** Removes the renditions of a stored photo and any narrower copies made of it; missing files are not an error. */
 export async function deletePhotoRenditions(keys: PhotoKeys, options: { store?: ObjectStorage } = {}): Promise<void> {
   const store = options.store ?? storage();
-  await Promise.all([store.delete(keys.displayKey), store.delete(keys.thumbKey)]);
+  const copies = PHOTO_WIDTHS.map((w) => variantKey(keys.displayKey, w)).filter((k): k is string => !!k);
+  await Promise.all([store.delete(keys.displayKey), store.delete(keys.thumbKey), ...copies.map((k) => store.delete(k))]);
 }

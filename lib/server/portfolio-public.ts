@@ -25,6 +25,7 @@ import {
   redactNote,
   redactText,
   shopLogoPath,
+  storyPath,
 } from "@/lib/portfolio";
 import { type NoteDoc, noteExcerpt } from "@/lib/rich-text/note";
 import { ids } from "@/lib/server/access";
@@ -117,11 +118,25 @@ export function toPublicStory(shop: PublicShopRow, rows: StoryBodyRows): PublicS
   return { ...cardOf(shop.slug, rows.story, rows.cover), shop: publicShop(shop), writeUp: writeUpOf(rows.story), items: itemsOf(shop.slug, rows) };
 }
 
-/** Builds a published story by id (what the page caches under the story's version). */
+/** Builds a published story by id (getPublicStory, once its published row is found). */
 export async function buildPublicStory({ shopId, storyId, shopSlug }: { shopId: number; storyId: number; shopSlug: string }): Promise<PublicStory | null> {
   const [shop, rows] = await Promise.all([getPublicShop({ shopSlug }), loadStoryBody({ shopId, storyId })]);
   if (!shop || shop.id !== shopId || !rows) return null;
   return toPublicStory(shop, rows);
+}
+
+/**
+ * The story exactly as the public page would show it, whatever its status, for the machine's
+ * owner to read before they answer. Its photos and clips are the owner's own shared entries, so
+ * they come through the signed-in media routes (the public ones serve published stories only).
+ */
+export async function previewStory({ shopId, storyId, shopSlug }: { shopId: number; storyId: number; shopSlug: string }): Promise<PublicStory | null> {
+  const [shop, rows] = await Promise.all([getPublicShop({ shopSlug }), loadStoryBody({ shopId, storyId, anyStatus: true })]);
+  if (!shop || shop.id !== shopId || !rows) return null;
+  const story = toPublicStory(shop, rows);
+  const base = storyPath(shopSlug, story.slug);
+  const json = JSON.stringify(story).replaceAll(`${base}/photos/`, "/api/photos/").replaceAll(`${base}/clips/`, "/api/clips/");
+  return JSON.parse(json) as PublicStory;
 }
 
 const validSlugs = (shopSlug: string, storySlug: string) => ids.shop.safeParse(shopSlug).success && ids.story.safeParse(storySlug).success;

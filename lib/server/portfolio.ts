@@ -2,13 +2,14 @@ import "server-only";
 import { enqueueMail } from "@/db/queries/outbox";
 import {
   type StoryRow,
+  consentedHash,
   countItems,
-  getCustomerEmail,
   getStory,
   getStoryForJob,
   insertConsent,
   insertStory,
   latestConsent,
+  listItems,
   lockStory,
   moveStory,
   slugTaken,
@@ -21,7 +22,9 @@ import { CONSENT_FROM, CONSENT_TO, type ConsentDecision, PUBLISHABLE_FROM, type 
 import type { InboxKind } from "@/lib/shop-events";
 import { appUrl } from "@/lib/server/config";
 import { recordInboxEvent } from "@/lib/server/inbox";
-import { transaction } from "@/db/transaction";
+import { type Tx, transaction } from "@/db/transaction";
+import { canonicalJson } from "@/lib/approvals";
+import { sha256Hex } from "@/lib/server/approval-hash";
 import { renderConsentMail } from "@/lib/server/emails/portfolio-consent";
 import { curationProblems } from "@/lib/server/portfolio-curation";
 import type { JobAccess, Resolved } from "@/lib/server/access";
@@ -47,53 +50,87 @@ async function uniqueSlug(shopId: number, base: string): Promise<string> {
 }
 
 /**
- * Staff propose a collected job for the portfolio. The owner is asked at once, by e-mail through
- * the outbox (in the same transaction); without an e-mail on file the story waits as "proposed".
+ * Staff propose a collected job for the portfolio. Nothing is asked yet: the shop writes the
+ * story first, so the owner is asked about the write-up as the public would see it (askOwner).
  * Proposing twice returns the story already there.
  */
-export async function proposeStory(actor: Actor, { job }: JobAccess): Promise<{ story: StoryRow; created: boolean; mailed: boolean }> {
-  const jobPublicId = job.publicId;
+export async function proposeStory(actor: Actor, { job }: JobAccess): Promise<{ story: StoryRow; created: boolean }> {
   const existing = await getStoryForJob({ shopId: job.shopId, jobId: job.id });
-  if (existing) return { story: existing, created: false, mailed: false };
+  if (existing) return { story: existing, created: false };
   if (job.status !== "picked_up") throw new AppError("conflict", "Only jobs the owner has collected can go in the portfolio.");
   const machine = describeMachine(job.machine);
   const slug = await uniqueSlug(job.shopId, machine);
-  const email = await getCustomerEmail({ shopId: job.shopId, customerId: job.customerId });
   let storyId = 0;
   try {
-    storyId = await transaction(async (tx) => {
-      const id = await insertStory(tx, { shopId: job.shopId, jobId: job.id, slug, title: machine, status: email ? "consent_requested" : "proposed", proposedBy: actor.userId });
-      if (email) await queueConsentMail(tx, { shopId: job.shopId, shopName: job.shopName, to: email, ownerName: job.customerName, machine, jobPublicId, storyId: id });
-      return id;
-    });
+    storyId = await transaction((tx) => insertStory(tx, { shopId: job.shopId, jobId: job.id, slug, title: machine, status: "proposed", proposedBy: actor.userId }));
   } catch (error) {
     // Two people proposing at once: the unique (shop, job) key lets one through.
     if ((error as { code?: string }).code !== "ER_DUP_ENTRY") throw error;
   }
   const story = await getStoryForJob({ shopId: job.shopId, jobId: job.id });
   if (!story) throw new AppError("internal", "The story wasn't saved.");
-  return { story, created: story.id === storyId, mailed: story.id === storyId && !!email };
+  return { story, created: story.id === storyId };
+}
+
+/**
+ * SHA-256 of the story's curated content (title, address, write-up, cover and items with their
+ * captions): what the owner is shown and agrees to. The shared entries themselves are the owner's
+ * own job journal, already in front of them.
+ */
+export async function storyContentHash(story: Pick<StoryRow, "shopId" | "id" | "title" | "slug" | "writeUp" | "coverPhotoId">, k?: Tx): Promise<string> {
+  const items = await listItems({ shopId: story.shopId, storyId: story.id }, k);
+  return sha256Hex(canonicalJson({ title: story.title, slug: story.slug, writeUp: story.writeUp ?? null, cover: story.coverPhotoId, items }));
 }
 
 async function queueConsentMail(
   tx: Parameters<typeof enqueueMail>[0],
-  m: { shopId: number; shopName: string; to: string; ownerName: string; machine: string; jobPublicId: string; storyId: number },
+  m: { shopId: number; shopName: string; to: string; ownerName: string; machine: string; jobPublicId: string; storyId: number; hash: string },
 ) {
   const mail = await renderConsentMail({ shopName: m.shopName, ownerName: m.ownerName, machine: m.machine, answerUrl: `${appUrl()}${consentPath(m.jobPublicId)}` });
-  await enqueueMail(tx, { shopId: m.shopId, jobPublicId: m.jobPublicId, kind: "portfolio-consent", to: m.to, ...mail, dedupeKey: `portfolio-consent:${m.storyId}` });
+  await enqueueMail(tx, { shopId: m.shopId, jobPublicId: m.jobPublicId, kind: "portfolio-consent", to: m.to, ...mail, dedupeKey: `portfolio-consent:${m.storyId}:${m.hash.slice(0, 16)}` });
 }
 
-/** A story proposed while the owner had no e-mail on file: ask now that there is one. */
-export async function askOwnerAgain({ story }: Resolved<"story">): Promise<StoryRow> {
+/**
+ * Asks the owner, by e-mail through the outbox, to agree to the write-up as it stands. Needs
+ * something to show and nothing private in the words; the mail is sent once per version of the
+ * content (asking again about the same words queues nothing new).
+ */
+export async function askOwner({ story }: Resolved<"story">): Promise<StoryRow> {
   const storyId = story.id;
   if (story.status !== "proposed") throw new AppError("conflict", "The owner has already been asked; their answer shows on this page.");
-  if (!story.customer.email) throw new AppError("conflict", "The owner has no e-mail address on file. Add one to their record, then ask again.");
+  if (!story.customer.email) throw new AppError("conflict", "The owner has no e-mail address on file. Add one to their record, then ask.");
+  const problems = await curationProblems(story);
+  if (problems) throw new AppError("invalid", `Fix the write-up before asking: ${problems}`);
   await transaction(async (tx) => {
+    if ((await countItems(tx, { shopId: story.shopId, storyId })) === 0) throw new AppError("conflict", "Add at least one photo, clip or record first: the owner agrees to the story as the public will see it.");
     if (!(await moveStory({ shopId: story.shopId, storyId, from: ["proposed"], to: "consent_requested" }, tx))) throw new AppError("conflict", "This story changed meanwhile; reload the page.");
-    const shopName = await getShopName({ shopId: story.shopId }, tx);
-    await queueConsentMail(tx, { shopId: story.shopId, shopName, to: story.customer.email!, ownerName: story.customer.name, machine: describeMachine(story.machine), jobPublicId: story.jobPublicId, storyId });
+    await queueAsk(tx, story, await storyContentHash(story, tx));
   });
   return (await getStory({ shopId: story.shopId, storyId }))!;
+}
+
+async function queueAsk(tx: Tx, story: StoryRow, hash: string) {
+  if (!story.customer.email) return;
+  const shopName = await getShopName({ shopId: story.shopId }, tx);
+  await queueConsentMail(tx, { shopId: story.shopId, shopName, to: story.customer.email, ownerName: story.customer.name, machine: describeMachine(story.machine), jobPublicId: story.jobPublicId, storyId: story.id, hash });
+}
+
+/**
+ * After the shop saves the curation: when the owner had agreed to other words, their consent no
+ * longer covers the story. It goes back to waiting on them (off the public site if it was on it)
+ * and they are asked again about the new version.
+ */
+export async function reaskIfChanged(story: StoryRow): Promise<boolean> {
+  return transaction(async (tx) => {
+    const locked = await lockStory(tx, { shopId: story.shopId, storyId: story.id });
+    if (!locked || !CONSENT_FROM.withdrawn.includes(locked.status)) return false;
+    const now = (await getStory({ shopId: story.shopId, storyId: story.id }, tx))!;
+    const hash = await storyContentHash(now, tx);
+    if ((await consentedHash(tx, { shopId: story.shopId, storyId: story.id })) === hash) return false;
+    await moveStory({ shopId: story.shopId, storyId: story.id, from: [locked.status], to: "consent_requested" }, tx);
+    await queueAsk(tx, now, hash);
+    return true;
+  });
 }
 
 const CONSENT_REFUSALS: Partial<Record<StoryStatus, string>> = {
@@ -114,7 +151,7 @@ const CONSENT_REFUSALS: Partial<Record<StoryStatus, string>> = {
 export async function decideConsent(
   actor: Actor,
   { job }: JobAccess,
-  input: { decision: ConsentDecision; name: string },
+  input: { decision: ConsentDecision; name: string; shownHash?: string | null },
   meta: { ip: string; userAgent: string | null },
 ): Promise<{ story: StoryRow; status: StoryStatus }> {
   const story = await getStoryForJob({ shopId: job.shopId, jobId: job.id });
@@ -126,7 +163,13 @@ export async function decideConsent(
     const locked = await lockStory(tx, { shopId: story.shopId, storyId: story.id });
     if (!locked) throw new AppError("not_found", NOT_ASKED);
     if (!CONSENT_FROM[input.decision].includes(locked.status)) throw new AppError("conflict", CONSENT_REFUSALS[locked.status] ?? "That answer doesn't apply now; reload the page.");
-    await insertConsent(tx, { shopId: story.shopId, storyId: story.id, userId: actor.userId, name, decision: input.decision, ip: meta.ip, userAgent: meta.userAgent });
+    let shownHash: string | null = null;
+    if (input.decision === "given") {
+      // Agreeing is to the words shown: if the shop changed them since the page was opened, read them again.
+      shownHash = await storyContentHash((await getStory({ shopId: story.shopId, storyId: story.id }, tx))!, tx);
+      if (input.shownHash !== shownHash) throw new AppError("conflict", "The shop changed the story since you opened this page. Read it again below, then answer.");
+    }
+    await insertConsent(tx, { shopId: story.shopId, storyId: story.id, userId: actor.userId, name, decision: input.decision, ip: meta.ip, userAgent: meta.userAgent, shownHash });
     await moveStory({ shopId: story.shopId, storyId: story.id, from: [locked.status], to }, tx);
     await recordInboxEvent(tx, {
       shopId: story.shopId,
@@ -166,6 +209,10 @@ export async function publishStory(actor: Actor, { story }: Resolved<"story">): 
     // The status says consent was given; the record must say so too.
     if ((await latestConsent(tx, { shopId: story.shopId, storyId })) !== "given") throw new AppError("conflict", PUBLISH_REFUSALS.consent_requested!);
     if ((await countItems(tx, { shopId: story.shopId, storyId })) === 0) throw new AppError("conflict", "Add at least one photo, clip or record to the story before publishing it.");
+    const agreed = await consentedHash(tx, { shopId: story.shopId, storyId });
+    if (agreed !== (await storyContentHash((await getStory({ shopId: story.shopId, storyId }, tx))!, tx))) {
+      throw new AppError("conflict", "The story isn't the version the owner agreed to. Save it to ask them about this version.");
+    }
     await moveStory({ shopId: story.shopId, storyId, from: PUBLISHABLE_FROM, to: "published", publishedBy: actor.userId }, tx);
   });
   return (await getStory({ shopId: story.shopId, storyId }))!;

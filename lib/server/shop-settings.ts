@@ -1,13 +1,14 @@
 import "server-only";
 import { getMoneySettings, saveMoneySettings } from "@/db/queries/findings";
-import { type NamedRate, getNamedRates, getShopRowSettings, insertSettingChange, listSettingChanges, lockShopRow, saveNamedRates, updateShopRow } from "@/db/queries/shop-settings";
+import { type DropoffStandard, type NamedRate, getDropoffStandard, getNamedRates, saveDropoffStandard, getShopRowSettings, insertSettingChange, listSettingChanges, lockShopRow, saveNamedRates, updateShopRow } from "@/db/queries/shop-settings";
 import { type Tx, transaction } from "@/db/transaction";
 import type { ShopMoneySettings } from "@/lib/approvals";
 import { AppError } from "@/lib/errors";
-import { type SuppliesSetting, type ToleranceSetting, parseMoney, parsePercent } from "@/lib/money";
+import { type SuppliesSetting, type TaxKindRates, type TaxSetting, type ToleranceSetting, parseMoney, parsePercent } from "@/lib/money";
 import type { Actor } from "@/lib/permissions";
 import type {
   DigestSettingsInput,
+  DropoffSettingsInput,
   HoursSettingsInput,
   LabourSettingsInput,
   ProfileSettingsInput,
@@ -27,7 +28,7 @@ import { onField as field } from "@/lib/server/bench";
 // what (shop_setting_changes, before and after). Money settings reach new estimates and invoices
 // only: a sent request and an invoice keep the pricing they were made with (their snapshots).
 
-export const SETTING_SECTIONS = ["profile", "hours", "region", "labour", "tax", "supplies", "tolerance", "digest", "bench"] as const;
+export const SETTING_SECTIONS = ["profile", "hours", "region", "labour", "tax", "supplies", "tolerance", "dropoff", "digest", "bench"] as const;
 export type SettingSection = (typeof SETTING_SECTIONS)[number];
 export const SECTION_LABEL: Record<SettingSection, string> = {
   profile: "Profile and contact",
@@ -37,6 +38,7 @@ export const SECTION_LABEL: Record<SettingSection, string> = {
   tax: "Tax",
   supplies: "Shop-supplies fee",
   tolerance: "Over-estimate tolerance",
+  dropoff: "Standard drop-off terms",
   digest: "Update digest",
   bench: "Bench, clip and board settings",
 };
@@ -119,12 +121,19 @@ export async function saveLabour(actor: Actor, found: Resolved<"shop">, input: L
 export async function saveTax(actor: Actor, found: Resolved<"shop">, input: TaxSettingsInput) {
   if (!input.taxRate) throw new AppError("invalid", "Enter the tax rate (0 for none).", { taxRate: ["Enter the tax rate (0 for none)."] });
   const ratePercent = percent("taxRate", input.taxRate, "The tax rate");
+  const own = {
+    labour: input.labourTaxRate ? percent("labourTaxRate", input.labourTaxRate, "The labour tax rate") : null,
+    fee: input.feeTaxRate ? percent("feeTaxRate", input.feeTaxRate, "The fees tax rate") : null,
+    supplies: input.suppliesTaxRate ? percent("suppliesTaxRate", input.suppliesTaxRate, "The shop-supplies tax rate") : null,
+  };
+  const kindRates = Object.fromEntries(Object.entries(own).filter(([, rate]) => rate != null)) as TaxKindRates;
+  const tax: TaxSetting = Object.keys(kindRates).length ? { ratePercent, method: input.taxMethod, kindRates } : { ratePercent, method: input.taxMethod };
   return saveSection(actor, found, "tax", (tx, shopId) =>
     moneySection(
       tx,
       shopId,
       (s) => ({ tax: s.tax, taxable: s.taxable }),
-      (s) => ({ ...s, tax: { ratePercent, method: input.taxMethod }, taxable: { part: input.partsTaxable, labour: input.labourTaxable, fee: input.feesTaxable } }),
+      (s) => ({ ...s, tax, taxable: { part: input.partsTaxable, labour: input.labourTaxable, fee: input.feesTaxable } }),
     ),
   );
 }
@@ -176,6 +185,17 @@ export async function saveTolerance(actor: Actor, found: Resolved<"shop">, input
   );
 }
 
+export async function saveDropoffTerms(actor: Actor, found: Resolved<"shop">, input: DropoffSettingsInput) {
+  return saveSection(actor, found, "dropoff", async (tx, shopId) => {
+    const { currency } = await getShopRowSettings({ shopId }, tx);
+    const before = await getDropoffStandard({ shopId }, tx);
+    const after: DropoffStandard | null = input.dropoffCharge && input.dropoffUpTo ? { chargeMinor: money("dropoffCharge", input.dropoffCharge, currency), upToMinor: money("dropoffUpTo", input.dropoffUpTo, currency) } : null;
+    if (after && after.upToMinor < after.chargeMinor) throw new AppError("invalid", "The authorised amount can't be less than the diagnosis charge.", { dropoffUpTo: ["At least the diagnosis charge."] });
+    await saveDropoffStandard(tx, { shopId, standard: after });
+    return { before, after };
+  });
+}
+
 export async function saveDigest(actor: Actor, found: Resolved<"shop">, input: DigestSettingsInput) {
   return saveSection(actor, found, "digest", async (tx, shopId) => {
     const { digestWindowMinutes } = await getShopRowSettings({ shopId }, tx);
@@ -195,11 +215,12 @@ export async function labourRateChoices(shopId: number, currency: string) {
 
 /** Everything the settings page shows. */
 export async function settingsPageData(shopId: number) {
-  const [row, moneySettings, named, changes] = await Promise.all([
+  const [row, moneySettings, named, dropoff, changes] = await Promise.all([
     getShopRowSettings({ shopId }),
     getMoneySettings({ shopId }),
     getNamedRates({ shopId }),
+    getDropoffStandard({ shopId }),
     listSettingChanges({ shopId, limit: 15 }),
   ]);
-  return { row, money: moneySettings, named, changes };
+  return { row, money: moneySettings, named, dropoff, changes };
 }

@@ -9,6 +9,7 @@ import path from "node:path";
 import { pipeline } from "node:stream/promises";
 import Mux from "@mux/mux-node";
 import { delayProcessing, resetVideoFake } from "../../fakes/video/client";
+import { ceilingBudget, floorBudget, type Part } from "./budget";
 import { sampleMemory, startChildServer, type ChildServer, type MemoryGrowth } from "./proc";
 
 const MB = 1_000_000;
@@ -20,8 +21,6 @@ const MAX_GROWTH = 64 * MIB;
 const HOLD_PROCESSING_MS = 10 * 60 * 1000;
 const RETRY_STATUSES = new Set([408, 502, 503, 504]); // what upchunk retries
 const MAX_ATTEMPTS = 5;
-
-export type BudgetResult = { name: string; ok: boolean; lines: string[] };
 
 function envInt(name: string, fallback: number, check: (n: number) => boolean, rule: string): number {
   const raw = process.env[name];
@@ -129,7 +128,7 @@ const rate = (bytes: number, ms: number) => bytes / MB / (ms / 1000);
 const fmtRate = (bytes: number, ms: number) => `${rate(bytes, ms).toFixed(0).padStart(6)} MB/s (${(ms / 1000).toFixed(2)} s)`;
 const fmtMiB = (bytes: number) => `${(bytes / MIB).toFixed(1)} MiB`;
 
-export async function clipUploadBudget(): Promise<BudgetResult> {
+export async function clipUploadBudget(): Promise<Part> {
   const { bytes, chunkBytes, runs } = readConfig();
   if (process.platform !== "linux") throw new Error("the clip-upload bench reads memory from /proc: run it on Linux");
   const dir = await mkdtemp(path.join(os.tmpdir(), "benchside-bench-"));
@@ -181,9 +180,12 @@ export async function clipUploadBudget(): Promise<BudgetResult> {
     const memoryOk = worst.growth <= MAX_GROWTH;
     const mark = (ok: boolean) => (ok ? "ok" : "OVER BUDGET");
     return {
-      name: "Clip upload",
-      ok: ratioOk && memoryOk,
+      budgets: [
+        floorBudget("clip upload throughput / raw", rate(bytes, fakeMs), rate(bytes, rawFile), MIN_RATIO, "MB/s"),
+        ceilingBudget("clip upload memory", worst.growth / MIB, MAX_GROWTH / MIB, "MiB"),
+      ],
       lines: [
+        `Clip upload: ${ratioOk && memoryOk ? "within budget" : "OVER BUDGET"}`,
         `${bytes / MB} MB of random bytes, ${chunkBytes / 1024} KiB chunks with Content-Range, one at a time, best of ${runs} run(s)`,
         `  raw loopback copy (Node http → file)    ${fmtRate(bytes, rawFile)}   the baseline`,
         `  raw loopback (Node http → /dev/null)    ${fmtRate(bytes, rawNull)}   for reference`,

@@ -31,7 +31,7 @@ test("technician drafts, writer prices and sends, the owner answers from the e-m
   const clip = tech.getByRole("article").filter({ hasText: /Processing the clip|Uploading from the bench|Clip, 0:03/ }).first();
   await expect(clip.getByText("Clip, 0:03")).toBeVisible({ timeout: 60_000 });
   await clip.scrollIntoViewIfNeeded();
-  const player = clip.locator("mux-player:not([data-mux-player-react-lazy-placeholder])");
+  const player = clip.locator("video[data-clip-player]");
   await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(2.5);
   await player.evaluate((el) => ((el as HTMLMediaElement).currentTime = 1.4));
   await clip.getByRole("button", { name: "Finding from this moment" }).click();
@@ -97,9 +97,9 @@ test("technician drafts, writer prices and sends, the owner answers from the e-m
   await expect(owner.getByRole("list", { name: "Photos of what was found" }).locator("img")).toHaveCount(1);
   // The clip plays from the marked moment.
   await expect(owner.getByText(/^Clip at 0:01/)).toBeVisible();
-  const ownerPlayer = owner.locator("mux-player").first();
+  const ownerPlayer = owner.getByRole("group", { name: /^Clip: / }).first();
   await ownerPlayer.scrollIntoViewIfNeeded();
-  const loaded = owner.locator("mux-player:not([data-mux-player-react-lazy-placeholder])").first();
+  const loaded = owner.locator("video[data-clip-player]").first();
   await expect.poll(() => loaded.evaluate((el) => (el as HTMLMediaElement).currentTime), { timeout: 20_000 }).toBeGreaterThanOrEqual(0.9);
   await expect(owner.getByRole("complementary", { name: "Safety caution" })).toBeVisible();
   const { violations } = await new AxeBuilder({ page: owner }).withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa", "wcag22aa"]).analyze();

@@ -102,8 +102,8 @@ test("a shared torque record reads as proof on the owner's page, in words and as
   const bench = new BenchPage(await staff.newPage());
   await bench.open("/shop/copper-gulch/jobs/5/bench");
   const record = await bench.logTorque({ fastener: `Wheel hub nuts ${id}`, spec: "80", unitLabel: "lbf·ft", bolts: "4", share: true });
-  // REFERENCES.md §1: 80 lbf·ft → 108.5 N·m, the shop's unit shown first.
-  await expect(record).toContainText("108.5 N·m");
+  // Headlined in the unit entered, the shop's beside it: REFERENCES.md §1, 80 lbf·ft → 108.5 N·m.
+  await expect(record).toContainText("80.0 lbf·ft (108.5 N·m)");
   await expect(record).toContainText("Shared with owner");
 
   const ownerContext = await browser.newContext({ storageState: storageStatePath("jobCustomer") });
@@ -111,9 +111,59 @@ test("a shared torque record reads as proof on the owner's page, in words and as
   await owner.goto(ownerPath);
   const updates = owner.getByRole("region", { name: "Updates from the shop" });
   const proof = updates.getByRole("article").filter({ hasText: `Wheel hub nuts ${id}` });
-  await expect(proof).toContainText("Torqued to spec, 3 passes (30 → 60 → 100 %) and a check pass, cross pattern");
+  // No applied value and nothing ticked: nothing is claimed (issue 18 §2).
+  await expect(proof).toContainText("Spec 80.0 lbf·ft (108.5 N·m); applied torque not recorded; 3 passes (30 → 60 → 100 %) planned, not recorded as done; no check pass recorded; cross pattern");
+  await expect(proof).toContainText("Applied not recorded");
+  await expect(proof).not.toContainText("to spec");
   // ASME PCC-1 legacy cross pattern for 4 bolts (REFERENCES.md §2).
   await expect(proof.getByRole("img", { name: "Tightening order: 1, 3, 2, 4" })).toBeVisible();
+  await staff.close();
+  await ownerContext.close();
+});
+
+test("“1,200” lbf·in is read as twelve hundred, never 1.2; “1,2” is refused beside the field", async ({ browser }) => {
+  test.setTimeout(90_000);
+  const id = stamp();
+  const staff = await browser.newContext({ storageState: storageStatePath("technician") });
+  const bench = new BenchPage(await staff.newPage());
+  await bench.open("/shop/copper-gulch/jobs/5/bench");
+  // Copper Gulch keeps its books in USD: en-US marks (lib/number-input.ts), "," groups thousands.
+  const record = await bench.logTorque({ fastener: `Sprocket nuts ${id}`, spec: "1,200", unitLabel: "lbf·in" });
+  // NIST SP 811 App. B.9 via REFERENCES.md §1: 1200 lbf·in × 0.112 984 8 = 135.58 → 135.6 N·m.
+  await expect(record).toContainText("1200.0 lbf·in (135.6 N·m)");
+  await expect(record).not.toContainText("1.2 lbf·in");
+
+  const form = bench.section("Torque log");
+  await form.getByLabel(/^What was torqued/).fill(`Cover screws ${id}`);
+  await form.getByLabel(/^Spec torque/).fill("1,2");
+  const message = "“1,2” isn’t how this shop writes numbers (1,234.5) — write 1.2.";
+  await expect(form.getByText(message)).toBeVisible();
+  await form.getByRole("button", { name: "Log torque" }).click();
+  await expect(form.getByText(message).first()).toBeVisible();
+  await expect(form.getByRole("list", { name: "Torque records" }).getByRole("listitem").filter({ hasText: `Cover screws ${id}` })).toHaveCount(0);
+  await staff.close();
+});
+
+test("the 72 / 65 lbf·ft axle record is flagged in the staff view and the owner's view", async ({ browser }) => {
+  test.setTimeout(90_000);
+  const id = stamp();
+  const staff = await browser.newContext({ storageState: storageStatePath("technician") });
+  const bench = new BenchPage(await staff.newPage());
+  await bench.open("/shop/copper-gulch/jobs/5/bench");
+  const record = await bench.logTorque({ fastener: `Rear axle nut ${id}`, spec: "72", unitLabel: "lbf·ft", applied: "65", share: true });
+  // (65 − 72) / 72 = −9.7 %, outside the ±4 % of a type II click wrench (ISO 6789-1, from memory,
+  // unverified); NIST SP 811 App. B.9: 65 lbf·ft → 88.1 N·m, 72 lbf·ft → 97.6 N·m.
+  const flagged = "UNDER SPEC: torqued to 65.0 lbf·ft (88.1 N·m), 9.7 % under the 72.0 lbf·ft (97.6 N·m) spec (tolerance ±4 %)";
+  await expect(record).toContainText("Under spec");
+  await expect(record).toContainText(flagged);
+
+  const ownerContext = await browser.newContext({ storageState: storageStatePath("jobCustomer") });
+  const owner = await ownerContext.newPage();
+  await owner.goto(ownerPath);
+  const proof = owner.getByRole("region", { name: "Updates from the shop" }).getByRole("article").filter({ hasText: `Rear axle nut ${id}` });
+  await expect(proof).toContainText("Under spec");
+  await expect(proof).toContainText(flagged);
+  await expect(proof).not.toContainText("to spec");
   await staff.close();
   await ownerContext.close();
 });
@@ -144,6 +194,12 @@ test.describe("spec library, as the service writer", () => {
     await expect(torque.getByLabel(/^What was torqued/)).toHaveValue(`Skid plate bolts ${id}`);
     await expect(torque.getByLabel(/^Spec torque/)).toHaveValue("12");
     await expect(torque.getByLabel("Bolts in the circle (optional)")).toHaveValue("4");
+    // Switching the unit of a picked spec converts it: 12 N·m = 8.9 lbf·ft (NIST SP 811 App. B.9,
+    // 12 / 1.355 818 = 8.851), and back to exactly the spec.
+    await torque.getByLabel("Unit", { exact: true }).selectOption({ label: "lbf·ft" });
+    await expect(torque.getByLabel(/^Spec torque/)).toHaveValue("8.9");
+    await torque.getByLabel("Unit", { exact: true }).selectOption({ label: "N·m" });
+    await expect(torque.getByLabel(/^Spec torque/)).toHaveValue("12");
     await expect(torque.getByRole("img", { name: "Tightening order: 1, 3, 2, 4" })).toBeVisible();
 
     await page.goto("/shop/copper-gulch/specs");

@@ -37,7 +37,7 @@ test("a clip goes up in 1 MB chunks through a failed chunk, turns playable by it
   const clip = page.getByRole("article").filter({ hasText: /Processing the clip|Uploading from the bench|Clip, 0:04/ }).first();
   await expect(clip.getByText("Clip, 0:04")).toBeVisible({ timeout: 60_000 });
   await clip.scrollIntoViewIfNeeded();
-  const player = clip.locator("mux-player:not([data-mux-player-react-lazy-placeholder])");
+  const player = clip.locator("video[data-clip-player]");
   await expect(player).toHaveAttribute("src", /^\/api\/clips\/[^/]+\/video\.mp4$/, { timeout: 20_000 });
   await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(3.5);
 
@@ -51,10 +51,16 @@ test("a clip goes up in 1 MB chunks through a failed chunk, turns playable by it
   // The owner opens the job on a phone: the clip plays (time moves) and the moment opens it at 0:02.
   const ownerContext = await browser.newContext({ storageState: storageStatePath("jobCustomer"), viewport: { width: 390, height: 844 } });
   const owner = await ownerContext.newPage();
+  // Every request the owner's page makes, player included, goes to our own host (no player script from elsewhere).
+  const hosts = new Set<string>();
+  owner.on("request", (r) => {
+    const url = new URL(r.url());
+    if (url.protocol === "http:" || url.protocol === "https:") hosts.add(url.host);
+  });
   await owner.goto(`/my/jobs/${await publicIdOf(5)}`);
   const shared = owner.getByRole("article").filter({ hasText: "Clip, 0:04" }).first();
   await shared.scrollIntoViewIfNeeded();
-  const ownerPlayer = shared.locator("mux-player:not([data-mux-player-react-lazy-placeholder])");
+  const ownerPlayer = shared.locator("video[data-clip-player]");
   await expect.poll(() => ownerPlayer.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(3.5);
   await ownerPlayer.evaluate(async (el) => {
     const media = el as HTMLMediaElement;
@@ -65,6 +71,7 @@ test("a clip goes up in 1 MB chunks through a failed chunk, turns playable by it
   await ownerPlayer.evaluate((el) => (el as HTMLMediaElement).pause());
   await shared.getByRole("link", { name: /0:02 pad edge/ }).click();
   await expect.poll(() => ownerPlayer.evaluate((el) => (el as HTMLMediaElement).currentTime), { timeout: 10_000 }).toBeGreaterThanOrEqual(2);
+  expect([...hosts]).toEqual([new URL(owner.url()).host]);
 
   // Made shop-only again, the clip is out of the owner's reach even at the address they saw.
   expect((await owner.request.get(src)).status()).toBe(200);

@@ -66,9 +66,10 @@ test("a technician checks a machine in, posts a note and two photos and shares o
   await expect(updates.getByText(`Slider wear ${id}`)).toHaveCount(0);
   await expect(updates.getByText(`Bench check ${id}`)).toHaveCount(0);
 
-  // Guessing the shop-only photo's address gets nothing, at either size.
+  // Guessing the shop-only photo's address gets nothing, at any size (the srcset copies included).
   expect((await owner.request.get(hiddenThumb)).status()).toBe(404);
   expect((await owner.request.get(hiddenThumb.replace(/\/thumb$/, "/display"))).status()).toBe(404);
+  expect((await owner.request.get(hiddenThumb.replace(/\/thumb$/, "/w640"))).status()).toBe(404);
 
   // The shared photo comes back without the GPS position the camera wrote.
   expect(await exifr.gps(fs.readFileSync(path.join(FIXTURES, "gps.jpg")))).toMatchObject({ latitude: expect.any(Number) });
@@ -76,6 +77,8 @@ test("a technician checks a machine in, posts a note and two photos and shares o
   expect(served.status()).toBe(200);
   expect(served.headers()["content-type"]).toBe("image/jpeg");
   expect(await exifr.gps(await served.body())).toBeFalsy();
+  const copy = await owner.request.get(sharedThumb.replace(/\/thumb$/, "/w640"));
+  expect([copy.status(), copy.headers()["content-type"]]).toEqual([200, "image/jpeg"]);
 
   // The viewer opens full size on a phone and closes again.
   await updates.getByRole("button", { name: "Open photo 1 of 1" }).click();

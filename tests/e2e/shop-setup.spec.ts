@@ -37,7 +37,7 @@ test.afterAll(async () => {
   }
 });
 
-test("a new shop signs up, sets its rate and tax, invites a technician who checks a machine in; the signed drop-off puts the diagnosis on the invoice", async ({ browser }) => {
+test("a new shop signs up, sets its rates, tax and drop-off terms, invites a technician who checks a machine in with a signed drop-off authorisation; the invoice shows the diagnosis line", async ({ browser }) => {
   test.setTimeout(240_000);
 
   // Sign up and confirm the e-mail.
@@ -62,15 +62,29 @@ test("a new shop signs up, sets its rate and tax, invites a technician who check
   await owner.goto(`/shop/${SLUG}/settings`);
   const labour = owner.getByRole("form", { name: "Labour rates" });
   await labour.getByLabel("Default rate per hour (USD)").fill("110.00");
+  await labour.getByLabel("Rate 1: name").fill("Diagnosis");
+  await labour.getByLabel("Rate 1: per hour (USD)").fill("130.00");
   await labour.getByRole("button", { name: "Save labour rates" }).click();
   await expect(labour.getByRole("status")).toBeVisible();
   const tax = owner.getByRole("form", { name: "Tax" });
   await tax.getByLabel("Sales tax rate (%)").fill("7.5");
+  await tax.getByLabel("Labour (%)").fill("fast");
+  await tax.getByRole("button", { name: "Save tax" }).click();
+  // A rate that can't be read is named beside its own field.
+  await expect(tax.getByLabel("Labour (%)")).toHaveAccessibleDescription(/number of percent/);
+  await tax.getByLabel("Labour (%)").fill("0");
   await tax.getByRole("button", { name: "Save tax" }).click();
   await expect(tax.getByRole("status")).toBeVisible();
-  const [money] = await sql("SELECT m.labour_rate_minor, m.tax_rate_percent FROM shop_money_settings m JOIN shops s ON s.id = m.shop_id WHERE s.slug = ?", [SLUG]);
-  expect(money).toMatchObject({ labour_rate_minor: 11_000 });
+  // Standard drop-off terms, which anyone at the counter can put up for signing.
+  const terms = owner.getByRole("form", { name: "Standard drop-off terms" });
+  await terms.getByLabel("Diagnosis charge (USD)").fill("55.00");
+  await terms.getByLabel("Work authorised up to (USD)").fill("300.00");
+  await terms.getByRole("button", { name: "Save drop-off terms" }).click();
+  await expect(terms.getByRole("status")).toBeVisible();
+  const [money] = await sql("SELECT m.labour_rate_minor, m.tax_rate_percent, m.labour_tax_rate_percent, m.dropoff_charge_minor FROM shop_money_settings m JOIN shops s ON s.id = m.shop_id WHERE s.slug = ?", [SLUG]);
+  expect(money).toMatchObject({ labour_rate_minor: 11_000, dropoff_charge_minor: 5500 });
   expect(Number(money!.tax_rate_percent)).toBe(7.5);
+  expect(Number(money!.labour_tax_rate_percent)).toBe(0);
 
   // Invite a technician, who joins from the e-mail and is signed in with that role.
   await owner.goto(`/shop/${SLUG}/staff`);
@@ -96,13 +110,12 @@ test("a new shop signs up, sets its rate and tax, invites a technician who check
   await form.submit();
   await expect(tech).toHaveURL(new RegExp(`/shop/${SLUG}/jobs/1\\?intake=1$`), { timeout: 20_000 });
 
-  // At the counter: the shop's owner prepares the drop-off authorisation, the machine's owner signs it.
-  await owner.goto(`/shop/${SLUG}/jobs/1`);
-  const prepare = owner.getByRole("form", { name: "Prepare the drop-off authorisation" });
-  await prepare.getByLabel("Diagnosis charge, before tax").fill("55.00");
-  await prepare.getByLabel("Authorised up to, before tax").fill("300.00");
-  await prepare.getByRole("button", { name: "Prepare for signing" }).click();
-  const sign = owner.getByRole("form", { name: "Owner signs at the counter" });
+  // At the counter: the technician puts the shop's standard terms up; the machine's owner signs on that screen.
+  const standard = tech.getByRole("form", { name: "Standard drop-off terms" });
+  await expect(standard).toContainText("diagnosis $55.00, work authorised up to $300.00");
+  await standard.getByRole("button", { name: "Put the standard terms up for signing" }).click();
+  const sign = tech.getByRole("form", { name: "Owner signs at the counter" });
+  await expect(tech.getByText(/up to \$300\.00 in total before tax/)).toBeVisible();
   await sign.getByLabel("Full name, typed as a signature").fill("Wyn Ashby");
   await sign.getByLabel("I have read the wording above and agree to it").check();
   await sign.getByRole("button", { name: "Sign the authorisation" }).click();
@@ -113,9 +126,25 @@ test("a new shop signs up, sets its rate and tax, invites a technician who check
   );
   expect(signed).toMatchObject({ method: "in_person", signature_name: "Wyn Ashby" });
 
+  // The desk prices added work with the shop's named rates.
+  await owner.goto(`/shop/${SLUG}/jobs/1/findings/new`);
+  await owner.getByRole("button", { name: "Add labour" }).click();
+  const line = owner.getByRole("listitem", { name: "Line 1: Labour" });
+  await expect(line.getByLabel("Rate per hour (USD)")).toHaveValue("110.00");
+  await line.getByLabel("Labour rate").selectOption("Diagnosis");
+  await expect(line.getByLabel("Rate per hour (USD)")).toHaveValue("130.00");
+
   // The invoice made from the authorised work carries the diagnosis charge.
   await owner.goto(`/shop/${SLUG}/jobs/1/invoice`);
   await owner.getByRole("button", { name: "Make the invoice from authorised work" }).click();
   await expect(owner.getByRole("heading", { level: 1, name: /^Invoice INV-\d{4}$/ })).toBeVisible();
   await expect(owner.getByTestId("invoice-line").filter({ hasText: "Inspection and diagnosis" })).toContainText("$55.00");
+
+  // The owner takes the technician off the staff (a second click confirms); their next request finds them signed out.
+  await owner.goto(`/shop/${SLUG}/staff`);
+  await owner.getByRole("button", { name: `Deactivate ${TECH.name}` }).click();
+  await owner.getByRole("button", { name: `Yes, deactivate ${TECH.name}` }).click();
+  await expect(owner.getByRole("button", { name: `Reactivate ${TECH.name}` })).toBeVisible();
+  await tech.goto(`/shop/${SLUG}`);
+  await expect(tech).toHaveURL(/\/sign-in/);
 });

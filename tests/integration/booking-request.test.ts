@@ -1,12 +1,15 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
+import { NextRequest } from "next/server";
+import { GET as ticketRoute } from "@/app/api/public/shops/[shop]/booking-ticket/route";
 import { saveShopProfile } from "@/db/queries/portfolio";
+import { getPublicFace } from "@/db/queries/public-face";
 import { bookingRequestSchema } from "@/lib/schemas/booking";
 import { getPublicShopPage } from "@/lib/server/portfolio-public";
 import { access } from "@/lib/server/access";
-import { BOOKING_LIMITS, BOOKING_REFUSALS, publicFaceFor, requestBooking } from "@/lib/server/booking";
+import { BOOKING_LIMITS, BOOKING_REFUSALS, bookingTicketFor, requestBooking } from "@/lib/server/booking";
 import { inboxPageFor } from "@/lib/server/inbox-view";
-import { bookingTicket } from "@/lib/server/signed-token";
+import { bookingTicket, readBookingTicket } from "@/lib/server/signed-token";
 import { inboxQuerySchema } from "@/lib/schemas/inbox";
 import { staffActor } from "../support/authorised-work";
 import { testKnex } from "../support/db";
@@ -98,13 +101,35 @@ describe("a booking request from the public page", () => {
     expect(paths).toEqual(["email", "machine", "name", "phone", "work"]);
   });
 
-  it("the public page's face: opening hours as the shop keeps them, and a ticket for this shop", async () => {
+  it("the public page's face: opening hours as the shop keeps them", async () => {
     await k("shops").where({ id: shop.id }).update({ opening_hours: JSON.stringify({ mon: { open: "08:00", close: "17:30" }, sun: null }) });
-    const face = await publicFaceFor(shop.slug);
+    const face = await getPublicFace({ slug: shop.slug });
     expect(face?.openingHours?.mon).toEqual({ open: "08:00", close: "17:30" });
     expect(face?.openingHours?.sun).toBeNull();
-    expect(face?.ticket).toMatch(/^[A-Za-z0-9_-]+$/);
-    expect(await publicFaceFor("no-such-shop-here")).toBeNull();
+    expect(await getPublicFace({ slug: "no-such-shop-here" })).toBeNull();
+  });
+
+  it("the form's ticket is made when the form asks (the page is cached): this shop's, dated now", async () => {
+    const at = new Date("2026-12-04T10:00:00Z");
+    const ticket = await bookingTicketFor(shop.slug, at);
+    expect(ticket).toMatch(/^[A-Za-z0-9_-]{24,200}$/);
+    expect(readBookingTicket(ticket!)).toEqual({ shopId: shop.id, issuedAt: at.getTime() });
+    expect(await bookingTicketFor("no-such-shop-here")).toBeNull();
+  });
+
+  it("GET /api/public/shops/:shop/booking-ticket: a fresh ticket for anyone, never cached; 404 for no shop", async () => {
+    const ask = (slug: string) => ticketRoute(new NextRequest(`http://app.test/api/public/shops/${slug}/booking-ticket`), { params: Promise.resolve({ shop: slug }) });
+    const before = Date.now();
+    const res = await ask(shop.slug);
+    expect(res.status).toBe(200);
+    expect(res.headers.get("cache-control")).toBe("no-store");
+    const read = readBookingTicket(((await res.json()) as { ticket: string }).ticket);
+    expect(read?.shopId).toBe(shop.id);
+    expect(read!.issuedAt).toBeGreaterThanOrEqual(before);
+    expect(read!.issuedAt).toBeLessThanOrEqual(Date.now());
+    const missing = await ask("no-such-shop-here");
+    expect(missing.status).toBe(404);
+    expect(((await missing.json()) as { error: { code: string } }).error.code).toBe("not_found");
   });
 
   it("what the shop takes in, written on its profile, is on the public page", async () => {

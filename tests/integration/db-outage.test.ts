@@ -7,7 +7,8 @@ import knex, { type Knex } from "knex";
 import mysql from "mysql2/promise";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { knexConfig } from "@/db/config";
-import { DATABASE_UNAVAILABLE_MESSAGE, isDatabaseUnavailable, toErrorBody } from "@/lib/errors";
+import { toErrorBody } from "@/lib/error-body";
+import { DATABASE_UNAVAILABLE_MESSAGE, isDatabaseUnavailable } from "@/lib/errors";
 // @ts-expect-error -- plain ESM without type declarations (it must run before node_modules exists)
 import { mariadbPaths, provisionDatabase, startMariadb, stopMariadb } from "../../scripts/lib/mariadb.mjs";
 

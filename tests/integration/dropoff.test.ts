@@ -14,7 +14,8 @@ import { access } from "@/lib/server/access";
 import { authorisedWork } from "@/lib/server/authorised-work";
 import { renderInvoicePdf } from "@/lib/server/invoice-pdf";
 import { invoiceView } from "@/lib/server/invoice-views";
-import { prepareDropoff, sendDropoffLink, signDropoffAtCounter, signDropoffOnline } from "@/lib/server/dropoff";
+import { prepareDropoff, prepareStandardDropoff, sendDropoffLink, signDropoffAtCounter, signDropoffOnline } from "@/lib/server/dropoff";
+import { saveDropoffTerms } from "@/lib/server/shop-settings";
 import { addLine, createInvoice } from "@/lib/server/invoices";
 import { authorise, ownerWithJobs, staffActor } from "../support/authorised-work";
 import { testKnex } from "../support/db";
@@ -187,4 +188,26 @@ describe("authorisation at drop-off", () => {
     const plain = (await k("invoices").where({ public_id: made.publicId }).first())!;
     expect(parsed(plain.totals)).toMatchObject({ authorisedPreTaxMinor: 10_000, ceilingMinor: 11_000, flaggedCount: 1 });
   });
+
+  it("lets a technician put the shop's standard terms up and witness the owner's signature, but not type terms", async () => {
+    const own = await makeShop(k, { label: "dropoff-std", roles: ["owner", "service_writer", "technician"] });
+    const boss = staffActor(own, "owner");
+    const bench = staffActor(own, "technician");
+    const { jobs: [job] } = await ownerWithJobs(k, own, 1, "Wyn Ashby");
+    const found = await access(bench, "job", job!.publicId, "dropoff:standard");
+    // Typed terms stay with the desk (approvals:send).
+    await expect(access(bench, "job", job!.publicId, "approvals:send")).rejects.toMatchObject({ code: "forbidden" });
+    // No standard terms yet: a clear refusal, nothing written.
+    await expect(prepareStandardDropoff(bench, found)).rejects.toMatchObject({ code: "invalid", message: expect.stringMatching(/no standard drop-off terms/) });
+    expect(await k("dropoff_authorisations").where({ job_id: job!.id }).first()).toBeUndefined();
+
+    await saveDropoffTerms(boss, await access(boss, "shop", own.slug, "shop:manage-settings"), { shop: own.slug, dropoffCharge: "55.00", dropoffUpTo: "300.00" });
+    await expect(saveDropoffTerms(boss, await access(boss, "shop", own.slug, "shop:manage-settings"), { shop: own.slug, dropoffCharge: "55.00", dropoffUpTo: "20" })).rejects.toMatchObject({ fields: { dropoffUpTo: [expect.any(String)] } });
+    const { hash } = await prepareStandardDropoff(bench, found);
+    await signDropoffAtCounter(bench, found, signature(hash, "Wyn Ashby"));
+    const stored = (await k("dropoff_authorisations").where({ job_id: job!.id }).first())!;
+    expect(stored).toMatchObject({ method: "in_person", signature_name: "Wyn Ashby", recorded_by_user_id: bench.userId, diagnosis_minor: 5500, authorised_up_to_minor: 30_000, hash });
+    expect(sha256(stored.canonical)).toBe(hash);
+  });
 });
+

@@ -22,7 +22,7 @@ import { inboxPageFor } from "@/lib/server/inbox-view";
 import { recordCounterPayment, refundPayment, startInvoiceCheckout } from "@/lib/server/invoice-payments";
 import { createInvoice, issueInvoice } from "@/lib/server/invoices";
 import { receivePaymentWebhook } from "@/lib/server/payment-webhook";
-import { decideConsent, proposeStory } from "@/lib/server/portfolio";
+import { decideConsent, proposeStory, storyContentHash } from "@/lib/server/portfolio";
 import { authorise, ownerWithJobs, staffActor } from "../support/authorised-work";
 import { testKnex } from "../support/db";
 import { makeShop } from "../support/fixtures";
@@ -134,8 +134,12 @@ describe("desk inbox items from the writers", () => {
     // Two collected jobs of another owner (only collected jobs go in the portfolio).
     const { owner: bea, jobs: done } = await ownerWithJobs(k, shop, 2, "Bea Lund");
     await k("jobs").whereIn("id", done.map((j) => j.id)).update({ status: "picked_up" });
-    for (const job of done) await proposeStory(writer, await access(writer, "job", job.publicId, "portfolio:propose"));
-    const answer = async (job: string, decision: "given" | "refused" | "withdrawn") => decideConsent(bea, await access(bea, "job", job, "portfolio:consent"), { decision, name: "Bea T. Lund" }, meta);
+    const stories: Awaited<ReturnType<typeof proposeStory>>["story"][] = [];
+    for (const job of done) stories.push((await proposeStory(writer, await access(writer, "job", job.publicId, "portfolio:propose"))).story);
+    // Asked (the curation and asking are tested in portfolio.test.ts); agreeing binds to the story's content hash.
+    await k("stories").whereIn("id", stories.map((s) => s.id)).update({ status: "consent_requested" });
+    const answer = async (job: string, decision: "given" | "refused" | "withdrawn") =>
+      decideConsent(bea, await access(bea, "job", job, "portfolio:consent"), { decision, name: "Bea T. Lund", shownHash: await storyContentHash(stories[done.findIndex((d) => d.publicId === job)]!) }, meta);
     await answer(done[0]!.publicId, "given");
     await answer(done[0]!.publicId, "withdrawn");
     await answer(done[1]!.publicId, "refused");

@@ -4,6 +4,8 @@ import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { changeEntry, getPhotoAccess, listTimeline, moveJobStatus } from "@/db/queries/journal";
+import { startSession } from "@/db/queries/sessions";
+import { getActorBySession } from "@/db/queries/users";
 import { AppError } from "@/lib/errors";
 import type { Action, Actor } from "@/lib/permissions";
 import { db } from "@/db/client";
@@ -169,7 +171,7 @@ describe("timeline queries", () => {
     const rows = Array.from({ length: count }, (_, i) => ({
       shop_id: shop.id,
       job_id: jobId,
-      kind: i % 3 === 0 ? "photos" : "note",
+      kind: i % 3 === 0 ? "photos" : i % 5 === 1 ? "clip" : "note",
       visibility: i % 2 ? ("shared" as const) : ("shop" as const),
       author_user_id: userId,
       body: JSON.stringify(note(`entry ${i}`)),
@@ -191,7 +193,27 @@ describe("timeline queries", () => {
       })),
     );
     for (let i = 0; i < photos.length; i += 200) await k("photos").insert(photos.slice(i, i + 200));
-    return { shopId: shop.id, jobId };
+    // Clips, ready, each with two moments except every other one.
+    const clipEntries = await k("journal_entries").where({ job_id: jobId, kind: "clip" }).orderBy("id").select("id");
+    for (const [n, e] of clipEntries.entries()) {
+      const [clipId] = await k("clips").insert({
+        public_id: `c${jobId}x${n}z`.padEnd(22, "0").slice(0, 22),
+        shop_id: shop.id,
+        job_id: jobId,
+        entry_id: e.id,
+        bytes: 10,
+        upload_id: `up-${jobId}-${n}`,
+        playback_id: `pb-${jobId}-${n}`,
+        status: "ready",
+        duration_seconds: 30,
+      });
+      if (n % 2 === 0) await k("clip_moments").insert([40, 10].map((atMs) => ({ shop_id: shop.id, clip_id: clipId, at_ms: atMs * 100, label: `at ${atMs}` })));
+    }
+    // Someone the owner invited, signed in by link: the reader whose access costs the most queries.
+    const [followerId] = await k("users").insert({ email: `follower.${shop.slug}@mail.test`, name: "Tam Ode" });
+    await k("job_subscribers").insert({ shop_id: shop.id, job_id: jobId, email: `follower.${shop.slug}@mail.test`, user_id: followerId, role: "follower" });
+    const publicId = String((await k("jobs").where({ id: jobId }).first("public_id"))!.public_id);
+    return { shopId: shop.id, jobId, publicId, followerId: Number(followerId) };
   }
 
   async function countQueries(run: () => Promise<unknown>) {
@@ -209,16 +231,54 @@ describe("timeline queries", () => {
   it("reads any number of entries with the same, small number of queries", async () => {
     const small = await jobWithEntries(10);
     const large = await jobWithEntries(500);
-    const read = (j: { shopId: number; jobId: number }, limit: number) => () => listTimeline({ ...j, audience: "shop", order: "desc", limit });
+    const read = (j: { shopId: number; jobId: number }, limit: number) => () => listTimeline({ shopId: j.shopId, jobId: j.jobId, audience: "shop", order: "desc", limit });
     const qSmall = await countQueries(read(small, 100));
     const qLarge = await countQueries(read(large, 100));
     const qAll = await countQueries(read(large, 500));
     expect(qSmall).toBe(qLarge);
     expect(qAll).toBe(qSmall);
     expect(qLarge).toBeLessThanOrEqual(3); // DESIGN.md §5: ≤ 6 per timeline request
-    const page = await listTimeline({ ...large, audience: "shop", order: "desc", limit: 500 });
+    const page = await listTimeline({ shopId: large.shopId, jobId: large.jobId, audience: "shop", order: "desc", limit: 500 });
     expect(page.entries).toHaveLength(500);
     expect(page.entries.filter((e) => e.kind === "photos").every((e) => e.photos.length === 2)).toBe(true);
+    const clips = page.entries.filter((e) => e.kind === "clip").map((e) => e.clip);
+    expect(clips.length).toBeGreaterThan(0);
+    expect(clips.every((c) => c?.status === "ready" && c.src === `/api/clips/${c.id}/video.mp4`)).toBe(true);
+  });
+
+  it("a clip's moments come with it, earliest first, in the same query", async () => {
+    const j = await jobWithEntries(12);
+    const page = await listTimeline({ shopId: j.shopId, jobId: j.jobId, audience: "shop", order: "asc", limit: 12 });
+    const clips = page.entries.filter((e) => e.kind === "clip").map((e) => e.clip!);
+    expect(clips).toHaveLength(2); // entries 1 and 11 (entry 6 is photos)
+    expect(clips.map((c) => c.moments)).toEqual([
+      [
+        { atMs: 1000, label: "at 10" },
+        { atMs: 4000, label: "at 40" },
+      ],
+      [],
+    ]);
+  });
+
+  it("a whole timeline request, session and access included, is at most six queries at 10 or 500 entries", async () => {
+    const small = await jobWithEntries(10);
+    const large = await jobWithEntries(500);
+    // What GET /api/jobs/:job/timeline does (lib/route.ts): the session and roles (getActor;
+    // the JWT itself is read without the database), the job resolver, then the page.
+    const request = (j: Awaited<ReturnType<typeof jobWithEntries>>, sessionId: string) => async () => {
+      const live = await getActorBySession({ userId: j.followerId, sessionId });
+      const found = await access(live!.actor, "job", j.publicId, "job:view");
+      return readTimeline(live!.actor, found, { order: "desc", limit: 100 });
+    };
+    const sessions = await Promise.all([small, large].map((j) => startSession({ userId: j.followerId, method: "link", maxAgeSeconds: 3600 })));
+    const [qSmall, qLarge] = [await countQueries(request(small, sessions[0]!)), await countQueries(request(large, sessions[1]!))];
+    expect(qSmall).toBe(qLarge);
+    expect(qLarge).toBeLessThanOrEqual(6); // DESIGN.md §5: ≤ 6 per timeline request
+    // The follower's first page holds photos and clips with moments: every query of the path ran.
+    const page = await request(large, sessions[1]!)();
+    expect(page.audience).toBe("follower");
+    expect(page.entries.some((e) => e.kind === "photos" && e.photos.length === 2)).toBe(true);
+    expect(page.entries.some((e) => e.kind === "clip" && (e.clip?.moments?.length ?? 0) > 0)).toBe(true);
   });
 
   it("pages with a cursor in both directions without gaps or repeats", async () => {

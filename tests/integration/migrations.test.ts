@@ -34,7 +34,13 @@ describe("migrations on an empty database", () => {
     expect(await db.schema.hasColumn("memberships", "deactivated_at")).toBe(true);
     expect(await db.schema.hasColumn("shops", "opening_hours")).toBe(true);
     expect(await db.schema.hasColumn("shop_money_settings", "labour_rates")).toBe(true);
+    expect(await db.schema.hasColumn("shop_money_settings", "supplies_tax_rate_percent")).toBe(true);
     expect(await db.schema.hasColumn("customers", "contact_preference")).toBe(true);
+    expect(await db.schema.hasColumn("jobs", "customer_name")).toBe(true);
+    expect(await db.schema.hasColumn("jobs", "promised_undated")).toBe(true);
+    expect(await db.schema.hasColumn("torque_records", "tolerance_pct")).toBe(true);
+    expect(await db.schema.hasColumn("torque_records", "check_pass_done")).toBe(true);
+    expect(await db.schema.hasColumn("shop_bench_settings", "wrench_class")).toBe(true);
   }, 90_000); // every migration from nothing: some 20 s on a busy 2-core machine
 
   it("keep a job's customer and machine in the job's own shop (composite foreign keys)", async () => {

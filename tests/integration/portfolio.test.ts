@@ -14,10 +14,12 @@ import { GET as shopLogo } from "@/app/(public)/s/[shop]/logo/route";
 import exifr from "exifr";
 import { createClipEntry } from "@/db/queries/clips";
 import { insertEntry } from "@/db/queries/entries";
+import { getStory, listItems } from "@/db/queries/portfolio";
+import { jobHasPublishedStory } from "@/db/queries/portfolio-public";
 import { StoryView } from "@/components/portfolio/story-view";
 import type { Action, Actor } from "@/lib/permissions";
 import type { PublicStory } from "@/lib/portfolio";
-import { decideConsent, proposeStory, publishStory, unpublishStory } from "@/lib/server/portfolio";
+import { askOwner, decideConsent, proposeStory, publishStory, reaskIfChanged, storyContentHash, unpublishStory } from "@/lib/server/portfolio";
 import { curateStory, saveProfile } from "@/lib/server/portfolio-curation";
 import { shopProfileSchema } from "@/lib/portfolio";
 import { getPublicShopPage, getPublicStory, publicStoryGate } from "@/lib/server/portfolio-public";
@@ -45,6 +47,7 @@ describe("public portfolio", () => {
   let owner: Actor;
   let stranger: Actor;
   let jobPublicId: string;
+  let jobRowId = 0;
   let openJobPublicId: string;
   const ids = { sharedPhotos: 0, hiddenPhotos: 0, hiddenNote: 0, torque: 0, clip: 0, otherShared: 0 };
   const photo = { shown: "", hidden: "", notInStory: "" };
@@ -86,6 +89,7 @@ describe("public portfolio", () => {
     stranger = { userId: Number(otherId), email: `someone.${shop.slug}@mail.test`, name: "Someone Else", memberships: [] };
     const made = await makeCustomerWithJobs(k, shop.id, { name: OWNER_NAME, email, userId: Number(userId), serial: SERIAL, statuses: ["picked_up", "in_progress"] });
     const [jobId, openJobId] = made.jobIds as [number, number];
+    jobRowId = jobId;
     jobPublicId = String((await k("jobs").where({ id: jobId }).first("public_id"))!.public_id);
     openJobPublicId = String((await k("jobs").where({ id: openJobId }).first("public_id"))!.public_id);
 
@@ -120,20 +124,24 @@ describe("public portfolio", () => {
   const onJob = (actor: Actor, publicId: string, permission: Action) => access(actor, "job", publicId, permission);
   const onStory = (actor: Actor, permission: Action) => access(actor, "story", storyId, permission, { shop: shop.slug });
   const onShop = (actor: Actor) => access(actor, "shop", shop.slug, "shop:manage-settings");
+  const hashNow = async () => storyContentHash((await getStory({ shopId: shop.id, storyId }))!);
+  /** The saved items as the curation form would post them back. */
+  const curatedItems = async () =>
+    (await listItems({ shopId: shop.id, storyId })).map((it) => ({ kind: it.kind, entryId: it.entryId, photoId: it.photoPublicId ?? undefined, momentSeconds: it.momentMs == null ? null : it.momentMs / 1000, caption: it.caption }));
 
-  it("staff propose only collected jobs; the desk may, the bench may not; the owner is asked by e-mail", async () => {
+  it("staff propose only collected jobs; the desk may, the bench may not; nobody is asked before the story is written", async () => {
     await expect(onJob(staff(shop, "technician"), jobPublicId, "portfolio:propose")).rejects.toMatchObject({ code: "forbidden" });
     await expect(proposeStory(staff(shop, "service_writer"), await onJob(staff(shop, "service_writer"), openJobPublicId, "portfolio:propose"))).rejects.toMatchObject({ code: "conflict" });
-    const { story, created, mailed } = await proposeStory(staff(shop, "service_writer"), await onJob(staff(shop, "service_writer"), jobPublicId, "portfolio:propose"));
-    expect([created, mailed, story.status]).toEqual([true, true, "consent_requested"]);
+    const { story, created } = await proposeStory(staff(shop, "service_writer"), await onJob(staff(shop, "service_writer"), jobPublicId, "portfolio:propose"));
+    expect([created, story.status]).toEqual([true, "proposed"]);
     storyId = story.id;
     slug = story.slug;
-    const mail = await k("outbox").where({ dedupe_scope: shop.id, dedupe_key: `portfolio-consent:${story.id}` }).first();
-    expect(mail?.to_email).toBe(owner.email);
-    expect(mail?.html).toContain(`/my/jobs/${jobPublicId}/portfolio`);
-    // Twice is the same story, and no second mail.
+    // Twice is the same story; no mail either way, and nothing to ask about while the story is empty.
     expect((await proposeStory(staff(shop, "owner"), await onJob(staff(shop, "owner"), jobPublicId, "portfolio:propose"))).created).toBe(false);
-    expect(await k("outbox").where({ dedupe_scope: shop.id }).where("dedupe_key", "like", "portfolio-consent:%")).toHaveLength(1);
+    await expect(askOwner(await onStory(staff(shop, "service_writer"), "portfolio:curate"))).rejects.toMatchObject({ code: "conflict", message: expect.stringMatching(/Add at least one/) });
+    expect(await k("outbox").where({ dedupe_scope: shop.id }).where("dedupe_key", "like", "portfolio-consent:%")).toHaveLength(0);
+    // The owner can't agree to a story nobody has asked them about yet.
+    await expect(decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: OWNER_NAME, shownHash: await hashNow() }, meta)).rejects.toMatchObject({ code: "conflict" });
   });
 
   it("curation takes only this job's shared entries, and no owner's name, serial or price in the words", async () => {
@@ -155,6 +163,13 @@ describe("public portfolio", () => {
     expect(saved.version).toBe(2);
     // Saving from a stale form is refused rather than silently overwriting.
     await expect(curateStory(await onStory(writer, "portfolio:curate"), { ...base, title: "Stale", items })).rejects.toMatchObject({ code: "conflict" });
+
+    // Written: the owner is asked by e-mail about this version, once.
+    expect((await askOwner(await onStory(writer, "portfolio:curate"))).status).toBe("consent_requested");
+    const mail = await k("outbox").where({ dedupe_scope: shop.id, dedupe_key: `portfolio-consent:${storyId}:${(await hashNow()).slice(0, 16)}` }).first();
+    expect(mail?.to_email).toBe(owner.email);
+    expect(mail?.html).toContain(`/my/jobs/${jobPublicId}/portfolio`);
+    await expect(askOwner(await onStory(writer, "portfolio:curate"))).rejects.toMatchObject({ code: "conflict" });
   });
 
   it("a story can't be published without the owner's consent, and only the shop owner publishes", async () => {
@@ -173,9 +188,12 @@ describe("public portfolio", () => {
     await expect(onJob(staff(shop, "owner"), jobPublicId, "portfolio:consent")).rejects.toMatchObject({ code: "forbidden" });
     await expect(decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "withdrawn", name: OWNER_NAME }, meta)).rejects.toMatchObject({ code: "conflict" });
     await expect(decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: "  " }, meta)).rejects.toMatchObject({ code: "invalid" });
-    expect((await decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: OWNER_NAME }, meta)).status).toBe("consented");
+    // Agreeing binds to the version shown: a page opened before the last save is sent back to read it again.
+    await expect(decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: OWNER_NAME, shownHash: "0".repeat(64) }, meta)).rejects.toMatchObject({ code: "conflict", message: expect.stringMatching(/changed the story/) });
+    const shown = await hashNow();
+    expect((await decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: OWNER_NAME, shownHash: shown }, meta)).status).toBe("consented");
     const row = (await k("story_consents").where({ story_id: storyId }).orderBy("id", "desc").first())!;
-    expect([row.decision, row.name_typed, row.ip, row.user_agent, row.user_id]).toEqual(["given", OWNER_NAME, meta.ip, meta.userAgent, owner.userId]);
+    expect([row.decision, row.name_typed, row.ip, row.user_agent, row.user_id, row.shown_hash]).toEqual(["given", OWNER_NAME, meta.ip, meta.userAgent, owner.userId, shown]);
     expect(row.decided_at).toBeInstanceOf(Date);
   });
 
@@ -216,6 +234,8 @@ describe("public portfolio", () => {
     expect((await video(slug, clipId)).status).toBe(503);
     const page = await getPublicShopPage(shop.slug, null);
     expect(page?.stories.map((s) => s.slug)).toEqual([slug]);
+    // An edit to this job's entries must drop the shop's cached public pages (lib/server/portfolio-cache.ts).
+    expect(await jobHasPublishedStory({ shopId: shop.id, jobId: jobRowId })).toBe(true);
   });
 
   it("withdrawing consent makes the story 404 at once: JSON, page loader, photos, grid; it can't be republished", async () => {
@@ -225,13 +245,14 @@ describe("public portfolio", () => {
     expect((await image(slug, photo.shown)).status).toBe(404);
     expect((await video(slug, clipId)).status).toBe(404);
     expect((await getPublicShopPage(shop.slug, null))?.stories ?? []).toEqual([]);
+    expect(await jobHasPublishedStory({ shopId: shop.id, jobId: jobRowId })).toBe(false);
     await expect(publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"))).rejects.toMatchObject({ code: "conflict", message: expect.stringMatching(/withdrew/) });
     const decisions = await k("story_consents").where({ story_id: storyId }).orderBy("id").pluck("decision");
     expect(decisions).toEqual(["given", "withdrawn"]);
   });
 
   it("the owner may agree again; the shop then republishes, and can take it down itself", async () => {
-    await decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: OWNER_NAME }, meta);
+    await decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: OWNER_NAME, shownHash: await hashNow() }, meta);
     await publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"));
     expect((await json(slug)).status).toBe(200);
     // An entry unshared after curation drops out of the public story by itself.
@@ -239,6 +260,29 @@ describe("public portfolio", () => {
     expect((await getPublicStory(shop.slug, slug))?.items.map((i) => i.kind)).toEqual(["photos", "clip"]);
     await unpublishStory(await onStory(staff(shop, "service_writer"), "portfolio:curate"));
     expect((await json(slug)).status).toBe(404);
+  });
+
+  it("words changed after the owner agreed go back to the owner: off the public site, asked again, published only once they agree", async () => {
+    const desk = staff(shop, "service_writer");
+    // Taken down by the shop in the test before, the owner's consent standing: published again
+    // (with the torque record shared again, so the curation form posts back only shared entries).
+    await k("journal_entries").where({ id: ids.torque }).update({ visibility: "shared" });
+    await publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"));
+    expect((await json(slug)).status).toBe(200);
+    const before = (await getStory({ shopId: shop.id, storyId }))!;
+    // Saving the same words again changes nothing.
+    const same = await curateStory(await onStory(desk, "portfolio:curate"), { story: storyId, version: before.version, title: before.title, slug: before.slug, writeUp: JSON.stringify(before.writeUp), cover: photo.shown, items: await curatedItems() });
+    expect(await reaskIfChanged(same)).toBe(false);
+    expect((await json(slug)).status).toBe(200);
+    // New words: the story leaves the public site and the owner is asked about the new version.
+    const changed = await curateStory(await onStory(desk, "portfolio:curate"), { story: storyId, version: same.version, title: "Front axle, brakes and a new chain", slug: before.slug, writeUp: JSON.stringify(before.writeUp), cover: photo.shown, items: await curatedItems() });
+    expect(await reaskIfChanged(changed)).toBe(true);
+    expect((await getStory({ shopId: shop.id, storyId }))!.status).toBe("consent_requested");
+    expect((await json(slug)).status).toBe(404);
+    expect(await k("outbox").where({ dedupe_scope: shop.id, dedupe_key: `portfolio-consent:${storyId}:${(await hashNow()).slice(0, 16)}` }).first()).toBeTruthy();
+    await expect(publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"))).rejects.toMatchObject({ code: "conflict" });
+    await decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "given", name: OWNER_NAME, shownHash: await hashNow() }, meta);
+    expect((await publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"))).status).toBe("published");
   });
 
   it("the shop owner's profile: who may edit it, what shows, and a logo kept without its photo metadata", async () => {

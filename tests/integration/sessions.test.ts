@@ -1,6 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
-import { changeMembership, changePassword, countLiveSessions, endEverySession, endSession, endUserSessions, pruneSessions, startSession } from "@/db/queries/sessions";
+import { deactivateStaff, setStaffRole } from "@/db/queries/staff";
+import { transaction } from "@/db/transaction";
+import { changePassword, countLiveSessions, endEverySession, endSession, endUserSessions, pruneSessions, startSession } from "@/db/queries/sessions";
 import { getActorBySession } from "@/db/queries/users";
 import { sameAppPath } from "@/lib/server/auth";
 import { makeShop } from "../support/fixtures";
@@ -142,15 +144,18 @@ describe("account changes end sessions with them", () => {
     const owner = shop.staff.owner!.id;
     const writerSession = await startSession({ userId: writer, method: "password", maxAgeSeconds: DAY });
     const ownerSession = await startSession({ userId: owner, method: "password", maxAgeSeconds: DAY });
-    expect(await changeMembership({ shopId: shop.id, userId: writer, change: { role: "technician" } })).toBe(true);
+    expect(await transaction((tx) => setStaffRole(tx, { shopId: shop.id, userId: writer, role: "technician" }))).toBe(true);
     expect(await getActorBySession({ userId: writer, sessionId: writerSession })).toBeNull();
     const again = await startSession({ userId: writer, method: "password", maxAgeSeconds: DAY });
     expect((await getActorBySession({ userId: writer, sessionId: again }))?.actor.memberships.map((m) => m.role)).toEqual(["technician"]);
-    expect(await changeMembership({ shopId: shop.id, userId: writer, change: { deactivate: true } })).toBe(true);
+    expect(await transaction((tx) => deactivateStaff(tx, { shopId: shop.id, userId: writer }))).toBe(true);
     expect(await getActorBySession({ userId: writer, sessionId: again })).toBeNull();
     expect((await db("user_sessions").where({ id: again }).first("ended_reason"))?.ended_reason).toBe("deactivated");
     // Already off the staff: nothing more to change, and the owner was never touched.
-    expect(await changeMembership({ shopId: shop.id, userId: writer, change: { deactivate: true } })).toBe(false);
+    expect(await transaction((tx) => deactivateStaff(tx, { shopId: shop.id, userId: writer }))).toBe(false);
+    // The last active owner can't be taken off the staff or demoted.
+    await expect(transaction((tx) => deactivateStaff(tx, { shopId: shop.id, userId: owner }))).rejects.toMatchObject({ code: "conflict" });
+    await expect(transaction((tx) => setStaffRole(tx, { shopId: shop.id, userId: owner, role: "technician" }))).rejects.toMatchObject({ code: "conflict" });
     expect(await getActorBySession({ userId: owner, sessionId: ownerSession })).not.toBeNull();
   });
 });

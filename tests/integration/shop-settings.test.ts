@@ -18,7 +18,17 @@ type Shop = Awaited<ReturnType<typeof makeShop>>;
 const json = (v: unknown) => (typeof v === "string" ? JSON.parse(v) : v);
 const labour = (defaultRate: string, named: [string, string][] = []) =>
   labourSettingsSchema.parse({ shop: "x", defaultRate, ...Object.fromEntries(named.flatMap(([n, r], i) => [[`rateName${i}`, n], [`rateAmount${i}`, r]])) });
-const tax = (taxRate: string, taxMethod: "per_line" | "per_invoice" = "per_line") => ({ shop: "x", taxMethod, taxRate, partsTaxable: true, labourTaxable: true, feesTaxable: false });
+const tax = (taxRate: string, taxMethod: "per_line" | "per_invoice" = "per_line", own: { labourTaxRate?: string; feeTaxRate?: string; suppliesTaxRate?: string } = {}) => ({
+  shop: "x",
+  taxMethod,
+  taxRate,
+  labourTaxRate: own.labourTaxRate ?? "",
+  feeTaxRate: own.feeTaxRate ?? "",
+  suppliesTaxRate: own.suppliesTaxRate ?? "",
+  partsTaxable: true,
+  labourTaxable: true,
+  feesTaxable: false,
+});
 
 describe("shop settings", () => {
   let k: Knex;
@@ -85,7 +95,7 @@ describe("shop settings", () => {
     await updateBenchSettings(await asOwner(), { torqueUnit: "lbf_ft", passes: [30, 60, 100], chainLimitPct: 3, clipMaxMinutes: 5, clipMaxGb: 1, ownerWaitDays: 4 }, owner);
     const [change] = await changes("bench");
     expect(change).toMatchObject({ user_id: owner.userId });
-    expect(json(change!.after)).toEqual({ bench: { torqueUnit: "lbf_ft", passPercents: [30, 60, 100], chainLimitPct: 3 }, clips: { maxSeconds: 300, maxBytes: 1024 ** 3 }, ownerWaitDays: 4 });
+    expect(json(change!.after)).toEqual({ bench: { torqueUnit: "lbf_ft", passPercents: [30, 60, 100], chainLimitPct: 3, wrenchClass: "type2_4" }, clips: { maxSeconds: 300, maxBytes: 1024 ** 3 }, ownerWaitDays: 4 });
     expect(json(change!.before)).toMatchObject({ ownerWaitDays: 3 });
     expect(await k("shops").where({ id: shop.id }).first("owner_wait_days", "clip_max_seconds")).toEqual({ owner_wait_days: 4, clip_max_seconds: 300 });
   });
@@ -166,6 +176,34 @@ describe("shop settings", () => {
     const request = await k("approval_requests").where({ job_id: jobs[1]!.id }).orderBy("id", "desc").first();
     // 2 h × $130 = $260; 20 % = $52.
     expect(request).toMatchObject({ estimate_pre_tax_minor: 26000, estimate_tax_minor: 5200, estimate_total_minor: 31200 });
+  });
+
+  it("taxes labour at a rate of its own when the owner sets one, and back at the shop's rate when cleared", async () => {
+    const own = await makeShop(k, { label: "settings-kind-tax", roles: ["owner", "service_writer"] });
+    const boss = staffActor(own, "owner");
+    const desk = staffActor(own, "service_writer");
+    const settingsOf = () => access(boss, "shop", own.slug, "shop:manage-settings");
+    await expect(saveTax(boss, await settingsOf(), tax("10", "per_invoice", { labourTaxRate: "five" }))).rejects.toMatchObject({ fields: { labourTaxRate: [expect.stringMatching(/number of percent/)] } });
+    await saveLabour(boss, await settingsOf(), labour("100.00"));
+    await saveTax(boss, await settingsOf(), tax("10", "per_invoice", { labourTaxRate: "5" }));
+    expect((await getMoneySettings({ shopId: own.id })).tax).toEqual({ ratePercent: "10.000000", method: "per_invoice", kindRates: { labour: "5.000000" } });
+    const { owner: customer, jobs } = await ownerWithJobs(k, own, 1);
+    await authorise({
+      writer: desk,
+      owner: customer,
+      jobPublicId: jobs[0]!.publicId,
+      title: "Chain and sprockets",
+      lines: [
+        { kind: "labour", description: "Fit chain and sprockets", hours: "1.5", rate: undefined as unknown as string },
+        { kind: "part", description: "Chain kit", qty: "1", unitPrice: "80.00" },
+      ],
+    });
+    // Labour 1.5 h × $100 = $150 at 5 % = $7.50; the part $80 at 10 % = $8.00 (each rate rounded once
+    // on its base, SSUTA §324 half-up; a rate per kind is common trade practice, no published source).
+    const request = await k("approval_requests").where({ job_id: jobs[0]!.id }).first();
+    expect(request).toMatchObject({ estimate_pre_tax_minor: 23000, estimate_tax_minor: 1550, estimate_total_minor: 24550 });
+    await saveTax(boss, await settingsOf(), tax("10", "per_invoice"));
+    expect((await getMoneySettings({ shopId: own.id })).tax).toEqual({ ratePercent: "10.000000", method: "per_invoice" });
   });
 
   it("prices an invoice labour line typed without a rate at the shop's default rate, or says beside the rate that there is none", async () => {

@@ -24,10 +24,13 @@ export type HandlerDeclaration = Common & {
   params: string[];
   query: boolean;
   body: BodyKind;
+  /** What the JSON body's schema is built from (see schemaRoot); null for none or an inline z.object. */
+  bodySchema: string | null;
   crossSite: boolean;
 };
 
-export type ActionDeclaration = Common & { kind: "action"; name: string };
+/** `schema`: the identifier the input schema is built from (see schemaRoot), null for an inline z.object. */
+export type ActionDeclaration = Common & { kind: "action"; name: string; schema: string | null };
 
 export type Declaration = HandlerDeclaration | ActionDeclaration;
 
@@ -150,6 +153,18 @@ export function wrapperCall(d: ts.VariableDeclaration, callee: string): ts.Expre
   return init.arguments[0];
 }
 
+/**
+ * The identifier a schema expression starts from: "dropoffFields" for
+ * `dropoffFields.extend({ job: ids.job })`, "addLineSchema" for `addLineSchema`; null when it is
+ * built inline from `z` (or isn't an identifier chain). Lets tests/unit/form-registry.test.ts
+ * match a declaration with the form schemas of lib/schemas/form-fields.ts.
+ */
+export function schemaRoot(e: ts.Expression | undefined): string | null {
+  let v = e && strip(e);
+  while (v && (ts.isCallExpression(v) || ts.isPropertyAccessExpression(v))) v = strip(v.expression);
+  return v && ts.isIdentifier(v) && v.text !== "z" ? v.text : null;
+}
+
 type Part = Omit<DeclarationScan, "problems"> & { problems: string[] };
 
 /** Declarations and problems of one route.ts. */
@@ -193,6 +208,7 @@ export function scanRouteSource(file: string, text: string): Part {
           params,
           query: props.has("query"),
           body: bodyKind,
+          bodySchema: bodyKind === "json" ? schemaRoot(body) : null,
           crossSite: !!crossSite && stringOf(crossSite, consts, "crossSite") === "allow",
           ...common(file, props, consts),
         });
@@ -237,7 +253,7 @@ export function scanActionSource(file: string, text: string): Part {
       try {
         const props = declarationProperties(arg, consts);
         if (!props.has("input")) throw new Unreadable("it declares no input schema");
-        part.actions.push({ kind: "action", name, ...common(file, props, consts) });
+        part.actions.push({ kind: "action", name, schema: schemaRoot(props.get("input")), ...common(file, props, consts) });
       } catch (error) {
         if (!(error instanceof Unreadable)) throw error;
         part.problems.push(`${file}: ${name}: ${error.message}`);

@@ -1,5 +1,5 @@
 import http from "node:http";
-import { toErrorBody } from "../../lib/errors";
+import { toErrorBody } from "../../lib/error-body";
 
 // A loopback server that hands each request to a handler the way Next's Node server hands one to
 // a route handler: a web Request whose body is the IncomingMessage itself, duplex "half"

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { z } from "zod";
-import { AppError, DATABASE_UNAVAILABLE_MESSAGE, isDatabaseUnavailable, toErrorBody } from "@/lib/errors";
+import { toErrorBody } from "@/lib/error-body";
+import { AppError, DATABASE_UNAVAILABLE_MESSAGE, isDatabaseUnavailable } from "@/lib/errors";
 
 describe("error bodies", () => {
   it("keeps an AppError's code, message and fields, with the matching HTTP status", () => {

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import type { z } from "zod";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
+import { INBOX_KINDS } from "@/lib/shop-events";
 import { WEEKDAYS } from "@/lib/shop-settings";
 
 // Issue 16 §7: every form error appears beside the field that caused it, or in the form's banner
@@ -12,16 +13,19 @@ import { WEEKDAYS } from "@/lib/shop-settings";
 // messages for the other (hidden) fields in the banner.
 
 const PUBLIC_ID = "AbCdEfGhIjKlMnOp";
-/** A form each schema accepts, as the browser would post it. */
-const VALID: Record<keyof typeof FORM_FIELDS, Record<string, string>> = {
+const HASH = "0".repeat(64);
+const TOKEN = "A".repeat(43);
+/** A form each schema accepts, as the browser would post it (the findings pages post JSON, so numbers, lists and booleans there). */
+const VALID: Record<keyof typeof FORM_FIELDS, Record<string, unknown>> = {
   profileSettings: { shop: "cedar-flats", name: "Cedar Flats", email: "desk@cedar.test", phone: "+1 555 0100", address: "12 Mill Road" },
   hoursSettings: { shop: "cedar-flats", ...Object.fromEntries(WEEKDAYS.flatMap((d) => [[`${d}Open`, "08:00"], [`${d}Close`, "17:00"]])) },
   regionSettings: { shop: "cedar-flats", timezone: "America/Denver", currency: "USD" },
   labourSettings: { shop: "cedar-flats", defaultRate: "95.00", rateName0: "Diagnosis", rateAmount0: "120.00" },
-  taxSettings: { shop: "cedar-flats", taxMethod: "per_line", taxRate: "8.25", partsTaxable: "on" },
+  taxSettings: { shop: "cedar-flats", taxMethod: "per_line", taxRate: "8.25", labourTaxRate: "", feeTaxRate: "5", suppliesTaxRate: "", partsTaxable: "on" },
   suppliesSettings: { shop: "cedar-flats", suppliesPercent: "5", suppliesBase: "labour", suppliesCap: "25.00" },
   toleranceSettings: { shop: "cedar-flats", toleranceKind: "custom", tolerancePercent: "10", toleranceFixed: "", toleranceCap: "" },
   digestSettings: { shop: "cedar-flats", digestWindowMinutes: "15" },
+  dropoffSettings: { shop: "cedar-flats", dropoffCharge: "55.00", dropoffUpTo: "300.00" },
   benchSettings: { shop: "cedar-flats", torqueUnit: "nm", passes: "30, 60, 100", chainLimitPct: "3", clipMaxMinutes: "10", clipMaxGb: "2", ownerWaitDays: "3" },
   part: { job: PUBLIC_ID, description: "Clutch cable", partNumber: "", supplier: "", qty: "1", cost: "18.50", status: "needed", expectedOn: "2026-12-24", forWork: "booked" },
   partStatus: { job: PUBLIC_ID, part: "4", from: "needed", to: "ordered", expectedOn: "" },
@@ -42,6 +46,84 @@ const VALID: Record<keyof typeof FORM_FIELDS, Record<string, string>> = {
   shopSignup: { shopName: "Cedar Flats", slug: "cedar-flats", timezone: "America/Denver", currency: "USD", ownerName: "Ilse Rowan", email: "ilse@cedar.test", password: "gravel road at dusk" },
   confirmSignup: { token: "A".repeat(43), password: "gravel road at dusk" },
   bookingRequest: { shop: "cedar-flats", ticket: "A".repeat(40), name: "Ilse Rowan", email: "ilse@mail.test", phone: "", when: "", machine: "2017 trail bike", work: "Soft front brake", website: "" },
+  passwordSignIn: { email: "desk@cedar.test", password: "gravel road at dusk" },
+  ownerLink: { email: "ilse@mail.test", next: "/my/jobs" },
+  linkSignIn: { token: TOKEN },
+  passwordResetRequest: { email: "desk@cedar.test" },
+  passwordReset: { token: TOKEN, password: "gravel road at dusk" },
+  acceptInvite: { token: TOKEN, name: "Rowan Pike", password: "gravel road at dusk" },
+  changePassword: { current: "gravel road at dusk", password: "tin roof in the rain" },
+  inviteStaff: { shop: "cedar-flats", name: "Rowan Pike", email: "rowan@cedar.test", role: "technician" },
+  staffRole: { shop: "cedar-flats", user: "12", role: "service_writer" },
+  checkIn: {
+    shop: "cedar-flats",
+    customerMode: "new",
+    customerName: "Ilse Rowan",
+    customerEmail: "ilse@mail.test",
+    customerPhone: "",
+    machineKind: "dirt_bike",
+    machineYear: "2017",
+    machineMake: "Kestrel",
+    machineModel: "TR 250",
+    machineEngineCc: "249",
+    machineSerial: "",
+    machineHours: "312.4",
+    machineOdometer: "6120",
+    machineOdometerUnit: "km",
+    concern: "Soft front brake",
+    intakeNotes: "",
+    promisedOn: "2026-12-24",
+    technicianId: "",
+  },
+  statusChange: { job: PUBLIC_ID, from: "checked_in", to: "inspecting", note: "", override: "" },
+  recordDeposit: { deposit: PUBLIC_ID, method: "cheque", reference: "1042" },
+  refund: { job: PUBLIC_ID, payment: "9", amount: "20.00", reason: "", confirmed: "yes" },
+  finding: {
+    version: 2,
+    title: "Front brake pads worn",
+    found: "Pads at 1 mm",
+    whyItMatters: "",
+    safety: "brakes",
+    evidence: [{ kind: "photo", ref: "ph_1", momentMs: null }],
+    lines: [{ kind: "labour", description: "Fit new pads", hours: "0.5", rate: "" }],
+  },
+  recordDecision: {
+    shownHash: HASH,
+    lines: [{ no: 1, answer: "approved" }],
+    method: "phone",
+    personName: "Ilse Rowan",
+    phoneCalled: "+1 555 0100",
+    decidedAt: "2026-12-04T15:30:00Z",
+    note: "",
+    wantsPartsBack: false,
+  },
+  withdraw: { reason: "Parts no longer made" },
+  answer: { shownHash: HASH, lines: [{ no: 1, answer: "declined" }], signature: "Ilse Rowan", wantsPartsBack: true, confirmed: true },
+  inviteFollower: { job: PUBLIC_ID, email: "ana@mail.test" },
+  frequency: { job: PUBLIC_ID, frequency: "daily" },
+  storyConsent: { job: PUBLIC_ID, decision: "given", shownHash: HASH, name: "Ilse Rowan" },
+  storyCuration: { shop: "cedar-flats", story: "3", version: "2", title: "A trail bike's brakes", slug: "trail-bike-brakes", writeUp: "", cover: "", items: "[]" },
+  shopProfile: { shop: "cedar-flats", displayName: "Cedar Flats", about: "", takesIn: "Dirt bikes", locationText: "", showLocation: "on", publicEmail: "desk@cedar.test", publicPhone: "", removeLogo: "" },
+  inboxSettings: { shop: "cedar-flats", ...Object.fromEntries(INBOX_KINDS.map((k) => [k, "now"])) },
+  spec: { shop: "cedar-flats", make: "Kestrel", model: "TR 250", kind: "torque", label: "Clutch cover bolts", value: "10", unit: "nm", min: "", max: "", boltCount: "9", notes: "", source: "" },
+  torqueRecord: {
+    job: PUBLIC_ID,
+    fastener: "Clutch cover bolts",
+    specValue: "10",
+    unit: "nm",
+    appliedValue: "10.2",
+    wrenchClass: "type2_4",
+    tolerancePct: "",
+    passesDone: "on",
+    checkPass: "",
+    plausibleChecked: "",
+    tool: "",
+    passes: "30, 60, 100",
+    boltCount: "9",
+    note: "",
+    share: "",
+  },
+  reading: { job: PUBLIC_ID, label: "Front disc thickness", value: "3.8", unit: "mm", min: "3.5", max: "", source: "" },
 };
 
 /** Text a field can hold when it reaches the server: empty, blank, huge, negative, words, odd numbers and times. */
@@ -54,17 +136,29 @@ function keysOf(schema: z.ZodType): string[] {
   return Object.keys(s.shape ?? s.def?.in?.shape ?? {});
 }
 
-function errorPaths(schema: z.ZodType, valid: Record<string, string>): { path: string; message: string; input: string }[] {
+function errorPaths(schema: z.ZodType, valid: Record<string, unknown>): { path: string; message: string; input: string }[] {
   const out: { path: string; message: string; input: string }[] = [];
   const fields = [...new Set([...keysOf(schema), ...Object.keys(valid)])];
+  const record = (input: Record<string, unknown>, label: string) => {
+    for (const issue of schema.safeParse(input).error?.issues ?? []) out.push({ path: issue.path.join(".") || "_", message: issue.message, input: label });
+  };
   for (const field of fields) {
-    for (const junk of JUNK) {
-      const result = schema.safeParse({ ...valid, [field]: junk });
-      for (const issue of result.error?.issues ?? []) out.push({ path: issue.path.join(".") || "_", message: issue.message, input: `${field}=${JSON.stringify(junk.slice(0, 12))}` });
+    for (const junk of JUNK) record({ ...valid, [field]: junk }, `${field}=${JSON.stringify(junk.slice(0, 12))}`);
+    // Lists of objects (a finding's lines and evidence, an answer's lines): junk in each key of the
+    // first item too, as JSON can carry it (numbers, null, booleans as well as text).
+    const list = valid[field];
+    if (!Array.isArray(list) || !list[0] || typeof list[0] !== "object") continue;
+    for (const key of Object.keys(list[0] as object)) {
+      for (const junk of [...JUNK, null, -1, 1.5, 1e12, true]) {
+        record({ ...valid, [field]: [{ ...(list[0] as object), [key]: junk }, ...list.slice(1)] }, `${field}.0.${key}=${JSON.stringify(junk)?.slice(0, 12)}`);
+      }
     }
   }
   return out;
 }
+
+/** Where a message shows: "lines.0.rate" beside line 1's rate, so by the list's own field name. */
+const shownAt = (path: string) => (/\.\d+(\.|$)/.test(path) ? path.split(".")[0]! : path);
 
 describe("form schemas: every error lands on a field the form shows, or in its banner", () => {
   for (const [name, entry] of Object.entries(FORM_FIELDS) as [keyof typeof FORM_FIELDS, (typeof FORM_FIELDS)[keyof typeof FORM_FIELDS]][]) {
@@ -79,7 +173,7 @@ describe("form schemas: every error lands on a field the form shows, or in its b
       const errors = errorPaths(entry.schema, valid);
       // The walk reaches errors at all (a schema that accepts everything would prove nothing).
       expect(errors.length).toBeGreaterThan(0);
-      expect(errors.filter((e) => !visible.has(e.path) && !banner.has(e.path)).map((e) => `${e.input} → ${e.path}: ${e.message}`)).toEqual([]);
+      expect(errors.filter((e) => !visible.has(shownAt(e.path)) && !banner.has(shownAt(e.path))).map((e) => `${e.input} → ${e.path}: ${e.message}`)).toEqual([]);
       expect([...new Set(errors.filter((e) => STOCK.test(e.message)).map((e) => `${e.path}: ${e.message}`))]).toEqual([]);
     });
   }

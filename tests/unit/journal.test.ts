@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { entryChangeSchema, groupByDay, newEntrySchema, timelineQuerySchema } from "@/lib/journal";
+import { groupByDay } from "@/lib/journal";
+import { entryChangeSchema, newEntrySchema, timelineQuerySchema } from "@/lib/schemas/journal";
 
 describe("timeline input schemas", () => {
   it("new entries default to shop-only", () => {

@@ -16,6 +16,7 @@ import {
   parseHours,
   parseMoney,
   parseQuantity,
+  taxLabel,
   toleranceFor,
   totals,
 } from "@/lib/money";
@@ -67,6 +68,50 @@ describe("sales tax: exact, rounded half-up to the cent once", () => {
     const t = totals([fee(1999), fee(4250, false)], tax825("per_invoice"));
     expect(t.taxableBaseMinor).toBe(1999);
     expect(t.taxMinor).toBe(165); // 19.99 × 8.25 % = 1.649175 → 1.65, SSUTA §324 / RCW 82.08.054 (REFERENCES §5)
+  });
+
+  // A rate per kind (parts at the shop's rate, labour or the supplies fee at their own) is common
+  // trade practice where jurisdictions tax labour differently, no published source; each amount is
+  // still rounded half-up once (SSUTA §324 / RCW 82.08.054, REFERENCES §5), per line or per rate.
+  const part = (unitPriceMinor: number): Line => ({ kind: "part", qtyThousandths: 1000, unitPriceMinor, taxable: true });
+  const labour = (rateMinor: number): Line => ({ kind: "labour", hoursTenths: 10, rateMinor, taxable: true });
+  const split = (method: "per_line" | "per_invoice"): TotalsSettings => ({ tax: { ratePercent: "8.25", method, kindRates: { labour: "5", supplies: "0" } }, supplies: { percent: "10", base: "labour", capMinor: null, taxable: true } });
+
+  it("taxes each kind at its own rate, per line", () => {
+    const t = totals([part(1999), part(2999), labour(9999)], split("per_line"));
+    // 19.99 × 8.25 % = 1.649175 → 1.65; 29.99 × 8.25 % = 2.474175 → 2.47 (REFERENCES §5 per-item example)
+    // 99.99 × 5 % = 4.9995 → 5.00; supplies 10 % of 99.99 = 9.999 → 10.00, at 0 % → 0.00
+    expect(t.lines.map((l) => l.taxMinor)).toEqual([165, 247, 500]);
+    expect(t.suppliesMinor).toBe(1000);
+    expect(t.taxByRate).toEqual([
+      { ratePercent: "0", baseMinor: 1000, taxMinor: 0 },
+      { ratePercent: "5", baseMinor: 9999, taxMinor: 500 },
+      { ratePercent: "8.25", baseMinor: 4998, taxMinor: 412 },
+    ]);
+    expect(t.taxMinor).toBe(912);
+  });
+
+  it("rounds once per rate on that rate's base, per invoice", () => {
+    const t = totals([part(1999), part(2999), labour(9999)], split("per_invoice"));
+    // 49.98 × 8.25 % = 4.12335 → 4.12; 99.99 × 5 % = 4.9995 → 5.00
+    expect(t.taxByRate.map((g) => [g.ratePercent, g.taxMinor])).toEqual([["0", 0], ["5", 500], ["8.25", 412]]);
+    expect(t.taxMinor).toBe(912);
+    expect(t.taxableBaseMinor).toBe(4998 + 9999 + 1000);
+  });
+
+  it("reads as one rate when no kind has its own", () => {
+    const t = totals([part(1999), labour(9999)], tax825("per_invoice"));
+    expect(t.taxByRate).toEqual([{ ratePercent: "8.25", baseMinor: 11998, taxMinor: 990 }]); // 119.98 × 8.25 % = 9.89835 → 9.90
+  });
+
+  it("names the rates on the tax row", () => {
+    expect(taxLabel({ ratePercent: "8.250000", method: "per_line" })).toBe("Tax (8.25 %)");
+    expect(taxLabel({ ratePercent: "10", method: "per_line" })).toBe("Tax (10 %)");
+    expect(taxLabel({ ratePercent: "8.25", method: "per_line", kindRates: { labour: "5.000000", fee: "8.25" } })).toBe("Tax (parts 8.25 %, labour 5 %)");
+  });
+
+  it("refuses a kind rate that is not a percent", () => {
+    expect(() => totals([labour(100)], { tax: { ratePercent: "8", method: "per_line", kindRates: { labour: "lots" } } })).toThrow(MoneyError);
   });
 });
 

@@ -3,7 +3,8 @@ import { renderToStaticMarkup } from "react-dom/server";
 import { describe, expect, it } from "vitest";
 import { z } from "zod";
 import { NoteView } from "@/components/rich-text/note-view";
-import { AppError, toErrorBody } from "@/lib/errors";
+import { toErrorBody } from "@/lib/error-body";
+import { AppError } from "@/lib/errors";
 import { editorAllowsHref } from "@/lib/rich-text/extensions";
 import { hrefFromInput, safeHref } from "@/lib/rich-text/href";
 import {

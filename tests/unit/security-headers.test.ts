@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { API_CSP, badPathSegment, pageCsp, paymentsOrigin, permissionsPolicy, securityHeaders, videoUploadOrigins } from "@/lib/security-headers";
+import { API_CSP, badPathSegment, isStaticPage, needsNonce, pageCsp, paymentsOrigin, permissionsPolicy, securityHeaders, staticPageCsp, videoUploadOrigins } from "@/lib/security-headers";
 
 // What proxy.ts puts on every answer. Directive names and syntax: W3C Content Security Policy
 // Level 3 (§6); Permissions-Policy: W3C Permissions Policy (structured header, allowlists "()"
@@ -44,6 +44,57 @@ describe("the page Content-Security-Policy", () => {
     expect(videoUploadOrigins({})).toEqual(["https://storage.googleapis.com"]);
     expect(paymentsOrigin({})).toBe("https://checkout.stripe.com");
     expect(paymentsOrigin({ PAYMENTS_CHECKOUT_ORIGIN: "https://pay.example.test/x" })).toBe("https://pay.example.test");
+  });
+});
+
+describe("the policy of the cached public pages (/s/…)", () => {
+  it("allows inline scripts (Next's data scripts in cached HTML) but no nonce, no 'strict-dynamic', no inline handlers", () => {
+    const csp = directives(staticPageCsp(LOCAL));
+    expect(csp["script-src"]).toEqual(["'self'", "'unsafe-inline'"]);
+    // A nonce or hash in the list would make browsers ignore 'unsafe-inline', and 'strict-dynamic' would drop 'self' (CSP Level 3).
+    expect(staticPageCsp(LOCAL)).not.toMatch(/'nonce-|'sha\d+-|'strict-dynamic'/);
+    expect(csp["script-src-attr"]).toEqual(["'none'"]);
+    expect(staticPageCsp(LOCAL)).not.toContain("unsafe-eval");
+  });
+
+  it("keeps everything else as strict as the per-request policy", () => {
+    const csp = directives(staticPageCsp(LOCAL));
+    const strict = directives(pageCsp("n", LOCAL));
+    for (const name of ["default-src", "style-src", "img-src", "media-src", "font-src", "connect-src", "worker-src", "frame-src", "object-src", "base-uri", "form-action", "frame-ancestors"]) {
+      expect(csp[name], name).toEqual(strict[name]);
+    }
+    expect(csp["object-src"]).toEqual(["'none'"]);
+    expect(csp["base-uri"]).toEqual(["'self'"]);
+    expect(csp["form-action"]).toEqual(["'self'", "http://127.0.0.1:4130"]);
+    expect(csp["frame-ancestors"]).toEqual(["'none'"]);
+    // The per-request policy has no inline scripts at all, so it needs no script-src-attr.
+    expect(strict["script-src-attr"]).toBeUndefined();
+  });
+
+  it("eval only in development; upgrade only over https", () => {
+    expect(directives(staticPageCsp({ ...LOCAL, NODE_ENV: "development" }))["script-src"]).toEqual(["'self'", "'unsafe-inline'", "'unsafe-eval'"]);
+    expect(directives(staticPageCsp({ ...LOCAL, APP_URL: "https://bench.example.test" }))["upgrade-insecure-requests"]).toEqual([]);
+  });
+
+  it("is the policy of /s/… only; every other page gets this request's nonce, and the API its own", () => {
+    for (const path of ["/s/copper-gulch", "/s/copper-gulch/ridgeline-front-end", "/s/copper-gulch/opengraph-image-1y4kbw", "/s"]) {
+      expect(isStaticPage(path), path).toBe(true);
+      expect(needsNonce(path), path).toBe(false);
+      expect(securityHeaders(path, null, LOCAL)["Content-Security-Policy"], path).toBe(staticPageCsp(LOCAL));
+      // A nonce handed in by mistake never reaches a cached page's policy.
+      expect(securityHeaders(path, "n", LOCAL)["Content-Security-Policy"], path).not.toContain("nonce");
+    }
+    for (const path of ["/", "/sitemap.xml", "/start", "/shop/copper-gulch", "/sign-in", "/my/jobs/abc", "/ss/x"]) {
+      expect(isStaticPage(path), path).toBe(false);
+      expect(needsNonce(path), path).toBe(true);
+      expect(securityHeaders(path, "n", LOCAL)["Content-Security-Policy"], path).toBe(pageCsp("n", LOCAL));
+    }
+    expect(needsNonce("/api/jobs/abc/timeline")).toBe(false);
+    expect(securityHeaders("/api/health", null, LOCAL)["Content-Security-Policy"]).toBe(API_CSP);
+  });
+
+  it("a page rendered per request without a nonce is a programming error, not a page without a policy", () => {
+    expect(() => securityHeaders("/shop/copper-gulch", null, LOCAL)).toThrow(/needs this request's nonce/);
   });
 });
 

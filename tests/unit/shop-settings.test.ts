@@ -20,8 +20,9 @@ describe("shop settings helpers", () => {
   });
 
   it("shows stored amounts as the text parseMoney reads back, with the currency's minor units", () => {
-    // ISO 4217 minor units: USD 2, JPY 0 (currency-codes, as lib/money.ts reads them).
-    for (const [minor, currency, text] of [[9500, "USD", "95.00"], [5, "USD", "0.05"], [0, "EUR", "0.00"], [12000, "JPY", "12000"]] as const) {
+    // ISO 4217 minor units: USD 2, JPY 0 (currency-codes, as lib/money.ts reads them); a euro
+    // shop's field shows the decimal comma of its style (lib/number-input.ts).
+    for (const [minor, currency, text] of [[9500, "USD", "95.00"], [5, "USD", "0.05"], [0, "EUR", "0,00"], [12000, "JPY", "12000"]] as const) {
       expect(minorToInput(minor, currency)).toBe(text);
       expect(parseMoney(text, currency)).toBe(minor);
     }

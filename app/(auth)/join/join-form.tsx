@@ -3,6 +3,7 @@ import { useActionState } from "react";
 import { Button, Field, Input } from "@/components/ui";
 import { NewPasswordField } from "../sign-in/_components/new-password-field";
 import { FormError, fieldError } from "../sign-in/_components/form-error";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 import { acceptInviteAction } from "./actions";
 
 // A button rather than accepting on page load: mail scanners that open links must not use up the invitation.
@@ -12,8 +13,7 @@ export function JoinForm({ token, name, email, needsPassword }: { token: string;
   return (
     <form action={action} className="space-y-4" noValidate>
       <input type="hidden" name="token" value={token} />
-      <FormError state={state} />
-      {fieldError(state, "token") ? <p role="alert" className="text-sm text-rust">{fieldError(state, "token")}</p> : null}
+      <FormError state={state} visible={FORM_VISIBLE.acceptInvite} />
       <input type="email" name="username" autoComplete="username" value={email} readOnly hidden />
       <Field id="join-name" label="Your name" hint="As the shop will see it on jobs and in the journal." error={fieldError(state, "name")} required>
         <Input name="name" autoComplete="name" defaultValue={values?.name ?? name} maxLength={120} />

@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
+import { connection } from "next/server";
 import { Brand } from "@/components/brand";
 import { describeSubscription } from "@/db/queries/following";
 import { describeMachine } from "@/lib/machine";
@@ -13,6 +14,8 @@ export const metadata: Metadata = { title: "Stop e-mails about a job", robots: {
  * open links); the button does. No sign-in: the signed token in the address is the right to ask.
  */
 export default async function UnsubscribePage({ params }: { params: Promise<{ token: string }> }) {
+  // Rendered per request: the page's scripts carry this request's CSP nonce (proxy.ts).
+  await connection();
   const { token } = await params;
   const subscriberId = readUnsubscribeToken(token);
   const sub = subscriberId == null ? null : await describeSubscription({ subscriberId });

@@ -2,6 +2,7 @@
 import { useActionState } from "react";
 import { Alert, Button } from "@/components/ui";
 import { unsubscribeAction } from "./actions";
+import { formBanner } from "@/lib/form-visible";
 
 export function UnsubscribeForm({ token, already }: { token: string; already: boolean }) {
   const [state, action, pending] = useActionState(unsubscribeAction, null);
@@ -11,7 +12,7 @@ export function UnsubscribeForm({ token, already }: { token: string; already: bo
   return (
     <form action={action} className="space-y-4">
       <input type="hidden" name="token" value={token} />
-      {state && !state.ok ? <Alert tone="error">{state.error.message}</Alert> : null}
+      {state && !state.ok ? <Alert tone="error">{formBanner(state.error, [])}</Alert> : null}
       <Button type="submit" size="lg" variant="danger" loading={pending} fullWidth>
         Stop e-mails about this job
       </Button>

@@ -3,7 +3,7 @@ import { Body, Button, Column, Container, Head, Heading, Hr, Html, Img, Preview,
 import { render } from "@react-email/render";
 import { FINDING_CAUTIONS, LINE_KIND_LABEL, type RequestSnapshot, type SnapshotLine } from "@/lib/approvals";
 import { CAUTION_DEFERRAL } from "@/lib/cautions";
-import { formatHours, formatMoney, formatQuantity } from "@/lib/money";
+import { formatHours, formatMoney, formatQuantity, taxLabel } from "@/lib/money";
 import { mailColors, mailFont } from "./theme";
 
 // The approval request e-mail (and its one reminder): the finding, its evidence thumbnails, the
@@ -36,7 +36,7 @@ function totalRows(s: RequestSnapshot): [string, string][] {
   const m = (n: number) => formatMoney(n, s.currency);
   const rows: [string, string][] = [["Lines", m(s.totals.subtotalMinor)]];
   if (s.totals.suppliesMinor) rows.push(["Shop supplies", m(s.totals.suppliesMinor)]);
-  rows.push([`Tax (${s.pricing.tax.ratePercent.replace(/\.?0+$/, "")} %)`, m(s.totals.taxMinor)], ["Estimate for all lines", m(s.totals.totalMinor)]);
+  rows.push([taxLabel(s.pricing.tax), m(s.totals.taxMinor)], ["Estimate for all lines", m(s.totals.totalMinor)]);
   return rows;
 }
 

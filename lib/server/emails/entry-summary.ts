@@ -1,4 +1,5 @@
-import { PART_STATUS_LABEL, isPartBody, isReadingBody, isTeardownBody, isTorqueBody, plainNumber } from "@/lib/bench";
+import { PART_STATUS_LABEL, isPartBody, isReadingBody, isTeardownBody, isTorqueBody, plainNumber, sentenceCase, toleranceOf } from "@/lib/bench";
+import { outcomeText } from "@/lib/torque-check";
 import { JOB_STATUS_LABEL } from "@/lib/job-status";
 import { ENTRY_KIND_LABEL, type EntryKind, isStatusBody } from "@/lib/journal";
 import type { NoteDoc } from "@/lib/rich-text/note";
@@ -28,7 +29,8 @@ export function summarizeEntry(e: { kind: string; body: unknown; caption: string
       if (!isStatusBody(b)) return { label, text: null };
       return { label: "Status", text: `${b.from ? `${JOB_STATUS_LABEL[b.from]} → ` : ""}${JOB_STATUS_LABEL[b.to]}${b.note ? `: ${b.note}` : ""}` };
     case "torque":
-      return { label, text: isTorqueBody(b) ? b.fastener : e.caption };
+      // The real outcome, flagged when under or over; never "to spec" unless within tolerance.
+      return { label, text: isTorqueBody(b) ? `${b.fastener}: ${sentenceCase(outcomeText({ ...b, tolerancePct: toleranceOf(b) }, b.displayUnit))}` : e.caption };
     case "reading":
       return { label, text: isReadingBody(b) ? `${b.label}: ${plainNumber(b.value)}${b.unit ? ` ${b.unit}` : ""}` : e.caption };
     case "teardown":

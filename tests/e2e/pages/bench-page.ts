@@ -56,11 +56,13 @@ export class BenchPage {
     await expect(item.getByRole("button", { name: `Undo: ${removed}` })).toBeVisible();
   }
 
-  async logTorque(t: { fastener: string; spec: string; unitLabel: string; bolts?: string; share?: boolean }) {
+  async logTorque(t: { fastener: string; spec: string; unitLabel: string; applied?: string; bolts?: string; share?: boolean }) {
     const form = this.section("Torque log");
     await form.getByLabel(/^What was torqued/).fill(t.fastener);
     await form.getByLabel(/^Spec torque/).fill(t.spec);
+    // A typed number is labelled by the unit chosen after it (only a picked spec is converted).
     await form.getByLabel("Unit", { exact: true }).selectOption({ label: t.unitLabel });
+    if (t.applied) await form.getByLabel(/^Applied/).fill(t.applied);
     if (t.bolts) await form.getByLabel("Bolts in the circle (optional)").fill(t.bolts);
     if (t.share) await form.getByLabel("Share with the owner as proof").check();
     await form.getByRole("button", { name: "Log torque" }).click();

@@ -3,6 +3,7 @@ import { useActionState } from "react";
 import { Button, Field, Input } from "@/components/ui";
 import { requestOwnerLink } from "../actions";
 import { FormError, fieldError } from "./form-error";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 
 export function OwnerLinkForm({ next }: { next?: string }) {
   const [state, action, pending] = useActionState(requestOwnerLink, null);
@@ -11,7 +12,7 @@ export function OwnerLinkForm({ next }: { next?: string }) {
   return (
     <form action={action} className="space-y-4" noValidate>
       {next ? <input type="hidden" name="next" value={next} /> : null}
-      {emailError ? null : <FormError state={state} />}
+      {emailError ? null : <FormError state={state} visible={FORM_VISIBLE.ownerLink} />}
       <Field
         id="owner-email"
         label="E-mail you gave the shop"

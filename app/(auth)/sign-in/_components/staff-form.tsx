@@ -4,6 +4,7 @@ import { useActionState } from "react";
 import { Button, Field, Input } from "@/components/ui";
 import { signInWithPassword } from "../actions";
 import { FormError, fieldError } from "./form-error";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 
 export function StaffSignInForm({ next }: { next?: string }) {
   const [state, action, pending] = useActionState(signInWithPassword, null);
@@ -11,7 +12,7 @@ export function StaffSignInForm({ next }: { next?: string }) {
   return (
     <form action={action} className="space-y-4" noValidate>
       {next ? <input type="hidden" name="next" value={next} /> : null}
-      <FormError state={state} />
+      <FormError state={state} visible={FORM_VISIBLE.passwordSignIn} />
       <Field id="staff-email" label="E-mail" error={fieldError(state, "email")}>
         <Input name="email" type="email" autoComplete="username" inputMode="email" defaultValue={values?.email} required />
       </Field>

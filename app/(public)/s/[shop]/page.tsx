@@ -2,29 +2,40 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { cache } from "react";
-import clsx from "clsx";
 import { Wrench } from "lucide-react";
+import { PhotoImg } from "@/components/journal/photo-img";
 import { OpeningHours } from "@/components/portfolio/opening-hours";
 import { ShopContactList } from "@/components/portfolio/shop-contact";
 import { StoryPlaceholder } from "@/components/portfolio/story-placeholder";
 import { EmptyState } from "@/components/ui";
-import { MACHINE_KIND_LABEL, type MachineKind } from "@/lib/machine";
+import { MACHINE_KIND_LABEL } from "@/lib/machine";
 import { type PublicStoryCard, storyPath } from "@/lib/portfolio";
-import { publicFaceFor } from "@/lib/server/booking";
-import { getPublicShopPage, parseKind } from "@/lib/server/portfolio-public";
+import { loadPublicShopPage } from "@/lib/server/portfolio-cache";
 import { BookingForm } from "./_components/booking-form";
+import { StoryGrid } from "./_components/story-grid";
 
 // The shop's public page: who they are, where (as they choose to say it), how to reach them, and
-// their finished-job stories, filterable by kind of machine. Rendered per request from a couple of
-// indexed queries, so a story taken down is gone from the grid at once.
+// their finished-job stories, filterable by kind of machine. Static: rendered on the first visit,
+// then served from the cache until a change drops the shop's public pages
+// (lib/server/portfolio-cache.ts), so a story taken down is gone from the grid at once. Nothing
+// here reads the request: the kind filter runs in the browser (StoryGrid) and the booking form
+// fetches its own fresh ticket.
 
-type Props = { params: Promise<{ shop: string }>; searchParams: Promise<{ kind?: string | string[] }> };
+type Props = { params: Promise<{ shop: string }> };
 
-const load = cache((slug: string, kind: MachineKind | null) => getPublicShopPage(slug, kind));
+// ISR for every shop, none at build time (no database there): [] with dynamicParams is Next's
+// "all paths at runtime". `revalidate` is PUBLIC_PAGE_SECONDS, as a literal Next can read.
+export const dynamicParams = true;
+export const revalidate = 300;
+export function generateStaticParams(): { shop: string }[] {
+  return [];
+}
+
+const load = cache((slug: string) => loadPublicShopPage(slug));
 
 export async function generateMetadata({ params }: Props): Promise<Metadata> {
   const { shop: slug } = await params;
-  const page = await load(slug, null);
+  const page = await load(slug);
   if (!page) return { title: "Not found", robots: { index: false } };
   const description = (page.shop.about ?? `Finished jobs from ${page.shop.name}: photos, clips and notes from the bench.`).slice(0, 200);
   return {
@@ -36,11 +47,10 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
   };
 }
 
-export default async function ShopPortfolioPage({ params, searchParams }: Props) {
+export default async function ShopPortfolioPage({ params }: Props) {
   const { shop: slug } = await params;
-  const kind = parseKind((await searchParams).kind);
-  const [page, face] = await Promise.all([load(slug, kind), publicFaceFor(slug)]);
-  if (!page || !face) notFound();
+  const page = await load(slug);
+  if (!page) notFound();
   const { shop } = page;
   return (
     <main id="main" tabIndex={-1} className="mx-auto max-w-5xl space-y-8 px-4 py-8">
@@ -63,13 +73,13 @@ export default async function ShopPortfolioPage({ params, searchParams }: Props)
       </header>
 
       <div className="grid gap-8 md:grid-cols-[auto_1fr]">
-        <OpeningHours hours={face.openingHours} timezone={face.timezone} />
+        <OpeningHours hours={page.openingHours} timezone={page.timezone} />
         <section aria-labelledby="booking-heading" className="relative max-w-2xl space-y-3">
           <h2 id="booking-heading" className="text-xl font-bold text-ink">
             Ask for a booking
           </h2>
           <p className="text-ink-muted">Tell the shop about your machine; they answer by e-mail or phone.</p>
-          <BookingForm shop={shop.slug} ticket={face.ticket} />
+          <BookingForm shop={shop.slug} />
         </section>
       </div>
 
@@ -77,48 +87,18 @@ export default async function ShopPortfolioPage({ params, searchParams }: Props)
         <h2 id="stories-heading" className="text-2xl font-bold text-ink">
           Finished jobs
         </h2>
-        {page.kinds.length > 1 ? <KindFilter slug={shop.slug} kinds={page.kinds} current={kind} /> : null}
         {page.stories.length ? (
-          <ul className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
-            {page.stories.map((s) => (
-              <li key={s.slug}>
-                <StoryCard shop={shop.slug} shopName={shop.name} story={s} />
-              </li>
-            ))}
-          </ul>
-        ) : (
-          <EmptyState
-            icon={Wrench}
-            title={kind ? `No ${MACHINE_KIND_LABEL[kind].toLowerCase()} stories yet` : "No finished jobs to show yet"}
-            description={kind ? <Link href={`/s/${shop.slug}`} className="font-semibold text-oil underline">Show every kind of machine</Link> : "Stories appear here once an owner agrees to share how their job went."}
+          <StoryGrid
+            shop={shop.slug}
+            // Chips only for kinds among the stories on the page (the newest 200): each shows at least one.
+            kinds={page.kinds.filter((k) => page.stories.some((s) => s.machine.kind === k)).map((k) => ({ kind: k, label: MACHINE_KIND_LABEL[k] }))}
+            items={page.stories.map((s) => ({ key: s.slug, kind: s.machine.kind, card: <StoryCard shop={shop.slug} shopName={shop.name} story={s} /> }))}
           />
+        ) : (
+          <EmptyState icon={Wrench} title="No finished jobs to show yet" description="Stories appear here once an owner agrees to share how their job went." />
         )}
       </section>
     </main>
-  );
-}
-
-function KindFilter({ slug, kinds, current }: { slug: string; kinds: MachineKind[]; current: MachineKind | null }) {
-  const options: { href: string; label: string; on: boolean }[] = [
-    { href: `/s/${slug}`, label: "All machines", on: current == null },
-    ...kinds.map((k) => ({ href: `/s/${slug}?kind=${k}`, label: MACHINE_KIND_LABEL[k], on: current === k })),
-  ];
-  return (
-    <nav aria-label="Filter by kind of machine">
-      <ul className="flex flex-wrap gap-2">
-        {options.map((o) => (
-          <li key={o.href}>
-            <Link
-              href={o.href}
-              aria-current={o.on ? "page" : undefined}
-              className={clsx("inline-flex min-h-tap items-center rounded-full border px-4 font-semibold", o.on ? "border-oil bg-oil text-oil-on" : "border-line-strong bg-surface text-ink hover:bg-sunken")}
-            >
-              {o.label}
-            </Link>
-          </li>
-        ))}
-      </ul>
-    </nav>
   );
 }
 
@@ -126,8 +106,8 @@ function StoryCard({ shop, shopName, story }: { shop: string; shopName: string; 
   return (
     <article className="flex h-full flex-col overflow-hidden rounded-xl border border-line bg-surface shadow-sm">
       {story.cover ? (
-        // eslint-disable-next-line @next/next/no-img-element -- served by the story's own photo route
-        <img src={story.cover.thumbUrl} alt="" width={story.cover.width} height={story.cover.height} loading="lazy" className="aspect-[4/3] w-full bg-sunken object-cover" />
+        // One card a row on a phone, two from 640 px, three from 1024 px in a 1024 px column.
+        <PhotoImg photo={story.cover} alt="" sizes="(min-width: 1024px) 320px, (min-width: 640px) 50vw, calc(100vw - 2rem)" className="aspect-[4/3] w-full bg-sunken object-cover" />
       ) : (
         <StoryPlaceholder id={story.slug} shopName={shopName} />
       )}

@@ -12,7 +12,8 @@ export default async function ShopLayout({ children, params }: { children: React
   const { shop: slug } = await params;
   const found = await shopPageAccess(slug, "shop:view-board", `/shop/${slug}`);
   const { actor, shop } = found;
-  const unread = await unreadCountFor(actor, found);
+  // Every staff page of the shop listens to the shop's live stream, once (components/live-updates.tsx).
+  const [unread, since] = await Promise.all([unreadCountFor(actor, found), latestEventId()]);
   const here = { shopId: shop.id };
   const base = `/shop/${shop.slug}`;
   const links = [
@@ -27,8 +28,6 @@ export default async function ShopLayout({ children, params }: { children: React
     ...(can(actor, "shop:manage-staff", here) ? [{ href: `${base}/staff`, label: "Staff" }] : []),
     { href: `${base}/account`, label: "Your account" },
   ];
-  // Every staff page of the shop listens to the shop's live stream, once (components/live-updates.tsx).
-  const since = await latestEventId();
   return (
     <LiveShopUpdates shopSlug={shop.slug} since={since}>
       <AppHeader actor={actor} context={shop.name} />

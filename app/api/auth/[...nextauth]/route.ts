@@ -1,5 +1,5 @@
 import { NextRequest, NextResponse } from "next/server";
-import { toErrorBody } from "@/lib/errors";
+import { toErrorBody } from "@/lib/error-body";
 import { handlers } from "@/lib/server/auth";
 import { CLOSE_AFTER_REFUSAL, cappedRequest } from "@/lib/server/body-limit";
 

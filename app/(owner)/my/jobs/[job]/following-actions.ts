@@ -1,7 +1,7 @@
 "use server";
 import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/action";
-import { frequencySchema, inviteFollowerSchema, removeFollowerSchema } from "@/lib/following";
+import { frequencySchema, inviteFollowerSchema, removeFollowerSchema } from "@/lib/schemas/following";
 import { inviteFollowerAs, removeFollowerAs, setOwnFrequency } from "@/lib/server/following";
 
 // The following card on the owner's job page. Each action declares its right on the job:

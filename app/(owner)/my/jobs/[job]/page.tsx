@@ -1,11 +1,13 @@
 import type { Metadata } from "next";
+import { Suspense } from "react";
 import { listTimeline } from "@/db/queries/journal";
 import { StatusBadge } from "@/components/status-badge";
 import { Card, PageHeader } from "@/components/ui";
 import { describeMachine } from "@/lib/machine";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { loadPage } from "@/lib/server/page-access";
-import { getShopBySlug } from "@/db/queries/shops";
+import { shopBySlug } from "@/lib/server/request-cache";
+import { TIMELINE_PAGE_SIZE } from "@/lib/timeline-paging";
 import { OwnerTimeline } from "./_components/owner-timeline";
 import { LiveJobUpdates } from "@/components/live-updates";
 import { latestEventId } from "@/db/queries/shop-events";
@@ -28,19 +30,24 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
   const { actor, job, resource, audience: seenAs } = await loadPage("job", { job: publicId }, "job:view", `/my/jobs/${publicId}`);
   // A follower reads without money or decisions; everyone else here reads as the owner.
   const audience = seenAs === "follower" ? "follower" : "owner";
-  const shop = await getShopBySlug({ slug: job.shopSlug });
-  const timeZone = shop?.timezone ?? "UTC";
-  // The owner's page always reads as the owner, even for staff who look at their own machine.
-  const timeline = await listTimeline({ shopId: job.shopId, jobId: job.id, audience, order: "desc", limit: 50 });
-  // Shown once the shop has logged the machine coming apart and is putting it back together: not
-  // while it waits on the owner's answer or on parts, when a percentage would promise too much.
   const key = { shopId: job.shopId, jobId: job.id };
-  const [reassembly, facts, collected, work] = await Promise.all([
+  // All at once: the page's reads don't depend on each other. The owner's page always reads as
+  // the owner, even for staff who look at their own machine; its first page of the timeline goes
+  // out with the page and to SWR once, older pages through the timeline API on demand.
+  // Reassembly is shown once the shop has logged the machine coming apart and is putting it back
+  // together: not while it waits on the owner's answer or on parts, when a percentage would
+  // promise too much. The page follows the job live from the newest event before these reads, so
+  // nothing that lands while they run is missed.
+  const since = await latestEventId();
+  const [shop, timeline, reassembly, facts, collected, work] = await Promise.all([
+    shopBySlug(job.shopSlug),
+    listTimeline({ shopId: job.shopId, jobId: job.id, audience, order: "desc", limit: TIMELINE_PAGE_SIZE }),
     job.status === "in_progress" || job.status === "ready" ? getReassemblyProgress(key) : null,
     jobFacts(key),
     job.status === "picked_up" ? collectedAt(key) : null,
     audience === "owner" ? authorisedWork(key) : null,
   ]);
+  const timeZone = shop?.timezone ?? "UTC";
   const standing = ownerStanding({
     status: job.status,
     promisedOn: job.promisedOn,
@@ -48,8 +55,6 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
     declined: work ? work.record.flatMap((e) => e.declined.map((d) => d.description)) : [],
     collectedOn: collected ? shopToday(timeZone, collected) : null,
   });
-  // The page follows the job live (what its reader may hear), from the newest event at render.
-  const since = await latestEventId();
   return (
     <div className="space-y-4">
       <LiveJobUpdates jobPublicId={job.publicId} since={since} />
@@ -60,8 +65,13 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
       />
       <OwedDecisions actor={actor} job={job} />
       <DropoffNotice actor={actor} job={job} resource={resource} timeZone={timeZone} />
-      <OwnerInvoiceCard actor={actor} job={job} resource={resource} />
-      <PortfolioConsentNotice actor={actor} job={job} resource={resource} />
+      {/* Secondary cards stream in after the page's first part (they are often empty). */}
+      <Suspense fallback={null}>
+        <OwnerInvoiceCard actor={actor} job={job} resource={resource} />
+      </Suspense>
+      <Suspense fallback={null}>
+        <PortfolioConsentNotice actor={actor} job={job} resource={resource} />
+      </Suspense>
       <Card as="section" title="Where it stands" headingId="where-it-stands">
         <div className="space-y-2">
           <StatusBadge status={job.status} />
@@ -83,7 +93,9 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
         </h2>
         <OwnerTimeline jobPublicId={job.publicId} timeZone={timeZone} initial={{ ...timeline, audience }} />
       </section>
-      <FollowingCard actor={actor} job={job} resource={resource} />
+      <Suspense fallback={null}>
+        <FollowingCard actor={actor} job={job} resource={resource} />
+      </Suspense>
     </div>
   );
 }

@@ -1,7 +1,6 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { connection } from "next/server";
 import { cache } from "react";
 import { ArrowLeft } from "lucide-react";
 import { StoryView } from "@/components/portfolio/story-view";
@@ -9,16 +8,21 @@ import { ShopContactList } from "@/components/portfolio/shop-contact";
 import { type PublicShop, storyPath } from "@/lib/portfolio";
 import { loadPublicStoryPage } from "@/lib/server/portfolio-cache";
 
-// One story, readable on a phone. Rendered per request: a one-row check that the story is
-// published right now, then its body from the cache (lib/server/portfolio-cache.ts). So the
-// moment an owner withdraws consent, this address answers 404.
+// One story, readable on a phone. Static: rendered on the first visit, then served from the
+// cache until a change drops the shop's public pages (lib/server/portfolio-cache.ts). The moment
+// an owner withdraws consent the consent action drops them, and this address answers 404.
 
 type Props = { params: Promise<{ shop: string; story: string }> };
 
-const load = cache(async (shop: string, story: string) => {
-  await connection();
-  return loadPublicStoryPage(shop, story);
-});
+// ISR for every address, none at build time (no database there): [] with dynamicParams is
+// Next's "all paths at runtime". `revalidate` is PUBLIC_PAGE_SECONDS, as a literal Next can read.
+export const dynamicParams = true;
+export const revalidate = 300;
+export function generateStaticParams(): { shop: string; story: string }[] {
+  return [];
+}
+
+const load = cache((shop: string, story: string) => loadPublicStoryPage(shop, story));
 
 export async function generateMetadata({ params }: Props): Promise<Metadata> {
   const { shop, story: slug } = await params;

@@ -1,17 +1,26 @@
 "use client";
+import { useEffect, useState } from "react";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { Alert, Button, Field, Input, Textarea } from "@/components/ui";
 import { BOOKING_VISIBLE } from "@/lib/booking";
 import { requestBookingAction } from "../booking-actions";
 
-/** The public page's booking request: a few fields, sent to the shop's desk inbox. */
-export function BookingForm({ shop, ticket }: { shop: string; ticket: string }) {
+/**
+ * The public page's booking request: a few fields, sent to the shop's desk inbox. The page is
+ * cached for everyone, so the form's ticket (signed with the time this visitor opened it, for the
+ * "too quick to be a person" check) is fetched once the form is on screen, not baked into the page.
+ */
+export function BookingForm({ shop }: { shop: string }) {
   const { state, formAction, pending, values, fieldError: err, formError } = useBenchForm(requestBookingAction, { visible: BOOKING_VISIBLE });
+  const ticket = useBookingTicket(shop);
   if (state?.ok) return <Alert tone="success">{state.data.message}</Alert>;
   return (
     <form action={formAction} className="space-y-4" noValidate>
       <input type="hidden" name="shop" value={shop} />
       <input type="hidden" name="ticket" value={ticket} />
+      <noscript>
+        <p className="text-ink-muted">This form needs JavaScript. You can also reach the shop by phone or e-mail, above.</p>
+      </noscript>
       {/* The honeypot: off-screen, out of the tab order and hidden from screen readers; people leave it empty. */}
       <div aria-hidden className="absolute -left-[9999px] h-px w-px overflow-hidden">
         <label>
@@ -45,4 +54,22 @@ export function BookingForm({ shop, ticket }: { shop: string; ticket: string }) 
       </Button>
     </form>
   );
+}
+
+/** A fresh ticket for this visitor; empty until it arrives (a form sent without one is told to reload). */
+function useBookingTicket(shop: string): string {
+  const [ticket, setTicket] = useState("");
+  useEffect(() => {
+    const ask = new AbortController();
+    fetch(`/api/public/shops/${encodeURIComponent(shop)}/booking-ticket`, { signal: ask.signal, cache: "no-store" })
+      .then((res) => (res.ok ? (res.json() as Promise<{ ticket: string }>) : null))
+      .then((body) => {
+        if (body) setTicket(body.ticket);
+      })
+      .catch(() => {
+        // Offline or aborted: the form still sends, and the answer says to reload.
+      });
+    return () => ask.abort();
+  }, [shop]);
+  return ticket;
 }

@@ -2,6 +2,7 @@
 import { useActionState } from "react";
 import { Alert, Button, Field, Input } from "@/components/ui";
 import { FormError, fieldError } from "@/app/(auth)/sign-in/_components/form-error";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 import { NewPasswordField } from "@/app/(auth)/sign-in/_components/new-password-field";
 import { changeOwnPasswordAction } from "./actions";
 
@@ -9,7 +10,7 @@ export function ChangePasswordForm() {
   const [state, action, pending] = useActionState(changeOwnPasswordAction, null);
   return (
     <form action={action} className="max-w-md space-y-4" noValidate>
-      <FormError state={state} />
+      <FormError state={state} visible={FORM_VISIBLE.changePassword} />
       {state?.ok ? (
         <Alert tone="success">
           Password changed.{" "}

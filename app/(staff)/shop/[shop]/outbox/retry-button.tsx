@@ -2,6 +2,7 @@
 import { useActionState } from "react";
 import { Button } from "@/components/ui";
 import { retryMailAction } from "./actions";
+import { formBanner } from "@/lib/form-visible";
 
 export function RetryButton({ shop, id }: { shop: string; id: number }) {
   const [state, action, pending] = useActionState(retryMailAction, null);
@@ -14,7 +15,7 @@ export function RetryButton({ shop, id }: { shop: string; id: number }) {
       </Button>
       {state && !state.ok ? (
         <span role="alert" className="text-sm text-rust">
-          {state.error.message}
+          {formBanner(state.error, [])}
         </span>
       ) : null}
     </form>

@@ -1,31 +1,30 @@
 "use server";
-import { revalidatePath, updateTag } from "next/cache";
+import { revalidatePath } from "next/cache";
 import { redirect } from "next/navigation";
 import { z } from "zod";
 import { formAction } from "@/lib/action";
 import { ids } from "@/lib/server/access";
 import { shopProfileSchema, storyCurationSchema, storyPath } from "@/lib/portfolio";
 import type { StoryRow } from "@/db/queries/portfolio";
-import { shopCacheTag, storyCacheTag } from "@/lib/server/portfolio-cache";
-import { askOwnerAgain, proposeStory, publishStory, unpublishStory } from "@/lib/server/portfolio";
+import { dropPublicPages } from "@/lib/server/portfolio-cache";
+import { askOwner, proposeStory, publishStory, reaskIfChanged, unpublishStory } from "@/lib/server/portfolio";
 import { curateStory, saveProfile } from "@/lib/server/portfolio-curation";
 
 // The staff's portfolio forms: zod and the shop/story/job each names, authorised by the declaration → lib/server/portfolio* → refresh the
-// staff pages and drop the public pages' cached copies (the public pages also check live, so
-// these only save a stale entry from lingering).
+// staff pages and drop the shop's cached public pages (they are static: lib/server/portfolio-cache.ts),
+// so the next visit shows the change.
 
 const storyRef = z.object({ shop: ids.shop, story: z.coerce.number().int().positive() });
 
 function refresh(shopSlug: string, story: Pick<StoryRow, "id" | "shopId" | "slug">, oldSlug?: string) {
-  updateTag(storyCacheTag(story.id));
-  updateTag(shopCacheTag(story.shopId));
+  dropPublicPages(shopSlug);
   revalidatePath(`/shop/${shopSlug}/portfolio`, "layout");
   revalidatePath(`/s/${shopSlug}`);
   revalidatePath(storyPath(shopSlug, story.slug));
   if (oldSlug && oldSlug !== story.slug) revalidatePath(storyPath(shopSlug, oldSlug));
 }
 
-/** From the job page: propose a collected job; the owner is asked by e-mail. Opens the story. */
+/** From the job page: propose a collected job and open the story to write it (the owner is asked about the write-up). */
 export const proposeAction = formAction(
   { input: z.object({ shop: ids.shop, job: ids.job }), resource: "job", permission: "portfolio:propose" },
   async ({ actor, found }) => {
@@ -40,8 +39,10 @@ export const curateAction = formAction(
   { input: storyCurationSchema.extend({ shop: ids.shop }), resource: "story", permission: "portfolio:curate" },
   async ({ input, found }) => {
     const story = await curateStory(found, input);
+    // Other words than the owner agreed to: back to them (and off the public site until they agree).
+    const reasked = await reaskIfChanged(story);
     refresh(input.shop, story, story.previousSlug);
-    return { version: story.version };
+    return { version: story.version, reasked };
   },
 );
 
@@ -58,7 +59,7 @@ export const unpublishAction = formAction({ input: storyRef, resource: "story", 
 });
 
 export const askOwnerAction = formAction({ input: storyRef, resource: "story", permission: "portfolio:curate" }, async ({ input, found }) => {
-  const story = await askOwnerAgain(found);
+  const story = await askOwner(found);
   revalidatePath(`/shop/${input.shop}/portfolio`, "layout");
   return { status: story.status };
 });
@@ -67,7 +68,7 @@ export const saveProfileAction = formAction(
   { input: shopProfileSchema.extend({ logo: z.instanceof(File).optional() }), resource: "shop", permission: "shop:manage-settings" },
   async ({ input, found }) => {
     const { shop } = await saveProfile(found, input, input.logo ?? null);
-    updateTag(shopCacheTag(shop.id));
+    dropPublicPages(shop.slug);
     revalidatePath(`/s/${shop.slug}`, "layout");
     revalidatePath(`/shop/${shop.slug}/portfolio`, "layout");
     return { saved: true };

@@ -3,6 +3,7 @@ import { revalidatePath } from "next/cache";
 import { formAction } from "@/lib/action";
 import {
   digestSettingsSchema,
+  dropoffSettingsSchema,
   hoursSettingsSchema,
   labourSettingsSchema,
   profileSettingsSchema,
@@ -11,26 +12,32 @@ import {
   taxSettingsSchema,
   toleranceSettingsSchema,
 } from "@/lib/schemas/shop-settings";
-import { saveDigest, saveHours, saveLabour, saveProfile, saveRegion, saveSupplies, saveTax, saveTolerance } from "@/lib/server/shop-settings";
+import { dropPublicPages } from "@/lib/server/portfolio-cache";
+import { saveDigest, saveDropoffTerms, saveHours, saveLabour, saveProfile, saveRegion, saveSupplies, saveTax, saveTolerance } from "@/lib/server/shop-settings";
 
 // The shop settings page's forms, one per section: zod → lib/server/shop-settings (the shop named
 // by the form; the shop owner only, by the declaration) → refresh the shop's pages.
 
 const owner = { resource: "shop", permission: "shop:manage-settings" } as const;
 const refresh = (slug: string) => revalidatePath(`/shop/${slug}`, "layout");
+// The shop's name, opening hours and time zone show on its public page too (cached: lib/server/portfolio-cache.ts).
+const refreshPublic = (slug: string) => {
+  refresh(slug);
+  dropPublicPages(slug);
+};
 
 export const saveProfileAction = formAction({ input: profileSettingsSchema, ...owner }, async ({ input, actor, found }) => {
-  refresh((await saveProfile(actor, found, input)).shop.slug);
+  refreshPublic((await saveProfile(actor, found, input)).shop.slug);
   return { saved: true };
 });
 
 export const saveHoursAction = formAction({ input: hoursSettingsSchema, ...owner }, async ({ input, actor, found }) => {
-  refresh((await saveHours(actor, found, input)).shop.slug);
+  refreshPublic((await saveHours(actor, found, input)).shop.slug);
   return { saved: true };
 });
 
 export const saveRegionAction = formAction({ input: regionSettingsSchema, ...owner }, async ({ input, actor, found }) => {
-  refresh((await saveRegion(actor, found, input)).shop.slug);
+  refreshPublic((await saveRegion(actor, found, input)).shop.slug);
   return { saved: true };
 });
 
@@ -51,6 +58,11 @@ export const saveSuppliesAction = formAction({ input: suppliesSettingsSchema, ..
 
 export const saveToleranceAction = formAction({ input: toleranceSettingsSchema, ...owner }, async ({ input, actor, found }) => {
   refresh((await saveTolerance(actor, found, input)).shop.slug);
+  return { saved: true };
+});
+
+export const saveDropoffTermsAction = formAction({ input: dropoffSettingsSchema, ...owner }, async ({ input, actor, found }) => {
+  refresh((await saveDropoffTerms(actor, found, input)).shop.slug);
   return { saved: true };
 });
 

@@ -8,7 +8,7 @@ import { minorToInput, timeZoneChoices, toleranceChoice, trimPercent } from "@/l
 import { SECTION_LABEL, type SettingSection, settingsPageData } from "@/lib/server/shop-settings";
 import { shopPageAccess } from "../shop-access";
 import { SettingsForm as BenchSettingsForm } from "../specs/_components/settings-form";
-import { LabourForm, SuppliesForm, TaxForm, ToleranceForm } from "./_components/money-forms";
+import { DropoffTermsForm, LabourForm, SuppliesForm, TaxForm, ToleranceForm } from "./_components/money-forms";
 import { DigestForm, HoursForm, ProfileForm, RegionForm } from "./_components/profile-forms";
 
 export const metadata: Metadata = { title: "Shop settings" };
@@ -19,9 +19,10 @@ const when = (iso: string, timeZone: string) => new Intl.DateTimeFormat("en-US",
 export default async function SettingsPage({ params }: { params: Promise<{ shop: string }> }) {
   const { shop: slug } = await params;
   const { shop } = await shopPageAccess(slug, "shop:manage-settings", `/shop/${slug}/settings`);
-  const [{ row, money, named, changes }, bench, clipLimits] = await Promise.all([settingsPageData(shop.id), getBenchSettings({ shopId: shop.id }), getClipLimits({ shopId: shop.id })]);
+  const [{ row, money, named, dropoff, changes }, bench, clipLimits] = await Promise.all([settingsPageData(shop.id), getBenchSettings({ shopId: shop.id }), getClipLimits({ shopId: shop.id })]);
   const c = row.currency;
   const t = money.tolerance;
+  const own = (kind: "labour" | "fee" | "supplies") => (money.tax.kindRates?.[kind] != null ? trimPercent(money.tax.kindRates[kind]!) : "");
   const section = (id: string, title: string, description: string | null, children: ReactNode) => (
     <Card as="section" title={title} headingId={id} description={description ?? undefined}>
       {children}
@@ -44,7 +45,7 @@ export default async function SettingsPage({ params }: { params: Promise<{ shop:
         null,
         <LabourForm shopSlug={shop.slug} currency={c} defaultRate={minorToInput(money.labourRateMinor, c)} named={named.map((r) => ({ name: r.name, rate: minorToInput(r.rateMinor, c) }))} />,
       )}
-      {section("settings-tax", "Tax", null, <TaxForm shopSlug={shop.slug} tax={{ method: money.tax.method, rate: trimPercent(money.tax.ratePercent), taxable: money.taxable }} />)}
+      {section("settings-tax", "Tax", null, <TaxForm shopSlug={shop.slug} tax={{ method: money.tax.method, rate: trimPercent(money.tax.ratePercent), kindRates: { labour: own("labour"), fee: own("fee"), supplies: own("supplies") }, taxable: money.taxable }} />)}
       {section(
         "settings-supplies",
         "Shop-supplies fee",
@@ -70,12 +71,18 @@ export default async function SettingsPage({ params }: { params: Promise<{ shop:
           }}
         />,
       )}
+      {section(
+        "settings-dropoff",
+        "Standard drop-off terms",
+        "What anyone at the counter, technicians included, can put in front of an owner to sign at check-in. Empty both: the desk types the terms for each job.",
+        <DropoffTermsForm shopSlug={shop.slug} currency={c} terms={{ charge: dropoff ? minorToInput(dropoff.chargeMinor, c) : "", upTo: dropoff ? minorToInput(dropoff.upToMinor, c) : "" }} />,
+      )}
       {section("settings-digest", "Update digest", null, <DigestForm shopSlug={shop.slug} minutes={row.digestWindowMinutes} />)}
       {section(
         "bench-settings",
         "Bench, clip and board settings",
         null,
-        <BenchSettingsForm shopSlug={shop.slug} settings={bench} clipLimits={clipLimits} ownerWaitDays={shop.ownerWaitDays} />,
+        <BenchSettingsForm shopSlug={shop.slug} currency={shop.currency} settings={bench} clipLimits={clipLimits} ownerWaitDays={shop.ownerWaitDays} />,
       )}
       {section(
         "settings-more",

@@ -62,7 +62,7 @@ export default async function StaffPage({ params }: { params: Promise<{ shop: st
                   )}
                 </TD>
                 <TD>
-                  <ActiveToggle shop={shop.slug} user={m.userId} name={m.name} active={!m.deactivatedAt} />
+                  <ActiveToggle key={m.deactivatedAt ? "off" : "on"} shop={shop.slug} user={m.userId} name={m.name} active={!m.deactivatedAt} />
                 </TD>
               </TR>
             ))}

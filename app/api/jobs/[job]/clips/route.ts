@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { newClipSchema } from "@/lib/clips";
+import { newClipSchema } from "@/lib/schemas/clips";
 import { route } from "@/lib/route";
 import { ids } from "@/lib/server/access";
 import { startClipUpload } from "@/lib/server/clips";

@@ -1,4 +1,4 @@
-import { newEntrySchema } from "@/lib/journal";
+import { newEntrySchema } from "@/lib/schemas/journal";
 import { route } from "@/lib/route";
 import { ids } from "@/lib/server/access";
 import { postEntry } from "@/lib/server/journal";

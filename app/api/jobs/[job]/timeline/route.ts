@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { timelineQuerySchema } from "@/lib/journal";
+import { timelineQuerySchema } from "@/lib/schemas/journal";
 import { route } from "@/lib/route";
 import { ids } from "@/lib/server/access";
 import { readTimeline } from "@/lib/server/journal";

@@ -3,6 +3,7 @@ import { useActionState, useState } from "react";
 import { Alert, Button, Field, Input } from "@/components/ui";
 import { FREQUENCIES, FREQUENCY_HINT, FREQUENCY_LABEL, type Frequency } from "@/lib/following";
 import { inviteFollowerAction, removeFollowerAction, setFrequencyAction } from "../following-actions";
+import { FORM_VISIBLE, formBanner } from "@/lib/form-visible";
 
 /** How often this person hears about the job; with e-mail stopped, the same choice starts it again. */
 export function FrequencyForm({ jobPublicId, current }: { jobPublicId: string; current: Frequency | null }) {
@@ -23,7 +24,7 @@ export function FrequencyForm({ jobPublicId, current }: { jobPublicId: string; c
           </label>
         ))}
       </fieldset>
-      {state && !state.ok ? <Alert tone="error">{state.error.message}</Alert> : null}
+      {state && !state.ok ? <Alert tone="error">{formBanner(state.error, FORM_VISIBLE.frequency)}</Alert> : null}
       {state?.ok ? <Alert tone="success">Saved: {FREQUENCY_LABEL[state.data.frequency].toLowerCase()}.</Alert> : null}
       <Button type="submit" variant="secondary" loading={pending}>
         {current == null ? "Start e-mails" : "Save"}
@@ -38,7 +39,7 @@ export function InviteFollowerForm({ jobPublicId }: { jobPublicId: string }) {
   return (
     <form action={action} className="space-y-3" noValidate>
       <input type="hidden" name="job" value={jobPublicId} />
-      {error && !error.fields?.email ? <Alert tone="error">{error.message}</Alert> : null}
+      {formBanner(error, FORM_VISIBLE.inviteFollower) ? <Alert tone="error">{formBanner(error, FORM_VISIBLE.inviteFollower)}</Alert> : null}
       {state?.ok ? <Alert tone="success">Invitation on its way to {state.data.invited}.</Alert> : null}
       <Field id="follower-email" label="Invite someone by e-mail" hint="They get an e-mail with a link to sign in and follow along." error={error?.fields?.email?.[0]}>
         <Input name="email" type="email" autoComplete="off" inputMode="email" defaultValue={state && !state.ok ? state.values?.email : ""} key={state?.ok ? state.data.invited : "form"} required />
@@ -65,7 +66,7 @@ export function RemoveFollowerButton({ jobPublicId, subscriberId, email }: { job
     <form action={action} className="flex flex-wrap items-center gap-2">
       <input type="hidden" name="job" value={jobPublicId} />
       <input type="hidden" name="subscriber" value={subscriberId} />
-      {state && !state.ok ? <span className="text-sm text-rust">{state.error.message}</span> : null}
+      {state && !state.ok ? <span className="text-sm text-rust">{formBanner(state.error, [])}</span> : null}
       <span className="text-sm">Stop sharing with {email}?</span>
       <Button type="submit" variant="danger" loading={pending}>
         Remove

@@ -6,6 +6,9 @@ import { ButtonLink, Card, EmptyState, PageHeader } from "@/components/ui";
 import { describeMachine } from "@/lib/machine";
 import { CONSENT_DECISIONS, CONSENT_FROM, OWNER_STATUS_WORDS, storyPath } from "@/lib/portfolio";
 import { loadPage } from "@/lib/server/page-access";
+import { StoryView } from "@/components/portfolio/story-view";
+import { storyContentHash } from "@/lib/server/portfolio";
+import { previewStory } from "@/lib/server/portfolio-public";
 import { ConsentForm } from "./_components/consent-form";
 
 export const metadata: Metadata = { title: "Show this job in public?" };
@@ -25,7 +28,11 @@ export default async function PortfolioConsentPage({ params }: { params: Promise
       </div>
     );
   }
-  const consents = await listConsents({ shopId: story.shopId, storyId: story.id });
+  const [consents, preview, shownHash] = await Promise.all([
+    listConsents({ shopId: story.shopId, storyId: story.id }),
+    previewStory({ shopId: story.shopId, storyId: story.id, shopSlug: job.shopSlug }),
+    storyContentHash(story),
+  ]);
   const allowed = CONSENT_DECISIONS.filter((d) => CONSENT_FROM[d].includes(story.status));
   const timeZone = (await getShopBySlug({ slug: job.shopSlug }))?.timezone ?? "UTC";
   const when = new Intl.DateTimeFormat("en-US", { dateStyle: "medium", timeStyle: "short", timeZone });
@@ -44,6 +51,15 @@ export default async function PortfolioConsentPage({ params }: { params: Promise
           <li>Where a photo was taken: photos carry no location data.</li>
         </ul>
       </Card>
+      {preview && story.status !== "proposed" ? (
+        <section aria-labelledby="story-preview-heading" className="space-y-3 rounded-xl border border-line bg-surface p-4 sm:p-6">
+          <h2 id="story-preview-heading" className="text-lg font-bold text-ink">
+            The story as the public would see it
+          </h2>
+          <p className="text-ink-muted">Your answer is about this version. If the shop changes it, you are asked again.</p>
+          <StoryView story={preview} />
+        </section>
+      ) : null}
       <Card as="section" title="Your answer" headingId="your-answer" description={`Now: ${OWNER_STATUS_WORDS[story.status]} You can change your answer at any time; withdrawing takes the story down at once.`}>
         <div className="space-y-4">
           {story.status === "published" ? (
@@ -59,7 +75,7 @@ export default async function PortfolioConsentPage({ params }: { params: Promise
               Not public.
             </p>
           ) : null}
-          <ConsentForm jobPublicId={job.publicId} ownerName={job.customerName} allowed={allowed} />
+          <ConsentForm jobPublicId={job.publicId} ownerName={job.customerName} allowed={allowed} shownHash={shownHash} />
         </div>
       </Card>
       {consents.length ? (

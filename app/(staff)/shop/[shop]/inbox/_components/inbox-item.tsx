@@ -9,6 +9,7 @@ import { formatJobNumber } from "@/lib/schemas/jobs";
 import { INBOX_KIND_LABEL } from "@/lib/shop-events";
 import { markReadAction } from "../actions";
 import { KIND_ICON } from "./kind-look";
+import { formBanner } from "@/lib/form-visible";
 
 /** One line of the inbox: what happened, on which job, when; unread ones are marked in words and a dot, with their own "Mark read". */
 export function InboxItemRow({ shopSlug, item, when, onChanged }: { shopSlug: string; item: InboxItem; when: Intl.DateTimeFormat; onChanged: () => void }) {
@@ -53,7 +54,7 @@ export function InboxItemRow({ shopSlug, item, when, onChanged }: { shopSlug: st
         ) : null}
         {state && !state.ok ? (
           <p role="alert" className="text-sm text-rust">
-            {state.error.message}
+            {formBanner(state.error, [])}
           </p>
         ) : null}
       </div>

@@ -10,6 +10,7 @@ import { INBOX_KINDS, INBOX_KIND_LABEL } from "@/lib/shop-events";
 import { useInbox, useRefreshInbox } from "@/lib/swr/use-inbox";
 import { markAllReadAction } from "../actions";
 import { InboxItemRow } from "./inbox-item";
+import { formBanner } from "@/lib/form-visible";
 
 type Props = { shopSlug: string; timeZone: string; query: InboxQuery; initial: InboxPage };
 
@@ -122,7 +123,7 @@ function MarkAllRead({ shopSlug, query, through, onDone }: { shopSlug: string; q
       </Button>
       {state && !state.ok ? (
         <span role="alert" className="text-sm text-rust">
-          {state.error.message}
+          {formBanner(state.error, [])}
         </span>
       ) : null}
     </form>

@@ -5,6 +5,7 @@ import { Alert, Button } from "@/components/ui";
 import { DELIVERY_LABEL } from "@/lib/inbox";
 import { DELIVERIES, type Delivery, INBOX_KINDS, INBOX_KIND_LABEL, type InboxKind } from "@/lib/shop-events";
 import { saveInboxSettingsAction } from "../actions";
+import { FORM_VISIBLE, formBanner } from "@/lib/form-visible";
 
 /** One group of three choices per kind; radios stack on a phone. */
 export function SettingsForm({ shopSlug, deliveries, mayViewMoney }: { shopSlug: string; deliveries: Record<InboxKind, Delivery>; mayViewMoney: boolean }) {
@@ -45,9 +46,9 @@ export function SettingsForm({ shopSlug, deliveries, mayViewMoney }: { shopSlug:
         <p aria-live="polite" className="text-ink-muted">
           {state?.ok ? "Saved." : null}
         </p>
-        {state && !state.ok && !state.error.fields ? (
+        {state && !state.ok && formBanner(state.error, FORM_VISIBLE.inboxSettings) ? (
           <p role="alert" className="text-rust">
-            {state.error.message}
+            {formBanner(state.error, FORM_VISIBLE.inboxSettings)}
           </p>
         ) : null}
       </div>

@@ -4,11 +4,11 @@ import { z } from "zod";
 import { formAction } from "@/lib/action";
 import { dropoffFields, dropoffSignatureFields } from "@/lib/schemas/dropoff";
 import { ids } from "@/lib/server/access";
-import { prepareDropoff, sendDropoffLink, signDropoffAtCounter } from "@/lib/server/dropoff";
+import { prepareDropoff, prepareStandardDropoff, sendDropoffLink, signDropoffAtCounter } from "@/lib/server/dropoff";
 
 // The desk's side of the authorisation signed at drop-off (lib/server/dropoff.ts): prepare it,
-// have the owner sign on this screen, or e-mail them the link. Money people only: technicians see
-// that it is signed, not the amounts.
+// have the owner sign on this screen, or e-mail them the link. Typed terms are for money people;
+// anyone at the counter may put the shop's standard terms up and witness the owner's signature.
 
 const revalidate = (job: { shopSlug: string; number: number; publicId: string }) => {
   revalidatePath(`/shop/${job.shopSlug}/jobs/${job.number}`, "layout");
@@ -19,6 +19,15 @@ export const prepareDropoffAction = formAction(
   { input: dropoffFields.extend({ job: ids.job }), resource: "job", permission: "approvals:send" },
   async ({ input, actor, found }) => {
     const { job } = await prepareDropoff(actor, found, input);
+    revalidate(job);
+    return { prepared: true };
+  },
+);
+
+export const prepareStandardDropoffAction = formAction(
+  { input: z.object({ job: ids.job }), resource: "job", permission: "dropoff:standard" },
+  async ({ actor, found }) => {
+    const { job } = await prepareStandardDropoff(actor, found);
     revalidate(job);
     return { prepared: true };
   },
@@ -35,7 +44,7 @@ export const sendDropoffLinkAction = formAction(
 
 /** The owner types their name on the desk's screen; the staff member at the desk is recorded as witness. */
 export const signDropoffAtCounterAction = formAction(
-  { input: dropoffSignatureFields.extend({ job: ids.job }), resource: "job", permission: "approvals:record-decision" },
+  { input: dropoffSignatureFields.extend({ job: ids.job }), resource: "job", permission: "dropoff:standard" },
   async ({ input, actor, found }) => {
     const { job } = await signDropoffAtCounter(actor, found, input);
     revalidate(job);

@@ -1,16 +1,17 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { Suspense } from "react";
 import { jobFacts } from "@/db/queries/workflow";
 import { WAITING_ON_LABEL, waitingOn } from "@/lib/job-workflow";
-import { getClipLimits } from "@/db/queries/clips";
 import { listTimeline } from "@/db/queries/journal";
 import { StatusBadge } from "@/components/status-badge";
 import { FollowersCard } from "@/components/journal/followers-card";
-import { ButtonLink, Card, PageHeader } from "@/components/ui";
+import { ButtonLink, Card, PageHeader, Skeleton } from "@/components/ui";
 import { MACHINE_KIND_LABEL, describeMachine } from "@/lib/machine";
 import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
 import { staffJobPage } from "@/lib/server/page-access";
+import { TIMELINE_PAGE_SIZE } from "@/lib/timeline-paging";
 import { ApprovalsPanel } from "./_components/approvals-panel";
 import { DropoffCard } from "./_components/dropoff-card";
 import { JobJournal } from "./_components/job-journal";
@@ -28,8 +29,13 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
   const { shop: slug, number } = await params;
   const { actor, shop, job, resource } = await staffJobPage(slug, number, "journal:view-shop-only");
   const intake = (await searchParams).intake === "1";
-  const timeline = await listTimeline({ shopId: shop.id, jobId: job.id, audience: "shop", order: "desc", limit: 50, viewerUserId: actor.userId });
-  const waits = waitingOn(job.status, await jobFacts({ shopId: shop.id, jobId: job.id }));
+  // The first page of the journal goes out with the page and to SWR once; older pages come
+  // through the timeline API on demand. The cards around it stream in their own time.
+  const [timeline, facts] = await Promise.all([
+    listTimeline({ shopId: shop.id, jobId: job.id, audience: "shop", order: "desc", limit: TIMELINE_PAGE_SIZE, viewerUserId: actor.userId }),
+    jobFacts({ shopId: shop.id, jobId: job.id }),
+  ]);
+  const waits = waitingOn(job.status, facts);
 
   return (
     <div className="space-y-6">
@@ -87,8 +93,12 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
           ) : null}
         </Card>
       </div>
-      <DropoffCard actor={actor} resource={resource} job={job} currency={shop.currency} timeZone={shop.timezone} />
-      <ApprovalsPanel actor={actor} job={job} basePath={`/shop/${shop.slug}/jobs/${job.number}`} timeZone={shop.timezone} />
+      <Suspense fallback={<Skeleton className="h-32" />}>
+        <DropoffCard actor={actor} resource={resource} job={job} currency={shop.currency} timeZone={shop.timezone} />
+      </Suspense>
+      <Suspense fallback={<Skeleton className="h-32" />}>
+        <ApprovalsPanel actor={actor} job={job} currency={shop.currency} basePath={`/shop/${shop.slug}/jobs/${job.number}`} timeZone={shop.timezone} />
+      </Suspense>
       <JobJournal
         jobPublicId={job.publicId}
         status={job.status}
@@ -96,13 +106,17 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
         timeZone={shop.timezone}
         mayModerate={can(actor, "journal:moderate", resource)}
         initial={{ ...timeline, audience: "shop" }}
-        clipLimits={await getClipLimits({ shopId: shop.id })}
+        clipLimits={{ maxSeconds: shop.clipMaxSeconds, maxBytes: shop.clipMaxBytes }}
         findingsPath={can(actor, "approvals:draft", resource) ? `/shop/${shop.slug}/jobs/${job.number}/findings/new` : null}
         startWith={intake ? "photos" : "note"}
         intakeCaption={intake ? "Condition at check-in" : undefined}
       />
-      <FollowersCard shopId={shop.id} jobId={job.id} />
-      <PortfolioJobCard actor={actor} shop={shop} job={job} />
+      <Suspense fallback={null}>
+        <FollowersCard shopId={shop.id} jobId={job.id} />
+      </Suspense>
+      <Suspense fallback={null}>
+        <PortfolioJobCard actor={actor} shop={shop} job={job} />
+      </Suspense>
     </div>
   );
 }

@@ -8,6 +8,7 @@ import { can } from "@/lib/permissions";
 import { loadPage } from "@/lib/server/page-access";
 import { JobLink, JobsTable } from "../../customers/_components/jobs-table";
 import { ReadingTrend } from "./_components/reading-trend";
+import { TorqueOutcomeBadge } from "@/components/bench/torque-outcome";
 
 export const metadata: Metadata = { title: "Machine history" };
 
@@ -161,7 +162,9 @@ export default async function MachinePage({ params }: { params: Promise<{ shop: 
                     <TD className="whitespace-nowrap">{day.format(t.at)}</TD>
                     <TD>{t.fastener}</TD>
                     <TD className="whitespace-nowrap">{torqueText(t.specValue, t.unit)}</TD>
-                    <TD className="whitespace-nowrap">{t.appliedValue == null ? "—" : torqueText(t.appliedValue, t.unit)}</TD>
+                    <TD className="whitespace-nowrap">
+                      {t.appliedValue == null ? null : `${torqueText(t.appliedValue, t.unit)} `}<TorqueOutcomeBadge record={{ ...t, tolerancePct: t.tolerancePct ?? undefined }} />
+                    </TD>
                     <TD>{jobLink(t.jobNumber)}</TD>
                   </TR>
                 ))}

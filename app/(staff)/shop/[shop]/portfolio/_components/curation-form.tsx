@@ -2,12 +2,14 @@
 import { useMemo, useState } from "react";
 import type { JSONContent } from "@tiptap/react";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { PhotoImg } from "@/components/journal/photo-img";
 import { NoteEditor } from "@/components/rich-text/note-editor";
 import { Button, Card, Field, Input } from "@/components/ui";
 import type { TimelineEntry } from "@/lib/journal";
 import type { StoryItemKind } from "@/lib/portfolio";
 import { curateAction } from "../actions";
 import { type Checklist, Choices, type DraftItem, ItemList, entryLabel, itemLabel, newKey } from "./story-items";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 
 // Curating a story: title, address, write-up, cover, and which shared entries appear in what
 // order. Everything is controlled state posted in one form; the server checks it all again
@@ -34,7 +36,7 @@ export function CurationForm({ shopSlug, timeZone, story, items: initial, entrie
   const [items, setItems] = useState<DraftItem[]>(() =>
     initial.map((it, i) => ({ key: `saved-${i}`, kind: it.kind, entryId: it.entryId, photoId: it.photoPublicId, momentSeconds: it.momentMs == null ? "" : String(it.momentMs / 1000), caption: it.caption ?? "" })),
   );
-  const form = useBenchForm(curateAction);
+  const form = useBenchForm(curateAction, { visible: FORM_VISIBLE.storyCuration });
   const payload = JSON.stringify(
     items.map((it) => ({ kind: it.kind, entryId: it.entryId, photoId: it.photoId, momentSeconds: it.momentSeconds.trim() === "" ? null : Number(it.momentSeconds), caption: it.caption })),
   );
@@ -90,8 +92,7 @@ export function CurationForm({ shopSlug, timeZone, story, items: initial, entrie
               {photos.map((p) => (
                 <label key={p.id} className="flex cursor-pointer items-center gap-2 rounded-lg border border-line p-2">
                   <input type="radio" name="cover-choice" className="size-5 accent-oil" checked={cover === p.id} onChange={() => setCover(p.id)} aria-label={`Cover: ${p.label}`} />
-                  {/* eslint-disable-next-line @next/next/no-img-element -- the staff photo route */}
-                  <img src={p.thumbUrl} alt="" width={p.width} height={p.height} className="size-16 rounded-md object-cover" />
+                  <PhotoImg photo={p} alt="" sizes="64px" className="size-16 rounded-md object-cover" />
                 </label>
               ))}
             </div>
@@ -114,7 +115,7 @@ export function CurationForm({ shopSlug, timeZone, story, items: initial, entrie
         <Button type="submit" size="lg" loading={form.pending}>
           Save the story
         </Button>
-        {form.state?.ok ? <p role="status">Saved.</p> : null}
+        {form.state?.ok ? <p role="status">{form.state.data.reasked ? "Saved. The owner had agreed to other words: they are asked about this version, and it stays private until they agree." : "Saved."}</p> : null}
       </div>
     </form>
   );

@@ -3,10 +3,11 @@ import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { Button, Field, Input, Textarea } from "@/components/ui";
 import type { PublicShopRow } from "@/db/queries/portfolio-public";
 import { saveProfileAction } from "../actions";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 
 /** What the public page says about the shop: its name as shown, a few words, where, how to reach it, a logo. */
 export function ProfileForm({ shopSlug, profile, logoUrl }: { shopSlug: string; profile: PublicShopRow; logoUrl: string | null }) {
-  const form = useBenchForm(saveProfileAction);
+  const form = useBenchForm(saveProfileAction, { visible: FORM_VISIBLE.shopProfile });
   const v = form.values;
   return (
     <form action={form.formAction} className="space-y-4">

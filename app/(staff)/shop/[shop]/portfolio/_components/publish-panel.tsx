@@ -36,14 +36,17 @@ export function PublishPanel({ shopSlug, story, consents, mayPublish, timeZone }
     }
     if (story.status === "proposed") {
       return story.customer.email ? (
-        <ActionButton action={askOwnerAction} fields={fields} variant="primary" icon={<Send aria-hidden className="size-5" />} done="Asked.">
-          Ask the owner by e-mail
-        </ActionButton>
+        <div className="space-y-2">
+          <p className="text-ink-muted">Write the story first: the owner is shown it as the public will see it, and agrees to that version.</p>
+          <ActionButton action={askOwnerAction} fields={fields} variant="primary" icon={<Send aria-hidden className="size-5" />} done="Asked.">
+            Ask the owner by e-mail
+          </ActionButton>
+        </div>
       ) : (
         <p className="text-ink-muted">The owner has no e-mail address on file: add one to their record to ask them.</p>
       );
     }
-    if (story.status === "consent_requested") return <p className="text-ink-muted">The owner was asked by e-mail and on their job page. Nothing is public until they agree.</p>;
+    if (story.status === "consent_requested") return <p className="text-ink-muted">The owner was asked by e-mail and on their job page, and sees the story as the public would. Nothing is public until they agree; saving changes asks them about the new version.</p>;
     return <p className="text-ink-muted">The owner didn&apos;t agree: this story stays private unless they change their mind.</p>;
   })();
   return (

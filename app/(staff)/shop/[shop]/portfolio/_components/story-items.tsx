@@ -1,5 +1,6 @@
 "use client";
 import { ArrowDown, ArrowUp, Plus, Trash2 } from "lucide-react";
+import { PhotoImg } from "@/components/journal/photo-img";
 import { Button, Field, Input } from "@/components/ui";
 import { formatDuration } from "@/lib/clips";
 import type { TimelineEntry } from "@/lib/journal";
@@ -60,8 +61,7 @@ export function Choices({
               <ul className="flex flex-wrap gap-2" aria-label={`Photos of: ${label}`}>
                 {entry.photos.map((p, i) => (
                   <li key={p.id} className="flex flex-col items-center gap-1">
-                    {/* eslint-disable-next-line @next/next/no-img-element -- the staff photo route */}
-                    <img src={p.thumbUrl} alt={`Photo ${i + 1}`} width={p.width} height={p.height} className="size-20 rounded-md border border-line object-cover" />
+                    <PhotoImg photo={p} alt={`Photo ${i + 1}`} sizes="80px" className="size-20 rounded-md border border-line object-cover" />
                     <Button variant="ghost" aria-label={`Add photo ${i + 1} of: ${label}`} onClick={() => onAdd({ kind: "photo", entryId: entry.id, photoId: p.id })}>
                       Add
                     </Button>

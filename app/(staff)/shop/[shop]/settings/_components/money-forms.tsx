@@ -3,7 +3,7 @@ import { useState } from "react";
 import { Field, Input, Select } from "@/components/ui";
 import { LABOUR_RATE_ROWS } from "@/lib/schemas/shop-settings";
 import { TOLERANCE_PRESETS, type ToleranceChoice } from "@/lib/shop-settings";
-import { saveLabourAction, saveSuppliesAction, saveTaxAction, saveToleranceAction } from "../actions";
+import { saveDropoffTermsAction, saveLabourAction, saveSuppliesAction, saveTaxAction, saveToleranceAction } from "../actions";
 import { Checkbox, SaveRow, SettingsFormTop, useSettingsForm } from "./use-settings-form";
 
 // The money sections: labour rates, tax, the shop-supplies fee and the over-estimate tolerance.
@@ -36,7 +36,13 @@ export function LabourForm({ shopSlug, currency, defaultRate, named }: { shopSlu
   );
 }
 
-type Tax = { method: "per_line" | "per_invoice"; rate: string; taxable: { part: boolean; labour: boolean; fee: boolean } };
+type Tax = { method: "per_line" | "per_invoice"; rate: string; kindRates: { labour: string; fee: string; supplies: string }; taxable: { part: boolean; labour: boolean; fee: boolean } };
+
+const OWN_RATES = [
+  { name: "labourTaxRate", key: "labour", label: "Labour" },
+  { name: "feeTaxRate", key: "fee", label: "Fees" },
+  { name: "suppliesTaxRate", key: "supplies", label: "Shop-supplies fee" },
+] as const;
 
 export function TaxForm({ shopSlug, tax }: { shopSlug: string; tax: Tax }) {
   const form = useSettingsForm(saveTaxAction, "taxSettings");
@@ -46,7 +52,7 @@ export function TaxForm({ shopSlug, tax }: { shopSlug: string; tax: Tax }) {
     <form key={remount(form.state, tax)} action={form.formAction} className="space-y-4" aria-label="Tax">
       <SettingsFormTop form={form} shopSlug={shopSlug} />
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field id="tax-rate" label="Sales tax rate (%)" hint="e.g. 8.25; 0 for none" error={fieldError("taxRate")}>
+        <Field id="tax-rate" label="Sales tax rate (%)" hint="e.g. 8.25; 0 for none. Parts always take this rate" error={fieldError("taxRate")}>
           <Input name="taxRate" inputMode="decimal" maxLength={12} defaultValue={values?.taxRate ?? tax.rate} />
         </Field>
         <Field id="tax-method" label="Worked out" hint="Rounded once per taxable line, or once on the invoice's taxable total" error={fieldError("taxMethod")}>
@@ -56,6 +62,17 @@ export function TaxForm({ shopSlug, tax }: { shopSlug: string; tax: Tax }) {
           </Select>
         </Field>
       </div>
+      <fieldset className="space-y-2">
+        <legend className="font-semibold text-ink">Rates of their own</legend>
+        <p className="text-sm text-ink-muted">Where labour, fees or the supplies fee are taxed differently. Empty: the sales tax rate above.</p>
+        <div className="grid gap-3 sm:grid-cols-3">
+          {OWN_RATES.map((r) => (
+            <Field key={r.name} id={`tax-rate-${r.key}`} label={`${r.label} (%)`} error={fieldError(r.name)}>
+              <Input name={r.name} inputMode="decimal" maxLength={12} defaultValue={values?.[r.name] ?? tax.kindRates[r.key]} />
+            </Field>
+          ))}
+        </div>
+      </fieldset>
       <fieldset className="space-y-1">
         <legend className="font-semibold text-ink">New lines start out taxable</legend>
         <Checkbox name="partsTaxable" label="Parts" defaultChecked={ticked("partsTaxable", tax.taxable.part)} error={fieldError("partsTaxable")} />
@@ -136,6 +153,25 @@ export function ToleranceForm({ shopSlug, currency, tolerance }: { shopSlug: str
         </div>
       ) : null}
       <SaveRow form={form} label="Save tolerance" />
+    </form>
+  );
+}
+
+export function DropoffTermsForm({ shopSlug, currency, terms }: { shopSlug: string; currency: string; terms: { charge: string; upTo: string } }) {
+  const form = useSettingsForm(saveDropoffTermsAction, "dropoffSettings");
+  const { values, fieldError } = form;
+  return (
+    <form key={remount(form.state, terms)} action={form.formAction} className="space-y-4" aria-label="Standard drop-off terms">
+      <SettingsFormTop form={form} shopSlug={shopSlug} />
+      <div className="grid gap-3 sm:grid-cols-2">
+        <Field id="dropoff-standard-charge" label={`Diagnosis charge (${currency})`} hint="Before tax; 0 for free diagnosis" error={fieldError("dropoffCharge")}>
+          <Input name="dropoffCharge" inputMode="decimal" maxLength={16} defaultValue={values?.dropoffCharge ?? terms.charge} />
+        </Field>
+        <Field id="dropoff-standard-up-to" label={`Work authorised up to (${currency})`} hint="Before tax; more needs an approval request" error={fieldError("dropoffUpTo")}>
+          <Input name="dropoffUpTo" inputMode="decimal" maxLength={16} defaultValue={values?.dropoffUpTo ?? terms.upTo} />
+        </Field>
+      </div>
+      <SaveRow form={form} label="Save drop-off terms" />
     </form>
   );
 }

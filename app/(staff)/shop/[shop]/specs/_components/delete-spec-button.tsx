@@ -8,7 +8,7 @@ import { deleteSpecAction } from "../actions";
 /** Deleting asks once more: the spec may be what the bench pre-fills torque from. */
 export function DeleteSpecButton({ shopSlug, specId, label }: { shopSlug: string; specId: number; label: string }) {
   const [confirming, setConfirming] = useState(false);
-  const form = useBenchForm(deleteSpecAction);
+  const form = useBenchForm(deleteSpecAction, { visible: [] });
   if (!confirming) {
     return (
       <Button variant="ghost" icon={<Trash2 aria-hidden className="size-5" />} onClick={() => setConfirming(true)} aria-label={`Delete ${label}`}>
@@ -27,7 +27,7 @@ export function DeleteSpecButton({ shopSlug, specId, label }: { shopSlug: string
       <Button variant="secondary" onClick={() => setConfirming(false)}>
         Keep
       </Button>
-      {form.error ? <Alert tone="error">{form.error.message}</Alert> : null}
+      {form.formError ? <Alert tone="error">{form.formError}</Alert> : null}
     </form>
   );
 }

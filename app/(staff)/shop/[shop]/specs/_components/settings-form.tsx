@@ -5,19 +5,25 @@ import type { BenchSettings } from "@/lib/bench";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 import { TORQUE_UNITS } from "@/lib/torque";
 import { saveBenchSettingsAction } from "../actions";
+import { formatNumberInput, numberStyleFor } from "@/lib/number-input";
+import { WRENCH_CLASSES, WRENCH_CLASS_IDS } from "@/lib/torque-check";
 
 /** The shop's bench settings: the torque unit shown first, the pass schedule, the chain limit, clip limits. */
 export function SettingsForm({
   shopSlug,
+  currency,
   settings,
   clipLimits,
   ownerWaitDays,
 }: {
   shopSlug: string;
+  /** Numbers are shown and read in the convention of the shop's currency (lib/number-input.ts). */
+  currency: string;
   settings: BenchSettings;
   clipLimits: { maxSeconds: number; maxBytes: number };
   ownerWaitDays: number;
 }) {
+  const style = numberStyleFor(currency);
   const form = useBenchForm(saveBenchSettingsAction, { visible: FORM_FIELDS.benchSettings.visible });
   const { values, fieldError } = form;
   return (
@@ -37,14 +43,23 @@ export function SettingsForm({
         <Field id="settings-passes" label="Passes, % of final" hint="Rising, ending at 100" error={fieldError("passes")}>
           <Input name="passes" autoComplete="off" defaultValue={values?.passes ?? settings.passPercents.join(", ")} maxLength={40} />
         </Field>
+        <Field id="settings-wrench" label="Usual torque wrench" hint="Its ISO 6789-1 class sets a torque record's default tolerance" error={fieldError("wrenchClass")}>
+          <Select name="wrenchClass" key={`wrench-${values?.wrenchClass ?? ""}`} defaultValue={values?.wrenchClass ?? settings.wrenchClass}>
+            {WRENCH_CLASS_IDS.map((c) => (
+              <option key={c} value={c}>
+                {WRENCH_CLASSES[c].label}
+              </option>
+            ))}
+          </Select>
+        </Field>
         <Field id="settings-chain" label="Chain replace-at stretch (%)" hint="About 3 for most drives, 1.5 for fixed centres" error={fieldError("chainLimitPct")}>
-          <Input name="chainLimitPct" inputMode="decimal" defaultValue={values?.chainLimitPct ?? String(settings.chainLimitPct)} maxLength={6} />
+          <Input name="chainLimitPct" inputMode="decimal" defaultValue={values?.chainLimitPct ?? formatNumberInput(settings.chainLimitPct, style)} maxLength={6} />
         </Field>
         <Field id="settings-clip-minutes" label="Longest clip (minutes)" error={fieldError("clipMaxMinutes")}>
-          <Input name="clipMaxMinutes" inputMode="decimal" defaultValue={values?.clipMaxMinutes ?? String(+(clipLimits.maxSeconds / 60).toFixed(1))} maxLength={5} />
+          <Input name="clipMaxMinutes" inputMode="decimal" defaultValue={values?.clipMaxMinutes ?? formatNumberInput(+(clipLimits.maxSeconds / 60).toFixed(1), style)} maxLength={5} />
         </Field>
         <Field id="settings-clip-gb" label="Largest clip (GB)" error={fieldError("clipMaxGb")}>
-          <Input name="clipMaxGb" inputMode="decimal" defaultValue={values?.clipMaxGb ?? String(+(clipLimits.maxBytes / 1024 ** 3).toFixed(1))} maxLength={5} />
+          <Input name="clipMaxGb" inputMode="decimal" defaultValue={values?.clipMaxGb ?? formatNumberInput(+(clipLimits.maxBytes / 1024 ** 3).toFixed(1), style)} maxLength={5} />
         </Field>
         <Field id="settings-owner-wait" label="Owner slow to answer after (days)" hint="The board flags a job waiting on the owner this long" error={fieldError("ownerWaitDays")}>
           <Input name="ownerWaitDays" inputMode="numeric" defaultValue={values?.ownerWaitDays ?? String(ownerWaitDays)} maxLength={2} />

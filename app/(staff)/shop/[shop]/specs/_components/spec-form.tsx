@@ -5,10 +5,11 @@ import { Button, Field, Input, Select, Textarea } from "@/components/ui";
 import { SPEC_KINDS, SPEC_KIND_LABEL, type SpecKind } from "@/lib/bench";
 import { TORQUE_UNITS } from "@/lib/torque";
 import { addSpecAction } from "../actions";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 
 /** Adds one spec for a make and model; which fields it needs depends on its kind. */
 export function SpecForm({ shopSlug, models }: { shopSlug: string; models: { make: string; model: string }[] }) {
-  const form = useBenchForm(addSpecAction);
+  const form = useBenchForm(addSpecAction, { visible: FORM_VISIBLE.spec });
   const { values, fieldError } = form;
   const [kind, setKind] = useState<SpecKind>((values?.kind as SpecKind | undefined) ?? "torque");
   const makes = [...new Set(models.map((m) => m.make))];

@@ -2,6 +2,7 @@
 import { useActionState } from "react";
 import { Alert, Button, Field, Input, Select } from "@/components/ui";
 import { FormError, fieldError } from "@/app/(auth)/sign-in/_components/form-error";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 import { ROLE_LABEL, STAFF_ROLES } from "@/lib/permissions";
 import { inviteStaffAction } from "../actions";
 
@@ -11,7 +12,7 @@ export function InviteForm({ shop }: { shop: string }) {
   return (
     <form action={action} className="space-y-4" noValidate>
       <input type="hidden" name="shop" value={shop} />
-      <FormError state={state} />
+      <FormError state={state} visible={FORM_VISIBLE.inviteStaff} />
       {state?.ok ? <Alert tone="success">Invitation sent to {state.data.email}. The link lasts 7 days and works once.</Alert> : null}
       <div className="grid gap-4 sm:grid-cols-3">
         <Field id="invite-name" label="Name" error={fieldError(state, "name")} required>

@@ -1,5 +1,5 @@
 "use client";
-import { useActionState } from "react";
+import { useActionState, useState } from "react";
 import { Button, Select } from "@/components/ui";
 import { ROLE_LABEL, STAFF_ROLES, type StaffRole } from "@/lib/permissions";
 import { changeStaffRoleAction, deactivateStaffAction, reactivateStaffAction, revokeInviteAction } from "../actions";
@@ -43,17 +43,36 @@ export function RoleForm({ shop, user, name, role }: { shop: string; user: numbe
   );
 }
 
-/** Take someone off the staff, or put them back. */
+/** Take someone off the staff (after a second, explicit click: their sessions end at once), or put them back. */
 export function ActiveToggle({ shop, user, name, active }: { shop: string; user: number; name: string; active: boolean }) {
   const [state, action, pending] = useActionState(active ? deactivateStaffAction : reactivateStaffAction, null);
+  const [confirming, setConfirming] = useState(false);
+  if (active && !confirming) {
+    return (
+      <div className="flex flex-col items-start gap-1">
+        <Button type="button" variant="danger" onClick={() => setConfirming(true)}>
+          Deactivate<span className="sr-only"> {name}</span>
+        </Button>
+        <Problem state={state} />
+      </div>
+    );
+  }
   return (
-    <form action={action} className="flex flex-col items-start gap-1">
+    <form action={action} className="flex flex-col items-start gap-1" aria-label={active ? `Confirm deactivating ${name}` : undefined}>
       <input type="hidden" name="shop" value={shop} />
       <input type="hidden" name="user" value={user} />
-      <Button type="submit" variant={active ? "danger" : "secondary"} loading={pending}>
-        {active ? "Deactivate" : "Reactivate"}
-        <span className="sr-only"> {name}</span>
-      </Button>
+      {active ? <p className="text-sm text-ink">Take {name} off the staff? They are signed out everywhere at once; their work stays on the jobs.</p> : null}
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" variant={active ? "danger" : "secondary"} loading={pending}>
+          {active ? "Yes, deactivate" : "Reactivate"}
+          <span className="sr-only"> {name}</span>
+        </Button>
+        {active ? (
+          <Button type="button" variant="ghost" onClick={() => setConfirming(false)}>
+            Keep<span className="sr-only"> {name}</span>
+          </Button>
+        ) : null}
+      </div>
       <Problem state={state} />
     </form>
   );

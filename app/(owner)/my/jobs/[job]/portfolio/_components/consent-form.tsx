@@ -4,6 +4,7 @@ import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { Alert, Button, Field, Input } from "@/components/ui";
 import type { ConsentDecision } from "@/lib/portfolio";
 import { consentAction } from "../actions";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 
 const DONE: Record<ConsentDecision, string> = {
   given: "Thank you: the shop may now publish the story. You can withdraw at any time on this page.",
@@ -12,12 +13,13 @@ const DONE: Record<ConsentDecision, string> = {
 };
 
 /** The owner signs their answer with their typed name; only the answers that apply now are offered. */
-export function ConsentForm({ jobPublicId, ownerName, allowed }: { jobPublicId: string; ownerName: string; allowed: ConsentDecision[] }) {
-  const form = useBenchForm(consentAction);
+export function ConsentForm({ jobPublicId, ownerName, allowed, shownHash }: { jobPublicId: string; ownerName: string; allowed: ConsentDecision[]; shownHash: string }) {
+  const form = useBenchForm(consentAction, { visible: FORM_VISIBLE.storyConsent });
   const done = form.state?.ok ? form.state.data.decision : null;
   return (
     <form action={form.formAction} className="space-y-4">
       <input type="hidden" name="job" value={jobPublicId} />
+      <input type="hidden" name="shownHash" value={shownHash} />
       <FormError message={form.formError} />
       {done ? <Alert tone="success">{DONE[done]}</Alert> : null}
       <Field id="consent-name" label="Type your full name to sign your answer" hint={`For example “${ownerName}”. It is kept with your answer and never shown in public.`} error={form.fieldError("name")} required>

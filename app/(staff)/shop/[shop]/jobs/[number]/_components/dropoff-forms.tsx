@@ -4,13 +4,13 @@ import { useState } from "react";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { Alert, Button, Field, Input, Select, Textarea } from "@/components/ui";
 import { DEFAULT_DIAGNOSIS_DESCRIPTION } from "@/lib/dropoff";
-import { FORM_FIELDS } from "@/lib/schemas/form-fields";
-import { prepareDropoffAction, sendDropoffLinkAction } from "../dropoff-actions";
+import { FORM_VISIBLE } from "@/lib/form-visible";
+import { prepareDropoffAction, prepareStandardDropoffAction, sendDropoffLinkAction } from "../dropoff-actions";
 
 // The desk prepares the drop-off authorisation: the diagnosis charge (an amount, or a labour time
 // at the shop's rate) and the amount the owner authorises. The wording is made from these.
 
-const VISIBLE = FORM_FIELDS.dropoffPrepare.visible;
+const VISIBLE = FORM_VISIBLE.dropoffPrepare;
 
 export type PrepareDefaults = { chargeKind: "amount" | "time"; chargeAmount: string; chargeHours: string; description: string; authorisedUpTo: string; terms: string };
 
@@ -57,7 +57,7 @@ export function DropoffPrepareForm({ jobPublicId, labourRate, defaults, submitLa
 }
 
 export function DropoffSendLink({ jobPublicId, email }: { jobPublicId: string; email: string }) {
-  const form = useBenchForm(sendDropoffLinkAction);
+  const form = useBenchForm(sendDropoffLinkAction, { visible: [] });
   return (
     <form action={form.formAction} className="space-y-2">
       <input type="hidden" name="job" value={jobPublicId} />
@@ -65,6 +65,21 @@ export function DropoffSendLink({ jobPublicId, email }: { jobPublicId: string; e
       {form.state?.ok ? <Alert tone="success">Sent to {form.state.data.to}. It waits in the outbox until the mail goes.</Alert> : null}
       <Button type="submit" variant="secondary" loading={form.pending} icon={<Mail aria-hidden className="size-5" />}>
         E-mail the owner a link to sign ({email})
+      </Button>
+    </form>
+  );
+}
+
+/** Puts the shop's standard terms up for the owner to sign (anyone at the counter). */
+export function DropoffStandardButton({ jobPublicId, terms }: { jobPublicId: string; terms: string }) {
+  const form = useBenchForm(prepareStandardDropoffAction, { visible: [] });
+  return (
+    <form action={form.formAction} className="space-y-2" aria-label="Standard drop-off terms">
+      <input type="hidden" name="job" value={jobPublicId} />
+      <FormError message={form.formError} />
+      <p className="text-ink">The shop&apos;s standard terms: {terms}.</p>
+      <Button type="submit" loading={form.pending}>
+        Put the standard terms up for signing
       </Button>
     </form>
   );

@@ -4,9 +4,9 @@ import { useId, useState } from "react";
 import { Alert, Button, Input } from "@/components/ui";
 import { sendJson } from "@/lib/swr/fetcher";
 
-/** The player of this entry, wherever the lazy player has put it, and where it is now. */
+/** The video of this entry's clip player (components/journal/clip-player.tsx), and where it is now. */
 export function playerTime(entryId: number): number {
-  const player = document.querySelector<HTMLMediaElement>(`[data-entry-id="${entryId}"] mux-player:not([data-mux-player-react-lazy-placeholder])`);
+  const player = document.querySelector<HTMLMediaElement>(`[data-entry-id="${entryId}"] video[data-clip-player]`);
   return player?.currentTime ?? 0;
 }
 

@@ -1,15 +1,12 @@
 "use client";
-import dynamic from "next/dynamic";
 import { useId, useState } from "react";
-import { Alert, Button, Skeleton } from "@/components/ui";
+import { LazyNoteEditor as NoteEditor } from "@/components/rich-text/lazy-note-editor";
+import { Alert, Button } from "@/components/ui";
 import type { NoteDoc } from "@/lib/rich-text/note";
 import { sendJson } from "@/lib/swr/fetcher";
 
-// The editor is the heaviest thing on the page: load it when the composer shows.
-const NoteEditor = dynamic(() => import("@/components/rich-text/note-editor").then((m) => m.NoteEditor), {
-  ssr: false,
-  loading: () => <Skeleton className="h-40 w-full" />,
-});
+// The editor is the heaviest thing on the page: it is fetched on the first focus or touch of
+// the note box (LazyNoteEditor), not when the page mounts.
 
 type Props = {
   /** Where the note goes: a new entry (POST) or an existing one (PATCH with its version). */

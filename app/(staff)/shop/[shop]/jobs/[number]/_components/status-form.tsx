@@ -5,6 +5,7 @@ import type { ActionState } from "@/lib/action";
 import { JOB_STATUS_LABEL, NEXT_STATUSES, type JobStatus } from "@/lib/job-status";
 import { SUGGESTED_NEXT } from "@/lib/job-workflow";
 import { changeStatusAction } from "../actions";
+import { FORM_VISIBLE, formBanner } from "@/lib/form-visible";
 
 /** Moves the job to one of the statuses its rules allow; the move becomes a shared timeline entry. */
 export function StatusForm({ jobPublicId, status, onMoved }: { jobPublicId: string; status: JobStatus; onMoved?: () => void }) {
@@ -20,7 +21,7 @@ export function StatusForm({ jobPublicId, status, onMoved }: { jobPublicId: stri
     <form action={action} className="space-y-3">
       <input type="hidden" name="job" value={jobPublicId} />
       <input type="hidden" name="from" value={status} />
-      {error && !error.fields ? <Alert tone="error">{error.message}</Alert> : null}
+      {formBanner(error, FORM_VISIBLE.statusChange) ? <Alert tone="error">{formBanner(error, FORM_VISIBLE.statusChange)}</Alert> : null}
       <Field id="status-to" label="Move to" error={error?.fields?.to?.[0]} required>
         <Select name="to" defaultValue={SUGGESTED_NEXT[status] ?? options[0]} key={status}>
           {options.map((s) => (

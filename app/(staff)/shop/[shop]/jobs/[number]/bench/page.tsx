@@ -88,7 +88,9 @@ export default async function BenchPage({ params }: Props) {
       </Caution>
       <TorqueSection
         jobPublicId={job.publicId}
+        currency={shop.currency}
         shopUnit={settings.torqueUnit}
+        shopWrench={settings.wrenchClass}
         passPercents={settings.passPercents}
         specs={torqueSpecs}
         records={records}
@@ -97,8 +99,8 @@ export default async function BenchPage({ params }: Props) {
         viewerUserId={actor.userId}
         mayModerate={can(actor, "journal:moderate", resource)}
       />
-      <ReadingsSection jobPublicId={job.publicId} readings={readings} specs={limitSpecs} chainLimitPct={settings.chainLimitPct} timeZone={shop.timezone} mayRecord={mayRecord} />
-      <TeardownSection jobPublicId={job.publicId} steps={steps} photos={photos} shopUnit={settings.torqueUnit} mayRecord={mayRecord} />
+      <ReadingsSection jobPublicId={job.publicId} currency={shop.currency} readings={readings} specs={limitSpecs} chainLimitPct={settings.chainLimitPct} timeZone={shop.timezone} mayRecord={mayRecord} />
+      <TeardownSection jobPublicId={job.publicId} currency={shop.currency} steps={steps} photos={photos} shopUnit={settings.torqueUnit} mayRecord={mayRecord} />
       <ReassemblySection jobPublicId={job.publicId} steps={steps} passPercents={settings.passPercents} shopUnit={settings.torqueUnit} timeZone={shop.timezone} mayRecord={mayRecord} />
       <PartsSection jobPublicId={job.publicId} parts={parts} currency={shop.currency} timeZone={shop.timezone} mayManage={can(actor, "parts:manage", resource)} findings={findings} />
     </div>

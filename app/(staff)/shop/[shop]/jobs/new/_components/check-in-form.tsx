@@ -6,6 +6,7 @@ import { checkInMachine } from "../actions";
 import { FormSection, fieldError } from "./form-bits";
 import { MachineSection, type MachinePick } from "./machine-section";
 import { OwnerSection, type OwnerMode } from "./owner-section";
+import { FORM_VISIBLE, formBanner } from "@/lib/form-visible";
 
 export type StaffOption = { id: number; name: string; role: "owner" | "service_writer" | "technician" };
 
@@ -38,7 +39,7 @@ export function CheckInForm({ shopSlug, today, staff, defaultTechnicianId }: Pro
     <form action={action} className="space-y-6" noValidate>
       <input type="hidden" name="shop" value={shopSlug} />
       {state && !state.ok ? (
-        <Alert tone="error">{state.error.fields ? "Some fields need attention: see the messages beside them." : state.error.message}</Alert>
+        <Alert tone="error">{formBanner(state.error, FORM_VISIBLE.checkIn)}</Alert>
       ) : null}
 
       <OwnerSection shopSlug={shopSlug} state={state} mode={ownerMode} onModeChange={setOwnerMode} customer={customer} onCustomerChange={chooseCustomer} />

@@ -1,11 +1,11 @@
 import { z } from "zod";
-import { PHOTO_SIZES } from "@/lib/journal";
+import { PHOTO_ROUTE_SIZES } from "@/lib/journal";
 import { route } from "@/lib/route";
 import { ids } from "@/lib/server/access";
 import { evidencePhoto } from "@/lib/server/approval-evidence";
 
 /**
- * GET /api/approvals/:request/evidence/:photo/thumb|display — a photo that is evidence of this
+ * GET /api/approvals/:request/evidence/:photo/thumb|display|w640|w960|w1280 — a photo that is evidence of this
  * request, for the job's staff and owner; `?t=` (the request e-mail's token) opens the thumbnail
  * without a session. Anything else is the same 404 as a photo that doesn't exist.
  *
@@ -14,7 +14,7 @@ import { evidencePhoto } from "@/lib/server/approval-evidence";
  */
 export const GET = route(
   {
-    params: z.object({ request: ids.request, photo: ids.media, size: z.enum(PHOTO_SIZES) }),
+    params: z.object({ request: ids.request, photo: ids.media, size: z.enum(PHOTO_ROUTE_SIZES) }),
     query: z.object({ t: z.string().optional() }),
     permission: "public",
   },

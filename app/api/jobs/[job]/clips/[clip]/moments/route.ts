@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { addClipMoment } from "@/db/queries/clips";
-import { newMomentSchema } from "@/lib/clips";
+import { newMomentSchema } from "@/lib/schemas/clips";
 import { route } from "@/lib/route";
 import { ids } from "@/lib/server/access";
 

@@ -6,6 +6,7 @@ import { LineAnswers } from "@/components/approvals/line-answers";
 import { type LineAnswer, type RequestSnapshot, decisionTotals } from "@/lib/approvals";
 import { formatMoney } from "@/lib/money";
 import { postDecision, type Refusal } from "@/lib/client/approvals";
+import { FORM_VISIBLE, formBanner } from "@/lib/form-visible";
 
 type Props = { snapshot: RequestSnapshot; hash: string; jobPublicId: string; ownerName: string };
 
@@ -42,7 +43,7 @@ export function AnswerForm({ snapshot, hash, jobPublicId, ownerName }: Props) {
     const result = await postDecision(snapshot.request, { shownHash: hash, lines, signature: signature.trim(), wantsPartsBack: partsBack, confirmed: true });
     setSending(false);
     if (result.ok) return router.refresh();
-    setProblem({ message: result.message, refusal: result.refusal });
+    setProblem({ message: formBanner(result, FORM_VISIBLE.answer) ?? result.message, refusal: result.refusal });
     if (result.fields) setErrors(result.fields);
     if (result.refusal?.reason === "answered") router.refresh();
     setStep("choose");

@@ -3,12 +3,17 @@ import { useState } from "react";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { ReadingVerdictBadge } from "@/components/bench/reading-verdict";
 import { CHAIN_PITCHES, chainCheck } from "@/lib/chain-wear";
+import { type NumberStyle, formatNumberInput, numberStyleFor, parseNumberInput } from "@/lib/number-input";
 import { formatFixed } from "@/lib/rounding";
 import { recordChainAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 
-const num = (s: string) => (/^\d+(?:[.,]\d+)?$/.test(s.trim()) ? Number(s.trim().replace(",", ".")) : null);
+/** The typed number when it reads one way in the shop's style (the server says why otherwise). */
+function num(s: string, style: NumberStyle): number | null {
+  const r = parseNumberInput(s, style);
+  return r.ok ? r.value : null;
+}
 
 function preview(pitchMm: number | null, pitches: number | null, measuredMm: number | null, limitPct: number | null) {
   if (!pitchMm || !pitches || !measuredMm || !limitPct || !Number.isInteger(pitches)) return null;
@@ -20,15 +25,16 @@ function preview(pitchMm: number | null, pitches: number | null, measuredMm: num
 }
 
 /** Chain wear over N pitches: elongation and verdict as the numbers are typed, then logged as a reading. */
-export function ChainForm({ jobPublicId, defaultLimitPct }: { jobPublicId: string; defaultLimitPct: number }) {
+export function ChainForm({ jobPublicId, currency, defaultLimitPct }: { jobPublicId: string; currency: string; defaultLimitPct: number }) {
+  const style = numberStyleFor(currency);
   const form = useBenchForm(recordChainAction, { visible: FORM_FIELDS.chainReading.visible });
   const { fieldError } = form;
   const [size, setSize] = useState<string>("#520");
-  const [pitch, setPitch] = useState(String(CHAIN_PITCHES["#520"]));
+  const [pitch, setPitch] = useState(formatNumberInput(CHAIN_PITCHES["#520"], style));
   const [pitches, setPitches] = useState("20");
   const [measured, setMeasured] = useState("");
-  const [limit, setLimit] = useState(String(defaultLimitPct));
-  const result = preview(num(pitch), num(pitches), num(measured), num(limit));
+  const [limit, setLimit] = useState(formatNumberInput(defaultLimitPct, style));
+  const result = preview(num(pitch, style), num(pitches, style), num(measured, style), num(limit, style));
 
   return (
     <form action={form.formAction} className="space-y-4">
@@ -44,7 +50,7 @@ export function ChainForm({ jobPublicId, defaultLimitPct }: { jobPublicId: strin
             onChange={(e) => {
               const chosen = e.target.value as keyof typeof CHAIN_PITCHES | "";
               setSize(chosen);
-              if (chosen) setPitch(String(CHAIN_PITCHES[chosen]));
+              if (chosen) setPitch(formatNumberInput(CHAIN_PITCHES[chosen], style));
             }}
           >
             <option value="">Other: type the pitch</option>

@@ -3,22 +3,26 @@ import { useState } from "react";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { recordReadingAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { FORM_VISIBLE } from "@/lib/form-visible";
+import { type NumberStyle, formatNumberInput, numberStyleFor } from "@/lib/number-input";
 
 export type LimitSpecOption = { id: number; label: string; unit: string | null; min: number | null; max: number | null; source: string | null };
 
 const EMPTY = { label: "", unit: "", min: "", max: "", source: "" };
-const text = (n: number | null) => (n == null ? "" : String(n));
+// Limits from the library are filled in as the shop writes numbers, so they read back the same.
+const text = (n: number | null, style: NumberStyle) => (n == null ? "" : formatNumberInput(n, style));
 
 /** A measured value against the limits typed from the manual (or picked from the shop's specs). */
-export function ReadingForm({ jobPublicId, specs }: { jobPublicId: string; specs: LimitSpecOption[] }) {
+export function ReadingForm({ jobPublicId, currency, specs }: { jobPublicId: string; currency: string; specs: LimitSpecOption[] }) {
+  const style = numberStyleFor(currency);
   const [f, setF] = useState(EMPTY);
   const set = (key: keyof typeof EMPTY) => (e: { target: { value: string } }) => setF((prev) => ({ ...prev, [key]: e.target.value }));
-  const form = useBenchForm(recordReadingAction, { onSuccess: () => setF(EMPTY) });
+  const form = useBenchForm(recordReadingAction, { onSuccess: () => setF(EMPTY), visible: FORM_VISIBLE.reading });
   const { values, fieldError } = form;
 
   function pick(id: string) {
     const s = specs.find((x) => String(x.id) === id);
-    if (s) setF({ label: s.label, unit: s.unit ?? "", min: text(s.min), max: text(s.max), source: s.source ?? "" });
+    if (s) setF({ label: s.label, unit: s.unit ?? "", min: text(s.min, style), max: text(s.max, style), source: s.source ?? "" });
   }
 
   return (

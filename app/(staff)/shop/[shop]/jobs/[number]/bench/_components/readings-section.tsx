@@ -8,7 +8,7 @@ import { ChainForm } from "./chain-form";
 import { ReadingForm, type LimitSpecOption } from "./reading-form";
 import { whenText } from "./when";
 
-type Props = { jobPublicId: string; readings: ReadingRow[]; specs: LimitSpecOption[]; chainLimitPct: number; timeZone: string; mayRecord: boolean };
+type Props = { jobPublicId: string; /** Numbers are typed in the convention of the shop's currency (lib/number-input.ts). */ currency: string; readings: ReadingRow[]; specs: LimitSpecOption[]; chainLimitPct: number; timeZone: string; mayRecord: boolean };
 
 function marginOf(r: ReadingRow): string | null {
   if (r.chain) return null;
@@ -17,17 +17,17 @@ function marginOf(r: ReadingRow): string | null {
 }
 
 /** Readings against limits, with the chain-wear helper; an out-of-limit reading can become a finding. */
-export function ReadingsSection({ jobPublicId, readings, specs, chainLimitPct, timeZone, mayRecord }: Props) {
+export function ReadingsSection({ jobPublicId, currency, readings, specs, chainLimitPct, timeZone, mayRecord }: Props) {
   return (
     <Card as="section" title="Readings" headingId="readings" className="scroll-mt-4">
       <div className="space-y-4">
         {mayRecord ? (
           <>
-            <ReadingForm jobPublicId={jobPublicId} specs={specs} />
+            <ReadingForm jobPublicId={jobPublicId} currency={currency} specs={specs} />
             <details className="rounded-lg border border-line p-3">
               <summary className="inline-flex min-h-tap cursor-pointer items-center font-semibold text-oil">Chain wear helper</summary>
               <div className="pt-3">
-                <ChainForm jobPublicId={jobPublicId} defaultLimitPct={chainLimitPct} />
+                <ChainForm jobPublicId={jobPublicId} currency={currency} defaultLimitPct={chainLimitPct} />
               </div>
             </details>
           </>

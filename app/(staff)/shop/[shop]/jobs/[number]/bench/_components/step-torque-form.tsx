@@ -1,5 +1,6 @@
 "use client";
 import { Button, Field, Input, Select } from "@/components/ui";
+import { formatNumberInput, numberStyleFor } from "@/lib/number-input";
 import { TORQUE_UNITS, type TorqueUnit } from "@/lib/torque";
 import { setStepTorqueAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
@@ -8,7 +9,7 @@ import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 type Current = { value: number; unit: TorqueUnit; boltCount: number | null } | null;
 
 /** The torque a teardown step's fasteners go back on with; shown on the reassembly checklist. */
-export function StepTorqueForm({ jobPublicId, stepId, current, shopUnit }: { jobPublicId: string; stepId: number; current: Current; shopUnit: TorqueUnit }) {
+export function StepTorqueForm({ jobPublicId, currency, stepId, current, shopUnit }: { jobPublicId: string; currency: string; stepId: number; current: Current; shopUnit: TorqueUnit }) {
   const form = useBenchForm(setStepTorqueAction, { visible: FORM_FIELDS.stepTorque.visible });
   const { values, fieldError } = form;
   const id = (name: string) => `step-${stepId}-${name}`;
@@ -19,7 +20,7 @@ export function StepTorqueForm({ jobPublicId, stepId, current, shopUnit }: { job
       <FormError message={form.formError} />
       <div className="grid grid-cols-3 gap-3">
         <Field id={id("torque")} label="Torque" error={fieldError("torqueValue")} required>
-          <Input name="torqueValue" inputMode="decimal" autoComplete="off" defaultValue={values?.torqueValue ?? (current ? String(current.value) : "")} maxLength={12} />
+          <Input name="torqueValue" inputMode="decimal" autoComplete="off" defaultValue={values?.torqueValue ?? (current ? formatNumberInput(current.value, numberStyleFor(currency)) : "")} maxLength={12} />
         </Field>
         <Field id={id("unit")} label="Unit" error={fieldError("torqueUnit")}>
           <Select name="torqueUnit" key={`unit-${values?.torqueUnit ?? ""}`} defaultValue={values?.torqueUnit ?? current?.unit ?? shopUnit}>

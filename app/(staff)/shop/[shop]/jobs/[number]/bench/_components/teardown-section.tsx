@@ -6,12 +6,12 @@ import type { TorqueUnit } from "@/lib/torque";
 import { StepTorqueForm } from "./step-torque-form";
 import { TeardownForm } from "./teardown-form";
 
-type Props = { jobPublicId: string; steps: TeardownRow[]; photos: { id: string; caption: string | null }[]; shopUnit: TorqueUnit; mayRecord: boolean };
+type Props = { jobPublicId: string; /** The shop's currency: numbers are typed in its convention. */ currency: string; steps: TeardownRow[]; photos: { id: string; caption: string | null }[]; shopUnit: TorqueUnit; mayRecord: boolean };
 
 const sizeText = (s: TeardownRow) => [s.count ? `${s.count} ×` : null, s.size].filter(Boolean).join(" ");
 
 /** The teardown log in removal order; each step can carry the torque it goes back on with. */
-export function TeardownSection({ jobPublicId, steps, photos, shopUnit, mayRecord }: Props) {
+export function TeardownSection({ jobPublicId, currency, steps, photos, shopUnit, mayRecord }: Props) {
   return (
     <Card as="section" title="Teardown log" headingId="teardown" description="Log each thing as it comes off. The reassembly checklist below is this log in reverse." className="scroll-mt-4">
       <div className="space-y-4">
@@ -34,7 +34,7 @@ export function TeardownSection({ jobPublicId, steps, photos, shopUnit, mayRecor
                       {s.torque ? "Change torque spec" : "Add torque spec"}
                     </summary>
                     <div className="pt-2">
-                      <StepTorqueForm jobPublicId={jobPublicId} stepId={s.id} current={s.torque} shopUnit={shopUnit} />
+                      <StepTorqueForm jobPublicId={jobPublicId} currency={currency} stepId={s.id} current={s.torque} shopUnit={shopUnit} />
                     </div>
                   </details>
                 ) : null}

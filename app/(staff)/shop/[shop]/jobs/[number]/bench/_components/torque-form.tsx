@@ -5,13 +5,23 @@ import { PassTable } from "@/components/bench/torque-value";
 import { Button, Field, Input, Select, Textarea } from "@/components/ui";
 import { assertPassPercents } from "@/lib/tightening-passes";
 import { crossPatternOrder, supportsCrossPattern } from "@/lib/tightening-order";
-import { TORQUE_UNITS, type TorqueUnit, isTorqueUnit } from "@/lib/torque";
+import { type NumberStyle, exampleIn, formatNumberInput, numberStyleFor, parseNumberInput } from "@/lib/number-input";
+import { TORQUE_UNITS, type TorqueUnit, convertTorque, isTorqueUnit } from "@/lib/torque";
+import { WRENCH_CLASSES, WRENCH_CLASS_IDS, type WrenchClass, isWrenchClass, outcomeText, plausibilityWarning } from "@/lib/torque-check";
 import { recordTorqueAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 
 export type TorqueSpecOption = { id: number; label: string; value: number; unit: TorqueUnit; boltCount: number | null; source: string | null };
 
-const asNumber = (s: string) => (/^\d+(?:[.,]\d+)?$/.test(s.trim()) ? Number(s.trim().replace(",", ".")) : null);
+/** The typed value when it reads one way in the shop's style; the refusal when it has two readings or another convention's. */
+function read(text: string, style: NumberStyle, what = "The number") {
+  if (text.trim() === "") return { value: null, message: null };
+  // Named as the server names the field, so the message beside it reads the same before and after sending.
+  const r = parseNumberInput(text, style, { what });
+  return r.ok ? { value: r.value > 0 ? r.value : null, message: null } : { value: null, message: r.readings.length ? r.message : null };
+}
+const UNIT_DECIMALS: Record<TorqueUnit, number> = { nm: 1, lbf_ft: 1, lbf_in: 1, kgf_m: 2 };
 const asPasses = (s: string) => {
   const list = s.split(/[^\d.]+/).filter(Boolean).map(Number);
   try {
@@ -23,18 +33,28 @@ const asPasses = (s: string) => {
 };
 
 /** Logs a torque record; the pass schedule and the tightening order show as the spec is typed. */
-export function TorqueForm({ jobPublicId, shopUnit, passPercents, specs }: { jobPublicId: string; shopUnit: TorqueUnit; passPercents: number[]; specs: TorqueSpecOption[] }) {
+type FormProps = { jobPublicId: string; currency: string; shopUnit: TorqueUnit; passPercents: number[]; specs: TorqueSpecOption[]; shopWrench: WrenchClass };
+export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, specs, shopWrench }: FormProps) {
+  const style = numberStyleFor(currency);
   const [fastener, setFastener] = useState("");
   const [spec, setSpec] = useState("");
+  const [applied, setApplied] = useState("");
   const [unit, setUnit] = useState<TorqueUnit>(shopUnit);
+  const [wrench, setWrench] = useState<WrenchClass>(shopWrench);
+  const [tolerance, setTolerance] = useState("");
+  // The spec picked from the library, while the field still holds it (typing over it forgets it).
+  const [picked, setPicked] = useState<{ value: number; unit: TorqueUnit } | null>(null);
   const [bolts, setBolts] = useState("");
   const [passes, setPasses] = useState(passPercents.join(", "));
   const form = useBenchForm(recordTorqueAction, {
     onSuccess: () => {
       setFastener("");
       setSpec("");
+      setPicked(null);
+      setApplied("");
       setBolts("");
     },
+    visible: FORM_VISIBLE.torqueRecord,
   });
   const { values, fieldError } = form;
 
@@ -42,12 +62,31 @@ export function TorqueForm({ jobPublicId, shopUnit, passPercents, specs }: { job
     const chosen = specs.find((s) => String(s.id) === id);
     if (!chosen) return;
     setFastener(chosen.label);
-    setSpec(String(chosen.value));
+    setSpec(formatNumberInput(chosen.value, style));
+    setPicked({ value: chosen.value, unit: chosen.unit });
     setUnit(chosen.unit);
     setBolts(chosen.boltCount ? String(chosen.boltCount) : "");
   }
 
-  const specValue = asNumber(spec);
+  // After picking a spec, a unit switch converts (from the picked value, so rounding never
+  // accumulates) and the applied value with it: the same torque in another unit. A number typed by
+  // hand is labelled by the unit chosen, as it was typed.
+  function switchUnit(next: TorqueUnit) {
+    if (picked) {
+      const v = read(applied, style).value;
+      if (v != null) setApplied(formatNumberInput(convertTorque(v, unit, next), style, UNIT_DECIMALS[next]));
+      setSpec(next === picked.unit ? formatNumberInput(picked.value, style) : formatNumberInput(convertTorque(picked.value, picked.unit, next), style, UNIT_DECIMALS[next]));
+    }
+    setUnit(next);
+  }
+
+  const specRead = read(spec, style, "Spec torque");
+  const appliedRead = read(applied, style, "Applied torque");
+  const tolRead = read(tolerance, style, "The tolerance (%)");
+  const specValue = specRead.value;
+  const warning = specValue ? plausibilityWarning(specValue, unit, fastener) : null;
+  const tolerancePct = tolRead.value ?? WRENCH_CLASSES[wrench].tolerancePct;
+  const preview = specValue && appliedRead.value ? outcomeText({ specValue, appliedValue: appliedRead.value, unit, tolerancePct }, shopUnit) : null;
   const boltCount = /^\d{1,2}$/.test(bolts) ? Number(bolts) : null;
   const schedule = asPasses(passes);
 
@@ -72,11 +111,14 @@ export function TorqueForm({ jobPublicId, shopUnit, passPercents, specs }: { job
         <Input name="fastener" value={fastener} onChange={(e) => setFastener(e.target.value)} maxLength={200} />
       </Field>
       <div className="grid grid-cols-2 gap-3">
-        <Field id="torque-spec" label="Spec torque" error={fieldError("specValue")} required>
-          <Input name="specValue" inputMode="decimal" autoComplete="off" value={spec} onChange={(e) => setSpec(e.target.value)} maxLength={12} />
+        <Field id="torque-spec" label="Spec torque" hint={`Written like ${exampleIn(style)}`} error={fieldError("specValue") ?? specRead.message ?? undefined} required>
+          <Input name="specValue" inputMode="decimal" autoComplete="off" value={spec} onChange={(e) => {
+              setSpec(e.target.value);
+              setPicked(null);
+            }} maxLength={20} />
         </Field>
-        <Field id="torque-unit" label="Unit" error={fieldError("unit")}>
-          <Select name="unit" value={unit} onChange={(e) => isTorqueUnit(e.target.value) && setUnit(e.target.value)}>
+        <Field id="torque-unit" label="Unit" hint={picked ? "Switching converts the picked spec" : "The unit of the number typed"} error={fieldError("unit")}>
+          <Select name="unit" value={unit} onChange={(e) => isTorqueUnit(e.target.value) && switchUnit(e.target.value)}>
             {TORQUE_UNITS.map((u) => (
               <option key={u.id} value={u.id}>
                 {u.label}
@@ -86,11 +128,37 @@ export function TorqueForm({ jobPublicId, shopUnit, passPercents, specs }: { job
         </Field>
       </div>
       <div className="grid grid-cols-2 gap-3">
-        <Field id="torque-applied" label="Applied (optional)" hint="In the same unit" error={fieldError("appliedValue")}>
-          <Input name="appliedValue" inputMode="decimal" autoComplete="off" defaultValue={values?.appliedValue} maxLength={12} />
+        <Field id="torque-applied" label="Applied (optional)" hint="In the same unit; empty reads “not recorded”" error={fieldError("appliedValue") ?? appliedRead.message ?? undefined}>
+          <Input name="appliedValue" inputMode="decimal" autoComplete="off" value={applied} onChange={(e) => setApplied(e.target.value)} maxLength={20} />
         </Field>
         <Field id="torque-bolts" label="Bolts in the circle (optional)" error={fieldError("boltCount")}>
           <Input name="boltCount" inputMode="numeric" autoComplete="off" value={bolts} onChange={(e) => setBolts(e.target.value)} maxLength={3} />
+        </Field>
+      </div>
+      {warning ? (
+        <div className="space-y-2 rounded-lg border border-line p-3" role="status">
+          <p>
+            <strong>Check this value:</strong> {warning}.
+          </p>
+          <label className="flex min-h-tap items-center gap-3">
+            <input type="checkbox" name="plausibleChecked" className="size-6 accent-oil" />
+            <span>Value checked against the maker&apos;s manual</span>
+          </label>
+        </div>
+      ) : null}
+      {preview ? <p role="status">{preview.charAt(0).toUpperCase() + preview.slice(1)}.</p> : null}
+      <div className="grid grid-cols-2 gap-3">
+        <Field id="torque-wrench" label="Wrench" error={fieldError("wrenchClass")}>
+          <Select name="wrenchClass" value={wrench} onChange={(e) => isWrenchClass(e.target.value) && setWrench(e.target.value)}>
+            {WRENCH_CLASS_IDS.map((c) => (
+              <option key={c} value={c}>
+                {WRENCH_CLASSES[c].label}
+              </option>
+            ))}
+          </Select>
+        </Field>
+        <Field id="torque-tolerance" label="Tolerance ± % (optional)" hint={`The wrench's: ±${WRENCH_CLASSES[wrench].tolerancePct} %`} error={fieldError("tolerancePct") ?? tolRead.message ?? undefined}>
+          <Input name="tolerancePct" inputMode="decimal" autoComplete="off" value={tolerance} onChange={(e) => setTolerance(e.target.value)} maxLength={8} />
         </Field>
       </div>
       <Field id="torque-passes" label="Passes, % of final" hint="The shop's setting; the maker's procedure wins." error={fieldError("passes")}>
@@ -106,6 +174,17 @@ export function TorqueForm({ jobPublicId, shopUnit, passPercents, specs }: { job
       <Field id="torque-note" label="Note (optional)" hint="e.g. “re-used fasteners: reduced per the maker's manual”" error={fieldError("note")}>
         <Textarea name="note" rows={2} defaultValue={values?.note} maxLength={500} />
       </Field>
+      <fieldset className="space-y-1">
+        <legend className="font-semibold text-ink">Done, as recorded (nothing is assumed)</legend>
+        <label className="flex min-h-tap items-center gap-3">
+          <input type="checkbox" name="passesDone" className="size-6 accent-oil" />
+          <span>All passes done, in order</span>
+        </label>
+        <label className="flex min-h-tap items-center gap-3">
+          <input type="checkbox" name="checkPass" className="size-6 accent-oil" />
+          <span>Check pass at final, in the tightening direction: no fastener turned</span>
+        </label>
+      </fieldset>
       <label className="flex min-h-tap items-center gap-3">
         <input type="checkbox" name="share" className="size-6 accent-oil" />
         <span>Share with the owner as proof</span>

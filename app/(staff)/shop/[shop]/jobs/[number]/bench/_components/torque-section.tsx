@@ -1,6 +1,7 @@
 import { Wrench } from "lucide-react";
 import { BoltPattern } from "@/components/bench/bolt-pattern";
 import { VisibilityBadge } from "@/components/journal/entry-card";
+import { TorqueOutcomeBadge } from "@/components/bench/torque-outcome";
 import { PassTable, TorqueValue } from "@/components/bench/torque-value";
 import { Card, Caution, EmptyState } from "@/components/ui";
 import type { TorqueRecordRow } from "@/db/queries/bench";
@@ -8,13 +9,18 @@ import { sentenceCase, torqueProof } from "@/lib/bench";
 import { CAUTIONS } from "@/lib/cautions";
 import { crossPatternOrder } from "@/lib/tightening-order";
 import type { TorqueUnit } from "@/lib/torque";
+import type { WrenchClass } from "@/lib/torque-check";
 import { ShareButton } from "./share-button";
 import { TorqueForm, type TorqueSpecOption } from "./torque-form";
 import { whenText } from "./when";
 
 type Props = {
   jobPublicId: string;
+  /** The shop's currency: numbers are read in its convention (lib/number-input.ts). */
+  currency: string;
   shopUnit: TorqueUnit;
+  /** The shop's usual wrench (bench settings): the form's default. */
+  shopWrench: WrenchClass;
   passPercents: number[];
   specs: TorqueSpecOption[];
   records: TorqueRecordRow[];
@@ -26,7 +32,7 @@ type Props = {
 };
 
 /** Torque log: the form, then what was torqued, newest first, each with its schedule and pattern. */
-export function TorqueSection({ jobPublicId, shopUnit, passPercents, specs, records, timeZone, mayRecord, viewerUserId, mayModerate }: Props) {
+export function TorqueSection({ jobPublicId, currency, shopUnit, shopWrench, passPercents, specs, records, timeZone, mayRecord, viewerUserId, mayModerate }: Props) {
   return (
     <Card as="section" title="Torque log" headingId="torque" className="scroll-mt-4">
       <div className="space-y-4">
@@ -34,7 +40,7 @@ export function TorqueSection({ jobPublicId, shopUnit, passPercents, specs, reco
           <p>{CAUTIONS.torque.text}</p>
           <p className="mt-1 font-semibold">The maker&apos;s tightening sequence and values override any pattern or pass schedule shown here.</p>
         </Caution>
-        {mayRecord ? <TorqueForm jobPublicId={jobPublicId} shopUnit={shopUnit} passPercents={passPercents} specs={specs} /> : null}
+        {mayRecord ? <TorqueForm jobPublicId={jobPublicId} currency={currency} shopUnit={shopUnit} shopWrench={shopWrench} passPercents={passPercents} specs={specs} /> : null}
         <h3 className="text-lg font-bold text-ink">Logged on this job</h3>
         {records.length === 0 ? (
           <EmptyState icon={Wrench} title="No torque logged yet" description="Log each fastener group as you tighten it: spec, passes and pattern." />
@@ -43,11 +49,15 @@ export function TorqueSection({ jobPublicId, shopUnit, passPercents, specs, reco
             {records.map((r) => (
               <li key={r.id} className="space-y-2 rounded-lg border border-line p-3">
                 <div className="flex flex-wrap items-center justify-between gap-2">
-                  <p className="font-semibold text-ink">{r.fastener}</p>
+                  <p className="flex flex-wrap items-center gap-2">
+                    <span className="font-semibold text-ink">{r.fastener}</span>
+                    <TorqueOutcomeBadge record={r} />
+                  </p>
                   {r.entry ? <VisibilityBadge visibility={r.entry.visibility} /> : null}
                 </div>
                 <TorqueValue value={r.specValue} unit={r.unit} displayUnit={shopUnit} />
                 <p>{sentenceCase(torqueProof({ ...r, displayUnit: shopUnit }))}.</p>
+                {r.warning ? <p className="text-sm text-ink-muted">Checked against a plausibility warning: {r.warning}.</p> : null}
                 {r.tool ? <p className="text-sm text-ink-muted">Tool: {r.tool}</p> : null}
                 {r.note ? <p className="whitespace-pre-line">{r.note}</p> : null}
                 <details>

@@ -1,6 +1,7 @@
 "use client";
 import clsx from "clsx";
 import type { EvidenceChoices } from "@/db/queries/findings";
+import { PhotoImg } from "@/components/journal/photo-img";
 import { Input } from "@/components/ui";
 import type { EvidenceState } from "./form-state";
 
@@ -30,9 +31,7 @@ export function EvidencePicker({ choices, value, onChange, errors, disabled }: P
             <li key={p.id}>
               <label className={clsx("relative block cursor-pointer overflow-hidden rounded-lg border-4 has-[:focus-visible]:outline has-[:focus-visible]:outline-2 has-[:focus-visible]:outline-brass", has("photo", p.id) ? "border-oil" : "border-transparent")}>
                 <input type="checkbox" className="absolute left-2 top-2 size-6 accent-oil" checked={has("photo", p.id)} onChange={(e) => toggle("photo", p.id, e.target.checked)} aria-label={`Photo ${i + 1}${p.caption ? `: ${p.caption}` : ""}`} />
-                {/* Our own authorised route, so next/image's optimiser isn't used. */}
-                {/* eslint-disable-next-line @next/next/no-img-element */}
-                <img src={p.thumbUrl} alt="" width={p.width} height={p.height} loading="lazy" className="aspect-square w-full object-cover" />
+                <PhotoImg photo={p} alt="" sizes="(min-width: 1152px) 220px, (min-width: 640px) 20vw, 33vw" className="aspect-square w-full object-cover" />
               </label>
             </li>
           ))}

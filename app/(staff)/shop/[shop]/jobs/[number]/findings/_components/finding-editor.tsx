@@ -8,7 +8,7 @@ import { SAFETY_CATEGORIES, SAFETY_LABEL, type SafetyCategory } from "@/lib/appr
 import { postJson } from "@/lib/client/approvals";
 import { formatMoney } from "@/lib/money";
 import { EvidencePicker } from "./evidence-picker";
-import { type EditorSettings, type FindingState, emptyLine, payload, preview } from "./form-state";
+import { type EditorSettings, type FindingState, emptyLine, payload, preview, rateChoices } from "./form-state";
 import { LinesEditor } from "./lines-editor";
 
 type Props = {
@@ -91,6 +91,7 @@ export function FindingEditor({ jobPublicId, basePath, finding, initial, choices
           currency={currency}
           errors={errors}
           disabled={locked}
+          rates={mayPrice ? rateChoices(settings, currency) : []}
         />
         {est ? (
           <div aria-live="polite" className="rounded-xl bg-sunken p-4">

@@ -1,6 +1,6 @@
 // The finding form's state as typed text, and the conversions to and from what the API takes.
 import type { DraftLine, EvidenceKind, LineKind, SafetyCategory, ShopMoneySettings, SnapshotTotals } from "@/lib/approvals";
-import { currencyDigits, formatHours, formatQuantity, parseHours, parseMoney, parseQuantity, totals, type Line } from "@/lib/money";
+import { currencyDigits, formatHours, formatQuantity, inputText, parseHours, parseMoney, parseQuantity, totals, type Line } from "@/lib/money";
 
 export type LineState = {
   key: string;
@@ -18,7 +18,16 @@ export type LineState = {
 export type EvidenceState = { kind: EvidenceKind; ref: string; momentMs: number | null };
 export type FindingState = { title: string; found: string; whyItMatters: string; safety: SafetyCategory; evidence: EvidenceState[]; lines: LineState[] };
 /** The shop's settings the editor uses: money parts (the labour rate, the supplies cap) only for people who see money. */
-export type EditorSettings = Pick<ShopMoneySettings, "labourRateMinor" | "taxable" | "tax" | "supplies">;
+export type EditorSettings = Pick<ShopMoneySettings, "labourRateMinor" | "taxable" | "tax" | "supplies"> & {
+  /** The shop's named labour rates (e.g. Diagnosis), empty for someone who doesn't see money. */
+  namedRates: { name: string; rateMinor: number }[];
+};
+
+/** The labour rates a priced line can pick from: the default first, then the named ones, as input text. */
+export function rateChoices(settings: EditorSettings, currency: string): { label: string; text: string }[] {
+  const out = settings.labourRateMinor != null ? [{ label: "Shop rate", text: minorToText(settings.labourRateMinor, currency) }] : [];
+  return [...out, ...settings.namedRates.map((r) => ({ label: r.name, text: minorToText(r.rateMinor, currency) }))];
+}
 
 let counter = 0;
 export const newKey = () => `new-${++counter}`;
@@ -29,7 +38,7 @@ export function minorToText(minor: number | null, currency: string): string {
   const digits = currencyDigits(currency);
   if (!digits) return String(minor);
   const s = String(minor).padStart(digits + 1, "0");
-  return `${s.slice(0, -digits)}.${s.slice(-digits)}`;
+  return inputText(`${s.slice(0, -digits)}.${s.slice(-digits)}`, currency);
 }
 
 /** A stored line as form text; without `prices` (a technician's editor) the price fields start and stay empty. */
@@ -41,8 +50,8 @@ export function toLineState(line: DraftLine & { id?: number }, currency: string,
     kind: line.kind,
     description: line.description,
     partNumber: line.partNumber ?? "",
-    qty: line.qtyThousandths == null ? "1" : formatQuantity(line.qtyThousandths),
-    hours: line.hoursTenths == null ? "" : formatHours(line.hoursTenths),
+    qty: line.qtyThousandths == null ? "1" : inputText(formatQuantity(line.qtyThousandths), currency),
+    hours: line.hoursTenths == null ? "" : inputText(formatHours(line.hoursTenths), currency),
     unitPrice: price(line.unitPriceMinor),
     rate: price(line.rateMinor),
     amount: price(line.amountMinor),
@@ -80,8 +89,8 @@ export function preview(lines: LineState[], settings: Pick<ShopMoneySettings, "t
   if (!lines.length) return { missing: "Add a line to see the estimate." };
   try {
     const money: Line[] = lines.map((l) => {
-      if (l.kind === "part") return { kind: "part", qtyThousandths: parseQuantity(l.qty), unitPriceMinor: parseMoney(l.unitPrice, currency), taxable: l.taxable };
-      if (l.kind === "labour") return { kind: "labour", hoursTenths: parseHours(l.hours), rateMinor: parseMoney(l.rate, currency), taxable: l.taxable };
+      if (l.kind === "part") return { kind: "part", qtyThousandths: parseQuantity(l.qty, currency), unitPriceMinor: parseMoney(l.unitPrice, currency), taxable: l.taxable };
+      if (l.kind === "labour") return { kind: "labour", hoursTenths: parseHours(l.hours, currency), rateMinor: parseMoney(l.rate, currency), taxable: l.taxable };
       return { kind: "fee", amountMinor: parseMoney(l.amount, currency), taxable: l.taxable };
     });
     const t = totals(money, { tax: settings.tax, supplies: settings.supplies });

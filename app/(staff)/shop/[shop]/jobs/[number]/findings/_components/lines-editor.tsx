@@ -1,6 +1,6 @@
 "use client";
 import { Package, Plus, Receipt, Trash2, Wrench } from "lucide-react";
-import { Button, Field, Input } from "@/components/ui";
+import { Button, Field, Input, Select } from "@/components/ui";
 import { LINE_KIND_LABEL, type LineKind } from "@/lib/approvals";
 import type { LineState } from "./form-state";
 
@@ -12,12 +12,14 @@ type Props = {
   currency: string;
   errors: Record<string, string[]>;
   disabled: boolean;
+  /** The shop's labour rates to pick from (rateChoices); empty: the rate is typed. */
+  rates?: { label: string; text: string }[];
 };
 
 const ICON = { part: Package, labour: Wrench, fee: Receipt } as const;
 
 /** Proposed lines: parts (number, quantity), labour (hours), fees; prices and tax for the desk. */
-export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors, disabled }: Props) {
+export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors, disabled, rates = [] }: Props) {
   const set = (key: string, patch: Partial<LineState>) => onChange(lines.map((l) => (l.key === key ? { ...l, ...patch } : l)));
   const err = (i: number, field: string) => errors[`lines.${i}.${field}`]?.[0] ?? (field === "description" ? errors[`lines.${i}`]?.[0] : undefined);
   return (
@@ -56,6 +58,18 @@ export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors
                 {line.kind === "labour" ? (
                   <Field id={id("hours")} label="Hours" hint="In tenths: 1.5" error={err(i, "hours")} required>
                     <Input value={line.hours} inputMode="decimal" onChange={(e) => set(line.key, { hours: e.target.value })} />
+                  </Field>
+                ) : null}
+                {mayPrice && line.kind === "labour" && rates.length ? (
+                  <Field id={id("rate-choice")} label="Labour rate" hint="Fills the rate per hour; type another rate to override">
+                    <Select value={rates.find((r) => r.text === line.rate)?.label ?? ""} onChange={(e) => set(line.key, { rate: rates.find((r) => r.label === e.target.value)?.text ?? line.rate })}>
+                      <option value="">Typed rate</option>
+                      {rates.map((r) => (
+                        <option key={r.label} value={r.label}>
+                          {r.label} ({r.text})
+                        </option>
+                      ))}
+                    </Select>
                   </Field>
                 ) : null}
                 {mayPrice ? (

@@ -6,6 +6,7 @@ import { Alert, Button, Field, Input, Textarea } from "@/components/ui";
 import { LineAnswers } from "@/components/approvals/line-answers";
 import { type LineAnswer, type RequestSnapshot, decisionTotals } from "@/lib/approvals";
 import { postRecordedDecision } from "@/lib/client/approvals";
+import { FORM_VISIBLE, formBanner } from "@/lib/form-visible";
 import { formatMoney } from "@/lib/money";
 
 const localNow = () => {
@@ -68,7 +69,7 @@ export function PhoneDecisionForm({ snapshot, hash, ownerName, ownerPhone }: { s
     setConfirming(false);
     if (!result.ok) {
       setErrors(result.fields ?? {});
-      return setError(result.message);
+      return setError(formBanner(result, FORM_VISIBLE.recordDecision) ?? result.message);
     }
     router.refresh();
   }

@@ -7,6 +7,7 @@ import { Alert, Button, Field, Input, Select } from "@/components/ui";
 import { COUNTER_METHODS, PAYMENT_METHOD_LABEL } from "@/lib/invoices";
 import { formKey } from "./form-key";
 import { recordDepositAction, recordPaymentAction, refundAction, requestDepositAction } from "../actions";
+import { FORM_VISIBLE } from "@/lib/form-visible";
 
 // Money at the counter: a payment against the issued invoice, a parts deposit asked for or taken,
 // and refunds (shop owner only; online payments go back through the payments service).
@@ -83,7 +84,7 @@ export function RequestDepositForm({ job, currency, requests }: { job: string; c
 }
 
 export function RecordDepositForm({ deposit, amount }: { deposit: string; amount: string }) {
-  const form = useBenchForm(recordDepositAction);
+  const form = useBenchForm(recordDepositAction, { visible: FORM_VISIBLE.recordDeposit });
   return (
     <form key={formKey(form.state)} action={form.formAction} className="space-y-3" aria-label={`Record the ${amount} deposit`}>
       <input type="hidden" name="deposit" value={deposit} />
@@ -99,7 +100,7 @@ export function RecordDepositForm({ deposit, amount }: { deposit: string; amount
 }
 
 export function RefundForm({ job, payment, left, leftValue, label, online }: { job: string; payment: number; left: string; leftValue: string; label: string; online: boolean }) {
-  const form = useBenchForm(refundAction);
+  const form = useBenchForm(refundAction, { visible: FORM_VISIBLE.refund });
   const [open, setOpen] = useState(false);
   if (!open) {
     return (
