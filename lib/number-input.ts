@@ -60,6 +60,12 @@ const CURRENCY_LOCALE: Record<string, { locale: string; firm?: false; group?: st
 };
 export const STYLE_LOCALES = Object.values(CURRENCY_LOCALE).map((c) => c.locale);
 
+/**
+ * For a form read before its shop is known (check-in): both conventions, no firm decimal mark, so
+ * only text every convention reads the same way is taken (CAD's style).
+ */
+export const neutralStyle = () => numberStyleFor("CAD");
+
 const cache = new Map<string, NumberStyle>();
 export function numberStyleFor(currency: string | null | undefined): NumberStyle {
   const code = (currency ?? "USD").toUpperCase();
@@ -158,7 +164,12 @@ export function parseNumberInput(text: string, style: NumberStyle, rules: Number
     return refuse(`${what}: ${quote(typed)} isn’t how this shop writes numbers (${example}) — write ${spelled}.`, [valueOf(foreign)]);
   }
   if (list.length === 0) return refuse(`${what} must be a number, e.g. ${example}.`);
-  const distinct = [...new Map(list.map((r) => [valueOf(r), r])).values()];
+  let distinct = [...new Map(list.map((r) => [valueOf(r), r])).values()];
+  // A reading the field can't take is no reading: "6,120" in a whole-number field is 6120.
+  if (distinct.length > 1 && rules.maxDecimals != null) {
+    const fits = distinct.filter((r) => (r.frac?.replace(/0+$/, "").length ?? 0) <= rules.maxDecimals!);
+    if (fits.length) distinct = fits;
+  }
   if (distinct.length > 1) {
     const [a, b] = distinct as [Reading, Reading];
     const mark = body.includes(",") ? "," : ".";

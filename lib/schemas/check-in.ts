@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { MACHINE_KINDS, type MachineKind } from "@/lib/machine";
+import { neutralStyle, parseNumberInput } from "@/lib/number-input";
 
 // The check-in form as it posts (flat FormData strings, blanks for untouched fields) and the
 // structured input `checkInJob` takes. Field names are the form's input names, so every
@@ -17,14 +18,14 @@ const text = (max: number, tooLong: string) => z.string().trim().max(max, tooLon
  * field and the other fields are still checked in the same pass.
  */
 function typedNumber(opts: { min: number; max: number; decimals: 0 | 1; message: string }) {
-  const pattern = opts.decimals ? /^\d+(?:[.,]\d)?$/ : /^\d+$/;
-  return z
-    .string()
-    .trim()
-    .transform((s) => (opts.decimals ? s.replace(/\s/g, "") : s.replace(/[\s,]/g, "")))
-    .refine((s) => pattern.test(s), opts.message)
-    .transform((s) => Number(s.replace(",", ".")))
-    .pipe(z.number().min(opts.min, opts.message).max(opts.max, opts.message));
+  // The one number reader (lib/number-input.ts), before the shop is known: text with two readings
+  // ("1,200" hours) is refused with both; a whole-number field takes "6,120" as 6120, never 6.12.
+  return z.string().transform((s, ctx) => {
+    const r = parseNumberInput(s, neutralStyle(), { maxDecimals: opts.decimals, min: opts.min, max: opts.max });
+    if (r.ok) return r.value;
+    ctx.addIssue({ code: "custom", message: r.readings.length > 1 ? r.message : opts.message });
+    return z.NEVER;
+  });
 }
 
 const recordId = (message: string) => z.string().trim().regex(/^\d{1,10}$/, message).transform(Number).pipe(z.number().int().positive(message));

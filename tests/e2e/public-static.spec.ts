@@ -69,13 +69,13 @@ test("the booking form runs on the cached page: it fetches its own ticket, and t
     await page.waitForTimeout(3_200);
     await form.getByRole("button", { name: "Ask for a booking" }).click();
     await expect(form.getByText("Thanks: your request is with the shop.")).toBeVisible();
-    const rows = await sql("SELECT e.id FROM shop_events e JOIN shops s ON s.id = e.shop_id WHERE s.slug = ? AND e.kind = 'booking_request' AND e.summary LIKE ?", [SHOP, `${name}%`]);
+    const rows = await sql("SELECT e.id FROM shop_events e JOIN shops s ON s.id = e.shop_id WHERE s.slug = ? AND e.kind = 'booking_request' AND JSON_VALUE(e.payload, '$.summary') LIKE ?", [SHOP, `${name}%`]);
     expect(rows).toHaveLength(1);
     const state = await page.evaluate(() => (window as unknown as { __cspViolations: string[] }).__cspViolations);
     expect(state).toEqual([]);
   } finally {
     // The demo shop's inbox keeps only the seed's items (its reads go with it: ON DELETE CASCADE).
-    await sql("DELETE e FROM shop_events e JOIN shops s ON s.id = e.shop_id WHERE s.slug = ? AND e.kind = 'booking_request' AND e.summary LIKE ?", [SHOP, `${name}%`]);
+    await sql("DELETE e FROM shop_events e JOIN shops s ON s.id = e.shop_id WHERE s.slug = ? AND e.kind = 'booking_request' AND JSON_VALUE(e.payload, '$.summary') LIKE ?", [SHOP, `${name}%`]);
     await context.close();
   }
 });

@@ -3,6 +3,7 @@ import { describe, expect, it } from "vitest";
 import { inputText, parseMoney, parseQuantity } from "@/lib/money";
 import { type NumberStyle, formatNumberInput, numberStyleFor, parseNumberInput } from "@/lib/number-input";
 import { readNumberField } from "@/lib/schemas/number";
+import { checkInSchema } from "@/lib/schemas/check-in";
 import { SUPPORTED_CURRENCIES } from "@/lib/shop-settings";
 
 // The reading rules are our own (lib/number-input.ts header); the marks of each locale are
@@ -125,5 +126,21 @@ describe("format → parse round trips (fast-check)", () => {
         expect(r.ok && r.canonical).toBe(text);
       }),
     );
+  });
+});
+
+describe("check-in numbers, read before the shop is known", () => {
+  const form = (over: Record<string, string>) => ({
+    customerMode: "new", customerName: "Hollis Varga", customerEmail: "hollis@mail.test", machineMode: "new", machineOdometerUnit: "mi", machineKind: "dirt_bike", machineMake: "Corvane", machineModel: "Tarn 250", concern: "Stalls.", ...over,
+  });
+  const field = (name: string, value: string) => {
+    const r = checkInSchema.safeParse(form({ [name]: value }));
+    return r.success ? "ok" : r.error.issues.filter((i) => i.path[0] === name).map((i) => i.message).join(" ");
+  };
+  it("takes what every convention reads alike and refuses the rest with both readings", () => {
+    expect(checkInSchema.parse(form({ machineHours: "312,4", machineOdometer: "6,120" })).machine).toMatchObject({ hours: 312.4, odometer: 6120 });
+    expect(field("machineHours", "1,200")).toBe("The number: “1,200” could be 1200 (the comma grouping thousands) or 1,2 (a decimal comma) — write 1200 or 1,2.");
+    // Not well-formed grouping, and a whole number can't be 1.2: refused, never 12.
+    expect(field("machineOdometer", "1,2")).toBe("Odometer is a whole number, like 6120");
   });
 });
