@@ -20,6 +20,14 @@ const FIRST = ["Ilsa", "Tobin", "Maren", "Okoro", "Wendell", "Priya", "Lucan", "
 const LAST = ["Marrow", "Quill", "Ashgrove", "Pellham", "Darrow", "Vintner", "Oakes", "Brennick", "Tamsin", "Lowrey", "Castellan", "Fenwick", "Harrow", "Ilves", "Kestrel", "Morrow", "Nettle", "Orrin", "Penhale", "Rook"];
 const MAKES = ["Corvane", "Halvorsen", "Tessaro", "Brightline", "Ostrava", "Kinloch", "Mereton", "Vashti"];
 const MODELS = ["Ridge 450", "Trail 250", "Summit 800", "Marsh 570", "Dune 1000", "Cinder 125", "Pike 700", "Harbor 300"];
+/**
+ * A shop's open work doesn't grow with its history: a shop with 50,000 jobs behind it has about as
+ * many machines in the building as one with 1,000. The newest OPEN_WINDOW jobs of each shop cycle
+ * through the statuses below; everything older was collected long ago. (An even spread over the
+ * whole history would put 30,000 machines on a 50k shop's bench and make every status filter
+ * 50 times the work for a reason no shop has.)
+ */
+const OPEN_WINDOW = 400;
 const STATUSES = ["picked_up", "picked_up", "picked_up", "picked_up", "ready", "in_progress", "waiting_parts", "waiting_approval", "inspecting", "checked_in"];
 const KINDS = ["atv", "side_by_side", "dirt_bike", "street_bike", "snowmobile", "watercraft", "small_engine"];
 const TECHS = 6;
@@ -78,14 +86,14 @@ async function seedScaleShop(k: Knex, slug: string, jobs: number, log: (s: strin
   // One job per machine; about 30 minutes apart over the shop's history, the newest today.
   await k.raw(
     `INSERT INTO jobs (shop_id, number, public_id, customer_id, machine_id, status, concern, promised_on, technician_user_id, created_at, updated_at)
-     SELECT ?, m.id - ? + 1, LEFT(SHA2(CONCAT(?, '-', m.id), 256), 16), m.customer_id, m.id, ${elt(STATUSES, "m.id")},
+     SELECT ?, m.id - ? + 1, LEFT(SHA2(CONCAT(?, '-', m.id), 256), 16), m.customer_id, m.id, IF(m.id - ? + 1 > ? - ${OPEN_WINDOW}, ${elt(STATUSES, "m.id")}, 'picked_up'),
             CONCAT('Owner reports ', ${elt(["hard starting when cold", "a knock under load", "brakes fading", "oil weeping at the base gasket", "no spark", "poor idle"], "m.id")}),
             IF(m.id % 4 = 0, NULL, DATE(NOW() - INTERVAL ((? - (m.id - ? + 1)) * 30) MINUTE + INTERVAL (m.id % 15) DAY)),
             IF(m.id % 5 = 0, NULL, ELT(1 + m.id % ${techs.length}, ${techs.join(", ")})),
             NOW() - INTERVAL ((? - (m.id - ? + 1)) * 30 + 600) MINUTE,
             NOW() - INTERVAL ((? - (m.id - ? + 1)) * 30) MINUTE
      FROM machines m WHERE m.shop_id = ?`,
-    [shopId, firstMachine, slug, jobs, firstMachine, jobs, firstMachine, jobs, firstMachine, shopId],
+    [shopId, firstMachine, slug, firstMachine, jobs, jobs, firstMachine, jobs, firstMachine, jobs, firstMachine, shopId],
   );
   // A third of the jobs on the bench came back there with the owner's answer ("answered, not started").
   await k.raw(

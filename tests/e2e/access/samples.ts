@@ -91,6 +91,8 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   // with, so the handler refuses them ("changed" or "nothing to sign") after the wrapper let them through.
   [`${DROPOFF}#prepareDropoffAction`]: ({ f }) => ({ job: f.job, chargeKind: "amount", chargeAmount: "95.00", description: "Inspection and diagnosis", authorisedUpTo: "300.00" }),
   [`${DROPOFF}#sendDropoffLinkAction`]: ({ f }) => ({ job: f.job }),
+  // The demo shop has no standard drop-off terms: allowed callers get a 400 and nothing is written.
+  [`${DROPOFF}#prepareStandardDropoffAction`]: ({ f }) => ({ job: f.job }),
   [`${DROPOFF}#signDropoffAtCounterAction`]: ({ f }) => ({ job: f.job, shownHash: "0".repeat(64), signature: "Access Test", agree: "on" }),
   ["app/(owner)/my/jobs/[job]/authorisation/actions.ts#signDropoffOnlineAction"]: ({ f }) => ({ job: f.job, shownHash: "0".repeat(64), signature: "Access Test", agree: "on" }),
   // A move that doesn't exist: the job's status stays.
@@ -147,6 +149,7 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${SETTINGS}#saveTaxAction`]: ({ f }) => ({ shop: f.shop, taxMethod: "per_line", taxRate: "eight" }),
   [`${SETTINGS}#saveSuppliesAction`]: ({ f }) => ({ shop: f.shop, suppliesPercent: "five", suppliesBase: "labour" }),
   [`${SETTINGS}#saveToleranceAction`]: ({ f }) => ({ shop: f.shop, toleranceKind: "custom", tolerancePercent: "ten" }),
+  [`${SETTINGS}#saveDropoffTermsAction`]: ({ f }) => ({ shop: f.shop, dropoffCharge: "lots", dropoffUpTo: "300.00" }),
   [`${SETTINGS}#saveDigestAction`]: ({ f }) => ({ shop: f.shop, digestWindowMinutes: "15" }),
   [`${SPECS}#saveBenchSettingsAction`]: ({ f }) => ({ shop: f.shop, torqueUnit: "nm", passes: "30, 60, 100", chainLimitPct: "3", clipMaxMinutes: "10", clipMaxGb: "2", ownerWaitDays: "3" }),
   ["app/unsubscribe/[token]/actions.ts#unsubscribeAction"]: () => ({ token: "access-test" }),

@@ -6,7 +6,7 @@ import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 import { TORQUE_UNITS } from "@/lib/torque";
 import { saveBenchSettingsAction } from "../actions";
 import { formatNumberInput, numberStyleFor } from "@/lib/number-input";
-import { WRENCH_CLASSES, WRENCH_CLASS_IDS } from "@/lib/torque-check";
+import { WrenchClassOptions } from "@/components/bench/wrench-class-options";
 
 /** The shop's bench settings: the torque unit shown first, the pass schedule, the chain limit, clip limits. */
 export function SettingsForm({
@@ -45,11 +45,7 @@ export function SettingsForm({
         </Field>
         <Field id="settings-wrench" label="Usual torque wrench" hint="Its ISO 6789-1 class sets a torque record's default tolerance" error={fieldError("wrenchClass")}>
           <Select name="wrenchClass" key={`wrench-${values?.wrenchClass ?? ""}`} defaultValue={values?.wrenchClass ?? settings.wrenchClass}>
-            {WRENCH_CLASS_IDS.map((c) => (
-              <option key={c} value={c}>
-                {WRENCH_CLASSES[c].label}
-              </option>
-            ))}
+            <WrenchClassOptions />
           </Select>
         </Field>
         <Field id="settings-chain" label="Chain replace-at stretch (%)" hint="About 3 for most drives, 1.5 for fixed centres" error={fieldError("chainLimitPct")}>

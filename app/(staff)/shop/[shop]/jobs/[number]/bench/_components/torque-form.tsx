@@ -7,10 +7,11 @@ import { assertPassPercents } from "@/lib/tightening-passes";
 import { crossPatternOrder, supportsCrossPattern } from "@/lib/tightening-order";
 import { type NumberStyle, exampleIn, formatNumberInput, numberStyleFor, parseNumberInput } from "@/lib/number-input";
 import { TORQUE_UNITS, type TorqueUnit, convertTorque, isTorqueUnit } from "@/lib/torque";
-import { WRENCH_CLASSES, WRENCH_CLASS_IDS, type WrenchClass, isWrenchClass, outcomeText, plausibilityWarning } from "@/lib/torque-check";
+import { WRENCH_CLASSES, type WrenchClass, isWrenchClass, outcomeText, plausibilityWarning } from "@/lib/torque-check";
 import { recordTorqueAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { FORM_VISIBLE } from "@/lib/form-visible";
+import { WrenchClassOptions } from "@/components/bench/wrench-class-options";
 
 export type TorqueSpecOption = { id: number; label: string; value: number; unit: TorqueUnit; boltCount: number | null; source: string | null };
 
@@ -150,11 +151,7 @@ export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, spec
       <div className="grid grid-cols-2 gap-3">
         <Field id="torque-wrench" label="Wrench" error={fieldError("wrenchClass")}>
           <Select name="wrenchClass" value={wrench} onChange={(e) => isWrenchClass(e.target.value) && setWrench(e.target.value)}>
-            {WRENCH_CLASS_IDS.map((c) => (
-              <option key={c} value={c}>
-                {WRENCH_CLASSES[c].label}
-              </option>
-            ))}
+            <WrenchClassOptions />
           </Select>
         </Field>
         <Field id="torque-tolerance" label="Tolerance ± % (optional)" hint={`The wrench's: ±${WRENCH_CLASSES[wrench].tolerancePct} %`} error={fieldError("tolerancePct") ?? tolRead.message ?? undefined}>
