@@ -23,7 +23,7 @@ const config = [
   // nor the pool can be imported, and a transaction from `transaction()` (db/transaction.ts) is
   // only handed on to db/queries functions. Tests and scripts may use Knex directly.
   {
-    files: ["**/*.{ts,tsx,mts,cts,js,mjs,cjs}"],
+    files: ["**/*.{ts,tsx,js,mjs}"],
     ignores: ["db/**", "tests/**", "scripts/**", "knexfile.ts"],
     rules: {
       "no-restricted-imports": [
@@ -41,7 +41,7 @@ const config = [
       "no-restricted-syntax": [
         "error",
         {
-          selector: "CallExpression[callee.type='Identifier'][callee.name=/^(db|knex|k|tx|trx)$/]",
+          selector: "CallExpression[callee.type='Identifier'][callee.name=/^(db|knex|k|tx)$/]",
           message: "SQL only in db/: pass the transaction to a db/queries function instead of querying with it.",
         },
         {
