@@ -11,6 +11,10 @@ const archivo = localFont({
   ],
   variable: "--font-archivo",
   display: "swap",
+  // Not preloaded: the stylesheet asks for the faces a page uses when it is first drawn, so a page
+  // with no italics never downloads the italic file (bandwidth a slow phone needs for photos), and
+  // text shows in the fallback face meanwhile (display: swap).
+  preload: false,
 });
 
 export const metadata: Metadata = {

@@ -118,6 +118,9 @@ export type JobsTable = {
   promised_undated?: Flag;
 };
 
+/** How many of a shop's jobs are in each status; kept by triggers on jobs (migration 29), never written by the app. */
+export type JobStatusCountsTable = { shop_id: number; status: JobStatus; n: number };
+
 export type JobStatusChangesTable = {
   id: number;
   shop_id: number;
@@ -227,6 +230,9 @@ export type PhotosTable = {
   created_at: Date;
 };
 
+/** The shop's parts markup rule (lib/parts-pricing.ts MarkupRule, as JSON). */
+export type ShopPartsMarkupTable = { shop_id: number; rule: JsonText; updated_at: Date };
+
 export type ShopBenchSettingsTable = { shop_id: number; torque_unit: TorqueUnit; pass_percents: JsonText; chain_limit_pct: number; wrench_class: string; updated_at: Date };
 
 export type TorqueRecordsTable = {
@@ -249,6 +255,19 @@ export type TorqueRecordsTable = {
   wrench_class: string | null;
   passes_done: Flag | null;
   check_pass_done: Flag | null;
+  /** Issue 18 (migration 27): the wrench and how the fastener is tightened; null on rows before it. */
+  tool_serial: string | null;
+  calibrated_on: DateText | null;
+  wrench_max_value: number | null;
+  wrench_max_unit: TorqueUnit | null;
+  /** JSON list of degrees. */
+  angle_stages: JsonText | null;
+  angle_done: Flag | null;
+  loosen_retorque: Flag | null;
+  retorque_sequence: string | null;
+  lubrication: string | null;
+  lubrication_other: string | null;
+  one_time: Flag | null;
 };
 
 export type ReadingsTable = {
@@ -266,6 +285,42 @@ export type ReadingsTable = {
   chain: JsonText | null;
   recorded_by_user_id: number | null;
   created_at: Date;
+  /** Decimals typed (the instrument's resolution); null on rows from before migration 25. */
+  value_decimals: number | null;
+  min_decimals: number | null;
+  max_decimals: number | null;
+};
+
+/** Migration 26: a structured measurement set (issue 18 §5); its items below. */
+export type MeasurementSetsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  entry_id: number | null;
+  kind: string;
+  title: string;
+  unit: string;
+  source: string;
+  note: string | null;
+  finding_id: number | null;
+  recorded_by_user_id: number | null;
+  created_at: Date;
+};
+
+export type MeasurementItemsTable = {
+  id: number;
+  shop_id: number;
+  set_id: number;
+  position: number;
+  item_key: string;
+  label: string;
+  value: number;
+  value_decimals: number;
+  min_value: number | null;
+  max_value: number | null;
+  limit_decimals: number;
+  verdict: ReadingVerdict;
+  detail: JsonText | null;
 };
 
 export type TeardownStepsTable = {
@@ -283,11 +338,32 @@ export type TeardownStepsTable = {
   torque_value: number | null;
   torque_unit: TorqueUnit | null;
   torque_bolt_count: number | null;
+  /** Migration 27: angle stages (JSON list of degrees), lubrication and one-time fasteners of the step's torque. */
+  torque_angle_stages: JsonText | null;
+  torque_lubrication: string | null;
+  torque_one_time: Flag;
   replaced_new: Flag;
   checked_by_user_id: number | null;
   checked_at: Date | null;
   created_by_user_id: number | null;
   created_at: Date;
+  /** Migration 28: bumped by each edit; a deleted step is only marked. */
+  version: number;
+  deleted_at: Date | null;
+  deleted_by_user_id: number | null;
+};
+
+/** Migration 28: a teardown step as it was before each edit, torque change or delete. */
+export type TeardownStepRevisionsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  step_id: number;
+  version: number;
+  change: "edit" | "torque" | "delete";
+  previous: JsonText;
+  changed_by_user_id: number | null;
+  changed_at: Date;
 };
 
 export type JobPartsTable = {
@@ -308,9 +384,34 @@ export type JobPartsTable = {
   created_by_user_id: number | null;
   created_at: Date;
   updated_at: Date;
+  // Issue 19 price (migration 30): the priced finding line it belongs to, the owner's answer to
+  // that line (null: not from a line), the unit sell price shown to the owner and why it differs
+  // from the markup rule.
+  finding_line_id: number | null;
+  owner_answer: "pending" | "approved" | "declined" | null;
+  sell_minor: number | null;
+  price_reason: string | null;
+  // Issue 19 ordering (migration 31).
+  order_id: number | null;
+  core_charge_minor: number | null;
+  core_returned_at: Date | null;
+  special_order: Flag;
+  deposit_id: number | null;
 };
 
-export type JobPartEventsTable = { id: number; shop_id: number; part_id: number; from_status: PartStatus | null; to_status: PartStatus; changed_by_user_id: number | null; changed_at: Date };
+export type JobPartEventsTable = { id: number; shop_id: number; part_id: number; from_status: PartStatus | null; to_status: PartStatus; changed_by_user_id: number | null; changed_at: Date; note: string | null };
+
+export type PartOrdersTable = {
+  id: number;
+  shop_id: number;
+  supplier: string;
+  reference: string | null;
+  ordered_on: DateText;
+  expected_on: DateText | null;
+  received_at: Date | null;
+  created_by_user_id: number | null;
+  created_at: Date;
+};
 
 export type SpecEntriesTable = {
   id: number;
@@ -477,6 +578,8 @@ export type ApprovalRequestsTable = {
   opened_at: Date | null;
   answered_at: Date | null;
   withdrawn_at: Date | null;
+  /** The finding line id behind each snapshot line, in order (migration 30); null before it. */
+  line_ids: JsonText | null;
   withdrawn_by_user_id: number | null;
 };
 
@@ -772,6 +875,7 @@ declare module "knex/types/tables" {
     machines: MachinesTable;
     jobs: JobsTable;
     job_status_changes: JobStatusChangesTable;
+    job_status_counts: JobStatusCountsTable;
     shop_events: ShopEventsTable;
     inbox_reads: InboxReadsTable;
     inbox_preferences: InboxPreferencesTable;
@@ -788,9 +892,14 @@ declare module "knex/types/tables" {
     shop_bench_settings: ShopBenchSettingsTable;
     torque_records: TorqueRecordsTable;
     readings: ReadingsTable;
+    measurement_sets: MeasurementSetsTable;
+    measurement_items: MeasurementItemsTable;
     teardown_steps: TeardownStepsTable;
+    teardown_step_revisions: TeardownStepRevisionsTable;
     job_parts: JobPartsTable;
     job_part_events: JobPartEventsTable;
+    shop_parts_markup: ShopPartsMarkupTable;
+    part_orders: PartOrdersTable;
     spec_entries: SpecEntriesTable;
     outbox: OutboxTable;
     job_subscribers: JobSubscribersTable;

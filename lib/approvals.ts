@@ -5,7 +5,8 @@
 import { AppError } from "@/lib/errors";
 import { type Line, MoneyError, STRICT_TOLERANCE, type StatusLine, type SuppliesSetting, type TaxSetting, type ToleranceSetting, type Totals, type TotalsSettings, authorisedTotal, totals } from "@/lib/money";
 
-export const SAFETY_CATEGORIES = ["none", "brakes", "steering", "fuel", "throttle"] as const;
+// Parts a rider's safety rests on; the findings.safety column lists the same keys (migrations 07, 28).
+export const SAFETY_CATEGORIES = ["none", "brakes", "steering", "suspension", "wheels_tyres", "drivetrain", "fuel", "throttle"] as const;
 export type SafetyCategory = (typeof SAFETY_CATEGORIES)[number];
 export const EVIDENCE_KINDS = ["photo", "reading", "clip"] as const;
 export type EvidenceKind = (typeof EVIDENCE_KINDS)[number];
@@ -17,7 +18,16 @@ export const DECISION_METHODS = ["online", "phone", "in_person"] as const;
 export type DecisionMethod = (typeof DECISION_METHODS)[number];
 export type LineAnswer = "approved" | "declined";
 
-export const SAFETY_LABEL: Record<SafetyCategory, string> = { none: "Not safety-related", brakes: "Brakes", steering: "Steering", fuel: "Fuel system", throttle: "Throttle" };
+export const SAFETY_LABEL: Record<SafetyCategory, string> = {
+  none: "Not safety-related",
+  brakes: "Brakes",
+  steering: "Steering",
+  suspension: "Suspension",
+  wheels_tyres: "Wheels and tyres",
+  drivetrain: "Drivetrain (chain, belt or shaft)",
+  fuel: "Fuel system",
+  throttle: "Throttle",
+};
 export const LINE_KIND_LABEL: Record<LineKind, string> = { part: "Part", labour: "Labour", fee: "Fee" };
 export const METHOD_LABEL: Record<DecisionMethod, string> = { online: "Answered online", phone: "By phone", in_person: "In person" };
 export const REQUEST_STATUS_LABEL: Record<RequestStatus, string> = {
@@ -35,6 +45,9 @@ export const REQUEST_STATUS_LABEL: Record<RequestStatus, string> = {
 export const FINDING_CAUTIONS: Record<Exclude<SafetyCategory, "none">, string> = {
   brakes: "Brakes decide whether the machine can stop. Brake work is finished and tested to the maker's specifications before the machine is ridden.",
   steering: "Steering parts decide whether the machine goes where it is pointed. Worn or loose steering parts are put right before the machine is ridden.",
+  suspension: "Suspension keeps the tyres on the ground and the machine steady when braking and turning. Leaking, broken or badly worn suspension parts are put right before the machine is ridden.",
+  wheels_tyres: "The tyres are all that holds the machine to the ground. A damaged, worn-out or wrongly inflated tyre, or a loose, cracked or bent wheel, is put right before the machine is ridden.",
+  drivetrain: "A chain, belt or shaft that snaps or jumps off can lock the rear wheel or leave the rider without drive. It is put right and adjusted before the machine is ridden.",
   fuel: "A fuel leak can start a fire. The machine shouldn't be run until the fuel system is sealed again; keep sparks and flames away.",
   throttle: "A throttle that sticks or doesn't snap shut can keep the engine pulling after you let go. It is put right before the machine is ridden.",
 };

@@ -7,6 +7,7 @@ import { formatFixed } from "@/lib/rounding";
 import { DEFAULT_PASS_PERCENTS } from "@/lib/tightening-passes";
 import { TORQUE_UNIT_IDS, type TorqueUnit, convertTorque, isTorqueUnit, torqueUnitLabel } from "@/lib/torque";
 import { DEFAULT_WRENCH_CLASS, WRENCH_CLASSES, type WrenchClass, outcomeText, passesText } from "@/lib/torque-check";
+import { type Lubrication, type SpecialFields, type WrenchMax, anglePiece, fastenerPieces } from "@/lib/torque-special";
 
 export const PART_STATUSES = ["needed", "ordered", "back_ordered", "received", "fitted", "returned"] as const;
 export type PartStatus = (typeof PART_STATUSES)[number];
@@ -62,14 +63,26 @@ export type TorqueBody = {
   checkPass?: boolean | null;
   /** The plausibility warning the technician confirmed when recording (lib/torque-check.ts). */
   warning?: string | null;
-};
+  // Issue 18 §3–4 (lib/torque-special.ts): absent on entries written before; nothing is said then.
+  toolSerial?: string | null;
+  /** "YYYY-MM-DD" */
+  calibratedOn?: string | null;
+  /** The wrench's maximum: passes below 20 % of it are flagged where the record is read (wrenchRangeFlags). */
+  wrenchMax?: WrenchMax | null;
+} & SpecialFields;
 
 /** A record's tolerance: its own, or its wrench's, or the usual click wrench's. */
 export function toleranceOf(b: Pick<TorqueBody, "tolerancePct" | "wrenchClass">): number {
   return b.tolerancePct ?? WRENCH_CLASSES[b.wrenchClass ?? DEFAULT_WRENCH_CLASS].tolerancePct;
 }
 
-export type ChainSnapshot = { pitchMm: number; pitches: number; measuredMm: number; limitPct: number };
+/**
+ * limitPct: the limit the chain was judged by. Issue 18: with a large sprocket's tooth count, the
+ * smaller of the shop's limit and 200/N % (lib/chain-wear.ts); absent on older entries.
+ */
+export type ChainSnapshot = { pitchMm: number; pitches: number; measuredMm: number; limitPct: number; sprocketTeeth?: number | null; shopLimitPct?: number };
+/** Decimals typed for each number (the instrument's resolution: "0.20" → 2); null when not known. */
+export type ReadingDecimals = { value: number | null; min: number | null; max: number | null };
 export type ReadingBody = {
   label: string;
   value: number;
@@ -80,6 +93,8 @@ export type ReadingBody = {
   verdict: ReadingVerdict;
   marginText: string | null;
   chain: ChainSnapshot | null;
+  /** Issue 18: absent on entries written before; those show their numbers as before. */
+  decimals?: ReadingDecimals;
 };
 
 export type TeardownBody = {
@@ -89,8 +104,11 @@ export type TeardownBody = {
   size: string | null;
   notes: string | null;
   storage: string | null;
-  torque: { value: number; unit: TorqueUnit; boltCount: number | null } | null;
+  torque: StepTorque | null;
 };
+
+/** A teardown step's torque; angle stages, lubrication and one-time from issue 18 §4 (absent before). */
+export type StepTorque = { value: number; unit: TorqueUnit; boltCount: number | null; angleStages?: number[]; lubrication?: Lubrication | null; oneTime?: boolean };
 
 /** Never carries cost or supplier: an entry can be shared with the owner. */
 export type PartBody = {
@@ -101,6 +119,9 @@ export type PartBody = {
   from: PartStatus | null;
   to: PartStatus;
   expectedOn: string | null;
+  /** Issue 19: a part that arrived and went to another job (job numbers as shown); absent otherwise. */
+  movedTo?: string;
+  movedFrom?: string;
 };
 
 const isObj = (v: unknown): v is Record<string, unknown> => !!v && typeof v === "object" && !Array.isArray(v);
@@ -139,14 +160,15 @@ export function torqueViews(value: number, unit: TorqueUnit, displayUnit: Torque
   };
 }
 
-type ProofFields = "specValue" | "appliedValue" | "unit" | "displayUnit" | "passPercents" | "pattern" | "tolerancePct" | "wrenchClass" | "passesDone" | "checkPass";
+type ProofFields = "specValue" | "appliedValue" | "unit" | "displayUnit" | "passPercents" | "pattern" | "tolerancePct" | "wrenchClass" | "passesDone" | "checkPass" | keyof SpecialFields;
 /**
  * "torqued to 72.0 lbf·ft (97.6 N·m), within ±4 % of …; 3 passes (30 → 60 → 100 %) done; …" — the
  * proof line staff, the owner and e-mails read. Never "to spec" unless applied is within tolerance.
+ * Angle stages, lubrication, loosen-and-retorque and one-time fasteners follow when recorded.
  */
 export function torqueProof(b: Pick<TorqueBody, ProofFields>): string {
   const outcome = outcomeText({ specValue: b.specValue, appliedValue: b.appliedValue, unit: b.unit, tolerancePct: toleranceOf(b) }, b.displayUnit);
-  return [outcome, passesText(b), b.pattern === "cross" ? "cross pattern" : null].filter(Boolean).join("; ");
+  return [outcome, passesText(b), anglePiece(b), b.pattern === "cross" ? "cross pattern" : null, ...fastenerPieces(b)].filter(Boolean).join("; ");
 }
 
 /** "torqued to spec, …" → "Torqued to spec, …" for the start of a sentence. */
@@ -168,7 +190,7 @@ export function limitText(r: { min: number | null; max: number | null; unit: str
 
 /** Stored teardown steps → the reassembly checklist, each torque with the shop's pass schedule. */
 export function checklistFromSteps(
-  steps: readonly { id: number; seq: number; removed: string; count: number | null; size: string | null; notes: string | null; storage: string | null; photoId: string | null; torque: { value: number; unit: TorqueUnit; boltCount: number | null } | null }[],
+  steps: readonly { id: number; seq: number; removed: string; count: number | null; size: string | null; notes: string | null; storage: string | null; photoId: string | null; torque: StepTorque | null }[],
   passPercents: readonly number[],
 ): ChecklistItem[] {
   return reassemblyChecklist(

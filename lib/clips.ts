@@ -42,3 +42,20 @@ export function clipLimitProblem(clip: { size: number; durationSeconds?: number 
   }
   return null;
 }
+
+/** A moment a technician marked in a clip: where, and what is seen there. */
+export type ClipMoment = { atMs: number; label: string };
+
+/**
+ * The marked moment a finding's evidence points at: the exact one, else one in the same whole
+ * second (a time typed as "0:42" for a moment marked at 42.3 s). Null when none is there.
+ */
+export function momentAt(moments: readonly ClipMoment[], ms: number | null): ClipMoment | null {
+  if (ms == null) return null;
+  return moments.find((m) => m.atMs === ms) ?? moments.find((m) => Math.floor(m.atMs / 1000) === Math.floor(ms / 1000)) ?? null;
+}
+
+/** What the owner reads beside a clip in a finding: the clip's caption and the moment's, as the technician wrote them. */
+export function clipEvidenceLabel(caption: string | null, moment: ClipMoment | null): string | null {
+  return [caption, moment?.label].filter(Boolean).join(" — ") || null;
+}

@@ -36,8 +36,13 @@ export const FORM_VISIBLE = {
   shopProfile: ["displayName", "about", "takesIn", "locationText", "showLocation", "publicEmail", "publicPhone", "removeLogo", "logo"],
   inboxSettings: INBOX_KINDS,
   spec: ["make", "model", "kind", "label", "value", "unit", "min", "max", "boltCount", "notes", "source"],
-  // Its tick boxes (passes done, check pass, value checked, share) show no message of their own.
-  torqueRecord: ["fastener", "specValue", "unit", "appliedValue", "boltCount", "wrenchClass", "tolerancePct", "passes", "tool", "note"],
+  // Its tick boxes (passes done, check pass, value checked, share, angle done, loosen-and-retorque,
+  // one-time) show no message of their own.
+  torqueRecord: [
+    ...["fastener", "specValue", "unit", "appliedValue", "boltCount", "wrenchClass", "tolerancePct", "passes", "tool", "note"],
+    // Issue 18 §3–4: the wrench's details and how the fastener was tightened (torque-special-fields.tsx).
+    ...["toolSerial", "calibratedOn", "wrenchMax", "wrenchMaxUnit", "angleStages", "lubrication", "lubricationOther", "retorqueSequence"],
+  ],
   reading: ["label", "value", "unit", "min", "max", "source"],
   // Drop-off authorisation: the desk prepares it on the staff job page, the owner signs it on theirs.
   dropoffPrepare: ["chargeKind", "chargeAmount", "chargeHours", "description", "authorisedUpTo", "terms"],

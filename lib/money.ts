@@ -3,7 +3,7 @@
 // Number.isSafeInteger; products and tax are worked in BigInt so nothing passes through a float.
 // Percents (tax, discounts, supplies, tolerance) are decimal strings ("8.25", "8.875", "10.0000" as
 // MariaDB returns DECIMAL columns) read exactly, so 8.25 % is 825/10000 and never 0.08249999….
-import cc from "currency-codes";
+import { iso4217Digits } from "@/lib/currency-minor-units";
 import { AppError } from "@/lib/errors";
 import { exampleIn, numberStyleFor, parseNumberInput } from "@/lib/number-input";
 
@@ -110,11 +110,11 @@ function percentOf(amountMinor: number, pct: PercentFraction, mode: "half_up" | 
 
 // ---- currencies: parsing and formatting ------------------------------------------------------
 
-/** ISO 4217 minor-unit digits from `currency-codes` (Intl disagrees for some codes). */
+/** ISO 4217 minor-unit digits (lib/currency-minor-units.ts, checked against `currency-codes`; Intl disagrees for some codes). */
 export function currencyDigits(currency: string): number {
-  const record = typeof currency === "string" && /^[A-Za-z]{3}$/.test(currency) ? cc.code(currency) : undefined;
-  if (!record) throw new MoneyError(`Unknown currency code ${JSON.stringify(currency)}: use an ISO 4217 code like "USD".`);
-  return record.digits;
+  const digits = typeof currency === "string" && /^[A-Za-z]{3}$/.test(currency) ? iso4217Digits(currency) : undefined;
+  if (digits === undefined) throw new MoneyError(`Unknown currency code ${JSON.stringify(currency)}: use an ISO 4217 code like "USD".`);
+  return digits;
 }
 
 /** Canonical "1234.5" (from readTyped) with `scale` allowed decimals → integer in units of 10^-scale. */
@@ -232,6 +232,20 @@ export function discountAmount(amountMinor: number, discount: Discount | null | 
   if (discount.kind === "amount") return Math.min(assertInt(discount.amountMinor, "Discount amount (minor units)"), amountMinor);
   if (discount.kind === "percent") return toSafe(percentOf(amountMinor, parsePercent(discount.percent, "Discount percent"), "half_up"), "The discount");
   throw new MoneyError(`Unknown discount kind ${JSON.stringify((discount as { kind?: unknown }).kind)}: use amount or percent.`);
+}
+
+/**
+ * A unit cost marked up by `percent` (which may pass 100: "150" is cost × 2.5): the exact
+ * cost × (100 + percent) / 100 rounded half-up to the minor unit once, as lineTotal rounds (common
+ * trade practice, no published source). Up to 4 decimals of percent.
+ */
+export function markUp(costMinor: number, percent: Percent): number {
+  const cost = assertInt(costMinor, "Part cost (minor units)");
+  const m = typeof percent === "string" ? /^(\d{1,4})(?:\.(\d{1,4}))?$/.exec(percent.trim()) : null;
+  if (!m) throw new MoneyError(`A markup must be a number of percent like "35" or "62.5" (got ${JSON.stringify(percent)}).`);
+  const decimals = m[2] ?? "";
+  const den = 100n * 10n ** BigInt(decimals.length);
+  return toSafe(divHalfUp(BigInt(cost) * (den + BigInt(m[1]! + decimals)), den), "The marked-up price");
 }
 
 /** Splits `total` across `weights` in proportion, remainders to the largest fractions (ties: earlier first). */

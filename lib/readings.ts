@@ -5,7 +5,8 @@ import { formatFixed } from "@/lib/rounding";
 
 export type ReadingVerdict = "within" | "below" | "above" | "no_limit";
 
-export type ReadingInput = { value: number; min?: number | null; max?: number | null; unit?: string | null };
+/** decimals: the resolution the numbers were typed with ("0.20" → 2); the margin is never shown coarser. */
+export type ReadingInput = { value: number; min?: number | null; max?: number | null; unit?: string | null; decimals?: number | null };
 
 export type ReadingResult = {
   verdict: ReadingVerdict;
@@ -33,7 +34,7 @@ function decimalsOf(n: number): number {
   return Math.min(12, frac + (exp ? Number(exp[1]) : 0));
 }
 
-export function evaluateReading({ value, min, max, unit }: ReadingInput): ReadingResult {
+export function evaluateReading({ value, min, max, unit, decimals: typed }: ReadingInput): ReadingResult {
   if (typeof value !== "number" || !Number.isFinite(value)) {
     throw new AppError("invalid", `The reading must be a finite number (got ${value}).`);
   }
@@ -44,7 +45,7 @@ export function evaluateReading({ value, min, max, unit }: ReadingInput): Readin
   }
   if (lo === undefined && hi === undefined) return { verdict: "no_limit" };
 
-  const decimals = Math.max(...[value, lo, hi].filter((n) => n !== undefined).map(decimalsOf));
+  const decimals = Math.min(12, Math.max(typed ?? 0, ...[value, lo, hi].filter((n) => n !== undefined).map(decimalsOf)));
   const text = (margin: number, where: string) =>
     `${formatFixed(margin, decimals)}${unit ? ` ${unit}` : ""} ${where}`;
 

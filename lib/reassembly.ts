@@ -5,6 +5,7 @@ import { AppError } from "@/lib/errors";
 import { DEFAULT_PASS_PERCENTS, passSchedule, type PassRow } from "@/lib/tightening-passes";
 import { crossPatternOrder, supportsCrossPattern } from "@/lib/tightening-order";
 import { allUnits, type TorqueUnit } from "@/lib/torque";
+import type { Lubrication } from "@/lib/torque-special";
 
 export type StepId = number | string;
 
@@ -13,6 +14,10 @@ export type TorqueSpec = {
   unit: TorqueUnit;
   boltCount?: number | null;
   passPercents?: readonly number[];
+  /** Issue 18 §4: degrees turned after the torque, thread lubrication, one-time (torque-to-yield) fasteners. */
+  angleStages?: readonly number[] | null;
+  lubrication?: Lubrication | null;
+  oneTime?: boolean | null;
 };
 
 export type TeardownStep = {
@@ -36,6 +41,9 @@ export type ChecklistTorque = {
   /** Cross-pattern bolt order, or null when no bolt count was given or it has no pattern (e.g. 2). */
   tighteningOrder: number[] | null;
   passes: PassRow[];
+  angleStages: number[];
+  lubrication: Lubrication | null;
+  oneTime: boolean;
 };
 
 export type ChecklistItem = {
@@ -51,6 +59,8 @@ export type ChecklistItem = {
   storage: string | null;
   photoIds: readonly StepId[];
   torque: ChecklistTorque | null;
+  /** The step's fasteners are one-time (torque-to-yield): "replace with new" on the item. */
+  replaceWithNew: boolean;
 };
 
 function checklistTorque(step: TeardownStep, spec: TorqueSpec): ChecklistTorque {
@@ -65,6 +75,9 @@ function checklistTorque(step: TeardownStep, spec: TorqueSpec): ChecklistTorque 
     boltCount,
     tighteningOrder: boltCount !== null && supportsCrossPattern(boltCount) ? crossPatternOrder(boltCount) : null,
     passes: passSchedule(spec.value, spec.unit, spec.passPercents ?? DEFAULT_PASS_PERCENTS),
+    angleStages: [...(spec.angleStages ?? [])],
+    lubrication: spec.lubrication ?? null,
+    oneTime: spec.oneTime === true,
   };
 }
 
@@ -92,6 +105,7 @@ export function reassemblyChecklist(steps: readonly TeardownStep[]): ChecklistIt
     storage: step.storage ?? null,
     photoIds: step.photoIds ?? [],
     torque: step.torqueSpec ? checklistTorque(step, step.torqueSpec) : null,
+    replaceWithNew: step.torqueSpec?.oneTime === true,
   }));
 }
 

@@ -1,4 +1,5 @@
 import clsx from "clsx";
+import dynamic from "next/dynamic";
 import { ArrowRight, Eye, Lock } from "lucide-react";
 import type { ReactNode } from "react";
 import { Badge } from "@/components/ui";
@@ -7,10 +8,15 @@ import { StatusBadge } from "@/components/status-badge";
 import { ENTRY_KIND_LABEL, type TimelineEntry, VISIBILITY_LABEL, isStatusBody } from "@/lib/journal";
 import type { NoteDoc } from "@/lib/rich-text/note";
 import { ClipPlayer } from "./clip-player";
-import { BenchEntryBody, isBenchEntry } from "./bench-entry-body";
+import { isBenchEntry } from "./bench-kinds";
 import { PhotoGrid } from "./photo-grid";
-import { ApprovalEntryBody } from "@/components/approvals/approval-entry-body";
-import { MoneyEntryBody } from "@/components/invoices/money-entry-body";
+
+// The bodies of bench, approval and money entries are their own chunks, fetched when a page shows
+// such an entry (rendered on the server all the same): most of a timeline is notes and photos,
+// and the customer's page stays light (DESIGN §5 First Load JS).
+const BenchEntryBody = dynamic(() => import("./bench-entry-body").then((m) => m.BenchEntryBody));
+const ApprovalEntryBody = dynamic(() => import("@/components/approvals/approval-entry-body").then((m) => m.ApprovalEntryBody));
+const MoneyEntryBody = dynamic(() => import("@/components/invoices/money-entry-body").then((m) => m.MoneyEntryBody));
 
 export function VisibilityBadge({ visibility }: { visibility: TimelineEntry["visibility"] }) {
   return visibility === "shared" ? (

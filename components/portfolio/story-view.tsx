@@ -16,7 +16,8 @@ import { crossPatternOrder } from "@/lib/tightening-order";
 // nothing private; this component only lays it out. Clips load lazily (ClipPlayer); photos open
 // in the viewer.
 
-export function StoryView({ story }: { story: PublicStory }) {
+/** coverPreview: a tiny inline copy of the cover (lib/server/photos.ts photoPreviewDataUri), shown until the cover arrives. */
+export function StoryView({ story, coverPreview = null }: { story: PublicStory; coverPreview?: string | null }) {
   const published = new Intl.DateTimeFormat("en-US", { year: "numeric", month: "long", day: "numeric", timeZone: "UTC" }).format(new Date(story.publishedAt));
   return (
     <article aria-labelledby="story-title" className="space-y-6">
@@ -30,14 +31,20 @@ export function StoryView({ story }: { story: PublicStory }) {
         </p>
       </header>
       {story.cover ? (
-        <figure>
+        <figure className="relative overflow-hidden rounded-xl border border-line bg-sunken">
+          {coverPreview ? (
+            // A few hundred bytes inside the page: the cover, blurred, painted with the first
+            // screen; the photo below covers it once it has arrived.
+            // eslint-disable-next-line @next/next/no-img-element -- an inline data: URI, nothing to optimise
+            <img src={coverPreview} alt="" aria-hidden className="absolute inset-0 size-full scale-110 object-cover blur-lg" />
+          ) : null}
           {/* The page's largest image: fetched first, at the width of the column (768 px less its padding). */}
           <PhotoImg
             photo={story.cover}
             priority
             sizes="(min-width: 768px) 736px, calc(100vw - 2rem)"
             alt={`${story.machine.label}, the machine in this story`}
-            className="h-auto w-full rounded-xl border border-line bg-sunken object-cover"
+            className="relative h-auto w-full object-cover"
           />
         </figure>
       ) : null}

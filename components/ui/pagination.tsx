@@ -1,6 +1,7 @@
 import clsx from "clsx";
 import { ChevronLeft, ChevronRight } from "lucide-react";
-import { Button } from "./button";
+import type { ReactNode } from "react";
+import { Button, ButtonLink } from "./button";
 
 export type PaginationProps = {
   /** 1-based current page. */
@@ -44,6 +45,33 @@ export function Pagination({
         Next
         <ChevronRight aria-hidden className="size-5" />
       </Button>
+    </nav>
+  );
+}
+
+/**
+ * The same pager for a server-rendered list: links instead of buttons, so paging works without
+ * JavaScript. `href(page)` makes a page's address; `label` is what sits between the links.
+ */
+export function LinkPagination({ page, hasNext, href, label }: { page: number; hasNext: boolean; href: (page: number) => string; label: ReactNode }) {
+  return (
+    <nav aria-label="Pages" className="flex items-center justify-between gap-3">
+      {page > 1 ? (
+        <ButtonLink variant="secondary" href={href(page - 1)} icon={<ChevronLeft aria-hidden className="size-5" />}>
+          Previous
+        </ButtonLink>
+      ) : (
+        <span />
+      )}
+      <p className="text-center text-sm text-ink-muted">{label}</p>
+      {hasNext ? (
+        <ButtonLink variant="secondary" href={href(page + 1)}>
+          Next
+          <ChevronRight aria-hidden className="size-5" />
+        </ButtonLink>
+      ) : (
+        <span />
+      )}
     </nav>
   );
 }

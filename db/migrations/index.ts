@@ -23,6 +23,13 @@ import * as boardIndexes from "./20261204_21_board_indexes";
 import * as torqueOutcome from "./20261204_22_torque_outcome";
 import * as taxRatesByKind from "./20261204_23_tax_rates_by_kind";
 import * as consentShown from "./20261204_24_consent_shown";
+import * as readingResolution from "./20261205_25_reading_resolution";
+import * as measurementSets from "./20261205_26_measurement_sets";
+import * as torqueToolSpecial from "./20261205_27_torque_tool_special";
+import * as teardownHistorySafety from "./20261205_28_teardown_history_safety";
+import * as jobStatusCounts from "./20261205_29_job_status_counts";
+import * as partsPrice from "./20261205_30_parts_price";
+import * as partOrders from "./20261205_31_part_orders";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -53,6 +60,13 @@ const MIGRATIONS: Migration[] = [
   { name: "20261204_22_torque_outcome", module: torqueOutcome },
   { name: "20261204_23_tax_rates_by_kind", module: taxRatesByKind },
   { name: "20261204_24_consent_shown", module: consentShown },
+  { name: "20261205_25_reading_resolution", module: readingResolution },
+  { name: "20261205_26_measurement_sets", module: measurementSets },
+  { name: "20261205_27_torque_tool_special", module: torqueToolSpecial },
+  { name: "20261205_28_teardown_history_safety", module: teardownHistorySafety },
+  { name: "20261205_29_job_status_counts", module: jobStatusCounts },
+  { name: "20261205_30_parts_price", module: partsPrice },
+  { name: "20261205_31_part_orders", module: partOrders },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

@@ -28,6 +28,10 @@ export type PartRow = {
   expectedOn: string | null;
   findingId: number | null;
   noOkNeeded: boolean;
+  /** Issue 19: from a priced finding line — the owner's answer to it (null: not from a line), the unit sell price and why it differs from the markup rule. */
+  ownerAnswer: "pending" | "approved" | "declined" | null;
+  sellMinor: number | null;
+  priceReason: string | null;
   history: { from: PartStatus | null; to: PartStatus; by: string | null; at: string }[];
 };
 
@@ -49,7 +53,7 @@ export type NewPart = {
  * or staff marked it as needing no OK), so the owner never hears "waiting for parts" about work
  * they haven't been asked about.
  */
-async function settleJob(tx: Knex.Transaction, p: JobKey & { userId: number; partId: number; partTo: PartStatus }): Promise<JobStatus | null> {
+export async function settleJob(tx: Knex.Transaction, p: JobKey & { userId: number; partId: number; partTo: PartStatus }): Promise<JobStatus | null> {
   if (isOutstanding(p.partTo)) {
     const cleared = await clearedPartsQuery(tx, p).where("p.id", p.partId).first("p.id");
     if (!cleared) return null;
@@ -58,19 +62,19 @@ async function settleJob(tx: Knex.Transaction, p: JobKey & { userId: number; par
   return move?.to ?? null;
 }
 
-async function lockJob(tx: Knex.Transaction, { shopId, jobId }: JobKey): Promise<JobStatus> {
+export async function lockJob(tx: Knex.Transaction, { shopId, jobId }: JobKey): Promise<JobStatus> {
   const job = await tx("jobs").where({ id: jobId, shop_id: shopId }).forUpdate().first("status");
   if (!job) throw new AppError("not_found", "No such job.");
   return job.status;
 }
 
-function partBody(part: Pick<NewPart, "description" | "partNumber" | "qtyThousandths" | "expectedOn">, event: PartBody["event"], from: PartStatus | null, to: PartStatus): PartBody {
+export function partBody(part: Pick<NewPart, "description" | "partNumber" | "qtyThousandths" | "expectedOn">, event: PartBody["event"], from: PartStatus | null, to: PartStatus): PartBody {
   // Cost and supplier stay out on purpose: an entry may be shared with the owner.
   return { event, description: part.description, partNumber: part.partNumber, qty: formatQuantity(part.qtyThousandths), from, to, expectedOn: part.expectedOn };
 }
 
 /** The desk inbox's line for a part that came in (no cost: technicians read it too). */
-function partsReceived(p: JobKey & { userId: number }, part: Pick<NewPart, "description" | "partNumber" | "qtyThousandths">, partId: number): InboxEvent {
+export function partsReceived(p: JobKey & { userId: number }, part: Pick<NewPart, "description" | "partNumber" | "qtyThousandths">, partId: number): InboxEvent {
   const number = part.partNumber ? ` (${part.partNumber})` : "";
   return { shopId: p.shopId, jobId: p.jobId, kind: "parts_received", actorUserId: p.userId, summary: `${formatQuantity(part.qtyThousandths)} × ${part.description}${number} received`, extra: { part: partId } };
 }
@@ -114,6 +118,7 @@ export async function changePartStatus(
     await lockJob(tx, p);
     const part = await tx("job_parts").where({ id: p.partId, shop_id: p.shopId, job_id: p.jobId }).forUpdate().first();
     if (!part) throw new AppError("not_found", "That part isn't on this job.");
+    if (part.owner_answer === "declined") throw new AppError("conflict", "The owner declined this part, so it stays off the job. Price it on a new finding if it is needed after all.");
     if (part.status !== p.from) {
       throw new AppError("conflict", `Someone has just marked this part "${PART_STATUS_LABEL[part.status]}". Check the list, then try again.`);
     }
@@ -157,6 +162,9 @@ export async function listParts({ shopId, jobId }: JobKey): Promise<PartRow[]> {
     expectedOn: r.expected_on ?? null,
     findingId: r.finding_id == null ? null : Number(r.finding_id),
     noOkNeeded: Boolean(r.no_ok_needed),
+    ownerAnswer: r.owner_answer ?? null,
+    sellMinor: r.sell_minor == null ? null : Number(r.sell_minor),
+    priceReason: r.price_reason ?? null,
     history: events
       .filter((e) => Number(e.part_id) === Number(r.id))
       .map((e) => ({ from: e.from_status ?? null, to: e.to_status, by: e.by_name ?? null, at: e.changed_at.toISOString() })),

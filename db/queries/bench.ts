@@ -1,7 +1,7 @@
 import "server-only";
 import type { Knex } from "knex";
 import { insertEntry } from "@/db/queries/entries";
-import { type BenchSettings, DEFAULT_BENCH_SETTINGS, type ChainSnapshot, type ReadingBody, type TeardownBody, type TorqueBody } from "@/lib/bench";
+import { type BenchSettings, DEFAULT_BENCH_SETTINGS, type StepTorque, type ChainSnapshot, type ReadingBody, type TeardownBody, type TorqueBody } from "@/lib/bench";
 import type { EntryVisibility } from "@/lib/journal";
 import { checklistProgress } from "@/lib/reassembly";
 import { db } from "@/db/client";
@@ -9,6 +9,9 @@ import type { JournalEntriesTable, Nullable, PhotosTable, ReadingsTable, Teardow
 import { transaction } from "@/db/transaction";
 import type { TorqueUnit } from "@/lib/torque";
 import { isWrenchClass } from "@/lib/torque-check";
+import { isLubrication } from "@/lib/torque-special";
+import { torqueExtraColumns, torqueExtrasOf } from "./torque-special";
+import { reviseTeardownStep } from "./teardown-history";
 
 // Torque records, readings and the teardown log. Every record that reaches the timeline is
 // written together with its entry in one transaction: both or neither.
@@ -67,6 +70,7 @@ export async function insertTorqueRecord(p: JobKey & { userId: number; visibilit
         wrench_class: b.wrenchClass ?? null,
         passes_done: b.passesDone ?? null,
         check_pass_done: b.checkPass ?? null,
+        ...torqueExtraColumns(b),
         recorded_by_user_id: p.userId,
       }),
     ),
@@ -109,6 +113,7 @@ export async function listTorqueRecords({ shopId, jobId }: JobKey): Promise<Torq
       passesDone: r.passes_done == null ? null : Boolean(r.passes_done),
       checkPass: r.check_pass_done == null ? null : Boolean(r.check_pass_done),
       warning: body?.warning ?? null,
+      ...torqueExtrasOf(r),
       entry: r.version == null || r.visibility == null ? null : { id: Number(r.entry_id), visibility: r.visibility, version: Number(r.version) },
       byUserId: num(r.recorded_by_user_id),
       by: str(r.by_name),
@@ -131,6 +136,9 @@ export async function insertReading(p: JobKey & { userId: number; body: ReadingB
         source: b.source,
         verdict: b.verdict,
         chain: b.chain ? JSON.stringify(b.chain) : null,
+        value_decimals: b.decimals?.value ?? null,
+        min_decimals: b.decimals?.min ?? null,
+        max_decimals: b.decimals?.max ?? null,
         recorded_by_user_id: p.userId,
       }),
     ),
@@ -150,6 +158,7 @@ function toReading(r: ReadingsTable & { by_name: string | null }): ReadingRow {
     source: str(r.source),
     verdict: r.verdict,
     chain: json(r.chain) as ChainSnapshot | null,
+    decimals: { value: num(r.value_decimals), min: num(r.min_decimals), max: num(r.max_decimals) },
     by: str(r.by_name),
     at: iso(r.created_at)!,
   };
@@ -215,15 +224,18 @@ export type TeardownRow = {
   notes: string | null;
   storage: string | null;
   photoId: string | null;
-  torque: { value: number; unit: TorqueUnit; boltCount: number | null } | null;
+  torque: StepTorque | null;
   replacedNew: boolean;
   checked: { by: string | null; at: string } | null;
+  /** Bumped by each edit (migration 28): an edit form sends the version it showed. */
+  version: number;
 };
 
 export async function listTeardownSteps({ shopId, jobId }: JobKey, k: Knex = db()): Promise<TeardownRow[]> {
   const rows: (TeardownStepsTable & { checked_by_name: string | null })[] = await k("teardown_steps as s")
     .leftJoin("users as u", "u.id", "s.checked_by_user_id")
     .where({ "s.shop_id": shopId, "s.job_id": jobId })
+    .whereNull("s.deleted_at")
     .orderBy("s.seq", "asc")
     .select("s.*", "u.name as checked_by_name");
   return rows.map((r) => ({
@@ -235,19 +247,42 @@ export async function listTeardownSteps({ shopId, jobId }: JobKey, k: Knex = db(
     notes: str(r.notes),
     storage: str(r.storage_label),
     photoId: str(r.photo_public_id),
-    torque: r.torque_value == null ? null : { value: Number(r.torque_value), unit: r.torque_unit as TorqueUnit, boltCount: num(r.torque_bolt_count) },
+    torque:
+      r.torque_value == null
+        ? null
+        : {
+            value: Number(r.torque_value),
+            unit: r.torque_unit as TorqueUnit,
+            boltCount: num(r.torque_bolt_count),
+            // Migration 27: none / false on steps written before it.
+            angleStages: (json(r.torque_angle_stages) as number[] | null) ?? [],
+            lubrication: isLubrication(r.torque_lubrication) ? r.torque_lubrication : null,
+            oneTime: Boolean(r.torque_one_time),
+          },
     replacedNew: Boolean(r.replaced_new),
     checked: r.checked_at == null ? null : { by: str(r.checked_by_name), at: iso(r.checked_at)! },
+    version: Number(r.version),
   }));
 }
 
 async function updateStep({ shopId, jobId, stepId }: JobKey & { stepId: number }, change: Knex.DbRecord<TeardownStepsTable>): Promise<boolean> {
-  const n = await db()("teardown_steps").where({ id: stepId, shop_id: shopId, job_id: jobId }).update(change);
+  const n = await db()("teardown_steps").where({ id: stepId, shop_id: shopId, job_id: jobId }).whereNull("deleted_at").update(change);
   return n === 1;
 }
 
-export function setStepTorque(p: JobKey & { stepId: number; torque: { value: number; unit: TorqueUnit; boltCount: number | null } }) {
-  return updateStep(p, { torque_value: p.torque.value, torque_unit: p.torque.unit, torque_bolt_count: p.torque.boltCount });
+/** A torque change keeps the step as it was and refreshes its timeline entry (db/queries/teardown-history.ts). */
+export async function setStepTorque(p: JobKey & { stepId: number; userId: number; torque: StepTorque }) {
+  const t = p.torque;
+  const set = {
+    torque_value: t.value,
+    torque_unit: t.unit,
+    torque_bolt_count: t.boltCount,
+    torque_angle_stages: t.angleStages?.length ? JSON.stringify(t.angleStages) : null,
+    torque_lubrication: t.lubrication ?? null,
+    torque_one_time: t.oneTime === true,
+  };
+  await reviseTeardownStep({ ...p, expectedVersion: null, change: { kind: "torque", set } });
+  return true;
 }
 
 /** The reassembly tick: who and when, or cleared again. */
@@ -261,7 +296,7 @@ export function setStepReplaced(p: JobKey & { stepId: number; replaced: boolean 
 
 /** Reassembly progress for the owner's page; null when nothing was logged coming apart. */
 export async function getReassemblyProgress({ shopId, jobId }: JobKey): Promise<{ done: number; total: number; percent: number } | null> {
-  const rows = await db()("teardown_steps").where({ shop_id: shopId, job_id: jobId }).select("id", "checked_at");
+  const rows = await db()("teardown_steps").where({ shop_id: shopId, job_id: jobId }).whereNull("deleted_at").select("id", "checked_at");
   if (!rows.length) return null;
   return checklistProgress(
     rows.map((r) => ({ id: Number(r.id) })),

@@ -1,11 +1,14 @@
 import "server-only";
 import type { Knex } from "knex";
+import type { ChainSnapshot, ReadingDecimals } from "@/lib/bench";
 import { AppError } from "@/lib/errors";
 import { DEFAULT_MONEY_SETTINGS, type DraftLine, type EvidenceKind, type SafetyCategory, type ShopMoneySettings } from "@/lib/approvals";
 import type { TaxSetting } from "@/lib/money";
+import type { ReadingVerdict } from "@/lib/readings";
 import { type TimelinePhoto, photoUrl } from "@/lib/journal";
+import type { ClipMoment } from "@/lib/clips";
 import { db } from "@/db/client";
-import type { ClipsTable, FindingLinesTable, FindingsTable, JournalEntriesTable, PhotosTable, ReadingsTable, ShopMoneySettingsTable } from "@/db/tables";
+import type { ClipMomentsTable, ClipsTable, FindingLinesTable, FindingsTable, JournalEntriesTable, PhotosTable, ReadingsTable, ShopMoneySettingsTable } from "@/db/tables";
 import { transaction } from "@/db/transaction";
 
 // Shop money settings and findings (the staff's drafts behind approval requests) with their
@@ -161,7 +164,11 @@ export type FindingWrite = {
   lines: (DraftLine & { id?: number })[];
 };
 
-async function writeChildren(tx: Knex.Transaction, shopId: number, findingId: number, f: FindingWrite) {
+/** Runs after the lines are written, in the same transaction, with each line's id in order (issue 19: the lines' parts). */
+export type AfterLines = (tx: Knex.Transaction, findingId: number, lineIds: number[]) => Promise<void>;
+
+async function writeChildren(tx: Knex.Transaction, shopId: number, findingId: number, f: FindingWrite, afterLines?: AfterLines) {
+  const ids: number[] = [];
   await tx("finding_evidence").where({ shop_id: shopId, finding_id: findingId }).delete();
   if (f.evidence.length) {
     await tx("finding_evidence").insert(f.evidence.map((e, position) => ({ shop_id: shopId, finding_id: findingId, position, kind: e.kind, ref: e.ref, moment_ms: e.momentMs })));
@@ -184,13 +191,16 @@ async function writeChildren(tx: Knex.Transaction, shopId: number, findingId: nu
     if (line.id) {
       const n = await tx("finding_lines").where({ id: line.id, shop_id: shopId, finding_id: findingId }).update(row);
       if (n !== 1) throw new AppError("conflict", "A line of this finding was removed meanwhile. Reload and try again.");
+      ids.push(line.id);
     } else {
-      await tx("finding_lines").insert({ shop_id: shopId, finding_id: findingId, ...row });
+      const [id] = await tx("finding_lines").insert({ shop_id: shopId, finding_id: findingId, ...row });
+      ids.push(Number(id));
     }
   }
+  if (afterLines) await afterLines(tx, findingId, ids);
 }
 
-export async function insertFinding(p: JobKey & { userId: number; finding: FindingWrite }): Promise<number> {
+export async function insertFinding(p: JobKey & { userId: number; finding: FindingWrite; afterLines?: AfterLines }): Promise<number> {
   return transaction(async (tx) => {
     const [id] = await tx("findings").insert({
       shop_id: p.shopId,
@@ -201,13 +211,13 @@ export async function insertFinding(p: JobKey & { userId: number; finding: Findi
       safety: p.finding.safety,
       created_by_user_id: p.userId,
     });
-    await writeChildren(tx, p.shopId, Number(id), p.finding);
+    await writeChildren(tx, p.shopId, Number(id), p.finding, p.afterLines);
     return Number(id);
   });
 }
 
 /** Saves a finding if nobody saved it since `expectedVersion`; returns the new version. */
-export async function updateFinding(p: JobKey & { id: number; expectedVersion: number; finding: FindingWrite }): Promise<number> {
+export async function updateFinding(p: JobKey & { id: number; expectedVersion: number; finding: FindingWrite; afterLines?: AfterLines }): Promise<number> {
   return transaction(async (tx) => {
     const row = await tx("findings").where({ id: p.id, shop_id: p.shopId, job_id: p.jobId }).forUpdate().first("version");
     if (!row) throw new AppError("not_found", "That finding isn't on this job.");
@@ -216,7 +226,7 @@ export async function updateFinding(p: JobKey & { id: number; expectedVersion: n
     await tx("findings")
       .where({ id: p.id })
       .update({ title: p.finding.title, found: p.finding.found, why_it_matters: p.finding.whyItMatters, safety: p.finding.safety, version, updated_at: tx.fn.now(3) });
-    await writeChildren(tx, p.shopId, p.id, p.finding);
+    await writeChildren(tx, p.shopId, p.id, p.finding, p.afterLines);
     return version;
   });
 }
@@ -224,41 +234,76 @@ export async function updateFinding(p: JobKey & { id: number; expectedVersion: n
 // ---- what can be attached as evidence ------------------------------------------------------------
 
 export type EvidencePhoto = TimelinePhoto & { caption: string | null };
-export type EvidenceReading = { id: string; label: string; value: number; unit: string | null; verdict: string };
-export type EvidenceClip = { id: string; caption: string | null; durationSeconds: number | null; playbackId: string | null; aspectRatio: string | null };
+/** Everything a reading's one line needs (lib/reading-text.ts): never the number without its limit. */
+export type EvidenceReading = {
+  id: string;
+  label: string;
+  value: number;
+  unit: string | null;
+  verdict: ReadingVerdict;
+  min: number | null;
+  max: number | null;
+  source: string | null;
+  chain: ChainSnapshot | null;
+  decimals: ReadingDecimals;
+};
+/** moments: the ones staff marked in the clip, earliest first (issue 18 §6: offered as evidence, caption and all). */
+export type EvidenceClip = { id: string; caption: string | null; durationSeconds: number | null; playbackId: string | null; aspectRatio: string | null; moments: ClipMoment[] };
 export type EvidenceChoices = { photos: EvidencePhoto[]; readings: EvidenceReading[]; clips: EvidenceClip[] };
 
 /** The job's posted photos, readings and ready clips (what a finding may point at), newest first. */
 export async function listEvidenceChoices({ shopId, jobId }: JobKey, k: Knex = db()): Promise<EvidenceChoices> {
   type PhotoChoice = Pick<PhotosTable, "public_id" | "width" | "height"> & Pick<JournalEntriesTable, "caption">;
   type ClipChoice = Pick<ClipsTable, "public_id" | "duration_seconds" | "playback_id" | "aspect_ratio"> & Pick<JournalEntriesTable, "caption">;
-  const [photos, readings, clips]: [PhotoChoice[], Pick<ReadingsTable, "id" | "label" | "value" | "unit" | "verdict">[], ClipChoice[]] = await Promise.all([
+  type ReadingChoice = Pick<ReadingsTable, "id" | "label" | "value" | "unit" | "verdict" | "min_value" | "max_value" | "source" | "chain" | "value_decimals" | "min_decimals" | "max_decimals">;
+  type MomentChoice = Pick<ClipsTable, "public_id"> & Pick<ClipMomentsTable, "at_ms" | "label">;
+  const [photos, readings, clips, moments]: [PhotoChoice[], ReadingChoice[], ClipChoice[], MomentChoice[]] = await Promise.all([
     k("photos as p")
       .join("journal_entries as e", "e.id", "p.entry_id")
       .where({ "p.shop_id": shopId, "p.job_id": jobId })
       .whereNull("e.deleted_at")
       .orderBy([{ column: "p.entry_id", order: "desc" }, "p.position"])
       .select("p.public_id", "p.width", "p.height", "e.caption"),
-    k("readings").where({ shop_id: shopId, job_id: jobId }).orderBy("id", "desc").select("id", "label", "value", "unit", "verdict"),
+    k("readings")
+      .where({ shop_id: shopId, job_id: jobId })
+      .orderBy("id", "desc")
+      .select("id", "label", "value", "unit", "verdict", "min_value", "max_value", "source", "chain", "value_decimals", "min_decimals", "max_decimals"),
     k("clips as c")
       .join("journal_entries as e", "e.id", "c.entry_id")
       .where({ "c.shop_id": shopId, "c.job_id": jobId, "c.status": "ready" })
       .whereNull("e.deleted_at")
       .orderBy("c.id", "desc")
       .select("c.public_id", "c.duration_seconds", "c.playback_id", "c.aspect_ratio", "e.caption"),
+    k("clip_moments as m")
+      .join("clips as c", (j) => j.on("c.id", "m.clip_id").andOn("c.shop_id", "m.shop_id"))
+      .where({ "c.shop_id": shopId, "c.job_id": jobId, "c.status": "ready" })
+      .orderBy([{ column: "m.clip_id" }, { column: "m.at_ms" }, { column: "m.id" }])
+      .select("c.public_id", "m.at_ms", "m.label"),
   ]);
   return {
     photos: photos.map((p) => {
       const id = String(p.public_id);
       return { id, width: Number(p.width), height: Number(p.height), thumbUrl: photoUrl(id, "thumb"), displayUrl: photoUrl(id, "display"), caption: p.caption ?? null };
     }),
-    readings: readings.map((r) => ({ id: String(r.id), label: String(r.label), value: Number(r.value), unit: r.unit ?? null, verdict: String(r.verdict) })),
+    readings: readings.map((r) => ({
+      id: String(r.id),
+      label: String(r.label),
+      value: Number(r.value),
+      unit: r.unit ?? null,
+      verdict: r.verdict,
+      min: num(r.min_value),
+      max: num(r.max_value),
+      source: r.source ?? null,
+      chain: (typeof r.chain === "string" ? JSON.parse(r.chain) : (r.chain ?? null)) as ChainSnapshot | null,
+      decimals: { value: num(r.value_decimals), min: num(r.min_decimals), max: num(r.max_decimals) },
+    })),
     clips: clips.map((c) => ({
       id: String(c.public_id),
       caption: c.caption ?? null,
       durationSeconds: num(c.duration_seconds),
       playbackId: c.playback_id ?? null,
       aspectRatio: c.aspect_ratio ?? null,
+      moments: moments.filter((m) => m.public_id === c.public_id).map((m) => ({ atMs: Number(m.at_ms), label: String(m.label) })),
     })),
   };
 }

@@ -104,11 +104,24 @@ export type { BoardExtras } from "./job-board";
 /** The board's two queries (count, page), exported for the EXPLAIN test (tests/integration/board-explain.test.ts). */
 export function boardQueries({ shopId, query, today = shopToday("UTC") }: { shopId: number; query: JobListQuery; today?: string }) {
   const k = db();
-  const count = boardJobs(k, shopId, query, today).count({ n: "*" });
+  // With no filter but statuses, the per-status counts the jobs triggers keep (migration 29): a few
+  // rows, however long the shop's history; anything else counts the jobs that match.
+  const byStatusOnly = !query.q && !query.attention.length && !query.technician;
+  const count = byStatusOnly
+    ? k("job_status_counts")
+        .where("shop_id", shopId)
+        .modify((q) => (query.status.length ? q.whereIn("status", query.status) : q))
+        .sum({ n: "n" })
+    : boardJobs(k, shopId, query, today).count({ n: "*" });
   const order = boardOrder(query.sort, query.dir);
+  // A search reads all its hits to sort them anyway: the page counts them as it goes (a window
+  // over the hits before LIMIT), instead of a second pass through the search (`count`, then only
+  // for a page past the end).
+  const countsItself = !!query.q;
   // The page's ids first, from jobs' indexes alone; the joins and the extras for those rows only.
   const ids = boardJobs(k, shopId, query, today)
     .select("j.id")
+    .modify((q) => (countsItself ? q.select(k.raw("COUNT(*) OVER () AS total")) : q))
     .orderBy(order)
     .limit(query.pageSize)
     .offset((query.page - 1) * query.pageSize);
@@ -119,6 +132,7 @@ export function boardQueries({ shopId, query, today = shopToday("UTC") }: { shop
     .join("machines as m", "m.id", "j.machine_id")
     .leftJoin("users as t", "t.id", "j.technician_user_id")
     .select(JOB_COLUMNS)
+    .modify((q) => (countsItself ? q.select("p.total") : q))
     .select(
       k.raw(`${SINCE} AS since`),
       k.raw(`${INVOICE_STATE} AS invoice_state`),
@@ -126,7 +140,7 @@ export function boardQueries({ shopId, query, today = shopToday("UTC") }: { shop
       k.raw(`(${ANSWERED_NOT_STARTED}) AS answered_not_started`),
     )
     .orderBy(order);
-  return { count, page };
+  return { count, page, countsItself };
 }
 
 /**
@@ -134,10 +148,11 @@ export function boardQueries({ shopId, query, today = shopToday("UTC") }: { shop
  * shop's calendar date (YYYY-MM-DD, see shopToday) that decides what is overdue; UTC if left out.
  */
 export async function listJobs({ shopId, query, today = shopToday("UTC") }: { shopId: number; query: JobListQuery; today?: string }) {
-  const { count, page } = boardQueries({ shopId, query, today });
-  const countRow = await count.first();
-  const total = Number(countRow?.n ?? 0);
-  const rows: (JobJoin & { since: Date; invoice_state: BoardExtras["invoiceState"] | null; owner_wait_days: number; answered_not_started: number })[] = await page;
+  const { count, page, countsItself } = boardQueries({ shopId, query, today });
+  const counted = async () => Number((await count.first())?.n ?? 0);
+  const total = countsItself ? null : await counted();
+  const rows: (JobJoin & { since: Date; invoice_state: BoardExtras["invoiceState"] | null; owner_wait_days: number; answered_not_started: number; total?: number })[] = await page;
+  const found = total ?? (rows.length ? Number(rows[0]!.total) : query.page > 1 ? await counted() : 0);
   return {
     rows: rows.map((r) => ({
       ...toJob(r),
@@ -146,10 +161,10 @@ export async function listJobs({ shopId, query, today = shopToday("UTC") }: { sh
       ownerWaitDays: Number(r.owner_wait_days),
       answeredNotStarted: Boolean(Number(r.answered_not_started)),
     })),
-    total,
+    total: found,
     page: query.page,
     pageSize: query.pageSize,
-    pageCount: Math.max(1, Math.ceil(total / query.pageSize)),
+    pageCount: Math.max(1, Math.ceil(found / query.pageSize)),
   };
 }
 

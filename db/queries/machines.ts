@@ -69,6 +69,8 @@ export type MachineHistory = {
     value: number;
     unit: string | null;
     verdict: ReadingVerdict;
+    /** Decimals typed (the instrument's resolution); null on readings from before migration 25. */
+    valueDecimals: number | null;
     at: Date;
   })[];
   parts: (JobRef & {
@@ -104,12 +106,12 @@ export async function getMachineHistory({ shopId, machineId }: { shopId: number;
     .orderBy("j.created_at", "desc")
     .orderBy("j.number", "desc")
     .select("j.number", "j.status", "j.concern", "j.created_at", "c.name as customer_name");
-  const readings: (Pick<ReadingsTable, "id" | "label" | "value" | "unit" | "verdict" | "created_at"> & { job_number: number })[] = await db()("readings as r")
+  const readings: (Pick<ReadingsTable, "id" | "label" | "value" | "unit" | "verdict" | "value_decimals" | "created_at"> & { job_number: number })[] = await db()("readings as r")
     .join("jobs as j", onJob("r"))
     .where({ "r.shop_id": shopId, "j.machine_id": machineId })
     .orderBy("r.created_at", "desc")
     .orderBy("r.id", "desc")
-    .select("r.id", "r.label", "r.value", "r.unit", "r.verdict", "r.created_at", "j.number as job_number");
+    .select("r.id", "r.label", "r.value", "r.unit", "r.verdict", "r.value_decimals", "r.created_at", "j.number as job_number");
   // Parts that reached the machine (received or fitted); needed, ordered or returned ones aren't history.
   const parts: (Pick<JobPartsTable, "id" | "description" | "part_number" | "status" | "qty_thousandths" | "cost_minor" | "updated_at"> & { job_number: number })[] = await db()(
     "job_parts as p",
@@ -143,6 +145,7 @@ export async function getMachineHistory({ shopId, machineId }: { shopId: number;
       value: Number(r.value),
       unit: r.unit ?? null,
       verdict: r.verdict,
+      valueDecimals: r.value_decimals == null ? null : Number(r.value_decimals),
       at: r.created_at,
     })),
     parts: parts.map((p) => ({

@@ -15,22 +15,29 @@ import { CAUSE_LABEL, type JobFacts, type Move, type WorkflowEvent, collectionRe
 type JobKey = { shopId: number; jobId: number };
 
 /**
- * Parts that wait the job: outstanding, and for cleared work — marked as needing no OK, or for a
- * finding the owner approved (any approved line of any of its requests).
+ * Parts that wait the job: outstanding, and for cleared work — from a priced line the owner
+ * approved; or, for a part not from a line, marked as needing no OK or for a finding the owner
+ * approved (any approved line of any of its requests). Proposed and declined parts never wait it.
  */
 export function clearedPartsQuery(k: Knex, { shopId, jobId }: JobKey) {
   return k("job_parts as p")
     .where({ "p.shop_id": shopId, "p.job_id": jobId })
     .whereIn("p.status", OUTSTANDING_PART_STATUSES)
-    .where((w) =>
-      w.where("p.no_ok_needed", true).orWhereExists((e) =>
-        e
-          .select(k.raw("1"))
-          .from("approval_requests as r")
-          .join("approval_decisions as d", "d.request_id", "r.id")
-          .join("approval_decision_lines as l", "l.decision_id", "d.id")
-          .whereRaw("r.shop_id = p.shop_id and r.finding_id = p.finding_id")
-          .where("l.answer", "approved"),
+    // A part from a priced line (owner_answer set, migration 30) waits the job only once the owner
+    // approved that very line; any other part by the older rule below.
+    .where((top) =>
+      top.where("p.owner_answer", "approved").orWhere((older) =>
+        older.whereNull("p.owner_answer").where((w) =>
+          w.where("p.no_ok_needed", true).orWhereExists((e) =>
+            e
+              .select(k.raw("1"))
+              .from("approval_requests as r")
+              .join("approval_decisions as d", "d.request_id", "r.id")
+              .join("approval_decision_lines as l", "l.decision_id", "d.id")
+              .whereRaw("r.shop_id = p.shop_id and r.finding_id = p.finding_id")
+              .where("l.answer", "approved"),
+          ),
+        ),
       ),
     );
 }
@@ -130,7 +137,7 @@ export async function listFindingClearance({ shopId, jobId }: JobKey, k: Knex = 
 export async function settleReassembly(p: JobKey & { userId: number }): Promise<Move | null> {
   return transaction(async (tx) => {
     await lockJobRow(tx, p);
-    const row = await tx("teardown_steps").where({ shop_id: p.shopId, job_id: p.jobId }).count({ total: "*" }).sum({ done: tx.raw("checked_at IS NOT NULL") }).first();
+    const row = await tx("teardown_steps").where({ shop_id: p.shopId, job_id: p.jobId }).whereNull("deleted_at").count({ total: "*" }).sum({ done: tx.raw("checked_at IS NOT NULL") }).first();
     const total = Number(row?.total ?? 0);
     if (total === 0 || Number(row?.done ?? 0) < total) return null;
     return applyJobEvent(tx, { shopId: p.shopId, jobId: p.jobId, userId: p.userId, event: { kind: "reassembly_finished" } });

@@ -45,6 +45,10 @@ export const lineInputSchema = z.object({
   rate: typed,
   amount: typed,
   taxable: z.boolean({ message: "Tick Taxable or leave it empty." }).optional(),
+  /** A part line's unit cost (staff only; the shop's markup rule prices from it), why the price differs from the rule, and an existing job part it stands for. */
+  cost: typed,
+  priceReason: text(200, "the reason for the price").optional(),
+  partId: z.number({ message: STALE_FINDING }).int(STALE_FINDING).positive(STALE_FINDING).nullish(),
 });
 export type LineInput = z.output<typeof lineInputSchema>;
 
@@ -54,7 +58,7 @@ export const findingInputSchema = z.object({
   title: required(200, "the title", "Give the finding a short title, e.g. “Front brake pads worn to the backing plate”."),
   found: required(4000, "what was found", "Say what you found."),
   whyItMatters: optional(4000, "why it matters"),
-  safety: z.enum(SAFETY_CATEGORIES, { message: "Choose whether this is about brakes, steering, fuel, the throttle, or none." }),
+  safety: z.enum(SAFETY_CATEGORIES, { message: "Choose whether this is about brakes, steering, suspension, wheels and tyres, the drivetrain, fuel, the throttle, or none." }),
   evidence: z.array(evidenceInputSchema, { message: "The evidence list couldn't be read; reload the page." }).max(MAX_EVIDENCE, `Attach at most ${MAX_EVIDENCE} pieces of evidence.`).default([]),
   lines: z.array(lineInputSchema, { message: "The lines couldn't be read; reload the page." }).max(MAX_FINDING_LINES, `A finding holds at most ${MAX_FINDING_LINES} lines.`).default([]),
 });

@@ -4,6 +4,8 @@ import { JOB_PUBLIC_ID_PATTERN, PHOTO_ID_PATTERN } from "@/lib/journal";
 import { MAX_PATTERN_BOLTS } from "@/lib/tightening-order";
 import { TORQUE_UNIT_IDS } from "@/lib/torque";
 import { DEFAULT_WRENCH_CLASS, WRENCH_CLASS_IDS } from "@/lib/torque-check";
+import { LUBRICATIONS } from "@/lib/torque-special";
+import { parseNumberInput, styleOfLocale } from "@/lib/number-input";
 import { optNumberText, reqNumberText } from "./number";
 
 // The bench forms as they post (flat FormData strings, blanks for untouched fields). Field names
@@ -28,12 +30,31 @@ const checkbox = z.preprocess((v) => v === "on" || v === "1" || v === "true", z.
 export const jobRef = z.object({ job: z.string().regex(JOB_PUBLIC_ID_PATTERN, "No such job.") });
 const torqueUnit = z.enum(TORQUE_UNIT_IDS, { message: "Choose a torque unit." });
 
+const PASS_STYLE = styleOfLocale("en-US");
 /** "30, 60, 100" → [30, 60, 100]; the rising-to-100 rule is checked by assertPassPercents. */
 export const passPercentsText = z
   .string()
   .trim()
   .regex(/^\d{1,3}(?:\.\d+)?(?:\s*[,;/ →>-]+\s*\d{1,3}(?:\.\d+)?){0,7}$/, 'Write the passes as percentages, e.g. "30, 60, 100".')
-  .transform((s) => s.split(/[^\d.]+/).filter(Boolean).map(Number));
+  // Each item through the one number reader (lib/number-input.ts). The comma separates passes
+  // here, so a decimal takes a point ("33.5"), whatever the shop's convention.
+  .transform((s, ctx) =>
+    s
+      .split(/[^\d.]+/)
+      .filter(Boolean)
+      .map((item, i) => {
+        const r = parseNumberInput(item, PASS_STYLE, { what: `Pass ${i + 1}`, min: 0, max: 100, maxDecimals: 2 });
+        if (!r.ok) ctx.addIssue({ code: "custom", message: `${r.message} Write the passes as percentages, e.g. "30, 60, 100".` });
+        return r.ok ? r.value : NaN;
+      }),
+  );
+
+// Issue 18 §4 (lib/torque-special.ts): angle stages stay text (each read with the one number
+// reader on the server), lubrication from the list; shared by the torque record and a step's torque.
+const angleStages = optText(60, "the angle stages");
+const lubrication = z.preprocess(blank, z.enum(LUBRICATIONS, { message: "Choose the thread lubrication from the list." }).optional()).transform((l) => l ?? null);
+// Ticked after a plausibility warning: the value was checked against the maker's manual.
+const plausibleChecked = checkbox.optional().default(false);
 
 export const torqueRecordSchema = jobRef.extend({
   fastener: reqText(200, "what was torqued", "Say what was torqued, e.g. “pump cover bolts, 8 × M6”."),
@@ -45,9 +66,21 @@ export const torqueRecordSchema = jobRef.extend({
   tolerancePct: optNumberText("The tolerance (%)"),
   passesDone: checkbox.optional().default(false),
   checkPass: checkbox.optional().default(false),
-  // Ticked after a plausibility warning: the value was checked against the maker's manual.
-  plausibleChecked: checkbox.optional().default(false),
+  plausibleChecked,
   tool: optText(120, "the tool"),
+  // Issue 18 §3: the wrench's serial, calibration date (a future one is refused on the server, in
+  // the shop's time zone) and maximum, in its own unit (the record's when blank).
+  toolSerial: optText(60, "the serial number"),
+  calibratedOn: z.preprocess(blank, z.iso.date({ message: "Use a date like 2026-03-14." }).optional()).transform((s) => s ?? null),
+  wrenchMax: optNumberText("The wrench's maximum"),
+  wrenchMaxUnit: z.preprocess(blank, torqueUnit.optional()).transform((u) => u ?? null),
+  angleStages,
+  angleDone: checkbox.optional().default(false),
+  lubrication,
+  lubricationOther: optText(60, "what was on the threads"),
+  loosenRetorque: checkbox.optional().default(false),
+  retorqueSequence: optText(300, "the sequence"),
+  oneTime: checkbox.optional().default(false),
   passes: z.preprocess(blank, passPercentsText.optional()).transform((p) => p ?? null),
   boltCount: optWhole("Bolt count", 1, 999),
   note: optText(500, "the note"),
@@ -71,6 +104,10 @@ export const chainReadingSchema = jobRef.extend({
   pitches: wholeNumber("Pitches measured", 1, 500),
   measuredMm: reqNumberText("The measured length (mm)"),
   limitPct: optNumberText("The wear limit (%)"),
+  // The large sprocket's tooth count, optional: over 67 teeth the limit tightens to 200/N % (lib/chain-wear.ts).
+  sprocketTeeth: optWhole("The large sprocket's teeth", 1, 300),
+  // Ticked after "this length fits one more pitch": the count was checked (pitches = pins − 1).
+  countChecked: checkbox.optional().default(false),
   source: optText(200, "the source"),
 });
 export type ChainReadingInput = z.output<typeof chainReadingSchema>;
@@ -91,8 +128,27 @@ export const stepTorqueSchema = jobRef.extend({
   torqueValue: reqNumberText("Torque"),
   torqueUnit: torqueUnit,
   boltCount: optWhole("Bolt count", 1, 999),
+  angleStages,
+  lubrication,
+  oneTime: checkbox.optional().default(false),
+  plausibleChecked,
 });
 export const stepFlagSchema = jobRef.extend({ step: recordId("step"), value: z.enum(["0", "1"]).transform((v) => v === "1") });
+
+// Editing or deleting a logged step (issue 18 §7): the version on screen, so a stale form is refused.
+const stepVersion = z.string().trim().regex(/^[1-9]\d{0,8}$/, "Reload the bench page and try again.").transform(Number);
+export const teardownEditSchema = jobRef.extend({
+  step: recordId("step"),
+  version: stepVersion,
+  removed: reqText(200, "what came off", "Say what came off, e.g. “clutch cover”."),
+  count: optWhole("Count", 1, 999),
+  size: optText(60, "the size"),
+  notes: optText(1000, "the notes"),
+  storage: optText(80, "the storage label"),
+});
+export type TeardownEditInput = z.output<typeof teardownEditSchema>;
+export const teardownDeleteSchema = jobRef.extend({ step: recordId("step"), version: stepVersion });
+export type TeardownDeleteInput = z.output<typeof teardownDeleteSchema>;
 
 const partStatus = z.enum(PART_STATUSES, { message: "Choose a status for the part." });
 const isoDate = z.preprocess(blank, z.iso.date({ message: "Use a date like 2026-12-24." }).optional()).transform((s) => s ?? null);

@@ -1,5 +1,5 @@
 import type { z } from "zod";
-import { benchSettingsSchema, chainReadingSchema, partSchema, partStatusSchema, stepTorqueSchema, teardownStepSchema } from "./bench";
+import { benchSettingsSchema, chainReadingSchema, partSchema, partStatusSchema, stepTorqueSchema, teardownDeleteSchema, teardownEditSchema, teardownStepSchema } from "./bench";
 import { contactFormSchema, mergeFormSchema } from "./customers";
 import { dropoffFields, dropoffSignatureFields } from "./dropoff";
 import { addLineSchema, draftDetailsSchema, issueSchema, recordPaymentSchema, removeLineSchema, requestDepositSchema, voidSchema } from "./invoices";
@@ -18,11 +18,15 @@ import {
 import { WEEKDAYS } from "@/lib/shop-settings";
 import { BOOKING_BANNER, BOOKING_VISIBLE } from "@/lib/booking";
 import { bookingRequestSchema } from "./booking";
+import { markupSettingsSchema } from "./parts-pricing";
+import { backOrderSchema, coreChargeSchema, movePartSchema, orderPartsSchema, partDepositSchema } from "./part-orders";
 import { CONFIRM_SIGNUP_VISIBLE, SHOP_SIGNUP_VISIBLE } from "@/lib/shop-signup";
 import { confirmSignupSchema, shopSignupSchema } from "./shop-signup";
 import { answerSchema, findingInputSchema, recordDecisionSchema, withdrawSchema } from "./approvals";
 import { linkRequestSchema, linkTokenSchema, passwordSignInSchema } from "./auth";
 import { readingSchema, specSchema, torqueRecordSchema } from "./bench";
+import { measurementSetSchema } from "./measurements";
+import { MEASUREMENT_SET_VISIBLE } from "@/lib/measurements";
 import { checkInFormSchema } from "./check-in";
 import { frequencySchema, inviteFollowerSchema } from "./following";
 import { inboxPreferencesSchema } from "./inbox";
@@ -57,6 +61,7 @@ export const FORM_FIELDS = {
     banner: shop,
   },
   taxSettings: { schema: taxSettingsSchema, visible: ["taxMethod", "taxRate", "labourTaxRate", "feeTaxRate", "suppliesTaxRate", "partsTaxable", "labourTaxable", "feesTaxable"], banner: shop },
+  markupSettings: { schema: markupSettingsSchema, visible: ["markupKind", "markupPercent", "band1UpTo", "band1Percent", "band2UpTo", "band2Percent", "topPercent"], banner: shop },
   suppliesSettings: { schema: suppliesSettingsSchema, visible: ["suppliesPercent", "suppliesBase", "suppliesCap", "suppliesTaxable"], banner: shop },
   toleranceSettings: { schema: toleranceSettingsSchema, visible: ["toleranceKind", "tolerancePercent", "toleranceFixed", "toleranceCap"], banner: shop },
   digestSettings: { schema: digestSettingsSchema, visible: ["digestWindowMinutes"], banner: shop },
@@ -65,9 +70,18 @@ export const FORM_FIELDS = {
   // The bench page (app/(staff)/shop/[shop]/jobs/[number]/bench/_components/).
   part: { schema: partSchema, visible: ["description", "partNumber", "supplier", "qty", "cost", "status", "expectedOn", "forWork"], banner: ["job"] },
   partStatus: { schema: partStatusSchema, visible: ["to", "expectedOn"], banner: ["job", "part", "from"] },
+  // Issue 19 ordering (bench page, part-order-forms.tsx): the ticked parts' ids travel in one hidden field whose message shows beside the boxes.
+  orderParts: { schema: orderPartsSchema, visible: ["supplier", "reference", "orderedOn", "expectedOn", "parts"], banner: ["job"] },
+  backOrder: { schema: backOrderSchema, visible: ["expectedOn"], banner: ["job", "part"] },
+  movePart: { schema: movePartSchema, visible: ["toJob", "thisJob"], banner: ["job", "part"] },
+  coreCharge: { schema: coreChargeSchema, visible: ["charge"], banner: ["job", "part"] },
+  partDeposit: { schema: partDepositSchema, visible: ["amount", "note"], banner: ["job", "part"] },
   teardownStep: { schema: teardownStepSchema, visible: ["removed", "count", "size", "notes", "storage", "photo"], banner: ["job"] },
-  stepTorque: { schema: stepTorqueSchema, visible: ["torqueValue", "torqueUnit", "boltCount"], banner: ["job", "step"] },
-  chainReading: { schema: chainReadingSchema, visible: ["label", "pitchMm", "pitches", "measuredMm", "limitPct", "source"], banner: ["job"] },
+  teardownEdit: { schema: teardownEditSchema, visible: ["removed", "count", "size", "notes", "storage"], banner: ["job", "step", "version"] },
+  // The delete button beside a step's edit form: everything is filled by the page, messages go in its banner.
+  teardownDelete: { schema: teardownDeleteSchema, visible: [], banner: ["job", "step", "version"] },
+  stepTorque: { schema: stepTorqueSchema, visible: ["torqueValue", "torqueUnit", "boltCount", "angleStages", "lubrication"], banner: ["job", "step", "oneTime", "plausibleChecked"] },
+  chainReading: { schema: chainReadingSchema, visible: ["label", "pitchMm", "pitches", "measuredMm", "limitPct", "sprocketTeeth", "source"], banner: ["job", "countChecked"] },
   // The invoice page (app/(staff)/shop/[shop]/jobs/[number]/invoice/_components/draft-forms.tsx).
   // "qty"/"unitPrice", "hours"/"rate" and "amount" are shown by kind; the server names the one
   // the chosen kind needs (lib/server/invoices.ts addLine).
@@ -125,8 +139,10 @@ export const FORM_FIELDS = {
   inboxSettings: { schema: inboxPreferencesSchema, visible: FORM_VISIBLE.inboxSettings, banner: shop },
   spec: { schema: specSchema, visible: FORM_VISIBLE.spec, banner: shop },
   // The bench's torque and reading forms (jobs/[number]/bench/_components/).
-  torqueRecord: { schema: torqueRecordSchema, visible: FORM_VISIBLE.torqueRecord, banner: ["job", "plausibleChecked", "passesDone", "checkPass", "share"] },
+  torqueRecord: { schema: torqueRecordSchema, visible: FORM_VISIBLE.torqueRecord, banner: ["job", "plausibleChecked", "passesDone", "checkPass", "share", "angleDone", "loosenRetorque", "oneTime"] },
   reading: { schema: readingSchema, visible: FORM_VISIBLE.reading, banner: ["job"] },
+  // Measurement sets on the bench page (bench/_components/measurement-form.tsx): numbered rows, one per item.
+  measurementSet: { schema: measurementSetSchema, visible: MEASUREMENT_SET_VISIBLE, banner: ["job"] },
 } satisfies Record<string, FormFields>;
 
 /**
@@ -145,6 +161,10 @@ export const NOT_FORMS: Record<string, string> = {
   "app/(staff)/shop/[shop]/inbox/actions.ts#markAllReadAction": "a button; its hidden fields copy the list's filter and newest item",
   "app/(staff)/shop/[shop]/jobs/[number]/bench/actions.ts#tickStepAction": "a reassembly tick (ActionButton): job, step and value are filled by the page",
   "app/(staff)/shop/[shop]/jobs/[number]/bench/actions.ts#markReplacedAction": "a reassembly toggle (ActionButton): job, step and value are filled by the page",
+  "app/(staff)/shop/[shop]/jobs/[number]/bench/part-order-actions.ts#coreReturnedAction": "“Core returned” (ActionButton): job and part are filled by the page",
+  "app/(staff)/shop/[shop]/jobs/[number]/bench/part-order-actions.ts#specialOrderAction": "a special-order toggle (ActionButton): job, part and value are filled by the page",
+  "app/(staff)/shop/[shop]/parts/actions.ts#receiveOrderAction": "“Order received” (ActionButton): shop and order are filled by the page",
+  "app/(staff)/shop/[shop]/jobs/[number]/bench/measurement-actions.ts#draftSetFindingAction": "“Draft a finding” on a measurement set (ActionButton): job and set are filled by the page",
   "app/(staff)/shop/[shop]/jobs/[number]/dropoff-actions.ts#prepareStandardDropoffAction": "a button (the shop's standard terms); the job id is filled by the page",
   "app/(staff)/shop/[shop]/jobs/[number]/dropoff-actions.ts#sendDropoffLinkAction": "a button; the job id is filled by the page",
   "app/(staff)/shop/[shop]/jobs/[number]/invoice/actions.ts#createInvoiceAction": "a button; the job id is filled by the page",

@@ -37,5 +37,18 @@ export function readNumberField(field: string, input: NumberInput, style: Number
   if (!r.ok) throw fail(r.message);
   return r.value;
 }
+/**
+ * The same, with the decimals typed ("0.20" → 2: the instrument's resolution). A number from code
+ * carries no resolution: decimals null.
+ */
+export function readMeasuredField(field: string, input: NumberInput, style: NumberStyle, rules: NumberRules): { value: number; decimals: number | null } {
+  const value = readNumberField(field, input, style, rules);
+  if (typeof input === "number") return { value, decimals: null };
+  const r = parseNumberInput(input, style, rules);
+  return { value, decimals: r.ok ? r.decimals : null };
+}
+export const readOptMeasuredField = (field: string, input: NumberInput | null | undefined, style: NumberStyle, rules: NumberRules) =>
+  input == null || input === "" ? null : readMeasuredField(field, input, style, rules);
+
 export const readOptNumberField = (field: string, input: NumberInput | null | undefined, style: NumberStyle, rules: NumberRules) =>
   input == null || input === "" ? null : readNumberField(field, input, style, rules);

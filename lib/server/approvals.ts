@@ -11,12 +11,15 @@ import { AppError, type ErrorCode } from "@/lib/errors";
 import { JOB_STATUS_LABEL, statusMoveError } from "@/lib/job-status";
 import { describeMachine } from "@/lib/machine";
 import type { Actor } from "@/lib/permissions";
+import { readingLine } from "@/lib/reading-text";
+import { clipEvidenceLabel, momentAt } from "@/lib/clips";
 import type { AnswerInput, RecordDecisionInput } from "@/lib/schemas/approvals";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import type { JobAccess, Resolved } from "@/lib/server/access";
 import { newMailToken, sealIntact, sealSnapshot } from "@/lib/server/approval-hash";
 import { cancelReminder, queueRequestMail } from "@/lib/server/approval-mail";
 import { recordInboxEvent } from "@/lib/server/inbox";
+import { answerLineParts, recordRequestLines } from "@/db/queries/parts-pricing";
 
 // Sending, withdrawing and answering approval requests. Every change runs in one transaction
 // with the request row locked, so an answer, a withdrawal and a revision can't cross; the unique
@@ -40,9 +43,14 @@ function evidenceLabels(choices: Awaited<ReturnType<typeof listEvidenceChoices>>
   if (e.kind === "photo") label = choices.photos.find((p) => p.id === e.ref)?.caption ?? null;
   if (e.kind === "reading") {
     const r = choices.readings.find((x) => x.id === e.ref);
-    label = r ? `${r.label}: ${r.value}${r.unit ? ` ${r.unit}` : ""}` : null;
+    // Frozen into the request: the value with its limit, source and verdict (lib/reading-text.ts).
+    label = r ? readingLine(r) : null;
   }
-  if (e.kind === "clip") label = choices.clips.find((c) => c.id === e.ref)?.caption ?? null;
+  if (e.kind === "clip") {
+    // Frozen into the request: the clip's caption and, at a marked moment, what the technician said is seen there.
+    const clip = choices.clips.find((c) => c.id === e.ref);
+    label = clip ? clipEvidenceLabel(clip.caption, momentAt(clip.moments, e.momentMs)) : null;
+  }
   return { kind: e.kind as EvidenceRef["kind"], ref: e.ref, momentMs: e.momentMs, label };
 }
 
@@ -86,6 +94,8 @@ export async function sendRequest(actor: Actor, { job }: JobAccess, findingId: n
     const { token, tokenHash } = newMailToken();
     const to = jobRow.customerEmail;
     const id = await insertRequest(tx, { shopId: job.shopId, jobId: job.id, publicId, findingId, version: snapshot.version, snapshot, canonical, hash, tokenHash, sentTo: to, userId: actor.userId });
+    // Which finding line each snapshot line is, so the answer reaches the lines' parts (issue 19).
+    await recordRequestLines(tx, { shopId: job.shopId, requestId: id, lineIds: finding.lines.map((l) => l.id) });
     if (previous?.status === "sent") {
       await markReplaced(tx, { shopId: job.shopId, id: previous.id, by: id });
       await cancelReminder(tx, { shopId: job.shopId, requestPublicId: previous.publicId });
@@ -246,6 +256,8 @@ async function decide(actor: Actor, request: { id: number; findingId: number }, 
         currency: snapshot.currency,
         extra: { request: r.publicId, title: snapshot.finding.title, method: d.method, by: d.personName, approved, declined },
       });
+      // Approved lines' parts may now wait the job, declined ones never: before the move reads them.
+      await answerLineParts(tx, { shopId: job.shopId, jobId: job.id, requestId: r.id, answers });
       await applyJobEvent(tx, { shopId: job.shopId, jobId: job.id, userId: actor.userId, event: { kind: "request_answered" } });
     });
   } catch (error) {

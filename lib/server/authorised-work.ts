@@ -5,6 +5,8 @@ import { type DropoffRow, getDropoff } from "@/db/queries/dropoff";
 import type { DecisionMethod } from "@/lib/approvals";
 import { diagnosisLine } from "@/lib/dropoff";
 import { type InvoiceLine, totalAuthorisedPreTax } from "@/lib/invoices";
+import { partsOfRequestLines } from "@/db/queries/parts-pricing";
+import type { PartStatus } from "@/lib/bench";
 
 // What the owner authorised on a job, read from the approval records: the approved lines with
 // their prices as shown (the frozen snapshots), the authorised pre-tax total, and the record of who
@@ -43,13 +45,20 @@ export type AuthorisedWork = {
   dropoff: DropoffRow | null;
   /** Requests sent and not answered yet: their lines aren't authorised. */
   openRequests: { publicId: string; title: string }[];
+  /** Approved part lines whose part isn't fitted yet (issue 19): billed once it is, not before. */
+  partsNotFitted: { description: string; status: PartStatus }[];
 };
+
+/** A part is billed once it is in the machine (fitted, or fitted and its old one handed back). */
+const BILLABLE_PART: readonly PartStatus[] = ["fitted", "returned"];
 
 /** Read in the caller's transaction when `k` is given, else on the pool. */
 export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId: number }, k?: Tx): Promise<AuthorisedWork> {
   const requests = await listRequests({ shopId, jobId }, k);
   const decisions = await listDecisions({ shopId, requestIds: requests.map((r) => r.id) }, k);
   const dropoff = await getDropoff({ shopId, jobId }, k);
+  const lineParts = await partsOfRequestLines({ shopId, jobId }, k);
+  const partsNotFitted: AuthorisedWork["partsNotFitted"] = [];
   const lines: InvoiceLine[] = [];
   const record: AuthorisationEntry[] = [];
   const signed = dropoff?.signature ? { ...dropoff, signature: dropoff.signature } : null;
@@ -85,6 +94,12 @@ export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId:
     for (const line of r.snapshot.lines) {
       if (!approvedNos.has(line.no)) continue;
       const { no, grossMinor: _g, netMinor: _n, taxMinor: _t, ...draft } = line;
+      // A part line with its job part waits for the part to be fitted (received isn't billed).
+      const part = lineParts.get(`${r.publicId}#${no}`);
+      if (part && !BILLABLE_PART.includes(part.status)) {
+        partsNotFitted.push({ description: part.description, status: part.status });
+        continue;
+      }
       lines.push({ ...draft, source: "authorised", requestPublicId: r.publicId, requestLineNo: no });
     }
     const pick = (answer: "approved" | "declined") => d.lines.filter((l) => l.answer === answer).map((l) => ({ no: l.no, description: l.description, netMinor: l.netMinor }));
@@ -119,6 +134,7 @@ export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId:
     wantsPartsBack: record.some((e) => e.wantsPartsBack),
     dropoff,
     openRequests: requests.filter((r) => r.status === "sent").map((r) => ({ publicId: r.publicId, title: r.snapshot.finding.title })),
+    partsNotFitted,
   };
 }
 

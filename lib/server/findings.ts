@@ -8,6 +8,7 @@ import { parseHours, parseMoney, parseQuantity } from "@/lib/money";
 import { type Actor, can } from "@/lib/permissions";
 import type { EvidenceInput, FindingInput, LineInput } from "@/lib/schemas/approvals";
 import type { JobAccess } from "@/lib/server/access";
+import { linePartsHook, priceLineParts } from "@/lib/server/part-pricing";
 
 // Findings: the technician drafts (what was found, why it matters, evidence, proposed lines);
 // the desk prices. Typed numbers are read with lib/money.ts in the shop's currency and a bad one
@@ -100,22 +101,25 @@ async function checkEvidence(job: { shopId: number; id: number }, evidence: Evid
   return out;
 }
 
-async function toWrite(job: { shopId: number; id: number }, input: FindingInput, existing: StoredLine[], mayPrice: boolean, currency: string): Promise<FindingWrite> {
+async function toWrite(job: { shopId: number; id: number }, input: FindingInput, existing: StoredLine[], mayPrice: boolean, currency: string) {
   const settings = await getMoneySettings({ shopId: job.shopId });
-  return {
+  // Part lines: the markup rule prices from the cost, and each line gets its job part (issue 19).
+  const { lines, parts } = await priceLineParts(job, input.lines, readLines(input.lines, existing, { currency, mayPrice, settings }), existing, { currency, mayPrice });
+  const write: FindingWrite = {
     title: input.title,
     found: input.found,
     whyItMatters: input.whyItMatters,
     safety: input.safety,
     evidence: await checkEvidence(job, input.evidence),
-    lines: readLines(input.lines, existing, { currency, mayPrice, settings }),
+    lines,
   };
+  return { write, parts };
 }
 
 export async function createFinding(actor: Actor, found: JobAccess, input: FindingInput) {
   const { job } = found;
-  const write = await toWrite(job, input, [], mayPriceOn(actor, found), await getShopCurrency({ shopId: job.shopId }));
-  const id = await insertFinding({ shopId: job.shopId, jobId: job.id, userId: actor.userId, finding: write });
+  const { write, parts } = await toWrite(job, input, [], mayPriceOn(actor, found), await getShopCurrency({ shopId: job.shopId }));
+  const id = await insertFinding({ shopId: job.shopId, jobId: job.id, userId: actor.userId, finding: write, afterLines: linePartsHook(job, actor.userId, parts) });
   return { id, version: 1, job };
 }
 
@@ -130,7 +134,7 @@ export async function saveFinding(actor: Actor, found: JobAccess, findingId: num
   if (!finding) throw new AppError("not_found", "That finding isn't on this job.");
   const latest = await latestRequestOfFinding({ shopId: job.shopId, findingId });
   if (latest?.status === "answered") throw new AppError("conflict", "The owner has answered this finding, so it can't change. Draft a new finding for more work.");
-  const write = await toWrite(job, input, finding.lines, mayPriceOn(actor, found), await getShopCurrency({ shopId: job.shopId }));
-  const version = await updateFinding({ shopId: job.shopId, jobId: job.id, id: findingId, expectedVersion: input.version, finding: write });
+  const { write, parts } = await toWrite(job, input, finding.lines, mayPriceOn(actor, found), await getShopCurrency({ shopId: job.shopId }));
+  const version = await updateFinding({ shopId: job.shopId, jobId: job.id, id: findingId, expectedVersion: input.version, finding: write, afterLines: linePartsHook(job, actor.userId, parts) });
   return { id: findingId, version, job };
 }

@@ -57,9 +57,15 @@ export async function setOwnFrequency(actor: Actor, { job, resource }: JobAccess
 
 /** What the following card shows this person: their own e-mail setting, and the followers if they may see them. */
 export async function followingView(actor: Actor, job: JobKey, resource: Resource) {
-  const own = await getOwnSubscription({ jobId: job.id, userId: actor.userId, email: actor.email });
   const mayManage = can(actor, "job:follow-manage", resource);
-  const followers = can(actor, "job:view-followers", resource) ? (await listSubscribers({ shopId: job.shopId, jobId: job.id })).filter((s) => s.role === "follower") : [];
+  // Whoever may see the followers reads every subscription once and finds their own in it, as
+  // getOwnSubscription would: by account first, then by the (lower-case) address it was made for.
+  const all = can(actor, "job:view-followers", resource) ? await listSubscribers({ shopId: job.shopId, jobId: job.id }) : null;
+  const email = actor.email.toLowerCase();
+  const own = all
+    ? (all.find((s) => s.userId === actor.userId) ?? all.find((s) => s.email === email) ?? null)
+    : await getOwnSubscription({ jobId: job.id, userId: actor.userId, email: actor.email });
+  const followers = all ? all.filter((s) => s.role === "follower") : [];
   return { own, mayManage, mayFollow: can(actor, "job:follow", resource), followers };
 }
 

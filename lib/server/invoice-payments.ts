@@ -4,7 +4,7 @@ import { getLiveInvoice, lockJob } from "@/db/queries/invoices";
 import { insertEntry } from "@/db/queries/entries";
 import { getDepositByPublicId, getMoneyJob, insertCheckout, insertDeposit, listJobPayments, listOpenCheckouts, setDepositStatus } from "@/db/queries/payments";
 import { getShopCurrency, getShopName } from "@/db/queries/shops";
-import { transaction } from "@/db/transaction";
+import { type Tx, transaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
 import { type PaymentEntryBody, formatInvoiceNumber } from "@/lib/invoices";
 import { formatMoney, parseMoney } from "@/lib/money";
@@ -22,7 +22,8 @@ import { paymentsError, stripe } from "@/lib/server/payments";
 // invoice's currency; nothing is taken past what is owed. Who may do each is declared by the handler
 // or action ("jobMoney", "invoice", "deposit" in lib/server/access.ts).
 
-function amount(text: string, currency: string, field = "amount"): number {
+/** A typed amount of money, more than zero, refused beside `field` otherwise. */
+export function positiveAmount(text: string, currency: string, field = "amount"): number {
   try {
     const n = parseMoney(text, currency);
     if (n <= 0) throw new AppError("invalid", "The amount must be more than zero.");
@@ -35,7 +36,7 @@ function amount(text: string, currency: string, field = "amount"): number {
 
 /** The desk records cash, a card at the counter or a cheque against an issued invoice. */
 export async function recordCounterPayment(actor: Actor, { invoice, job }: Resolved<"invoice">, input: RecordPaymentInput) {
-  const minor = amount(input.amount, invoice.currency);
+  const minor = positiveAmount(input.amount, invoice.currency);
   await transaction(async (tx) => {
     await lockJob(tx, { shopId: job.shopId, jobId: job.id });
     const live = await getLiveInvoice({ shopId: job.shopId, jobId: job.id }, tx, true);
@@ -51,16 +52,23 @@ export async function recordCounterPayment(actor: Actor, { invoice, job }: Resol
 }
 
 /** The desk asks for a parts deposit, on its own or with an approval request of the job. */
-export async function requestDeposit(actor: Actor, { job }: JobAccess, input: RequestDepositInput) {
+export async function requestDeposit(
+  actor: Actor,
+  { job }: JobAccess,
+  input: RequestDepositInput,
+  /** More work in the deposit's transaction (issue 19: link it to a special-order part); a throw undoes the deposit. */
+  inTx?: (tx: Tx, depositId: number) => Promise<void>,
+) {
   if (input.request) {
     const request = await getRequestByPublicId({ publicId: input.request });
     if (!request || request.jobId !== job.id) throw new AppError("invalid", "That approval request isn't on this job.", { request: ["Choose a request of this job."] });
   }
   const currency = await getShopCurrency({ shopId: job.shopId });
-  const minor = amount(input.amount, currency);
+  const minor = positiveAmount(input.amount, currency);
   return transaction(async (tx) => {
     const owner = (await lockJob(tx, { shopId: job.shopId, jobId: job.id }))!;
     const deposit = await insertDeposit(tx, { shopId: job.shopId, jobId: job.id, amountMinor: minor, currency, note: input.note, requestPublicId: input.request, userId: actor.userId });
+    if (inTx) await inTx(tx, deposit.id);
     const body: PaymentEntryBody = { event: "deposit_requested", invoice: null, number: null, method: null };
     await insertEntry(tx, { shopId: job.shopId, jobId: job.id, kind: "payment", authorId: actor.userId, visibility: "shared", body });
     if (owner.customerEmail) await queueDepositMail(tx, { to: owner.customerEmail, ownerName: owner.customerName, deposit, job: (await getMoneyJob(tx, job.id))! });
@@ -149,7 +157,7 @@ export async function refundPayment(actor: Actor, { job }: JobAccess, input: Ref
     if (original.kind === "refund") throw new AppError("invalid", "Only a payment or a deposit can be refunded.");
     const refunded = payments.filter((p) => p.refundOfPaymentId === original.id).reduce((sum, p) => sum + p.amountMinor, 0);
     const left = original.amountMinor - refunded;
-    const minor = amount(input.amount, original.currency);
+    const minor = positiveAmount(input.amount, original.currency);
     if (minor > left) {
       const most = formatMoney(left, original.currency);
       throw new AppError("invalid", left <= 0 ? "This payment has already been refunded in full." : `At most ${most} of this payment can still be refunded.`, { amount: [`At most ${most}.`] });

@@ -5,7 +5,8 @@ import { type Balance, type PricedLine, balanceOf, formatInvoiceNumber } from "@
 import { describeMachine } from "@/lib/machine";
 import { taxLabel } from "@/lib/money";
 import { formatJobNumber } from "@/lib/schemas/jobs";
-import { type AuthorisationEntry, authorisedWork, lineKey } from "@/lib/server/authorised-work";
+import { type AuthorisationEntry, type AuthorisedWork, lineKey } from "@/lib/server/authorised-work";
+import { authorisedWorkOf } from "@/lib/server/request-cache";
 
 // One read of everything an invoice page, the PDF and the JSON route show: the shop's details, the
 // job and machine, the live invoice with its priced lines, payments and deposits, and the
@@ -27,13 +28,15 @@ export type InvoiceView = {
   openRequests: { publicId: string; title: string }[];
   /** Authorised lines not on the draft yet (answers that came after it was made). */
   missingAuthorised: number;
+  /** Approved parts not fitted yet, so not billed (issue 19); the desk's view only. */
+  partsNotFitted: AuthorisedWork["partsNotFitted"];
   currency: string;
 };
 
 export async function invoiceView(jobId: number, audience: "shop" | "owner"): Promise<InvoiceView> {
   const h = (await getInvoiceHeader({ jobId }))!;
   const key = { shopId: h.job.shopId, jobId };
-  const [invoices, payments, deposits, work] = await Promise.all([listJobInvoices(key), listJobPayments(key), listJobDeposits(key), authorisedWork(key)]);
+  const [invoices, payments, deposits, work] = await Promise.all([listJobInvoices(key), listJobPayments(key), listJobDeposits(key), authorisedWorkOf(key.shopId, key.jobId)]);
   // The owner sees an invoice once it is issued; a draft is the desk's working copy.
   const live = invoices.find((i) => i.status !== "void" && (audience === "shop" || i.status !== "draft")) ?? null;
   const rows = live ? await listInvoiceLines({ shopId: key.shopId, invoiceId: live.id }) : [];
@@ -76,6 +79,7 @@ export async function invoiceView(jobId: number, audience: "shop" | "owner"): Pr
     record: work.record,
     openRequests: work.openRequests,
     missingAuthorised: live?.status === "draft" ? work.lines.filter((l) => !onInvoice.has(lineKey(l))).length : 0,
+    partsNotFitted: audience === "shop" ? work.partsNotFitted : [],
     currency: live?.currency ?? h.shop.currency,
   };
 }

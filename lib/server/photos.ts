@@ -206,3 +206,18 @@ export async function deletePhotoRenditions(keys: PhotoKeys, options: { store?: 
   const copies = PHOTO_WIDTHS.map((w) => variantKey(keys.displayKey, w)).filter((k): k is string => !!k);
   await Promise.all([store.delete(keys.displayKey), store.delete(keys.thumbKey), ...copies.map((k) => store.delete(k))]);
 }
+
+/** How wide a photo's inline preview is: a few hundred bytes, enough to show the picture's shape and colours. */
+export const PREVIEW_WIDTH = 40;
+
+/**
+ * A tiny copy of a photo as a data: URI (WebP), painted in the photo's place while the real one
+ * downloads — on a slow phone connection the page shows the cover at once, blurred, then sharp.
+ * Made from the thumbnail; null when it is missing.
+ */
+export async function photoPreviewDataUri(keys: PhotoKeys, options: { store?: ObjectStorage } = {}): Promise<string | null> {
+  const thumb = await (options.store ?? storage()).get(keys.thumbKey);
+  if (!thumb) return null;
+  const webp = await sharp(thumb.body).resize({ width: PREVIEW_WIDTH, withoutEnlargement: true }).webp({ quality: 60 }).toBuffer();
+  return `data:image/webp;base64,${webp.toString("base64")}`;
+}

@@ -1,8 +1,9 @@
 import "server-only";
 import { revalidateTag, unstable_cache } from "next/cache";
 import { getPublicFace } from "@/db/queries/public-face";
-import { jobHasPublishedStory } from "@/db/queries/portfolio-public";
+import { jobHasPublishedStory, publicPhotoKeys } from "@/db/queries/portfolio-public";
 import { ids } from "@/lib/server/access";
+import { photoPreviewDataUri } from "@/lib/server/photos";
 import { getPublicShopPage, getPublicStory } from "@/lib/server/portfolio-public";
 
 // The shops' public pages (/s/<shop>, /s/<shop>/<story> and their social cards) are static:
@@ -38,7 +39,13 @@ const tagged = <T>(shopSlug: string, key: string[], load: () => Promise<T | null
 
 /** A published story as the page shows it, or null (not published, withdrawn, unknown). */
 export function loadPublicStoryPage(shopSlug: string, storySlug: string) {
-  return tagged(shopSlug, ["story", storySlug], () => getPublicStory(shopSlug, storySlug));
+  return tagged(shopSlug, ["story", storySlug], async () => {
+    const story = await getPublicStory(shopSlug, storySlug);
+    if (!story?.cover) return story ? { ...story, coverPreview: null } : null;
+    // Kept with the page: made once per render of the page, not per visit.
+    const keys = await publicPhotoKeys({ shopSlug, storySlug, photoPublicId: story.cover.id });
+    return { ...story, coverPreview: keys ? await photoPreviewDataUri(keys) : null };
+  });
 }
 
 /** The shop's public page: profile, stories, opening hours; null when it has no public page. */

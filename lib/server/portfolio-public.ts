@@ -102,11 +102,11 @@ function itemsOf(shopSlug: string, rows: StoryBodyRows): PublicStoryItem[] {
       }
     } else if (item.kind === "torque" && entry.kind === "torque" && isTorqueBody(entry.body)) {
       const b = entry.body;
-      // The proof, not the bench's free-text note or tool: those were written for the shop.
+      // The proof, not the bench's free-text note, tool, retorque sequence or "other" lubrication: those were written for the shop.
       out.push({
         kind: "torque",
         caption: caption(item.caption),
-        torque: { fastener: redactText(b.fastener, facts(story)), specValue: b.specValue, unit: b.unit, displayUnit: b.displayUnit, proof: torqueProof(b), boltCount: b.boltCount, pattern: b.pattern },
+        torque: { fastener: redactText(b.fastener, facts(story)), specValue: b.specValue, unit: b.unit, displayUnit: b.displayUnit, proof: torqueProof({ ...b, retorqueSequence: null, lubricationOther: null }), boltCount: b.boltCount, pattern: b.pattern },
       });
     }
   }

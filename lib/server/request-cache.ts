@@ -3,6 +3,7 @@ import { cache } from "react";
 import { getMoneySettings } from "@/db/queries/findings";
 import { getJobByNumber, getJobByPublicId } from "@/db/queries/jobs";
 import { getShopBySlug } from "@/db/queries/shops";
+import { authorisedWork } from "@/lib/server/authorised-work";
 
 // Rows several parts of one page read: React's `cache`, so a server render (the staff layout and
 // the page under it, a page and its cards) reads each once. Scoped to one render: the next
@@ -17,3 +18,6 @@ export const jobByPublicId = cache((publicId: string) => getJobByPublicId({ publ
 
 /** The staff job page's drop-off card and approvals panel both price with these. */
 export const moneySettingsOf = cache((shopId: number) => getMoneySettings({ shopId }));
+
+/** What the owner has authorised on a job (requests, decisions, drop-off): the owner's page, its drop-off notice and its invoice card. */
+export const authorisedWorkOf = cache((shopId: number, jobId: number) => authorisedWork({ shopId, jobId }));

@@ -2,19 +2,32 @@
 // shared set of three photos (the first the cover), shared notes and the items a curator would pick. The
 // demo seed has no story (a story needs the owner's consent), so the bench writes one as given. Photos go
 // through the app's own pipeline (processPhoto, storePhotoRenditions into STORAGE_DIR), from a 12 MP
-// camera-sized JPEG made here of lightly blurred noise (its 1600-px rendition is about 300 kB, like a
-// photo; no real picture needed).
+// camera-sized JPEG made here of a few large shapes under lightly blurred noise (sized like a photo, and
+// its tiny preview shows shapes as a real one does; no real picture needed).
 import type { Knex } from "knex";
 import sharp from "sharp";
 
 export const STORY_SLUG = "bench-long-journal";
 
-async function cameraJpeg(seed: number): Promise<Buffer> {
-  const raw = await sharp({ create: { width: 4032, height: 3024, channels: 3, background: { r: 90 + seed * 20, g: 80, b: 70 }, noise: { type: "gaussian", mean: 110 + seed * 10, sigma: 40 } } })
+export async function cameraJpeg(seed: number): Promise<Buffer> {
+  const [w, h] = [4032, 3024];
+  // A scene's large shapes (floor, bench, wheels, a frame) under the sensor-like noise: a tiny preview of
+  // it carries shapes and colours the way one of a real photo does, not one flat colour.
+  const shapes = [
+    `<rect width="${w}" height="${h}" fill="rgb(${70 + seed * 25},${88 + seed * 10},${120 - seed * 15})"/>`,
+    `<rect y="${h * 0.62}" width="${w}" height="${h * 0.38}" fill="rgb(96,86,74)"/>`,
+    `<rect x="${w * 0.12}" y="${h * 0.42}" width="${w * 0.55}" height="${h * 0.12}" rx="60" fill="rgb(150,40,32)"/>`,
+    `<circle cx="${w * 0.22}" cy="${h * 0.68}" r="${h * 0.16}" fill="rgb(30,30,34)"/><circle cx="${w * 0.22}" cy="${h * 0.68}" r="${h * 0.07}" fill="rgb(170,170,176)"/>`,
+    `<circle cx="${w * 0.62}" cy="${h * 0.68}" r="${h * 0.16}" fill="rgb(30,30,34)"/><circle cx="${w * 0.62}" cy="${h * 0.68}" r="${h * 0.07}" fill="rgb(170,170,176)"/>`,
+    `<path d="M ${w * 0.3} ${h * 0.42} L ${w * 0.45} ${h * 0.2} L ${w * 0.58} ${h * 0.42} Z" fill="rgb(210,180,60)"/>`,
+    `<rect x="${w * 0.78}" y="${h * 0.1}" width="${w * 0.16}" height="${h * 0.5}" fill="rgb(60,110,80)"/>`,
+  ];
+  const scene = await sharp(Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="${w}" height="${h}">${shapes.join("")}</svg>`)).removeAlpha().ensureAlpha(0.6).png().toBuffer();
+  return sharp({ create: { width: w, height: h, channels: 3, background: { r: 90 + seed * 20, g: 80, b: 70 }, noise: { type: "gaussian", mean: 110 + seed * 10, sigma: 90 } } })
+    .composite([{ input: scene }])
     .blur(0.8)
     .jpeg({ quality: 90 })
     .toBuffer();
-  return raw;
 }
 
 export async function seedStory(k: Knex, storageDir: string, log: (s: string) => void): Promise<string> {

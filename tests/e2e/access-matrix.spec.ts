@@ -70,6 +70,8 @@ const TARGETS: { name: string; path: () => string; expect: Record<Visitor, Outco
   { name: "check-in page", path: () => "/shop/copper-gulch/jobs/new", expect: STAFF_OF_THE_SHOP },
   { name: "bench tools page", path: () => "/shop/copper-gulch/jobs/5/bench", expect: STAFF_OF_THE_SHOP },
   { name: "shop spec library page", path: () => "/shop/copper-gulch/specs", expect: STAFF_OF_THE_SHOP },
+  // Parts on order across the shop (issue 19): every member of the shop's staff.
+  { name: "parts on order page", path: () => "/shop/copper-gulch/parts", expect: STAFF_OF_THE_SHOP },
   // Customers and machines (issue 16 §4): every member of the shop's staff reads them.
   { name: "customer list page", path: () => "/shop/copper-gulch/customers", expect: STAFF_OF_THE_SHOP },
   { name: "customer page", path: () => `/shop/copper-gulch/customers/${demoCustomer}`, expect: STAFF_OF_THE_SHOP },

@@ -1,6 +1,6 @@
 import { type APIRequestContext, type Page, expect, test } from "@playwright/test";
-import { sql } from "./db";
-import { CUSTOMERS, storageStatePath } from "./personas";
+import { newDemoJob, sql } from "./db";
+import { storageStatePath } from "./personas";
 
 // Issue 15 end to end: the job follows what happens. A fresh job for Ruth Calloway (made in the
 // database: check-in has its own tests) gets a request from the desk; the owner answers it on her
@@ -9,29 +9,6 @@ import { CUSTOMERS, storageStatePath } from "./personas";
 
 const SHOP = "copper-gulch";
 const APP = process.env.APP_URL ?? "http://localhost:3110";
-
-/** A new job in the demo shop, numbered as check-in would, for the demo owner's first machine. */
-async function newJob(): Promise<{ number: number; publicId: string }> {
-  const [shop] = await sql("SELECT id, next_job_number FROM shops WHERE slug = ?", [SHOP]);
-  const number = Number(shop!.next_job_number);
-  await sql("UPDATE shops SET next_job_number = next_job_number + 1 WHERE id = ? AND next_job_number = ?", [shop!.id, number]);
-  const [customer] = await sql("SELECT c.id, m.id AS machine_id FROM customers c JOIN machines m ON m.customer_id = c.id WHERE c.shop_id = ? AND c.email = ? ORDER BY m.id LIMIT 1", [
-    shop!.id,
-    CUSTOMERS.jobCustomer.email,
-  ]);
-  const publicId = `wf${Date.now().toString(36)}`.padEnd(16, "0").slice(0, 16);
-  await sql("INSERT INTO jobs (shop_id, number, public_id, customer_id, machine_id, status, concern) VALUES (?, ?, ?, ?, ?, 'inspecting', ?)", [
-    shop!.id,
-    number,
-    publicId,
-    customer!.id,
-    customer!.machine_id,
-    "Rattle from the top end at idle.",
-  ]);
-  const [job] = await sql("SELECT id FROM jobs WHERE public_id = ?", [publicId]);
-  await sql("INSERT INTO job_status_changes (shop_id, job_id, from_status, to_status, cause) VALUES (?, ?, NULL, 'inspecting', 'manual')", [shop!.id, job!.id]);
-  return { number, publicId };
-}
 
 async function sendRequest(api: APIRequestContext, job: string, title: string) {
   const headers = { origin: APP };
@@ -54,7 +31,7 @@ async function moveTo(page: Page, label: string, extra?: (page: Page) => Promise
 
 test("the owner answers the last request: the board and the inbox show it within 2 s without reload; the owner's page follows ready → collected", async ({ browser }) => {
   test.setTimeout(120_000);
-  const { number, publicId } = await newJob();
+  const { number, publicId } = await newDemoJob("wf", "Rattle from the top end at idle.");
   const title = `Cam chain stretched ${Date.now().toString(36)}`;
 
   const deskContext = await browser.newContext({ storageState: storageStatePath("writer") });

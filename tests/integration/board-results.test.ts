@@ -124,6 +124,11 @@ describe("the indexed board shows what the board showed before", () => {
     }
     await same({ q: surname, status: "picked_up", sort: "customer" });
     expect((await same({ q: "%" })).total).toBe(0);
+    // A search counts its hits on the page it reads; a page past its end still says how many there are.
+    const wide = await same({ q: "sc000", pageSize: "10" });
+    expect(wide.total).toBeGreaterThan(10);
+    const beyond = await same({ q: "sc000", pageSize: "10", page: "200" });
+    expect([beyond.rows.length, beyond.total]).toEqual([0, wide.total]);
   });
 
   it("follows an owner's new name and a job moved to another owner (the triggers keep jobs.customer_name)", async () => {

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { freshDatabase } from "../support/db";
 
-const TABLES = ["shops", "users", "memberships", "customers", "customer_merges", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events", "user_sessions", "shop_setting_changes", "dropoff_authorisations", "staff_invites", "password_resets", "shop_signups"];
+const TABLES = ["shops", "users", "memberships", "customers", "customer_merges", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "teardown_step_revisions", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events", "user_sessions", "shop_setting_changes", "dropoff_authorisations", "staff_invites", "password_resets", "shop_signups", "measurement_sets", "measurement_items", "job_status_counts", "part_orders", "shop_parts_markup"];
 
 describe("migrations on an empty database", () => {
   let fresh: Awaited<ReturnType<typeof freshDatabase>>;
@@ -38,9 +38,19 @@ describe("migrations on an empty database", () => {
     expect(await db.schema.hasColumn("customers", "contact_preference")).toBe(true);
     expect(await db.schema.hasColumn("jobs", "customer_name")).toBe(true);
     expect(await db.schema.hasColumn("jobs", "promised_undated")).toBe(true);
+    expect(await db.schema.hasColumn("job_parts", "finding_line_id")).toBe(true);
+    expect(await db.schema.hasColumn("job_parts", "owner_answer")).toBe(true);
+    expect(await db.schema.hasColumn("approval_requests", "line_ids")).toBe(true);
+    expect(await db.schema.hasColumn("job_parts", "order_id")).toBe(true);
+    expect(await db.schema.hasColumn("job_parts", "core_charge_minor")).toBe(true);
+    expect(await db.schema.hasColumn("job_part_events", "note")).toBe(true);
     expect(await db.schema.hasColumn("torque_records", "tolerance_pct")).toBe(true);
     expect(await db.schema.hasColumn("torque_records", "check_pass_done")).toBe(true);
+    expect(await db.schema.hasColumn("torque_records", "calibrated_on")).toBe(true);
+    expect(await db.schema.hasColumn("torque_records", "angle_stages")).toBe(true);
+    expect(await db.schema.hasColumn("teardown_steps", "torque_one_time")).toBe(true);
     expect(await db.schema.hasColumn("shop_bench_settings", "wrench_class")).toBe(true);
+    expect(await db.schema.hasColumn("readings", "value_decimals")).toBe(true);
   }, 90_000); // every migration from nothing: some 20 s on a busy 2-core machine
 
   it("keep a job's customer and machine in the job's own shop (composite foreign keys)", async () => {
@@ -56,6 +66,15 @@ describe("migrations on an empty database", () => {
     await expect(db("jobs").insert({ shop_id: b, number: 1, public_id: "cccccccccccccccc", customer_id: customerB, machine_id: machineB, concern: "x" })).rejects.toThrow(
       /duplicate entry/i,
     );
+    // The board's per-status counts follow every write to jobs (triggers of migration 29).
+    const counts = async () => Object.fromEntries((await db("job_status_counts").where({ shop_id: b }).where("n", "<>", 0).select("status", "n")).map((r) => [r.status, r.n]));
+    expect(await counts()).toEqual({ checked_in: 1 });
+    await db("jobs").insert({ shop_id: b, number: 2, public_id: "dddddddddddddddd", customer_id: customerB, machine_id: machineB, concern: "y", status: "ready" });
+    await db("jobs").where({ shop_id: b, number: 1 }).update({ status: "in_progress" });
+    expect(await counts()).toEqual({ in_progress: 1, ready: 1 });
+    await db("jobs").where({ shop_id: b, number: 2 }).update({ concern: "z" }); // not a move
+    await db("jobs").where({ shop_id: b, number: 1 }).delete();
+    expect(await counts()).toEqual({ ready: 1 });
   });
 
   it("go down completely, then up again", async () => {

@@ -7,7 +7,7 @@ import path from "node:path";
 import exifr from "exifr";
 import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { deletePhotoRenditions, photoRendition, processPhoto, storePhotoRenditions, variantKey, type StoredPhoto } from "@/lib/server/photos";
+import { PREVIEW_WIDTH, deletePhotoRenditions, photoPreviewDataUri, photoRendition, processPhoto, storePhotoRenditions, variantKey, type StoredPhoto } from "@/lib/server/photos";
 import { LocalDiskStorage } from "@/lib/server/storage";
 
 const FIXTURES = path.resolve(__dirname, "../fixtures/photos");
@@ -40,6 +40,17 @@ describe("photoRendition", () => {
   });
   afterAll(async () => {
     if (dir) await rm(dir, { recursive: true, force: true });
+  });
+
+  it("makes the inline preview a story's cover shows while it loads: a tiny WebP of the same picture", async () => {
+    const uri = await photoPreviewDataUri(large, { store });
+    expect(uri).toMatch(/^data:image\/webp;base64,/);
+    const bytes = Buffer.from(uri!.slice(uri!.indexOf(",") + 1), "base64");
+    const meta = await sharp(bytes).metadata();
+    // The display rendition's 4:3, at the preview's width; a few hundred bytes inside the page.
+    expect([meta.format, meta.width, meta.height]).toEqual(["webp", PREVIEW_WIDTH, 30]);
+    expect(bytes.length).toBeLessThan(2000);
+    expect(await photoPreviewDataUri({ ...large, thumbKey: `${large.key}/missing.jpg` }, { store })).toBeNull();
   });
 
   it("answers the two renditions as they are stored", async () => {

@@ -52,6 +52,11 @@ describe("bench form schemas", () => {
     expect(passPercentsText.parse("30, 60, 100")).toEqual([30, 60, 100]);
     expect(passPercentsText.parse("30 → 60 → 100")).toEqual([30, 60, 100]);
     expect(passPercentsText.safeParse("thirty").success).toBe(false);
+    // Each pass through the one number reader: a decimal takes a point (the comma separates passes).
+    expect(passPercentsText.parse("33.5, 66.5, 100")).toEqual([33.5, 66.5, 100]);
+    const tooFine = passPercentsText.safeParse("33.333, 100");
+    expect(tooFine.success).toBe(false);
+    expect(tooFine.error?.issues[0]?.message).toMatch(/^Pass 1 takes at most 2 decimal places\./);
   });
 
   it("turns blanks into nothing and typos into a message on their own field", () => {

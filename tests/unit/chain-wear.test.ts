@@ -5,14 +5,19 @@ import {
   chainElongation,
   chainVerdict,
   DEFAULT_CHAIN_LIMITS,
+  effectiveChainLimit,
+  fitsOneMorePitch,
   largeSprocketLimitPct,
+  MAX_ELONGATION_PCT,
   replaceLengthMm,
 } from "@/lib/chain-wear";
 import { roundHalfUp } from "@/lib/rounding";
 
 describe("chain pitches", () => {
   it("follow the rule of eighths", () => {
-    // ANSI B29.1 chain numbering: first digit = pitch in ⅛ in; 1 in = 25.4 mm (NIST SP 811)
+    // Motorcycle sizes (420/428/520…) are a chain makers' trade convention, not ANSI B29.1 numbers
+    // (B29.1 numbers chains 40, 50, 60): first digit = pitch in ⅛ in — from memory, unverified.
+    // 1 in = 25.4 mm (NIST SP 811).
     expect(CHAIN_PITCHES["#420"]).toBe(12.7);
     expect(CHAIN_PITCHES["#428"]).toBe(12.7);
     expect(CHAIN_PITCHES["#520"]).toBe(15.875); // REFERENCES §4: #520 = 15.875 mm
@@ -103,5 +108,57 @@ describe("validation", () => {
     const { elongationPct } = chainElongation({ pitchMm: 15.875, pitches: 20, measuredMm: 317.3 });
     expect(elongationPct).toBeLessThan(0);
     expect(chainVerdict(elongationPct, 1.5)).toBe("ok");
+  });
+});
+
+describe("the limit a chain is judged by: the shop's, or 200/N when tighter (REFERENCES §4)", () => {
+  it("80 teeth: 200/80 = 2.5 % replaces a 3 % shop limit, with the reason", () => {
+    // REFERENCES §4 [V]: 200/N with N = 80 → 2.5 %
+    expect(effectiveChainLimit(3, 80)).toEqual({ limitPct: 2.5, reason: "200/N for a large sprocket of 80 teeth: 2.5 %, tighter than 3 %" });
+  });
+
+  it("keeps the shop's limit when it is already tighter, or the sprocket is 67 teeth or fewer", () => {
+    // REFERENCES §4: 200/80 = 2.5 % is looser than a 1.5 % fixed-centres limit
+    expect(effectiveChainLimit(1.5, 80)).toEqual({ limitPct: 1.5, reason: null });
+    // REFERENCES §4: the rule is for large sprockets over 67 teeth; a 45-tooth rear sprocket keeps 3 %
+    expect(effectiveChainLimit(3, 45)).toEqual({ limitPct: 3, reason: null });
+    expect(effectiveChainLimit(3, null)).toEqual({ limitPct: 3, reason: null });
+  });
+
+  it("chainCheck judges by the tighter limit: 2.6 % is within 3 % but due at 200/80 = 2.5 %", () => {
+    // REFERENCES §4: #520, 20 pitches, nominal 317.5 mm; 317.5 × 1.026 = 325.755 mm → 2.6 %
+    const input = { pitchMm: CHAIN_PITCHES["#520"], pitches: 20, measuredMm: 325.755, limitPct: 3 };
+    expect(chainCheck(input)).toMatchObject({ verdict: "ok", limitPct: 3, limitReason: null });
+    const tight = chainCheck({ ...input, sprocketTeeth: 80 });
+    expect(tight).toMatchObject({ verdict: "replace", limitPct: 2.5 });
+    // REFERENCES §4: 2.5 % over 20 × 15.875 mm → 325.4375 mm
+    expect(roundHalfUp(tight.replaceAtMm, 4)).toBe(325.4375);
+  });
+});
+
+describe("plausibility: pitches = pins − 1 and an upper bound", () => {
+  it("refuses a length more than 10 % over new (common trade practice, no published source)", () => {
+    expect(MAX_ELONGATION_PCT).toBe(10);
+    // 20 × 15.875 = 317.5 mm (REFERENCES §4); 317.5 × 1.10 = 349.25 mm is the last length taken
+    expect(chainElongation({ pitchMm: 15.875, pitches: 20, measuredMm: 349.25 }).elongationPct).toBeCloseTo(10, 9);
+    expect(() => chainElongation({ pitchMm: 15.875, pitches: 20, measuredMm: 349.3 })).toThrow(/pitches = pins − 1/);
+    // 22 pitches of a new chain entered as 20: 349.25 + 15.875 = 365.125 mm → 15 %
+    expect(() => chainElongation({ pitchMm: 15.875, pitches: 20, measuredMm: 365.125 })).toThrow(/more than any chain still on a machine stretches/);
+  });
+
+  it("a new chain over 21 pitches entered as 20 reads as 5 % stretched and is flagged as a likely miscount", () => {
+    // REFERENCES §4 formula: 21 × 15.875 = 333.375 mm; over 20 pitches (317.5 mm) that is 5 %
+    const r = chainCheck({ pitchMm: 15.875, pitches: 20, measuredMm: 333.375, limitPct: 3 });
+    expect(roundHalfUp(r.elongationPct, 3)).toBe(5);
+    expect(r).toMatchObject({ verdict: "replace", maybeMiscounted: true });
+    expect(fitsOneMorePitch({ pitchMm: 15.875, pitches: 20, measuredMm: 333.375 }, 3)).toBe(true);
+  });
+
+  it("a worn chain past the limit that does not fit one more pitch is not flagged", () => {
+    // REFERENCES §4: 3 % → 327.025 mm; 328 mm over 20 pitches is 3.31 %, and 5 % short of 21 pitches
+    const r = chainCheck({ pitchMm: 15.875, pitches: 20, measuredMm: 328, limitPct: 3 });
+    expect(r).toMatchObject({ verdict: "replace", maybeMiscounted: false });
+    // within the limit: never asked about, whatever it fits
+    expect(chainCheck({ pitchMm: 15.875, pitches: 20, measuredMm: 320, limitPct: 3 }).maybeMiscounted).toBe(false);
   });
 });

@@ -45,4 +45,11 @@ describe("evaluateReading", () => {
     expect(evaluateReading({ value: 2, min: 2, max: 2 })).toMatchObject({ verdict: "within" });
     expect(evaluateReading({ value: 2.01, min: 2, max: 2 })).toMatchObject({ verdict: "above", marginText: "0.01 over the maximum" });
   });
+
+  it("keeps the typed resolution in the margin: 0.20 against 0.10–0.25 is 0.05, never coarser", () => {
+    // 0.25 − 0.20 = 0.05; with decimals 3 (a 0.001 mm instrument) the margin shows 0.050
+    expect(evaluateReading({ value: 0.2, min: 0.1, max: 0.25, unit: "mm", decimals: 3 }).marginText).toBe("0.050 mm under the maximum");
+    // without decimals, as before: as many decimals as the numbers need
+    expect(evaluateReading({ value: 0.2, min: 0.1, max: 0.25, unit: "mm" }).marginText).toBe("0.05 mm under the maximum");
+  });
 });

@@ -1,5 +1,8 @@
-import { PART_STATUS_LABEL, isPartBody, isReadingBody, isTeardownBody, isTorqueBody, plainNumber, sentenceCase, toleranceOf } from "@/lib/bench";
+import { PART_STATUS_LABEL, isPartBody, isReadingBody, isTeardownBody, isTorqueBody, sentenceCase, toleranceOf } from "@/lib/bench";
+import { readingLine } from "@/lib/reading-text";
+import { isMeasurementSetBody, measurementSetSummary } from "@/lib/measurements";
 import { outcomeText } from "@/lib/torque-check";
+import { anglePiece, fastenerPieces } from "@/lib/torque-special";
 import { JOB_STATUS_LABEL } from "@/lib/job-status";
 import { ENTRY_KIND_LABEL, type EntryKind, isStatusBody } from "@/lib/journal";
 import type { NoteDoc } from "@/lib/rich-text/note";
@@ -29,10 +32,12 @@ export function summarizeEntry(e: { kind: string; body: unknown; caption: string
       if (!isStatusBody(b)) return { label, text: null };
       return { label: "Status", text: `${b.from ? `${JOB_STATUS_LABEL[b.from]} → ` : ""}${JOB_STATUS_LABEL[b.to]}${b.note ? `: ${b.note}` : ""}` };
     case "torque":
-      // The real outcome, flagged when under or over; never "to spec" unless within tolerance.
-      return { label, text: isTorqueBody(b) ? `${b.fastener}: ${sentenceCase(outcomeText({ ...b, tolerancePct: toleranceOf(b) }, b.displayUnit))}` : e.caption };
+      // The real outcome, flagged when under or over; never "to spec" unless within tolerance. Then
+      // angle stages, lubrication, loosen-and-retorque and one-time fasteners when recorded.
+      return { label, text: isTorqueBody(b) ? `${b.fastener}: ${[sentenceCase(outcomeText({ ...b, tolerancePct: toleranceOf(b) }, b.displayUnit)), anglePiece(b), ...fastenerPieces(b)].filter(Boolean).join("; ")}` : e.caption };
     case "reading":
-      return { label, text: isReadingBody(b) ? `${b.label}: ${plainNumber(b.value)}${b.unit ? ` ${b.unit}` : ""}` : e.caption };
+      // Value, limit, source and verdict in one line: never the number alone (lib/reading-text.ts).
+      return { label, text: isReadingBody(b) ? readingLine(b) : isMeasurementSetBody(b) ? measurementSetSummary(b) : e.caption };
     case "teardown":
       return { label, text: isTeardownBody(b) ? `Removed: ${b.removed}` : e.caption };
     case "part":

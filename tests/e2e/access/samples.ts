@@ -67,6 +67,8 @@ const BENCH = "app/(staff)/shop/[shop]/jobs/[number]/bench/actions.ts";
 const INVOICE = "app/(staff)/shop/[shop]/jobs/[number]/invoice/actions.ts";
 const PORTFOLIO = "app/(staff)/shop/[shop]/portfolio/actions.ts";
 const SPECS = "app/(staff)/shop/[shop]/specs/actions.ts";
+const PART_ORDERS = "app/(staff)/shop/[shop]/jobs/[number]/bench/part-order-actions.ts";
+const PARTS_PAGE = "app/(staff)/shop/[shop]/parts/actions.ts";
 const SETTINGS = "app/(staff)/shop/[shop]/settings/actions.ts";
 const INBOX = "app/(staff)/shop/[shop]/inbox/actions.ts";
 const DROPOFF = "app/(staff)/shop/[shop]/jobs/[number]/dropoff-actions.ts";
@@ -100,12 +102,27 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${BENCH}#recordTorqueAction`]: ({ f }) => ({ job: f.job, fastener: "Access test bolt", specValue: "10", unit: "nm" }),
   [`${BENCH}#recordReadingAction`]: ({ f }) => ({ job: f.job, label: "Access test reading", value: "1" }),
   [`${BENCH}#recordChainAction`]: ({ f }) => ({ job: f.job, pitchMm: "15.875", pitches: "20", measuredMm: "318" }),
+  // Measurement sets (issue 18 §5) on the fixture's own job; drafting from a set that doesn't exist: allowed callers get a 404 and nothing is written.
+  ["app/(staff)/shop/[shop]/jobs/[number]/bench/measurement-actions.ts#recordMeasurementSetAction"]: ({ f }) => ({ job: f.job, kind: "leak_down", unit: "%", max: "10", source: "Access test manual p. 1", label0: "Cylinder 1", value0: "4" }),
+  ["app/(staff)/shop/[shop]/jobs/[number]/bench/measurement-actions.ts#draftSetFindingAction"]: ({ f }) => ({ job: f.job, set: NO_ROW }),
   [`${BENCH}#addTeardownStepAction`]: ({ f }) => ({ job: f.job, removed: "Access test cover" }),
+  // No such step: allowed callers get a 404 and nothing is written.
+  [`${BENCH}#editTeardownStepAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, version: "1", removed: "Access test cover" }),
+  [`${BENCH}#deleteTeardownStepAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, version: "1" }),
   [`${BENCH}#setStepTorqueAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, torqueValue: "10", torqueUnit: "nm" }),
   [`${BENCH}#tickStepAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, value: "1" }),
   [`${BENCH}#markReplacedAction`]: ({ f }) => ({ job: f.job, step: NO_ROW, value: "1" }),
   [`${BENCH}#addPartAction`]: ({ f }) => ({ job: f.job, description: "Access test part", status: "received", forWork: "booked" }),
   [`${BENCH}#changePartStatusAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, from: "needed", to: "ordered" }),
+  // Issue 19 ordering: each names a part (or order) no fixture row has, so the allowed call is turned down by the handler.
+  [`${PART_ORDERS}#orderPartsAction`]: ({ f }) => ({ job: f.job, supplier: "Access Supply", orderedOn: "2026-12-01", parts: NO_ROW }),
+  [`${PART_ORDERS}#backOrderAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, expectedOn: "2026-12-20" }),
+  [`${PART_ORDERS}#movePartAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, toJob: String(f.number), thisJob: "needs" }), // its own job: "Choose another job."
+  [`${PART_ORDERS}#coreChargeAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, charge: "25.00" }),
+  [`${PART_ORDERS}#coreReturnedAction`]: ({ f }) => ({ job: f.job, part: NO_ROW }),
+  [`${PART_ORDERS}#specialOrderAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, special: "1" }),
+  [`${PART_ORDERS}#partDepositAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, amount: "120.00" }),
+  [`${PARTS_PAGE}#receiveOrderAction`]: ({ f }) => ({ shop: f.shop, order: NO_ROW }),
   // The job has its live invoice already; the rest name a stale version.
   [`${INVOICE}#createInvoiceAction`]: ({ f }) => ({ job: f.job }),
   [`${INVOICE}#syncAuthorisedAction`]: ({ f }) => invoiceRef(f),
@@ -151,6 +168,7 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${SETTINGS}#saveToleranceAction`]: ({ f }) => ({ shop: f.shop, toleranceKind: "custom", tolerancePercent: "ten" }),
   [`${SETTINGS}#saveDropoffTermsAction`]: ({ f }) => ({ shop: f.shop, dropoffCharge: "lots", dropoffUpTo: "300.00" }),
   [`${SETTINGS}#saveDigestAction`]: ({ f }) => ({ shop: f.shop, digestWindowMinutes: "15" }),
+  [`${SETTINGS}#saveMarkupAction`]: ({ f }) => ({ shop: f.shop, markupKind: "bands", band1UpTo: "ten", band1Percent: "100", topPercent: "35" }),
   [`${SPECS}#saveBenchSettingsAction`]: ({ f }) => ({ shop: f.shop, torqueUnit: "nm", passes: "30, 60, 100", chainLimitPct: "3", clipMaxMinutes: "10", clipMaxGb: "2", ownerWaitDays: "3" }),
   ["app/unsubscribe/[token]/actions.ts#unsubscribeAction"]: () => ({ token: "access-test" }),
   // Staff accounts (issue 16 §3): an invitation to someone already on the staff (409), people and

@@ -15,7 +15,8 @@ export class BenchPage {
 
   /** A step in the teardown log (removal order). */
   teardownStep(removed: string): Locator {
-    return this.section("Teardown log").getByRole("list", { name: "Teardown steps in removal order" }).getByRole("listitem").filter({ hasText: removed });
+    // Direct children only: a step's own history is a list inside it.
+    return this.section("Teardown log").getByRole("list", { name: "Teardown steps in removal order" }).locator(":scope > li").filter({ hasText: removed });
   }
 
   async logStep(removed: string, notes: string, storage?: string) {
@@ -56,7 +57,7 @@ export class BenchPage {
     await expect(item.getByRole("button", { name: `Undo: ${removed}` })).toBeVisible();
   }
 
-  async logTorque(t: { fastener: string; spec: string; unitLabel: string; applied?: string; bolts?: string; share?: boolean }) {
+  async logTorque(t: { fastener: string; spec: string; unitLabel: string; applied?: string; bolts?: string; share?: boolean; angle?: string; angleDone?: boolean; threads?: string; oneTime?: boolean }) {
     const form = this.section("Torque log");
     await form.getByLabel(/^What was torqued/).fill(t.fastener);
     await form.getByLabel(/^Spec torque/).fill(t.spec);
@@ -64,6 +65,11 @@ export class BenchPage {
     await form.getByLabel("Unit", { exact: true }).selectOption({ label: t.unitLabel });
     if (t.applied) await form.getByLabel(/^Applied/).fill(t.applied);
     if (t.bolts) await form.getByLabel("Bolts in the circle (optional)").fill(t.bolts);
+    // Issue 18 §4: angle stages after the torque, the threads, one-time fasteners.
+    if (t.angle) await form.getByLabel("Then turn, degrees").fill(t.angle);
+    if (t.angleDone) await form.getByLabel("Angle stages turned, in order").check();
+    if (t.threads) await form.getByLabel("Threads", { exact: true }).selectOption({ label: t.threads });
+    if (t.oneTime) await form.getByLabel("One-time (torque-to-yield) fasteners: replace with new").check();
     if (t.share) await form.getByLabel("Share with the owner as proof").check();
     await form.getByRole("button", { name: "Log torque" }).click();
     const record = form.getByRole("list", { name: "Torque records" }).getByRole("listitem").filter({ hasText: t.fastener });

@@ -21,6 +21,7 @@ export default async function ShopLayout({ children, params }: { children: React
     { href: `${base}/inbox`, label: "Inbox", badge: <InboxBadge shopSlug={shop.slug} initial={unread} /> },
     ...(can(actor, "job:check-in", here) ? [{ href: `${base}/jobs/new`, label: "Check in" }] : []),
     ...(can(actor, "customer:view", here) ? [{ href: `${base}/customers`, label: "Customers" }] : []),
+    ...(can(actor, "parts:manage", here) ? [{ href: `${base}/parts`, label: "Parts on order" }] : []),
     { href: `${base}/specs`, label: "Shop specs" },
     ...(can(actor, "portfolio:curate", here) ? [{ href: `${base}/portfolio`, label: "Portfolio" }] : []),
     ...(can(actor, "outbox:manage", here) ? [{ href: `${base}/outbox`, label: "Outgoing mail" }] : []),

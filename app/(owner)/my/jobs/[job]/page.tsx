@@ -6,7 +6,8 @@ import { Card, PageHeader } from "@/components/ui";
 import { describeMachine } from "@/lib/machine";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { loadPage } from "@/lib/server/page-access";
-import { shopBySlug } from "@/lib/server/request-cache";
+import { authorisedWorkOf, shopBySlug } from "@/lib/server/request-cache";
+import { ownerPartWaitLines } from "@/lib/server/part-orders";
 import { TIMELINE_PAGE_SIZE } from "@/lib/timeline-paging";
 import { OwnerTimeline } from "./_components/owner-timeline";
 import { LiveJobUpdates } from "@/components/live-updates";
@@ -21,7 +22,6 @@ import { PortfolioConsentNotice } from "./portfolio/_components/consent-notice";
 import { collectedAt, jobFacts } from "@/db/queries/workflow";
 import { ownerStanding } from "@/lib/job-workflow";
 import { shopToday } from "@/lib/jobs-view";
-import { authorisedWork } from "@/lib/server/authorised-work";
 
 export const metadata: Metadata = { title: "Your job" };
 
@@ -39,13 +39,16 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
   // promise too much. The page follows the job live from the newest event before these reads, so
   // nothing that lands while they run is missed.
   const since = await latestEventId();
-  const [shop, timeline, reassembly, facts, collected, work] = await Promise.all([
+  const [shop, timeline, reassembly, facts, collected, work, partWaits] = await Promise.all([
     shopBySlug(job.shopSlug),
     listTimeline({ shopId: job.shopId, jobId: job.id, audience, order: "desc", limit: TIMELINE_PAGE_SIZE }),
     job.status === "in_progress" || job.status === "ready" ? getReassemblyProgress(key) : null,
     jobFacts(key),
     job.status === "picked_up" ? collectedAt(key) : null,
-    audience === "owner" ? authorisedWork(key) : null,
+    audience === "owner" ? authorisedWorkOf(key.shopId, key.jobId) : null,
+    // Parts on the way for cleared work only (approved, or booked in): never work not yet asked
+    // about. The owner only: which parts come says what was approved, and followers see no decisions.
+    audience === "owner" && job.status !== "ready" && job.status !== "picked_up" ? ownerPartWaitLines(key) : [],
   ]);
   const timeZone = shop?.timezone ?? "UTC";
   const standing = ownerStanding({
@@ -80,6 +83,11 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
           </p>
           {standing.lines.map((line) => (
             <p key={line}>{line}</p>
+          ))}
+          {partWaits.map((line) => (
+            <p key={line} data-testid="part-wait">
+              {line}
+            </p>
           ))}
         </div>
       </Card>

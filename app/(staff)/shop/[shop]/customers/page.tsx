@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { ChevronLeft, ChevronRight, Search, Users } from "lucide-react";
-import { Alert, Button, ButtonLink, Card, EmptyState, Field, Input, PageHeader, TBody, TD, TH, THead, TR, Table } from "@/components/ui";
+import { Search, Users } from "lucide-react";
+import { Alert, Button, Card, EmptyState, Field, Input, LinkPagination, PageHeader, TBody, TD, TH, THead, TR, Table } from "@/components/ui";
 import { listCustomers } from "@/db/queries/customers";
 import { CONTACT_PREFERENCE_LABEL } from "@/lib/customers";
 import { describeMachine } from "@/lib/machine";
@@ -109,26 +109,12 @@ export default async function CustomersPage({ params, searchParams }: { params: 
         </>
       )}
 
-      <nav aria-label="Pages" className="flex items-center justify-between gap-3">
-        {list.page > 1 ? (
-          <ButtonLink variant="secondary" href={pageHref(list.page - 1)} icon={<ChevronLeft aria-hidden className="size-5" />}>
-            Previous
-          </ButtonLink>
-        ) : (
-          <span />
-        )}
-        <p className="text-center text-sm text-ink-muted">
-          Page {Math.min(list.page, list.pageCount)} of {list.pageCount} · {list.total.toLocaleString("en")} {list.total === 1 ? "customer" : "customers"}
-        </p>
-        {list.page < list.pageCount ? (
-          <ButtonLink variant="secondary" href={pageHref(list.page + 1)}>
-            Next
-            <ChevronRight aria-hidden className="size-5" />
-          </ButtonLink>
-        ) : (
-          <span />
-        )}
-      </nav>
+      <LinkPagination
+        page={list.page}
+        hasNext={list.page < list.pageCount}
+        href={pageHref}
+        label={`Page ${Math.min(list.page, list.pageCount)} of ${list.pageCount} · ${list.total.toLocaleString("en")} ${list.total === 1 ? "customer" : "customers"}`}
+      />
     </div>
   );
 }

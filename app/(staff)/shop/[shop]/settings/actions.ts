@@ -13,6 +13,8 @@ import {
   toleranceSettingsSchema,
 } from "@/lib/schemas/shop-settings";
 import { dropPublicPages } from "@/lib/server/portfolio-cache";
+import { markupSettingsSchema } from "@/lib/schemas/parts-pricing";
+import { saveMarkup } from "@/lib/server/part-pricing";
 import { saveDigest, saveDropoffTerms, saveHours, saveLabour, saveProfile, saveRegion, saveSupplies, saveTax, saveTolerance } from "@/lib/server/shop-settings";
 
 // The shop settings page's forms, one per section: zod → lib/server/shop-settings (the shop named
@@ -68,5 +70,10 @@ export const saveDropoffTermsAction = formAction({ input: dropoffSettingsSchema,
 
 export const saveDigestAction = formAction({ input: digestSettingsSchema, ...owner }, async ({ input, actor, found }) => {
   refresh((await saveDigest(actor, found, input)).shop.slug);
+  return { saved: true };
+});
+
+export const saveMarkupAction = formAction({ input: markupSettingsSchema, ...owner }, async ({ input, actor, found }) => {
+  refresh((await saveMarkup(actor, found, input)).shop.slug);
   return { saved: true };
 });

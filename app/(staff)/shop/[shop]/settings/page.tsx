@@ -10,6 +10,9 @@ import { shopPageAccess } from "../shop-access";
 import { SettingsForm as BenchSettingsForm } from "../specs/_components/settings-form";
 import { DropoffTermsForm, LabourForm, SuppliesForm, TaxForm, ToleranceForm } from "./_components/money-forms";
 import { DigestForm, HoursForm, ProfileForm, RegionForm } from "./_components/profile-forms";
+import { MarkupForm } from "./_components/markup-form";
+import { getMarkupRule } from "@/db/queries/parts-pricing";
+import { markupFormValues } from "@/lib/server/part-pricing";
 
 export const metadata: Metadata = { title: "Shop settings" };
 
@@ -19,7 +22,12 @@ const when = (iso: string, timeZone: string) => new Intl.DateTimeFormat("en-US",
 export default async function SettingsPage({ params }: { params: Promise<{ shop: string }> }) {
   const { shop: slug } = await params;
   const { shop } = await shopPageAccess(slug, "shop:manage-settings", `/shop/${slug}/settings`);
-  const [{ row, money, named, dropoff, changes }, bench, clipLimits] = await Promise.all([settingsPageData(shop.id), getBenchSettings({ shopId: shop.id }), getClipLimits({ shopId: shop.id })]);
+  const [{ row, money, named, dropoff, changes }, bench, clipLimits, markup] = await Promise.all([
+    settingsPageData(shop.id),
+    getBenchSettings({ shopId: shop.id }),
+    getClipLimits({ shopId: shop.id }),
+    getMarkupRule({ shopId: shop.id }),
+  ]);
   const c = row.currency;
   const t = money.tolerance;
   const own = (kind: "labour" | "fee" | "supplies") => (money.tax.kindRates?.[kind] != null ? trimPercent(money.tax.kindRates[kind]!) : "");
@@ -55,6 +63,12 @@ export default async function SettingsPage({ params }: { params: Promise<{ shop:
           currency={c}
           supplies={{ percent: money.supplies ? trimPercent(money.supplies.percent) : "", base: money.supplies?.base ?? "labour", cap: minorToInput(money.supplies?.capMinor, c), taxable: money.supplies?.taxable ?? false }}
         />,
+      )}
+      {section(
+        "settings-markup",
+        "Parts markup",
+        "The sell price a part line starts at when the desk types its cost. The owner only ever sees the sell price.",
+        <MarkupForm shopSlug={shop.slug} currency={c} markup={markupFormValues(markup, c)} />,
       )}
       {section(
         "settings-tolerance",

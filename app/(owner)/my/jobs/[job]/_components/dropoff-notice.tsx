@@ -1,9 +1,9 @@
 import { FileSignature } from "lucide-react";
-import { getDropoff } from "@/db/queries/dropoff";
 import { ButtonLink } from "@/components/ui";
 import { formatWhen } from "@/components/invoices/authorisation-record";
 import { formatMoney } from "@/lib/money";
 import { type Actor, type Resource, can } from "@/lib/permissions";
+import { authorisedWorkOf } from "@/lib/server/request-cache";
 
 /**
  * The owner's job page: the drop-off authorisation to sign, or what they signed and when.
@@ -11,7 +11,8 @@ import { type Actor, type Resource, can } from "@/lib/permissions";
  */
 export async function DropoffNotice({ actor, job, resource, timeZone }: { actor: Actor; job: { id: number; shopId: number; publicId: string }; resource: Resource; timeZone: string }) {
   if (!can(actor, "money:view", resource)) return null;
-  const dropoff = await getDropoff({ shopId: job.shopId, jobId: job.id });
+  // Read with the rest of what the owner authorised: the page reads that once (request cache).
+  const { dropoff } = await authorisedWorkOf(job.shopId, job.id);
   if (!dropoff) return null;
   const href = `/my/jobs/${job.publicId}/authorisation`;
   const upTo = formatMoney(dropoff.authorisedUpToMinor, dropoff.currency);

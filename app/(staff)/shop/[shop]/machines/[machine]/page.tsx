@@ -1,12 +1,16 @@
 import type { Metadata } from "next";
 import { Card, Caution, PageHeader, TBody, TD, TH, THead, TR, Table } from "@/components/ui";
 import { getMachineHistory } from "@/db/queries/machines";
+import { listMachineMeasurements } from "@/db/queries/measurements";
+import { groupTrends } from "@/lib/measurement-trends";
 import { PART_STATUS_LABEL, plainNumber, torqueText } from "@/lib/bench";
 import { MACHINE_KIND_LABEL, describeMachine } from "@/lib/machine";
+import { atResolution } from "@/lib/reading-text";
 import { formatMoney, formatQuantity } from "@/lib/money";
 import { can } from "@/lib/permissions";
 import { loadPage } from "@/lib/server/page-access";
 import { JobLink, JobsTable } from "../../customers/_components/jobs-table";
+import { MeasurementTrends } from "./_components/measurement-trends";
 import { ReadingTrend } from "./_components/reading-trend";
 import { TorqueOutcomeBadge } from "@/components/bench/torque-outcome";
 
@@ -23,10 +27,8 @@ const VERDICT_TEXT = {
 export default async function MachinePage({ params }: { params: Promise<{ shop: string; machine: string }> }) {
   const { shop: slug, machine: id } = await params;
   const { actor, shop, machine } = await loadPage("machine", { shop: slug, machine: id }, "customer:view", `/shop/${slug}/machines/${id}`);
-  const history = await getMachineHistory({
-    shopId: shop.id,
-    machineId: machine.id,
-  });
+  const [history, measured] = await Promise.all([getMachineHistory({ shopId: shop.id, machineId: machine.id }), listMachineMeasurements({ shopId: shop.id, machineId: machine.id })]);
+  const trends = groupTrends(measured);
   const mayViewMoney = can(actor, "money:view", { shopId: shop.id });
   const currency = mayViewMoney ? shop.currency : null;
   const base = `/shop/${shop.slug}`;
@@ -89,7 +91,7 @@ export default async function MachinePage({ params }: { params: Promise<{ shop: 
                       <TR key={r.id}>
                         <TD className="whitespace-nowrap">{day.format(r.at)}</TD>
                         <TD className="whitespace-nowrap">
-                          {plainNumber(r.value)}
+                          {atResolution(r.value, r.valueDecimals)}
                           {r.unit ? ` ${r.unit}` : ""}
                         </TD>
                         <TD>{VERDICT_TEXT[r.verdict]}</TD>
@@ -102,6 +104,10 @@ export default async function MachinePage({ params }: { params: Promise<{ shop: 
             ))}
           </div>
         )}
+      </Card>
+
+      <Card as="section" title="Measurements across jobs" headingId="machine-measurements" description="The same valve, plate, disc or cylinder from the measurement sets of each job, with the limit it was judged by.">
+        <MeasurementTrends trends={trends} shopSlug={shop.slug} timeZone={shop.timezone} />
       </Card>
 
       <Card as="section" title="Parts fitted" headingId="machine-parts" description="Parts received for or fitted to this machine.">

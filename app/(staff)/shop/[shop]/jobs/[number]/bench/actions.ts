@@ -8,11 +8,14 @@ import {
   readingSchema,
   stepFlagSchema,
   stepTorqueSchema,
+  teardownDeleteSchema,
+  teardownEditSchema,
   teardownStepSchema,
   torqueRecordSchema,
 } from "@/lib/schemas/bench";
 import { addTeardownStep, markStepReplaced, recordChainReading, recordReading, recordTorque, setTeardownTorque, tickTeardownStep } from "@/lib/server/bench";
 import { addJobPart, changeJobPartStatus } from "@/lib/server/bench-parts";
+import { deleteTeardownStep, editTeardownStep } from "@/lib/server/teardown-edit";
 
 // The bench page's forms. Each one: zod schema and the job it names, authorised by its declaration
 // → lib/server/bench (checks with the domain modules, writes the row and its entry together) →
@@ -45,6 +48,19 @@ export const addTeardownStepAction = formAction({ input: teardownStepSchema, res
   const made = await addTeardownStep(actor, found, input);
   refresh(made.job);
   return { id: made.id, seq: made.seq };
+});
+
+// Issue 18 §7: a logged step changes with a trail (the step as it was, who, when); refused once collected.
+export const editTeardownStepAction = formAction({ input: teardownEditSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {
+  const made = await editTeardownStep(actor, found, input);
+  refresh(made.job);
+  return { step: input.step, version: made.version };
+});
+
+export const deleteTeardownStepAction = formAction({ input: teardownDeleteSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {
+  const made = await deleteTeardownStep(actor, found, input);
+  refresh(made.job);
+  return { step: input.step, jobMovedTo: made.jobMovedTo };
 });
 
 export const setStepTorqueAction = formAction({ input: stepTorqueSchema, resource: "job", permission: "bench:record" }, async ({ input, actor, found }) => {

@@ -5,6 +5,9 @@ import { getBenchSettings, listJobPhotos, listReadings, listTeardownSteps, listT
 import { listParts } from "@/db/queries/bench-parts";
 import { listFindingClearance } from "@/db/queries/workflow";
 import { listSpecs } from "@/db/queries/bench-specs";
+import { listMeasurementSets } from "@/db/queries/measurements";
+import { listTeardownRevisions } from "@/db/queries/teardown-history";
+import { nextStepSeq } from "@/lib/teardown-history";
 import { CAUTIONS, type CautionKey } from "@/lib/cautions";
 import { describeMachine } from "@/lib/machine";
 import { can } from "@/lib/permissions";
@@ -12,6 +15,9 @@ import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
 import { isTorqueUnit } from "@/lib/torque";
 import { staffJobPage } from "@/lib/server/page-access";
 import { PartsSection } from "./_components/parts-section";
+import { shopToday } from "@/lib/jobs-view";
+import { PartOrdering } from "./_components/part-ordering";
+import { MeasurementsSection } from "./_components/measurements-section";
 import { ReadingsSection } from "./_components/readings-section";
 import { ReassemblySection } from "./_components/reassembly-section";
 import { TeardownSection } from "./_components/teardown-section";
@@ -27,6 +33,7 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
 const SECTIONS = [
   ["#torque", "Torque"],
   ["#readings", "Readings"],
+  ["#measurements", "Measurement sets"],
   ["#teardown", "Teardown"],
   ["#reassembly", "Reassembly"],
   ["#parts", "Parts"],
@@ -41,7 +48,7 @@ export default async function BenchPage({ params }: Props) {
   const { actor, shop, job, resource } = await staffJobPage(slug, number, "journal:view-shop-only", "/bench");
 
   const key = { shopId: shop.id, jobId: job.id };
-  const [settings, records, readings, steps, parts, specs, photos, findings] = await Promise.all([
+  const [settings, records, readings, steps, parts, specs, photos, findings, revisions, measurementSets] = await Promise.all([
     getBenchSettings({ shopId: shop.id }),
     listTorqueRecords(key),
     listReadings(key),
@@ -50,6 +57,8 @@ export default async function BenchPage({ params }: Props) {
     listSpecs({ shopId: shop.id, make: job.machine.make, model: job.machine.model }),
     listJobPhotos(key),
     listFindingClearance(key),
+    listTeardownRevisions(key),
+    listMeasurementSets(key),
   ]);
   const torqueSpecs = specs.flatMap((s) =>
     s.kind === "torque" && s.value != null && s.unit && isTorqueUnit(s.unit) ? [{ id: s.id, label: s.label, value: s.value, unit: s.unit, boltCount: s.boltCount, source: s.source }] : [],
@@ -100,9 +109,23 @@ export default async function BenchPage({ params }: Props) {
         mayModerate={can(actor, "journal:moderate", resource)}
       />
       <ReadingsSection jobPublicId={job.publicId} currency={shop.currency} readings={readings} specs={limitSpecs} chainLimitPct={settings.chainLimitPct} timeZone={shop.timezone} mayRecord={mayRecord} />
-      <TeardownSection jobPublicId={job.publicId} currency={shop.currency} steps={steps} photos={photos} shopUnit={settings.torqueUnit} mayRecord={mayRecord} />
+      <MeasurementsSection jobPublicId={job.publicId} currency={shop.currency} sets={measurementSets} timeZone={shop.timezone} mayRecord={mayRecord} mayDraft={can(actor, "approvals:draft", resource)} />
+      <TeardownSection
+        jobPublicId={job.publicId}
+        currency={shop.currency}
+        steps={steps}
+        photos={photos}
+        shopUnit={settings.torqueUnit}
+        mayRecord={mayRecord}
+        revisions={revisions}
+        timeZone={shop.timezone}
+        nextSeq={nextStepSeq(steps, revisions)}
+      />
       <ReassemblySection jobPublicId={job.publicId} steps={steps} passPercents={settings.passPercents} shopUnit={settings.torqueUnit} timeZone={shop.timezone} mayRecord={mayRecord} />
       <PartsSection jobPublicId={job.publicId} parts={parts} currency={shop.currency} timeZone={shop.timezone} mayManage={can(actor, "parts:manage", resource)} findings={findings} />
+      {can(actor, "parts:manage", resource) ? (
+        <PartOrdering jobPublicId={job.publicId} shopId={shop.id} jobId={job.id} parts={parts} currency={shop.currency} today={shopToday(shop.timezone)} mayMoney={can(actor, "invoice:create", resource)} />
+      ) : null}
     </div>
   );
 }

@@ -4,6 +4,7 @@ import { InvoiceDocument } from "@/components/invoices/invoice-document";
 import { InvoiceActions } from "@/components/invoices/invoice-actions";
 import { Alert, Card, EmptyState, PageHeader } from "@/components/ui";
 import { amountText } from "@/lib/invoices";
+import { PART_STATUS_LABEL } from "@/lib/bench";
 import { formatMoney } from "@/lib/money";
 import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
@@ -46,6 +47,11 @@ export default async function StaffInvoicePage({ params }: Props) {
         </Alert>
       ) : null}
 
+      {view.partsNotFitted.length > 0 && (!inv || inv.status === "draft") ? (
+        <Alert tone="info" title="Parts not billed yet">
+          {view.partsNotFitted.map((p) => `${p.description} (${PART_STATUS_LABEL[p.status].toLowerCase()})`).join(", ")}: approved, but a part is billed only once it is fitted. Mark it fitted on the bench page, then bring it onto the invoice.
+        </Alert>
+      ) : null}
       {!inv ? (
         <Card as="section" title="No invoice yet" headingId="no-invoice">
           <div className="space-y-4">

@@ -15,10 +15,10 @@ function num(s: string, style: NumberStyle): number | null {
   return r.ok ? r.value : null;
 }
 
-function preview(pitchMm: number | null, pitches: number | null, measuredMm: number | null, limitPct: number | null) {
+function preview(pitchMm: number | null, pitches: number | null, measuredMm: number | null, limitPct: number | null, sprocketTeeth: number | null) {
   if (!pitchMm || !pitches || !measuredMm || !limitPct || !Number.isInteger(pitches)) return null;
   try {
-    return chainCheck({ pitchMm, pitches, measuredMm, limitPct });
+    return chainCheck({ pitchMm, pitches, measuredMm, limitPct, sprocketTeeth: sprocketTeeth && Number.isInteger(sprocketTeeth) ? sprocketTeeth : null });
   } catch (e) {
     return (e as Error).message;
   }
@@ -34,7 +34,8 @@ export function ChainForm({ jobPublicId, currency, defaultLimitPct }: { jobPubli
   const [pitches, setPitches] = useState("20");
   const [measured, setMeasured] = useState("");
   const [limit, setLimit] = useState(formatNumberInput(defaultLimitPct, style));
-  const result = preview(num(pitch, style), num(pitches, style), num(measured, style), num(limit, style));
+  const [teeth, setTeeth] = useState("");
+  const result = preview(num(pitch, style), num(pitches, style), num(measured, style), num(limit, style), num(teeth, style));
 
   return (
     <form action={form.formAction} className="space-y-4">
@@ -67,7 +68,7 @@ export function ChainForm({ jobPublicId, currency, defaultLimitPct }: { jobPubli
               setSize("");
             }} maxLength={10} />
         </Field>
-        <Field id="chain-pitches" label="Pitches measured" error={fieldError("pitches")} required>
+        <Field id="chain-pitches" label="Pitches measured" hint="Pitches = pins − 1: 21 pins span 20 pitches." error={fieldError("pitches")} required>
           <Input name="pitches" inputMode="numeric" value={pitches} onChange={(e) => setPitches(e.target.value)} maxLength={3} />
         </Field>
         <Field id="chain-measured" label="Measured length (mm)" error={fieldError("measuredMm")} required>
@@ -77,9 +78,21 @@ export function ChainForm({ jobPublicId, currency, defaultLimitPct }: { jobPubli
       <Field id="chain-limit" label="Replace at (% stretch)" hint="The shop's default; the maker's service limit for this chain wins." error={fieldError("limitPct")}>
         <Input name="limitPct" inputMode="decimal" value={limit} onChange={(e) => setLimit(e.target.value)} maxLength={6} />
       </Field>
+      <Field
+        id="chain-teeth"
+        label="Large sprocket teeth (optional)"
+        hint="Over 67 teeth the limit tightens to 200 ÷ teeth % when that is smaller."
+        error={fieldError("sprocketTeeth")}
+      >
+        <Input name="sprocketTeeth" inputMode="numeric" value={teeth} onChange={(e) => setTeeth(e.target.value)} maxLength={3} />
+      </Field>
       <Field id="chain-source" label="Where the limit comes from (optional)" error={fieldError("source")}>
         <Input name="source" maxLength={200} />
       </Field>
+      <label className="flex min-h-tap items-center gap-3">
+        <input type="checkbox" name="countChecked" className="size-6 accent-oil" />
+        <span>Pitch count checked (tick if asked to recount and the count is right)</span>
+      </label>
       <div aria-live="polite" className="min-h-tap">
         {typeof result === "string" ? (
           <p className="text-rust">{result}</p>
@@ -88,6 +101,8 @@ export function ChainForm({ jobPublicId, currency, defaultLimitPct }: { jobPubli
             <span className="font-semibold">Stretch {formatFixed(result.elongationPct, 2)} %</span>
             <ReadingVerdictBadge verdict={result.verdict === "replace" ? "above" : "within"} />
             <span className="text-ink-muted">New: {formatFixed(result.nominalMm, 2)} mm · replace at {formatFixed(result.replaceAtMm, 2)} mm</span>
+            {result.limitReason ? <span className="w-full text-ink-muted">Limit {result.limitReason}.</span> : null}
+            {result.maybeMiscounted ? <span className="w-full text-rust">This length fits one pitch more within the limit: count the pitches again (pins − 1).</span> : null}
           </p>
         ) : null}
       </div>

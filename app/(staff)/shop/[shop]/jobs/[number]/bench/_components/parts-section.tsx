@@ -12,6 +12,12 @@ type Props = { jobPublicId: string; parts: PartRow[]; currency: string; timeZone
 
 /** What the part is for, and whether it can wait the job yet. */
 function forWhat(p: PartRow, findings: FindingClearance[]): string {
+  // A part from a priced finding line follows the owner's answer to that line (issue 19).
+  const title = findings.find((x) => x.id === p.findingId)?.title;
+  const line = title ? `the line on “${title}”` : "its finding line";
+  if (p.ownerAnswer === "pending") return `Proposed on ${line}: doesn't hold the job until the owner approves it`;
+  if (p.ownerAnswer === "approved") return `For ${line} (approved)`;
+  if (p.ownerAnswer === "declined") return `Declined by owner on ${line}: not ordered, never on the invoice`;
   if (p.noOkNeeded) return "For the booked work";
   const f = findings.find((x) => x.id === p.findingId);
   if (!f) return "For work not named";
@@ -20,7 +26,8 @@ function forWhat(p: PartRow, findings: FindingClearance[]): string {
 
 /** Parts on the job with their status, expected date and history; costs stay on this staff page. */
 export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage, findings }: Props) {
-  const waiting = parts.filter((p) => isOutstanding(p.status)).length;
+  // Proposed and declined parts aren't awaited (issue 19).
+  const waiting = parts.filter((p) => isOutstanding(p.status) && (p.ownerAnswer === null || p.ownerAnswer === "approved")).length;
   return (
     <Card
       as="section"
@@ -38,12 +45,18 @@ export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage
               <li key={p.id} className="space-y-2 rounded-lg border border-line p-3">
                 <p className="flex flex-wrap items-center gap-2">
                   <span className="font-semibold text-ink">{p.description}</span>
-                  <Badge tone={isOutstanding(p.status) ? "signal" : "moss"} icon={Package}>
-                    {PART_STATUS_LABEL[p.status]}
-                  </Badge>
+                  {p.ownerAnswer === "declined" ? (
+                    <Badge tone="rust" icon={Package}>
+                      Declined by owner
+                    </Badge>
+                  ) : (
+                    <Badge tone={isOutstanding(p.status) ? "signal" : "moss"} icon={Package}>
+                      {p.ownerAnswer === "pending" ? `Proposed · ${PART_STATUS_LABEL[p.status]}` : PART_STATUS_LABEL[p.status]}
+                    </Badge>
+                  )}
                 </p>
                 <p className="text-sm text-ink-muted">
-                  {[p.partNumber, `qty ${formatQuantity(p.qtyThousandths)}`, p.supplier, p.costMinor != null ? `${formatMoney(p.costMinor, currency)} each` : null].filter(Boolean).join(" · ")}
+                  {[p.partNumber, `qty ${formatQuantity(p.qtyThousandths)}`, p.supplier, p.costMinor != null ? `${formatMoney(p.costMinor, currency)} each` : null, p.sellMinor != null ? `sells at ${formatMoney(p.sellMinor, currency)}` : null].filter(Boolean).join(" · ")}
                 </p>
                 <p className="text-sm text-ink">{forWhat(p, findings)}</p>
                 {p.expectedOn && isOutstanding(p.status) ? <p>Expected {p.expectedOn}</p> : null}
@@ -58,7 +71,8 @@ export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage
                     ))}
                   </ol>
                 </details>
-                {mayManage ? <PartStatusForm jobPublicId={jobPublicId} partId={p.id} status={p.status} description={p.description} /> : null}
+                {p.priceReason ? <p className="text-sm text-ink-muted">Price set by hand: {p.priceReason}</p> : null}
+                {mayManage && p.ownerAnswer !== "declined" ? <PartStatusForm jobPublicId={jobPublicId} partId={p.id} status={p.status} description={p.description} /> : null}
               </li>
             ))}
           </ul>

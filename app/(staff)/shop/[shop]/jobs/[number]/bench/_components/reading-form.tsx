@@ -46,7 +46,7 @@ export function ReadingForm({ jobPublicId, currency, specs }: { jobPublicId: str
         <Input name="label" value={f.label} onChange={set("label")} maxLength={200} />
       </Field>
       <div className="grid grid-cols-2 gap-3">
-        <Field id="reading-value" label="Reading" error={fieldError("value")} required>
+        <Field id="reading-value" label="Reading" hint="As the instrument shows it: “0.20” keeps its last zero." error={fieldError("value")} required>
           <Input name="value" inputMode="decimal" autoComplete="off" defaultValue={values?.value} maxLength={16} />
         </Field>
         <Field id="reading-unit" label="Unit (optional)" error={fieldError("unit")}>

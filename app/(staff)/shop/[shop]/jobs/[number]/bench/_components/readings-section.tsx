@@ -2,8 +2,8 @@ import { FilePenLine, Gauge } from "lucide-react";
 import { ReadingVerdictBadge, isOutOfLimit } from "@/components/bench/reading-verdict";
 import { ButtonLink, Card, EmptyState } from "@/components/ui";
 import type { ReadingRow } from "@/db/queries/bench";
-import { limitText, plainNumber, sentenceCase } from "@/lib/bench";
-import { evaluateReading } from "@/lib/readings";
+import { plainNumber, sentenceCase } from "@/lib/bench";
+import { limitNotes, readingLimitText, readingMarginText, readingValueText } from "@/lib/reading-text";
 import { ChainForm } from "./chain-form";
 import { ReadingForm, type LimitSpecOption } from "./reading-form";
 import { whenText } from "./when";
@@ -11,8 +11,7 @@ import { whenText } from "./when";
 type Props = { jobPublicId: string; /** Numbers are typed in the convention of the shop's currency (lib/number-input.ts). */ currency: string; readings: ReadingRow[]; specs: LimitSpecOption[]; chainLimitPct: number; timeZone: string; mayRecord: boolean };
 
 function marginOf(r: ReadingRow): string | null {
-  if (r.chain) return null;
-  const text = evaluateReading(r).marginText;
+  const text = readingMarginText(r);
   return text ? sentenceCase(text) : null;
 }
 
@@ -38,14 +37,13 @@ export function ReadingsSection({ jobPublicId, currency, readings, specs, chainL
         ) : (
           <ul className="space-y-3" aria-label="Readings">
             {readings.map((r) => {
-              const limit = limitText(r);
+              const limit = readingLimitText(r);
               const margin = marginOf(r);
               return (
                 <li key={r.id} className="space-y-2 rounded-lg border border-line p-3">
                   <p className="flex flex-wrap items-center gap-2">
                     <span className="font-semibold text-ink">
-                      {r.label}: {plainNumber(r.value)}
-                      {r.unit ? ` ${r.unit}` : ""}
+                      {r.label}: {readingValueText(r)}
                     </span>
                     <ReadingVerdictBadge verdict={r.verdict} />
                   </p>
@@ -58,7 +56,7 @@ export function ReadingsSection({ jobPublicId, currency, readings, specs, chainL
                   {limit ? (
                     <p className="text-sm text-ink-muted">
                       Limit {limit}
-                      {r.source ? ` (${r.source})` : ""}
+                      {limitNotes(r)}
                     </p>
                   ) : null}
                   <p className="text-sm text-ink-muted">

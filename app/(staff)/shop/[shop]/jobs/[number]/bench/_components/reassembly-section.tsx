@@ -1,13 +1,16 @@
-import { ListChecks, Sparkles, SquareCheck, Undo2 } from "lucide-react";
+import { ListChecks, Sparkles, SquareCheck, TriangleExclamationPoint, Undo2 } from "lucide-react";
 import { BoltPattern } from "@/components/bench/bolt-pattern";
 import { PassTable, TorqueValue } from "@/components/bench/torque-value";
 import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
-import { Badge, Card, EmptyState } from "@/components/ui";
+import { Badge, Card, Caution, EmptyState } from "@/components/ui";
 import type { TeardownRow } from "@/db/queries/bench";
 import { checklistFromSteps } from "@/lib/bench";
+import { checklistCautions } from "@/lib/checklist-cautions";
+import { CAUTIONS } from "@/lib/cautions";
 import { photoUrl } from "@/lib/journal";
 import { checklistProgress } from "@/lib/reassembly";
 import type { TorqueUnit } from "@/lib/torque";
+import { REPLACE_WITH_NEW, stepTorqueNote } from "@/lib/torque-special";
 import { markReplacedAction, tickStepAction } from "../actions";
 import { ActionButton } from "@/components/bench/action-form";
 import { whenText } from "./when";
@@ -33,6 +36,7 @@ export function ReassemblySection({ jobPublicId, steps, passPercents, shopUnit, 
             {items.map((item) => {
               const step = byId.get(Number(item.id))!;
               const size = [item.count ? `${item.count} ×` : null, item.size].filter(Boolean).join(" ");
+              const cautions = checklistCautions(item);
               return (
                 <li key={item.id}>
                   <Card as="article" className={step.checked ? "border-moss" : undefined}>
@@ -47,12 +51,18 @@ export function ReassemblySection({ jobPublicId, steps, passPercents, shopUnit, 
                             Done
                           </Badge>
                         ) : null}
+                        {item.replaceWithNew ? (
+                          <Badge tone="rust" icon={TriangleExclamationPoint}>
+                            Replace with new
+                          </Badge>
+                        ) : null}
                         {step.replacedNew ? (
                           <Badge tone="dusk" icon={Sparkles}>
                             Replaced with new
                           </Badge>
                         ) : null}
                       </p>
+                      {item.replaceWithNew ? <p className="font-semibold text-ink">{REPLACE_WITH_NEW}.</p> : null}
                       {item.notes ? <p className="whitespace-pre-line">{item.notes}</p> : null}
                       {item.storage ? <p className="text-sm text-ink-muted">Kept in: {item.storage}</p> : null}
                       {item.photoIds.length ? (
@@ -62,9 +72,21 @@ export function ReassemblySection({ jobPublicId, steps, passPercents, shopUnit, 
                       {item.torque ? (
                         <div className="space-y-3 rounded-lg bg-sunken p-3">
                           <TorqueValue value={item.torque.value} unit={item.torque.unit} displayUnit={shopUnit} />
+                          {stepTorqueNote({ ...item.torque, oneTime: false }) ? <p>{stepTorqueNote({ ...item.torque, oneTime: false })}</p> : null}
                           <PassTable value={item.torque.value} unit={item.torque.unit} displayUnit={shopUnit} passPercents={passPercents} label={`Pass schedule: ${item.removed}`} />
                           {item.torque.tighteningOrder && item.torque.boltCount ? <BoltPattern count={item.torque.boltCount} order={item.torque.tighteningOrder} size={240} /> : null}
                         </div>
+                      ) : null}
+                      {cautions.length ? (
+                        <Caution title={cautions.length === 1 ? CAUTIONS[cautions[0]!].title : "Safety cautions"} className="text-sm">
+                          {/* Paragraphs, not a list: the checklist's items stay the only list items in it. */}
+                          {cautions.map((k) => (
+                            <p key={k}>
+                              {cautions.length > 1 ? <strong>{CAUTIONS[k].title}: </strong> : null}
+                              {CAUTIONS[k].text}
+                            </p>
+                          ))}
+                        </Caution>
                       ) : null}
                       {step.checked ? (
                         <p className="text-sm text-ink-muted">

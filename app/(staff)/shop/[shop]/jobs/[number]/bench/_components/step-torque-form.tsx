@@ -1,18 +1,34 @@
 "use client";
+import { useState } from "react";
+import { PlausibilityConfirm } from "@/components/bench/plausibility-confirm";
+import { TorqueUnitOptions } from "@/components/bench/torque-unit-options";
 import { Button, Field, Input, Select } from "@/components/ui";
-import { formatNumberInput, numberStyleFor } from "@/lib/number-input";
-import { TORQUE_UNITS, type TorqueUnit } from "@/lib/torque";
+import type { StepTorque } from "@/lib/bench";
+import { formatNumberInput, numberStyleFor, parseNumberInput } from "@/lib/number-input";
+import { type TorqueUnit, isTorqueUnit } from "@/lib/torque";
+import { LUBRICATIONS, LUBRICATION_LABEL, angleText, parseAngleStages, torqueAngleWarning } from "@/lib/torque-special";
 import { setStepTorqueAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 
-type Current = { value: number; unit: TorqueUnit; boltCount: number | null } | null;
+type Current = StepTorque | null;
 
-/** The torque a teardown step's fasteners go back on with; shown on the reassembly checklist. */
-export function StepTorqueForm({ jobPublicId, currency, stepId, current, shopUnit }: { jobPublicId: string; currency: string; stepId: number; current: Current; shopUnit: TorqueUnit }) {
+/**
+ * The torque a teardown step's fasteners go back on with; shown on the reassembly checklist. The
+ * plausibility check of a torque record (lib/torque-check.ts) runs on it too, with the same
+ * confirm box; `fastener` is the step as that check reads it ("8 × M6 clutch cover bolts").
+ */
+export function StepTorqueForm({ jobPublicId, currency, stepId, current, shopUnit, fastener }: { jobPublicId: string; currency: string; stepId: number; current: Current; shopUnit: TorqueUnit; fastener: string }) {
   const form = useBenchForm(setStepTorqueAction, { visible: FORM_FIELDS.stepTorque.visible });
   const { values, fieldError } = form;
   const id = (name: string) => `step-${stepId}-${name}`;
+  const style = numberStyleFor(currency);
+  const [value, setValue] = useState(current ? formatNumberInput(current.value, style) : "");
+  const [unit, setUnit] = useState<TorqueUnit>(current?.unit ?? shopUnit);
+  const [angle, setAngle] = useState(current?.angleStages?.length ? current.angleStages.join(" + ") : "");
+  const read = value.trim() ? parseNumberInput(value, style, { what: "Torque" }) : null;
+  const angleRead = parseAngleStages(angle, style);
+  const warning = read?.ok && read.value > 0 ? torqueAngleWarning(read.value, unit, fastener, angleRead.ok ? angleRead.stages : []) : null;
   return (
     <form action={form.formAction} className="space-y-3">
       <input type="hidden" name="job" value={jobPublicId} />
@@ -20,21 +36,39 @@ export function StepTorqueForm({ jobPublicId, currency, stepId, current, shopUni
       <FormError message={form.formError} />
       <div className="grid grid-cols-3 gap-3">
         <Field id={id("torque")} label="Torque" error={fieldError("torqueValue")} required>
-          <Input name="torqueValue" inputMode="decimal" autoComplete="off" defaultValue={values?.torqueValue ?? (current ? formatNumberInput(current.value, numberStyleFor(currency)) : "")} maxLength={12} />
+          <Input name="torqueValue" inputMode="decimal" autoComplete="off" value={value} onChange={(e) => setValue(e.target.value)} maxLength={12} />
         </Field>
         <Field id={id("unit")} label="Unit" error={fieldError("torqueUnit")}>
-          <Select name="torqueUnit" key={`unit-${values?.torqueUnit ?? ""}`} defaultValue={values?.torqueUnit ?? current?.unit ?? shopUnit}>
-            {TORQUE_UNITS.map((u) => (
-              <option key={u.id} value={u.id}>
-                {u.label}
-              </option>
-            ))}
+          <Select name="torqueUnit" value={unit} onChange={(e) => isTorqueUnit(e.target.value) && setUnit(e.target.value)}>
+            <TorqueUnitOptions />
           </Select>
         </Field>
         <Field id={id("bolts")} label="Bolts" error={fieldError("boltCount")}>
           <Input name="boltCount" inputMode="numeric" autoComplete="off" defaultValue={values?.boltCount ?? (current?.boltCount ? String(current.boltCount) : "")} maxLength={3} />
         </Field>
       </div>
+      {warning ? <PlausibilityConfirm warning={warning} /> : null}
+      <div className="grid grid-cols-2 gap-3">
+        <Field id={id("angle")} label="Then turn, degrees" hint="e.g. “90” or “90 + 90”" error={fieldError("angleStages") ?? (angleRead.ok ? undefined : angleRead.message)}>
+          <Input name="angleStages" autoComplete="off" value={angle} onChange={(e) => setAngle(e.target.value)} maxLength={60} />
+        </Field>
+        <Field id={id("lubrication")} label="Threads" error={fieldError("lubrication")}>
+          <Select name="lubrication" key={`lube-${values?.lubrication ?? ""}`} defaultValue={values?.lubrication ?? current?.lubrication ?? ""}>
+            <option value="">Not recorded</option>
+            {/* "Other" needs words the checklist has no room for: say it in the step's notes. */}
+            {LUBRICATIONS.filter((l) => l !== "other").map((l) => (
+              <option key={l} value={l}>
+                {LUBRICATION_LABEL[l]}
+              </option>
+            ))}
+          </Select>
+        </Field>
+      </div>
+      {angleRead.ok && angleRead.stages.length ? <p className="text-sm">Then {angleText(angleRead.stages)} by angle.</p> : null}
+      <label className="flex min-h-tap items-center gap-3">
+        <input type="checkbox" name="oneTime" className="size-6 accent-oil" defaultChecked={values ? values.oneTime === "on" : current?.oneTime === true} />
+        <span>One-time (torque-to-yield) fasteners: replace with new</span>
+      </label>
       <Button type="submit" loading={form.pending}>
         Save torque spec
       </Button>

@@ -1,17 +1,21 @@
 "use client";
 import { useState } from "react";
+import { PlausibilityConfirm } from "@/components/bench/plausibility-confirm";
+import { TorqueUnitOptions } from "@/components/bench/torque-unit-options";
 import { BoltPattern } from "@/components/bench/bolt-pattern";
 import { PassTable } from "@/components/bench/torque-value";
 import { Button, Field, Input, Select, Textarea } from "@/components/ui";
 import { assertPassPercents } from "@/lib/tightening-passes";
 import { crossPatternOrder, supportsCrossPattern } from "@/lib/tightening-order";
 import { type NumberStyle, exampleIn, formatNumberInput, numberStyleFor, parseNumberInput } from "@/lib/number-input";
-import { TORQUE_UNITS, type TorqueUnit, convertTorque, isTorqueUnit } from "@/lib/torque";
-import { WRENCH_CLASSES, type WrenchClass, isWrenchClass, outcomeText, plausibilityWarning } from "@/lib/torque-check";
+import { type TorqueUnit, convertTorque, isTorqueUnit } from "@/lib/torque";
+import { WRENCH_CLASSES, type WrenchClass, isWrenchClass, outcomeText } from "@/lib/torque-check";
+import { parseAngleStages, torqueAngleWarning } from "@/lib/torque-special";
 import { recordTorqueAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { FORM_VISIBLE } from "@/lib/form-visible";
 import { WrenchClassOptions } from "@/components/bench/wrench-class-options";
+import { FastenerFields, WrenchFields } from "./torque-special-fields";
 
 export type TorqueSpecOption = { id: number; label: string; value: number; unit: TorqueUnit; boltCount: number | null; source: string | null };
 
@@ -47,8 +51,13 @@ export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, spec
   const [picked, setPicked] = useState<{ value: number; unit: TorqueUnit } | null>(null);
   const [bolts, setBolts] = useState("");
   const [passes, setPasses] = useState(passPercents.join(", "));
+  // Bumped after each record: the angle, lubrication and one-time fields start afresh.
+  const [logged, setLogged] = useState(0);
+  const [angle, setAngle] = useState("");
   const form = useBenchForm(recordTorqueAction, {
     onSuccess: () => {
+      setLogged((n) => n + 1);
+      setAngle("");
       setFastener("");
       setSpec("");
       setPicked(null);
@@ -85,7 +94,9 @@ export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, spec
   const appliedRead = read(applied, style, "Applied torque");
   const tolRead = read(tolerance, style, "The tolerance (%)");
   const specValue = specRead.value;
-  const warning = specValue ? plausibilityWarning(specValue, unit, fastener) : null;
+  const angleRead = parseAngleStages(angle, style);
+  // With angle stages after it, a low seating torque is expected (lib/torque-special.ts).
+  const warning = specValue ? torqueAngleWarning(specValue, unit, fastener, angleRead.ok ? angleRead.stages : []) : null;
   const tolerancePct = tolRead.value ?? WRENCH_CLASSES[wrench].tolerancePct;
   const preview = specValue && appliedRead.value ? outcomeText({ specValue, appliedValue: appliedRead.value, unit, tolerancePct }, shopUnit) : null;
   const boltCount = /^\d{1,2}$/.test(bolts) ? Number(bolts) : null;
@@ -120,11 +131,7 @@ export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, spec
         </Field>
         <Field id="torque-unit" label="Unit" hint={picked ? "Switching converts the picked spec" : "The unit of the number typed"} error={fieldError("unit")}>
           <Select name="unit" value={unit} onChange={(e) => isTorqueUnit(e.target.value) && switchUnit(e.target.value)}>
-            {TORQUE_UNITS.map((u) => (
-              <option key={u.id} value={u.id}>
-                {u.label}
-              </option>
-            ))}
+            <TorqueUnitOptions />
           </Select>
         </Field>
       </div>
@@ -136,17 +143,7 @@ export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, spec
           <Input name="boltCount" inputMode="numeric" autoComplete="off" value={bolts} onChange={(e) => setBolts(e.target.value)} maxLength={3} />
         </Field>
       </div>
-      {warning ? (
-        <div className="space-y-2 rounded-lg border border-line p-3" role="status">
-          <p>
-            <strong>Check this value:</strong> {warning}.
-          </p>
-          <label className="flex min-h-tap items-center gap-3">
-            <input type="checkbox" name="plausibleChecked" className="size-6 accent-oil" />
-            <span>Value checked against the maker&apos;s manual</span>
-          </label>
-        </div>
-      ) : null}
+      {warning ? <PlausibilityConfirm warning={warning} /> : null}
       {preview ? <p role="status">{preview.charAt(0).toUpperCase() + preview.slice(1)}.</p> : null}
       <div className="grid grid-cols-2 gap-3">
         <Field id="torque-wrench" label="Wrench" error={fieldError("wrenchClass")}>
@@ -168,9 +165,11 @@ export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, spec
       <Field id="torque-tool" label="Tool (optional)" error={fieldError("tool")}>
         <Input name="tool" autoComplete="off" defaultValue={values?.tool} maxLength={120} />
       </Field>
+      <WrenchFields style={style} unit={unit} specValue={specValue} passPercents={schedule} fieldError={fieldError} />
       <Field id="torque-note" label="Note (optional)" hint="e.g. “re-used fasteners: reduced per the maker's manual”" error={fieldError("note")}>
         <Textarea name="note" rows={2} defaultValue={values?.note} maxLength={500} />
       </Field>
+      <FastenerFields key={logged} style={style} unit={unit} shopUnit={shopUnit} specValue={specValue} fieldError={fieldError} values={values} angle={angle} setAngle={setAngle} />
       <fieldset className="space-y-1">
         <legend className="font-semibold text-ink">Done, as recorded (nothing is assumed)</legend>
         <label className="flex min-h-tap items-center gap-3">

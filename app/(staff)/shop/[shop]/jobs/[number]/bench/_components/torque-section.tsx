@@ -2,6 +2,7 @@ import { Wrench } from "lucide-react";
 import { BoltPattern } from "@/components/bench/bolt-pattern";
 import { VisibilityBadge } from "@/components/journal/entry-card";
 import { TorqueOutcomeBadge } from "@/components/bench/torque-outcome";
+import { TorqueToolFacts } from "@/components/bench/torque-tool-facts";
 import { PassTable, TorqueValue } from "@/components/bench/torque-value";
 import { Card, Caution, EmptyState } from "@/components/ui";
 import type { TorqueRecordRow } from "@/db/queries/bench";
@@ -58,7 +59,7 @@ export function TorqueSection({ jobPublicId, currency, shopUnit, shopWrench, pas
                 <TorqueValue value={r.specValue} unit={r.unit} displayUnit={shopUnit} />
                 <p>{sentenceCase(torqueProof({ ...r, displayUnit: shopUnit }))}.</p>
                 {r.warning ? <p className="text-sm text-ink-muted">Checked against a plausibility warning: {r.warning}.</p> : null}
-                {r.tool ? <p className="text-sm text-ink-muted">Tool: {r.tool}</p> : null}
+                <TorqueToolFacts record={r} at={r.at} />
                 {r.note ? <p className="whitespace-pre-line">{r.note}</p> : null}
                 <details>
                   <summary className="inline-flex min-h-tap cursor-pointer items-center rounded-md px-2 font-semibold text-oil hover:bg-oil-soft">Pass schedule{r.boltCount && r.pattern ? " and tightening order" : ""}</summary>

@@ -3,6 +3,7 @@ import { notFound } from "next/navigation";
 import { Alert, PageHeader } from "@/components/ui";
 import { listDecisions, listRequests } from "@/db/queries/approvals";
 import { getCustomerContact, getFinding } from "@/db/queries/findings";
+import { partsOfFindingLines } from "@/db/queries/parts-pricing";
 import { formatMoney } from "@/lib/money";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { JOB_STATUS_LABEL, statusMoveError } from "@/lib/job-status";
@@ -22,12 +23,18 @@ type Props = { params: Promise<{ shop: string; number: string; finding: string }
 /** One finding: its requests and answers, the editor (draft or price), and sending. */
 export default async function FindingPage({ params }: Props) {
   const { shop: slug, number, finding: raw } = await params;
-  const { shop, job, settings, choices, basePath, mayPrice, mayRecord, mayViewMoney } = await loadFindingsJob(slug, number, `/findings/${raw}`);
+  const { shop, job, settings, choices, pickable, basePath, mayPrice, mayRecord, mayViewMoney } = await loadFindingsJob(slug, number, `/findings/${raw}`);
   const parsed = ids.row.safeParse(raw);
   const id = parsed.success ? parsed.data : notFound();
   const finding = await getFinding({ shopId: shop.id, jobId: job.id, id });
   if (!finding) notFound();
-  const [overview, allRequests, contact] = await Promise.all([jobApprovals(job), listRequests({ shopId: shop.id, jobId: job.id }), getCustomerContact({ shopId: shop.id, customerId: job.customerId })]);
+  const [overview, allRequests, contact, lineParts] = await Promise.all([
+    jobApprovals(job),
+    listRequests({ shopId: shop.id, jobId: job.id }),
+    getCustomerContact({ shopId: shop.id, customerId: job.customerId }),
+    // Part costs are staff money: only for people who see it.
+    mayViewMoney ? partsOfFindingLines({ shopId: shop.id, lineIds: finding.lines.map((l) => l.id) }) : new Map(),
+  ]);
   const requests = allRequests.filter((r) => r.findingId === id).reverse();
   const decisions = await listDecisions({ shopId: shop.id, requestIds: requests.map((r) => r.id) });
   const summary = overview.findings.find((f) => f.id === id)!;
@@ -59,13 +66,14 @@ export default async function FindingPage({ params }: Props) {
           whyItMatters: finding.whyItMatters ?? "",
           safety: finding.safety,
           evidence: finding.evidence,
-          lines: finding.lines.map((l) => toLineState(l, shop.currency, mayViewMoney)),
+          lines: finding.lines.map((l) => toLineState(l, shop.currency, mayViewMoney, lineParts.get(l.id))),
         }}
         choices={choices}
         mayPrice={mayPrice}
         locked={locked}
         currency={shop.currency}
         settings={settings}
+        pickable={pickable}
       />
       {mayPrice && !locked ? (
         <SendPanel

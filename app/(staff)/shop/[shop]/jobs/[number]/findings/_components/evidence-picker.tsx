@@ -2,7 +2,9 @@
 import clsx from "clsx";
 import type { EvidenceChoices } from "@/db/queries/findings";
 import { PhotoImg } from "@/components/journal/photo-img";
-import { Input } from "@/components/ui";
+import { Input, Select } from "@/components/ui";
+import { formatDuration, momentAt } from "@/lib/clips";
+import { readingLine } from "@/lib/reading-text";
 import type { EvidenceState } from "./form-state";
 
 type Props = { choices: EvidenceChoices; value: EvidenceState[]; onChange: (v: EvidenceState[]) => void; errors: Record<string, string[]>; disabled: boolean };
@@ -43,8 +45,7 @@ export function EvidencePicker({ choices, value, onChange, errors, disabled }: P
             <li key={r.id}>
               <label className="flex min-h-tap cursor-pointer items-center gap-3 text-ink">
                 <input type="checkbox" className="size-5 accent-oil" checked={has("reading", r.id)} onChange={(e) => toggle("reading", r.id, e.target.checked)} />
-                Reading: {r.label}, {r.value}
-                {r.unit ? ` ${r.unit}` : ""} ({r.verdict === "within" ? "within limits" : r.verdict === "no_limit" ? "no limit" : `${r.verdict} limit`})
+                Reading: {readingLine(r)}
               </label>
             </li>
           ))}
@@ -61,10 +62,29 @@ export function EvidencePicker({ choices, value, onChange, errors, disabled }: P
                   Clip {i + 1}
                   {c.caption ? `: ${c.caption}` : ""}
                 </label>
+                {chosen && c.moments.length ? (
+                  // The technician's marked moments, caption and all: picked, not retyped (the owner reads the caption).
+                  <label className="flex items-center gap-2 text-ink">
+                    Marked moment
+                    <Select
+                      className="w-auto"
+                      value={momentAt(c.moments, chosen.momentMs) ? String(momentAt(c.moments, chosen.momentMs)!.atMs) : ""}
+                      onChange={(e) => onChange(value.map((v) => (v === chosen ? { ...v, momentMs: e.target.value === "" ? null : Number(e.target.value) } : v)))}
+                    >
+                      <option value="">{chosen.momentMs == null ? "None: the whole clip" : "Another time (typed)"}</option>
+                      {c.moments.map((m) => (
+                        <option key={`${m.atMs}-${m.label}`} value={m.atMs}>
+                          {formatDuration(m.atMs / 1000)} {m.label}
+                        </option>
+                      ))}
+                    </Select>
+                  </label>
+                ) : null}
                 {chosen ? (
                   <label className="flex items-center gap-2 text-ink">
                     At
                     <Input
+                      key={`at-${chosen.momentMs ?? ""}`}
                       className="w-24"
                       placeholder="0:42"
                       aria-label={`Moment in clip ${i + 1} (minutes:seconds)`}

@@ -10,6 +10,7 @@ import { formatMoney } from "@/lib/money";
 import { EvidencePicker } from "./evidence-picker";
 import { type EditorSettings, type FindingState, emptyLine, payload, preview, rateChoices } from "./form-state";
 import { LinesEditor } from "./lines-editor";
+import type { PickablePart } from "@/db/queries/parts-pricing";
 
 type Props = {
   jobPublicId: string;
@@ -21,10 +22,12 @@ type Props = {
   locked: boolean;
   currency: string;
   settings: EditorSettings;
+  /** Parts already on the job a new part line may stand for (the desk's editor only). */
+  pickable?: PickablePart[];
 };
 
 /** Draft (the bench) or price (the desk) a finding: what was found, why it matters, evidence and lines. */
-export function FindingEditor({ jobPublicId, basePath, finding, initial, choices, mayPrice, locked, currency, settings }: Props) {
+export function FindingEditor({ jobPublicId, basePath, finding, initial, choices, mayPrice, locked, currency, settings, pickable = [] }: Props) {
   const router = useRouter();
   const [state, setState] = useState<FindingState>(initial);
   const [errors, setErrors] = useState<Record<string, string[]>>({});
@@ -92,6 +95,8 @@ export function FindingEditor({ jobPublicId, basePath, finding, initial, choices
           errors={errors}
           disabled={locked}
           rates={mayPrice ? rateChoices(settings, currency) : []}
+          markup={settings.markup}
+          pickable={mayPrice ? pickable : []}
         />
         {est ? (
           <div aria-live="polite" className="rounded-xl bg-sunken p-4">

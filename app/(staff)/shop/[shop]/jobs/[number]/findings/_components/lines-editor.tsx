@@ -2,7 +2,10 @@
 import { Package, Plus, Receipt, Trash2, Wrench } from "lucide-react";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { LINE_KIND_LABEL, type LineKind } from "@/lib/approvals";
-import type { LineState } from "./form-state";
+import { formatMoney } from "@/lib/money";
+import type { MarkupRule } from "@/lib/parts-pricing";
+import type { PickablePart } from "@/db/queries/parts-pricing";
+import { type LineState, ruledPrice } from "./form-state";
 
 type Props = {
   lines: LineState[];
@@ -14,12 +17,16 @@ type Props = {
   disabled: boolean;
   /** The shop's labour rates to pick from (rateChoices); empty: the rate is typed. */
   rates?: { label: string; text: string }[];
+  /** The shop's parts markup: a costed part line's price starts from it (issue 19). */
+  markup?: MarkupRule;
+  /** Parts already on the job a new part line may stand for, instead of making another. */
+  pickable?: PickablePart[];
 };
 
 const ICON = { part: Package, labour: Wrench, fee: Receipt } as const;
 
 /** Proposed lines: parts (number, quantity), labour (hours), fees; prices and tax for the desk. */
-export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors, disabled, rates = [] }: Props) {
+export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors, disabled, rates = [], markup, pickable = [] }: Props) {
   const set = (key: string, patch: Partial<LineState>) => onChange(lines.map((l) => (l.key === key ? { ...l, ...patch } : l)));
   const err = (i: number, field: string) => errors[`lines.${i}.${field}`]?.[0] ?? (field === "description" ? errors[`lines.${i}`]?.[0] : undefined);
   return (
@@ -41,6 +48,26 @@ export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors
                   Remove
                 </Button>
               </div>
+              {mayPrice && line.kind === "part" && !line.id && pickable.length ? (
+                <Field id={id("pick")} label="Part on the job" hint="Pick one the bench already added, so it isn't typed twice" error={err(i, "partId")}>
+                  <Select
+                    value={line.partId ?? ""}
+                    onChange={(e) => {
+                      const part = pickable.find((p) => p.id === Number(e.target.value));
+                      set(line.key, part ? { partId: part.id, description: part.description, partNumber: part.partNumber ?? "" } : { partId: undefined });
+                    }}
+                  >
+                    <option value="">A new part</option>
+                    {pickable
+                      .filter((p) => p.id === line.partId || !lines.some((l) => l.partId === p.id))
+                      .map((p) => (
+                        <option key={p.id} value={p.id}>
+                          {p.partNumber ? `${p.description} (${p.partNumber})` : p.description}
+                        </option>
+                      ))}
+                  </Select>
+                </Field>
+              ) : null}
               <Field id={id("description")} label="Description" error={err(i, "description")} required>
                 <Input value={line.description} maxLength={200} onChange={(e) => set(line.key, { description: e.target.value })} />
               </Field>
@@ -72,10 +99,19 @@ export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors
                     </Select>
                   </Field>
                 ) : null}
+                {mayPrice && line.kind === "part" ? (
+                  <Field id={id("cost")} label={`Unit cost (${currency})`} hint="Staff only: the owner sees the sell price, never the cost" error={err(i, "cost")}>
+                    <Input value={line.cost} inputMode="decimal" onChange={(e) => set(line.key, { cost: e.target.value })} />
+                  </Field>
+                ) : null}
                 {mayPrice ? (
                   <Field
                     id={id("price")}
                     label={line.kind === "part" ? `Unit price (${currency})` : line.kind === "labour" ? `Rate per hour (${currency})` : `Amount (${currency})`}
+                    hint={(() => {
+                      const ruled = ruledPrice(line, markup, currency);
+                      return ruled === null ? undefined : `Markup rule: ${formatMoney(ruled, currency)}. Leave empty to use it.`;
+                    })()}
                     error={err(i, line.kind === "part" ? "unitPrice" : line.kind === "labour" ? "rate" : "amount")}
                   >
                     <Input
@@ -86,6 +122,11 @@ export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors
                   </Field>
                 ) : null}
               </div>
+              {mayPrice && line.kind === "part" && (line.priceReason || err(i, "priceReason") || (line.unitPrice.trim() && ruledPrice(line, markup, currency) !== null)) ? (
+                <Field id={id("reason")} label="Why this price" hint="Needed when the price isn't the markup rule's; kept with the part" error={err(i, "priceReason")}>
+                  <Input value={line.priceReason} maxLength={200} onChange={(e) => set(line.key, { priceReason: e.target.value })} />
+                </Field>
+              ) : null}
               {mayPrice ? (
                 <label className="flex min-h-tap cursor-pointer items-center gap-3 text-ink">
                   <input type="checkbox" className="size-5 accent-oil" checked={line.taxable} onChange={(e) => set(line.key, { taxable: e.target.checked })} />

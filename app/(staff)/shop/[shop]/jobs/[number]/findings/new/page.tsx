@@ -5,6 +5,8 @@ import { formatJobNumber } from "@/lib/schemas/jobs";
 import type { EvidenceChoices } from "@/db/queries/findings";
 import { FindingEditor } from "../_components/finding-editor";
 import type { EvidenceState } from "../_components/form-state";
+import { readingLine } from "@/lib/reading-text";
+import { momentAt } from "@/lib/clips";
 import { loadFindingsJob } from "../load";
 
 export const metadata: Metadata = { title: "Draft a finding" };
@@ -17,7 +19,7 @@ type Props = { params: Promise<{ shop: string; number: string }>; searchParams: 
  */
 export default async function NewFindingPage({ params, searchParams }: Props) {
   const { shop: slug, number } = await params;
-  const { shop, job, settings, choices, basePath, mayPrice } = await loadFindingsJob(slug, number, "/findings/new");
+  const { shop, job, settings, choices, pickable, basePath, mayPrice } = await loadFindingsJob(slug, number, "/findings/new");
   const start = startingPoint(await searchParams, choices);
   return (
     <div className="space-y-6">
@@ -32,6 +34,7 @@ export default async function NewFindingPage({ params, searchParams }: Props) {
         locked={false}
         currency={shop.currency}
         settings={settings}
+        pickable={pickable}
       />
     </div>
   );
@@ -41,15 +44,17 @@ export default async function NewFindingPage({ params, searchParams }: Props) {
 function startingPoint(q: { photo?: string; reading?: string; clip?: string; at?: string }, choices: EvidenceChoices): { title: string; found: string; evidence: EvidenceState[] } {
   const reading = q.reading ? choices.readings.find((r) => r.id === q.reading) : undefined;
   if (reading) {
-    const value = `${reading.value}${reading.unit ? ` ${reading.unit}` : ""}`;
-    return { title: `${reading.label} out of limit`, found: `${reading.label}: measured ${value}.`, evidence: [{ kind: "reading", ref: reading.id, momentMs: null }] };
+    // The owner reads this: the value with its limit, source and verdict (lib/reading-text.ts).
+    return { title: `${reading.label} out of limit`, found: `${readingLine(reading)}.`, evidence: [{ kind: "reading", ref: reading.id, momentMs: null }] };
   }
   const photo = q.photo ? choices.photos.find((p) => p.id === q.photo) : undefined;
   if (photo) return { title: "", found: photo.caption ?? "", evidence: [{ kind: "photo", ref: photo.id, momentMs: null }] };
   const clip = q.clip ? choices.clips.find((c) => c.id === q.clip) : undefined;
   if (clip) {
     const at = q.at && /^\d{1,5}$/.test(q.at) ? Number(q.at) * 1000 : null;
-    return { title: "", found: clip.caption ?? "", evidence: [{ kind: "clip", ref: clip.id, momentMs: at }] };
+    // Paused on a marked moment: that moment, with the technician's words to begin from.
+    const moment = momentAt(clip.moments, at);
+    return { title: "", found: moment?.label ?? clip.caption ?? "", evidence: [{ kind: "clip", ref: clip.id, momentMs: moment?.atMs ?? at }] };
   }
   return { title: "", found: "", evidence: [] };
 }
