@@ -342,6 +342,10 @@ export type TeardownStepsTable = {
   torque_angle_stages: JsonText | null;
   torque_lubrication: string | null;
   torque_one_time: Flag;
+  /** Migration 32: null on steps written before. */
+  torque_lubrication_other: string | null;
+  torque_loosen_retorque: Flag | null;
+  torque_retorque_sequence: string | null;
   replaced_new: Flag;
   checked_by_user_id: number | null;
   checked_at: Date | null;
@@ -429,6 +433,10 @@ export type SpecEntriesTable = {
   source: string | null;
   created_by_user_id: number | null;
   created_at: Date;
+  /** Decimals typed (migration 32); null on rows written before. */
+  value_decimals: number | null;
+  min_decimals: number | null;
+  max_decimals: number | null;
 };
 
 // ---- mail and following (06) -----------------------------------------------------------------

@@ -107,8 +107,18 @@ export type TeardownBody = {
   torque: StepTorque | null;
 };
 
-/** A teardown step's torque; angle stages, lubrication and one-time from issue 18 §4 (absent before). */
-export type StepTorque = { value: number; unit: TorqueUnit; boltCount: number | null; angleStages?: number[]; lubrication?: Lubrication | null; oneTime?: boolean };
+/**
+ * A teardown step's torque; angle stages, lubrication and one-time from issue 18 §4 (absent before);
+ * loosen-and-retorque and what "other" was on the threads from migration 32 (absent before that).
+ */
+export type StepTorque = {
+  value: number;
+  unit: TorqueUnit;
+  boltCount: number | null;
+  angleStages?: number[];
+  lubrication?: Lubrication | null;
+  oneTime?: boolean;
+} & Pick<SpecialFields, "lubricationOther" | "loosenRetorque" | "retorqueSequence">;
 
 /** Never carries cost or supplier: an entry can be shared with the owner. */
 export type PartBody = {
@@ -179,14 +189,8 @@ export function plainNumber(n: number): string {
   return String(Number(n.toPrecision(12)));
 }
 
-/** "4.5–5.0 mm", "at most 3 %", or null with no limit. */
-export function limitText(r: { min: number | null; max: number | null; unit: string | null }): string | null {
-  const u = r.unit ? ` ${r.unit}` : "";
-  if (r.min != null && r.max != null) return `${plainNumber(r.min)}–${plainNumber(r.max)}${u}`;
-  if (r.min != null) return `at least ${plainNumber(r.min)}${u}`;
-  if (r.max != null) return `at most ${plainNumber(r.max)}${u}`;
-  return null;
-}
+// A limit's words ("0.10–0.20 mm", at its typed resolution) are lib/reading-text.ts readingLimitText,
+// for readings and the shop's spec library alike.
 
 /** Stored teardown steps → the reassembly checklist, each torque with the shop's pass schedule. */
 export function checklistFromSteps(

@@ -53,8 +53,8 @@ export function sellFromCost(costMinor: number, rule: MarkupRule): number | null
 
 /** Reads a stored rule; anything unreadable counts as no rule (prices are then typed). */
 export function asMarkupRule(value: unknown): MarkupRule {
-  const v = (typeof value === "string" ? JSON.parse(value) : value) as MarkupRule | null;
   try {
+    const v = (typeof value === "string" ? JSON.parse(value) : value) as MarkupRule | null;
     return v && (v.kind === "none" || v.kind === "percent" || v.kind === "bands") ? checkMarkupRule(v) : NO_MARKUP;
   } catch {
     return NO_MARKUP;

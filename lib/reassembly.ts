@@ -18,6 +18,10 @@ export type TorqueSpec = {
   angleStages?: readonly number[] | null;
   lubrication?: Lubrication | null;
   oneTime?: boolean | null;
+  /** Migration 32: what "other" was on the threads, and loosen-and-retorque with its sequence. */
+  lubricationOther?: string | null;
+  loosenRetorque?: boolean | null;
+  retorqueSequence?: string | null;
 };
 
 export type TeardownStep = {
@@ -44,6 +48,9 @@ export type ChecklistTorque = {
   angleStages: number[];
   lubrication: Lubrication | null;
   oneTime: boolean;
+  lubricationOther: string | null;
+  loosenRetorque: boolean;
+  retorqueSequence: string | null;
 };
 
 export type ChecklistItem = {
@@ -78,6 +85,9 @@ function checklistTorque(step: TeardownStep, spec: TorqueSpec): ChecklistTorque 
     angleStages: [...(spec.angleStages ?? [])],
     lubrication: spec.lubrication ?? null,
     oneTime: spec.oneTime === true,
+    lubricationOther: spec.lubricationOther ?? null,
+    loosenRetorque: spec.loosenRetorque === true,
+    retorqueSequence: spec.retorqueSequence ?? null,
   };
 }
 

@@ -54,7 +54,20 @@ export function snapshotOfRow(row: Record<string, unknown>): StepSnapshot {
     torque:
       row.torque_value == null || !isTorqueUnit(unit)
         ? null
-        : { value: Number(row.torque_value), unit, boltCount: num(row.torque_bolt_count), note: stepTorqueNote({ angleStages: angles(row.torque_angle_stages), lubrication: isLubrication(row.torque_lubrication) ? row.torque_lubrication : null, oneTime: Boolean(row.torque_one_time) }) },
+        : {
+            value: Number(row.torque_value),
+            unit,
+            boltCount: num(row.torque_bolt_count),
+            // Columns a row from before migration 27 / 32 lacks read as "not recorded".
+            note: stepTorqueNote({
+              angleStages: angles(row.torque_angle_stages),
+              lubrication: isLubrication(row.torque_lubrication) ? row.torque_lubrication : null,
+              lubricationOther: str(row.torque_lubrication_other),
+              loosenRetorque: Boolean(row.torque_loosen_retorque),
+              retorqueSequence: str(row.torque_retorque_sequence),
+              oneTime: Boolean(row.torque_one_time),
+            }),
+          },
   };
 }
 

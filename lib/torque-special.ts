@@ -87,7 +87,7 @@ export function anglePiece(b: Pick<SpecialFields, "angleStages" | "angleDone">):
 }
 
 /** Lubrication, loosen-and-retorque and one-time, as proof-line pieces (none for old records). */
-export function fastenerPieces(b: SpecialFields): string[] {
+export function fastenerPieces(b: Pick<SpecialFields, "lubrication" | "lubricationOther" | "loosenRetorque" | "retorqueSequence" | "oneTime">): string[] {
   return [
     b.lubrication ? lubricationText(b.lubrication, b.lubricationOther) : null,
     b.loosenRetorque ? `loosened and retorqued${b.retorqueSequence ? ` (${b.retorqueSequence})` : ""}` : null,
@@ -95,9 +95,12 @@ export function fastenerPieces(b: SpecialFields): string[] {
   ].filter((p): p is string => p != null);
 }
 
-/** A teardown step's torque beyond its value: "+ 90°; threads oiled; one-time …", or null (steps before issue 18 §4). */
-export function stepTorqueNote(t: { angleStages?: readonly number[] | null; lubrication?: Lubrication | null; oneTime?: boolean | null }): string | null {
-  const pieces = [t.angleStages?.length ? `then ${angleText(t.angleStages)} by angle` : null, t.lubrication ? lubricationText(t.lubrication) : null, t.oneTime ? ONE_TIME_TEXT : null].filter(Boolean);
+/**
+ * A teardown step's torque beyond its value: "then + 90° by angle; threads oiled; loosened and
+ * retorqued (…); one-time …", or null (steps before issue 18 §4). The same pieces as a record's.
+ */
+export function stepTorqueNote(t: { angleStages?: readonly number[] | null } & Pick<SpecialFields, "lubrication" | "lubricationOther" | "loosenRetorque" | "retorqueSequence" | "oneTime">): string | null {
+  const pieces = [...(t.angleStages?.length ? [`then ${angleText(t.angleStages)} by angle`] : []), ...fastenerPieces(t)];
   return pieces.length ? pieces.join("; ") : null;
 }
 

@@ -141,7 +141,7 @@ export function InvoiceDocument({ view, children, lineAction }: { view: InvoiceV
             {view.payments.map((p) => (
               <li key={p.id} className="flex flex-wrap justify-between gap-2 py-2">
                 <span>
-                  {PAYMENT_KIND_LABEL[p.kind]} · {PAYMENT_METHOD_LABEL[p.method]}
+                  <span className="font-semibold tabular-nums">{p.receipt}</span> · {PAYMENT_KIND_LABEL[p.kind]} · {PAYMENT_METHOD_LABEL[p.method]}
                   {p.reference ? ` · ${p.reference}` : ""} · <time dateTime={p.receivedAt}>{formatWhen(p.receivedAt, tz)}</time>
                 </span>
                 <span className="tabular-nums">{p.kind === "refund" ? `−${m(p.amountMinor)}` : m(p.amountMinor)}</span>

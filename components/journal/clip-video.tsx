@@ -125,6 +125,8 @@ export default function ClipVideo({ clip, src, title, startTime }: { clip: Timel
           poster={clip.poster ?? undefined}
           preload="metadata"
           playsInline
+          // No cast button on the picture: the clip plays here, from our origin, and nowhere else.
+          disableRemotePlayback
           title={title}
           onClick={toggle}
           onLoadedMetadata={onLoadedMetadata}

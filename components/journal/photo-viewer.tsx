@@ -2,6 +2,8 @@
 import Lightbox from "yet-another-react-lightbox";
 import Zoom from "yet-another-react-lightbox/plugins/zoom";
 import "yet-another-react-lightbox/styles.css";
+// Our look over the library's default skin (after its stylesheet, so ours wins).
+import "./photo-viewer.css";
 import { type TimelinePhoto, photoSrcSet } from "@/lib/journal";
 
 /** The viewer picks among our renditions and copies by the size it shows a slide at (photoSrcSet). */
@@ -25,6 +27,8 @@ export default function PhotoViewer({ photos, index, onClose }: { photos: Timeli
       slides={photos.map((p, i) => ({ src: p.displayUrl, width: p.width, height: p.height, srcSet: srcSetOf(p), alt: `Photo ${i + 1} of ${photos.length}` }))}
       carousel={{ finite: photos.length <= 1 }}
       controller={{ closeOnBackdropClick: true }}
+      className="bs-photo-viewer"
+      labels={{ Previous: "Previous photo", Next: "Next photo", Close: "Close the photo", "Zoom in": "Zoom in", "Zoom out": "Zoom out" }}
     />
   );
 }

@@ -23,8 +23,15 @@ export async function up(knex: Knex): Promise<void> {
     `CREATE TRIGGER jobs_count_update AFTER UPDATE ON jobs FOR EACH ROW
      BEGIN
        IF NOT (NEW.status <=> OLD.status AND NEW.shop_id <=> OLD.shop_id) THEN
-         ${MOVE("OLD.shop_id", "OLD.status", "-1")};
-         ${MOVE("NEW.shop_id", "NEW.status", "1")};
+         -- Both counter rows in one order whichever way the job moves, so two jobs moving in
+         -- opposite directions at once wait for each other instead of deadlocking.
+         IF (OLD.shop_id, OLD.status + 0) < (NEW.shop_id, NEW.status + 0) THEN
+           ${MOVE("OLD.shop_id", "OLD.status", "-1")};
+           ${MOVE("NEW.shop_id", "NEW.status", "1")};
+         ELSE
+           ${MOVE("NEW.shop_id", "NEW.status", "1")};
+           ${MOVE("OLD.shop_id", "OLD.status", "-1")};
+         END IF;
        END IF;
      END`,
   );

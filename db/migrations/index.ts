@@ -30,6 +30,7 @@ import * as teardownHistorySafety from "./20261205_28_teardown_history_safety";
 import * as jobStatusCounts from "./20261205_29_job_status_counts";
 import * as partsPrice from "./20261205_30_parts_price";
 import * as partOrders from "./20261205_31_part_orders";
+import * as specResolution from "./20261205_32_spec_resolution";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -67,6 +68,7 @@ const MIGRATIONS: Migration[] = [
   { name: "20261205_29_job_status_counts", module: jobStatusCounts },
   { name: "20261205_30_parts_price", module: partsPrice },
   { name: "20261205_31_part_orders", module: partOrders },
+  { name: "20261205_32_spec_resolution", module: specResolution },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

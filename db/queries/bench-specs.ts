@@ -1,5 +1,5 @@
 import "server-only";
-import type { SpecKind } from "@/lib/bench";
+import type { ReadingDecimals, SpecKind } from "@/lib/bench";
 import { db } from "@/db/client";
 import type { SpecEntriesTable } from "@/db/tables";
 
@@ -19,6 +19,8 @@ export type SpecRow = {
   boltCount: number | null;
   notes: string | null;
   source: string | null;
+  /** Decimals typed for value, min and max ("0.10" → 2); null on entries written before (migration 32). */
+  decimals: ReadingDecimals;
 };
 
 export type NewSpec = Omit<SpecRow, "id">;
@@ -40,6 +42,7 @@ function toSpec(r: SpecEntriesTable): SpecRow {
     boltCount: n(r.bolt_count),
     notes: s(r.notes),
     source: s(r.source),
+    decimals: { value: n(r.value_decimals), min: n(r.min_decimals), max: n(r.max_decimals) },
   };
 }
 
@@ -65,6 +68,9 @@ export async function insertSpec({ shopId, userId, spec }: { shopId: number; use
     bolt_count: spec.boltCount,
     notes: spec.notes,
     source: spec.source,
+    value_decimals: spec.decimals.value,
+    min_decimals: spec.decimals.min,
+    max_decimals: spec.decimals.max,
     created_by_user_id: userId,
   });
   return Number(id);

@@ -258,6 +258,10 @@ export async function listTeardownSteps({ shopId, jobId }: JobKey, k: Knex = db(
             angleStages: (json(r.torque_angle_stages) as number[] | null) ?? [],
             lubrication: isLubrication(r.torque_lubrication) ? r.torque_lubrication : null,
             oneTime: Boolean(r.torque_one_time),
+            // Migration 32: null on steps written before it.
+            lubricationOther: str(r.torque_lubrication_other),
+            loosenRetorque: Boolean(r.torque_loosen_retorque),
+            retorqueSequence: str(r.torque_retorque_sequence),
           },
     replacedNew: Boolean(r.replaced_new),
     checked: r.checked_at == null ? null : { by: str(r.checked_by_name), at: iso(r.checked_at)! },
@@ -280,6 +284,9 @@ export async function setStepTorque(p: JobKey & { stepId: number; userId: number
     torque_angle_stages: t.angleStages?.length ? JSON.stringify(t.angleStages) : null,
     torque_lubrication: t.lubrication ?? null,
     torque_one_time: t.oneTime === true,
+    torque_lubrication_other: t.lubricationOther ?? null,
+    torque_loosen_retorque: t.loosenRetorque === true,
+    torque_retorque_sequence: t.retorqueSequence ?? null,
   };
   await reviseTeardownStep({ ...p, expectedVersion: null, change: { kind: "torque", set } });
   return true;

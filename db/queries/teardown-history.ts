@@ -81,7 +81,15 @@ async function followEntry(tx: Knex.Transaction, p: JobKey & { stepId: number; u
     const now = snapshotOfRow(step as unknown as Record<string, unknown>);
     // The torque's special fields (migration 27) as the step now has them; other fields the
     // snapshot doesn't know are kept as they were.
-    const special = { angleStages: parse(step.torque_angle_stages) ?? undefined, lubrication: step.torque_lubrication ?? undefined, oneTime: step.torque_one_time == null ? undefined : Boolean(step.torque_one_time) };
+    const special = {
+      angleStages: parse(step.torque_angle_stages) ?? undefined,
+      lubrication: step.torque_lubrication ?? undefined,
+      oneTime: step.torque_one_time == null ? undefined : Boolean(step.torque_one_time),
+      // Migration 32.
+      lubricationOther: step.torque_lubrication_other ?? undefined,
+      loosenRetorque: step.torque_loosen_retorque == null ? undefined : Boolean(step.torque_loosen_retorque),
+      retorqueSequence: step.torque_retorque_sequence ?? undefined,
+    };
     const t = now.torque;
     const torque = t ? { ...(isTeardownBody(old) && old.torque ? old.torque : {}), value: t.value, unit: t.unit, boltCount: t.boltCount, ...special } : null;
     const body = { ...(isTeardownBody(old) ? old : {}), seq: Number(step.seq), ...now, torque };

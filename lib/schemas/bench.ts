@@ -130,6 +130,9 @@ export const stepTorqueSchema = jobRef.extend({
   boltCount: optWhole("Bolt count", 1, 999),
   angleStages,
   lubrication,
+  lubricationOther: optText(60, "what was on the threads"),
+  loosenRetorque: checkbox.optional().default(false),
+  retorqueSequence: optText(300, "the sequence"),
   oneTime: checkbox.optional().default(false),
   plausibleChecked,
 });

@@ -80,7 +80,11 @@ export const FORM_FIELDS = {
   teardownEdit: { schema: teardownEditSchema, visible: ["removed", "count", "size", "notes", "storage"], banner: ["job", "step", "version"] },
   // The delete button beside a step's edit form: everything is filled by the page, messages go in its banner.
   teardownDelete: { schema: teardownDeleteSchema, visible: [], banner: ["job", "step", "version"] },
-  stepTorque: { schema: stepTorqueSchema, visible: ["torqueValue", "torqueUnit", "boltCount", "angleStages", "lubrication"], banner: ["job", "step", "oneTime", "plausibleChecked"] },
+  stepTorque: {
+    schema: stepTorqueSchema,
+    visible: ["torqueValue", "torqueUnit", "boltCount", "angleStages", "lubrication", "lubricationOther", "retorqueSequence"],
+    banner: ["job", "step", "loosenRetorque", "oneTime", "plausibleChecked"],
+  },
   chainReading: { schema: chainReadingSchema, visible: ["label", "pitchMm", "pitches", "measuredMm", "limitPct", "sprocketTeeth", "source"], banner: ["job", "countChecked"] },
   // The invoice page (app/(staff)/shop/[shop]/jobs/[number]/invoice/_components/draft-forms.tsx).
   // "qty"/"unitPrice", "hours"/"rate" and "amount" are shown by kind; the server names the one

@@ -12,7 +12,7 @@ import type { Actor } from "@/lib/permissions";
 import type { PartInput, SpecInput } from "@/lib/schemas/bench";
 import type { JobAccess, Resolved } from "@/lib/server/access";
 import { onField, shopNumberStyle } from "@/lib/server/bench";
-import { type NumberInput, readNumberField, readOptNumberField } from "@/lib/schemas/number";
+import { type NumberInput, readNumberField, readOptMeasuredField } from "@/lib/schemas/number";
 import { assertPassPercents } from "@/lib/tightening-passes";
 import type { BenchSettings, PartStatus } from "@/lib/bench";
 import { type Save, saveSection } from "@/lib/server/shop-settings";
@@ -57,11 +57,16 @@ export async function addSpec(actor: Actor, { shop }: Resolved<"shop">, input: S
   const style = await shopNumberStyle(shop.slug);
   // Six decimals: what the columns keep (DECIMAL(16,6)).
   const rules = (what: string) => ({ what, min: -1_000_000, max: 1_000_000, allowNegative: true, maxDecimals: 6 });
+  // Each number keeps the decimals typed ("0.10" → 2): a limit's resolution, as a reading's.
+  const value = readOptMeasuredField("value", typed.value, style, { what: "The value", min: 0, max: 100_000, maxDecimals: 6 });
+  const min = readOptMeasuredField("min", typed.min, style, rules("The minimum"));
+  const max = readOptMeasuredField("max", typed.max, style, rules("The maximum"));
   const spec = {
     ...typed,
-    value: readOptNumberField("value", typed.value, style, { what: "The value", min: 0, max: 100_000, maxDecimals: 6 }),
-    min: readOptNumberField("min", typed.min, style, rules("The minimum")),
-    max: readOptNumberField("max", typed.max, style, rules("The maximum")),
+    value: value?.value ?? null,
+    min: min?.value ?? null,
+    max: max?.value ?? null,
+    decimals: { value: value?.decimals ?? null, min: min?.decimals ?? null, max: max?.decimals ?? null },
   };
   if (spec.min != null && spec.max != null && spec.min > spec.max) throw new AppError("invalid", "The minimum can't be above the maximum.", { min: ["The minimum can't be above the maximum."] });
   // A torque spec stores its unit id (nm, lbf_ft…) so the torque form can pre-fill from it.

@@ -16,8 +16,8 @@ import { passSchedule } from "@/lib/tightening-passes";
 import { supportsCrossPattern } from "@/lib/tightening-order";
 import { type TorqueUnit, convertTorque, torqueUnitLabel } from "@/lib/torque";
 import { WRENCH_CLASSES } from "@/lib/torque-check";
-import { type Lubrication, stepFastener, torqueAngleWarning } from "@/lib/torque-special";
-import { type TorqueExtrasInput, readStepTorqueExtras, readTorqueExtras } from "@/lib/server/torque-special";
+import { stepFastener, torqueAngleWarning } from "@/lib/torque-special";
+import { type StepExtrasInput, type TorqueExtrasInput, readStepTorqueExtras, readTorqueExtras } from "@/lib/server/torque-special";
 
 // Bench records for one job, already resolved and authorised by the caller's declaration
 // (lib/server/access.ts): check with the pure domain modules → write the row and its timeline
@@ -221,7 +221,7 @@ function found(ok: boolean) {
 }
 
 /** Issue 18 §3–4: angle stages, lubrication and one-time fasteners; the plausibility check as on a torque record. */
-type StepTorqueExtras = { angleStages?: string | null; lubrication?: Lubrication | null; oneTime?: boolean; plausibleChecked?: boolean };
+type StepTorqueExtras = StepExtrasInput & { plausibleChecked?: boolean };
 export async function setTeardownTorque(actor: Actor, { job }: JobAccess, input: { step: number; torqueValue: NumberInput; torqueUnit: TorqueUnit; boltCount: number | null } & StepTorqueExtras) {
   const settings = await getBenchSettings({ shopId: job.shopId });
   const style = await shopNumberStyle(job.shopSlug);

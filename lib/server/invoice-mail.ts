@@ -76,6 +76,8 @@ export async function queueReceiptMail(
   tx: Tx,
   m: Owner & {
     paymentId: number;
+    /** The shop's own number for it (lib/receipts.ts). */
+    receipt: string;
     kind: PaymentKind;
     method: PaymentMethod;
     amountMinor: number;
@@ -88,7 +90,7 @@ export async function queueReceiptMail(
   const money = (n: number) => formatMoney(n, m.currency);
   const name = await getShopName({ shopId: m.job.shopId }, tx);
   const i = m.invoice;
-  const rows: [string, string][] = [["How", PAYMENT_METHOD_LABEL[m.method]]];
+  const rows: [string, string][] = [[m.kind === "refund" ? "Refund no." : "Receipt no.", m.receipt], ["How", PAYMENT_METHOD_LABEL[m.method]]];
   if (m.reference) rows.push(["Reference", m.reference]);
   if (i) rows.push([`Invoice ${formatInvoiceNumber(i.number)} total`, money(i.totalMinor)], ["Paid so far", money(i.paidMinor)], [i.balanceMinor > 0 ? "Balance due" : "Balance", money(Math.max(i.balanceMinor, 0))]);
   rows.push([m.kind === "refund" ? "Refunded" : "Received", money(m.amountMinor)]);

@@ -125,7 +125,7 @@ export async function renderInvoicePdf(view: InvoiceView): Promise<Buffer> {
     heading("Payments");
     for (const p of view.payments) {
       room(14);
-      text(`${PAYMENT_KIND_LABEL[p.kind]} · ${PAYMENT_METHOD_LABEL[p.method]}${p.reference ? ` · ${p.reference}` : ""} · ${when(p.receivedAt, tz)}: ${p.kind === "refund" ? "-" : ""}${m(p.amountMinor)}`, LEFT, { width: RIGHT - LEFT });
+      text(`${p.receipt} · ${PAYMENT_KIND_LABEL[p.kind]} · ${PAYMENT_METHOD_LABEL[p.method]}${p.reference ? ` · ${p.reference}` : ""} · ${when(p.receivedAt, tz)}: ${p.kind === "refund" ? "-" : ""}${m(p.amountMinor)}`, LEFT, { width: RIGHT - LEFT });
     }
   }
   if (inv.returnedPartsNote) {

@@ -4,6 +4,7 @@ import { type DepositRow, type PaymentRow, listJobDeposits, listJobPayments } fr
 import { type Balance, type PricedLine, balanceOf, formatInvoiceNumber } from "@/lib/invoices";
 import { describeMachine } from "@/lib/machine";
 import { taxLabel } from "@/lib/money";
+import { ownerReference, receiptNumbers } from "@/lib/receipts";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { type AuthorisationEntry, type AuthorisedWork, lineKey } from "@/lib/server/authorised-work";
 import { authorisedWorkOf } from "@/lib/server/request-cache";
@@ -13,7 +14,8 @@ import { authorisedWorkOf } from "@/lib/server/request-cache";
 // authorisation record. A fixed number of queries whatever the number of lines or payments.
 
 export type ViewLine = PricedLine & { id: number };
-export type ViewPayment = PaymentRow & { refundableMinor: number };
+/** receipt: the shop's own number for it (lib/receipts.ts), what owners and receipts show. */
+export type ViewPayment = PaymentRow & { refundableMinor: number; receipt: string };
 
 export type InvoiceView = {
   shop: { name: string; email: string | null; phone: string | null; timezone: string };
@@ -59,6 +61,7 @@ export async function invoiceView(jobId: number, audience: "shop" | "owner"): Pr
     };
   }
   const onInvoice = new Set(rows.map(lineKey));
+  const receipts = receiptNumbers(h.job.number, payments);
   return {
     shop: { name: h.shop.name, email: h.shop.email, phone: h.shop.phone, timezone: h.shop.timezone },
     job: {
@@ -73,7 +76,13 @@ export async function invoiceView(jobId: number, audience: "shop" | "owner"): Pr
     },
     invoice,
     voided: invoices.filter((i) => i.status === "void" && (audience === "shop" || i.issuedAt)).map((i) => ({ label: formatInvoiceNumber(i.number), voidedAt: i.voidedAt, note: i.note })),
-    payments: payments.map((p) => ({ ...p, refundableMinor: p.kind === "refund" ? 0 : p.amountMinor - (refunded.get(p.id) ?? 0) })),
+    payments: payments.map((p) => ({
+      ...p,
+      refundableMinor: p.kind === "refund" ? 0 : p.amountMinor - (refunded.get(p.id) ?? 0),
+      receipt: receipts.get(p.id)!,
+      // Owners (page, PDF, JSON) never get the payments service's raw ids; staff keep them to reconcile.
+      ...(audience === "owner" ? { reference: ownerReference(p), providerPaymentId: null, providerRefundId: null } : {}),
+    })),
     deposits,
     balance: balanceOf(invoice?.totalMinor ?? 0, payments),
     record: work.record,

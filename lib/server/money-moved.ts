@@ -2,8 +2,9 @@ import "server-only";
 import type { Tx } from "@/db/transaction";
 import { getLiveInvoice, lockJob } from "@/db/queries/invoices";
 import { insertEntry } from "@/db/queries/entries";
-import { getMoneyJob, insertPayment, type NewPayment } from "@/db/queries/payments";
+import { getMoneyJob, insertPayment, listJobPayments, type NewPayment } from "@/db/queries/payments";
 import { type PaymentEntryBody, type PaymentKind, type PaymentMethod, formatInvoiceNumber } from "@/lib/invoices";
+import { ownerReference, receiptNumbers } from "@/lib/receipts";
 import { queueReceiptMail } from "@/lib/server/invoice-mail";
 import { recordInboxEvent } from "@/lib/server/inbox";
 import { recompute } from "@/lib/server/invoices";
@@ -45,6 +46,8 @@ export async function recordMoney(tx: Tx, p: NewPayment & { authorId: number | n
   });
   if (owner.customerEmail) {
     const job = (await getMoneyJob(tx, p.jobId))!;
+    // The receipt carries the shop's own number, never the payments service's id.
+    const receipt = receiptNumbers(job.number, await listJobPayments({ shopId: p.shopId, jobId: p.jobId }, tx)).get(paymentId)!;
     await queueReceiptMail(tx, {
       to: owner.customerEmail,
       ownerName: owner.customerName,
@@ -53,7 +56,8 @@ export async function recordMoney(tx: Tx, p: NewPayment & { authorId: number | n
       method: p.method,
       amountMinor: p.amountMinor,
       currency: p.currency,
-      reference: p.reference ?? null,
+      receipt,
+      reference: ownerReference({ reference: p.reference ?? null, providerPaymentId: p.providerPaymentId, providerRefundId: p.providerRefundId }),
       invoice: shown,
       job,
     });

@@ -37,6 +37,13 @@ export function readLubrication(l: Lubrication | null | undefined, other: string
   return { lubrication: l ?? null, lubricationOther: l === "other" ? (other ?? null) : null };
 }
 
+/** Typing the sequence says the fastener is loosened and retorqued, ticked or not; a tick needs the sequence. */
+export function readRetorque(input: { loosenRetorque?: boolean | null; retorqueSequence?: string | null }): { loosenRetorque: boolean; retorqueSequence: string | null } {
+  const loosenRetorque = input.loosenRetorque === true || !!input.retorqueSequence;
+  if (loosenRetorque && !input.retorqueSequence) throw say("retorqueSequence", "Say how it is loosened and retorqued, e.g. “loosen 180°, retorque to 20 N·m, then + 90°”.");
+  return { loosenRetorque, retorqueSequence: loosenRetorque ? (input.retorqueSequence ?? null) : null };
+}
+
 export function readTorqueExtras(input: TorqueExtrasInput, recordUnit: TorqueUnit, style: NumberStyle, timeZone: string, now = new Date()): Extras {
   const calibratedOn = input.calibratedOn ?? null;
   if (calibratedOn) {
@@ -53,9 +60,7 @@ export function readTorqueExtras(input: TorqueExtrasInput, recordUnit: TorqueUni
     wrenchMax = { value, unit };
   }
   const angleStages = readAngleStages("angleStages", input.angleStages, style);
-  // Typing the sequence says the fastener is loosened and retorqued, ticked or not; a tick needs the sequence.
-  const loosenRetorque = input.loosenRetorque === true || !!input.retorqueSequence;
-  if (loosenRetorque && !input.retorqueSequence) throw say("retorqueSequence", "Say how it is loosened and retorqued, e.g. “loosen 180°, retorque to 20 N·m, then + 90°”.");
+  const { loosenRetorque, retorqueSequence } = readRetorque(input);
   return {
     toolSerial: input.toolSerial ?? null,
     calibratedOn,
@@ -63,13 +68,31 @@ export function readTorqueExtras(input: TorqueExtrasInput, recordUnit: TorqueUni
     angleStages,
     angleDone: angleStages.length > 0 && input.angleDone === true,
     loosenRetorque,
-    retorqueSequence: loosenRetorque ? (input.retorqueSequence ?? null) : null,
+    retorqueSequence,
     ...readLubrication(input.lubrication, input.lubricationOther),
     oneTime: input.oneTime === true,
   };
 }
 
-/** A teardown step's torque with its angle stages, lubrication and one-time flag. */
-export function readStepTorqueExtras(input: { angleStages?: string | null; lubrication?: Lubrication | null; oneTime?: boolean }, style: NumberStyle): Pick<StepTorque, "angleStages" | "lubrication" | "oneTime"> {
-  return { angleStages: readAngleStages("angleStages", input.angleStages, style), lubrication: input.lubrication ?? null, oneTime: input.oneTime === true };
+/** What a step's torque takes beyond its value (all optional: steps from code may leave them out). */
+export type StepExtrasInput = {
+  angleStages?: string | null;
+  lubrication?: Lubrication | null;
+  lubricationOther?: string | null;
+  loosenRetorque?: boolean | null;
+  retorqueSequence?: string | null;
+  oneTime?: boolean;
+};
+
+/** A teardown step's torque with its angle stages, lubrication ("other" says what), loosen-and-retorque and one-time flag, read as a record's. */
+export function readStepTorqueExtras(
+  input: StepExtrasInput,
+  style: NumberStyle,
+): Pick<StepTorque, "angleStages" | "lubrication" | "lubricationOther" | "loosenRetorque" | "retorqueSequence" | "oneTime"> {
+  return {
+    angleStages: readAngleStages("angleStages", input.angleStages, style),
+    ...readLubrication(input.lubrication, input.lubricationOther),
+    ...readRetorque(input),
+    oneTime: input.oneTime === true,
+  };
 }

@@ -24,8 +24,13 @@ test("a clip goes up in 1 MB chunks through a failed chunk, turns playable by it
   const page = await staff.newPage();
   const bench = new JobPage(page);
   await bench.open("/shop/copper-gulch/jobs/5");
-  await page.getByRole("tab", { name: "Clip" }).click();
-  await page.getByLabel("Share new clips with the owner").check();
+  // The tabs work once the page has hydrated: on a busy machine the first click can come before.
+  const shareBox = page.getByLabel("Share new clips with the owner");
+  await expect(async () => {
+    await page.getByRole("tab", { name: "Clip" }).click();
+    await expect(shareBox).toBeVisible({ timeout: 2000 });
+  }).toPass({ timeout: 30_000 });
+  await shareBox.check();
   await page.getByLabel("Choose clips").setInputFiles(file);
   const queued = page.getByRole("list", { name: "Clips on their way" });
   await expect(queued.getByText(/Sent\. It shows in the journal/)).toBeVisible({ timeout: 60_000 });

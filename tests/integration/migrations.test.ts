@@ -51,6 +51,8 @@ describe("migrations on an empty database", () => {
     expect(await db.schema.hasColumn("teardown_steps", "torque_one_time")).toBe(true);
     expect(await db.schema.hasColumn("shop_bench_settings", "wrench_class")).toBe(true);
     expect(await db.schema.hasColumn("readings", "value_decimals")).toBe(true);
+    expect(await db.schema.hasColumn("spec_entries", "min_decimals")).toBe(true);
+    expect(await db.schema.hasColumn("teardown_steps", "torque_retorque_sequence")).toBe(true);
   }, 90_000); // every migration from nothing: some 20 s on a busy 2-core machine
 
   it("keep a job's customer and machine in the job's own shop (composite foreign keys)", async () => {

@@ -14,6 +14,7 @@ import { DEFAULT_MONEY_SETTINGS } from "@/lib/approvals";
 import type { Actor } from "@/lib/permissions";
 import { access } from "@/lib/server/access";
 import { refundPayment, startDepositCheckout, startInvoiceCheckout, requestDeposit } from "@/lib/server/invoice-payments";
+import { invoiceView } from "@/lib/server/invoice-views";
 import { createInvoice, issueInvoice } from "@/lib/server/invoices";
 import { confirmReturn, receivePaymentWebhook } from "@/lib/server/payment-webhook";
 import { readWebhookBody } from "@/lib/server/body-limit";
@@ -186,6 +187,39 @@ describe("online payments through the payments fake", () => {
     // The webhook found the refund already recorded from the API answer, and said so with a 200.
     expect(hook.answers).not.toContain(500);
     expect(await k("outbox").where({ kind: "receipt", to_email: owner.email })).toHaveLength(2);
+  });
+
+  it("owners see the shop's receipt numbers, never the payments service's ids; staff keep them", async () => {
+    const job = jobs[0]!;
+    const number = Number((await k("jobs").where({ id: job.id }).first("number"))!.number);
+    const label = `J-${String(number).padStart(4, "0")}`;
+    // The service's ids on record for this job, and any id in the fake's format (fakes/payments/store.ts).
+    const onRecord = (await payments(job.id)).flatMap((r) => [r.provider_payment_id, r.provider_refund_id, r.provider_session_id]).filter(Boolean) as string[];
+    expect(onRecord.length).toBeGreaterThanOrEqual(3);
+    const SERVICE_ID = new RegExp(`(?:^|[^A-Za-z0-9_-])(?:pi|ch|re|cs_test)_[A-Za-z0-9]{24}|${onRecord.join("|")}`);
+    // The payment and the refund from the tests above: R1 and R2 in the order they were recorded.
+    const receipts = await k("outbox").where({ kind: "receipt", to_email: owner.email }).orderBy("id");
+    expect(receipts).toHaveLength(2);
+    expect(receipts[0]!.text).toContain(`Receipt no.: ${label}-R1`);
+    expect(receipts[1]!.text).toContain(`Refund no.: ${label}-R2`);
+    expect(receipts[1]!.text).toContain("Reference: Refund: Goodwill");
+    for (const r of receipts) {
+      expect(r.text).not.toMatch(SERVICE_ID);
+      expect(r.html).not.toMatch(SERVICE_ID);
+    }
+    // The owner's invoice page, PDF and JSON all read this view.
+    const seen = await invoiceView(job.id, "owner");
+    expect(seen.payments.map((p) => [p.kind, p.receipt, p.providerPaymentId, p.providerRefundId])).toEqual([
+      ["payment", `${label}-R1`, null, null],
+      ["refund", `${label}-R2`, null, null],
+    ]);
+    expect(seen.payments.map((p) => p.reference)).toEqual([null, "Refund: Goodwill"]);
+    expect(JSON.stringify(seen.payments)).not.toMatch(SERVICE_ID);
+    // The desk reconciles with the service's ids; the numbers are the same ones.
+    const desk = await invoiceView(job.id, "shop");
+    expect(desk.payments.map((p) => p.receipt)).toEqual([`${label}-R1`, `${label}-R2`]);
+    expect(desk.payments[0]!.providerPaymentId).toMatch(/^pi_/);
+    expect(desk.payments[0]!.reference).toBe(desk.payments[0]!.providerPaymentId);
   });
 
   it("a deposit paid online on return is recorded once when the webhook arrives later", async () => {

@@ -85,9 +85,12 @@ describe("torque records: the wrench, torque-angle and special fasteners", () =>
     const owner = await listTimeline({ shopId: shop.id, jobId: job.id, audience: "owner", order: "desc", limit: 50 });
     const entry = owner.entries.find((e) => e.kind === "torque" && isTorqueBody(e.body) && e.body.fastener.startsWith("Cylinder head"))!;
     expect(isTorqueBody(entry.body) && torqueProof(entry.body)).toMatch(/; then \+ 90° by angle, done; threads oiled; one-time \(torque-to-yield\) fasteners: replace with new, never re-use$/);
-    expect(summarizeEntry({ kind: "torque", body: entry.body, caption: null, photoCount: 0 }).text).toBe(
+    // The e-mail says the wrench facts the views show (tests/unit/entry-summary-torque.test.ts).
+    expect(summarizeEntry({ kind: "torque", body: entry.body, caption: null, photoCount: 0, usedOn: todayIn(TZ) }).text!.split("\n")).toEqual([
       "Cylinder head bolts, 4 × M10 10.9: Torqued to 20.0 N·m, within ±4 % of the 20.0 N·m spec; then + 90° by angle, done; threads oiled; one-time (torque-to-yield) fasteners: replace with new, never re-use",
-    );
+      toolLine(staff, todayIn(TZ)),
+      `Outside the wrench's range: ${wrenchRangeFlags(staff)[0]}.`,
+    ]);
   });
 
   it("refuses a calibration date after today (the shop's day) beside its field, writing nothing", async () => {

@@ -56,6 +56,7 @@ describe("the shop's markup bands", () => {
   it("reads a stored rule back, and anything unreadable as no rule", () => {
     expect(asMarkupRule(JSON.stringify(BANDS))).toEqual(BANDS);
     expect(asMarkupRule({ kind: "bands", bands: [] })).toEqual({ kind: "none" });
+    expect(asMarkupRule("{not json")).toEqual({ kind: "none" });
     expect(asMarkupRule(null)).toEqual({ kind: "none" });
   });
 });

@@ -4,6 +4,7 @@ import type { MailEntry, MailJob, Recipient } from "@/db/queries/notifications";
 import { FREQUENCY_LABEL } from "@/lib/following";
 import { describeMachine } from "@/lib/machine";
 import { appUrl } from "@/lib/server/config";
+import { todayIn } from "@/lib/torque-special";
 import { mailThumbToken, unsubscribeToken } from "@/lib/server/signed-token";
 import { AlertEmail } from "./alert-email";
 import { summarizeEntry } from "./entry-summary";
@@ -47,7 +48,7 @@ export function entryViews(entries: MailEntry[], timeZone: string, now: Date): M
   const when = new Intl.DateTimeFormat("en-US", { timeZone, weekday: "short", month: "short", day: "numeric", hour: "numeric", minute: "2-digit" });
   const expires = new Date(now.getTime() + THUMB_LINK_DAYS * 24 * 60 * 60 * 1000);
   return entries.map((e) => {
-    const { label, text, note } = summarizeEntry({ kind: e.kind, body: e.body, caption: e.caption, photoCount: e.photoIds.length });
+    const { label, text, note } = summarizeEntry({ kind: e.kind, body: e.body, caption: e.caption, photoCount: e.photoIds.length, usedOn: todayIn(timeZone, e.createdAt) });
     return {
       id: e.id,
       time: when.format(e.createdAt),

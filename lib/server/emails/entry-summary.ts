@@ -2,7 +2,7 @@ import { PART_STATUS_LABEL, isPartBody, isReadingBody, isTeardownBody, isTorqueB
 import { readingLine } from "@/lib/reading-text";
 import { isMeasurementSetBody, measurementSetSummary } from "@/lib/measurements";
 import { outcomeText } from "@/lib/torque-check";
-import { anglePiece, fastenerPieces } from "@/lib/torque-special";
+import { anglePiece, fastenerPieces, toolLine, wrenchRangeFlags } from "@/lib/torque-special";
 import { JOB_STATUS_LABEL } from "@/lib/job-status";
 import { ENTRY_KIND_LABEL, type EntryKind, isStatusBody } from "@/lib/journal";
 import type { NoteDoc } from "@/lib/rich-text/note";
@@ -18,7 +18,7 @@ export type EntrySummary = {
 };
 
 /** What one shared entry says in an e-mail: a short label and a line or two of text, or a note's blocks. Pure. */
-export function summarizeEntry(e: { kind: string; body: unknown; caption: string | null; photoCount: number }): EntrySummary {
+export function summarizeEntry(e: { kind: string; body: unknown; caption: string | null; photoCount: number; /** The shop's day the entry was made ("YYYY-MM-DD"): a torque's calibration age is judged on it. */ usedOn?: string }): EntrySummary {
   const label = ENTRY_KIND_LABEL[e.kind as EntryKind] ?? "Update";
   const b = e.body;
   switch (e.kind) {
@@ -34,7 +34,20 @@ export function summarizeEntry(e: { kind: string; body: unknown; caption: string
     case "torque":
       // The real outcome, flagged when under or over; never "to spec" unless within tolerance. Then
       // angle stages, lubrication, loosen-and-retorque and one-time fasteners when recorded.
-      return { label, text: isTorqueBody(b) ? `${b.fastener}: ${[sentenceCase(outcomeText({ ...b, tolerancePct: toleranceOf(b) }, b.displayUnit)), anglePiece(b), ...fastenerPieces(b)].filter(Boolean).join("; ")}` : e.caption };
+      // The wrench facts follow on their own lines, as the staff and owner views show them
+      // (components/bench/torque-tool-facts.tsx, the same helpers).
+      if (!isTorqueBody(b)) return { label, text: e.caption };
+      return {
+        label,
+        text: [
+          `${b.fastener}: ${[sentenceCase(outcomeText({ ...b, tolerancePct: toleranceOf(b) }, b.displayUnit)), anglePiece(b), ...fastenerPieces(b)].filter(Boolean).join("; ")}`,
+          // Without the day (older callers) the calibration's age isn't judged: "" is before any date.
+          toolLine(b, e.usedOn ?? ""),
+          ...wrenchRangeFlags(b).map((f) => `Outside the wrench's range: ${f}.`),
+        ]
+          .filter(Boolean)
+          .join("\n"),
+      };
     case "reading":
       // Value, limit, source and verdict in one line: never the number alone (lib/reading-text.ts).
       return { label, text: isReadingBody(b) ? readingLine(b) : isMeasurementSetBody(b) ? measurementSetSummary(b) : e.caption };

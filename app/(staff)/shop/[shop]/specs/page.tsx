@@ -4,7 +4,8 @@ import Link from "next/link";
 import { Card, EmptyState, PageHeader, Table, TBody, TD, TH, THead, TR } from "@/components/ui";
 import { getBenchSettings } from "@/db/queries/bench";
 import { type SpecRow, listShopMachineModels, listSpecs } from "@/db/queries/bench-specs";
-import { SPEC_KIND_LABEL, limitText, plainNumber, torqueText } from "@/lib/bench";
+import { SPEC_KIND_LABEL, torqueText } from "@/lib/bench";
+import { atResolution, readingLimitText } from "@/lib/reading-text";
 import { can } from "@/lib/permissions";
 import { type TorqueUnit, isTorqueUnit } from "@/lib/torque";
 import { shopPageAccess } from "../shop-access";
@@ -19,8 +20,9 @@ function specValue(s: SpecRow, shopUnit: TorqueUnit): string {
     const pattern = s.boltCount ? `, ${s.boltCount} bolts` : "";
     return s.unit === shopUnit ? `${shown}${pattern}` : `${shown} (spec ${torqueText(s.value, s.unit)})${pattern}`;
   }
-  if (s.kind === "limit") return limitText(s) ?? "";
-  if (s.value != null) return `${plainNumber(s.value)}${s.unit ? ` ${s.unit}` : ""}`;
+  // At the resolution typed ("0.10" stays 0.10); entries from before migration 32 as before.
+  if (s.kind === "limit") return readingLimitText(s) ?? "";
+  if (s.value != null) return `${atResolution(s.value, s.decimals.value)}${s.unit ? ` ${s.unit}` : ""}`;
   return "";
 }
 

@@ -63,7 +63,7 @@ export default async function BenchPage({ params }: Props) {
   const torqueSpecs = specs.flatMap((s) =>
     s.kind === "torque" && s.value != null && s.unit && isTorqueUnit(s.unit) ? [{ id: s.id, label: s.label, value: s.value, unit: s.unit, boltCount: s.boltCount, source: s.source }] : [],
   );
-  const limitSpecs = specs.filter((s) => s.kind === "limit").map((s) => ({ id: s.id, label: s.label, unit: s.unit, min: s.min, max: s.max, source: s.source }));
+  const limitSpecs = specs.filter((s) => s.kind === "limit").map((s) => ({ id: s.id, label: s.label, unit: s.unit, min: s.min, max: s.max, source: s.source, decimals: { min: s.decimals.min, max: s.decimals.max } }));
   const mayRecord = can(actor, "bench:record", resource);
   const jobPath = `/shop/${shop.slug}/jobs/${job.number}`;
 

@@ -6,11 +6,13 @@ import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { FORM_VISIBLE } from "@/lib/form-visible";
 import { type NumberStyle, formatNumberInput, numberStyleFor } from "@/lib/number-input";
 
-export type LimitSpecOption = { id: number; label: string; unit: string | null; min: number | null; max: number | null; source: string | null };
+/** decimals: as typed in the library ("0.10" → 2), null on entries from before; the limit keeps them. */
+export type LimitSpecOption = { id: number; label: string; unit: string | null; min: number | null; max: number | null; source: string | null; decimals: { min: number | null; max: number | null } };
 
 const EMPTY = { label: "", unit: "", min: "", max: "", source: "" };
-// Limits from the library are filled in as the shop writes numbers, so they read back the same.
-const text = (n: number | null, style: NumberStyle) => (n == null ? "" : formatNumberInput(n, style));
+// Limits from the library are filled in as the shop writes numbers, at the resolution typed there
+// ("0.10" stays 0.10), so they read back the same and the reading keeps the limit's decimals.
+const text = (n: number | null, style: NumberStyle, decimals: number | null) => (n == null ? "" : formatNumberInput(n, style, decimals ?? undefined));
 
 /** A measured value against the limits typed from the manual (or picked from the shop's specs). */
 export function ReadingForm({ jobPublicId, currency, specs }: { jobPublicId: string; currency: string; specs: LimitSpecOption[] }) {
@@ -22,7 +24,7 @@ export function ReadingForm({ jobPublicId, currency, specs }: { jobPublicId: str
 
   function pick(id: string) {
     const s = specs.find((x) => String(x.id) === id);
-    if (s) setF({ label: s.label, unit: s.unit ?? "", min: text(s.min, style), max: text(s.max, style), source: s.source ?? "" });
+    if (s) setF({ label: s.label, unit: s.unit ?? "", min: text(s.min, style, s.decimals.min), max: text(s.max, style, s.decimals.max), source: s.source ?? "" });
   }
 
   return (

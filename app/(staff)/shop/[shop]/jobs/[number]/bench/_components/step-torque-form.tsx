@@ -6,7 +6,8 @@ import { Button, Field, Input, Select } from "@/components/ui";
 import type { StepTorque } from "@/lib/bench";
 import { formatNumberInput, numberStyleFor, parseNumberInput } from "@/lib/number-input";
 import { type TorqueUnit, isTorqueUnit } from "@/lib/torque";
-import { LUBRICATIONS, LUBRICATION_LABEL, angleText, parseAngleStages, torqueAngleWarning } from "@/lib/torque-special";
+import { angleText, parseAngleStages, torqueAngleWarning } from "@/lib/torque-special";
+import { ThreadsAndRetorque } from "./torque-special-fields";
 import { setStepTorqueAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
@@ -48,23 +49,12 @@ export function StepTorqueForm({ jobPublicId, currency, stepId, current, shopUni
         </Field>
       </div>
       {warning ? <PlausibilityConfirm warning={warning} /> : null}
-      <div className="grid grid-cols-2 gap-3">
-        <Field id={id("angle")} label="Then turn, degrees" hint="e.g. “90” or “90 + 90”" error={fieldError("angleStages") ?? (angleRead.ok ? undefined : angleRead.message)}>
-          <Input name="angleStages" autoComplete="off" value={angle} onChange={(e) => setAngle(e.target.value)} maxLength={60} />
-        </Field>
-        <Field id={id("lubrication")} label="Threads" error={fieldError("lubrication")}>
-          <Select name="lubrication" key={`lube-${values?.lubrication ?? ""}`} defaultValue={values?.lubrication ?? current?.lubrication ?? ""}>
-            <option value="">Not recorded</option>
-            {/* "Other" needs words the checklist has no room for: say it in the step's notes. */}
-            {LUBRICATIONS.filter((l) => l !== "other").map((l) => (
-              <option key={l} value={l}>
-                {LUBRICATION_LABEL[l]}
-              </option>
-            ))}
-          </Select>
-        </Field>
-      </div>
+      <Field id={id("angle")} label="Then turn, degrees" hint="e.g. “90” or “90 + 90”" error={fieldError("angleStages") ?? (angleRead.ok ? undefined : angleRead.message)}>
+        <Input name="angleStages" autoComplete="off" value={angle} onChange={(e) => setAngle(e.target.value)} maxLength={60} />
+      </Field>
       {angleRead.ok && angleRead.stages.length ? <p className="text-sm">Then {angleText(angleRead.stages)} by angle.</p> : null}
+      {/* The torque record's own fields (lubrication with "other", loosen-and-retorque); keyed so a failed send shows what was sent. */}
+      <ThreadsAndRetorque key={`threads-${values?.lubrication ?? current?.lubrication ?? ""}`} idPrefix={id("t")} fieldError={fieldError} values={values} saved={current} />
       <label className="flex min-h-tap items-center gap-3">
         <input type="checkbox" name="oneTime" className="size-6 accent-oil" defaultChecked={values ? values.oneTime === "on" : current?.oneTime === true} />
         <span>One-time (torque-to-yield) fasteners: replace with new</span>

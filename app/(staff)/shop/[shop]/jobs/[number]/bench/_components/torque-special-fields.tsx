@@ -68,7 +68,6 @@ export function WrenchFields({ style, unit, specValue, passPercents, fieldError 
  * the form). The angle text is the form's: its plausibility check depends on it.
  */
 export function FastenerFields({ style, unit, shopUnit, specValue, fieldError, values, angle, setAngle }: { style: NumberStyle; unit: TorqueUnit; shopUnit: TorqueUnit; specValue: number | null; fieldError: FieldError; values: Values; angle: string; setAngle: (text: string) => void }) {
-  const [lube, setLube] = useState<Lubrication | "">(isLubrication(values?.lubrication) ? values.lubrication : "");
   const read = parseAngleStages(angle, style);
   const stages = read.ok ? read.stages : [];
   return (
@@ -84,8 +83,29 @@ export function FastenerFields({ style, unit, shopUnit, specValue, fieldError, v
           <span>Angle stages turned, in order</span>
         </label>
       ) : null}
+      <ThreadsAndRetorque idPrefix="torque" fieldError={fieldError} values={values} />
+      <label className="flex min-h-tap items-center gap-3">
+        <input type="checkbox" name="oneTime" className="size-6 accent-oil" defaultChecked={values?.oneTime === "on"} />
+        <span>One-time (torque-to-yield) fasteners: replace with new</span>
+      </label>
+    </fieldset>
+  );
+}
+
+type Saved = { lubrication?: Lubrication | null; lubricationOther?: string | null; loosenRetorque?: boolean | null; retorqueSequence?: string | null } | null;
+
+/**
+ * The thread lubrication (with what "other" was) and loosen-and-retorque with its sequence: the
+ * torque record's fields and a teardown step's alike. `saved`: a step's torque as stored, shown
+ * until the form is sent; `idPrefix` keeps ids apart where several forms share a page.
+ */
+export function ThreadsAndRetorque({ idPrefix, fieldError, values, saved = null }: { idPrefix: string; fieldError: FieldError; values: Values; saved?: Saved }) {
+  const first = values ? values.lubrication : (saved?.lubrication ?? "");
+  const [lube, setLube] = useState<Lubrication | "">(isLubrication(first) ? first : "");
+  return (
+    <>
       <div className="grid grid-cols-2 gap-3">
-        <Field id="torque-lubrication" label="Threads" error={fieldError("lubrication")}>
+        <Field id={`${idPrefix}-lubrication`} label="Threads" error={fieldError("lubrication")}>
           <Select name="lubrication" value={lube} onChange={(e) => setLube(isLubrication(e.target.value) ? e.target.value : "")}>
             <option value="">Not recorded</option>
             {LUBRICATIONS.map((l) => (
@@ -96,22 +116,18 @@ export function FastenerFields({ style, unit, shopUnit, specValue, fieldError, v
           </Select>
         </Field>
         {lube === "other" ? (
-          <Field id="torque-lubrication-other" label="What was on the threads" error={fieldError("lubricationOther")} required>
-            <Input name="lubricationOther" autoComplete="off" defaultValue={values?.lubricationOther} maxLength={60} />
+          <Field id={`${idPrefix}-lubrication-other`} label="What was on the threads" error={fieldError("lubricationOther")} required>
+            <Input name="lubricationOther" autoComplete="off" defaultValue={values ? values.lubricationOther : (saved?.lubricationOther ?? "")} maxLength={60} />
           </Field>
         ) : null}
       </div>
       <label className="flex min-h-tap items-center gap-3">
-        <input type="checkbox" name="loosenRetorque" className="size-6 accent-oil" defaultChecked={values?.loosenRetorque === "on"} />
+        <input type="checkbox" name="loosenRetorque" className="size-6 accent-oil" defaultChecked={values ? values.loosenRetorque === "on" : saved?.loosenRetorque === true} />
         <span>Loosened and retorqued</span>
       </label>
-      <Field id="torque-retorque" label="Loosen-and-retorque sequence (with the tick)" hint="e.g. “loosen 180°, retorque to 20 N·m, then + 90°”" error={fieldError("retorqueSequence")}>
-        <Input name="retorqueSequence" autoComplete="off" defaultValue={values?.retorqueSequence} maxLength={300} />
+      <Field id={`${idPrefix}-retorque`} label="Loosen-and-retorque sequence (with the tick)" hint="e.g. “loosen 180°, retorque to 20 N·m, then + 90°”" error={fieldError("retorqueSequence")}>
+        <Input name="retorqueSequence" autoComplete="off" defaultValue={values ? values.retorqueSequence : (saved?.retorqueSequence ?? "")} maxLength={300} />
       </Field>
-      <label className="flex min-h-tap items-center gap-3">
-        <input type="checkbox" name="oneTime" className="size-6 accent-oil" defaultChecked={values?.oneTime === "on"} />
-        <span>One-time (torque-to-yield) fasteners: replace with new</span>
-      </label>
-    </fieldset>
+    </>
   );
 }
