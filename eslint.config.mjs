@@ -12,7 +12,7 @@ const config = [
     },
   },
   {
-    ignores: [".next*/**", ".data/**", "node_modules/**", "next-env.d.ts", "test-results/**", "playwright-report/**"],
+    ignores: [".next*/**", ".data/**", "node_modules/**", "public/sw/**", "next-env.d.ts", "test-results/**", "playwright-report/**"],
   },
   {
     rules: {

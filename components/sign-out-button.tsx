@@ -3,11 +3,13 @@ import { useActionState } from "react";
 import { LogOut, UserRound } from "lucide-react";
 import { signOutAction, signOutEverywhereAction } from "@/app/(auth)/sign-in/actions";
 import { Button } from "@/components/ui";
+import { forgetOfflineCopies } from "@/lib/offline/private-caches";
 
+// Both sign-outs drop the job pages and photos the staff app kept for offline use (lib/offline/).
 export function SignOutButton({ email }: { email: string }) {
   const [, action, pending] = useActionState(signOutAction, null);
   return (
-    <form action={action}>
+    <form action={action} onSubmit={() => void forgetOfflineCopies()}>
       <Button type="submit" variant="ghost" loading={pending} icon={<LogOut aria-hidden className="size-5" />} aria-label={`Sign out ${email}`}>
         <span className="hidden sm:inline">Sign out</span>
       </Button>
@@ -28,7 +30,7 @@ export function AccountMenu({ email }: { email: string }) {
         <p className="break-words text-sm text-ink-muted">
           Signed in as <strong className="text-ink">{email}</strong>
         </p>
-        <form action={action}>
+        <form action={action} onSubmit={() => void forgetOfflineCopies()}>
           <Button type="submit" variant="secondary" loading={pending} icon={<LogOut aria-hidden className="size-5" />} fullWidth>
             Sign out everywhere
           </Button>

@@ -9,6 +9,7 @@ import type { MachineKind } from "@/lib/machine";
 import type { StaffRole } from "@/lib/permissions";
 import type { ConsentDecision, StoryItemKind, StoryStatus } from "@/lib/portfolio";
 import type { ReadingVerdict } from "@/lib/readings";
+import type { ConsentHow, NotifyChannels, OptOutHow, TextDelivery, TextFiled } from "@/lib/texts";
 import type { TorqueUnit } from "@/lib/torque";
 
 // Every table's row, once, as db/migrations defines it and as mysql2 hands it back with the
@@ -49,6 +50,10 @@ export type ShopsTable = {
   /** 16: postal address and opening hours (JSON text, lib/shop-settings.ts OpeningHours). */
   address: string | null;
   opening_hours: JsonText | null;
+  /** 34: the shop's own text sender (E.164; null: SMS_DEFAULT_FROM) and quiet hours in minutes after midnight, shop time. */
+  sms_from: string | null;
+  sms_quiet_start: number;
+  sms_quiet_end: number;
   created_at: Date;
 };
 
@@ -66,6 +71,13 @@ export type CustomersTable = {
   phone: string | null;
   /** How they like to be reached (migration 18); null until someone asks. */
   contact_preference: ContactPreference | null;
+  /** 34: the owner's choice for notices, and their text consent as it stands (lib/texts.ts). */
+  notify_channels: NotifyChannels;
+  text_consent_phone: string | null;
+  text_consent_at: Date | null;
+  text_consent_how: ConsentHow | null;
+  text_opt_out_at: Date | null;
+  text_opt_out_how: OptOutHow | null;
   created_at: Date;
 };
 
@@ -134,7 +146,8 @@ export type JobStatusChangesTable = {
   changed_at: Date;
 };
 
-export type SignInLinksTable = { id: number; email: string; token_hash: string; expires_at: Date; used_at: Date | null; created_at: Date };
+/** `next_path` (34): where the link leads once used (a text's short link to an approval request). */
+export type SignInLinksTable = { id: number; email: string; token_hash: string; expires_at: Date; used_at: Date | null; created_at: Date; next_path: string | null };
 
 export type AuthAttemptsTable = {
   id: number;
@@ -470,6 +483,61 @@ export type OutboxTable = {
   sent_at: Date | null;
 };
 
+// ---- text messages (migration 34) ----------------------------------------------------------------
+
+export type TextConsentLogTable = {
+  id: number;
+  shop_id: number;
+  customer_id: number;
+  phone: string;
+  action: "granted" | "revoked";
+  how: ConsentHow | OptOutHow;
+  user_id: number | null;
+  at: Date;
+};
+
+export type TextOutboxTable = {
+  id: number;
+  shop_id: number;
+  job_id: number | null;
+  customer_id: number | null;
+  kind: string;
+  purpose: "notice" | "keyword_reply";
+  to_phone: string;
+  from_phone: string;
+  body: string;
+  state: "queued" | "sending" | "retrying" | "sent" | "dead";
+  delivery: TextDelivery | null;
+  attempts: number;
+  next_attempt_at: Date;
+  locked_until: Date | null;
+  claim_token: string | null;
+  ref: string;
+  dedupe_key: string | null;
+  provider_sid: string | null;
+  error_code: number | null;
+  last_error: string | null;
+  held_reason: string | null;
+  created_at: Date;
+  sent_at: Date | null;
+  delivered_at: Date | null;
+};
+
+export type TextStatusEventsTable = { provider_sid: string; status: string; received_at: Date };
+
+export type TextInboundTable = {
+  id: number;
+  provider_sid: string;
+  shop_id: number | null;
+  customer_id: number | null;
+  job_id: number | null;
+  from_phone: string;
+  to_phone: string;
+  body: string;
+  filed: TextFiled;
+  received_at: Date;
+};
+
 export type JobSubscribersTable = {
   id: number;
   shop_id: number;
@@ -705,7 +773,7 @@ export type InvoiceLinesTable = {
   shop_id: number;
   invoice_id: number;
   position: number;
-  source: "authorised" | "added";
+  source: "authorised" | "added" | "core_charge" | "core_credit";
   request_public_id: string | null;
   request_line_no: number | null;
   kind: LineKind;
@@ -717,6 +785,8 @@ export type InvoiceLinesTable = {
   rate_minor: number | null;
   amount_minor: number | null;
   taxable: Flag;
+  /** Migration 33: the part a core charge or credit line is for. */
+  part_id: number | null;
 };
 
 export type DepositRequestsTable = {
@@ -873,6 +943,43 @@ export type DropoffAuthorisationsTable = {
   recorded_by_user_id: number | null;
 };
 
+/** A client-made idempotency key and the answer its first request got (migration 36). */
+export interface IdempotencyKeysTable {
+  user_id: number;
+  idem_key: string;
+  request_hash: string;
+  response_status: number;
+  response_body: JsonText;
+  created_at: Date;
+  expires_at: Date;
+}
+
+// ---- questions on a job (35) -----------------------------------------------------------------
+
+export type QuestionAuthor = "owner" | "staff";
+export type QuestionVia = "page" | "sms" | "email";
+
+/** One message of a job's question thread: an owner's question or the desk's answer. */
+export type JobQuestionsTable = {
+  id: number;
+  shop_id: number;
+  job_id: number;
+  author: QuestionAuthor;
+  customer_id: number | null;
+  user_id: number | null;
+  body: string;
+  via: QuestionVia;
+  approval_request_id: number | null;
+  line_no: number | null;
+  answers_question_id: number | null;
+  answered_at: Date | null;
+  inbox_event_id: number | null;
+  source_ref: string | null;
+  created_at: Date;
+};
+
+export type JobReplyTokensTable = { shop_id: number; job_id: number; token: string; created_at: Date };
+
 declare module "knex/types/tables" {
   interface Tables {
     shops: ShopsTable;
@@ -910,6 +1017,10 @@ declare module "knex/types/tables" {
     part_orders: PartOrdersTable;
     spec_entries: SpecEntriesTable;
     outbox: OutboxTable;
+    text_consent_log: TextConsentLogTable;
+    text_outbox: TextOutboxTable;
+    text_status_events: TextStatusEventsTable;
+    text_inbound: TextInboundTable;
     job_subscribers: JobSubscribersTable;
     job_update_queue: JobUpdateQueueTable;
     job_alerts: JobAlertsTable;
@@ -936,5 +1047,9 @@ declare module "knex/types/tables" {
     story_items: StoryItemsTable;
     story_consents: StoryConsentsTable;
     dropoff_authorisations: DropoffAuthorisationsTable;
+    job_questions: JobQuestionsTable;
+    job_reply_tokens: JobReplyTokensTable;
+    mail_webhook_events: WebhookEventsTable;
+    idempotency_keys: IdempotencyKeysTable;
   }
 }

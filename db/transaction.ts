@@ -1,4 +1,5 @@
 import "server-only";
+import { AsyncLocalStorage } from "node:async_hooks";
 import type { Knex } from "knex";
 import { db } from "@/db/client";
 
@@ -12,6 +13,8 @@ export function isLockConflict(error: unknown): boolean {
 }
 
 const ATTEMPTS = 4;
+/** The transaction opened by enclosingTransaction, if the current call runs inside one. */
+const enclosing = new AsyncLocalStorage<Tx>();
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 /**
@@ -24,6 +27,10 @@ const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
  * to a hosted service inside it needs an idempotency key).
  */
 export async function transaction<T>(work: (tx: Tx) => Promise<T>): Promise<T> {
+  // Inside enclosingTransaction: join it as a savepoint; the enclosing one retries as a whole
+  // (a lost deadlock rolls back the whole transaction in MariaDB, so a savepoint can't retry).
+  const outer = enclosing.getStore();
+  if (outer) return outer.transaction(work);
   for (let attempt = 1; ; attempt++) {
     try {
       return await db().transaction(work);
@@ -33,4 +40,13 @@ export async function transaction<T>(work: (tx: Tx) => Promise<T>): Promise<T> {
       await sleep(Math.random() * 25 * 2 ** attempt);
     }
   }
+}
+
+/**
+ * Runs `work` in one transaction that every `transaction()` called inside it joins (as a
+ * savepoint), so a record written around an existing writer — an idempotency key and its answer
+ * (lib/server/idempotency.ts) — commits or rolls back with that writer's change.
+ */
+export function enclosingTransaction<T>(work: (tx: Tx) => Promise<T>): Promise<T> {
+  return transaction((tx) => enclosing.run(tx, () => work(tx)));
 }

@@ -55,8 +55,11 @@ const DRIVER_CODES = new Set([
   "ER_NET_WRITE_INTERRUPTED",
 ]);
 // Too many connections, shutdown in progress, too many for this user, connection killed (MariaDB);
-// the C client's can't connect / server gone away / lost connection.
-const SERVER_ERRNOS = new Set([1040, 1053, 1203, 1927, 2002, 2003, 2006, 2013]);
+// the C client's can't connect / server gone away / lost connection; a Galera node not yet synced
+// (1047, "WSREP has not yet prepared node for application use"); and a deadlock or lock wait that
+// db/transaction.ts already retried and that still failed (1213, 1205: on Galera also a lost
+// certification) — busy, not broken, so a 503 the caller may retry rather than a 500.
+const SERVER_ERRNOS = new Set([1040, 1047, 1053, 1203, 1205, 1213, 1927, 2002, 2003, 2006, 2013]);
 
 /** True when the database can't be reached right now (down, restarting, out of connections): a 503, not a 500. */
 export function isDatabaseUnavailable(error: unknown, depth = 0): boolean {

@@ -17,7 +17,7 @@ export const FORM_VISIBLE = {
   checkIn: [
     ...["customerMode", "customerId", "customerName", "customerEmail", "customerPhone"],
     ...["machineMode", "machineId", "machineKind", "machineYear", "machineMake", "machineModel", "machineEngineCc", "machineSerial", "machineHours", "machineOdometer", "machineOdometerUnit"],
-    ...["concern", "intakeNotes", "promisedOn", "technicianId"],
+    ...["concern", "intakeNotes", "promisedOn", "technicianId", "textConsent"],
   ],
   statusChange: ["to", "note", "override"],
   recordDeposit: ["method", "reference"],
@@ -29,8 +29,13 @@ export const FORM_VISIBLE = {
   withdraw: ["reason"],
   answer: ["signature"],
   inviteFollower: ["email"],
+  // Questions on a job (issue 21): the line picker is shown on the approval request page only.
+  askQuestion: ["body", "line"],
+  answerQuestion: ["body"],
   // The radios say their message in the banner.
   frequency: [],
+  // Texts (issue 21): the owner's choice and consent on their page.
+  textChoice: ["channels", "phone", "consent"],
   storyConsent: ["name"],
   storyCuration: ["title", "slug", "writeUp", "cover"],
   shopProfile: ["displayName", "about", "takesIn", "locationText", "showLocation", "publicEmail", "publicPhone", "removeLogo", "logo"],

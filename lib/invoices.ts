@@ -38,8 +38,14 @@ export function formatInvoiceNumber(n: number): string {
   return `INV-${String(n).padStart(4, "0")}`;
 }
 
-/** A line on an invoice: copied from an approved request line, or added by the desk. */
-export type InvoiceLine = DraftLine & { source: "authorised" | "added"; requestPublicId: string | null; requestLineNo: number | null };
+/**
+ * A line on an invoice: copied from an approved request line, added by the desk, or a fitted part's
+ * core charge and, once the old core went back, its credit (issue 19; `partId` names the part).
+ */
+export type InvoiceLine = DraftLine & { source: "authorised" | "added" | "core_charge" | "core_credit"; requestPublicId: string | null; requestLineNo: number | null; partId?: number | null };
+
+/** A credit line gives its amount back: priced negative, with its tax (lib/money.ts `credit`). */
+export const isCreditLine = (line: Pick<InvoiceLine, "source">) => line.source === "core_credit";
 
 export type PricedLine = InvoiceLine & {
   no: number;
@@ -94,17 +100,23 @@ export function totalAuthorisedPreTax(dropoffUpToMinor: number | null, requestsP
  */
 export function priceInvoice(input: PriceInput): PricedInvoice {
   const settings: TotalsSettings = { ...input.settings, subtotalDiscount: input.discount };
-  const price = (lines: readonly InvoiceLine[]) => totals(lines.map((l, i) => toMoneyLine(l, i)), settings);
+  // A core charge and its credit stay out of the discount and supplies: the charge comes back whole.
+  const money = (l: InvoiceLine, i: number) => (isCreditLine(l) ? { ...toMoneyLine(l, i), credit: true } : l.source === "core_charge" ? { ...toMoneyLine(l, i), undiscounted: true } : toMoneyLine(l, i));
+  const price = (lines: readonly InvoiceLine[]) => totals(lines.map(money), settings);
   const authorised = input.lines.filter((l) => l.source === "authorised");
+  // A credit only lowers the charge, so it is always taken, and first: a core charge whose core went
+  // back nets to nothing and is never flagged. Any other line (added, core charge) is a charge the
+  // owner didn't approve on a request, so it is held to the ceiling like an added line.
+  const credits = input.lines.filter(isCreditLine);
   const toleranceMinor = toleranceFor(input.authorisedPreTaxMinor, input.tolerance);
   const ceilingMinor = approvalCeiling(input.authorisedPreTaxMinor, input.tolerance);
   const limit = Math.max(ceilingMinor, price(authorised).preTaxTotalMinor);
 
-  const charged: InvoiceLine[] = [...authorised];
+  const charged: InvoiceLine[] = [...authorised, ...credits];
   const flagged = new Set<InvoiceLine>();
   for (const line of input.lines) {
-    if (line.source === "authorised") continue;
-    toMoneyLine(line, input.lines.indexOf(line));
+    if (line.source === "authorised" || isCreditLine(line)) continue;
+    money(line, input.lines.indexOf(line));
     if (price([...charged, line]).preTaxTotalMinor <= limit) charged.push(line);
     else flagged.add(line);
   }
@@ -113,7 +125,7 @@ export function priceInvoice(input: PriceInput): PricedInvoice {
   const t = price(ordered);
   let k = 0;
   const lines = input.lines.map((line, i): PricedLine => {
-    if (flagged.has(line)) return { ...line, no: i + 1, grossMinor: lineTotal(toMoneyLine(line, i)), netMinor: 0, taxMinor: null, flagged: true };
+    if (flagged.has(line)) return { ...line, no: i + 1, grossMinor: lineTotal(money(line, i)), netMinor: 0, taxMinor: null, flagged: true };
     const b = t.lines[k++]!;
     return { ...line, no: i + 1, grossMinor: b.grossMinor, netMinor: b.netMinor, taxMinor: b.taxMinor, flagged: false };
   });
@@ -177,4 +189,9 @@ export function isPaymentEntryBody(body: unknown): body is PaymentEntryBody {
   return !!b && typeof b === "object" && ["paid_in_full", "part_paid", "deposit_paid", "deposit_requested", "refunded"].includes(b.event);
 }
 
-export const LINE_SOURCE_LABEL: Record<InvoiceLine["source"], string> = { authorised: "Authorised", added: "Added on the invoice" };
+export const LINE_SOURCE_LABEL: Record<InvoiceLine["source"], string> = {
+  authorised: "Authorised",
+  added: "Added on the invoice",
+  core_charge: "Core charge, refunded when the old part goes back",
+  core_credit: "Core returned: charge refunded",
+};

@@ -1,10 +1,10 @@
 // A job's sent log (what the shop sent to whom, and whether it went), in words for the desk.
 // Pure: the rows come from db/queries/mail-log.ts.
 
-/** How a message went out. Only e-mail exists today; texts will be a second channel in the same list. */
-export type MessageChannel = "email";
+/** How a message went out: e-mail (outbox) or text (text_outbox, migration 34), in the same list. */
+export type MessageChannel = "email" | "text";
 
-export const CHANNEL_LABEL: Record<MessageChannel, string> = { email: "E-mail" };
+export const CHANNEL_LABEL: Record<MessageChannel, string> = { email: "E-mail", text: "Text message" };
 
 export type SentMessage = {
   channel: MessageChannel;
@@ -22,6 +22,9 @@ export type SentMessage = {
   /** The next try, a scheduled send (a reminder), or the end of a sending lease. */
   nextAttemptAt: Date;
   sendBefore: Date | null;
+  /** Texts: what the carrier reported (delivered, undelivered…), and why a text waits (quiet hours). */
+  delivery?: "queued" | "sent" | "delivered" | "undelivered" | "failed" | null;
+  heldReason?: string | null;
 };
 
 /** What each kind of mail is, as the desk would say it (kinds are set by the code that queues them). */
@@ -39,7 +42,12 @@ export const MAIL_KIND_LABEL: Record<string, string> = {
   receipt: "Receipt",
   "portfolio-consent": "Portfolio consent request",
   "dropoff-authorisation": "Drop-off authorisation to sign",
+  "question-answer": "Answer to the owner's question",
   inbox: "Desk inbox alert (staff)",
+  "keyword-stop": "Text: opt-out confirmed",
+  "keyword-start": "Text: opt-in confirmed",
+  "keyword-help": "Text: help answer",
+  answer: "Answer to a question",
   "inbox-digest": "Desk inbox digest (staff)",
 };
 

@@ -19,7 +19,12 @@ export class MoneyError extends AppError {
 export type Percent = string;
 export type Discount = { kind: "amount"; amountMinor: number } | { kind: "percent"; percent: Percent };
 
-type LineCommon = { taxable: boolean; discount?: Discount | null };
+/**
+ * credit: the line gives its amount back (a returned core, issue 19): it counts negative, with its
+ * tax, takes no discount and stays out of the discount and shop-supplies bases. undiscounted: a
+ * charge kept out of those bases too (a core charge: held, then given back whole as its credit).
+ */
+type LineCommon = { taxable: boolean; discount?: Discount | null; credit?: boolean; undiscounted?: boolean };
 /** Quantity in thousandths so fluids and chain sold by length fit: 1000 = 1 unit, 1500 = 1.5 L. */
 export type PartLine = LineCommon & { kind: "part"; qtyThousandths: number; unitPriceMinor: number };
 /** Hours in integer tenths (15 = 1.5 h), the way labour time is booked; rate per hour. */
@@ -279,19 +284,24 @@ export function totals(lines: readonly Line[], settings: TotalsSettings): Totals
 
   const bad = lines.find((line) => typeof line?.taxable !== "boolean");
   if (bad) throw new MoneyError(`Each line needs taxable: true or false (got ${JSON.stringify(bad?.taxable)}).`);
-  const gross = lines.map(lineTotal);
-  const lineDiscounts = lines.map((line, i) => discountAmount(gross[i]!, line.discount));
+  if (lines.some((line) => line.credit && line.discount)) throw new MoneyError("A credit line takes no discount.");
+  const gross = lines.map((line) => (line.credit ? -lineTotal(line) : lineTotal(line)));
+  const lineDiscounts = lines.map((line, i) => (line.credit ? 0 : discountAmount(gross[i]!, line.discount)));
   const afterLine = gross.map((g, i) => g - lineDiscounts[i]!);
-  const afterLineSum = afterLine.reduce((a, b) => a + b, 0);
+  // The subtotal discount is taken on, and shared across, the charged lines only (credits give back
+  // what they say, and an undiscounted charge is given back whole).
+  const outside = (line: Line) => line.credit || line.undiscounted;
+  const charged = afterLine.map((a, i) => (outside(lines[i]!) ? 0 : a));
+  const afterLineSum = charged.reduce((a, b) => a + b, 0);
   const subtotalDiscount = discountAmount(toSafe(BigInt(afterLineSum), "The subtotal"), settings.subtotalDiscount);
-  const shares = allocate(subtotalDiscount, afterLine);
+  const shares = allocate(subtotalDiscount, charged);
   const net = afterLine.map((a, i) => a - shares[i]!);
 
   let suppliesMinor = 0;
   const supplies = settings.supplies;
   if (supplies) {
     if (supplies.base !== "labour" && supplies.base !== "parts_and_labour") throw new MoneyError("Shop-supplies base must be labour or parts_and_labour.");
-    const base = lines.reduce((sum, line, i) => (line.kind === "labour" || (line.kind === "part" && supplies.base === "parts_and_labour") ? sum + net[i]! : sum), 0);
+    const base = lines.reduce((sum, line, i) => (!outside(line) && (line.kind === "labour" || (line.kind === "part" && supplies.base === "parts_and_labour")) ? sum + net[i]! : sum), 0);
     suppliesMinor = toSafe(percentOf(base, parsePercent(supplies.percent, "Shop-supplies percent"), "half_up"), "The supplies fee");
     if (supplies.capMinor != null) suppliesMinor = Math.min(suppliesMinor, assertInt(supplies.capMinor, "Shop-supplies cap (minor units)"));
   }
@@ -306,7 +316,9 @@ export function totals(lines: readonly Line[], settings: TotalsSettings): Totals
   const fraction = (text: Percent) => parsed.get(text) ?? parsed.set(text, parsePercent(text, "Tax rate")).get(text)!;
   // Every configured rate is checked, used or not: a bad setting is refused, never silently skipped.
   for (const kind of ["part", "labour", "fee", "supplies"] as const) fraction(rateText(kind));
-  const taxOn = (amount: number, text: Percent) => {
+  // A credit's tax is the tax of the same charge, given back: rounded on the amount, then negated.
+  const taxOn = (amount: number, text: Percent): number => {
+    if (amount < 0) return -taxOn(-amount, text);
     const r = fraction(text);
     return toSafe(divHalfUp(BigInt(amount) * r.num, r.den), "The tax");
   };

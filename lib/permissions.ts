@@ -74,6 +74,12 @@ export const PERMISSIONS = {
   "portfolio:curate": ["owner", "service_writer"],
   "portfolio:publish": ["owner"],
   "portfolio:consent": ["customer"],
+  // Questions on a job (issue 21): the machine's owner asks (followers don't: a question may be
+  // about prices); the desk answers; the thread shows to every staff role and the owner.
+  "questions:ask": ["customer"],
+  "questions:answer": ["owner", "service_writer"],
+  // The owner's own choice of e-mail or text, and their consent to texts (issue 21).
+  "texts:choose": ["customer"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Action = keyof typeof PERMISSIONS;

@@ -1,6 +1,7 @@
 // Makes the PNG/ICO app icons from app/icon.svg (our mark). Run once after changing the SVG and
 // commit the output: `node scripts/make-icons.mjs`. Next serves them by file convention
-// (app/icon.svg, app/apple-icon.png, app/favicon.ico), so nothing is generated at build time.
+// (app/icon.svg, app/apple-icon.png, app/favicon.ico) and the manifest's from public/, so nothing
+// is generated at build time.
 import { readFile, writeFile } from "node:fs/promises";
 import sharp from "sharp";
 
@@ -10,6 +11,19 @@ const png = (source, size) => sharp(Buffer.from(source), { density: 72 * (size /
 // Home-screen icon: square and full-bleed, because the phone rounds the corners itself.
 const square = svg.replace(/<rect ([^>]*)rx="\d+"/, "<rect $1");
 await writeFile(new URL("../app/apple-icon.png", import.meta.url), await png(square, 180));
+
+// The installable staff app's icons (app/manifest.ts), in public/ so they keep fixed addresses.
+// "any": the mark as it is, rounded corners and all. "maskable": full-bleed, with the nut drawn at
+// 85 % so it stays inside the middle circle (40 % of the size as radius) a phone's mask may keep
+// (W3C Web App Manifest, "icon masks": the safe zone).
+const maskable = square.replace(/(<path[\s\S]*<\/svg>)/, '<g transform="translate(32 32) scale(.85) translate(-32 -32)">$1').replace("</svg>", "</g></svg>");
+for (const [file, source, size] of [
+  ["icon-192.png", svg, 192],
+  ["icon-512.png", svg, 512],
+  ["icon-maskable-512.png", maskable, 512],
+]) {
+  await writeFile(new URL(`../public/${file}`, import.meta.url), await png(source, size));
+}
 
 // favicon.ico for whatever asks for /favicon.ico directly: an ICO directory of PNG images
 // (allowed since Windows Vista; every current browser reads it).
@@ -33,4 +47,4 @@ sizes.forEach((s, i) => {
   offset += images[i].length;
 });
 await writeFile(new URL("../app/favicon.ico", import.meta.url), Buffer.concat([header, ...images]));
-console.log("wrote app/apple-icon.png and app/favicon.ico");
+console.log("wrote app/apple-icon.png, app/favicon.ico and public/icon-192.png, icon-512.png, icon-maskable-512.png");

@@ -13,6 +13,7 @@ const DB_PORT = Number(setting("BENCHSIDE_DB_PORT", "3307"));
 const MAIL_PORT = Number(setting("MAIL_FAKE_PORT", "4010"));
 const VIDEO_PORT = Number(setting("VIDEO_FAKE_PORT", "4020"));
 const PAYMENTS_PORT = Number(setting("PAYMENTS_FAKE_PORT", "4030"));
+const SMS_PORT = Number(setting("SMS_FAKE_PORT", "4040"));
 const DIR = path.join(ROOT, ".data", "dev");
 const appUrl = setting("APP_URL", `http://localhost:${PORT}`);
 const DEV = process.argv.includes("--dev");
@@ -41,6 +42,8 @@ async function main() {
   const video = `http://127.0.0.1:${VIDEO_PORT}`;
   // And for payments: without a real secret key the stripe SDK talks to fakes/payments.
   const usePaymentsFake = !setting("STRIPE_SECRET_KEY", "") || setting("STRIPE_API_HOST", "").includes("127.0.0.1");
+  // And for texts: without a real account the twilio SDK talks to fakes/sms.
+  const useSmsFake = !setting("TWILIO_ACCOUNT_SID", "") || setting("TWILIO_API_BASE", "").includes("127.0.0.1");
   const env = {
     ...dotEnv,
     NODE_ENV: DEV ? "development" : "production",
@@ -54,6 +57,9 @@ async function main() {
     RESEND_BASE_URL: setting("RESEND_BASE_URL", `http://127.0.0.1:${MAIL_PORT}`),
     MAIL_FAKE_PORT: String(MAIL_PORT),
     MAIL_FAKE_DIR: path.join(DIR, "mail"),
+    // Replies by e-mail: the mail service's signed webhooks (the fake signs with the local secret).
+    RESEND_WEBHOOK_SECRET: useMailFake ? secrets.mailWebhookSecret : setting("RESEND_WEBHOOK_SECRET", ""),
+    ...(useMailFake ? { MAIL_FAKE_WEBHOOK_URL: `${appUrl}/api/webhooks/mail`, MAIL_FAKE_WEBHOOK_SECRET: secrets.mailWebhookSecret } : {}),
     STORAGE_DIR: setting("STORAGE_DIR", path.join(DIR, "uploads")),
     ...(useVideoFake
       ? {
@@ -80,6 +86,18 @@ async function main() {
           STRIPE_WEBHOOK_URL: `http://127.0.0.1:${PORT}/api/webhooks/payments`,
         }
       : {}),
+    ...(useSmsFake
+      ? {
+          TWILIO_ACCOUNT_SID: secrets.smsAccountSid,
+          TWILIO_AUTH_TOKEN: secrets.smsAuthToken,
+          TWILIO_API_BASE: `http://127.0.0.1:${SMS_PORT}`,
+          SMS_DEFAULT_FROM: setting("SMS_DEFAULT_FROM", "+15550100999"),
+          SMS_FAKE_PORT: String(SMS_PORT),
+          SMS_FAKE_DIR: path.join(DIR, "sms"),
+          // Signed against APP_URL by the app, so the fake posts to that very address.
+          SMS_INBOUND_WEBHOOK_URL: `${appUrl}/api/webhooks/sms/inbound`,
+        }
+      : {}),
   };
 
   if ((await runToEnd("node", [bin.tsx, "db/cli.ts", "migrate"], env)) !== 0) throw new SetupError("Database migrations failed; see the error above.");
@@ -104,6 +122,12 @@ async function main() {
     await waitForHttp(`http://127.0.0.1:${PAYMENTS_PORT}/_fake/health`, { label: "The payments fake" });
   }
 
+  if (useSmsFake) {
+    await assertPortFree(SMS_PORT, "the SMS fake (SMS_FAKE_PORT)", "127.0.0.1");
+    run.serve("The SMS fake", "node", [bin.tsx, "fakes/sms/server.ts"], env);
+    await waitForHttp(`http://127.0.0.1:${SMS_PORT}/_fake/health`, { label: "The SMS fake" });
+  }
+
   // The mail worker renders and sends what the app queues (scripts/outbox-worker.ts: why it is a
   // process of its own). OUTBOX_WORKER=off when workers run elsewhere; any number may run.
   if (setting("OUTBOX_WORKER", "on") !== "off") run.serve("The mail worker", "node", [bin.tsx, "--tsconfig", "tsconfig.worker.json", "scripts/outbox-worker.ts"], env);
@@ -121,6 +145,7 @@ async function main() {
   if (useMailFake) console.log(`  Mail sent by the app:  http://127.0.0.1:${MAIL_PORT}/`);
   if (useVideoFake) console.log(`  Video service (local fake):  ${video}/_fake/status`);
   if (usePaymentsFake) console.log(`  Payments (local fake, test cards only):  http://127.0.0.1:${PAYMENTS_PORT}/_fake/status`);
+  if (useSmsFake) console.log(`  Texts sent by the app (reply as the owner there):  http://127.0.0.1:${SMS_PORT}/`);
   console.log("  Demo sign-ins are in README.md. Ctrl-C stops everything.\n");
 }
 

@@ -16,6 +16,7 @@ const MAIL_PORT = Number(process.env.TEST_MAIL_PORT ?? 4110);
 const APP_PORT = Number(process.env.TEST_APP_PORT ?? 3110);
 const VIDEO_PORT = Number(process.env.TEST_VIDEO_PORT ?? 4120);
 const PAYMENTS_PORT = Number(process.env.TEST_PAYMENTS_PORT ?? 4130);
+const SMS_PORT = Number(process.env.TEST_SMS_PORT ?? 4140);
 const DB_USER = "benchside_test";
 const E2E_DB = "benchside_test_e2e";
 
@@ -61,6 +62,8 @@ async function main() {
     await assertPortFree(VIDEO_PORT, "the test video fake (TEST_VIDEO_PORT)", "127.0.0.1");
     fs.rmSync(path.join(DIR, "payments"), { recursive: true, force: true });
     await assertPortFree(PAYMENTS_PORT, "the test payments fake (TEST_PAYMENTS_PORT)", "127.0.0.1");
+    fs.rmSync(path.join(DIR, "sms"), { recursive: true, force: true });
+    await assertPortFree(SMS_PORT, "the test SMS fake (TEST_SMS_PORT)", "127.0.0.1");
     adminSql(DIR, `DROP DATABASE IF EXISTS \`${E2E_DB}\`; CREATE DATABASE \`${E2E_DB}\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;`);
     const env = {
       NODE_ENV: "production",
@@ -74,6 +77,9 @@ async function main() {
       RESEND_BASE_URL: `http://127.0.0.1:${MAIL_PORT}`,
       MAIL_FAKE_PORT: String(MAIL_PORT),
       MAIL_FAKE_DIR: mailDir,
+      RESEND_WEBHOOK_SECRET: secrets.mailWebhookSecret,
+      MAIL_FAKE_WEBHOOK_URL: `http://127.0.0.1:${APP_PORT}/api/webhooks/mail`,
+      MAIL_FAKE_WEBHOOK_SECRET: secrets.mailWebhookSecret,
       STORAGE_DIR: path.join(DIR, "uploads"),
       MUX_TOKEN_ID: "test-video-fake",
       MUX_TOKEN_SECRET: secrets.videoTokenSecret,
@@ -92,6 +98,14 @@ async function main() {
       PAYMENTS_FAKE_PORT: String(PAYMENTS_PORT),
       PAYMENTS_FAKE_DIR: path.join(DIR, "payments"),
       STRIPE_WEBHOOK_URL: `http://127.0.0.1:${APP_PORT}/api/webhooks/payments`,
+      TWILIO_ACCOUNT_SID: secrets.smsAccountSid,
+      TWILIO_AUTH_TOKEN: secrets.smsAuthToken,
+      TWILIO_API_BASE: `http://127.0.0.1:${SMS_PORT}`,
+      SMS_DEFAULT_FROM: "+15550100999",
+      SMS_FAKE_PORT: String(SMS_PORT),
+      SMS_FAKE_DIR: path.join(DIR, "sms"),
+      // The app checks signatures against APP_URL, so the fake posts to that address.
+      SMS_INBOUND_WEBHOOK_URL: `http://localhost:${APP_PORT}/api/webhooks/sms/inbound`,
       // Every browser in the run comes from 127.0.0.1: the per-IP limits would be reached by the
       // suite itself. The per-address limits stay as shipped.
       SIGN_IN_LINKS_PER_IP: "1000",
@@ -107,12 +121,14 @@ async function main() {
       testRun.serve("The test mail fake", "node", [bin.tsx, "fakes/mail/server.ts"], env);
       testRun.serve("The video fake", "node", [bin.tsx, "fakes/video/server.ts"], env);
       testRun.serve("The payments fake", "node", [bin.tsx, "fakes/payments/server.ts"], env);
+      testRun.serve("The SMS fake", "node", [bin.tsx, "fakes/sms/server.ts"], env);
       testRun.serve("The app under test", "node", [bin.next, "start", "-p", String(APP_PORT)], env);
       // Polls often so mail reaches the test mail fake within a second of being queued.
       testRun.serve("The mail worker", "node", [bin.tsx, "--tsconfig", "tsconfig.worker.json", "scripts/outbox-worker.ts"], { ...env, OUTBOX_POLL_MS: "300" });
       await waitForHttp(`http://127.0.0.1:${MAIL_PORT}/`, { label: "The mail fake" });
       await waitForHttp(`http://127.0.0.1:${VIDEO_PORT}/_fake/health`, { label: "The video fake" });
       await waitForHttp(`http://127.0.0.1:${PAYMENTS_PORT}/_fake/health`, { label: "The payments fake" });
+      await waitForHttp(`http://127.0.0.1:${SMS_PORT}/_fake/health`, { label: "The SMS fake" });
       await waitForHttp(`http://127.0.0.1:${APP_PORT}/api/health`, { label: "The app under test" });
       if ((await run("node", [bin.playwright, "test", ...files], env)) !== 0) failures.push("e2e");
     }

@@ -2,7 +2,7 @@ import { CircleAlert, CircleCheck, Receipt } from "lucide-react";
 import type { ReactNode } from "react";
 import { Badge, type BadgeTone } from "@/components/ui";
 import { LINE_KIND_LABEL } from "@/lib/approvals";
-import { INVOICE_STATUS_LABEL, type InvoiceStatus, PAYMENT_KIND_LABEL, PAYMENT_METHOD_LABEL } from "@/lib/invoices";
+import { INVOICE_STATUS_LABEL, type InvoiceStatus, LINE_SOURCE_LABEL, PAYMENT_KIND_LABEL, PAYMENT_METHOD_LABEL } from "@/lib/invoices";
 import { formatHours, formatMoney, formatQuantity } from "@/lib/money";
 import type { InvoiceView, ViewLine } from "@/lib/server/invoice-views";
 import { AuthorisationRecord, formatWhen } from "./authorisation-record";
@@ -100,6 +100,7 @@ export function InvoiceDocument({ view, children, lineAction }: { view: InvoiceV
                       {l.partNumber ? ` · part ${l.partNumber}` : ""}
                       {l.taxable ? " · taxed" : ""}
                       {l.source === "added" ? " · added on the invoice" : ""}
+                      {l.source === "core_charge" || l.source === "core_credit" ? ` · ${LINE_SOURCE_LABEL[l.source].toLowerCase()}` : ""}
                     </span>
                     {l.flagged ? (
                       <Badge tone="signal" icon={CircleAlert} className="mt-1">
@@ -141,7 +142,8 @@ export function InvoiceDocument({ view, children, lineAction }: { view: InvoiceV
             {view.payments.map((p) => (
               <li key={p.id} className="flex flex-wrap justify-between gap-2 py-2">
                 <span>
-                  <span className="font-semibold tabular-nums">{p.receipt}</span> · {PAYMENT_KIND_LABEL[p.kind]} · {PAYMENT_METHOD_LABEL[p.method]}
+                  <span className="font-semibold tabular-nums">{p.receipt}</span> · {PAYMENT_KIND_LABEL[p.kind]}
+                  {p.forPart ? ` for ${p.forPart}` : ""} · {PAYMENT_METHOD_LABEL[p.method]}
                   {p.reference ? ` · ${p.reference}` : ""} · <time dateTime={p.receivedAt}>{formatWhen(p.receivedAt, tz)}</time>
                 </span>
                 <span className="tabular-nums">{p.kind === "refund" ? `−${m(p.amountMinor)}` : m(p.amountMinor)}</span>

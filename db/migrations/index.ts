@@ -31,6 +31,10 @@ import * as jobStatusCounts from "./20261205_29_job_status_counts";
 import * as partsPrice from "./20261205_30_parts_price";
 import * as partOrders from "./20261205_31_part_orders";
 import * as specResolution from "./20261205_32_spec_resolution";
+import * as invoiceCoreLines from "./20261205_33_invoice_core_lines";
+import * as textMessages from "./20261205_34_text_messages";
+import * as jobQuestions from "./20261205_35_job_questions";
+import * as idempotencyKeys from "./20261205_36_idempotency_keys";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -69,6 +73,10 @@ const MIGRATIONS: Migration[] = [
   { name: "20261205_30_parts_price", module: partsPrice },
   { name: "20261205_31_part_orders", module: partOrders },
   { name: "20261205_32_spec_resolution", module: specResolution },
+  { name: "20261205_33_invoice_core_lines", module: invoiceCoreLines },
+  { name: "20261205_34_text_messages", module: textMessages },
+  { name: "20261205_35_job_questions", module: jobQuestions },
+  { name: "20261205_36_idempotency_keys", module: idempotencyKeys },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

@@ -8,6 +8,7 @@ import type { MachineKind } from "@/lib/machine";
 import { type CheckInInput, type CustomerSearchResult, type NewCustomer, type NewMachine, promisedOnProblem } from "@/lib/schemas/check-in";
 import { allocateJobNumber, newPublicId } from "./jobs";
 import { subscribeOwner } from "./following";
+import { recordTextConsent } from "@/lib/server/texts";
 import { insertEntry } from "./entries";
 
 /** A refusal shown beside one field of the check-in form. */
@@ -121,6 +122,15 @@ export async function checkInJob({ shopId, userId, input, today }: { shopId: num
     await tx("job_status_changes").insert({ shop_id: shopId, job_id: jobId, from_status: null, to_status: "checked_in", changed_by_user_id: userId });
     // The journal opens with the check-in, shared like every status change.
     await insertEntry(tx, { shopId, jobId: Number(jobId), kind: "status", authorId: userId, visibility: "shared", body: { from: null, to: "checked_in", note: null } });
+    // Consent to texts given at the desk, recorded with when and how (lib/server/texts.ts).
+    if (input.textConsent) {
+      const typed = (await tx("customers").where({ shop_id: shopId, id: customerId }).first("phone"))?.phone;
+      if (!typed) refuse("invalid", "textConsent", "Add the owner's mobile number to text them, or leave the box unticked.");
+      await recordTextConsent(tx, { shopId, customerId, phone: typed, how: "check_in", userId }).catch((error: unknown) => {
+        if (error instanceof AppError && error.code === "invalid") refuse("invalid", "textConsent", "That phone number can't be texted: give it with its country code, or leave the box unticked.");
+        throw error;
+      });
+    }
     // The owner follows their job by e-mail from the start (they can choose less, or stop).
     const owner = await tx("customers").where({ shop_id: shopId, id: customerId }).first("email", "user_id");
     if (owner?.email) await subscribeOwner({ shopId, jobId: Number(jobId), email: String(owner.email), userId: owner.user_id == null ? null : Number(owner.user_id) }, tx);

@@ -14,6 +14,10 @@ export const CUSTOMER_REFERENCES = [
   { table: "machines", column: "customer_id" },
   { table: "jobs", column: "customer_id" },
   { table: "customer_merges", column: "kept_customer_id" },
+  { table: "job_questions", column: "customer_id" },
+  { table: "text_consent_log", column: "customer_id" },
+  { table: "text_outbox", column: "customer_id" },
+  { table: "text_inbound", column: "customer_id" },
 ] as const;
 
 const refuse = (code: "not_found" | "conflict" | "invalid", message: string): never => {

@@ -5,7 +5,8 @@ import { type AlertKind, type Frequency, MAX_FOLLOWERS, type SubscriberRole } fr
 import { MONEY_ENTRY_KINDS } from "@/lib/journal";
 import { db } from "@/db/client";
 import type { JobSubscribersTable, JobsTable, MachinesTable } from "@/db/tables";
-import { transaction } from "@/db/transaction";
+import { type Tx, transaction } from "@/db/transaction";
+import { queueReadyText } from "@/lib/server/texts";
 
 // Who follows a job, and the two queues that become their e-mail: shared entries wait in
 // job_update_queue for the digest window; job_alerts go out at the next sweep. Nothing here
@@ -62,6 +63,8 @@ export async function recordSharedEntry(
   const to = (e.body as { to?: unknown } | null | undefined)?.to;
   if (e.kind === "status" && to === "ready") {
     await notifyNow(k, { shopId: e.shopId, jobId: e.jobId, kind: "ready", dedupeKey: `ready:${e.entryId}` });
+    // And by text, if the owner chose it (issue 21). Entries are written inside their change's transaction.
+    await queueReadyText(k as Tx, { shopId: e.shopId, jobId: e.jobId, entryId: e.entryId });
     return;
   }
   await k("job_update_queue").insert({ shop_id: e.shopId, job_id: e.jobId, entry_id: e.entryId }).onConflict("entry_id").ignore();

@@ -204,6 +204,7 @@ export async function listInvoiceLines({ shopId, invoiceId }: { shopId: number; 
     rateMinor: num(r.rate_minor),
     amountMinor: num(r.amount_minor),
     taxable: Boolean(r.taxable),
+    partId: num(r.part_id),
   }));
 }
 
@@ -226,6 +227,7 @@ export async function insertInvoiceLines(tx: Knex.Transaction, { shopId, invoice
       rate_minor: l.rateMinor,
       amount_minor: l.amountMinor,
       taxable: l.taxable,
+      part_id: l.partId ?? null,
     })),
   );
 }

@@ -164,4 +164,6 @@ export async function pruneNotifications({ queueDays, outboxDays }: { queueDays:
   await db()("job_update_queue").whereNotNull("every_sent_at").whereNotNull("daily_sent_at").where("shared_at", "<", db().raw("NOW() - INTERVAL ? DAY", [queueDays])).delete();
   await db()("job_alerts").whereNotNull("sent_at").where("created_at", "<", db().raw("NOW() - INTERVAL ? DAY", [queueDays])).delete();
   await db()("outbox").where("state", "sent").where("sent_at", "<", db().raw("NOW() - INTERVAL ? DAY", [outboxDays])).delete();
+  // Sent texts (migration 34) go with the mail: the job's sent log keeps the same window for both.
+  await db()("text_outbox").where("state", "sent").where("sent_at", "<", db().raw("NOW() - INTERVAL ? DAY", [outboxDays])).delete();
 }

@@ -159,16 +159,15 @@ export type ClaimedMail = {
 };
 
 /**
- * Takes up to `limit` due rows for this worker in one short transaction: rows other workers
- * hold are skipped (SKIP LOCKED), so workers never wait on or share a row. Claimed rows become
- * `sending` with a lease; a worker that dies leaves them to come back when the lease ends, and
- * each claim counts as an attempt, so a mail that keeps crashing its worker still dead-letters.
+ * The claim shared by the mail outbox and the texts' (`text_outbox`, db/queries/texts.ts): due rows
+ * other workers hold are skipped (SKIP LOCKED); the claimed ones become `sending` with a lease and
+ * count an attempt. Returns their ids.
  */
-export async function claimBatch({ limit, leaseMs, priorityOnly = false }: { limit: number; leaseMs: number; priorityOnly?: boolean }): Promise<ClaimedMail[]> {
-  const claimToken = crypto.randomUUID();
-  const ids = await transaction(async (tx) => {
-    const rows: Pick<OutboxTable, "id">[] = await tx("outbox")
-      // Lease ends are stored in next_attempt_at too, so one index range finds due mail and lapsed leases.
+export async function claimDueRows(table: "outbox" | "text_outbox", { limit, leaseMs, claimToken, priorityOnly = false }: { limit: number; leaseMs: number; claimToken: string; priorityOnly?: boolean }): Promise<number[]> {
+  return transaction(async (tx) => {
+    const rows: Pick<OutboxTable, "id">[] = await tx
+      .table(table)
+      // Lease ends are stored in next_attempt_at too, so one index range finds due rows and lapsed leases.
       .whereIn("state", ["queued", "retrying", "sending"])
       .where("next_attempt_at", "<=", tx.fn.now(3))
       // The fast lane (priority mail only) reads the outbox_priority_due index.
@@ -183,11 +182,23 @@ export async function claimBatch({ limit, leaseMs, priorityOnly = false }: { lim
     const found = rows.map((r) => Number(r.id));
     if (!found.length) return found;
     const until = tx.raw("NOW(3) + INTERVAL ? MICROSECOND", [leaseMs * 1000]);
-    await tx("outbox")
+    await tx
+      .table(table)
       .whereIn("id", found)
       .update({ state: "sending", claim_token: claimToken, locked_until: until, next_attempt_at: until, attempts: tx.raw("attempts + 1") });
     return found;
   });
+}
+
+/**
+ * Takes up to `limit` due rows for this worker in one short transaction: rows other workers
+ * hold are skipped (SKIP LOCKED), so workers never wait on or share a row. Claimed rows become
+ * `sending` with a lease; a worker that dies leaves them to come back when the lease ends, and
+ * each claim counts as an attempt, so a mail that keeps crashing its worker still dead-letters.
+ */
+export async function claimBatch({ limit, leaseMs, priorityOnly = false }: { limit: number; leaseMs: number; priorityOnly?: boolean }): Promise<ClaimedMail[]> {
+  const claimToken = crypto.randomUUID();
+  const ids = await claimDueRows("outbox", { limit, leaseMs, claimToken, priorityOnly });
   if (!ids.length) return [];
   const rows = await db()("outbox").whereIn("id", ids).where("claim_token", claimToken).orderBy("id");
   return rows.map((r) => ({

@@ -129,12 +129,12 @@ export async function returnCore(p: ShopUser & { jobId: number; partId: number }
   });
 }
 
-export type CoreRow = { partId: number; description: string; chargeMinor: number; returned: boolean };
+export type CoreRow = { partId: number; description: string; partNumber: string | null; status: PartStatus; chargeMinor: number; returned: boolean };
 
 /** A job's core charges, for the invoice: each charge, and a credit of the same amount once returned. */
 export async function listCores({ shopId, jobId }: { shopId: number; jobId: number }, k: Knex = db()): Promise<CoreRow[]> {
-  const rows = await k("job_parts").where({ shop_id: shopId, job_id: jobId }).whereNotNull("core_charge_minor").orderBy("id").select("id", "description", "core_charge_minor", "core_returned_at");
-  return rows.map((r) => ({ partId: Number(r.id), description: String(r.description), chargeMinor: Number(r.core_charge_minor), returned: r.core_returned_at != null }));
+  const rows = await k("job_parts").where({ shop_id: shopId, job_id: jobId }).whereNotNull("core_charge_minor").orderBy("id").select("id", "description", "part_number", "status", "core_charge_minor", "core_returned_at");
+  return rows.map((r) => ({ partId: Number(r.id), description: String(r.description), partNumber: r.part_number ?? null, status: r.status, chargeMinor: Number(r.core_charge_minor), returned: r.core_returned_at != null }));
 }
 
 export type OwnerPartWait = { description: string; status: "ordered" | "back_ordered"; expectedOn: string | null };
@@ -169,6 +169,12 @@ export async function lockPartForDeposit(tx: Knex.Transaction, p: { shopId: numb
 export async function getPartPrice(p: { shopId: number; jobId: number; partId: number }): Promise<{ qtyThousandths: number; sellMinor: number | null } | null> {
   const r = await db()("job_parts").where({ id: p.partId, shop_id: p.shopId, job_id: p.jobId }).first("qty_thousandths", "sell_minor");
   return r ? { qtyThousandths: Number(r.qty_thousandths), sellMinor: r.sell_minor == null ? null : Number(r.sell_minor) } : null;
+}
+
+/** The special-order part each of a job's deposit requests was asked for, by deposit id. */
+export async function depositParts({ shopId, jobId }: { shopId: number; jobId: number }, k: Knex = db()): Promise<Map<number, string>> {
+  const rows = await k("job_parts").where({ shop_id: shopId, job_id: jobId }).whereNotNull("deposit_id").select("deposit_id", "description");
+  return new Map(rows.map((r) => [Number(r.deposit_id), String(r.description)]));
 }
 
 export async function linkPartDeposit(tx: Knex.Transaction, p: { shopId: number; partId: number; depositId: number }): Promise<void> {

@@ -53,7 +53,10 @@ export async function listPickableParts({ shopId, jobId }: JobKey, k: Knex = db(
   return rows.map((r) => ({ id: Number(r.id), description: String(r.description), partNumber: r.part_number ?? null }));
 }
 
-/** A saved part line of a finding, as its part should read. `pickPartId`: link this existing job part. */
+/**
+ * A saved part line of a finding, as its part should read. `pickPartId`: link this existing job part
+ * (a saved line linked to another one re-points to it); `newPart`: a saved line stands for a new part.
+ */
 export type LinePart = {
   lineId: number;
   description: string;
@@ -63,7 +66,21 @@ export type LinePart = {
   sellMinor: number | null;
   priceReason: string | null;
   pickPartId: number | null;
+  newPart: boolean;
+  /** The line's place in the finding's lines (0-based), to name the form field of a refusal. */
+  position: number;
 };
+
+/**
+ * A part a line lets go of: dropped while it is still only a proposal that was never ordered,
+ * otherwise unlinked (it then holds nothing and shows as for no named work).
+ */
+async function releaseParts(tx: Knex.Transaction, parts: Knex.QueryBuilder) {
+  await parts.clone().where("status", "needed").delete();
+  await parts.clone().update({ finding_line_id: null, finding_id: null, owner_answer: null, no_ok_needed: false, updated_at: tx.fn.now(3) });
+}
+
+const ANSWERED = "The owner has answered for this line's part, so the line can't stand for another part now. Draft a new finding for more work.";
 
 /**
  * Brings the finding's parts in line with its part lines, in the finding's save transaction (job
@@ -73,17 +90,24 @@ export type LinePart = {
  */
 export async function syncLineParts(tx: Knex.Transaction, p: JobKey & { findingId: number; userId: number; lines: LinePart[] }): Promise<void> {
   const keep = p.lines.map((l) => l.lineId);
-  const gone = tx("job_parts")
-    .where({ shop_id: p.shopId, job_id: p.jobId, finding_id: p.findingId, owner_answer: "pending" })
-    .where((w) => w.whereNull("finding_line_id").orWhereNotIn("finding_line_id", keep.length ? keep : [0]));
-  await gone.clone().where("status", "needed").delete();
-  await gone.clone().update({ finding_line_id: null, finding_id: null, owner_answer: null, no_ok_needed: false, updated_at: tx.fn.now(3) });
+  await releaseParts(
+    tx,
+    tx("job_parts")
+      .where({ shop_id: p.shopId, job_id: p.jobId, finding_id: p.findingId, owner_answer: "pending" })
+      .where((w) => w.whereNull("finding_line_id").orWhereNotIn("finding_line_id", keep.length ? keep : [0])),
+  );
   for (const line of p.lines) {
     const fields = { description: line.description, part_number: line.partNumber, qty_thousandths: line.qtyThousandths, cost_minor: line.costMinor, sell_minor: line.sellMinor, price_reason: line.priceReason, updated_at: tx.fn.now(3) };
-    const linked = await tx("job_parts").where({ shop_id: p.shopId, finding_line_id: line.lineId }).forUpdate().first("id");
-    if (linked) {
+    const linked: { id: number; owner_answer: JobPartsTable["owner_answer"] } | undefined = await tx("job_parts").where({ shop_id: p.shopId, finding_line_id: line.lineId }).forUpdate().first("id", "owner_answer");
+    const repoint = linked && (line.newPart || (line.pickPartId !== null && line.pickPartId !== Number(linked.id)));
+    if (linked && !repoint) {
       await tx("job_parts").where({ id: linked.id }).update(fields);
       continue;
+    }
+    if (linked) {
+      // Before the owner answers, a line may stand for another of the job's parts, or a new one.
+      if (linked.owner_answer !== "pending") throw new AppError("conflict", ANSWERED, { [`lines.${line.position}.partId`]: [ANSWERED] });
+      await releaseParts(tx, tx("job_parts").where({ id: linked.id }));
     }
     if (line.pickPartId !== null) {
       const n = await tx("job_parts")
@@ -91,7 +115,7 @@ export async function syncLineParts(tx: Knex.Transaction, p: JobKey & { findingI
         .whereNull("finding_line_id")
         .where((w) => w.whereNull("owner_answer").orWhereNot("owner_answer", "declined"))
         .update({ ...fields, finding_line_id: line.lineId, finding_id: p.findingId, owner_answer: "pending", no_ok_needed: false });
-      if (n !== 1) throw new AppError("invalid", "That part is already on another line, or isn't on this job.", { partId: ["Pick a part of this job that no other line uses, or leave it to make a new one."] });
+      if (n !== 1) throw new AppError("invalid", "That part is already on another line, or isn't on this job.", { [`lines.${line.position}.partId`]: ["Pick a part of this job that no other line uses, or leave it to make a new one."] });
       continue;
     }
     const status: PartStatus = "needed";

@@ -218,6 +218,23 @@ export async function getCheckoutBySessionId({ sessionId }: { sessionId: string 
   return row ? toCheckout(row) : null;
 }
 
+/**
+ * The checkout an owner is back from: the owner's return address names what they paid (the
+ * invoice's or the deposit's public id, never the payment service's session id), so this finds
+ * that target's newest checkout on the job, a completed one first.
+ */
+export async function getReturnCheckout({ jobId, targetPublicId }: { jobId: number; targetPublicId: string }, k: Knex = db()): Promise<CheckoutRow | null> {
+  const row: PaymentCheckoutsTable | undefined = await k("payment_checkouts as c")
+    .leftJoin("invoices as i", (j) => j.on("i.id", "c.invoice_id").andOn("i.shop_id", "c.shop_id"))
+    .leftJoin("deposit_requests as d", (j) => j.on("d.id", "c.deposit_id").andOn("d.shop_id", "c.shop_id"))
+    .where("c.job_id", jobId)
+    .where((q) => q.where((qi) => qi.where("i.public_id", targetPublicId).whereNull("c.deposit_id")).orWhere("d.public_id", targetPublicId))
+    .orderByRaw("c.status = 'complete' DESC")
+    .orderBy("c.id", "desc")
+    .first("c.*");
+  return row ? toCheckout(row) : null;
+}
+
 /** Open checkouts for the same thing (the invoice's balance, or one deposit), newest first. */
 export async function listOpenCheckouts(t: JobKey & { invoiceId: number | null; depositId: number | null }, k: Knex = db()): Promise<CheckoutRow[]> {
   const q = k("payment_checkouts").where({ shop_id: t.shopId, job_id: t.jobId, status: "open" }).orderBy("id", "desc");

@@ -44,10 +44,11 @@ export async function settleAttempt({ id, succeeded }: { id: number; succeeded: 
 }
 
 /** Stores a link's hash inside the caller's transaction `k` (with the e-mail that carries it). */
-export async function insertSignInLink(k: Knex, { email, tokenHash, ttlMinutes }: { email: string; tokenHash: string; ttlMinutes: number }) {
+export async function insertSignInLink(k: Knex, { email, tokenHash, ttlMinutes, nextPath = null }: { email: string; tokenHash: string; ttlMinutes: number; nextPath?: string | null }) {
   const [id] = await k("sign_in_links").insert({
     email,
     token_hash: tokenHash,
+    next_path: nextPath,
     expires_at: k.raw("NOW() + INTERVAL ? MINUTE", [ttlMinutes]),
   });
   return Number(id);
@@ -76,4 +77,11 @@ export async function pruneSignInRecords({ olderThanHours }: { olderThanHours: n
   const cutoff = db().raw("NOW() - INTERVAL ? HOUR", [olderThanHours]);
   await db()("auth_attempts").where("created_at", "<", cutoff).delete();
   await db()("sign_in_links").where("expires_at", "<", cutoff).delete();
+}
+
+/** Where a link leads and whether it can still be used, without using it (the /t/<token> page's GET). */
+export async function peekSignInLink({ tokenHash }: { tokenHash: string }): Promise<{ nextPath: string | null; usable: boolean } | null> {
+  const row = await db()("sign_in_links").where({ token_hash: tokenHash }).first("next_path", "used_at", db().raw("expires_at > NOW() AS live"));
+  if (!row) return null;
+  return { nextPath: row.next_path ?? null, usable: !row.used_at && Number((row as unknown as { live: number }).live) === 1 };
 }

@@ -3,12 +3,15 @@ import type { PartStatus } from "../../lib/bench";
 import { calendarDay, daysFromNow } from "./demo-time";
 
 // Bench demo data: the shop's own spec library for the invented models, and J-0002's top end
-// (Jonah Pike's Corvane) part-way apart, with its parts on order. Demo values, invented — not
+// (Jonah Pike's Corvane) part-way apart, with its parts on one supplier order: one back-ordered
+// with a new date, one with a core charge. Demo values, invented — not
 // from any maker. Seeded rows get no timeline entries: the journal above is already in time order.
 type SpecSeed = { make: string; model: string; kind: "torque" | "limit" | "capacity" | "note"; label: string; value?: number; unit?: string; min?: number; max?: number; boltCount?: number; notes?: string; source: string };
 type StepSeed = { removed: string; count?: number; size?: string; notes?: string; storage?: string; torque?: { value: number; unit: "nm" | "lbf_ft" | "lbf_in" | "kgf_m"; boltCount?: number } };
-type PartSeed = { description: string; partNumber: string; supplier: string; costMinor: number; status: "ordered" | "back_ordered"; expectedInDays: number };
-type BenchSeed = { specs: SpecSeed[]; job?: { number: number; day: number; steps: StepSeed[]; parts: PartSeed[] } };
+/** firstExpectedInDays: a back-ordered part's date before the supplier moved it; coreChargeMinor: refunded when the old part goes back. */
+type PartSeed = { description: string; partNumber: string; supplier: string; costMinor: number; status: "ordered" | "back_ordered"; expectedInDays: number; firstExpectedInDays?: number; coreChargeMinor?: number };
+/** order: the one supplier order (issue 19) the job's parts are on, placed `orderedDaysAgo`. */
+type BenchSeed = { specs: SpecSeed[]; job?: { number: number; day: number; steps: StepSeed[]; order: { supplier: string; reference: string; orderedDaysAgo: number }; parts: PartSeed[] } };
 
 const BENCH: Record<string, BenchSeed> = {
   "copper-gulch": {
@@ -31,9 +34,13 @@ const BENCH: Record<string, BenchSeed> = {
         { removed: "Valve cover and gasket", notes: "Half-moon plugs face out; gasket re-usable.", storage: "Bin 2-A" },
         { removed: "Cam chain tensioner", count: 2, size: "M6", notes: "Plunger at its last notch.", storage: "Bag 2-C" },
       ],
+      // Invented order, parts and prices. The starter is a rebuilt exchange unit: its core charge
+      // comes back when the old starter goes to the supplier.
+      order: { supplier: "Ridgeway Parts Supply", reference: "RPS-20418", orderedDaysAgo: 1 },
       parts: [
         { description: "Cam chain", partNumber: "CV-TRN-0112", supplier: "Ridgeway Parts Supply", costMinor: 4850, status: "ordered", expectedInDays: 2 },
-        { description: "Cam chain tensioner", partNumber: "CV-TRN-0340", supplier: "Ridgeway Parts Supply", costMinor: 6275, status: "back_ordered", expectedInDays: 6 },
+        { description: "Cam chain tensioner", partNumber: "CV-TRN-0340", supplier: "Ridgeway Parts Supply", costMinor: 6275, status: "back_ordered", expectedInDays: 6, firstExpectedInDays: 2 },
+        { description: "Starter motor, rebuilt exchange", partNumber: "CV-TRN-0907R", supplier: "Ridgeway Parts Supply", costMinor: 9400, status: "ordered", expectedInDays: 2, coreChargeMinor: 3500 },
       ],
     },
   },
@@ -87,6 +94,15 @@ export async function seedBench(
       created_at: new Date(daysFromNow(-seed.startedDaysAgo + bench.job.day, 15).getTime() + i * 10 * 60_000),
     });
   }
+  const o = bench.job.order;
+  const [orderId] = await tx("part_orders").insert({
+    shop_id: shopId,
+    supplier: o.supplier,
+    reference: o.reference,
+    ordered_on: calendarDay(-o.orderedDaysAgo, shop.timezone),
+    expected_on: calendarDay(Math.min(...bench.job.parts.map((p) => p.firstExpectedInDays ?? p.expectedInDays)), shop.timezone),
+    created_by_user_id: staffId,
+  });
   for (const part of bench.job.parts) {
     const at = daysFromNow(-seed.startedDaysAgo + seed.path.length - 1, 15);
     const [partId] = await tx("job_parts").insert({
@@ -99,17 +115,20 @@ export async function seedBench(
       cost_minor: part.costMinor,
       status: part.status,
       expected_on: calendarDay(part.expectedInDays, shop.timezone),
+      order_id: Number(orderId),
+      core_charge_minor: part.coreChargeMinor ?? null,
       created_by_user_id: staffId,
       created_at: at,
       updated_at: at,
     });
-    const steps: [PartStatus | null, PartStatus][] = [
-      [null, "needed"],
-      ["needed", "ordered"],
+    // The notes are the ones the ordering writers leave (lib/server/part-orders.ts).
+    const steps: [PartStatus | null, PartStatus, string | null][] = [
+      [null, "needed", null],
+      ["needed", "ordered", `Ordered from ${o.supplier}, ref. ${o.reference}`],
     ];
-    if (part.status === "back_ordered") steps.push(["ordered", "back_ordered"]);
-    for (const [from, to] of steps) {
-      await tx("job_part_events").insert({ shop_id: shopId, part_id: partId, from_status: from, to_status: to, changed_by_user_id: staffId, changed_at: at });
+    if (part.status === "back_ordered") steps.push(["ordered", "back_ordered", `Back-ordered, now expected ${calendarDay(part.expectedInDays, shop.timezone)}`]);
+    for (const [from, to, note] of steps) {
+      await tx("job_part_events").insert({ shop_id: shopId, part_id: partId, from_status: from, to_status: to, changed_by_user_id: staffId, changed_at: at, note });
     }
   }
 }

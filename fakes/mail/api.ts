@@ -5,6 +5,7 @@ import type { ApiFailure, FailureSwitch } from "../shared/control";
 import type { JsonResponse } from "../shared/http";
 import { ApiError, invalidField, type ResendErrorName } from "./errors";
 import { parseEmail, toMessage, type EmailInput } from "./message";
+import type { InboundStore } from "./inbound";
 import type { Mailbox } from "./store";
 import type { MailMessage } from "./types";
 
@@ -36,7 +37,7 @@ function describeStatus(status: number): [ResendErrorName, string] {
   return ["validation_error", "Injected failure."];
 }
 
-export type ApiContext = { mailbox: Mailbox; apiKey: string | undefined; failures: FailureSwitch<ApiFailure>; stats: Stats };
+export type ApiContext = { mailbox: Mailbox; apiKey: string | undefined; failures: FailureSwitch<ApiFailure>; stats: Stats; inbound?: InboundStore };
 
 function digest(value: string): Buffer {
   return createHash("sha256").update(value).digest();
@@ -193,6 +194,14 @@ function route(req: ApiRequest, ctx: ApiContext): Promise<JsonResponse> | JsonRe
   if (pathname === "/emails/batch") {
     if (method === "POST") return send(req, ctx, "batch");
     throw notAllowed();
+  }
+  // Received mail (fakes/mail/inbound.ts): what the SDK's emails.receiving.get reads.
+  const received = /^\/emails\/receiving\/([^/]+)$/.exec(pathname);
+  if (received?.[1] !== undefined) {
+    if (method !== "GET") throw notAllowed();
+    const email = UUID.test(received[1]) ? ctx.inbound?.get(received[1]) : undefined;
+    if (!email) throw new ApiError(404, "not_found", "Email not found");
+    return { status: 200, body: email };
   }
   const match = /^\/emails\/([^/]+)$/.exec(pathname);
   if (match?.[1] !== undefined) {

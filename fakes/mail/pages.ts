@@ -4,7 +4,7 @@ import type { MailMessage } from "./types";
 
 /** Blocks scripts everywhere, including the srcdoc iframe, which inherits this policy. */
 export const PAGE_CSP =
-  "default-src 'none'; style-src 'unsafe-inline'; img-src http: https: data:; frame-src 'self'; base-uri 'none'; form-action 'none'";
+  "default-src 'none'; style-src 'unsafe-inline'; img-src http: https: data:; frame-src 'self'; base-uri 'none'; form-action 'self'";
 
 const STYLE = `
   body { font: 15px/1.5 system-ui, sans-serif; margin: 0; color: #1f2328; background: #f6f7f9; }
@@ -54,7 +54,18 @@ ${rows}
   return layout("Benchside mail fake", `<h1>Mailbox <span class="muted">(${messages.length})</span></h1>\n${body}`);
 }
 
-export function renderMessage(m: MailMessage): string {
+/** Reply as the recipient: the reply goes to the message's Reply-To and reaches the app as an `email.received` webhook. */
+function replyForm(m: MailMessage, replied: string | null): string {
+  const done = replied ? `<p role="status">Reply sent (inbound e-mail <code>${escapeHtml(replied)}</code>). <a href="/_fake/inbound">Inbound mail and webhooks</a></p>` : "";
+  return `<section><h2>Reply as ${escapeHtml(m.to[0] ?? "the recipient")}</h2>${done}
+<form method="post" action="/m/${pathId(m.id)}/reply">
+  <label for="reply-text">Reply text (the original is quoted below it, as a mail program would)</label><br>
+  <textarea id="reply-text" name="text" rows="5" cols="80" required></textarea><br>
+  <button type="submit">Send reply</button>
+</form></section>`;
+}
+
+export function renderMessage(m: MailMessage, replied: string | null = null): string {
   const headerRows = Object.entries(m.headers)
     .map(([name, value]) => `<tr><th><code>${escapeHtml(name)}</code></th><td><code>${escapeHtml(value)}</code></td></tr>`)
     .join("\n");
@@ -76,6 +87,7 @@ export function renderMessage(m: MailMessage): string {
   <dt>Tags</dt><dd>${list(tags)}</dd>
   <dt>Attachments</dt><dd>${list(attachments)}</dd>
 </dl>
+${replyForm(m, replied)}
 <section><h2>Headers</h2>
 ${headerRows ? `<table>${headerRows}</table>` : '<p class="muted">No custom headers.</p>'}
 </section>

@@ -83,6 +83,12 @@ export type WebhookFlavour<D extends BaseDelivery> = {
   /** The record of an attempt about to be made (a fake may add an id). */
   newAttempt(attempt: DeliveryAttempt): D["attempts"][number];
   describe(delivery: D): { type: string; eventId: string; objectId: string };
+  /** Where this delivery goes, when each event names its own address (an SMS status callback); default the configured URL. */
+  target?(delivery: D): string | null;
+  /** The signature header's value, for a service that doesn't sign the shared way (`signatureHeader`). */
+  sign?(rawBody: string, secret: string, url: string): string;
+  /** Several signing headers instead of one (Standard Webhooks: id, timestamp, signature); replaces `signatureHeader`. */
+  signingHeaders?(delivery: D, rawBody: string, secret: string): Record<string, string>;
 };
 
 export class WebhookSender<D extends BaseDelivery> {
@@ -102,7 +108,8 @@ export class WebhookSender<D extends BaseDelivery> {
 
   /** Logs a new event and, unless dropped or unconfigured, starts sending it. */
   protected record(build: (state: DeliveryState) => D): D {
-    const delivery = build(this.drop ? "dropped" : this.opts.url ? "pending" : "unconfigured");
+    const delivery = build(this.drop ? "dropped" : "pending");
+    if (delivery.state === "pending" && !this.urlOf(delivery)) delivery.state = "unconfigured";
     this.store.addDelivery(delivery);
     if (delivery.state === "pending") this.schedule(delivery, 0);
     this.persist();
@@ -123,7 +130,7 @@ export class WebhookSender<D extends BaseDelivery> {
 
   /** Sends an event again, as a hosted dashboard's "resend" does: same id, same body. */
   redeliver(delivery: D): void {
-    if (!this.opts.url) return;
+    if (!this.urlOf(delivery)) return;
     delivery.state = "pending";
     // Room for at least one more try within the attempt limit; the log keeps the latest ones.
     delivery.attempts = delivery.attempts.slice(Math.max(0, delivery.attempts.length - (this.opts.maxAttempts - 1)));
@@ -155,6 +162,10 @@ export class WebhookSender<D extends BaseDelivery> {
     this.cancelPending();
   }
 
+  private urlOf(delivery: D): string | null {
+    return this.flavour.target ? this.flavour.target(delivery) : (this.opts.url ?? null);
+  }
+
   private persist(): void {
     if (this.closed) return;
     this.store.save().catch((error: unknown) => console.error(`${this.flavour.label}: could not save state`, error));
@@ -172,7 +183,8 @@ export class WebhookSender<D extends BaseDelivery> {
   }
 
   private async attempt(delivery: D, generation: number): Promise<void> {
-    const { url, secret, maxAttempts } = this.opts;
+    const { secret, maxAttempts } = this.opts;
+    const url = this.urlOf(delivery);
     if (this.closed || generation !== this.generation || delivery.state !== "pending" || !url || !secret) return;
     if (this.drop) {
       delivery.state = "dropped";
@@ -188,7 +200,11 @@ export class WebhookSender<D extends BaseDelivery> {
     try {
       const res = await fetch(url, {
         method: "POST",
-        headers: { "content-type": flavour.contentType, [flavour.signatureHeader]: signatureHeader(rawBody, secret), "user-agent": flavour.userAgent },
+        headers: {
+          "content-type": flavour.contentType,
+          ...(flavour.signingHeaders ? flavour.signingHeaders(delivery, rawBody, secret) : { [flavour.signatureHeader]: flavour.sign ? flavour.sign(rawBody, secret, url) : signatureHeader(rawBody, secret) }),
+          "user-agent": flavour.userAgent,
+        },
         body: rawBody,
         redirect: "manual",
         signal: controller.signal,

@@ -24,4 +24,4 @@ export const postDecision = (request: string, body: AnswerBody) => postJson<{ de
 export const postRecordedDecision = (request: string, body: RecordedBody) => postJson<{ decision: DecisionRow }>(`/api/approvals/${request}/recorded-decision`, body);
 export const postWithdraw = (request: string, reason: string | null) => postJson<{ withdrawn: true }>(`/api/approvals/${request}/withdraw`, { reason });
 export const postSend = (job: string, finding: number, findingVersion: number) =>
-  postJson<{ request: string; hash: string; mailed: boolean }>(`/api/jobs/${job}/findings/${finding}/send`, { findingVersion });
+  postJson<{ request: string; hash: string; mailed: boolean; texted: boolean }>(`/api/jobs/${job}/findings/${finding}/send`, { findingVersion });

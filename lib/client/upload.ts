@@ -2,7 +2,8 @@
 // Uploads with progress. fetch() can't report upload progress in browsers yet, so one file
 // goes up per XMLHttpRequest and its progress events drive that file's bar.
 
-export type UploadResult<T> = { ok: true; data: T } | { ok: false; message: string };
+/** status: the HTTP status of a refusal, 0 when no answer came (the outbox retries those). */
+export type UploadResult<T> = { ok: true; data: T } | { ok: false; message: string; status: number };
 
 export function uploadFile<T>(url: string, field: string, file: File, onProgress: (fraction: number) => void, signal?: AbortSignal): Promise<UploadResult<T>> {
   return new Promise((resolve) => {
@@ -16,10 +17,10 @@ export function uploadFile<T>(url: string, field: string, file: File, onProgress
     xhr.onload = () => {
       const body = xhr.response as { error?: { message?: string } } | null;
       if (xhr.status >= 200 && xhr.status < 300) resolve({ ok: true, data: body as T });
-      else resolve({ ok: false, message: body?.error?.message ?? `Upload failed (${xhr.status}).` });
+      else resolve({ ok: false, message: body?.error?.message ?? `Upload failed (${xhr.status}).`, status: xhr.status });
     };
-    xhr.onerror = () => resolve({ ok: false, message: "The connection dropped. Check the Wi-Fi and try again." });
-    xhr.onabort = () => resolve({ ok: false, message: "Upload cancelled." });
+    xhr.onerror = () => resolve({ ok: false, message: "The connection dropped. Check the Wi-Fi and try again.", status: 0 });
+    xhr.onabort = () => resolve({ ok: false, message: "Upload cancelled.", status: 0 });
     signal?.addEventListener("abort", () => xhr.abort());
     const form = new FormData();
     form.append(field, file);

@@ -49,6 +49,8 @@ export const lineInputSchema = z.object({
   cost: typed,
   priceReason: text(200, "the reason for the price").optional(),
   partId: z.number({ message: STALE_FINDING }).int(STALE_FINDING).positive(STALE_FINDING).nullish(),
+  /** A saved part line stands for a new job part instead of the one it has (before the owner answers). */
+  newPart: z.boolean({ message: STALE_FINDING }).optional(),
 });
 export type LineInput = z.output<typeof lineInputSchema>;
 

@@ -75,6 +75,8 @@ const checkInFields = z.object({
   intakeNotes: optional(text(4000, "Intake notes are at most 4000 characters")),
   promisedOn: optional(z.iso.date({ error: "Pick a real date (YYYY-MM-DD)" })),
   technicianId: optional(recordId("Pick someone from the list")),
+  // The owner agrees, at the desk, to texts at their phone number (issue 21; recorded with when and how).
+  textConsent: optional(z.literal("yes", { error: "Tick the box only if the owner agrees to texts" })),
 });
 
 type Fields = z.output<typeof checkInFields>;
@@ -121,6 +123,8 @@ export type CheckInInput = {
   intakeNotes: string | null;
   promisedOn: string | null;
   technicianId: number | null;
+  /** The owner agreed at the desk to texts at their phone number (issue 21). */
+  textConsent?: boolean;
 };
 
 function toInput(v: Fields): CheckInInput {
@@ -150,6 +154,7 @@ function toInput(v: Fields): CheckInInput {
     intakeNotes: v.intakeNotes ?? null,
     promisedOn: v.promisedOn ?? null,
     technicianId: v.technicianId ?? null,
+    textConsent: v.textConsent === "yes",
   };
 }
 

@@ -19,7 +19,7 @@ import { WEEKDAYS } from "@/lib/shop-settings";
 import { BOOKING_BANNER, BOOKING_VISIBLE } from "@/lib/booking";
 import { bookingRequestSchema } from "./booking";
 import { markupSettingsSchema } from "./parts-pricing";
-import { backOrderSchema, coreChargeSchema, movePartSchema, orderPartsSchema, partDepositSchema } from "./part-orders";
+import { backOrderSchema, coreChargeSchema, movePartSchema, orderPartsSchema, orderShopPartsSchema, partDepositSchema } from "./part-orders";
 import { CONFIRM_SIGNUP_VISIBLE, SHOP_SIGNUP_VISIBLE } from "@/lib/shop-signup";
 import { confirmSignupSchema, shopSignupSchema } from "./shop-signup";
 import { answerSchema, findingInputSchema, recordDecisionSchema, withdrawSchema } from "./approvals";
@@ -29,6 +29,8 @@ import { measurementSetSchema } from "./measurements";
 import { MEASUREMENT_SET_VISIBLE } from "@/lib/measurements";
 import { checkInFormSchema } from "./check-in";
 import { frequencySchema, inviteFollowerSchema } from "./following";
+import { textChoiceSchema, textSettingsSchema } from "./texts";
+import { answerQuestionSchema, askQuestionSchema } from "./questions";
 import { inboxPreferencesSchema } from "./inbox";
 import { recordDepositSchema, refundSchema } from "./invoices";
 import { statusChangeFields } from "./jobs";
@@ -72,6 +74,7 @@ export const FORM_FIELDS = {
   partStatus: { schema: partStatusSchema, visible: ["to", "expectedOn"], banner: ["job", "part", "from"] },
   // Issue 19 ordering (bench page, part-order-forms.tsx): the ticked parts' ids travel in one hidden field whose message shows beside the boxes.
   orderParts: { schema: orderPartsSchema, visible: ["supplier", "reference", "orderedOn", "expectedOn", "parts"], banner: ["job"] },
+  orderShopParts: { schema: orderShopPartsSchema, visible: ["supplier", "reference", "orderedOn", "expectedOn", "parts"], banner: ["shop"] },
   backOrder: { schema: backOrderSchema, visible: ["expectedOn"], banner: ["job", "part"] },
   movePart: { schema: movePartSchema, visible: ["toJob", "thisJob"], banner: ["job", "part"] },
   coreCharge: { schema: coreChargeSchema, visible: ["charge"], banner: ["job", "part"] },
@@ -134,7 +137,14 @@ export const FORM_FIELDS = {
   // ("job" is added by the consent action and filled by the form; the frequency radios say their message in the banner).
   answer: { schema: answerSchema, visible: FORM_VISIBLE.answer, banner: ["shownHash", "lines", "wantsPartsBack", "confirmed"] },
   inviteFollower: { schema: inviteFollowerSchema, visible: FORM_VISIBLE.inviteFollower, banner: ["job"] },
+  // Questions on a job (app/(owner)/my/jobs/[job]/_components/ask-form.tsx, the staff job page's
+  // answer-question-form.tsx); job, request and question are filled by the pages.
+  askQuestion: { schema: askQuestionSchema, visible: FORM_VISIBLE.askQuestion, banner: ["job", "request"] },
+  answerQuestion: { schema: answerQuestionSchema, visible: FORM_VISIBLE.answerQuestion, banner: ["job", "question"] },
   frequency: { schema: frequencySchema, visible: FORM_VISIBLE.frequency, banner: ["job", "frequency"] },
+  // Texts (issue 21): the owner's texts page; the shop's settings section.
+  textChoice: { schema: textChoiceSchema, visible: FORM_VISIBLE.textChoice, banner: ["job"] },
+  textSettings: { schema: textSettingsSchema, visible: ["smsFrom", "quietStart", "quietEnd"], banner: ["shop"] },
   storyConsent: { schema: storyConsentFields, visible: FORM_VISIBLE.storyConsent, banner: ["job", "decision", "shownHash"] },
   // The portfolio (app/(staff)/shop/[shop]/portfolio/_components/): "items" is the story editor's JSON, filled by the page.
   storyCuration: { schema: storyCurationSchema, visible: FORM_VISIBLE.storyCuration, banner: [...shop, "story", "version", "items"] },
@@ -156,6 +166,7 @@ export const FORM_FIELDS = {
  * neither this nor FORM_FIELDS, and on a line here that matches nothing.
  */
 export const NOT_FORMS: Record<string, string> = {
+  "app/(owner)/my/jobs/[job]/texts/actions.ts#stopTextsAction": "a button; the job is filled by the page, its message shows beside the button",
   "app/(auth)/sign-in/actions.ts#signOutAction": "a button with no fields",
   "app/(auth)/sign-in/actions.ts#signOutEverywhereAction": "a button with no fields",
   "app/(owner)/my/jobs/[job]/following-actions.ts#removeFollowerAction": "a confirm button; job and follower ids are filled by the page, its message shows beside the button",

@@ -96,7 +96,7 @@ export type RefundInput = z.output<typeof refundSchema>;
 export const payInvoiceSchema = z.object({ invoice: publicId("invoice") });
 export const payDepositSchema = z.object({ deposit: publicId("deposit") });
 
-/** The owner's invoice page query: ?paid=<session id> on return from paying, ?cancelled=1 when they went back. */
+/** The owner's invoice page query: ?paid=<invoice or deposit public id> on return from paying, ?cancelled=1 when they went back. */
 export const invoiceReturnSchema = z.object({
   paid: z
     .string()

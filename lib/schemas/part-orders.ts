@@ -11,8 +11,8 @@ const recordId = (what: string) => z.string().trim().regex(/^[1-9]\d{0,15}$/, `N
 const date = (missing: string) => z.preprocess(blank, z.iso.date({ message: "Use a date like 2026-12-24." }).optional()).pipe(z.string({ error: missing }));
 const optDate = z.preprocess(blank, z.iso.date({ message: "Use a date like 2026-12-24." }).optional()).transform((s) => s ?? null);
 
-/** This job's needed parts onto one supplier order (ticked boxes named `parts`). */
-export const orderPartsSchema = jobRef.extend({
+/** Needed parts onto one supplier order (ticked boxes named `parts`): the fields both order forms share. */
+const orderFields = {
   supplier: z.preprocess(blank, text(120, "the supplier").optional()).pipe(z.string({ error: "Name the supplier." })),
   reference: optText(80, "the order reference"),
   orderedOn: date("Give the date it was ordered."),
@@ -23,7 +23,13 @@ export const orderPartsSchema = jobRef.extend({
     .trim()
     .regex(/^[1-9]\d{0,15}(,[1-9]\d{0,15}){0,99}$/, "Tick at least one part for the order (at most 100).")
     .transform((s) => [...new Set(s.split(",").map(Number))]),
-});
+};
+
+/** This job's needed parts onto one supplier order (the bench page). */
+export const orderPartsSchema = jobRef.extend(orderFields);
+
+/** Needed parts of any of the shop's jobs onto one supplier order (the parts page). */
+export const orderShopPartsSchema = shopRef.extend(orderFields);
 
 export const receiveOrderSchema = shopRef.extend({ order: recordId("order") });
 

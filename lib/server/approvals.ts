@@ -17,7 +17,8 @@ import type { AnswerInput, RecordDecisionInput } from "@/lib/schemas/approvals";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import type { JobAccess, Resolved } from "@/lib/server/access";
 import { newMailToken, sealIntact, sealSnapshot } from "@/lib/server/approval-hash";
-import { cancelReminder, queueRequestMail } from "@/lib/server/approval-mail";
+import { answerPath, cancelReminder, queueRequestMail } from "@/lib/server/approval-mail";
+import { noticeChannels, queueApprovalText } from "@/lib/server/texts";
 import { recordInboxEvent } from "@/lib/server/inbox";
 import { answerLineParts, recordRequestLines } from "@/db/queries/parts-pricing";
 
@@ -113,7 +114,13 @@ export async function sendRequest(actor: Actor, { job }: JobAccess, findingId: n
       // No prices: followers read this entry too. Prices live in the approval tables.
       body: { event: "sent", request: publicId, title: snapshot.finding.title, version: snapshot.version, lines: snapshot.lines.length, safety: snapshot.finding.safety, replaces: previous?.status === "sent" ? previous.publicId : null },
     });
-    if (to) {
+    // The owner's choice of e-mail, text or both (a text only with their consent: lib/server/texts.ts).
+    const channels = await noticeChannels(tx, { shopId: job.shopId, customerId: job.customerId });
+    if (channels.text) {
+      const path = answerPath(job.publicId, publicId);
+      await queueApprovalText(tx, { shopId: job.shopId, jobId: job.id, customerId: job.customerId, email: to, machine: describeMachine(job.machine), answerPath: path, requestPublicId: publicId });
+    }
+    if (to && channels.email) {
       await queueRequestMail(tx, {
         shop: { id: job.shopId, name: jobRow.shopName },
         to,
@@ -128,7 +135,7 @@ export async function sendRequest(actor: Actor, { job }: JobAccess, findingId: n
     }
     // Followers hear at once that the owner has a decision to make: no title, no prices.
     await notifyNow(tx, { shopId: job.shopId, jobId: job.id, kind: "approval_request", followersOnly: true, dedupeKey: `approval:${publicId}` });
-    return { publicId, hash, mailed: !!to, job };
+    return { publicId, hash, mailed: !!to && channels.email, texted: channels.text, job };
   });
 }
 

@@ -50,7 +50,7 @@ export type AuthorisedWork = {
 };
 
 /** A part is billed once it is in the machine (fitted, or fitted and its old one handed back). */
-const BILLABLE_PART: readonly PartStatus[] = ["fitted", "returned"];
+export const BILLABLE_PART: readonly PartStatus[] = ["fitted", "returned"];
 
 /** Read in the caller's transaction when `k` is given, else on the pool. */
 export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId: number }, k?: Tx): Promise<AuthorisedWork> {
@@ -138,5 +138,6 @@ export async function authorisedWork({ shopId, jobId }: { shopId: number; jobId:
   };
 }
 
-/** The same line of the same request, so syncing never brings one in twice. */
-export const lineKey = (l: Pick<InvoiceLine, "requestPublicId" | "requestLineNo">) => `${l.requestPublicId}#${l.requestLineNo}`;
+/** The same line of the same request (or the same part's core charge / credit), so syncing never brings one in twice. */
+export const lineKey = (l: Pick<InvoiceLine, "requestPublicId" | "requestLineNo"> & Partial<Pick<InvoiceLine, "source" | "partId">>) =>
+  l.source === "core_charge" || l.source === "core_credit" ? `${l.source}:${l.partId}` : `${l.requestPublicId}#${l.requestLineNo}`;

@@ -9,6 +9,7 @@ import { formatMoney, taxLabel } from "@/lib/money";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { appUrl } from "@/lib/server/config";
 import { type MoneyMailContent, renderMoneyMail } from "@/lib/server/emails/money-email";
+import { queueNoticeText, textLinkTo } from "@/lib/server/texts";
 
 // The owner's money mail, queued in the outbox inside the transaction that causes it: the invoice
 // when it is issued, a deposit request, and a receipt for every payment, deposit and refund. Each
@@ -49,6 +50,14 @@ export async function queueInvoiceMail(tx: Tx, m: Owner & { invoice: InvoiceRow;
     footnote: FOOTNOTE,
   };
   await enqueueMail(tx, { shopId: m.job.shopId, jobPublicId: m.job.publicId, kind: "invoice", to: m.to, ...(await renderMoneyMail(content)), dedupeKey: `invoice:${i.publicId}:issued` });
+}
+
+/** The invoice by text (issue 21 §3): the balance and a link that signs in onto the invoice. */
+export async function queueInvoiceText(tx: Tx, m: { invoice: InvoiceRow; job: MailJob & { id: number; customerId: number }; email: string | null }) {
+  const i = m.invoice;
+  const total = i.balanceMinor > 0 ? `balance due ${formatMoney(i.balanceMinor, i.currency)}` : "nothing left to pay";
+  const link = await textLinkTo(tx, { email: m.email, nextPath: ownerInvoicePath(m.job.publicId) });
+  await queueNoticeText(tx, { shopId: m.job.shopId, jobId: m.job.id, customerId: m.job.customerId, notice: { kind: "invoice", machine: describeMachine(m.job.machine), total, link }, dedupeKey: `invoice:${i.publicId}:issued` });
 }
 
 export async function queueDepositMail(tx: Tx, m: Owner & { deposit: { publicId: string; amountMinor: number; currency: string; note: string | null }; job: MailJob }) {

@@ -108,7 +108,8 @@ async function checkout(actor: Actor, job: { id: number; shopId: number; number:
       {
         mode: "payment",
         line_items: [{ quantity: 1, price_data: { currency: currency.toLowerCase(), unit_amount: amountMinor, product_data: { name: `${what} · ${formatJobNumber(job.number)} · ${shopName}`.slice(0, 250) } } }],
-        success_url: `${back}?paid={CHECKOUT_SESSION_ID}`,
+        // Our own reference in the owner's address bar, never the service's session id (issue 20 §4).
+        success_url: `${back}?paid=${target.publicId}`,
         cancel_url: `${back}?cancelled=1`,
         client_reference_id: target.publicId,
         customer_email: actor.email,

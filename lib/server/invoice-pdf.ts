@@ -1,7 +1,7 @@
 import "server-only";
 import PDFDocument from "pdfkit";
 import { LINE_KIND_LABEL, METHOD_LABEL } from "@/lib/approvals";
-import { INVOICE_STATUS_LABEL, PAYMENT_KIND_LABEL, PAYMENT_METHOD_LABEL } from "@/lib/invoices";
+import { INVOICE_STATUS_LABEL, LINE_SOURCE_LABEL, PAYMENT_KIND_LABEL, PAYMENT_METHOD_LABEL } from "@/lib/invoices";
 import { formatHours, formatMoney, formatQuantity } from "@/lib/money";
 import type { InvoiceView, ViewLine } from "@/lib/server/invoice-views";
 
@@ -84,7 +84,8 @@ export async function renderInvoicePdf(view: InvoiceView): Promise<Buffer> {
   header();
   for (const l of inv.lines) {
     const c = lineCells(l, inv.currency);
-    const detail = [LINE_KIND_LABEL[l.kind], l.partNumber ? `part ${l.partNumber}` : null, l.taxable ? "taxed" : null, l.flagged ? "OVER WHAT WAS AUTHORISED: NOT CHARGED" : null].filter(Boolean).join(" · ");
+    const core = l.source === "core_charge" || l.source === "core_credit" ? LINE_SOURCE_LABEL[l.source].toLowerCase() : null;
+    const detail = [LINE_KIND_LABEL[l.kind], l.partNumber ? `part ${l.partNumber}` : null, l.taxable ? "taxed" : null, core, l.flagged ? "OVER WHAT WAS AUTHORISED: NOT CHARGED" : null].filter(Boolean).join(" · ");
     const h = doc.heightOfString(pdfText(l.description), { width: 270 }) + doc.heightOfString(detail, { width: 270 }) + 6;
     if (doc.y + h > BOTTOM) {
       doc.addPage();
@@ -125,7 +126,7 @@ export async function renderInvoicePdf(view: InvoiceView): Promise<Buffer> {
     heading("Payments");
     for (const p of view.payments) {
       room(14);
-      text(`${p.receipt} · ${PAYMENT_KIND_LABEL[p.kind]} · ${PAYMENT_METHOD_LABEL[p.method]}${p.reference ? ` · ${p.reference}` : ""} · ${when(p.receivedAt, tz)}: ${p.kind === "refund" ? "-" : ""}${m(p.amountMinor)}`, LEFT, { width: RIGHT - LEFT });
+      text(`${p.receipt} · ${PAYMENT_KIND_LABEL[p.kind]}${p.forPart ? ` for ${p.forPart}` : ""} · ${PAYMENT_METHOD_LABEL[p.method]}${p.reference ? ` · ${p.reference}` : ""} · ${when(p.receivedAt, tz)}: ${p.kind === "refund" ? "-" : ""}${m(p.amountMinor)}`, LEFT, { width: RIGHT - LEFT });
     }
   }
   if (inv.returnedPartsNote) {

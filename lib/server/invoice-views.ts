@@ -8,14 +8,19 @@ import { ownerReference, receiptNumbers } from "@/lib/receipts";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import { type AuthorisationEntry, type AuthorisedWork, lineKey } from "@/lib/server/authorised-work";
 import { authorisedWorkOf } from "@/lib/server/request-cache";
+import { depositParts } from "@/db/queries/part-orders";
+import { coreLinesOf } from "@/lib/server/core-lines";
 
 // One read of everything an invoice page, the PDF and the JSON route show: the shop's details, the
 // job and machine, the live invoice with its priced lines, payments and deposits, and the
 // authorisation record. A fixed number of queries whatever the number of lines or payments.
 
 export type ViewLine = PricedLine & { id: number };
-/** receipt: the shop's own number for it (lib/receipts.ts), what owners and receipts show. */
-export type ViewPayment = PaymentRow & { refundableMinor: number; receipt: string };
+/**
+ * receipt: the shop's own number for it (lib/receipts.ts), what owners and receipts show; forPart:
+ * the special-order part a paid deposit was asked for (issue 19), shown against the invoice.
+ */
+export type ViewPayment = PaymentRow & { refundableMinor: number; receipt: string; forPart: string | null };
 
 export type InvoiceView = {
   shop: { name: string; email: string | null; phone: string | null; timezone: string };
@@ -38,7 +43,15 @@ export type InvoiceView = {
 export async function invoiceView(jobId: number, audience: "shop" | "owner"): Promise<InvoiceView> {
   const h = (await getInvoiceHeader({ jobId }))!;
   const key = { shopId: h.job.shopId, jobId };
-  const [invoices, payments, deposits, work] = await Promise.all([listJobInvoices(key), listJobPayments(key), listJobDeposits(key), authorisedWorkOf(key.shopId, key.jobId)]);
+  const [invoices, payments, deposits, work, cores, forParts] = await Promise.all([
+    listJobInvoices(key),
+    listJobPayments(key),
+    listJobDeposits(key),
+    authorisedWorkOf(key.shopId, key.jobId),
+    // Only their keys count here (missing lines), so the taxable default doesn't matter.
+    coreLinesOf(key, false),
+    depositParts(key),
+  ]);
   // The owner sees an invoice once it is issued; a draft is the desk's working copy.
   const live = invoices.find((i) => i.status !== "void" && (audience === "shop" || i.status !== "draft")) ?? null;
   const rows = live ? await listInvoiceLines({ shopId: key.shopId, invoiceId: live.id }) : [];
@@ -80,6 +93,7 @@ export async function invoiceView(jobId: number, audience: "shop" | "owner"): Pr
       ...p,
       refundableMinor: p.kind === "refund" ? 0 : p.amountMinor - (refunded.get(p.id) ?? 0),
       receipt: receipts.get(p.id)!,
+      forPart: p.kind === "deposit" && p.depositId !== null ? (forParts.get(p.depositId) ?? null) : null,
       // Owners (page, PDF, JSON) never get the payments service's raw ids; staff keep them to reconcile.
       ...(audience === "owner" ? { reference: ownerReference(p), providerPaymentId: null, providerRefundId: null } : {}),
     })),
@@ -87,7 +101,7 @@ export async function invoiceView(jobId: number, audience: "shop" | "owner"): Pr
     balance: balanceOf(invoice?.totalMinor ?? 0, payments),
     record: work.record,
     openRequests: work.openRequests,
-    missingAuthorised: live?.status === "draft" ? work.lines.filter((l) => !onInvoice.has(lineKey(l))).length : 0,
+    missingAuthorised: live?.status === "draft" ? [...work.lines, ...cores].filter((l) => !onInvoice.has(lineKey(l))).length : 0,
     partsNotFitted: audience === "shop" ? work.partsNotFitted : [],
     currency: live?.currency ?? h.shop.currency,
   };

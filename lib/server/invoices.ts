@@ -28,7 +28,9 @@ import type { JobAccess, Resolved } from "@/lib/server/access";
 import { authorisedWork, lineKey } from "@/lib/server/authorised-work";
 import { type Tx, transaction } from "@/db/transaction";
 import { readLines } from "@/lib/server/findings";
-import { queueInvoiceMail } from "@/lib/server/invoice-mail";
+import { queueInvoiceMail, queueInvoiceText } from "@/lib/server/invoice-mail";
+import { noticeChannels } from "@/lib/server/texts";
+import { coreLinesOf } from "@/lib/server/core-lines";
 
 // Invoices made from authorised work: create (numbered under the shop row's lock), edit the draft,
 // issue, cancel. Every change runs in one transaction with the job row and then the invoice locked,
@@ -104,7 +106,9 @@ export async function createInvoice(actor: Actor, { job }: JobAccess) {
     };
     const returnedPartsNote = work.wantsPartsBack ? "You asked for the replaced parts back: they are packed with your machine." : null;
     const id = await insertInvoice(tx, { shopId: job.shopId, jobId: job.id, publicId, number, currency, snapshot: blank, returnedPartsNote, userId: actor.userId });
-    await insertInvoiceLines(tx, { shopId: job.shopId, invoiceId: id, lines: work.lines, from: 1 });
+    // Fitted parts' core charges, and their credits once the cores went back (issue 19).
+    const cores = await coreLinesOf({ shopId: job.shopId, jobId: job.id }, settings.taxable.part, tx);
+    await insertInvoiceLines(tx, { shopId: job.shopId, invoiceId: id, lines: [...work.lines, ...cores], from: 1 });
     await recompute(tx, (await getInvoiceByPublicId({ publicId }, tx))!);
     return { publicId, number, job };
   });
@@ -131,13 +135,15 @@ async function draftChange({ invoice, job }: Resolved<"invoice">, version: numbe
   return { job };
 }
 
-/** Brings in authorised lines not yet on the draft (answers that came after it was made). */
+/** Brings in authorised lines not yet on the draft (answers that came after it was made), and core charges and credits. */
 export async function syncAuthorised(found: Resolved<"invoice">, version: number) {
   return draftChange(found, version, async (tx, invoice) => {
     const lines = await listInvoiceLines({ shopId: invoice.shopId, invoiceId: invoice.id }, tx);
     const have = new Set(lines.map(lineKey));
-    const work = await authorisedWork({ shopId: invoice.shopId, jobId: invoice.jobId }, tx);
-    const missing = work.lines.filter((l) => !have.has(lineKey(l)));
+    const key = { shopId: invoice.shopId, jobId: invoice.jobId };
+    const work = await authorisedWork(key, tx);
+    const cores = await coreLinesOf(key, (await getMoneySettings({ shopId: invoice.shopId }, tx)).taxable.part, tx);
+    const missing = [...work.lines, ...cores].filter((l) => !have.has(lineKey(l)));
     if (!missing.length) throw new AppError("conflict", "Every authorised line is already on the invoice.");
     await insertInvoiceLines(tx, { shopId: invoice.shopId, invoiceId: invoice.id, lines: missing, from: (lines.at(-1)?.position ?? 0) + 1 });
   });
@@ -180,7 +186,12 @@ function missingPrice(line: DraftLine, shopHasRate: boolean): { field: string; m
 
 export async function removeLine(found: Resolved<"invoice">, input: { version: number; line: number }) {
   return draftChange(found, input.version, async (tx, invoice) => {
-    if (!(await deleteInvoiceLine(tx, { shopId: invoice.shopId, invoiceId: invoice.id, lineId: input.line }))) throw new AppError("not_found", "That line isn't on this invoice any more.");
+    const key = { shopId: invoice.shopId, invoiceId: invoice.id };
+    const line = (await listInvoiceLines(key, tx)).find((l) => l.id === input.line);
+    if (!line || !(await deleteInvoiceLine(tx, { ...key, lineId: input.line }))) throw new AppError("not_found", "That line isn't on this invoice any more.");
+    // A core's credit never stays without its charge: it would give back what wasn't charged.
+    const credit = line.source === "core_charge" ? (await listInvoiceLines(key, tx)).find((l) => l.source === "core_credit" && l.partId === line.partId) : undefined;
+    if (credit) await deleteInvoiceLine(tx, { ...key, lineId: credit.id });
   });
 }
 
@@ -220,7 +231,10 @@ export async function issueInvoice(actor: Actor, { invoice, job }: Resolved<"inv
     await recompute(tx, issued);
     const body: InvoiceEntryBody = { event: "issued", invoice: fresh.publicId, number: formatInvoiceNumber(fresh.number) };
     await insertEntry(tx, { shopId: fresh.shopId, jobId: fresh.jobId, kind: "invoice", authorId: actor.userId, visibility: "shared", body });
-    if (locked.customerEmail) await queueInvoiceMail(tx, { invoice: (await getInvoiceByPublicId({ publicId: fresh.publicId }, tx))!, job, to: locked.customerEmail, ownerName: locked.customerName });
+    // The owner's choice of e-mail, text or both (issue 21; a text only with their consent).
+    const channels = await noticeChannels(tx, { shopId: fresh.shopId, customerId: job.customerId });
+    if (channels.text) await queueInvoiceText(tx, { invoice: (await getInvoiceByPublicId({ publicId: fresh.publicId }, tx))!, job, email: locked.customerEmail });
+    if (locked.customerEmail && channels.email) await queueInvoiceMail(tx, { invoice: (await getInvoiceByPublicId({ publicId: fresh.publicId }, tx))!, job, to: locked.customerEmail, ownerName: locked.customerName });
   });
   return { job };
 }

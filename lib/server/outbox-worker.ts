@@ -5,6 +5,7 @@ import { reportUndeliverable } from "@/lib/server/inbox";
 import { sweepInboxDigests } from "@/lib/server/inbox-digest";
 import { resend } from "@/lib/server/mail";
 import { sweepNotifications } from "@/lib/server/notify-sweep";
+import { runTextsOnce } from "@/lib/server/text-worker";
 
 // Sends what the outbox holds. Any number of workers may run (one per app host, or more):
 // claimBatch hands each row to one of them, and the idempotency key stored with the row makes
@@ -136,6 +137,12 @@ export async function runOutboxOnce(overrides: Partial<OutboxSettings> = {}, lan
   return run;
 }
 
+/** One batch of the texts' outbox (lib/server/text-worker.ts) with the mail's settings and back-off. */
+export function runTextOutboxOnce(overrides: Partial<OutboxSettings> = {}, now?: () => Date) {
+  const s = { ...outboxSettings(), ...overrides };
+  return runTextsOnce({ batchSize: s.batchSize, leaseMs: s.leaseMs, maxAttempts: s.maxAttempts, backoff: (attempt) => backoffMs(attempt, s) }, now);
+}
+
 export type OutboxWorker = { stop(): Promise<void> };
 
 const INBOX_DIGEST_EVERY_MS = 60_000;
@@ -159,6 +166,8 @@ export function startOutboxWorker({
   const drain = async (lane: "all" | "priority") => {
     const { batchSize } = outboxSettings();
     for (let run = await runOutboxOnce({}, lane); run.claimed === batchSize && !stopped; run = await runOutboxOnce({}, lane));
+    // Texts ride the fast lane too: an owner waits on a keyword's answer as on a sign-in link.
+    for (let run = await runTextOutboxOnce(); run.claimed === batchSize && !stopped; run = await runTextOutboxOnce());
   };
   const repeat = async (everyMs: number, label: string, round: () => Promise<void>) => {
     while (!stopped) {

@@ -4,7 +4,6 @@ import {
   createPartOrder,
   getPartPrice,
   linkPartDeposit,
-  listCores,
   listPartsOnOrder,
   lockPartForDeposit,
   ownerPartWaits,
@@ -14,6 +13,7 @@ import {
   setSpecialOrder,
 } from "@/db/queries/part-orders";
 import { type AfterMove, movePartToJob } from "@/db/queries/part-moves";
+import { listNeededParts } from "@/db/queries/parts-needed";
 import { getShopCurrency } from "@/db/queries/shops";
 import { AppError } from "@/lib/errors";
 import { currencyDigits, inputText, lineTotal } from "@/lib/money";
@@ -79,17 +79,6 @@ export async function coreReturned(actor: Actor, { job }: JobAccess, input: { pa
   return { job };
 }
 
-/**
- * The invoice's core lines for a job, signed: each charge, and a credit of the same amount once
- * the core went back. For the invoice code to take (amounts in the shop currency's minor units).
- */
-export async function coreInvoiceLines(key: { shopId: number; jobId: number }): Promise<{ partId: number; description: string; amountMinor: number }[]> {
-  return (await listCores(key)).flatMap((c) => [
-    { partId: c.partId, description: `Core charge: ${c.description}`, amountMinor: c.chargeMinor },
-    ...(c.returned ? [{ partId: c.partId, description: `Core returned: ${c.description}`, amountMinor: -c.chargeMinor }] : []),
-  ]);
-}
-
 export async function markSpecialOrder(_actor: Actor, { job }: JobAccess, input: { part: number; special: boolean }) {
   await setSpecialOrder({ shopId: job.shopId, jobId: job.id, partId: input.part, special: input.special });
   return { job };
@@ -122,6 +111,14 @@ export async function askPartDeposit(actor: Actor, access: JobAccess, input: { p
 /** What the owner's page says about parts on the way for their cleared work. */
 export async function ownerPartWaitLines(key: { shopId: number; jobId: number }): Promise<string[]> {
   return partWaitLines(await ownerPartWaits(key));
+}
+
+/** The most parts one order form offers (the order schema takes at most 100). */
+export const ORDER_FORM_MAX_PARTS = 100;
+
+/** What the parts page's order form offers: needed parts of any of the shop's jobs, oldest first. */
+export async function neededPartsToOrder(shop: { id: number; timezone: string | null }) {
+  return { ...(await listNeededParts({ shopId: shop.id, limit: ORDER_FORM_MAX_PARTS })), today: shopToday(shop.timezone ?? "UTC") };
 }
 
 export async function partsOnOrderPage(shop: { id: number; timezone: string | null }, page: number) {

@@ -17,7 +17,8 @@ import { minorToInput } from "@/lib/shop-settings";
 // Issue 19: a priced part line's cost, sell price and part. The desk types the cost; the shop's
 // markup rule gives the sell price unless the desk types another, which then needs a reason (kept
 // on the part). Only the sell price goes on the line, so the estimate, the request and the invoice
-// never carry the cost. A part line with no cost and no picked part stays an untracked line.
+// never carry the cost. A part line with no cost still makes (or picks) its part: its price
+// is the one typed, with no markup.
 
 type PartFields = Omit<LinePart, "lineId">;
 
@@ -43,24 +44,26 @@ export async function priceLineParts(
       parts.push(null);
       return line;
     }
-    const was: LinePartPrice | undefined = typed.id ? before.get(typed.id) : undefined;
+    const linkedTo: LinePartPrice | undefined = typed.id ? before.get(typed.id) : undefined;
+    // A saved line re-pointed to another job part (or a new one) prices from that part, not the old one.
+    const repoint = !!linkedTo && (!!typed.newPart || (!!typed.partId && typed.partId !== linkedTo.partId));
+    const was = repoint ? undefined : linkedTo;
+    if (repoint && !opts.mayPrice) throw new AppError("forbidden", "Only the service writer or the shop owner changes which part a line stands for.", { [`lines.${i}.partId`]: ["Leave this to the desk."] });
     const field = (name: string, message: string) => new AppError("invalid", message, { [`lines.${i}.${name}`]: [message] });
     if (!opts.mayPrice && (typed.cost !== undefined || typed.priceReason)) throw new AppError("forbidden", "Only the service writer or the shop owner sets costs and prices.", { [`lines.${i}.cost`]: ["Leave costs to the desk."] });
-    // Untyped, the cost is the one already stored: the line's part, or the part it picks.
-    let costMinor = was ? was.costMinor : typed.partId ? (picked.get(typed.partId) ?? null) : null;
-    if (opts.mayPrice && typed.cost !== undefined) {
+    // Untyped, the cost is the one already stored: the line's part, or the part it picks (an empty
+    // cost on a line that newly picks a part keeps that part's cost, as the picker leaves it empty).
+    const pickedCost = typed.partId && !was && !typed.newPart ? (picked.get(typed.partId) ?? null) : null;
+    let costMinor = was ? was.costMinor : pickedCost;
+    if (opts.mayPrice && typed.cost !== undefined && !(typed.cost === "" && pickedCost !== null)) {
       try {
         costMinor = typed.cost === "" ? null : parseMoney(typed.cost, opts.currency);
       } catch (error) {
         throw error instanceof AppError ? field("cost", error.message) : error;
       }
     }
-    // A line becomes a tracked part once the desk costs it (or picks a job part); a bare part line
-    // (a technician's draft, a price typed without a cost) stays a line only, as before issue 19.
-    if (costMinor === null && !was && !typed.partId) {
-      parts.push(null);
-      return line;
-    }
+    // Every part line stands for one job part, costed or not, so the owner's answer, ordering and
+    // the invoice treat it alike. Without a cost the typed price is the sell price: no markup.
     const ruled = costMinor === null ? null : sellFromCost(costMinor, rule);
     const sellMinor = line.unitPriceMinor ?? ruled;
     let priceReason = opts.mayPrice ? (typed.priceReason || null) : (was?.priceReason ?? null);
@@ -71,7 +74,7 @@ export async function priceLineParts(
     } else if (ruled !== null) {
       priceReason = null;
     }
-    parts.push({ description: line.description, partNumber: line.partNumber, qtyThousandths: line.qtyThousandths ?? 1000, costMinor, sellMinor, priceReason, pickPartId: typed.partId ?? null });
+    parts.push({ description: line.description, partNumber: line.partNumber, qtyThousandths: line.qtyThousandths ?? 1000, costMinor, sellMinor, priceReason, pickPartId: typed.newPart ? null : (typed.partId ?? null), newPart: !!typed.newPart, position: i });
     return { ...line, unitPriceMinor: sellMinor };
   });
   return { lines: priced, parts };

@@ -3,7 +3,7 @@ import type Stripe from "stripe";
 import type { z } from "zod";
 import { lockJob } from "@/db/queries/invoices";
 import { getJobByPublicId } from "@/db/queries/jobs";
-import { closeCheckout, getCheckoutBySessionId, getPaymentByProviderId, listJobPayments, recordWebhookEvent, setDepositStatus } from "@/db/queries/payments";
+import { closeCheckout, getCheckoutBySessionId, getPaymentByProviderId, getReturnCheckout, listJobPayments, recordWebhookEvent, setDepositStatus } from "@/db/queries/payments";
 import { type Tx, transaction } from "@/db/transaction";
 import { JOB_PUBLIC_ID_PATTERN } from "@/lib/journal";
 import { recordInboxEvent } from "@/lib/server/inbox";
@@ -158,14 +158,15 @@ function ignored(reason: string): WebhookAnswer {
 export type ReturnState = "paid" | "open" | "expired" | "unknown";
 
 /**
- * The owner is back from the payment page with ?paid=<session>. The webhook may not have arrived
- * yet: ask the service, and record the payment now if it is done (the webhook then finds it recorded).
- * `job` is one whose money the caller may see (the page resolves "jobMoney"); a session of
- * another job is "unknown".
+ * The owner is back from the payment page with ?paid=<invoice or deposit public id>. The webhook
+ * may not have arrived yet: ask the service about that target's newest checkout, and record the
+ * payment now if it is done (the webhook then finds it recorded). `job` is one whose money the
+ * caller may see (the page resolves "jobMoney"); a reference of another job is "unknown".
  */
-export async function confirmReturn(job: { id: number }, sessionId: string): Promise<ReturnState> {
-  const checkout = await getCheckoutBySessionId({ sessionId });
-  if (!checkout || checkout.jobId !== job.id) return "unknown";
+export async function confirmReturn(job: { id: number }, targetPublicId: string): Promise<ReturnState> {
+  const checkout = await getReturnCheckout({ jobId: job.id, targetPublicId });
+  if (!checkout) return "unknown";
+  const sessionId = checkout.sessionId;
   if (checkout.status === "complete") return "paid";
   try {
     const session = await stripe().checkout.sessions.retrieve(sessionId);

@@ -28,7 +28,7 @@ import { onField as field } from "@/lib/server/bench";
 // what (shop_setting_changes, before and after). Money settings reach new estimates and invoices
 // only: a sent request and an invoice keep the pricing they were made with (their snapshots).
 
-export const SETTING_SECTIONS = ["profile", "hours", "region", "labour", "tax", "supplies", "tolerance", "dropoff", "digest", "bench", "markup"] as const;
+export const SETTING_SECTIONS = ["profile", "hours", "region", "labour", "tax", "supplies", "tolerance", "dropoff", "digest", "bench", "markup", "texts"] as const;
 export type SettingSection = (typeof SETTING_SECTIONS)[number];
 export const SECTION_LABEL: Record<SettingSection, string> = {
   profile: "Profile and contact",
@@ -42,6 +42,7 @@ export const SECTION_LABEL: Record<SettingSection, string> = {
   digest: "Update digest",
   bench: "Bench, clip and board settings",
   markup: "Parts markup",
+  texts: "Text messages",
 };
 
 const percent = (key: string, text: string, what: string) => field(key, () => (parsePercent(text.replace(/\s*%$/, ""), what), text.replace(/\s*%$/, "")));

@@ -8,6 +8,7 @@ import { transaction } from "@/db/transaction";
 import { escapeHtml } from "@/lib/server/mail";
 import { timingDecoyHash, verifyPassword } from "@/lib/server/password";
 import { appUrl } from "@/lib/server/config";
+import { hashToken } from "@/lib/server/signed-token";
 
 /** A positive whole number from the environment, or the fallback (per-address limits that are settings). */
 export const envCount = (key: string, fallback: number) => {
@@ -77,9 +78,8 @@ export async function checkPassword({ email, password, ip }: { email: string; pa
   return { id: user.id, email: user.email, name: user.name };
 }
 
-export function hashToken(token: string): string {
-  return crypto.createHash("sha256").update(`${token}${process.env.AUTH_SECRET ?? ""}`).digest("hex");
-}
+// In lib/server/signed-token.ts, which imports no queries: the texts code uses it too (no import cycle).
+export { hashToken };
 
 /** Thrown inside the link transaction to roll back the work done for an unknown address. */
 class NotForThisAddress extends Error {}

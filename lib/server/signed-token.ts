@@ -77,3 +77,8 @@ export function readBookingTicket(token: string): { shopId: number; issuedAt: nu
   if (!payload || payload.length !== 12) return null;
   return { shopId: payload.readUInt32BE(0), issuedAt: Number(payload.readBigUInt64BE(4)) };
 }
+
+/** A sign-in, invite or reset token as stored: its SHA-256 with the app's secret, so a database copy can't be used to sign in. */
+export function hashToken(token: string): string {
+  return crypto.createHash("sha256").update(`${token}${process.env.AUTH_SECRET ?? ""}`).digest("hex");
+}

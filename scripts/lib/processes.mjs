@@ -98,6 +98,7 @@ export class Run {
   #releaseLock = null;
   #stopDb = null;
   #restarters = [];
+  #atStop = [];
   stopping = false;
 
   /**
@@ -110,6 +111,11 @@ export class Run {
     this.restart = restart;
     process.on("SIGINT", () => void this.stop(130));
     process.on("SIGTERM", () => void this.stop(143));
+  }
+
+  /** Also undone on stop, after the services: servers this run started outside startDb (the cluster's Galera nodes). */
+  atStop(undo) {
+    this.#atStop.push(undo);
   }
 
   lock(dir, what) {
@@ -165,6 +171,7 @@ export class Run {
     for (const restarter of this.#restarters) restarter.stop();
     if (this.#releaseLock) say(this.tag, "stopping…");
     await stopServices();
+    for (const undo of this.#atStop) await undo().catch((error) => console.error(error));
     await this.#stopDb?.();
     this.#releaseLock?.();
     process.exit(code);

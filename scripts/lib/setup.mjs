@@ -88,6 +88,11 @@ export function loadSecrets(dir) {
     // Shaped like the hosted service's test keys; the payments fake accepts only sk_test_ keys.
     paymentsSecretKey: () => `sk_test_${crypto.randomBytes(18).toString("hex")}`,
     paymentsWebhookSecret: () => `whsec_${crypto.randomBytes(24).toString("hex")}`,
+    // Standard Webhooks secret (whsec_ + base64 key) the mail service signs its webhooks with (replies by e-mail).
+    mailWebhookSecret: () => `whsec_${crypto.randomBytes(24).toString("base64")}`,
+    // Shaped like the SMS service's account sid (AC + 32 hex digits); the token signs its webhooks.
+    smsAccountSid: () => `AC${crypto.randomBytes(16).toString("hex")}`,
+    smsAuthToken: () => crypto.randomBytes(16).toString("hex"),
   };
   // A folder made before a secret existed gets just the missing ones; the others stay as they were.
   const missing = Object.keys(wanted).filter((key) => !known[key]);

@@ -46,6 +46,7 @@ const SCREENS: { name: string; path: string; as?: Persona }[] = [
   { name: "start your shop", path: "/start" },
   { name: "start your shop, check your e-mail", path: "/start/check-email?to=new.owner%40shop.test" },
   { name: "start your shop, link not valid", path: "/start/confirm" },
+  { name: "text link, not valid", path: `/t/${"A".repeat(43)}` },
 ];
 
 // The seed queues no mail: give J-0005's sent log (and the failed-mail page) one sent and one
@@ -89,6 +90,16 @@ for (const colorScheme of ["light", "dark"] as const) {
           await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
           await expectNoViolations(page);
         }
+      });
+    });
+
+    test.describe("owner's e-mail-or-texts page", () => {
+      test.use({ storageState: storageStatePath("jobCustomer") });
+      test("owner's texts page (issue 21) has no WCAG 2.2 AA violations axe can find", async ({ page }) => {
+        const [job] = await sql("SELECT j.public_id FROM jobs j JOIN shops s ON s.id = j.shop_id WHERE s.slug = 'copper-gulch' AND j.number = 5");
+        await page.goto(`/my/jobs/${job!.public_id}/texts`);
+        await expect(page.getByRole("heading", { level: 1 })).toBeVisible();
+        await expectNoViolations(page);
       });
     });
 

@@ -4,6 +4,7 @@ import AxeBuilder from "@axe-core/playwright";
 import { expect, request, test } from "@playwright/test";
 import { sql } from "./db";
 import { waitForMail } from "../support/mailbox";
+import { BenchPage } from "./pages/bench-page";
 import { JobPage } from "./pages/job-page";
 import { mailBaseUrl } from "./pages/sign-in-page";
 import { CUSTOMERS, storageStatePath } from "./personas";
@@ -28,6 +29,7 @@ test("technician drafts, writer prices and sends, the owner answers from the e-m
   // A clip of the pads; once it plays, the technician stops at 0:01 and starts the finding there.
   await tech.getByRole("tab", { name: "Clip" }).click();
   await tech.getByLabel("Choose clips").setInputFiles(path.join(CLIPS, "bench-idle.mp4"));
+  await tech.getByRole("button", { name: "Post 1 clip" }).click();
   const clip = tech.getByRole("article").filter({ hasText: /Processing the clip|Uploading from the bench|Clip, 0:03/ }).first();
   await expect(clip.getByText("Clip, 0:03")).toBeVisible({ timeout: 60_000 });
   await clip.scrollIntoViewIfNeeded();
@@ -141,5 +143,16 @@ test("technician drafts, writer prices and sends, the owner answers from the e-m
   expect(again.status()).toBe(409);
   expect((await again.json()).refusal.decision.shownHash).toBe(row!.shown_hash);
   await ownerContext.close();
+
+  // The approved pads line made its job part (issue 19): the desk fits them from stock on the bench,
+  // so J-0005 waits on nothing but the open CV axle request and the invoice (invoice.spec.ts) bills them.
+  const bench = new BenchPage(desk);
+  await bench.open("/shop/copper-gulch/jobs/5/bench");
+  const pads = bench.section("Parts").getByRole("listitem").filter({ hasText: "Front brake pads (pair)" }).first();
+  await pads.getByLabel("New status for Front brake pads (pair)").selectOption({ label: "Fitted" });
+  await pads.getByRole("button", { name: "Update part" }).click();
+  await expect
+    .poll(async () => String((await sql("SELECT p.status FROM job_parts p JOIN finding_lines l ON l.id = p.finding_line_id JOIN approval_requests r ON r.finding_id = l.finding_id WHERE r.public_id = ?", [requestId]))[0]?.status))
+    .toBe("fitted");
   await deskContext.close();
 });

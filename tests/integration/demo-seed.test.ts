@@ -45,4 +45,23 @@ describe("demo seed", () => {
       expect(new Date(last!.changed_at).getTime()).toBeLessThanOrEqual(Date.now());
     }
   });
+
+  it("has J-0002's parts on one supplier order: one back-ordered with a new date, one with a core charge (issue 19)", async () => {
+    const shop = (await fresh.knex("shops").where({ slug: "copper-gulch" }).first())!;
+    const job = (await fresh.knex("jobs").where({ shop_id: shop.id, number: 2 }).first("id", "status"))!;
+    const parts = await fresh.knex("job_parts").where({ job_id: job.id }).orderBy("id");
+    expect(parts.map((p) => [p.description, p.status, p.core_charge_minor == null ? null : Number(p.core_charge_minor)])).toEqual([
+      ["Cam chain", "ordered", null],
+      ["Cam chain tensioner", "back_ordered", null],
+      ["Starter motor, rebuilt exchange", "ordered", 3500],
+    ]);
+    expect(new Set(parts.map((p) => p.order_id)).size).toBe(1);
+    const order = (await fresh.knex("part_orders").where({ id: Number(parts[0]!.order_id) }).first())!;
+    expect([order.shop_id, order.supplier, order.reference]).toEqual([shop.id, "Ridgeway Parts Supply", "RPS-20418"]);
+    const backOrder = (await fresh.knex("job_part_events").where({ part_id: parts[1]!.id, to_status: "back_ordered" }).first())!;
+    expect(backOrder.note).toBe(`Back-ordered, now expected ${parts[1]!.expected_on}`);
+    expect(String(parts[1]!.expected_on) > String(order.expected_on)).toBe(true);
+    // The demo's board counts (tests/e2e/staff.spec.ts) don't move: the job was already waiting on parts.
+    expect(job.status).toBe("waiting_parts");
+  });
 });

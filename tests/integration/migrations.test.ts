@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { freshDatabase } from "../support/db";
 
-const TABLES = ["shops", "users", "memberships", "customers", "customer_merges", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "teardown_step_revisions", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events", "user_sessions", "shop_setting_changes", "dropoff_authorisations", "staff_invites", "password_resets", "shop_signups", "measurement_sets", "measurement_items", "job_status_counts", "part_orders", "shop_parts_markup"];
+const TABLES = ["shops", "users", "memberships", "customers", "customer_merges", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "teardown_step_revisions", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events", "user_sessions", "shop_setting_changes", "dropoff_authorisations", "staff_invites", "password_resets", "shop_signups", "measurement_sets", "measurement_items", "job_status_counts", "part_orders", "shop_parts_markup", "job_questions", "job_reply_tokens", "mail_webhook_events", "idempotency_keys", "text_consent_log", "text_outbox", "text_status_events", "text_inbound"];
 
 describe("migrations on an empty database", () => {
   let fresh: Awaited<ReturnType<typeof freshDatabase>>;
@@ -36,6 +36,8 @@ describe("migrations on an empty database", () => {
     expect(await db.schema.hasColumn("shop_money_settings", "labour_rates")).toBe(true);
     expect(await db.schema.hasColumn("shop_money_settings", "supplies_tax_rate_percent")).toBe(true);
     expect(await db.schema.hasColumn("customers", "contact_preference")).toBe(true);
+    expect(await db.schema.hasColumn("customers", "notify_channels")).toBe(true);
+    expect(await db.schema.hasColumn("shops", "sms_from")).toBe(true);
     expect(await db.schema.hasColumn("jobs", "customer_name")).toBe(true);
     expect(await db.schema.hasColumn("jobs", "promised_undated")).toBe(true);
     expect(await db.schema.hasColumn("job_parts", "finding_line_id")).toBe(true);
@@ -43,6 +45,7 @@ describe("migrations on an empty database", () => {
     expect(await db.schema.hasColumn("approval_requests", "line_ids")).toBe(true);
     expect(await db.schema.hasColumn("job_parts", "order_id")).toBe(true);
     expect(await db.schema.hasColumn("job_parts", "core_charge_minor")).toBe(true);
+    expect(await db.schema.hasColumn("invoice_lines", "part_id")).toBe(true);
     expect(await db.schema.hasColumn("job_part_events", "note")).toBe(true);
     expect(await db.schema.hasColumn("torque_records", "tolerance_pct")).toBe(true);
     expect(await db.schema.hasColumn("torque_records", "check_pass_done")).toBe(true);

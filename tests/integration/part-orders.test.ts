@@ -4,13 +4,12 @@ import { db as appDb } from "@/db/client";
 import { listPartsOnOrder } from "@/db/queries/part-orders";
 import type { Action, Actor } from "@/lib/permissions";
 import { access, resolve } from "@/lib/server/access";
-import { addJobPart } from "@/lib/server/bench-parts";
+import { addJobPart, changeJobPartStatus } from "@/lib/server/bench-parts";
 import { createFinding } from "@/lib/server/findings";
 import {
   askPartDeposit,
   backOrder,
   chargeCore,
-  coreInvoiceLines,
   coreReturned,
   markSpecialOrder,
   movePart,
@@ -18,6 +17,7 @@ import {
   ownerPartWaitLines,
   receiveOrder,
 } from "@/lib/server/part-orders";
+import { coreLinesOf } from "@/lib/server/core-lines";
 import { ownerWithJobs, staffActor } from "../support/authorised-work";
 import { testKnex } from "../support/db";
 import { makeShop } from "../support/fixtures";
@@ -170,12 +170,17 @@ describe("ordering parts", () => {
     const starter = await part(a.publicId, "Starter motor");
     const acc = await on(writer, a.publicId, "parts:manage");
     await chargeCore(writer, acc, { part: starter, charge: "25.00" });
-    expect(await coreInvoiceLines({ shopId: shop.id, jobId: a.id })).toEqual([{ partId: starter, description: "Core charge: Starter motor", amountMinor: 2500 }]);
+    const cores = async () => (await coreLinesOf({ shopId: shop.id, jobId: a.id }, true)).map((l) => [l.source, l.partId, l.description, l.amountMinor, l.taxable]);
+    // Billed like the part: not before it is in the machine.
+    expect(await cores()).toEqual([]);
+    await changeJobPartStatus(writer, acc, { part: starter, from: "needed", to: "fitted", expectedOn: null });
+    expect(await cores()).toEqual([["core_charge", starter, "Core charge: Starter motor", 2500, true]]);
     await expect(chargeCore(writer, acc, { part: starter, charge: "-3" })).rejects.toMatchObject({ code: "invalid" });
     await coreReturned(writer, acc, { part: starter });
-    expect(await coreInvoiceLines({ shopId: shop.id, jobId: a.id })).toEqual([
-      { partId: starter, description: "Core charge: Starter motor", amountMinor: 2500 },
-      { partId: starter, description: "Core returned: Starter motor", amountMinor: -2500 },
+    // The credit is the same positive amount on a line of its own; lib/invoices.ts prices it negative.
+    expect(await cores()).toEqual([
+      ["core_charge", starter, "Core charge: Starter motor", 2500, true],
+      ["core_credit", starter, "Core returned: Starter motor", 2500, true],
     ]);
     await expect(coreReturned(writer, acc, { part: starter })).rejects.toMatchObject({ code: "conflict" });
     await expect(chargeCore(writer, acc, { part: starter, charge: "30.00" })).rejects.toMatchObject({ code: "conflict" });

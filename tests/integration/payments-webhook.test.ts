@@ -1,7 +1,6 @@
 // Online payment end to end below the browser: the app's checkout through the stripe SDK, the
 // payments fake's page and its signed webhooks, delivered to the app's handler (receivePaymentWebhook).
 import { mkdtemp, rm } from "node:fs/promises";
-import http from "node:http";
 import os from "node:os";
 import path from "node:path";
 import Stripe from "stripe";
@@ -22,26 +21,13 @@ import { authorise, ownerWithJobs, staffActor } from "../support/authorised-work
 import { testKnex } from "../support/db";
 import { makeShop } from "../support/fixtures";
 import { sendStreamed, startNextLikeServer } from "../support/next-like-server";
+import { startWebhookReceiver } from "../support/webhook-receiver";
 
 const KEY = "sk_test_benchside_webhook_test";
 const SECRET = "whsec_benchside_webhook_test";
 
 /** The app's webhook route, in-process: the raw body and signature go to the real handler. */
-async function startAppWebhook() {
-  const answers: number[] = [];
-  const server = http.createServer((req, res) => {
-    const chunks: Buffer[] = [];
-    req.on("data", (c: Buffer) => chunks.push(c));
-    req.on("end", () => {
-      receivePaymentWebhook(Buffer.concat(chunks).toString("utf8"), (req.headers["stripe-signature"] as string | undefined) ?? null).then(
-        (result) => (answers.push(200), res.writeHead(200, { "content-type": "application/json" }).end(JSON.stringify(result))),
-        (error: { status?: number }) => (answers.push(error.status ?? 500), res.writeHead(error.status ?? 500).end()),
-      );
-    });
-  });
-  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", resolve));
-  return { url: `http://127.0.0.1:${(server.address() as { port: number }).port}/api/webhooks/payments`, answers, close: () => new Promise<void>((r) => server.close(() => r())) };
-}
+const startAppWebhook = () => startWebhookReceiver("/api/webhooks/payments", (raw, headers) => receivePaymentWebhook(raw, headers.get("stripe-signature")));
 
 describe("online payments through the payments fake", () => {
   let k: Knex;
@@ -145,18 +131,21 @@ describe("online payments through the payments fake", () => {
     const sessionId = url.split("/").pop()!;
     // The page resolves the job's money first ("jobMoney", invoice:view), then confirms.
     const returning = await access(owner, "jobMoney", jobs[0]!.publicId, "invoice:view");
-    expect(await confirmReturn(returning.job, sessionId)).toBe("open");
+    // The return address names the invoice, never the service's session id (issue 20 §4).
+    expect(await confirmReturn(returning.job, invoice)).toBe("open");
     expect(await row()).toMatchObject({ status: "issued", balance_minor: 4601 });
 
     const paid = await submitPaymentPage(url, { card: "4242 4242 4242 4242" });
-    expect(paid.location).toBe(`http://localhost:3999/my/jobs/${jobs[0]!.publicId}/invoice?paid=${sessionId}`);
+    expect(paid.location).toBe(`http://localhost:3999/my/jobs/${jobs[0]!.publicId}/invoice?paid=${invoice}`);
+    expect(paid.location).not.toContain("cs_");
     const delivery = await waitForWebhook(fake.url, { type: "checkout.session.completed", objectId: sessionId });
     expect(await row()).toMatchObject({ status: "paid", paid_minor: 4601, balance_minor: 0 });
     await redeliverWebhook(fake.url, delivery.event.id);
     await expect.poll(async () => (await listWebhookDeliveries(fake.url, { objectId: sessionId })).find((d) => d.event.id === delivery.event.id)?.attempts.length).toBe(2);
-    expect(await confirmReturn(returning.job, sessionId)).toBe("paid");
-    // A session of this job confirmed against another job of the same owner is unknown there.
-    expect(await confirmReturn((await access(owner, "jobMoney", jobs[1]!.publicId, "invoice:view")).job, sessionId)).toBe("unknown");
+    expect(await confirmReturn(returning.job, invoice)).toBe("paid");
+    // This job's invoice confirmed against another job of the same owner is unknown there, and so is the raw session id.
+    expect(await confirmReturn((await access(owner, "jobMoney", jobs[1]!.publicId, "invoice:view")).job, invoice)).toBe("unknown");
+    expect(await confirmReturn(returning.job, sessionId)).toBe("unknown");
     const rows = await payments(jobs[0]!.id);
     expect(rows).toHaveLength(1);
     expect(rows[0]).toMatchObject({ kind: "payment", method: "online", amount_minor: 4601, provider_session_id: sessionId });
@@ -230,7 +219,7 @@ describe("online payments through the payments fake", () => {
     const sessionId = url.split("/").pop()!;
     await submitPaymentPage(url, { card: "4242424242424242" });
     // Back on the invoice page before any webhook: the app asks the service and records it.
-    expect(await confirmReturn((await access(owner, "jobMoney", job.publicId, "invoice:view")).job, sessionId)).toBe("paid");
+    expect(await confirmReturn((await access(owner, "jobMoney", job.publicId, "invoice:view")).job, deposit.publicId)).toBe("paid");
     expect((await k("deposit_requests").where({ public_id: deposit.publicId }).first())!.status).toBe("paid");
     await dropWebhooks(fake.url, false);
     const dropped = await waitForWebhook(fake.url, { type: "checkout.session.completed", objectId: sessionId }, "dropped");

@@ -78,9 +78,11 @@ describe("the job follows what happens", () => {
     expect(await lastChange(job.id)).toMatchObject({ from_status: "inspecting", to_status: "waiting_approval", cause: "request_sent", changed_by_user_id: writer.userId });
     const tyre = await send(job.publicId, "Rear tyre worn", [{ kind: "part", description: "Rear tyre", qty: "1", unitPrice: "95.00" }]);
 
-    // A part for the chain, added before the owner said yes: it doesn't wait the job, and the
-    // owner hears nothing about parts (no status entry, no alert).
-    const early = await part(job.publicId, "Cam chain", { findingId: chain.findingId, noOkNeeded: false });
+    // The chain's priced line made its job part (issue 19); ordered before the owner said yes, it
+    // doesn't wait the job, and the owner hears nothing about parts (no status entry, no alert).
+    const linePart = await k("job_parts").where({ job_id: job.id, finding_id: chain.findingId, description: "Cam chain" }).whereNotNull("finding_line_id").first("id", "status");
+    expect(linePart!.status).toBe("needed");
+    const early = { id: Number(linePart!.id), ...(await changeJobPartStatus(tech, await on(tech, job.publicId, "parts:manage"), { part: Number(linePart!.id), from: "needed", to: "ordered", expectedOn: null })) };
     expect(early.jobMovedTo).toBeNull();
     expect(await status(job.id)).toBe("waiting_approval");
     expect(await k("job_alerts").where({ job_id: job.id, kind: "parts_in" })).toHaveLength(0);

@@ -4,6 +4,8 @@ import type { Actor } from "../../lib/permissions";
 import type { FindingInput } from "../../lib/schemas/approvals";
 import { access } from "../../lib/server/access";
 import { answerRequest, sendRequest } from "../../lib/server/approvals";
+import { changeJobPartStatus } from "../../lib/server/bench-parts";
+import { listParts } from "../../db/queries/bench-parts";
 import { createFinding } from "../../lib/server/findings";
 import type { makeShop } from "./fixtures";
 import { makeCustomerWithJobs } from "./fixtures";
@@ -32,8 +34,12 @@ export async function ownerWithJobs(k: Knex, shop: Shop, count: number, name = "
 
 export type PricedLine = { kind: "part"; description: string; qty: string; unitPrice: string } | { kind: "labour"; description: string; hours: string; rate: string } | { kind: "fee"; description: string; amount: string };
 
-/** The desk prices and sends a finding; the owner approves the lines whose index is in `approve` (all by default). */
-export async function authorise(p: { writer: Actor; owner: Actor; jobPublicId: string; title: string; lines: PricedLine[]; approve?: number[]; wantsPartsBack?: boolean }) {
+/**
+ * The desk prices and sends a finding; the owner approves the lines whose index is in `approve` (all by default).
+ * Every part line has its job part (issue 19), billed once fitted: unless `fitParts` is false, the
+ * bench then fits the approved ones, so the invoice takes them as these tests expect.
+ */
+export async function authorise(p: { writer: Actor; owner: Actor; jobPublicId: string; title: string; lines: PricedLine[]; approve?: number[]; wantsPartsBack?: boolean; fitParts?: boolean }) {
   const input: FindingInput = {
     title: p.title,
     found: `${p.title}: found on inspection.`,
@@ -51,5 +57,12 @@ export async function authorise(p: { writer: Actor; owner: Actor; jobPublicId: s
     { shownHash: sent.hash, lines: p.lines.map((_, i) => ({ no: i + 1, answer: approve.has(i) ? "approved" : "declined" })), signature: p.owner.name, wantsPartsBack: p.wantsPartsBack ?? false, confirmed: true },
     { ip: "203.0.113.9", userAgent: "vitest" },
   );
+  if (p.fitParts ?? true) {
+    const managing = await access(p.writer, "job", p.jobPublicId, "parts:manage");
+    const parts = await listParts({ shopId: managing.job.shopId, jobId: managing.job.id });
+    for (const part of parts.filter((r) => r.findingId === made.id && r.ownerAnswer === "approved" && r.status === "needed")) {
+      await changeJobPartStatus(p.writer, managing, { part: part.id, from: "needed", to: "fitted", expectedOn: null });
+    }
+  }
   return { requestPublicId: sent.publicId, decision };
 }

@@ -48,6 +48,16 @@ export default async function MyJobsPage() {
           ))}
         </ul>
       )}
+      {jobs.length ? (
+        // Each shop's way of reaching them (issue 21): e-mail, text or both, set on a job of that shop.
+        <nav aria-label="E-mail or texts" className="space-y-1">
+          {[...new Map(jobs.map((j) => [j.shopName, j.publicId])).entries()].map(([shopName, publicId]) => (
+            <Link key={publicId} href={`/my/jobs/${publicId}/texts`} className="flex min-h-tap items-center text-oil underline underline-offset-2">
+              E-mail or texts from {shopName}
+            </Link>
+          ))}
+        </nav>
+      ) : null}
       <FollowedJobs jobs={followed} />
     </div>
   );

@@ -111,6 +111,8 @@ export const TARGETS: PageTarget[] = [
   { name: "shop profile editor", path: () => "/shop/copper-gulch/portfolio/profile", expect: { ...STAFF_OF_THE_SHOP, writer: "403", technician: "403" } },
   // Those who may see the job but not answer for it are refused; to anyone else it doesn't exist.
   { name: "owner's portfolio consent page", path: () => `${customerJobPath}/portfolio`, expect: { ...READS_THE_JOB, owner: "403", writer: "403", technician: "403", follower: "403" } },
+  // The owner's e-mail-or-texts page (issue 21): the machine's owner only, as the consent page.
+  { name: "owner's texts page", path: () => `${customerJobPath}/texts`, expect: { ...READS_THE_JOB, owner: "403", writer: "403", technician: "403", follower: "403" } },
   // Staff accounts (issue 16 §3): the staff page is the shop owner's; "Your account" is every staff member's own;
   // the invitation and password pages are public (without a token they say the link isn't valid).
   { name: "shop staff page", path: () => "/shop/copper-gulch/staff", expect: { ...STAFF_OF_THE_SHOP, writer: "403", technician: "403" } },
@@ -122,6 +124,8 @@ export const TARGETS: PageTarget[] = [
   { name: "start your shop page", path: () => "/start", expect: EVERYONE_IN },
   { name: "start: check your e-mail page", path: () => "/start/check-email", expect: EVERYONE_IN },
   { name: "start: confirm page", path: () => "/start/confirm", expect: EVERYONE_IN },
+  // A text's short sign-in link (issue 21): public; a token that isn't one says so and offers sign-in.
+  { name: "text link page", path: () => `/t/${"A".repeat(43)}`, expect: EVERYONE_IN },
   { name: "shop's public page", path: () => "/s/copper-gulch", expect: EVERYONE_IN },
   { name: "sitemap", path: () => "/sitemap.xml", expect: EVERYONE_IN },
   { name: "robots.txt", path: () => "/robots.txt", expect: EVERYONE_IN },

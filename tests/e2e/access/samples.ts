@@ -51,11 +51,19 @@ export const HANDLER_SAMPLES: Record<string, HandlerSample> = {
   "POST /api/jobs/[job]/findings/[finding]/send": { body: () => json({ findingVersion: Number(STALE) }) },
   "POST /api/jobs/[job]/findings": { body: () => json({ title: "Access test finding", found: "Made by the access test.", safety: "none" }) },
   "POST /api/jobs/[job]/entries": { body: ({ persona }) => json({ kind: "note", note: note(`Access test, ${persona}`), visibility: "shop" }) },
+  "POST /api/jobs/[job]/torque-records": { body: ({ f }) => json({ job: f.job, fastener: "Access test bolt", specValue: "10", unit: "nm" }) },
+  "POST /api/jobs/[job]/readings": { body: ({ f }) => json({ job: f.job, label: "Access test reading", value: "1" }) },
+  // picked_up → picked_up is no move: an allowed caller is turned down by the rules, nothing written.
+  "POST /api/jobs/[job]/status": { body: () => json({ from: "picked_up", to: "picked_up", note: "" }) },
   "POST /api/jobs/[job]/photos": { body: () => ({ kind: "multipart", fields: { photo: { name: "access.jpg", mimeType: "image/jpeg", buffer: PHOTO_FILE } } }) },
   "GET /api/shops/[shop]/customers": { query: { q: "Calloway" } },
   // Unsigned: the handler's signature check answers, after the wrapper let it through.
   "POST /api/webhooks/payments": { body: () => ({ kind: "raw", text: "{}", contentType: "application/json" }) },
   "POST /api/webhooks/video": { body: () => ({ kind: "raw", text: "{}", contentType: "application/json" }) },
+  "POST /api/webhooks/mail": { body: () => ({ kind: "raw", text: "{}", contentType: "application/json" }) },
+  // Texts (issue 21): form-encoded as the SMS service sends them, unsigned, so the signature check answers 401.
+  "POST /api/webhooks/sms/status": { body: () => ({ kind: "raw", text: "MessageSid=SM00000000000000000000000000000000&MessageStatus=delivered", contentType: "application/x-www-form-urlencoded" }) },
+  "POST /api/webhooks/sms/inbound": { body: () => ({ kind: "raw", text: "MessageSid=SM00000000000000000000000000000000&From=%2B15550100001&To=%2B15550100999&Body=STOP", contentType: "application/x-www-form-urlencoded" }) },
   // RFC 8058 one-click, with a token that isn't one.
   "POST /u/[token]": { body: () => ({ kind: "raw", text: "List-Unsubscribe=One-Click", contentType: "application/x-www-form-urlencoded" }) },
 };
@@ -86,6 +94,13 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${FOLLOWING}#inviteFollowerAction`]: ({ f, persona }) => ({ job: f.job, email: `friend.${f.run}.${persona.toLowerCase()}@access.test` }),
   [`${FOLLOWING}#removeFollowerAction`]: ({ f }) => ({ job: f.job, subscriber: NO_ROW }),
   [`${FOLLOWING}#setFrequencyAction`]: ({ f }) => ({ job: f.job, frequency: "daily" }),
+  // Texts (issue 21): the owner keeps e-mail (no consent recorded), then stops texts (nothing to stop).
+  ["app/(owner)/my/jobs/[job]/texts/actions.ts#chooseTextsAction"]: ({ f }) => ({ job: f.job, channels: "email" }),
+  ["app/(owner)/my/jobs/[job]/texts/actions.ts#stopTextsAction"]: ({ f }) => ({ job: f.job }),
+  // Questions on a job (issue 21): the owner asks on the fixture's own job; the desk answers a
+  // question that doesn't exist, so allowed callers get the handler's 404 and nothing is written.
+  ["app/(owner)/my/jobs/[job]/question-actions.ts#askQuestionAction"]: ({ f, persona }) => ({ job: f.job, body: `Access test question from ${persona}` }),
+  ["app/(staff)/shop/[shop]/jobs/[number]/question-actions.ts#answerQuestionAction"]: ({ f }) => ({ job: f.job, question: NO_ROW, body: "Access test answer" }),
   [`${OWNER_INVOICE}#payInvoiceAction`]: ({ f }) => ({ invoice: f.invoice }),
   [`${OWNER_INVOICE}#payDepositAction`]: ({ f }) => ({ deposit: f.deposit }),
   ["app/(owner)/my/jobs/[job]/portfolio/actions.ts#consentAction"]: ({ f }) => ({ job: f.job, decision: "refused", name: "Access Test" }),
@@ -123,6 +138,7 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${PART_ORDERS}#specialOrderAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, special: "1" }),
   [`${PART_ORDERS}#partDepositAction`]: ({ f }) => ({ job: f.job, part: NO_ROW, amount: "120.00" }),
   [`${PARTS_PAGE}#receiveOrderAction`]: ({ f }) => ({ shop: f.shop, order: NO_ROW }),
+  [`${PARTS_PAGE}#orderShopPartsAction`]: ({ f }) => ({ shop: f.shop, supplier: "Access Supply", orderedOn: "2026-12-01", parts: NO_ROW }),
   // The job has its live invoice already; the rest name a stale version.
   [`${INVOICE}#createInvoiceAction`]: ({ f }) => ({ job: f.job }),
   [`${INVOICE}#syncAuthorisedAction`]: ({ f }) => invoiceRef(f),
@@ -168,6 +184,8 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${SETTINGS}#saveToleranceAction`]: ({ f }) => ({ shop: f.shop, toleranceKind: "custom", tolerancePercent: "ten" }),
   [`${SETTINGS}#saveDropoffTermsAction`]: ({ f }) => ({ shop: f.shop, dropoffCharge: "lots", dropoffUpTo: "300.00" }),
   [`${SETTINGS}#saveDigestAction`]: ({ f }) => ({ shop: f.shop, digestWindowMinutes: "15" }),
+  // A time that isn't one: allowed callers get the 422, so the demo shop's quiet hours stay as seeded.
+  [`${SETTINGS}#saveTextsAction`]: ({ f }) => ({ shop: f.shop, smsFrom: "", quietStart: "late", quietEnd: "08:00" }),
   [`${SETTINGS}#saveMarkupAction`]: ({ f }) => ({ shop: f.shop, markupKind: "bands", band1UpTo: "ten", band1Percent: "100", topPercent: "35" }),
   [`${SPECS}#saveBenchSettingsAction`]: ({ f }) => ({ shop: f.shop, torqueUnit: "nm", passes: "30, 60, 100", chainLimitPct: "3", clipMaxMinutes: "10", clipMaxGb: "2", ownerWaitDays: "3" }),
   ["app/unsubscribe/[token]/actions.ts#unsubscribeAction"]: () => ({ token: "access-test" }),

@@ -3,6 +3,7 @@ import { AppHeader } from "@/components/app-header";
 import { InboxBadge } from "@/components/inbox-badge";
 import { ShopNav } from "@/components/shop-nav";
 import { LiveShopUpdates } from "@/components/live-updates";
+import { StaffServiceWorker } from "@/components/service-worker";
 import { latestEventId } from "@/db/queries/shop-events";
 import { can } from "@/lib/permissions";
 import { unreadCountFor } from "@/lib/server/inbox-view";
@@ -31,6 +32,8 @@ export default async function ShopLayout({ children, params }: { children: React
   ];
   return (
     <LiveShopUpdates shopSlug={shop.slug} since={since}>
+      {/* The installable staff app's offline worker: staff pages only (issue 20 §1). */}
+      <StaffServiceWorker userId={actor.userId} />
       <AppHeader actor={actor} context={shop.name} />
       <ShopNav links={links} />
       <main id="main" tabIndex={-1} className="mx-auto max-w-6xl px-4 py-6">

@@ -15,6 +15,8 @@ import { latestEventId } from "@/db/queries/shop-events";
 import { OwedDecisions } from "./_components/owed-decisions";
 import { DropoffNotice } from "./_components/dropoff-notice";
 import { FollowingCard } from "./_components/following-card";
+import { QuestionsCard } from "./_components/questions-card";
+import { ShopContactCard } from "./_components/shop-contact-card";
 import { getReassemblyProgress } from "@/db/queries/bench";
 import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
 import { OwnerInvoiceCard } from "@/components/invoices/owner-invoice-card";
@@ -101,6 +103,12 @@ export default async function MyJobPage({ params }: { params: Promise<{ job: str
         </h2>
         <OwnerTimeline jobPublicId={job.publicId} timeZone={timeZone} initial={{ ...timeline, audience }} />
       </section>
+      <Suspense fallback={null}>
+        <QuestionsCard actor={actor} job={job} resource={resource} shopName={job.shopName} timeZone={timeZone} />
+      </Suspense>
+      <Suspense fallback={null}>
+        <ShopContactCard shopId={job.shopId} />
+      </Suspense>
       <Suspense fallback={null}>
         <FollowingCard actor={actor} job={job} resource={resource} />
       </Suspense>

@@ -4,10 +4,11 @@ import { Package } from "lucide-react";
 import { Badge, EmptyState, LinkPagination, PageHeader, TBody, TD, TH, THead, TR, Table } from "@/components/ui";
 import { PART_STATUS_LABEL } from "@/lib/bench";
 import { formatJobNumber } from "@/lib/schemas/jobs";
-import { partsOnOrderPage } from "@/lib/server/part-orders";
+import { neededPartsToOrder, partsOnOrderPage } from "@/lib/server/part-orders";
 import { ActionButton } from "@/components/bench/action-form";
 import { shopPageAccess } from "../shop-access";
 import { receiveOrderAction } from "./actions";
+import { ShopOrderForm } from "./_components/shop-order-form";
 
 export const metadata: Metadata = { title: "Parts on order" };
 
@@ -20,15 +21,16 @@ export default async function PartsOnOrderPage({ params, searchParams }: { param
   const raw = (await searchParams).page;
   const asked = Number(Array.isArray(raw) ? raw[0] : raw);
   const page = Number.isInteger(asked) && asked >= 1 && asked <= 100_000 ? asked : 1;
-  const list = await partsOnOrderPage(shop, page);
+  const [list, needed] = await Promise.all([partsOnOrderPage(shop, page), neededPartsToOrder(shop)]);
   const base = `/shop/${shop.slug}`;
   const pageHref = (n: number) => `${base}/parts?page=${n}`;
 
   return (
     <div className="space-y-4">
       <PageHeader title="Parts on order" description={`Parts ordered or back-ordered for the shop's jobs. Late means the expected date has passed (today is ${list.today}).`} />
+      <ShopOrderForm shop={shop.slug} needed={needed.rows} more={needed.more} today={needed.today} />
       {list.rows.length === 0 ? (
-        <EmptyState icon={Package} title={page > 1 ? "No more parts on order" : "Nothing on order"} description="Parts appear here once they are put on an order from a job's bench page." />
+        <EmptyState icon={Package} title={page > 1 ? "No more parts on order" : "Nothing on order"} description="Parts appear here once they are put on an order, from a job's bench page or the form above." />
       ) : (
         <Table label="Parts on order">
           <THead>

@@ -15,6 +15,8 @@ import {
 import { dropPublicPages } from "@/lib/server/portfolio-cache";
 import { markupSettingsSchema } from "@/lib/schemas/parts-pricing";
 import { saveMarkup } from "@/lib/server/part-pricing";
+import { textSettingsSchema } from "@/lib/schemas/texts";
+import { saveTextSettings } from "@/lib/server/text-settings";
 import { saveDigest, saveDropoffTerms, saveHours, saveLabour, saveProfile, saveRegion, saveSupplies, saveTax, saveTolerance } from "@/lib/server/shop-settings";
 
 // The shop settings page's forms, one per section: zod → lib/server/shop-settings (the shop named
@@ -75,5 +77,11 @@ export const saveDigestAction = formAction({ input: digestSettingsSchema, ...own
 
 export const saveMarkupAction = formAction({ input: markupSettingsSchema, ...owner }, async ({ input, actor, found }) => {
   refresh((await saveMarkup(actor, found, input)).shop.slug);
+  return { saved: true };
+});
+
+// Texts (issue 21): the shop's sender number and quiet hours.
+export const saveTextsAction = formAction({ input: textSettingsSchema, ...owner }, async ({ input, actor, found }) => {
+  refresh((await saveTextSettings(actor, found, input)).shop.slug);
   return { saved: true };
 });

@@ -13,6 +13,10 @@ import { DigestForm, HoursForm, ProfileForm, RegionForm } from "./_components/pr
 import { MarkupForm } from "./_components/markup-form";
 import { getMarkupRule } from "@/db/queries/parts-pricing";
 import { markupFormValues } from "@/lib/server/part-pricing";
+import { shopTextSettingsOf } from "@/db/queries/texts";
+import { smsConfig } from "@/lib/server/config";
+import { DEFAULT_QUIET, clockText } from "@/lib/texts";
+import { TextsForm } from "./_components/texts-form";
 
 export const metadata: Metadata = { title: "Shop settings" };
 
@@ -22,11 +26,12 @@ const when = (iso: string, timeZone: string) => new Intl.DateTimeFormat("en-US",
 export default async function SettingsPage({ params }: { params: Promise<{ shop: string }> }) {
   const { shop: slug } = await params;
   const { shop } = await shopPageAccess(slug, "shop:manage-settings", `/shop/${slug}/settings`);
-  const [{ row, money, named, dropoff, changes }, bench, clipLimits, markup] = await Promise.all([
+  const [{ row, money, named, dropoff, changes }, bench, clipLimits, markup, texts] = await Promise.all([
     settingsPageData(shop.id),
     getBenchSettings({ shopId: shop.id }),
     getClipLimits({ shopId: shop.id }),
     getMarkupRule({ shopId: shop.id }),
+    shopTextSettingsOf({ shopId: shop.id }),
   ]);
   const c = row.currency;
   const t = money.tolerance;
@@ -92,6 +97,12 @@ export default async function SettingsPage({ params }: { params: Promise<{ shop:
         <DropoffTermsForm shopSlug={shop.slug} currency={c} terms={{ charge: dropoff ? minorToInput(dropoff.chargeMinor, c) : "", upTo: dropoff ? minorToInput(dropoff.upToMinor, c) : "" }} />,
       )}
       {section("settings-digest", "Update digest", null, <DigestForm shopSlug={shop.slug} minutes={row.digestWindowMinutes} />)}
+      {section(
+        "settings-texts",
+        "Text messages",
+        `Texts go only to owners who agreed. Quiet hours default to ${clockText(DEFAULT_QUIET.start)}–${clockText(DEFAULT_QUIET.end)}, the hours US rules set for marketing calls (47 CFR § 64.1200(c)(1)); keeping service texts to them is common carrier practice.`,
+        <TextsForm shopSlug={shop.slug} texts={{ smsFrom: texts?.sms_from ?? "", quietStart: clockText(texts?.sms_quiet_start ?? DEFAULT_QUIET.start), quietEnd: clockText(texts?.sms_quiet_end ?? DEFAULT_QUIET.end), defaultFrom: smsConfig()?.defaultFrom ?? null }} />,
+      )}
       {section(
         "bench-settings",
         "Bench, clip and board settings",

@@ -5,6 +5,7 @@ import { jobFacts } from "@/db/queries/workflow";
 import { WAITING_ON_LABEL, waitingOn } from "@/lib/job-workflow";
 import { listTimeline } from "@/db/queries/journal";
 import { StatusBadge } from "@/components/status-badge";
+import { BenchQuickPost } from "@/components/bench-quick-post";
 import { FollowersCard } from "@/components/journal/followers-card";
 import { ButtonLink, Card, PageHeader, Skeleton } from "@/components/ui";
 import { MACHINE_KIND_LABEL, describeMachine } from "@/lib/machine";
@@ -14,6 +15,7 @@ import { staffJobPage } from "@/lib/server/page-access";
 import { TIMELINE_PAGE_SIZE } from "@/lib/timeline-paging";
 import { ApprovalsPanel } from "./_components/approvals-panel";
 import { DropoffCard } from "./_components/dropoff-card";
+import { StaffQuestionsCard } from "./_components/questions-card";
 import { JobJournal } from "./_components/job-journal";
 import { PortfolioJobCard } from "../../portfolio/_components/job-card";
 
@@ -38,13 +40,15 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
   const waits = waitingOn(job.status, facts);
 
   return (
-    <div className="space-y-6">
+    // Room at the bottom on a phone for the quick-post bar, which sits there.
+    <div className="space-y-6 max-sm:pb-24">
       <PageHeader
         title={`${formatJobNumber(job.number)} · ${describeMachine(job.machine)}`}
         description={`${MACHINE_KIND_LABEL[job.machine.kind]} · owner ${job.customerName}`}
         back={{ href: `/shop/${shop.slug}`, label: "All jobs" }}
         actions={<><ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/bench`} variant="secondary">Bench tools</ButtonLink>{can(actor, "invoice:view", resource) ? <ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/invoice`} variant="secondary">Invoice</ButtonLink> : null}{can(actor, "outbox:manage", resource) ? <ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/mail`} variant="secondary">Mail sent</ButtonLink> : null}</>}
       />
+      <BenchQuickPost jobPath={`/shop/${shop.slug}/jobs/${job.number}`} on="job" mayRecord={can(actor, "bench:record", resource)} />
       <div className="grid gap-4 md:grid-cols-2">
         <Card as="section" title="Where it stands" headingId="job-facts">
           <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-2">
@@ -98,6 +102,9 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
       </Suspense>
       <Suspense fallback={<Skeleton className="h-32" />}>
         <ApprovalsPanel actor={actor} job={job} currency={shop.currency} basePath={`/shop/${shop.slug}/jobs/${job.number}`} timeZone={shop.timezone} />
+      </Suspense>
+      <Suspense fallback={<Skeleton className="h-24" />}>
+        <StaffQuestionsCard actor={actor} resource={resource} job={job} shopName={shop.name} timeZone={shop.timezone} />
       </Suspense>
       <JobJournal
         jobPublicId={job.publicId}

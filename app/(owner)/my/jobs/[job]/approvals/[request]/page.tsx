@@ -9,6 +9,10 @@ import { formatJobNumber } from "@/lib/schemas/jobs";
 import { type RequestView, requestView } from "@/lib/server/approval-views";
 import { loadPage } from "@/lib/server/page-access";
 import { AnswerForm } from "./_components/answer-form";
+import { QuestionThread } from "@/components/questions/question-thread";
+import { can } from "@/lib/permissions";
+import { jobThread } from "@/lib/server/questions";
+import { AskForm } from "../../_components/ask-form";
 
 export const metadata: Metadata = { title: "The shop's request" };
 
@@ -20,7 +24,12 @@ export default async function ApprovalRequestPage({ params }: Props) {
   // Someone else's request looks like one that doesn't exist; a request of another job in the address is a 404 too.
   const { actor, ...found } = await loadPage("request", { request: requestPublicId }, "job:view", `/my/jobs/${jobPublicId}/approvals/${requestPublicId}`);
   if (found.request.jobPublicId !== jobPublicId) notFound();
-  const view = await requestView(actor, found, jobPublicId);
+  // Questions are the owner's (followers never see them: they may be about prices).
+  const mayAsk = can(actor, "questions:ask", found.resource);
+  const [view, thread] = await Promise.all([requestView(actor, found, jobPublicId), mayAsk ? jobThread({ shopId: found.job.shopId, jobId: found.job.id }) : []]);
+  // This request's questions and their answers.
+  const about = new Set(thread.filter((m) => m.line?.requestPublicId === requestPublicId).map((m) => m.id));
+  const requestThread = thread.filter((m) => about.has(m.id) || (m.answersQuestionId != null && about.has(m.answersQuestionId)));
   const { snapshot, job } = view;
   const when = new Intl.DateTimeFormat("en-US", { timeZone: job.timeZone, dateStyle: "medium", timeStyle: "short" });
   const jobPath = `/my/jobs/${jobPublicId}`;
@@ -51,6 +60,16 @@ export default async function ApprovalRequestPage({ params }: Props) {
           <RequestLines snapshot={snapshot} showMoney={view.mayViewMoney} />
         </Card>
       )}
+      {mayAsk ? (
+        <Card as="section" title="Ask about a line" headingId="ask-line" description="Not sure about something before you answer? Ask the shop; your answer can wait for theirs.">
+          <div className="space-y-4">
+            {requestThread.length ? (
+              <QuestionThread thread={requestThread} timeZone={job.timeZone} viewer="owner" shopName={job.shopName} requestHref={(r) => `${jobPath}/approvals/${r}`} />
+            ) : null}
+            <AskForm jobPublicId={jobPublicId} request={{ publicId: requestPublicId, lines: snapshot.lines.map((l) => ({ no: l.no, description: l.description })) }} />
+          </div>
+        </Card>
+      ) : null}
     </div>
   );
 }

@@ -3,6 +3,7 @@ import { Camera, NotebookPen, Video } from "lucide-react";
 import { useCallback, useEffect, useState } from "react";
 import { Alert, Button, Card, Field, Input } from "@/components/ui";
 import { EntryCard } from "@/components/journal/entry-card";
+import { OutboxPanel } from "@/components/journal/outbox-panel";
 import { TimelineView } from "@/components/journal/timeline-view";
 import type { TimelineEntry } from "@/lib/journal";
 import type { NoteDoc } from "@/lib/rich-text/note";
@@ -74,6 +75,7 @@ export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, may
 
   return (
     <div className="space-y-6">
+      <OutboxPanel jobPublicId={jobPublicId} onSent={refresh} />
       {mayChangeStatus ? (
         <Card as="section" title="Move the job on" headingId="status-heading">
           <StatusForm jobPublicId={jobPublicId} status={status} onMoved={refresh} />
@@ -109,7 +111,7 @@ export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, may
           ) : tab === "photos" ? (
             <PhotoComposer jobPublicId={jobPublicId} onPosted={refresh} defaultCaption={intakeCaption} />
           ) : (
-            <ClipComposer jobPublicId={jobPublicId} limits={clipLimits} onStarted={refresh} rejected={failed.data?.clips} />
+            <ClipComposer jobPublicId={jobPublicId} limits={clipLimits} onStarted={refresh} />
           )}
         </div>
       </Card>

@@ -3,7 +3,8 @@ import { useId, useState } from "react";
 import { LazyNoteEditor as NoteEditor } from "@/components/rich-text/lazy-note-editor";
 import { Alert, Button } from "@/components/ui";
 import type { NoteDoc } from "@/lib/rich-text/note";
-import { sendJson } from "@/lib/swr/fetcher";
+import { FetchError, sendJson } from "@/lib/swr/fetcher";
+import { browserOffline, enqueue } from "@/lib/client/bench-outbox";
 
 // The editor is the heaviest thing on the page: it is fetched on the first focus or touch of
 // the note box (LazyNoteEditor), not when the page mounts.
@@ -21,15 +22,25 @@ export function NoteComposer({ target, onDone, onCancel }: Props) {
   const [share, setShare] = useState(false);
   const [saving, setSaving] = useState(false);
   const [error, setError] = useState<string | null>(null);
+  const [queued, setQueued] = useState(false);
   const [generation, setGeneration] = useState(0);
   const labelId = useId();
 
   async function save() {
     setSaving(true);
     setError(null);
+    setQueued(false);
     try {
       if (target.kind === "new") {
-        await sendJson(`/api/jobs/${target.jobPublicId}/entries`, "POST", { kind: "note", note: doc ?? { type: "doc" }, visibility: share ? "shared" : "shop" });
+        const post = { kind: "note", note: doc ?? { type: "doc" }, visibility: share ? "shared" : "shop" };
+        // No network (or no answer at all): the note waits in the phone's outbox, share choice included.
+        const keep = () => enqueue({ kind: "note", job: target.jobPublicId, label: "Note", payload: post }).then(() => setQueued(true));
+        if (browserOffline()) await keep();
+        else
+          await sendJson(`/api/jobs/${target.jobPublicId}/entries`, "POST", post).catch((e: unknown) => {
+            if (e instanceof FetchError) throw e;
+            return keep();
+          });
         setDoc(null);
         setShare(false);
         setGeneration((g) => g + 1); // remounts the editor empty
@@ -57,6 +68,7 @@ export function NoteComposer({ target, onDone, onCancel }: Props) {
         </label>
       ) : null}
       {error ? <Alert tone="error">{error}</Alert> : null}
+      {queued ? <Alert tone="info">Kept on this phone: the note is sent by itself when the connection is back (see “Waiting to send”).</Alert> : null}
       <div className="flex flex-wrap gap-2">
         <Button size="lg" className="flex-1" loading={saving} onClick={() => void save()}>
           {target.kind === "new" ? "Post note" : "Save changes"}

@@ -1,6 +1,8 @@
 import type { Metadata } from "next";
 import { BookOpen } from "lucide-react";
 import { ButtonLink, Caution, PageHeader } from "@/components/ui";
+import { BenchQuickPost } from "@/components/bench-quick-post";
+import { OutboxPanel } from "@/components/journal/outbox-panel";
 import { getBenchSettings, listJobPhotos, listReadings, listTeardownSteps, listTorqueRecords } from "@/db/queries/bench";
 import { listParts } from "@/db/queries/bench-parts";
 import { listFindingClearance } from "@/db/queries/workflow";
@@ -68,7 +70,8 @@ export default async function BenchPage({ params }: Props) {
   const jobPath = `/shop/${shop.slug}/jobs/${job.number}`;
 
   return (
-    <div className="space-y-6">
+    // Room at the bottom on a phone for the quick-post bar, which sits there.
+    <div className="space-y-6 max-sm:pb-24">
       <PageHeader
         title={`Bench tools · ${formatJobNumber(job.number)}`}
         description={`${describeMachine(job.machine)} · owner ${job.customerName}`}
@@ -79,6 +82,8 @@ export default async function BenchPage({ params }: Props) {
           </ButtonLink>
         }
       />
+      <BenchQuickPost jobPath={jobPath} on="bench" mayRecord={mayRecord} />
+      <OutboxPanel jobPublicId={job.publicId} />
       <nav aria-label="Bench sections" className="-mt-2 flex flex-wrap gap-2">
         {SECTIONS.map(([href, label]) => (
           <a key={href} href={href} className="inline-flex min-h-tap items-center rounded-full border border-line-strong bg-surface px-4 font-semibold text-ink hover:bg-sunken">
@@ -86,7 +91,7 @@ export default async function BenchPage({ params }: Props) {
           </a>
         ))}
       </nav>
-      <Caution title="Working safely at the bench">
+      <Caution title="Working safely at the bench" rememberAs="bench">
         <ul className="list-disc space-y-1 pl-5">
           {BENCH_CAUTIONS.map((k) => (
             <li key={k}>

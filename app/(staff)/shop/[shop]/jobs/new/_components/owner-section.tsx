@@ -67,6 +67,13 @@ export function OwnerSection({ shopSlug, state, mode, onModeChange, customer, on
           </Field>
         </div>
       )}
+      <div className="space-y-1">
+        <label className="flex min-h-tap cursor-pointer items-start gap-3 rounded-md px-1 py-2 hover:bg-sunken">
+          <input type="checkbox" name="textConsent" value="yes" defaultChecked={values?.textConsent === "yes"} className="mt-0.5 size-6 shrink-0 accent-oil" aria-describedby={fieldError(state, "textConsent") ? "text-consent-error" : undefined} />
+          <span>The owner agrees to texts about their machine at the phone number on file (approval requests, ready to collect, invoices, answers). Ask them; they can reply STOP at any time.</span>
+        </label>
+        <FieldMessage id="text-consent-error" message={fieldError(state, "textConsent")} />
+      </div>
     </FormSection>
   );
 }

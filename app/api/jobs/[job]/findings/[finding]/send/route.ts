@@ -9,6 +9,6 @@ export const POST = route(
   { params: z.object({ job: ids.job, finding: ids.row }), body: sendRequestSchema, resource: "job", permission: "approvals:send" },
   async ({ body, params, actor, found }) => {
     const sent = await sendRequest(actor, found, params.finding, body);
-    return { request: sent.publicId, hash: sent.hash, mailed: sent.mailed };
+    return { request: sent.publicId, hash: sent.hash, mailed: sent.mailed, texted: sent.texted };
   },
 );

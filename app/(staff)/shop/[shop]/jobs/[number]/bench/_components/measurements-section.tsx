@@ -26,7 +26,7 @@ export function MeasurementsSection({ jobPublicId, currency, sets, timeZone, may
       <div className="space-y-4">
         {mayRecord ? (
           <>
-            <Caution title="Measuring safely">
+            <Caution title="Measuring safely" rememberAs="measuring">
               Measure clearances on a cold engine. For compression and leak-down, disable the ignition and fuel, keep hands clear of the crank and of the open plug hole, and hold the crank
               against the air pressure.
             </Caution>

@@ -56,7 +56,7 @@ export function PartsSection({ jobPublicId, parts, currency, timeZone, mayManage
                   )}
                 </p>
                 <p className="text-sm text-ink-muted">
-                  {[p.partNumber, `qty ${formatQuantity(p.qtyThousandths)}`, p.supplier, p.costMinor != null ? `${formatMoney(p.costMinor, currency)} each` : null, p.sellMinor != null ? `sells at ${formatMoney(p.sellMinor, currency)}` : null].filter(Boolean).join(" · ")}
+                  {[p.partNumber, `qty ${formatQuantity(p.qtyThousandths)}`, p.supplier, p.costMinor != null ? `${formatMoney(p.costMinor, currency)} each` : null, p.sellMinor != null ? `sells at ${formatMoney(p.sellMinor, currency)}${p.costMinor == null ? " as typed (no cost, no markup)" : ""}` : null].filter(Boolean).join(" · ")}
                 </p>
                 <p className="text-sm text-ink">{forWhat(p, findings)}</p>
                 {p.expectedOn && isOutstanding(p.status) ? <p>Expected {p.expectedOn}</p> : null}

@@ -3,6 +3,8 @@ import { useState } from "react";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { recordReadingAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { QueuedNotice } from "@/components/journal/outbox-panel";
+import { offlineCapable } from "@/lib/client/queue-post";
 import { FORM_VISIBLE } from "@/lib/form-visible";
 import { type NumberStyle, formatNumberInput, numberStyleFor } from "@/lib/number-input";
 
@@ -19,7 +21,7 @@ export function ReadingForm({ jobPublicId, currency, specs }: { jobPublicId: str
   const style = numberStyleFor(currency);
   const [f, setF] = useState(EMPTY);
   const set = (key: keyof typeof EMPTY) => (e: { target: { value: string } }) => setF((prev) => ({ ...prev, [key]: e.target.value }));
-  const form = useBenchForm(recordReadingAction, { onSuccess: () => setF(EMPTY), visible: FORM_VISIBLE.reading });
+  const form = useBenchForm(offlineCapable(recordReadingAction, { kind: "reading", job: jobPublicId, label: (f) => `Reading: ${String(f.get("label") ?? "")}` }), { onSuccess: () => setF(EMPTY), visible: FORM_VISIBLE.reading });
   const { values, fieldError } = form;
 
   function pick(id: string) {
@@ -28,9 +30,10 @@ export function ReadingForm({ jobPublicId, currency, specs }: { jobPublicId: str
   }
 
   return (
-    <form action={form.formAction} className="space-y-4">
+    <form id="post-reading" action={form.formAction} className="space-y-4">
       <input type="hidden" name="job" value={jobPublicId} />
       <FormError message={form.formError} />
+      <QueuedNotice state={form.state} />
       {specs.length ? (
         <Field id="reading-from-spec" label="From the shop's specs" hint="Fills in the limits; check them against the manual.">
           <Select defaultValue="" onChange={(e) => pick(e.target.value)}>

@@ -13,6 +13,8 @@ import { WRENCH_CLASSES, type WrenchClass, isWrenchClass, outcomeText } from "@/
 import { parseAngleStages, torqueAngleWarning } from "@/lib/torque-special";
 import { recordTorqueAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { QueuedNotice } from "@/components/journal/outbox-panel";
+import { offlineCapable } from "@/lib/client/queue-post";
 import { FORM_VISIBLE } from "@/lib/form-visible";
 import { WrenchClassOptions } from "@/components/bench/wrench-class-options";
 import { FastenerFields, WrenchFields } from "./torque-special-fields";
@@ -54,7 +56,8 @@ export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, spec
   // Bumped after each record: the angle, lubrication and one-time fields start afresh.
   const [logged, setLogged] = useState(0);
   const [angle, setAngle] = useState("");
-  const form = useBenchForm(recordTorqueAction, {
+  // With no network the record waits in the phone's outbox and goes to the torque-records route.
+  const form = useBenchForm(offlineCapable(recordTorqueAction, { kind: "torque", job: jobPublicId, label: (f) => `Torque: ${String(f.get("fastener") ?? "")}` }), {
     onSuccess: () => {
       setLogged((n) => n + 1);
       setAngle("");
@@ -103,9 +106,10 @@ export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, spec
   const schedule = asPasses(passes);
 
   return (
-    <form action={form.formAction} className="space-y-4">
+    <form id="post-torque" action={form.formAction} className="space-y-4">
       <input type="hidden" name="job" value={jobPublicId} />
       <FormError message={form.formError} />
+      <QueuedNotice state={form.state} />
       {specs.length ? (
         <Field id="torque-from-spec" label="From the shop's specs" hint="Fills in the fields below; check them against the manual.">
           <Select defaultValue="" onChange={(e) => pick(e.target.value)}>

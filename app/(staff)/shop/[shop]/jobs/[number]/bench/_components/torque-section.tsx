@@ -37,7 +37,7 @@ export function TorqueSection({ jobPublicId, currency, shopUnit, shopWrench, pas
   return (
     <Card as="section" title="Torque log" headingId="torque" className="scroll-mt-4">
       <div className="space-y-4">
-        <Caution title={CAUTIONS.torque.title}>
+        <Caution title={CAUTIONS.torque.title} rememberAs="torque">
           <p>{CAUTIONS.torque.text}</p>
           <p className="mt-1 font-semibold">The maker&apos;s tightening sequence and values override any pattern or pass schedule shown here.</p>
         </Caution>

@@ -18,8 +18,10 @@ export type LineState = {
   /** A part line's unit cost (staff only) and why its price differs from the markup rule (issue 19). */
   cost: string;
   priceReason: string;
-  /** A job part a new part line stands for, picked in the editor (sent once; the line keeps it). */
+  /** A job part the line stands for, picked in the editor (sent once; the line keeps it). */
   partId?: number;
+  /** A saved part line stands for a new job part instead of its own (before the owner answers). */
+  newPart?: boolean;
 };
 export type EvidenceState = { kind: EvidenceKind; ref: string; momentMs: number | null };
 export type FindingState = { title: string; found: string; whyItMatters: string; safety: SafetyCategory; evidence: EvidenceState[]; lines: LineState[] };
@@ -99,7 +101,7 @@ export function payload(state: FindingState, mayPrice: boolean, version?: number
       partNumber: l.kind === "part" ? l.partNumber : null,
       ...(l.kind === "part" ? { qty: l.qty } : {}),
       ...(l.kind === "labour" ? { hours: l.hours } : {}),
-      ...(mayPrice ? { taxable: l.taxable, ...(l.kind === "part" ? { unitPrice: l.unitPrice, cost: l.cost, priceReason: l.priceReason, ...(l.partId ? { partId: l.partId } : {}) } : l.kind === "labour" ? { rate: l.rate } : { amount: l.amount }) } : {}),
+      ...(mayPrice ? { taxable: l.taxable, ...(l.kind === "part" ? { unitPrice: l.unitPrice, cost: l.cost, priceReason: l.priceReason, ...(l.partId ? { partId: l.partId } : {}), ...(l.id && l.newPart ? { newPart: true } : {}) } : l.kind === "labour" ? { rate: l.rate } : { amount: l.amount }) } : {}),
     })),
   };
 }

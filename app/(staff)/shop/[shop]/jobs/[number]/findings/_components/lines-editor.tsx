@@ -48,16 +48,24 @@ export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors
                   Remove
                 </Button>
               </div>
-              {mayPrice && line.kind === "part" && !line.id && pickable.length ? (
-                <Field id={id("pick")} label="Part on the job" hint="Pick one the bench already added, so it isn't typed twice" error={err(i, "partId")}>
+              {mayPrice && line.kind === "part" && (line.id || pickable.length) ? (
+                <Field
+                  id={id("pick")}
+                  label="Part on the job"
+                  hint={line.id ? "Until the owner answers, this line can stand for another part the bench added, or a new one" : "Pick one the bench already added, so it isn't typed twice"}
+                  error={err(i, "partId")}
+                >
                   <Select
-                    value={line.partId ?? ""}
+                    value={line.newPart ? "new" : (line.partId ?? "")}
                     onChange={(e) => {
                       const part = pickable.find((p) => p.id === Number(e.target.value));
-                      set(line.key, part ? { partId: part.id, description: part.description, partNumber: part.partNumber ?? "" } : { partId: undefined });
+                      // A picked part brings its own stored cost: the cost field is cleared so it isn't overwritten.
+                      if (part) set(line.key, { partId: part.id, newPart: false, description: part.description, partNumber: part.partNumber ?? "", cost: "" });
+                      else set(line.key, { partId: undefined, newPart: e.target.value === "new" });
                     }}
                   >
-                    <option value="">A new part</option>
+                    {line.id ? <option value="">Keep this line&apos;s part</option> : <option value="">A new part</option>}
+                    {line.id ? <option value="new">A new part</option> : null}
                     {pickable
                       .filter((p) => p.id === line.partId || !lines.some((l) => l.partId === p.id))
                       .map((p) => (
@@ -110,7 +118,9 @@ export function LinesEditor({ lines, onChange, onAdd, mayPrice, currency, errors
                     label={line.kind === "part" ? `Unit price (${currency})` : line.kind === "labour" ? `Rate per hour (${currency})` : `Amount (${currency})`}
                     hint={(() => {
                       const ruled = ruledPrice(line, markup, currency);
-                      return ruled === null ? undefined : `Markup rule: ${formatMoney(ruled, currency)}. Leave empty to use it.`;
+                      if (ruled !== null) return `Markup rule: ${formatMoney(ruled, currency)}. Leave empty to use it.`;
+                      // Issue 19: an uncosted part line still makes its job part, at the price typed.
+                      return line.kind === "part" && !line.cost.trim() ? "No cost typed: this is the sell price, no markup applied." : undefined;
                     })()}
                     error={err(i, line.kind === "part" ? "unitPrice" : line.kind === "labour" ? "rate" : "amount")}
                   >

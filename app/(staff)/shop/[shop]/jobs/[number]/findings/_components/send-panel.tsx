@@ -32,7 +32,9 @@ export function SendPanel({ jobPublicId, findingId, findingVersion, estimate, mi
     setSending(false);
     setConfirming(false);
     if (!result.ok) return setMessage({ tone: "error", text: result.message });
-    setMessage({ tone: "success", text: result.data.mailed ? `Sent. ${to} will get an e-mail with a button to answer.` : "Sent. There is no e-mail address on file: call the owner and note their answer below." });
+    const { mailed, texted } = result.data;
+    const how = mailed && texted ? `${to} will get an e-mail and a text with a link to answer.` : mailed ? `${to} will get an e-mail with a button to answer.` : texted ? "The owner will get a text with a link to answer." : null;
+    setMessage({ tone: "success", text: how ? `Sent. ${how}` : "Sent. There is no e-mail address on file: call the owner and note their answer below." });
     router.refresh();
   }
 

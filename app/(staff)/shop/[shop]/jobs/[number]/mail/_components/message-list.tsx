@@ -23,6 +23,13 @@ function State({ m, now }: { m: SentMessage; now: Date }) {
 
 /** When it went, or why not and what happens next: the words that answer "did they get it?". */
 function Outcome({ m, fmt }: { m: SentMessage; fmt: Fmt }) {
+  if (m.state === "sent" && m.sentAt && m.channel === "text")
+    return (
+      <>
+        Taken by the text service <When at={m.sentAt} fmt={fmt} />
+        {m.delivery === "delivered" ? "; delivered to the phone" : m.delivery === "undelivered" || m.delivery === "failed" ? "; the carrier could not deliver it" : ""}
+      </>
+    );
   if (m.state === "sent" && m.sentAt) return <>Taken by the mail service <When at={m.sentAt} fmt={fmt} /></>;
   if (m.state === "dead")
     return (
@@ -40,6 +47,7 @@ function Outcome({ m, fmt }: { m: SentMessage; fmt: Fmt }) {
     return (
       <>
         Goes <When at={m.nextAttemptAt} fmt={fmt} />
+        {m.heldReason ? ` (held: ${m.heldReason})` : null}
         {m.sendBefore ? <>, not after <When at={m.sendBefore} fmt={fmt} /></> : null}
       </>
     );

@@ -1,0 +1,187 @@
+// Issue 20 §2: posting from the bench with no network. Posts made offline wait in the phone's
+// outbox (IndexedDB), survive a reload, and go in order once the network is back, each exactly
+// once (idempotency keys); a clip upload cut off by the network or a reload carries on.
+// Needs the service worker of issue 20 §1 for the offline navigation and reload.
+import { execFileSync } from "node:child_process";
+import fs from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { type Page, expect, test } from "@playwright/test";
+import { newDemoJob, sql } from "./db";
+import { JobPage } from "./pages/job-page";
+import { storageStatePath } from "./personas";
+import { pageKept, workerReady } from "./service-worker";
+
+test.use({ storageState: storageStatePath("technician") });
+const FIXTURES = path.join(__dirname, "..", "fixtures", "photos");
+
+/** A clip of about `mb` MB (test pattern and tone, constant bit rate), made with Debian's ffmpeg. */
+function makeClip(mb: number, seconds = 8): string {
+  const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), "offline-clip-")), "bench.mp4");
+  const rate = `${Math.round((mb * 8) / seconds)}M`;
+  execFileSync("ffmpeg", ["-v", "error", "-y", "-f", "lavfi", "-i", `testsrc2=duration=${seconds}:size=640x480:rate=25`, "-f", "lavfi", "-i", `sine=frequency=330:duration=${seconds}`,
+    "-c:v", "libx264", "-preset", "ultrafast", "-b:v", rate, "-minrate", rate, "-maxrate", rate, "-bufsize", "2M", "-x264-params", "nal-hrd=cbr", "-pix_fmt", "yuv420p", "-c:a", "aac", "-shortest", file]);
+  return file;
+}
+
+/** The outbox's line for one post, and how far it got (its progress bar). */
+const outboxItem = (page: Page, label: RegExp | string) => page.getByTestId("outbox-item").filter({ hasText: label });
+const progressOf = async (page: Page, label: RegExp | string) => Number((await outboxItem(page, label).getByRole("progressbar").getAttribute("value")) ?? 0);
+
+async function openTab(page: Page, name: "Note" | "Photos" | "Clip") {
+  // The tabs work once the page has hydrated: on a busy machine the first click can come before.
+  await expect(async () => {
+    await page.getByRole("tab", { name }).click();
+    await expect(page.getByRole("tab", { name })).toHaveAttribute("aria-selected", "true", { timeout: 2000 });
+  }).toPass({ timeout: 30_000 });
+}
+
+test("offline: a note, a photo set, a 20 MB clip and a torque record each appear once, in order, after a reload and the network's return", async ({ page, context }) => {
+  test.setTimeout(240_000);
+  const id = Date.now().toString(36);
+  const job = await newDemoJob("OFFL", `Offline bench ${id}`);
+  const jobPath = `/shop/copper-gulch/jobs/${job.number}`;
+  const clip = makeClip(20);
+  expect(fs.statSync(clip).size).toBeGreaterThan(18 * 1024 * 1024);
+
+  // Both pages once online, so the service worker has them; the note editor is fetched on first focus.
+  await page.goto(`${jobPath}/bench`);
+  await expect(page.getByRole("heading", { name: /Bench tools/ })).toBeVisible();
+  // The worker starts after the first staff page and is handed that page: wait until it keeps it.
+  await workerReady(page);
+  await expect.poll(() => pageKept(page, `${jobPath}/bench`), { timeout: 30_000 }).toBe(true);
+  const journal = new JobPage(page);
+  await journal.open(jobPath);
+  await expect.poll(() => pageKept(page, jobPath), { timeout: 30_000 }).toBe(true);
+  await openTab(page, "Note");
+  await page.getByRole("textbox", { name: "Note", exact: true }).click();
+
+  await context.setOffline(true);
+  await page.keyboard.type(`Offline note ${id}`);
+  await page.getByRole("button", { name: "Post note" }).click();
+  await expect(page.getByText(/Kept on this phone: the note is sent/)).toBeVisible();
+
+  await openTab(page, "Photos");
+  await page.getByLabel(/Take or choose photos/).setInputFiles(path.join(FIXTURES, "plain.png"));
+  await expect(page.getByText("No network: kept on this phone, sent with the set")).toBeVisible();
+  await page.getByLabel("Caption (optional)").fill(`Offline photos ${id}`);
+  await page.getByRole("button", { name: "Post 1 photo" }).click();
+  await expect(page.getByText(/Kept on this phone: 1 photo/)).toBeVisible();
+
+  await openTab(page, "Clip");
+  await page.getByLabel("Choose clips").setInputFiles(clip);
+  await expect(page.getByRole("list", { name: "Clips to post" }).getByText("Ready to post")).toBeVisible();
+  await page.getByRole("button", { name: "Post 1 clip" }).click();
+  await expect(page.getByRole("heading", { name: "Waiting to send (3)" })).toBeVisible();
+
+  // The bench page, offline (from the service worker's cache): a torque record.
+  await page.goto(`${jobPath}/bench#torque`);
+  const torque = page.locator("form#post-torque");
+  await torque.getByLabel("What was torqued").fill(`Offline flywheel nut ${id}`);
+  await torque.getByLabel("Spec torque").fill("60");
+  await torque.getByRole("button", { name: "Log torque" }).click();
+  await expect(page.getByText("Kept on this phone", { exact: true })).toBeVisible();
+  await expect(page.getByRole("heading", { name: "Waiting to send (4)" })).toBeVisible();
+
+  // Closed and opened again, still offline: everything is still there, nothing was sent.
+  await page.reload();
+  await expect(page.getByRole("heading", { name: "Waiting to send (4)" })).toBeVisible();
+  expect(await sql("SELECT COUNT(*) AS n FROM journal_entries WHERE job_id = (SELECT id FROM jobs WHERE public_id = ?)", [job.publicId])).toEqual([expect.objectContaining({ n: 0 })]);
+
+  await context.setOffline(false);
+  await expect(page.getByTestId("outbox-item")).toHaveCount(0, { timeout: 120_000 });
+
+  // Exactly once each, in the order they were made.
+  const rows = await sql(
+    "SELECT e.kind, e.caption, e.body FROM journal_entries e JOIN jobs j ON j.id = e.job_id WHERE j.public_id = ? AND e.kind IN ('note', 'photos', 'clip', 'torque') ORDER BY e.id",
+    [job.publicId],
+  );
+  expect(rows.map((r) => r.kind)).toEqual(["note", "photos", "clip", "torque"]);
+  expect(String(rows[0]!.body)).toContain(`Offline note ${id}`);
+  expect(rows[1]!.caption).toBe(`Offline photos ${id}`);
+  expect(String(rows[3]!.body)).toContain(`Offline flywheel nut ${id}`);
+
+  // The clip turns playable and plays.
+  await journal.open(jobPath);
+  const entry = page.getByRole("article").filter({ hasText: /Clip, 0:08/ }).first();
+  await expect(entry).toBeVisible({ timeout: 90_000 });
+  await entry.scrollIntoViewIfNeeded();
+  const player = entry.locator("video[data-clip-player]");
+  await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(7);
+  await player.evaluate(async (el) => {
+    const media = el as HTMLMediaElement;
+    media.muted = true;
+    await media.play();
+  });
+  await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).currentTime), { timeout: 15_000 }).toBeGreaterThan(0.5);
+});
+
+test("a clip upload cut off by the network resumes and completes, and after a reload sends only the missing part", async ({ page, context }) => {
+  test.setTimeout(240_000);
+  const id = Date.now().toString(36);
+  const job = await newDemoJob("OFFC", `Clip resume ${id}`);
+  const jobPath = `/shop/copper-gulch/jobs/${job.number}`;
+  const clip = makeClip(20);
+  // Upload at about 2 MB/s, so there is time to cut it off half-way.
+  const cdp = await context.newCDPSession(page);
+  await cdp.send("Network.enable");
+  await cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 20, downloadThroughput: -1, uploadThroughput: 2 * 1024 * 1024 });
+  const puts: string[] = [];
+  page.on("request", (r) => {
+    if (r.method() === "PUT") puts.push(r.headers()["content-range"] ?? "");
+  });
+
+  await new JobPage(page).open(jobPath);
+  await openTab(page, "Clip");
+  await page.getByLabel("Choose clips").setInputFiles(clip);
+  await page.getByRole("button", { name: "Post 1 clip" }).click();
+  const label = /Clip: bench\.mp4/;
+  await expect.poll(() => progressOf(page, label), { timeout: 60_000 }).toBeGreaterThan(0.15);
+
+  // The network drops mid-upload, then comes back: the same upload carries on to the end.
+  await context.setOffline(true);
+  await page.waitForTimeout(3000);
+  await expect(outboxItem(page, label)).toHaveCount(1);
+  await context.setOffline(false);
+  await expect.poll(() => progressOf(page, label), { timeout: 60_000 }).toBeGreaterThan(0.5);
+
+  // Reloaded part-way: the outbox asks the upload where it got to and sends only the rest.
+  puts.length = 0;
+  await page.reload();
+  await expect(outboxItem(page, label).or(page.getByRole("heading", { name: "Journal", exact: true }))).toBeVisible();
+  await expect(page.getByTestId("outbox-item")).toHaveCount(0, { timeout: 120_000 });
+  const sent = puts.filter((r) => /^bytes \d+-\d+\//.test(r));
+  expect(puts[0]).toMatch(/^bytes \*\/\d+$/); // "where did I get to?"
+  expect(Number(/^bytes (\d+)-/.exec(sent[0]!)![1])).toBeGreaterThan(0); // not from byte 0 again
+
+  // One clip entry, and it plays.
+  expect(await sql("SELECT COUNT(*) AS n FROM clips c JOIN jobs j ON j.id = c.job_id WHERE j.public_id = ?", [job.publicId])).toEqual([expect.objectContaining({ n: 1 })]);
+  const entry = page.getByRole("article").filter({ hasText: /Clip, 0:08/ }).first();
+  await expect(entry).toBeVisible({ timeout: 90_000 });
+  await entry.scrollIntoViewIfNeeded();
+  const player = entry.locator("video[data-clip-player]");
+  await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(7);
+});
+
+test("a post the server refuses is held with its words, never dropped: retry or discard", async ({ page, context }) => {
+  test.setTimeout(90_000);
+  const id = Date.now().toString(36);
+  const job = await newDemoJob("OFFR", `Held post ${id}`);
+  const jobPath = `/shop/copper-gulch/jobs/${job.number}`;
+  await new JobPage(page).open(jobPath);
+  const status = page.locator("form#post-status");
+  await expect(status).toBeVisible();
+  await context.setOffline(true);
+  await status.getByLabel("Move to").selectOption({ label: "On the bench" });
+  await status.getByRole("button", { name: "Change status" }).click();
+  await expect(page.getByRole("heading", { name: "Waiting to send (1)" })).toBeVisible();
+  // Meanwhile the desk moves the job on: the queued move's "from" no longer holds.
+  await sql("UPDATE jobs SET status = 'ready' WHERE public_id = ?", [job.publicId]);
+  await context.setOffline(false);
+  const held = outboxItem(page, /Move to On the bench/);
+  await expect(held.getByText(/Not sent: .*moved this job/)).toBeVisible({ timeout: 30_000 });
+  await held.getByRole("button", { name: "Retry" }).click();
+  await expect(held.getByText(/Not sent:/)).toBeVisible();
+  await held.getByRole("button", { name: /Discard/ }).click();
+  await expect(page.getByTestId("outbox-item")).toHaveCount(0);
+});
