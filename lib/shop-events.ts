@@ -13,6 +13,7 @@ export const INBOX_KINDS = [
   "follower_added",
   "mail_undeliverable",
   "parts_received",
+  "core_credit_owed",
   "owner_question",
   "booking_request",
 ] as const;
@@ -38,6 +39,7 @@ export const INBOX_KIND_LABEL: Record<InboxKind, string> = {
   follower_added: "Follower added",
   mail_undeliverable: "Mail not delivered",
   parts_received: "Parts received",
+  core_credit_owed: "Core credit owed",
   owner_question: "Question from an owner",
   booking_request: "Booking request",
 };
@@ -58,6 +60,8 @@ export const DEFAULT_DELIVERY: Record<InboxKind, Delivery> = {
   follower_added: "off",
   mail_undeliverable: "now",
   parts_received: "digest",
+  // The owner paid (or was billed) a core charge that has since come back: money the desk owes.
+  core_credit_owed: "now",
   owner_question: "now",
   // Someone new asking for a slot: the desk answers while they still want it.
   booking_request: "now",

@@ -150,8 +150,12 @@ export function noticeBody(shopName: string, message: string): string {
   return `${name}: ${message.replace(/\s+/g, " ").trim()} Reply STOP to stop.`;
 }
 
+/** The dedupe key of a request's reminder text: the one the send queues and the answer drops. */
+export const reminderTextKey = (requestPublicId: string) => `approval-reminder:${requestPublicId}`;
+
 export type TextNotice =
   | { kind: "approval"; machine: string; link: string }
+  | { kind: "approval_reminder"; machine: string; link: string }
   | { kind: "ready"; machine: string; link: string }
   | { kind: "invoice"; machine: string; total: string; link: string }
   | { kind: "answer"; machine: string; excerpt: string; link: string };
@@ -160,6 +164,8 @@ export function noticeMessage(n: TextNotice): string {
   switch (n.kind) {
     case "approval":
       return `Work on your ${n.machine} needs your OK. See it and answer here: ${n.link}`;
+    case "approval_reminder":
+      return `Reminder: work on your ${n.machine} is still waiting for your OK. See it and answer here: ${n.link}`;
     case "ready":
       return `Your ${n.machine} is ready to collect. Details: ${n.link}`;
     case "invoice":

@@ -1,4 +1,5 @@
 import type { Knex } from "knex";
+import { alterTableKeepingFulltext } from "../ddl";
 
 // Issue 21 §1–3: text messages to machine owners.
 // - shops: the shop's own sender number (E.164; null: SMS_DEFAULT_FROM) and its quiet hours as
@@ -25,7 +26,8 @@ export async function up(knex: Knex): Promise<void> {
   });
   await knex.raw("ALTER TABLE shops ADD CONSTRAINT shops_sms_quiet CHECK (sms_quiet_start < 1440 AND sms_quiet_end < 1440)");
 
-  await knex.schema.alterTable("customers", (t) => {
+  // customers has the board's stopword-free FULLTEXT index: keep it so through the rebuild.
+  await alterTableKeepingFulltext(knex, "customers", (t) => {
     t.enum("notify_channels", ["email", "text", "both"]).notNullable().defaultTo("email");
     t.string("text_consent_phone", 16).nullable();
     t.timestamp("text_consent_at", { precision: 3 }).nullable();
@@ -120,7 +122,7 @@ export async function down(knex: Knex): Promise<void> {
   await knex.schema.alterTable("sign_in_links", (t) => {
     t.dropColumn("next_path");
   });
-  await knex.schema.alterTable("customers", (t) => {
+  await alterTableKeepingFulltext(knex, "customers", (t) => {
     t.dropIndex(["shop_id", "text_consent_phone"]);
     t.dropColumns("notify_channels", "text_consent_phone", "text_consent_at", "text_consent_how", "text_opt_out_at", "text_opt_out_how");
   });

@@ -62,9 +62,10 @@ export async function recordSharedEntry(
   }
   const to = (e.body as { to?: unknown } | null | undefined)?.to;
   if (e.kind === "status" && to === "ready") {
-    await notifyNow(k, { shopId: e.shopId, jobId: e.jobId, kind: "ready", dedupeKey: `ready:${e.entryId}` });
-    // And by text, if the owner chose it (issue 21). Entries are written inside their change's transaction.
-    await queueReadyText(k as Tx, { shopId: e.shopId, jobId: e.jobId, entryId: e.entryId });
+    // By text, if the owner chose it (issue 21; entries are written inside their change's
+    // transaction), and by e-mail to the followers and to the owner unless they chose text only.
+    const { ownerEmail } = await queueReadyText(k as Tx, { shopId: e.shopId, jobId: e.jobId, entryId: e.entryId });
+    await notifyNow(k, { shopId: e.shopId, jobId: e.jobId, kind: "ready", followersOnly: !ownerEmail, dedupeKey: `ready:${e.entryId}` });
     return;
   }
   await k("job_update_queue").insert({ shop_id: e.shopId, job_id: e.jobId, entry_id: e.entryId }).onConflict("entry_id").ignore();

@@ -9,6 +9,7 @@ import { AppError } from "@/lib/errors";
 import { PART_STATUS_LABEL, type PartStatus } from "@/lib/bench";
 import type { JobStatus } from "@/lib/job-status";
 import { recordInboxEvent } from "@/lib/server/inbox";
+import { formatInvoiceNumber } from "@/lib/invoices";
 
 // Supplier orders holding parts of one shop (issue 19), moving a received part to another job,
 // and cores. Every change to a part writes its history row and a shop-only timeline entry on its
@@ -119,14 +120,41 @@ export async function setCoreCharge(p: ShopUser & { jobId: number; partId: numbe
 /** The old part went back to the supplier: its core charge is refunded (a credit on the invoice). */
 export async function returnCore(p: ShopUser & { jobId: number; partId: number }): Promise<void> {
   await transaction(async (tx) => {
-    const part = await tx("job_parts").where({ id: p.partId, shop_id: p.shopId, job_id: p.jobId }).forUpdate().first("status", "core_charge_minor", "core_returned_at");
+    const part = await tx("job_parts").where({ id: p.partId, shop_id: p.shopId, job_id: p.jobId }).forUpdate().first("status", "description", "core_charge_minor", "core_returned_at");
     if (!part) throw new AppError("not_found", "That part isn't on this job.");
     if (part.core_charge_minor == null) throw new AppError("invalid", "This part has no core charge.");
     if (part.core_returned_at) throw new AppError("conflict", "The core has already gone back.");
     await tx("job_parts").where({ id: p.partId }).update({ core_returned_at: tx.fn.now(3) });
     // History only: the part's own status doesn't change when its core goes back.
     await tx("job_part_events").insert({ shop_id: p.shopId, part_id: p.partId, from_status: part.status, to_status: part.status, changed_by_user_id: p.userId, note: "Core returned" });
+    // An invoice issued (or paid) with the charge and no credit can't take the credit line any more:
+    // the owner is owed the charge back, and the desk is told so (cancel and reissue, or refund).
+    const billed = await invoiceOwingCoreCredit(tx, { shopId: p.shopId, jobId: p.jobId, partId: p.partId });
+    if (billed) {
+      await recordInboxEvent(tx, {
+        shopId: p.shopId,
+        jobId: p.jobId,
+        kind: "core_credit_owed",
+        actorUserId: p.userId,
+        summary: `Core of ${part.description} returned after invoice ${billed.number} was ${billed.status === "paid" ? "paid" : "issued"}: the owner is owed the core charge`,
+        detail: billed.status === "paid" ? "Refund the core charge to the owner." : "Cancel the invoice and make it again to add the core credit, or refund the charge once it is paid.",
+        amountMinor: billed.amountMinor,
+        currency: billed.currency,
+        extra: { part: p.partId, invoice: billed.publicId },
+      });
+    }
   });
+}
+
+/** The job's live invoice, issued or paid, that billed this part's core charge without its credit. */
+async function invoiceOwingCoreCredit(tx: Knex.Transaction, p: { shopId: number; jobId: number; partId: number }) {
+  const row = await tx("invoices as i")
+    .join("invoice_lines as l", (j) => j.on("l.invoice_id", "i.id").andOn("l.shop_id", "i.shop_id"))
+    .where({ "i.shop_id": p.shopId, "i.job_id": p.jobId, "l.source": "core_charge", "l.part_id": p.partId })
+    .whereIn("i.status", ["issued", "paid"])
+    .whereNotExists((q) => q.from("invoice_lines as c").whereRaw("c.invoice_id = i.id").where({ "c.source": "core_credit", "c.part_id": p.partId }))
+    .first("i.public_id", "i.number", "i.status", "i.currency", "l.amount_minor");
+  return row ? { publicId: String(row.public_id), number: formatInvoiceNumber(Number(row.number)), status: String(row.status), currency: String(row.currency), amountMinor: Number(row.amount_minor) } : null;
 }
 
 export type CoreRow = { partId: number; description: string; partNumber: string | null; status: PartStatus; chargeMinor: number; returned: boolean };

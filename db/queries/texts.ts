@@ -99,6 +99,11 @@ export type NewTextRow = {
 const isDuplicateKey = (error: unknown) => (error as { code?: string } | null)?.code === "ER_DUP_ENTRY";
 
 /** Queues one text in the caller's transaction; the same dedupe key in a shop queues it once. Returns its id. */
+/** Drops a text not yet sent (a reminder whose request was settled); true when one was dropped. */
+export async function cancelQueuedText(k: Knex, { shopId, dedupeKey }: { shopId: number; dedupeKey: string }): Promise<boolean> {
+  return (await k("text_outbox").where({ shop_id: shopId, dedupe_key: dedupeKey }).whereIn("state", ["queued", "retrying"]).delete()) > 0;
+}
+
 export async function insertText(k: Knex, t: NewTextRow): Promise<number> {
   const row = {
     shop_id: t.shopId,

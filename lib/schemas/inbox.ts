@@ -48,6 +48,7 @@ export const inboxPreferencesSchema = z.object({
   follower_added: delivery,
   mail_undeliverable: delivery,
   parts_received: delivery,
+  core_credit_owed: delivery,
   owner_question: delivery,
   booking_request: delivery,
 });

@@ -1,9 +1,11 @@
 import "server-only";
 import type { Tx } from "@/db/transaction";
 import { cancelQueuedMail } from "@/db/queries/approvals";
+import { cancelQueuedText } from "@/db/queries/texts";
 import { enqueueMail } from "@/db/queries/outbox";
 import type { RequestSnapshot } from "@/lib/approvals";
 import { appUrl } from "@/lib/server/config";
+import { reminderTextKey } from "@/lib/texts";
 import { renderApprovalMail } from "@/lib/server/emails/approval-request";
 
 // The request e-mail and its one reminder, queued in the outbox inside the send's transaction:
@@ -60,7 +62,8 @@ export async function queueRequestMail(
   return { mailId, reminderId };
 }
 
-/** The request is settled one way or another: its reminder must not go out. */
+/** The request is settled one way or another: its reminders (e-mail and text) must not go out. */
 export async function cancelReminder(tx: Tx, { shopId, requestPublicId }: { shopId: number; requestPublicId: string }) {
-  return cancelQueuedMail(tx, { shopId, dedupeKey: reminderMailKey(requestPublicId) });
+  const text = await cancelQueuedText(tx, { shopId, dedupeKey: reminderTextKey(requestPublicId) });
+  return (await cancelQueuedMail(tx, { shopId, dedupeKey: reminderMailKey(requestPublicId) })) || text;
 }

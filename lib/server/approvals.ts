@@ -18,7 +18,7 @@ import { formatJobNumber } from "@/lib/schemas/jobs";
 import type { JobAccess, Resolved } from "@/lib/server/access";
 import { newMailToken, sealIntact, sealSnapshot } from "@/lib/server/approval-hash";
 import { answerPath, cancelReminder, queueRequestMail } from "@/lib/server/approval-mail";
-import { noticeChannels, queueApprovalText } from "@/lib/server/texts";
+import { noticeChannels, queueApprovalReminderText, queueApprovalText } from "@/lib/server/texts";
 import { recordInboxEvent } from "@/lib/server/inbox";
 import { answerLineParts, recordRequestLines } from "@/db/queries/parts-pricing";
 
@@ -118,7 +118,10 @@ export async function sendRequest(actor: Actor, { job }: JobAccess, findingId: n
     const channels = await noticeChannels(tx, { shopId: job.shopId, customerId: job.customerId });
     if (channels.text) {
       const path = answerPath(job.publicId, publicId);
-      await queueApprovalText(tx, { shopId: job.shopId, jobId: job.id, customerId: job.customerId, email: to, machine: describeMachine(job.machine), answerPath: path, requestPublicId: publicId });
+      const text = { shopId: job.shopId, jobId: job.id, customerId: job.customerId, email: to, machine: describeMachine(job.machine), answerPath: path, requestPublicId: publicId };
+      await queueApprovalText(tx, text);
+      // Its one reminder, as the e-mail has; dropped with the e-mail's when the request is settled.
+      await queueApprovalReminderText(tx, { ...text, delayHours: settings.reminderDelayHours });
     }
     if (to && channels.email) {
       await queueRequestMail(tx, {

@@ -1,7 +1,7 @@
 import "server-only";
 import crypto from "node:crypto";
 import { insertSignInLink } from "@/db/queries/sign-in";
-import { getCustomerTextState, jobTextFacts, setNotifyChannels, getShopTextSettings, grantTextConsent, insertText, revokeTextConsent, type ShopTextSettings } from "@/db/queries/texts";
+import { getCustomerTextState, jobTextFacts, textSendFacts, setNotifyChannels, getShopTextSettings, grantTextConsent, insertText, revokeTextConsent, type ShopTextSettings } from "@/db/queries/texts";
 import { type Tx, transaction } from "@/db/transaction";
 import type { JobAccess } from "@/lib/server/access";
 import type { Actor } from "@/lib/permissions";
@@ -9,7 +9,7 @@ import type { TextChoiceInput } from "@/lib/schemas/texts";
 import { AppError } from "@/lib/errors";
 import { appUrl, smsConfig } from "@/lib/server/config";
 import { hashToken } from "@/lib/server/signed-token";
-import { channelsFor, clockText, type ConsentHow, consentedNumber, noticeBody, noticeMessage, quietUntil, type TextNotice, toE164 } from "@/lib/texts";
+import { channelsFor, clockText, reminderTextKey, type ConsentHow, consentedNumber, noticeBody, noticeMessage, quietUntil, type TextNotice, toE164 } from "@/lib/texts";
 
 // Texts to machine owners: consent, the owner's channel choice and queueing through the texts'
 // outbox (lib/server/text-worker.ts sends). Every write runs in the caller's transaction, so a text
@@ -29,6 +29,15 @@ export async function noticeChannels(tx: Tx, { shopId, customerId }: { shopId: n
   return channelsFor(customer.notify_channels, senderOf(shop) !== null && consentedNumber(customer) !== null);
 }
 
+/** How a notice would reach the owner now, for the desk's "goes to" line: by e-mail (when chosen) and the number a text would go to (when chosen and agreed). */
+export async function ownerReach({ shopId, customerId }: { shopId: number; customerId: number }): Promise<{ email: boolean; textTo: string | null }> {
+  const { shop, customer } = await textSendFacts({ shopId, customerId });
+  if (!shop || !customer) return { email: true, textTo: null };
+  const to = consentedNumber(customer);
+  const channels = channelsFor(customer.notify_channels, senderOf(shop) !== null && to !== null);
+  return { email: channels.email, textTo: channels.text ? to : null };
+}
+
 export type QueuedText = { id: number; heldUntil: Date | null } | { id: null; why: string };
 
 /**
@@ -38,7 +47,7 @@ export type QueuedText = { id: number; heldUntil: Date | null } | { id: null; wh
  */
 export async function queueNoticeText(
   tx: Tx,
-  { shopId, jobId, customerId, notice, dedupeKey, now = new Date() }: { shopId: number; jobId: number | null; customerId: number; notice: TextNotice; dedupeKey: string | null; now?: Date },
+  { shopId, jobId, customerId, notice, dedupeKey, now = new Date(), dueAt = null }: { shopId: number; jobId: number | null; customerId: number; notice: TextNotice; dedupeKey: string | null; now?: Date; dueAt?: Date | null },
 ): Promise<QueuedText> {
   const shop = await getShopTextSettings(tx, shopId);
   if (!shop) throw new AppError("not_found", `No shop ${shopId} to text for.`);
@@ -49,7 +58,8 @@ export async function queueNoticeText(
   if (!from) return { id: null, why: "texts are not set up (no account or sender number)" };
   if (!to) return { id: null, why: "the owner has not agreed to texts, or opted out" };
   const quiet = { start: shop.sms_quiet_start, end: shop.sms_quiet_end };
-  const heldUntil = quietUntil(now, shop.timezone, quiet);
+  // A text due later (a reminder) is judged against quiet hours at the time it is due.
+  const heldUntil = quietUntil(dueAt ?? now, shop.timezone, quiet);
   const id = await insertText(tx, {
     shopId,
     jobId,
@@ -59,7 +69,7 @@ export async function queueNoticeText(
     to,
     from,
     body: noticeBody(shop.name, noticeMessage(notice)),
-    sendAfter: heldUntil,
+    sendAfter: heldUntil ?? dueAt,
     heldReason: heldUntil ? `quiet hours (${clockText(quiet.start)}–${clockText(quiet.end)}, shop time)` : null,
     dedupeKey,
   });
@@ -115,12 +125,30 @@ export async function queueApprovalText(
   return queueNoticeText(tx, { shopId: r.shopId, jobId: r.jobId, customerId: r.customerId, notice: { kind: "approval", machine: r.machine, link }, dedupeKey: `approval:${r.requestPublicId}`, now: r.now });
 }
 
+/**
+ * The request's one reminder by text, as the e-mail has one (lib/server/approval-mail.ts): due after
+ * the shop's reminder delay (then held to the morning if that falls in quiet hours), with a sign-in
+ * link of its own, and dropped with the e-mail's when the request is answered or withdrawn.
+ */
+export async function queueApprovalReminderText(
+  tx: Tx,
+  r: { shopId: number; jobId: number; customerId: number; email: string | null; machine: string; answerPath: string; requestPublicId: string; delayHours: number; now?: Date },
+): Promise<QueuedText> {
+  const link = await textLinkTo(tx, { email: r.email, nextPath: r.answerPath });
+  const due = new Date((r.now ?? new Date()).getTime() + r.delayHours * 3_600_000);
+  return queueNoticeText(tx, { shopId: r.shopId, jobId: r.jobId, customerId: r.customerId, notice: { kind: "approval_reminder", machine: r.machine, link }, dedupeKey: reminderTextKey(r.requestPublicId), now: r.now, dueAt: due });
+}
+
 /** "Ready to collect" by text, when the job's status entry says so (db/queries/following.ts). */
-export async function queueReadyText(tx: Tx, { shopId, jobId, entryId }: { shopId: number; jobId: number; entryId: number }): Promise<void> {
+export async function queueReadyText(tx: Tx, { shopId, jobId, entryId }: { shopId: number; jobId: number; entryId: number }): Promise<{ ownerEmail: boolean }> {
   const job = await jobTextFacts(tx, { shopId, jobId });
-  if (!job || !(await noticeChannels(tx, { shopId, customerId: job.customerId })).text) return;
+  if (!job) return { ownerEmail: true };
+  const channels = await noticeChannels(tx, { shopId, customerId: job.customerId });
+  if (!channels.text) return { ownerEmail: true };
   const link = await textLinkTo(tx, { email: job.email, nextPath: `/my/jobs/${job.publicId}` });
   await queueNoticeText(tx, { shopId, jobId, customerId: job.customerId, notice: { kind: "ready", machine: job.machine, link }, dedupeKey: `ready:${entryId}` });
+  // Whether the owner also wants the e-mail (text only: the followers' e-mails still go).
+  return { ownerEmail: channels.email };
 }
 
 /**

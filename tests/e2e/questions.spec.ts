@@ -108,12 +108,14 @@ test("the owner asks about a line, the desk answers, the owner sees it and appro
   // The approved lines made their parts needed; the bench fits them, so the demo job doesn't stay
   // waiting on parts (staff.spec.ts counts the board from the seed).
   const benchContext = await browser.newContext({ storageState: storageStatePath("writer") });
-  const bench = new BenchPage(await benchContext.newPage());
+  const benchPage = await benchContext.newPage();
+  const bench = new BenchPage(benchPage);
   await bench.open("/shop/copper-gulch/jobs/5/bench");
   for (const part of ["Cam chain tensioner", "Cam chain"]) {
-    const field = bench.section("Parts").getByLabel(`New status for ${part}`, { exact: true }).first();
-    await field.selectOption({ label: "Fitted" });
-    await bench.section("Parts").getByRole("listitem").filter({ has: field }).getByRole("button", { name: "Update part" }).click();
+    // The part's own row: the one holding its status field (a `has` locator is looked for inside the row).
+    const row = bench.section("Parts").getByRole("listitem").filter({ has: benchPage.getByLabel(`New status for ${part}`, { exact: true }) }).first();
+    await row.getByLabel(`New status for ${part}`, { exact: true }).selectOption({ label: "Fitted" });
+    await row.getByRole("button", { name: "Update part" }).click();
     await expect
       .poll(async () => (await sql("SELECT p.status FROM job_parts p JOIN finding_lines l ON l.id = p.finding_line_id JOIN findings f ON f.id = l.finding_id WHERE f.title = ? AND p.description = ?", [title, part]))[0]?.status)
       .toBe("fitted");

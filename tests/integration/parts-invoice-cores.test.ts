@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { saveMoneySettings } from "@/db/queries/findings";
 import { DEFAULT_MONEY_SETTINGS } from "@/lib/approvals";
+import { TOLERANCE_PRESETS } from "@/lib/shop-settings";
 import type { Actor } from "@/lib/permissions";
 import { access } from "@/lib/server/access";
 import { addJobPart } from "@/lib/server/bench-parts";
@@ -94,5 +95,32 @@ describe("cores and special-order deposits on the invoice", () => {
     expect(ownerView.invoice!.status).toBe("issued");
     expect(ownerView.invoice!.lines.map((l) => l.description)).toEqual(["Starter motor", "Core charge: Starter motor", "Core returned: Starter motor"]);
     expect(ownerView.payments[0]!.forPart).toBe("Seat cover, made to order");
+    // The core went back before the invoice was issued: the credit is on it, nothing is owed.
+    expect(await k("shop_events").where({ shop_id: shop.id, kind: "core_credit_owed" })).toEqual([]);
+  });
+
+  it("a core that goes back after the invoice was issued puts 'core credit owed' in the desk inbox with the amount", async () => {
+    // A shop with a 10 % allowance over the estimate (Maryland §14-1002(b)), so a $10 core charge on a
+    // $120 part can be billed before the core is back.
+    const tolerant = await makeShop(k, { label: "part-cores-late", roles: ["owner", "service_writer", "technician"] });
+    const desk = staffActor(tolerant, "service_writer");
+    await saveMoneySettings({ shopId: tolerant.id, settings: { ...DEFAULT_MONEY_SETTINGS, tolerance: TOLERANCE_PRESETS.maryland.setting } });
+    const { owner: them, jobs: [job] } = await ownerWithJobs(k, tolerant, 1);
+    await authorise({ writer: desk, owner: them, jobPublicId: job!.publicId, title: "Starter dead", lines: [{ kind: "part", description: "Starter motor", qty: "1", unitPrice: "120.00" }] });
+    const starter = (await k("job_parts").where({ job_id: job!.id, description: "Starter motor" }).first())!;
+    const parts = await access(desk, "job", job!.publicId, "parts:manage");
+    await chargeCore(desk, parts, { part: Number(starter.id), charge: "10.00" });
+    const { publicId } = await createInvoice(desk, await access(desk, "jobMoney", job!.publicId, "invoice:create"));
+    await issueInvoice(desk, await access(desk, "invoice", publicId, "invoice:create"), await version(publicId));
+
+    await coreReturned(desk, parts, { part: Number(starter.id) });
+    const owed = await k("shop_events").where({ shop_id: tolerant.id, kind: "core_credit_owed" });
+    expect(owed).toHaveLength(1);
+    const payload = typeof owed[0]!.payload === "string" ? JSON.parse(owed[0]!.payload) : owed[0]!.payload;
+    expect(payload).toMatchObject({ amountMinor: 1000, currency: "USD", invoice: publicId, part: Number(starter.id) });
+    expect(payload.summary).toMatch(/^Core of Starter motor returned after invoice .+ was issued: the owner is owed the core charge$/);
+    // The issued invoice itself is not changed behind the owner's back.
+    const lines = await k("invoice_lines").join("invoices", "invoices.id", "invoice_lines.invoice_id").where("invoices.public_id", publicId).pluck("invoice_lines.source");
+    expect(lines).toEqual(["authorised", "core_charge"]);
   });
 });

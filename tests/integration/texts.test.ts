@@ -22,7 +22,8 @@ import { insertEntry } from "@/db/queries/entries";
 import { access } from "@/lib/server/access";
 import { createInvoice, issueInvoice } from "@/lib/server/invoices";
 import { authorise, ownerWithJobs, staffActor } from "../support/authorised-work";
-import { chooseTextsAs, noticeChannels, queueApprovalText, queueNoticeText, recordTextConsent, stopTextsAs } from "@/lib/server/texts";
+import { chooseTextsAs, noticeChannels, queueApprovalReminderText, queueApprovalText, queueNoticeText, recordTextConsent, stopTextsAs } from "@/lib/server/texts";
+import { cancelReminder } from "@/lib/server/approval-mail";
 import { saveTextSettings } from "@/lib/server/text-settings";
 import type { JobAccess, Resolved } from "@/lib/server/access";
 import type { Actor } from "@/lib/permissions";
@@ -309,6 +310,39 @@ describe("text messages through the SMS fake", () => {
     const text = (await k("text_outbox").where({ shop_id: shopId, dedupe_key: `ready:${entryId}` }).first())!;
     expect(text).toMatchObject({ kind: "ready", job_id: jobId, to_phone: phone, from_phone: SHOP_NUMBER });
     expect(text.body).toMatch(/is ready to collect\. Details: http:\/\/127\.0\.0\.1:\d+\/t\/[\w-]{43} Reply STOP to stop\.$/);
+    // The e-mail alert follows the owner's choice: text only leaves it to the followers; both sends it to the owner too.
+    const before = await k("customers").where({ id: customerId }).first("notify_channels");
+    const ready = async (channels: "text" | "both") => {
+      await k("customers").where({ id: customerId }).update({ notify_channels: channels });
+      const id = await transaction((tx) => insertEntry(tx, { shopId, jobId, kind: "status", authorId: null, visibility: "shared", body: { from: "in_progress", to: "ready", note: null } }));
+      const alert = (await k("job_alerts").where({ job_id: jobId, dedupe_key: `ready:${id}` }).first("payload"))!;
+      const payload = typeof alert.payload === "string" ? JSON.parse(alert.payload) : alert.payload;
+      return payload?.followersOnly === true;
+    };
+    expect(await ready("text")).toBe(true);
+    expect(await ready("both")).toBe(false);
+    await k("customers").where({ id: customerId }).update({ notify_channels: before!.notify_channels });
+  });
+
+  it("an approval request's reminder text waits the shop's delay (and quiet hours), and is dropped when the request is settled", async () => {
+    const shop = await makeShop(k, { label: "texts-remind", roles: ["owner", "service_writer"] });
+    await k("shops").where({ id: shop.id }).update({ timezone: "America/Denver", sms_from: "+15550100667" });
+    const { jobs, customerId: who } = await ownerWithJobs(k, shop, 1, "Tove Aranda");
+    await transaction((tx) => recordTextConsent(tx, { shopId: shop.id, customerId: who, phone: "+1 303 555 0167", how: "check_in", userId: null }));
+    const base = { shopId: shop.id, jobId: jobs[0]!.id, customerId: who, email: null, machine: "quad", answerPath: "/my/jobs/x/approvals/y" };
+    // Sent 10:00 in Denver (17:00 UTC) with a 24-hour delay: due 10:00 the next day, outside quiet hours.
+    const sentAt = new Date("2026-12-07T17:00:00Z");
+    await transaction((tx) => queueApprovalReminderText(tx, { ...base, requestPublicId: "remind-day", delayHours: 24, now: sentAt }));
+    const day = (await k("text_outbox").where({ shop_id: shop.id, dedupe_key: "approval-reminder:remind-day" }).first())!;
+    expect(new Date(day.next_attempt_at).toISOString()).toBe("2026-12-08T17:00:00.000Z");
+    expect(day.body).toMatch(/Reminder: work on your quad is still waiting for your OK/);
+    // Sent 15:00 with a 6-hour delay: due 21:00, the start of the default quiet hours (21:00–08:00): held to 08:00.
+    await transaction((tx) => queueApprovalReminderText(tx, { ...base, requestPublicId: "remind-night", delayHours: 6, now: new Date("2026-12-07T22:00:00Z") }));
+    const night = (await k("text_outbox").where({ shop_id: shop.id, dedupe_key: "approval-reminder:remind-night" }).first())!;
+    expect(new Date(night.next_attempt_at).toISOString()).toBe("2026-12-08T15:00:00.000Z");
+    // Settled (answered, withdrawn or replaced): the reminder is dropped before it goes.
+    expect(await transaction((tx) => cancelReminder(tx, { shopId: shop.id, requestPublicId: "remind-day" }))).toBe(true);
+    expect(await k("text_outbox").where({ shop_id: shop.id, dedupe_key: "approval-reminder:remind-day" })).toEqual([]);
   });
 
   it("the desk's real send and issue: the request and the invoice go by text and e-mail to an owner who chose both", async () => {
@@ -322,6 +356,8 @@ describe("text messages through the SMS fake", () => {
     const request = (await k("approval_requests").where({ shop_id: shop.id }).first("public_id"))!;
     expect(await k("text_outbox").where({ shop_id: shop.id, dedupe_key: `approval:${request.public_id}` })).toMatchObject([{ kind: "approval", to_phone: "+13035550166", from_phone: "+15550100666" }]);
     expect(await k("outbox").where({ shop_id: shop.id, dedupe_key: `approval:${request.public_id}` })).toHaveLength(1);
+    // Answered: the request's reminder text went with its reminder e-mail.
+    expect(await k("text_outbox").where({ shop_id: shop.id, dedupe_key: `approval-reminder:${request.public_id}` })).toEqual([]);
 
     const { publicId } = await createInvoice(writer, await access(writer, "jobMoney", jobs[0]!.publicId, "invoice:create"));
     const editing = await access(writer, "invoice", publicId, "invoice:create");

@@ -158,6 +158,8 @@ describe("check-in form", () => {
       intakeNotes: null,
       promisedOn: "2026-12-12",
       technicianId: 7,
+      // No box ticked: no text consent recorded at check-in.
+      textConsent: false,
     });
   });
 

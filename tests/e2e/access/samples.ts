@@ -185,7 +185,8 @@ export const ACTION_SAMPLES: Record<string, Fields> = {
   [`${SETTINGS}#saveDropoffTermsAction`]: ({ f }) => ({ shop: f.shop, dropoffCharge: "lots", dropoffUpTo: "300.00" }),
   [`${SETTINGS}#saveDigestAction`]: ({ f }) => ({ shop: f.shop, digestWindowMinutes: "15" }),
   // A time that isn't one: allowed callers get the 422, so the demo shop's quiet hours stay as seeded.
-  [`${SETTINGS}#saveTextsAction`]: ({ f }) => ({ shop: f.shop, smsFrom: "", quietStart: "late", quietEnd: "08:00" }),
+  // The demo shop's own settings (the defaults): the form is checked before access, so a refusal needs a valid form.
+  [`${SETTINGS}#saveTextsAction`]: ({ f }) => ({ shop: f.shop, smsFrom: "", quietStart: "21:00", quietEnd: "08:00" }),
   [`${SETTINGS}#saveMarkupAction`]: ({ f }) => ({ shop: f.shop, markupKind: "bands", band1UpTo: "ten", band1Percent: "100", topPercent: "35" }),
   [`${SPECS}#saveBenchSettingsAction`]: ({ f }) => ({ shop: f.shop, torqueUnit: "nm", passes: "30, 60, 100", chainLimitPct: "3", clipMaxMinutes: "10", clipMaxGb: "2", ownerWaitDays: "3" }),
   ["app/unsubscribe/[token]/actions.ts#unsubscribeAction"]: () => ({ token: "access-test" }),

@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { customerTextStateOf } from "@/db/queries/texts";
+import { customerTextStateOf, shopTextSettingsOf } from "@/db/queries/texts";
 import { Card, PageHeader } from "@/components/ui";
 import { describeMachine } from "@/lib/machine";
 import { loadPage } from "@/lib/server/page-access";
@@ -21,9 +21,10 @@ const HOW: Record<string, string> = {
 export default async function OwnerTextsPage({ params }: { params: Promise<{ job: string }> }) {
   const { job: publicId } = await params;
   const { job } = await loadPage("job", { job: publicId }, "texts:choose", `/my/jobs/${publicId}/texts`);
-  const state = await customerTextStateOf({ shopId: job.shopId, customerId: job.customerId });
+  const [state, shop] = await Promise.all([customerTextStateOf({ shopId: job.shopId, customerId: job.customerId }), shopTextSettingsOf({ shopId: job.shopId })]);
   const number = state ? consentedNumber(state) : null;
-  const fmt = new Intl.DateTimeFormat("en-US", { dateStyle: "medium", timeStyle: "short", timeZone: "UTC" });
+  // On the shop's clock, as every time on the owner's job pages.
+  const fmt = new Intl.DateTimeFormat("en-US", { dateStyle: "medium", timeStyle: "short", timeZone: shop?.timezone ?? "UTC", timeZoneName: "short" });
   return (
     <div className="space-y-4">
       <PageHeader
@@ -35,9 +36,9 @@ export default async function OwnerTextsPage({ params }: { params: Promise<{ job
         <p data-testid="texts-now">
           {NOTIFY_CHANNEL_LABEL[state?.notify_channels ?? "email"]}
           {number && state?.text_consent_at && state.text_consent_how
-            ? `. Texts go to ${number}; you agreed ${HOW[state.text_consent_how]} on ${fmt.format(state.text_consent_at)} (UTC).`
+            ? `. Texts go to ${number}; you agreed ${HOW[state.text_consent_how]} on ${fmt.format(state.text_consent_at)}.`
             : state?.text_opt_out_at && state.text_opt_out_how
-              ? `. You stopped texts ${HOW[state.text_opt_out_how]} on ${fmt.format(state.text_opt_out_at)} (UTC).`
+              ? `. You stopped texts ${HOW[state.text_opt_out_how]} on ${fmt.format(state.text_opt_out_at)}.`
               : "."}
         </p>
         {number ? <StopTextsButton jobPublicId={publicId} /> : null}

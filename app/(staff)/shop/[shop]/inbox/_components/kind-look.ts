@@ -1,4 +1,4 @@
-import { Banknote, CalendarPlus, CreditCard, ImageOff, ImageUp, Images, type LucideIcon, MailX, MessageCircleQuestionMark, MessageSquareReply, PackageCheck, Undo2, UserPlus } from "lucide-react";
+import { Banknote, CalendarPlus, CreditCard, ImageOff, ImageUp, Images, type LucideIcon, MailX, MessageCircleQuestionMark, MessageSquareReply, PackageCheck, RotateCcw, Undo2, UserPlus } from "lucide-react";
 import type { InboxKind } from "@/lib/shop-events";
 
 /** Each kind's icon beside its label (the label carries the meaning; the icon helps the eye). */
@@ -13,6 +13,7 @@ export const KIND_ICON: Record<InboxKind, LucideIcon> = {
   follower_added: UserPlus,
   mail_undeliverable: MailX,
   parts_received: PackageCheck,
+  core_credit_owed: RotateCcw,
   owner_question: MessageCircleQuestionMark,
   booking_request: CalendarPlus,
 };

@@ -15,6 +15,7 @@ import { toLineState } from "../_components/form-state";
 import { RequestHistory } from "../_components/request-history";
 import { SendPanel } from "../_components/send-panel";
 import { loadFindingsJob } from "../load";
+import { ownerReach } from "@/lib/server/texts";
 
 export const metadata: Metadata = { title: "Finding" };
 
@@ -28,10 +29,11 @@ export default async function FindingPage({ params }: Props) {
   const id = parsed.success ? parsed.data : notFound();
   const finding = await getFinding({ shopId: shop.id, jobId: job.id, id });
   if (!finding) notFound();
-  const [overview, allRequests, contact, lineParts] = await Promise.all([
+  const [overview, allRequests, contact, reach, lineParts] = await Promise.all([
     jobApprovals(job),
     listRequests({ shopId: shop.id, jobId: job.id }),
     getCustomerContact({ shopId: shop.id, customerId: job.customerId }),
+    ownerReach({ shopId: shop.id, customerId: job.customerId }),
     // Part costs are staff money: only for people who see it.
     mayViewMoney ? partsOfFindingLines({ shopId: shop.id, lineIds: finding.lines.map((l) => l.id) }) : new Map(),
   ]);
@@ -82,7 +84,8 @@ export default async function FindingPage({ params }: Props) {
           findingVersion={finding.version}
           estimate={"totals" in summary.draft ? formatMoney(summary.draft.totals.totalMinor, shop.currency) : null}
           missing={refusal ? `The job is "${JOB_STATUS_LABEL[job.status]}": ${refusal}` : "missing" in summary.draft ? summary.draft.missing : null}
-          to={contact.email}
+          to={reach.email ? contact.email : null}
+          textTo={reach.textTo}
           openVersion={open?.version ?? null}
           upToDate={!!open && !summary.changedSinceSent}
           statusNote={job.status === "waiting_approval" ? null : `Sending moves the job from "${JOB_STATUS_LABEL[job.status]}" to "${JOB_STATUS_LABEL.waiting_approval}".`}

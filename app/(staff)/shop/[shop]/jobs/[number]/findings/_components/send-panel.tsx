@@ -13,6 +13,8 @@ type Props = {
   estimate: string | null;
   missing: string | null;
   to: string | null;
+  /** The number the request's text goes to, when the owner chose texts and agreed to them. */
+  textTo: string | null;
   openVersion: number | null;
   /** The open request already shows the finding as saved: nothing new to send. */
   upToDate: boolean;
@@ -20,7 +22,7 @@ type Props = {
 };
 
 /** Send the saved finding to the owner (or a revision that replaces the open request), after a confirm step. */
-export function SendPanel({ jobPublicId, findingId, findingVersion, estimate, missing, to, openVersion, upToDate, statusNote }: Props) {
+export function SendPanel({ jobPublicId, findingId, findingVersion, estimate, missing, to, textTo, openVersion, upToDate, statusNote }: Props) {
   const router = useRouter();
   const [confirming, setConfirming] = useState(false);
   const [sending, setSending] = useState(false);
@@ -43,7 +45,7 @@ export function SendPanel({ jobPublicId, findingId, findingVersion, estimate, mi
     <Card as="section" title={openVersion ? "Send a revision" : "Send for approval"} headingId="send-heading" description="What goes out is the finding as last saved: save your changes first.">
       <div className="space-y-3">
         {missing ? <Alert tone="warning" title="Not ready to send">{missing}</Alert> : <p>Estimate as saved: <strong>{estimate}</strong> with tax.</p>}
-        <p className="text-ink-muted">{to ? `The request e-mail goes to ${to}.` : "No e-mail address on file: after sending, note the owner's answer by phone or in person."}</p>
+        <p className="text-ink-muted">{goesTo(to, textTo)}</p>
         {statusNote ? <p className="text-ink-muted">{statusNote}</p> : null}
         {message ? <Alert tone={message.tone}>{message.text}</Alert> : null}
         {upToDate ? (
@@ -66,4 +68,12 @@ export function SendPanel({ jobPublicId, findingId, findingVersion, estimate, mi
       </div>
     </Card>
   );
+}
+
+/** Where the request will go, as the owner chose (e-mail, text or both). */
+function goesTo(email: string | null, text: string | null): string {
+  if (email && text) return `The request goes by e-mail to ${email} and by text to ${text}.`;
+  if (email) return `The request e-mail goes to ${email}.`;
+  if (text) return `The request goes by text to ${text}.`;
+  return "No e-mail address on file and no texts agreed: after sending, note the owner's answer by phone or in person.";
 }
