@@ -12,6 +12,7 @@ export const INBOX_KINDS = [
   "consent_withdrawn",
   "follower_added",
   "mail_undeliverable",
+  "text_undeliverable",
   "parts_received",
   "core_credit_owed",
   "owner_question",
@@ -38,6 +39,7 @@ export const INBOX_KIND_LABEL: Record<InboxKind, string> = {
   consent_withdrawn: "Portfolio consent withdrawn",
   follower_added: "Follower added",
   mail_undeliverable: "Mail not delivered",
+  text_undeliverable: "Text not delivered",
   parts_received: "Parts received",
   core_credit_owed: "Core credit owed",
   owner_question: "Question from an owner",
@@ -59,6 +61,7 @@ export const DEFAULT_DELIVERY: Record<InboxKind, Delivery> = {
   consent_withdrawn: "now",
   follower_added: "off",
   mail_undeliverable: "now",
+  text_undeliverable: "now",
   parts_received: "digest",
   // The owner paid (or was billed) a core charge that has since come back: money the desk owes.
   core_credit_owed: "now",

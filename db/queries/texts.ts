@@ -166,7 +166,7 @@ export async function holdText(t: ClaimedText, { until, reason }: { until: Date;
 
 /** The row a status callback is about, by our reference (in its URL), locked. */
 export async function lockTextByRef(k: Knex, ref: string) {
-  return k("text_outbox").where({ ref }).forUpdate().first("id", "shop_id", "job_id", "state", "delivery", "provider_sid");
+  return k("text_outbox").where({ ref }).forUpdate().first("id", "shop_id", "job_id", "state", "delivery", "provider_sid", "purpose", "kind", "to_phone");
 }
 
 /** A (message, status) callback seen for the first time: true; a replay: false. Callers hold the text's row lock. */

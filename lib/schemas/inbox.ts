@@ -47,6 +47,7 @@ export const inboxPreferencesSchema = z.object({
   consent_withdrawn: delivery,
   follower_added: delivery,
   mail_undeliverable: delivery,
+  text_undeliverable: delivery,
   parts_received: delivery,
   core_credit_owed: delivery,
   owner_question: delivery,

@@ -101,6 +101,24 @@ export function mailItem(item: InboxItem, shop: { slug: string; timezone: string
 }
 
 /**
+ * A notice by text to a machine's owner didn't reach them (the service or the carrier refused it,
+ * it couldn't be delivered, or the worker gave up): the desk hears whom it was for and why, so the
+ * owner can be reached another way. Keyword answers (STOP, HELP…) are left out.
+ */
+export async function reportUndeliveredText(tx: Tx, text: { shopId: number; jobId: number | null; purpose: string; kind: string; to: string; error: string }): Promise<number | null> {
+  if (text.purpose !== "notice") return null;
+  return recordInboxEvent(tx, {
+    shopId: text.shopId,
+    jobId: text.jobId,
+    kind: "text_undeliverable",
+    actorUserId: null,
+    summary: `Text to ${text.to} (${text.kind.replace(/_/g, " ")}) not delivered`,
+    detail: text.error,
+    extra: { to: text.to, textKind: text.kind },
+  });
+}
+
+/**
  * The outbox gave up on a mail (its last try failed, or it can't be sent any more): the desk
  * hears who it was for and what it was. Mail of no shop (sign-in links) and the inbox's own
  * mail are left out, so a failing mail service can't feed itself.

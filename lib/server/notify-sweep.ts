@@ -29,6 +29,8 @@ import { renderMail } from "@/lib/server/emails/render";
 // and all of it commits together, so a crash mid-way leaves nothing half-sent or sent twice.
 
 const LIMIT = 50;
+const PRUNE_EVERY_MS = 3_600_000;
+let prunedAt = 0;
 
 export function dailyDigestHour(): number {
   const n = Number(process.env.DAILY_DIGEST_HOUR ?? 18);
@@ -118,7 +120,11 @@ export async function sweepNotifications({ now = new Date() }: { now?: Date } = 
       result.daily += await isolated(`daily digest of job ${jobId}`, () => sendDigest(jobId, "daily", now, cutoff));
     }
   }
-  // Now and then, forget what no digest needs any more.
-  if (Math.random() < 0.01) await pruneNotifications({ queueDays: 14, outboxDays: SENT_MAIL_KEEP_DAYS });
+  // Forget what no digest needs any more: at a worker's first round, then hourly (at a known time,
+  // not at random, so a long test run sees it once, before its checksums are taken).
+  if (Date.now() - prunedAt >= PRUNE_EVERY_MS) {
+    prunedAt = Date.now();
+    await pruneNotifications({ queueDays: 14, outboxDays: SENT_MAIL_KEEP_DAYS });
+  }
   return result;
 }

@@ -3,6 +3,7 @@ import { customersByTextPhone, grantTextConsent, inboundSeen, insertInbound, ins
 import { type Tx, transaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
 import { smsConfig } from "@/lib/server/config";
+import { reportUndeliveredText } from "@/lib/server/inbox";
 import { recordOwnerQuestion } from "@/lib/server/questions";
 import { verifySmsSignature } from "@/lib/server/sms";
 import { KEYWORD_REPLY, type Keyword, keywordOf, type Language, shopLanguages, type TextDelivery } from "@/lib/texts";
@@ -49,6 +50,9 @@ export async function receiveTextStatus(req: Request, rawBody: string): Promise<
     if (!(await recordStatusEvent(tx, { sid, status }))) return { received: true, applied: false, duplicate: true };
     if (text.delivery && RANK[status] <= RANK[text.delivery] && text.provider_sid) return { received: true, applied: false };
     await applyTextDelivery(tx, { id: text.id, sid, delivery: status, errorCode });
+    if (status === "failed" || status === "undelivered") {
+      await reportUndeliveredText(tx, { shopId: Number(text.shop_id), jobId: text.job_id == null ? null : Number(text.job_id), purpose: text.purpose, kind: text.kind, to: text.to_phone, error: `${status}${errorCode ? ` (error ${errorCode})` : ""}` });
+    }
     return { received: true, applied: true };
   });
 }

@@ -1,7 +1,8 @@
 import "server-only";
 import twilio from "twilio";
 import { type ClaimedText, claimTexts, holdText, markTextFailed, markTextSent, revokeTextConsent, textSendFacts } from "@/db/queries/texts";
-import { transaction } from "@/db/transaction";
+import { type Tx, transaction } from "@/db/transaction";
+import { reportUndeliveredText } from "@/lib/server/inbox";
 import { smsClient, smsWebhookUrl } from "@/lib/server/sms";
 import { clockText, consentedNumber, quietUntil } from "@/lib/texts";
 
@@ -15,6 +16,15 @@ import { clockText, consentedNumber, quietUntil } from "@/lib/texts";
 const UNSUBSCRIBED = 21610;
 
 export type TextRunSettings = { batchSize: number; leaseMs: number; maxAttempts: number; backoff: (attempt: number) => number };
+/** A text given up on: dead, and the desk told (in one transaction, so neither happens without the other). */
+async function giveUp(t: ClaimedText, error: string, code: number | null, also?: (tx: Tx) => Promise<void>): Promise<void> {
+  await transaction(async (tx) => {
+    await markTextFailed(t, { error, code, retryInMs: null }, tx);
+    await also?.(tx);
+    await reportUndeliveredText(tx, { shopId: t.shop_id, jobId: t.job_id, purpose: t.purpose, kind: t.kind, to: t.to_phone, error });
+  });
+}
+
 export type TextRun = { claimed: number; sent: number; retrying: number; dead: number; held: number };
 
 type Outcome = { ok: true; sid: string } | { ok: false; status: number | null; code: number | null; message: string };
@@ -45,7 +55,7 @@ export async function runTextsOnce(s: TextRunSettings, now: () => Date = () => n
   for (const t of batch) {
     const stop = await refusal(t, now());
     if (stop && "dead" in stop) {
-      await markTextFailed(t, { error: stop.dead, code: null, retryInMs: null });
+      await giveUp(t, stop.dead, null);
       run.dead++;
       continue;
     }
@@ -55,7 +65,7 @@ export async function runTextsOnce(s: TextRunSettings, now: () => Date = () => n
       continue;
     }
     if (t.attempts > s.maxAttempts) {
-      await markTextFailed(t, { error: `no outcome recorded after ${t.attempts - 1} claims`, code: null, retryInMs: null });
+      await giveUp(t, `no outcome recorded after ${t.attempts - 1} claims`, null);
       run.dead++;
       continue;
     }
@@ -68,18 +78,19 @@ export async function runTextsOnce(s: TextRunSettings, now: () => Date = () => n
     const error = `${outcome.status ?? "no status"} ${outcome.code ?? ""}: ${outcome.message}`.replace(/ +:/, ":");
     if (outcome.code === UNSUBSCRIBED && t.customer_id != null) {
       // The service refuses the number: record the opt-out so nothing more is queued for it.
-      await transaction(async (tx) => {
-        await markTextFailed(t, { error, code: outcome.code, retryInMs: null }, tx);
-        await revokeTextConsent(tx, { shopId: t.shop_id, customerIds: [t.customer_id!], phone: t.to_phone, how: "carrier", userId: null });
-      });
+      await giveUp(t, error, outcome.code, (tx) => revokeTextConsent(tx, { shopId: t.shop_id, customerIds: [t.customer_id!], phone: t.to_phone, how: "carrier", userId: null }));
       run.dead++;
       continue;
     }
     const retryable = outcome.status === null || outcome.status === 429 || outcome.status >= 500;
     const retry = retryable && t.attempts < s.maxAttempts;
-    await markTextFailed(t, { error, code: outcome.code, retryInMs: retry ? s.backoff(t.attempts) : null });
-    if (retry) run.retrying++;
-    else run.dead++;
+    if (retry) {
+      await markTextFailed(t, { error, code: outcome.code, retryInMs: s.backoff(t.attempts) });
+      run.retrying++;
+    } else {
+      await giveUp(t, error, outcome.code);
+      run.dead++;
+    }
   }
   return run;
 }

@@ -187,6 +187,10 @@ describe("text messages through the SMS fake", () => {
       return r.delivery === "undelivered" && r;
     });
     expect(row.error_code).toBe(30003);
+    // The desk hears of it (someone must reach the owner another way), once.
+    const told = await k("shop_events").where({ shop_id: shopId, kind: "text_undeliverable" }).whereRaw("JSON_VALUE(payload, '$.to') = ?", [phone]);
+    expect(told).toHaveLength(1);
+    expect(told[0]!.job_id).toBe(jobId);
   });
 
   it("holds a text queued in quiet hours until the morning, on the shop's clock", async () => {

@@ -24,7 +24,7 @@ export default async function OwnerTextsPage({ params }: { params: Promise<{ job
   const [state, shop] = await Promise.all([customerTextStateOf({ shopId: job.shopId, customerId: job.customerId }), shopTextSettingsOf({ shopId: job.shopId })]);
   const number = state ? consentedNumber(state) : null;
   // On the shop's clock, as every time on the owner's job pages.
-  const fmt = new Intl.DateTimeFormat("en-US", { dateStyle: "medium", timeStyle: "short", timeZone: shop?.timezone ?? "UTC", timeZoneName: "short" });
+  const fmt = new Intl.DateTimeFormat("en-US", { year: "numeric", month: "short", day: "numeric", hour: "numeric", minute: "2-digit", timeZone: shop?.timezone ?? "UTC", timeZoneName: "short" });
   return (
     <div className="space-y-4">
       <PageHeader

@@ -1,4 +1,4 @@
-import { Banknote, CalendarPlus, CreditCard, ImageOff, ImageUp, Images, type LucideIcon, MailX, MessageCircleQuestionMark, MessageSquareReply, PackageCheck, RotateCcw, Undo2, UserPlus } from "lucide-react";
+import { Banknote, CalendarPlus, CreditCard, ImageOff, ImageUp, Images, type LucideIcon, MailX, MessageCircleQuestionMark, MessageSquareOff, MessageSquareReply, PackageCheck, RotateCcw, Undo2, UserPlus } from "lucide-react";
 import type { InboxKind } from "@/lib/shop-events";
 
 /** Each kind's icon beside its label (the label carries the meaning; the icon helps the eye). */
@@ -12,6 +12,7 @@ export const KIND_ICON: Record<InboxKind, LucideIcon> = {
   consent_withdrawn: Images,
   follower_added: UserPlus,
   mail_undeliverable: MailX,
+  text_undeliverable: MessageSquareOff,
   parts_received: PackageCheck,
   core_credit_owed: RotateCcw,
   owner_question: MessageCircleQuestionMark,
