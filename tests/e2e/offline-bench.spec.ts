@@ -125,51 +125,60 @@ test("offline: a note, a photo set, a 20 MB clip and a torque record each appear
   await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).currentTime), { timeout: 15_000 }).toBeGreaterThan(0.5);
 });
 
-test("a clip upload cut off by the network resumes and completes, and after a reload sends only the missing part", async ({ page, context }) => {
-  test.setTimeout(240_000);
-  const id = Date.now().toString(36);
-  const job = await newDemoJob("OFFC", `Clip resume ${id}`);
-  const jobPath = `/shop/copper-gulch/jobs/${job.number}`;
-  const clip = makeClip(20);
-  // Upload at about 1 MB/s, so there is time to cut it off part-way and to reload before the end.
-  const cdp = await context.newCDPSession(page);
-  await cdp.send("Network.enable");
-  await cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 20, downloadThroughput: -1, uploadThroughput: 1024 * 1024 });
-  const puts: string[] = [];
-  page.on("request", (r) => {
-    if (r.method() === "PUT") puts.push(r.headers()["content-range"] ?? "");
+// The upload itself, online throughout, with no service worker: a page it controls may hand its
+// requests to the worker, outside the page's network throttling and request events.
+test.describe("clip upload resume", () => {
+  test.use({ serviceWorkers: "block" });
+
+  test("a clip upload cut off by the network resumes and completes, and after a reload sends only the missing part", async ({ page, context }) => {
+    test.setTimeout(240_000);
+    const id = Date.now().toString(36);
+    const job = await newDemoJob("OFFC", `Clip resume ${id}`);
+    const jobPath = `/shop/copper-gulch/jobs/${job.number}`;
+    const clip = makeClip(20);
+    // Upload at about 1 MB/s, so there is time to cut it off part-way and to reload before the end.
+    const cdp = await context.newCDPSession(page);
+    await cdp.send("Network.enable");
+    const throttle = () => cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 20, downloadThroughput: -1, uploadThroughput: 1024 * 1024 });
+    await throttle();
+    const puts: string[] = [];
+    page.on("request", (r) => {
+      if (r.method() === "PUT") puts.push(r.headers()["content-range"] ?? "");
+    });
+
+    await new JobPage(page).open(jobPath);
+    await openTab(page, "Clip");
+    await page.getByLabel("Choose clips").setInputFiles(clip);
+    await page.getByRole("button", { name: "Post 1 clip" }).click();
+    const label = /Clip: bench\.mp4/;
+    await expect.poll(() => progressOf(page, label), { timeout: 60_000 }).toBeGreaterThan(0.15);
+
+    // The network drops mid-upload, then comes back: the same upload carries on to the end.
+    await context.setOffline(true);
+    await page.waitForTimeout(3000);
+    await expect(outboxItem(page, label)).toHaveCount(1);
+    await context.setOffline(false);
+    // Playwright's setOffline sets the network conditions too: slow the upload again.
+    await throttle();
+    await expect.poll(() => progressOf(page, label), { timeout: 60_000, intervals: [200] }).toBeGreaterThan(0.4);
+
+    // Reloaded part-way: the outbox asks the upload where it got to and sends only the rest.
+    puts.length = 0;
+    await page.reload();
+    await expect(outboxItem(page, label).or(page.getByRole("heading", { name: "Journal", exact: true }))).toBeVisible();
+    await expect(page.getByTestId("outbox-item")).toHaveCount(0, { timeout: 120_000 });
+    const sent = puts.filter((r) => /^bytes \d+-\d+\//.test(r));
+    expect(puts[0]).toMatch(/^bytes \*\/\d+$/); // "where did I get to?"
+    expect(Number(/^bytes (\d+)-/.exec(sent[0]!)![1])).toBeGreaterThan(0); // not from byte 0 again
+
+    // One clip entry, and it plays.
+    expect(await sql("SELECT COUNT(*) AS n FROM clips c JOIN jobs j ON j.id = c.job_id WHERE j.public_id = ?", [job.publicId])).toEqual([expect.objectContaining({ n: 1 })]);
+    const entry = page.getByRole("article").filter({ hasText: /Clip, 0:08/ }).first();
+    await expect(entry).toBeVisible({ timeout: 90_000 });
+    await entry.scrollIntoViewIfNeeded();
+    const player = entry.locator("video[data-clip-player]");
+    await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(7);
   });
-
-  await new JobPage(page).open(jobPath);
-  await openTab(page, "Clip");
-  await page.getByLabel("Choose clips").setInputFiles(clip);
-  await page.getByRole("button", { name: "Post 1 clip" }).click();
-  const label = /Clip: bench\.mp4/;
-  await expect.poll(() => progressOf(page, label), { timeout: 60_000 }).toBeGreaterThan(0.15);
-
-  // The network drops mid-upload, then comes back: the same upload carries on to the end.
-  await context.setOffline(true);
-  await page.waitForTimeout(3000);
-  await expect(outboxItem(page, label)).toHaveCount(1);
-  await context.setOffline(false);
-  await expect.poll(() => progressOf(page, label), { timeout: 60_000, intervals: [200] }).toBeGreaterThan(0.4);
-
-  // Reloaded part-way: the outbox asks the upload where it got to and sends only the rest.
-  puts.length = 0;
-  await page.reload();
-  await expect(outboxItem(page, label).or(page.getByRole("heading", { name: "Journal", exact: true }))).toBeVisible();
-  await expect(page.getByTestId("outbox-item")).toHaveCount(0, { timeout: 120_000 });
-  const sent = puts.filter((r) => /^bytes \d+-\d+\//.test(r));
-  expect(puts[0]).toMatch(/^bytes \*\/\d+$/); // "where did I get to?"
-  expect(Number(/^bytes (\d+)-/.exec(sent[0]!)![1])).toBeGreaterThan(0); // not from byte 0 again
-
-  // One clip entry, and it plays.
-  expect(await sql("SELECT COUNT(*) AS n FROM clips c JOIN jobs j ON j.id = c.job_id WHERE j.public_id = ?", [job.publicId])).toEqual([expect.objectContaining({ n: 1 })]);
-  const entry = page.getByRole("article").filter({ hasText: /Clip, 0:08/ }).first();
-  await expect(entry).toBeVisible({ timeout: 90_000 });
-  await entry.scrollIntoViewIfNeeded();
-  const player = entry.locator("video[data-clip-player]");
-  await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).duration), { timeout: 20_000 }).toBeGreaterThan(7);
 });
 
 test("a post the server refuses is held with its words, never dropped: retry or discard", async ({ page, context }) => {

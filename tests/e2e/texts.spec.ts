@@ -118,9 +118,23 @@ test("the desk sends a request; the text reaches the SMS fake; its link opens th
   await expect(again.getByText("This link has been used or has expired.")).toBeVisible();
   await again.close();
 
-  // HOOK (questions helper, issue 21 §4): asking about a line by replying to this text goes here —
-  // POST `${SMS()}/_fake/inbound` {from: PHONE, to: text.from, body} and expect the question on the
-  // request's thread (tests/e2e/questions.spec.ts covers asking on the page and the desk's answer).
+  // Before answering she asks about the line on the same phone-size page; the desk answers from the
+  // job page, and the answer reaches her by text (she chose text only) and on the request.
+  const question = `Is the new cable pre-lubricated? (${id})`;
+  const answer = `Yes, it comes lubricated; we route it clear of the bars. (${id})`;
+  const ask = owner.getByRole("region", { name: "Ask about a line" });
+  await ask.getByLabel("Which line").selectOption({ label: "Line 1: Throttle cable" });
+  await ask.getByLabel("Your question about this line").fill(question);
+  await ask.getByRole("button", { name: "Ask the shop" }).click();
+  await expect(ask.getByText("Sent to the shop")).toBeVisible();
+  await desk.goto("/shop/copper-gulch/jobs/5");
+  const open = desk.getByRole("region", { name: "Questions from the owner" }).getByTestId("thread-question").filter({ hasText: question });
+  await open.getByLabel("Your answer").fill(answer);
+  await open.getByRole("button", { name: "Send the answer" }).click();
+  await expect(desk.getByRole("region", { name: "Questions from the owner" }).getByTestId("thread-answer").filter({ hasText: answer })).toBeVisible();
+  await expect.poll(async () => Number((await sql("SELECT COUNT(*) AS n FROM text_outbox WHERE kind = 'answer' AND body LIKE ?", [`%${id}%`]))[0]!.n), { timeout: 20_000 }).toBe(1);
+  await owner.reload();
+  await expect(ask.getByTestId("thread-answer").filter({ hasText: answer })).toBeVisible();
 
   // She approves.
   await owner.getByRole("group", { name: /^Throttle cable, / }).getByText("Approve", { exact: true }).click();
