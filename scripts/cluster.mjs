@@ -13,10 +13,10 @@
 import fs from "node:fs";
 import path from "node:path";
 import { ROOT, FFMPEG, MARIADB, SetupError, assertPortFree, bin, ensureDebianPackages, ensureNodeModules, loadSecrets, say } from "./lib/setup.mjs";
-import { adminSql, provisionDatabase } from "./lib/mariadb.mjs";
+import { provisionDatabase } from "./lib/mariadb.mjs";
 import { Run, run as runToEnd, waitForHttp } from "./lib/processes.mjs";
 import { DIST, buildIsCurrent, markBuilt, sourcesDigest } from "./cluster/build.mjs";
-import { HAPROXY_CHECK_USER, clusterPorts, haproxyConfig, nodeDir } from "./cluster/config.mjs";
+import { clusterPorts, haproxyConfig, nodeDir } from "./cluster/config.mjs";
 import { GALERA, RSYNC, startCluster, stopCluster } from "./cluster/galera.mjs";
 
 const HAPROXY = { name: "haproxy", binaries: ["/usr/sbin/haproxy"] };
@@ -119,7 +119,6 @@ async function main() {
   await startCluster(DIR, ports.nodes);
   // On node 1; users and grants replicate to the others.
   provisionDatabase(nodeDir(DIR, 1), { databases: ["benchside"], user: "benchside", password: secrets.dbPassword });
-  adminSql(nodeDir(DIR, 1), `CREATE USER IF NOT EXISTS '${HAPROXY_CHECK_USER}'@'127.0.0.1';`);
 
   const cfg = path.join(DIR, "haproxy.cfg");
   fs.writeFileSync(cfg, haproxyConfig({ ports, pidFile: path.join(DIR, "haproxy.pid") }));

@@ -81,9 +81,6 @@ export function galeraNodeConfig({ node, nodes, paths, user, clusterName = "benc
   return lines.join("\n");
 }
 
-/** The one user HAProxy's mysql-check logs in as (no password, no rights: it only completes a handshake). */
-export const HAPROXY_CHECK_USER = "haproxy_check";
-
 /**
  * HAProxy in front of the apps (HTTP, round robin, no stickiness) and the Galera nodes (TCP).
  * Writes go to one node at a time (node 1; nodes 2 and 3 are backups taking over when it fails
@@ -142,7 +139,10 @@ export function haproxyConfig({ ports, pidFile }) {
     "",
     "backend galera",
     "  mode tcp",
-    `  option mysql-check user ${HAPROXY_CHECK_USER} post-41`,
+    // A node is up when it answers a new connection with the server's greeting (no user needed).
+    "  option tcp-check",
+    "  tcp-check connect",
+    "  tcp-check expect string MariaDB",
     ...ports.nodes.map(db),
     "",
     "frontend stats",
