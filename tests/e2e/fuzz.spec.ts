@@ -1,7 +1,7 @@
 import { type APIRequestContext, expect, request, test } from "@playwright/test";
 import type mysql from "mysql2/promise";
 import { scanDeclarations } from "../support/declarations";
-import { type Checksums, changedTables, connect, waitForQuiet } from "./access/checksums";
+import { type Checksums, changedTables, connect, recentRows, waitForQuiet } from "./access/checksums";
 import { APP_URL, pool, readActionManifest } from "./access/client";
 import { actionCase } from "./fuzz/action-cases";
 import { type Case, type Persona, PERMITTED, handlerCase } from "./fuzz/cases";
@@ -124,6 +124,7 @@ test.describe("malformed requests to every handler and action", () => {
     console.log(`fuzz: by what was broken: ${show(byMutation)}`);
     console.log(`fuzz: by why it was harmless: ${show(bySafety)}`);
     console.log(`fuzz: CHECKSUM TABLE over ${after.size} tables: ${changed.length ? `CHANGED ${changed.join(", ")}` : "identical before and after"}`);
+    if (changed.length) for (const line of await recentRows(db, changed, new Date(started - 5_000))) console.log(`fuzz: changed ${line}`);
     if (HOLD_S) {
       console.log(`fuzz: holding ${HOLD_S} s`);
       await new Promise((r) => setTimeout(r, HOLD_S * 1000));

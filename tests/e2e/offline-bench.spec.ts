@@ -141,11 +141,6 @@ test.describe("clip upload resume", () => {
     await cdp.send("Network.enable");
     const throttle = () => cdp.send("Network.emulateNetworkConditions", { offline: false, latency: 20, downloadThroughput: -1, uploadThroughput: 1024 * 1024 });
     await throttle();
-    const puts: string[] = [];
-    page.on("request", (r) => {
-      if (r.method() === "PUT") puts.push(r.headers()["content-range"] ?? "");
-    });
-
     await new JobPage(page).open(jobPath);
     await openTab(page, "Clip");
     await page.getByLabel("Choose clips").setInputFiles(clip);
@@ -162,10 +157,30 @@ test.describe("clip upload resume", () => {
     await throttle();
     await expect.poll(() => progressOf(page, label), { timeout: 60_000, intervals: [200] }).toBeGreaterThan(0.4);
 
-    // Reloaded part-way: the outbox asks the upload where it got to and sends only the rest.
-    puts.length = 0;
+    // Reloaded part-way: the outbox asks the upload where it got to and sends only the rest. The
+    // reload must land part-way whatever the machine's speed: from here the page's chunks are cut
+    // off (as a dead network would) until the page is reloaded; the reloaded page's requests go
+    // through, and only those are kept in `puts`. (Routed only now: the throttling above is the
+    // network's, and the route must not stand in its way.)
+    let reloaded = false;
+    let cut = 0;
+    const puts: string[] = [];
+    await page.route(/\/upload\//, async (route) => {
+      if (route.request().method() !== "PUT") return route.fallback();
+      if (!reloaded) {
+        cut++;
+        return route.abort("internetdisconnected");
+      }
+      puts.push(route.request().headers()["content-range"] ?? "");
+      return route.fallback();
+    });
+    await expect.poll(() => cut, { timeout: 30_000, message: "the upload's next chunk was cut off" }).toBeGreaterThan(0);
+    page.once("domcontentloaded", () => (reloaded = true));
     await page.reload();
-    await expect(outboxItem(page, label).or(page.getByRole("heading", { name: "Journal", exact: true }))).toBeVisible();
+    expect(reloaded).toBe(true);
+    // The clip is still waiting (the outbox reads it back from the phone's store after the page
+    // loads), then it goes.
+    await expect(outboxItem(page, label)).toBeVisible({ timeout: 30_000 });
     await expect(page.getByTestId("outbox-item")).toHaveCount(0, { timeout: 120_000 });
     const sent = puts.filter((r) => /^bytes \d+-\d+\//.test(r));
     expect(puts[0]).toMatch(/^bytes \*\/\d+$/); // "where did I get to?"

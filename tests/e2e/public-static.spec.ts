@@ -1,4 +1,4 @@
-import { type APIRequestContext, expect, test } from "@playwright/test";
+import { type APIRequestContext, type APIResponse, expect, test } from "@playwright/test";
 import { sql } from "./db";
 import { storageStatePath } from "./personas";
 
@@ -80,6 +80,12 @@ test("the booking form runs on the cached page: it fetches its own ticket, and t
   }
 });
 
+/** For a failure message: how the cache answered, and when. */
+const answered = (res: APIResponse) => {
+  const h = res.headers();
+  return `answered ${res.status()} at ${new Date().toISOString()}, x-nextjs-cache ${h["x-nextjs-cache"] ?? "none"}, age ${h.age ?? "none"}, date ${h.date ?? "none"}`;
+};
+
 test("a change made in the app shows on the public page at once, although the page was cached", async ({ browser, request }) => {
   const context = await browser.newContext({ storageState: storageStatePath("owner") });
   const desk = await context.newPage();
@@ -97,12 +103,13 @@ test("a change made in the app shows on the public page at once, although the pa
     await cachedAnswer(request, `/s/${SHOP}`);
     await save(changed);
     const after = await request.get(`/s/${SHOP}`);
-    expect(after.headers()["x-nextjs-cache"]).not.toBe("HIT");
-    expect(await after.text()).toContain(changed.split("\n").pop()!);
+    expect(after.headers()["x-nextjs-cache"], answered(after)).not.toBe("HIT");
+    expect(await after.text(), answered(after)).toContain(changed.split("\n").pop()!);
   } finally {
     await save(before);
     // Put back, and the public page says so at once too.
-    expect(await (await request.get(`/s/${SHOP}`)).text()).not.toContain("Static page check");
+    const back = await request.get(`/s/${SHOP}`);
+    expect(await back.text(), answered(back)).not.toContain("Static page check");
     await context.close();
   }
 });

@@ -41,3 +41,29 @@ export async function waitForQuiet(db: mysql.Connection, timeoutMs = 60_000): Pr
   }
   throw new Error(`The database kept changing for ${timeoutMs / 1000} s (${busy.join(", ")}): something in the background is still writing.`);
 }
+
+/**
+ * For a failure message: the rows of `tables` that something wrote since `since`, as far as their
+ * own time columns tell (any DATETIME/TIMESTAMP column at or after it), a few per table, so a
+ * background writer shows itself by name.
+ */
+export async function recentRows(db: mysql.Connection, tables: string[], since: Date, perTable = 3): Promise<string[]> {
+  const lines: string[] = [];
+  for (const table of tables) {
+    const [cols] = await db.query<mysql.RowDataPacket[]>(
+      "SELECT COLUMN_NAME AS name FROM information_schema.COLUMNS WHERE TABLE_SCHEMA = DATABASE() AND TABLE_NAME = ? AND DATA_TYPE IN ('datetime', 'timestamp')",
+      [table],
+    );
+    const names = cols.map((c) => String(c.name));
+    if (!names.length) {
+      lines.push(`${table}: no time column to tell which rows changed`);
+      continue;
+    }
+    const [rows] = await db.query<mysql.RowDataPacket[]>(
+      `SELECT * FROM \`${table}\` WHERE ${names.map((n) => `\`${n}\` >= ?`).join(" OR ")} LIMIT ${perTable}`,
+      names.map(() => since),
+    );
+    lines.push(`${table}: ${rows.length ? rows.map((r) => JSON.stringify(r).slice(0, 400)).join("\n    ") : "no row with a time after the start"}`);
+  }
+  return lines;
+}

@@ -1,7 +1,8 @@
 "use client";
 import { useState } from "react";
-import { Alert, Button, Field, Input } from "@/components/ui";
+import { Alert, Button } from "@/components/ui";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { SupplierOrderFields } from "@/components/bench/supplier-order-fields";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 import { formatJobNumber } from "@/lib/schemas/jobs";
 import type { NeededPart } from "@/db/queries/parts-needed";
@@ -51,20 +52,7 @@ export function ShopOrderForm({ shop, needed, more, today }: { shop: string; nee
               {form.fieldError("parts")}
             </p>
           ) : null}
-          <div className="grid gap-3 sm:grid-cols-2">
-            <Field id="shop-order-supplier" label="Supplier" error={form.fieldError("supplier")}>
-              <Input name="supplier" maxLength={120} defaultValue={form.values?.supplier} />
-            </Field>
-            <Field id="shop-order-reference" label="Order reference (optional)" error={form.fieldError("reference")}>
-              <Input name="reference" maxLength={80} defaultValue={form.values?.reference} />
-            </Field>
-            <Field id="shop-order-ordered-on" label="Ordered on" error={form.fieldError("orderedOn")}>
-              <Input name="orderedOn" type="date" defaultValue={form.values?.orderedOn ?? today} />
-            </Field>
-            <Field id="shop-order-expected-on" label="Expected (optional)" error={form.fieldError("expectedOn")}>
-              <Input name="expectedOn" type="date" defaultValue={form.values?.expectedOn} />
-            </Field>
-          </div>
+          <SupplierOrderFields idPrefix="shop-order" today={today} values={form.values} fieldError={form.fieldError} />
           <Button type="submit" loading={form.pending}>
             Put on one order
           </Button>

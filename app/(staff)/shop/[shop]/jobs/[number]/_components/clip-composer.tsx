@@ -1,6 +1,7 @@
 "use client";
-import { CircleCheck, CircleX, Send, Video, X } from "lucide-react";
+import { Send, Video, X } from "lucide-react";
 import { useId, useState } from "react";
+import { PickedFileRow, ShareWithOwner } from "@/components/journal/picked-file";
 import { Alert, Button } from "@/components/ui";
 import { enqueue } from "@/lib/client/bench-outbox";
 import { clipLimitProblem } from "@/lib/clips";
@@ -111,24 +112,20 @@ export function ClipComposer({ jobPublicId, limits, onStarted }: { jobPublicId: 
       {items.length ? (
         <ul className="space-y-2" aria-label="Clips to post">
           {items.map((it) => (
-            <li key={it.key} className="rounded-lg border border-line p-3">
-              <div className="flex items-center gap-2">
-                {it.state === "ready" ? <CircleCheck aria-hidden className="size-5 shrink-0 text-moss" /> : null}
-                {it.state === "failed" ? <CircleX aria-hidden className="size-5 shrink-0 text-rust" /> : null}
-                <span className="min-w-0 flex-1 truncate font-semibold">{it.file.name}</span>
-                <Button variant="ghost" aria-label={`Leave ${it.file.name} out`} onClick={() => setItems((l) => l.filter((x) => x.key !== it.key))} icon={<X aria-hidden className="size-5" />} />
-              </div>
+            <PickedFileRow
+              key={it.key}
+              name={it.file.name}
+              outcome={it.state === "ready" ? "good" : it.state === "failed" ? "failed" : null}
+              actions={<Button variant="ghost" aria-label={`Leave ${it.file.name} out`} onClick={() => setItems((l) => l.filter((x) => x.key !== it.key))} icon={<X aria-hidden className="size-5" />} />}
+            >
               <p className="text-sm text-ink-muted" aria-live="polite">
                 {it.state === "failed" ? <span className="text-rust">{it.message}</span> : it.state === "ready" ? "Ready to post" : "Checking…"}
               </p>
-            </li>
+            </PickedFileRow>
           ))}
         </ul>
       ) : null}
-      <label className="flex min-h-tap items-center gap-3">
-        <input type="checkbox" checked={share} onChange={(e) => setShare(e.target.checked)} className="size-6 accent-oil" />
-        <span>Share with the owner now (otherwise shop only)</span>
-      </label>
+      <ShareWithOwner share={share} onChange={setShare} />
       {error ? <Alert tone="error">{error}</Alert> : null}
       {posted ? <Alert tone="success">{posted}</Alert> : null}
       <Button size="lg" fullWidth disabled={!ready.length || checking} loading={posting} onClick={() => void post()} icon={<Send aria-hidden className="size-5" />}>

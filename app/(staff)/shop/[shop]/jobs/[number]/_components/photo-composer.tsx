@@ -1,6 +1,7 @@
 "use client";
-import { Camera, CircleCheck, CircleX, RotateCcw, X } from "lucide-react";
+import { Camera, RotateCcw, X } from "lucide-react";
 import { useId, useRef, useState } from "react";
+import { PickedFileRow, ShareWithOwner } from "@/components/journal/picked-file";
 import { Alert, Button, Field, Input } from "@/components/ui";
 import { runLimited, uploadFile } from "@/lib/client/upload";
 import { browserOffline, enqueue } from "@/lib/client/bench-outbox";
@@ -131,20 +132,23 @@ export function PhotoComposer({ jobPublicId, onPosted, defaultCaption = "" }: { 
       {items.length ? (
         <ul className="space-y-2" aria-label="Photos in this set">
           {items.map((it) => (
-            <li key={it.key} className="rounded-lg border border-line p-3">
-              <div className="flex items-center gap-2">
-                {it.state === "done" ? <CircleCheck aria-hidden className="size-5 shrink-0 text-moss" /> : null}
-                {it.state === "failed" ? <CircleX aria-hidden className="size-5 shrink-0 text-rust" /> : null}
-                <span className="min-w-0 flex-1 truncate font-semibold">{it.file.name}</span>
-                {it.state === "failed" && !photoFileProblem(it.file) ? (
-                  <Button variant="ghost" icon={<RotateCcw aria-hidden className="size-5" />} onClick={() => void upload([it])} aria-label={`Try ${it.file.name} again`}>
-                    Retry
-                  </Button>
-                ) : null}
-                {it.state !== "uploading" ? (
-                  <Button variant="ghost" onClick={() => setItems((l) => l.filter((x) => x.key !== it.key))} aria-label={`Leave ${it.file.name} out`} icon={<X aria-hidden className="size-5" />} />
-                ) : null}
-              </div>
+            <PickedFileRow
+              key={it.key}
+              name={it.file.name}
+              outcome={it.state === "done" ? "good" : it.state === "failed" ? "failed" : null}
+              actions={
+                <>
+                  {it.state === "failed" && !photoFileProblem(it.file) ? (
+                    <Button variant="ghost" icon={<RotateCcw aria-hidden className="size-5" />} onClick={() => void upload([it])} aria-label={`Try ${it.file.name} again`}>
+                      Retry
+                    </Button>
+                  ) : null}
+                  {it.state !== "uploading" ? (
+                    <Button variant="ghost" onClick={() => setItems((l) => l.filter((x) => x.key !== it.key))} aria-label={`Leave ${it.file.name} out`} icon={<X aria-hidden className="size-5" />} />
+                  ) : null}
+                </>
+              }
+            >
               <progress className="mt-2 h-3 w-full accent-oil" max={1} value={it.progress} aria-label={`Upload of ${it.file.name}`} />
               <p className="text-sm text-ink-muted" aria-live="polite">
                 {it.state === "failed" ? (
@@ -159,7 +163,7 @@ export function PhotoComposer({ jobPublicId, onPosted, defaultCaption = "" }: { 
                   "Waiting…"
                 )}
               </p>
-            </li>
+            </PickedFileRow>
           ))}
         </ul>
       ) : null}
@@ -167,10 +171,7 @@ export function PhotoComposer({ jobPublicId, onPosted, defaultCaption = "" }: { 
       <Field id={`${id}-caption`} label="Caption (optional)">
         <Input value={caption} onChange={(e) => setCaption(e.target.value)} maxLength={500} />
       </Field>
-      <label className="flex min-h-tap items-center gap-3">
-        <input type="checkbox" checked={share} onChange={(e) => setShare(e.target.checked)} className="size-6 accent-oil" />
-        <span>Share with the owner now (otherwise shop only)</span>
-      </label>
+      <ShareWithOwner share={share} onChange={setShare} />
       {error ? <Alert tone="error">{error}</Alert> : null}
       {posted ? <Alert tone="success">{posted}</Alert> : null}
       <Button size="lg" fullWidth disabled={!(done.length + queued.length) || busy} loading={posting} onClick={() => void post()}>

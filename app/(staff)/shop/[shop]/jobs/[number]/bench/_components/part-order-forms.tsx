@@ -2,6 +2,7 @@
 import { useState } from "react";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { SupplierOrderFields } from "@/components/bench/supplier-order-fields";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 import { backOrderAction, coreChargeAction, movePartAction, orderPartsAction, partDepositAction } from "../part-order-actions";
 
@@ -40,20 +41,7 @@ export function OrderPartsForm({ jobPublicId, needed, today }: { jobPublicId: st
         ))}
       </fieldset>
       <FieldNote id="order-parts-error" message={form.fieldError("parts")} />
-      <div className="grid gap-3 sm:grid-cols-2">
-        <Field id="order-supplier" label="Supplier" error={form.fieldError("supplier")}>
-          <Input name="supplier" maxLength={120} defaultValue={form.values?.supplier} />
-        </Field>
-        <Field id="order-reference" label="Order reference (optional)" error={form.fieldError("reference")}>
-          <Input name="reference" maxLength={80} defaultValue={form.values?.reference} />
-        </Field>
-        <Field id="order-ordered-on" label="Ordered on" error={form.fieldError("orderedOn")}>
-          <Input name="orderedOn" type="date" defaultValue={form.values?.orderedOn ?? today} />
-        </Field>
-        <Field id="order-expected-on" label="Expected (optional)" error={form.fieldError("expectedOn")}>
-          <Input name="expectedOn" type="date" defaultValue={form.values?.expectedOn} />
-        </Field>
-      </div>
+      <SupplierOrderFields idPrefix="order" today={today} values={form.values} fieldError={form.fieldError} />
       <Button type="submit" loading={form.pending}>
         Put on order
       </Button>

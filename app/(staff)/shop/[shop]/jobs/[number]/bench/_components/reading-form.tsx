@@ -1,7 +1,8 @@
 "use client";
 import { useState } from "react";
-import { Button, Field, Input, Select } from "@/components/ui";
+import { Button, Field, Input } from "@/components/ui";
 import { recordReadingAction } from "../actions";
+import { SpecPicker } from "@/components/bench/spec-picker";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { QueuedNotice } from "@/components/journal/outbox-panel";
 import { offlineCapable } from "@/lib/client/queue-post";
@@ -34,19 +35,7 @@ export function ReadingForm({ jobPublicId, currency, specs }: { jobPublicId: str
       <input type="hidden" name="job" value={jobPublicId} />
       <FormError message={form.formError} />
       <QueuedNotice state={form.state} />
-      {specs.length ? (
-        <Field id="reading-from-spec" label="From the shop's specs" hint="Fills in the limits; check them against the manual.">
-          <Select defaultValue="" onChange={(e) => pick(e.target.value)}>
-            <option value="">Choose a limit…</option>
-            {specs.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.label}
-                {s.source ? ` (${s.source})` : ""}
-              </option>
-            ))}
-          </Select>
-        </Field>
-      ) : null}
+      <SpecPicker id="reading-from-spec" hint="Fills in the limits; check them against the manual." choose="Choose a limit…" specs={specs} onPick={pick} />
       <Field id="reading-label" label="What was measured" hint="e.g. “front brake disc thickness”" error={fieldError("label")} required>
         <Input name="label" value={f.label} onChange={set("label")} maxLength={200} />
       </Field>

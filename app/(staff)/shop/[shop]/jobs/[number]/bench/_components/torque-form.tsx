@@ -12,6 +12,7 @@ import { type TorqueUnit, convertTorque, isTorqueUnit } from "@/lib/torque";
 import { WRENCH_CLASSES, type WrenchClass, isWrenchClass, outcomeText } from "@/lib/torque-check";
 import { parseAngleStages, torqueAngleWarning } from "@/lib/torque-special";
 import { recordTorqueAction } from "../actions";
+import { SpecPicker } from "@/components/bench/spec-picker";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
 import { QueuedNotice } from "@/components/journal/outbox-panel";
 import { offlineCapable } from "@/lib/client/queue-post";
@@ -110,19 +111,7 @@ export function TorqueForm({ jobPublicId, currency, shopUnit, passPercents, spec
       <input type="hidden" name="job" value={jobPublicId} />
       <FormError message={form.formError} />
       <QueuedNotice state={form.state} />
-      {specs.length ? (
-        <Field id="torque-from-spec" label="From the shop's specs" hint="Fills in the fields below; check them against the manual.">
-          <Select defaultValue="" onChange={(e) => pick(e.target.value)}>
-            <option value="">Choose a spec…</option>
-            {specs.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.label}
-                {s.source ? ` (${s.source})` : ""}
-              </option>
-            ))}
-          </Select>
-        </Field>
-      ) : null}
+      <SpecPicker id="torque-from-spec" hint="Fills in the fields below; check them against the manual." choose="Choose a spec…" specs={specs} onPick={pick} />
       <Field id="torque-fastener" label="What was torqued" hint="e.g. “clutch cover bolts, 8 × M6”" error={fieldError("fastener")} required>
         <Input name="fastener" value={fastener} onChange={(e) => setFastener(e.target.value)} maxLength={200} />
       </Field>
