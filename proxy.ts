@@ -3,6 +3,8 @@ import { actionRefusal } from "@/lib/action-guard";
 import { badPathSegment, needsNonce, securityHeaders } from "@/lib/security-headers";
 import { DATABASE_UNAVAILABLE_MESSAGE } from "@/lib/errors";
 import { databaseAnswers } from "@/lib/server/db-health";
+import { MISSING_PUBLIC_PAGE, publicPageAddress } from "@/lib/public-pages";
+import { publicPageShown } from "@/lib/server/public-gate";
 
 // Runs before every page and API request (not static files, photo uploads or webhooks: see the
 // matcher). It never decides access; that is done inside each page, handler and action. It:
@@ -15,7 +17,9 @@ import { databaseAnswers } from "@/lib/server/db-health";
 //   own scripts), and sets the security headers of lib/security-headers.ts on the answer.
 // The shops' public pages (/s/…) are served from Next's cache (ISR), so they get a policy
 // without a nonce (lib/security-headers.ts says why) and no nonce reaches their render: the
-// signed-in areas and every other page stay per request (the layouts call connection()).
+// signed-in areas and every other page stay per request (the layouts call connection()). A
+// public page that isn't shown (unknown shop, story not published) is sent to one 404 address
+// before Next renders it, so made-up addresses don't fill the page cache (lib/public-pages.ts).
 
 // (Large sessions are split into "….0", "….1" cookies, hence the prefix match.)
 const SESSION_COOKIES = ["authjs.session-token", "__Secure-authjs.session-token"];
@@ -52,7 +56,11 @@ export async function proxy(request: NextRequest) {
     forward.delete("x-nonce");
     forward.delete("content-security-policy");
   }
-  const response = NextResponse.next({ request: { headers: forward } });
+  const address = request.method === "GET" || request.method === "HEAD" ? publicPageAddress(pathname) : null;
+  const response =
+    address && !(await publicPageShown(address))
+      ? NextResponse.rewrite(new URL(MISSING_PUBLIC_PAGE, request.url), { request: { headers: forward } })
+      : NextResponse.next({ request: { headers: forward } });
   for (const [name, value] of Object.entries(headers)) response.headers.set(name, value);
   return response;
 }

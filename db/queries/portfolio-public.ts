@@ -28,6 +28,24 @@ export async function findPublishedStory({ shopSlug, storySlug }: { shopSlug: st
   return r ? { storyId: Number(r.id), shopId: Number(r.shop_id), version: Number(r.version) } : null;
 }
 
+/**
+ * Whether a shop's public page (storySlug null) or one of its stories is shown: the story is
+ * published, or the shop has a profile or a published story. One indexed look, asked by the proxy
+ * before every public page (lib/server/public-gate.ts).
+ */
+export async function publicPageIsShown({ shopSlug, storySlug }: { shopSlug: string; storySlug: string | null }, k: Knex = db()): Promise<boolean> {
+  if (storySlug !== null) return (await findPublishedStory({ shopSlug, storySlug }, k)) !== null;
+  const r = await k("shops as s")
+    .where("s.slug", shopSlug)
+    .where((q) =>
+      q
+        .whereExists((e) => e.select(k.raw("1")).from("shop_profiles as p").whereRaw("p.shop_id = s.id"))
+        .orWhereExists((e) => e.select(k.raw("1")).from("stories as st").whereRaw("st.shop_id = s.id").where("st.status", "published")),
+    )
+    .first("s.id");
+  return r !== undefined;
+}
+
 export type PublicShopRow = {
   id: number;
   slug: string;

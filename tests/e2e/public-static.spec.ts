@@ -1,3 +1,5 @@
+import fs from "node:fs";
+import path from "node:path";
 import { type APIRequestContext, type APIResponse, expect, test } from "@playwright/test";
 import { sql } from "./db";
 import { storageStatePath } from "./personas";
@@ -112,4 +114,30 @@ test("a change made in the app shows on the public page at once, although the pa
     expect(await back.text(), answered(back)).not.toContain("Static page check");
     await context.close();
   }
+});
+
+/** Every file below `dir`, as paths relative to it. */
+function filesBelow(dir: string): string[] {
+  return fs.readdirSync(dir, { withFileTypes: true, recursive: true }).filter((d) => d.isFile()).map((d) => path.relative(dir, path.join(d.parentPath, d.name)));
+}
+
+test("a made-up public address is a 404 and leaves nothing in the page cache", async ({ request }) => {
+  // The test app's build folder (scripts/test.mjs); Next keeps cached pages under server/.
+  const server = path.join(process.cwd(), process.env.NEXT_DIST_DIR ?? ".next-test", "server");
+  const id = Date.now().toString(36);
+  const madeUp = [0, 1, 2].map((i) => `made-up-${id}-${i}`);
+  await cachedAnswer(request, `/s/${SHOP}`);
+  for (const name of madeUp) {
+    for (const address of [`/s/${SHOP}/${name}`, `/s/${name}`, `/s/${name}/${name}`, `/s/${SHOP}/${name}/opengraph-image`]) {
+      const res = await request.get(address);
+      expect(res.status(), address).toBe(404);
+      expect(res.headers()["content-security-policy"], address).not.toContain("'nonce-");
+    }
+  }
+  await new Promise((r) => setTimeout(r, 1000));
+  const files = filesBelow(server);
+  // Where Next keeps a cached page: the real one is there (so the look below looks in the right place)…
+  expect(files.filter((f) => f.endsWith(path.join("s", `${SHOP}.html`))).length, "the shop's cached page on disk").toBeGreaterThan(0);
+  // …and no made-up address left one.
+  expect(files.filter((f) => madeUp.some((name) => f.includes(name)))).toEqual([]);
 });

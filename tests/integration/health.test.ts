@@ -8,7 +8,7 @@ import { connectTestDatabase } from "../support/db";
 
 let mail: MailFake;
 let goodUrl: string;
-const pool = globalThis as { benchsideDb?: { destroy: () => Promise<void> } };
+const pool = globalThis as { benchsideDb?: { destroy: () => Promise<void> }; benchsideHealthDb?: { destroy: () => Promise<void> } };
 
 beforeAll(async () => {
   goodUrl = connectTestDatabase();
@@ -16,6 +16,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await pool.benchsideDb?.destroy();
+  await pool.benchsideHealthDb?.destroy();
   await mail?.close();
 });
 
@@ -24,6 +25,8 @@ beforeEach(async () => {
   vi.resetModules();
   await pool.benchsideDb?.destroy();
   delete pool.benchsideDb;
+  await pool.benchsideHealthDb?.destroy();
+  delete pool.benchsideHealthDb;
 });
 
 async function health() {

@@ -23,6 +23,7 @@ import { askOwner, decideConsent, proposeStory, publishStory, reaskIfChanged, st
 import { curateStory, saveProfile } from "@/lib/server/portfolio-curation";
 import { shopProfileSchema } from "@/lib/portfolio";
 import { getPublicShopPage, getPublicStory, publicStoryGate } from "@/lib/server/portfolio-public";
+import { publicPageShown } from "@/lib/server/public-gate";
 import { storage } from "@/lib/server/storage";
 import { access } from "@/lib/server/access";
 import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
@@ -180,6 +181,11 @@ describe("public portfolio", () => {
     await expect(publishStory(staff(shop, "owner"), await onStory(staff(shop, "owner"), "portfolio:publish"))).rejects.toMatchObject({ code: "conflict" });
     await k("stories").where({ id: storyId }).update({ status: "consent_requested" });
     expect(await getPublicStory(shop.slug, slug)).toBeNull();
+    // The proxy's look (lib/server/public-gate.ts) agrees: no page yet, for the story or the shop
+    // (no profile, nothing published), nor for a made-up shop or story.
+    expect(await publicPageShown({ shop: shop.slug, story: slug })).toBe(false);
+    expect(await publicPageShown({ shop: shop.slug, story: null })).toBe(false);
+    expect(await publicPageShown({ shop: "no-such-shop-here", story: null })).toBe(false);
     expect((await json(slug)).status).toBe(404);
   });
 
@@ -234,6 +240,9 @@ describe("public portfolio", () => {
     expect((await video(slug, clipId)).status).toBe(503);
     const page = await getPublicShopPage(shop.slug, null);
     expect(page?.stories.map((s) => s.slug)).toEqual([slug]);
+    expect(await publicPageShown({ shop: shop.slug, story: slug })).toBe(true);
+    expect(await publicPageShown({ shop: shop.slug, story: null })).toBe(true);
+    expect(await publicPageShown({ shop: shop.slug, story: `${slug}-not-this-one` })).toBe(false);
     // An edit to this job's entries must drop the shop's cached public pages (lib/server/portfolio-cache.ts).
     expect(await jobHasPublishedStory({ shopId: shop.id, jobId: jobRowId })).toBe(true);
   });
@@ -242,6 +251,7 @@ describe("public portfolio", () => {
     expect((await decideConsent(owner, await onJob(owner, jobPublicId, "portfolio:consent"), { decision: "withdrawn", name: OWNER_NAME }, meta)).status).toBe("withdrawn");
     expect((await json(slug)).status).toBe(404);
     expect(await publicStoryGate(shop.slug, slug)).toBeNull();
+    expect(await publicPageShown({ shop: shop.slug, story: slug })).toBe(false);
     expect((await image(slug, photo.shown)).status).toBe(404);
     expect((await video(slug, clipId)).status).toBe(404);
     expect((await getPublicShopPage(shop.slug, null))?.stories ?? []).toEqual([]);
@@ -260,6 +270,7 @@ describe("public portfolio", () => {
     expect((await getPublicStory(shop.slug, slug))?.items.map((i) => i.kind)).toEqual(["photos", "clip"]);
     await unpublishStory(await onStory(staff(shop, "service_writer"), "portfolio:curate"));
     expect((await json(slug)).status).toBe(404);
+    expect(await publicPageShown({ shop: shop.slug, story: slug })).toBe(false);
   });
 
   it("words changed after the owner agreed go back to the owner: off the public site, asked again, published only once they agree", async () => {
@@ -297,6 +308,8 @@ describe("public portfolio", () => {
     expect(await exifr.gps(gps)).toBeTruthy();
     await saveProfile(await onShop(staff(shop, "owner")), input, new File([new Uint8Array(gps)], "logo.jpg", { type: "image/jpeg" }));
     const page = await getPublicShopPage(shop.slug, null);
+    // A profile alone is a page (nothing is published at this point).
+    expect(await publicPageShown({ shop: shop.slug, story: null })).toBe(true);
     expect(page?.shop).toMatchObject({ name: "Test Gulch Works", about: "Two bays.", location: null, email: "desk@shop.test", logoUrl: `/s/${shop.slug}/logo` });
     const logo = await shopLogo(new NextRequest(`http://app.test/s/${shop.slug}/logo`), { params: Promise.resolve({ shop: shop.slug }) });
     expect([logo.status, logo.headers.get("content-type")]).toEqual([200, "image/jpeg"]);

@@ -50,16 +50,18 @@ describe("the proxy while the database is down", () => {
     relayPort = await link.listen();
     url.port = String(relayPort);
     process.env.DATABASE_URL = url.toString();
-    // A pool of this file's own, through the relay.
+    // Pools of this file's own (the app's and the health check's), through the relay.
     (globalThis as { benchsideDb?: unknown }).benchsideDb = undefined;
+    (globalThis as { benchsideHealthDb?: unknown }).benchsideHealthDb = undefined;
     ({ proxy } = await import("@/proxy"));
     ({ reportDatabaseUnavailable: report } = await import("@/lib/server/db-health"));
   });
 
   afterAll(async () => {
     await link.cut().catch(() => undefined);
-    const pool = (globalThis as { benchsideDb?: { destroy: () => Promise<void> } }).benchsideDb;
-    await pool?.destroy();
+    const pools = globalThis as { benchsideDb?: { destroy: () => Promise<void> }; benchsideHealthDb?: { destroy: () => Promise<void> } };
+    await pools.benchsideDb?.destroy();
+    await pools.benchsideHealthDb?.destroy();
   });
 
   it("passes pages through while the database answers", async () => {
