@@ -24,7 +24,8 @@ const SECONDS = Number(process.env.BENCH_PAGE_SECONDS ?? 15);
  */
 async function prerenderedPath(stack: Stack): Promise<{ path: string; what: string }> {
   const manifest = JSON.parse(fs.readFileSync(path.join(ROOT, DIST, "prerender-manifest.json"), "utf8")) as { routes: Record<string, unknown>; dynamicRoutes: Record<string, unknown> };
-  const routes = Object.keys(manifest.routes).filter((r) => !r.startsWith("/_") && !/\.(txt|xml|ico|png|json)$/.test(r) && !r.includes("opengraph"));
+  // Pages only: not the build's files with a name ending (icons, the manifest, robots.txt…) or social cards.
+  const routes = Object.keys(manifest.routes).filter((r) => !r.startsWith("/_") && !/\.[A-Za-z0-9]+$/.test(r) && !r.includes("opengraph"));
   const chosen = routes.find((r) => r.startsWith("/s/")) ?? routes[0];
   if (chosen) return { path: chosen, what: `prerendered page ${chosen}` };
   let note = "";
