@@ -1,4 +1,5 @@
 import fs from "node:fs";
+import http from "node:http";
 import path from "node:path";
 import AxeBuilder from "@axe-core/playwright";
 import { type Page, expect, test } from "@playwright/test";
@@ -162,11 +163,9 @@ test.describe("as a technician", () => {
     expect(exe.status()).toBe(422);
     expect((await exe.json()).error.message).toMatch(/not a photo/i);
 
-    const tooBig = await page.request.post(`/api/jobs/${job}/photos`, {
-      multipart: { photo: { name: "huge.jpg", mimeType: "image/jpeg", buffer: Buffer.alloc(50 * 1024 * 1024) } },
-    });
-    expect(tooBig.status()).toBe(413);
-    expect((await tooBig.json()).error.message).toMatch(/20 MB/);
+    const tooBig = await postEarlyAnswered(page, `/api/jobs/${job}/photos`, "photo", "huge.jpg", 50 * 1024 * 1024);
+    expect(tooBig.status).toBe(413);
+    expect(JSON.parse(tooBig.body).error.message).toMatch(/20 MB/);
 
     // Another shop's job looks like no job at all.
     const elsewhere = await page.request.post(`/api/jobs/${publicIds.get("saltmarsh/1")}/entries`, { data: para([{ type: "text", text: "hello" }]) });
@@ -177,6 +176,45 @@ test.describe("as a technician", () => {
     expect(JSON.stringify(timeline)).not.toContain("x".repeat(1000));
   });
 });
+
+/**
+ * A multipart upload of `bytes` zero bytes that reads the answer while still sending, as a browser
+ * does: the server refuses an over-size body from its declared length and closes the connection,
+ * so a client that only reads once it has sent everything gets a broken pipe instead of the 413.
+ */
+async function postEarlyAnswered(page: Page, route: string, field: string, filename: string, bytes: number): Promise<{ status: number; body: string }> {
+  const url = new URL(route, process.env.APP_URL ?? "http://localhost:3110");
+  const cookie = (await page.context().cookies(url.origin)).map((c) => `${c.name}=${c.value}`).join("; ");
+  const boundary = `----benchside${Date.now().toString(36)}`;
+  const head = Buffer.from(`--${boundary}\r\nContent-Disposition: form-data; name="${field}"; filename="${filename}"\r\nContent-Type: image/jpeg\r\n\r\n`);
+  const tail = Buffer.from(`\r\n--${boundary}--\r\n`);
+  return new Promise((resolve, reject) => {
+    const req = http.request(url, {
+      method: "POST",
+      headers: { cookie, origin: url.origin, "content-type": `multipart/form-data; boundary=${boundary}`, "content-length": String(head.length + bytes + tail.length) },
+    });
+    req.on("response", (res) => {
+      let body = "";
+      res.setEncoding("utf8");
+      res.on("data", (chunk: string) => (body += chunk));
+      res.on("end", () => resolve({ status: res.statusCode ?? 0, body }));
+    });
+    // Once the server has answered and closed, the rest of the body has nowhere to go: expected.
+    req.on("error", (error: NodeJS.ErrnoException) => (["EPIPE", "ECONNRESET"].includes(error.code ?? "") ? undefined : reject(error)));
+    req.write(head);
+    const chunk = Buffer.alloc(1024 * 1024);
+    let sent = 0;
+    const more = () => {
+      while (sent < bytes && !req.destroyed) {
+        const n = Math.min(chunk.length, bytes - sent);
+        sent += n;
+        if (!req.write(n === chunk.length ? chunk : chunk.subarray(0, n))) return void req.once("drain", more);
+      }
+      if (!req.destroyed) req.end(tail);
+    };
+    more();
+  });
+}
 
 async function expectNoViolations(page: Page) {
   // WCAG 2.2 AA through axe-core's rule tags (see accessibility.spec.ts).
