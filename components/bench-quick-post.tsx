@@ -116,23 +116,35 @@ export function BenchQuickPost({ jobPath, on, mayRecord }: Props) {
   );
 }
 
-/** Whether a text field has the focus (the phone's keyboard is up): the bar then makes room. */
+/**
+ * Whether a text field has the focus (the phone's keyboard is up): the bar then makes room. It comes
+ * back a moment after the field is left, not at once: leaving a field by pressing the form's own
+ * button (Post, Save) must not put the bar under the finger before the press ends and take the click.
+ */
 function useTyping(): boolean {
   const [typing, setTyping] = useState(false);
   useEffect(() => {
+    let later: ReturnType<typeof setTimeout> | undefined;
     const check = () => {
       const el = document.activeElement;
-      setTyping(!!el && (el.matches(TEXT_ENTRY) || (el as HTMLElement).isContentEditable));
+      const now = !!el && (el.matches(TEXT_ENTRY) || (el as HTMLElement).isContentEditable);
+      clearTimeout(later);
+      if (now) setTyping(true);
+      else later = setTimeout(() => setTyping(false), BAR_RETURN_MS);
     };
     document.addEventListener("focusin", check);
     document.addEventListener("focusout", check);
     return () => {
+      clearTimeout(later);
       document.removeEventListener("focusin", check);
       document.removeEventListener("focusout", check);
     };
   }, []);
   return typing;
 }
+
+/** Longer than a press (a tap is ~100–300 ms), short enough that the bar seems to return at once. */
+const BAR_RETURN_MS = 600;
 
 const TEXT_ENTRY = "input:not([type=checkbox]):not([type=radio]):not([type=file]):not([type=button]):not([type=submit]), textarea, select";
 

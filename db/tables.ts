@@ -54,6 +54,8 @@ export type ShopsTable = {
   sms_from: string | null;
   sms_quiet_start: number;
   sms_quiet_end: number;
+  /** 37: the languages the shop texts in (SET text, "en" or "en,es,fr"; English always; lib/texts.ts shopLanguages). */
+  sms_languages: string;
   created_at: Date;
 };
 
@@ -629,6 +631,10 @@ export type FindingLinesTable = {
   rate_minor: number | null;
   amount_minor: number | null;
   taxable: Flag;
+  /** 38: an approved line whose part left the job: not billed; who, when and why (issue 19). */
+  withdrawn_at: Date | null;
+  withdrawn_by_user_id: number | null;
+  withdrawn_reason: string | null;
 };
 
 export type ApprovalRequestsTable = {

@@ -195,3 +195,12 @@ export const LINE_SOURCE_LABEL: Record<InvoiceLine["source"], string> = {
   core_charge: "Core charge, refunded when the old part goes back",
   core_credit: "Core returned: charge refunded",
 };
+
+/**
+ * An approved line taken off after the owner's answer because its part left the job (issue 19,
+ * migration 38): never billed. `reason` is the desk's words (it may name the other job).
+ */
+export type WithdrawnLine = { no: number; description: string; netMinor: number; reason: string; at: string; by: string | null };
+
+/** What, why, who and when, as the record and the draft print it; `when` already formatted. */
+export const withdrawnText = (w: Pick<WithdrawnLine, "description" | "reason" | "by">, when: string) => `${w.description}: ${w.reason} (${w.by ? `${w.by}, ` : ""}${when})`;

@@ -55,3 +55,13 @@ export function statusMoveError(from: JobStatus, to: JobStatus): string | null {
     ? `A job that is "${JOB_STATUS_LABEL[from]}" can't go straight to "${JOB_STATUS_LABEL[to]}". It can go to ${options.join(", ")}.`
     : `A job that is "${JOB_STATUS_LABEL[from]}" is closed; check the machine in again as a new job.`;
 }
+
+/**
+ * Once the owner has collected the machine the job is closed (a comeback is a new job): nothing
+ * new lands on it. The words for a refusal of that kind, `closed` saying what is shut ("its
+ * teardown log is closed"), or null while the job is open. One wording for every writer that
+ * stops at collection (journal posts, bench records, the teardown log).
+ */
+export function collectedJobRefusal(status: JobStatus, closed: string): string | null {
+  return status === "picked_up" ? `This job was collected, so ${closed}. Note anything new on the machine's next job.` : null;
+}

@@ -1,7 +1,7 @@
 // Teardown steps change with a trail (issue 18 §7): each edit, torque change or delete keeps the
 // step as it was, and the bench page says who changed what, when, and what it was before.
 // Pure: no I/O, safe in the browser and on the server.
-import type { JobStatus } from "@/lib/job-status";
+import { type JobStatus, collectedJobRefusal } from "@/lib/job-status";
 import { type TorqueUnit, isTorqueUnit } from "@/lib/torque";
 import { type Lubrication, isLubrication, stepTorqueNote } from "@/lib/torque-special";
 
@@ -26,7 +26,7 @@ export type StepRevision = { stepId: number; seq: number; version: number; chang
  * new job), so the log they took home with it no longer changes. Null: changes are allowed.
  */
 export function teardownLockReason(status: JobStatus): string | null {
-  return status === "picked_up" ? "This job was collected, so its teardown log is closed. Note anything new on the machine's next job." : null;
+  return collectedJobRefusal(status, "its teardown log is closed");
 }
 
 /** Angle stages as stored: JSON text of degrees, e.g. "[90,90]". */

@@ -58,10 +58,31 @@ export function toE164(raw: string | null | undefined, currency: string): string
 // one confirmation may follow an opt-out, then nothing until the person opts in again. The words are
 // the standard set (STOP, END, CANCEL, UNSUBSCRIBE, QUIT, STOPALL; START, UNSTOP; HELP, INFO) plus
 // REVOKE and OPT OUT, which 47 CFR § 64.1200(a)(12) also names — section numbers from memory, unverified.
-// Shops have no language setting today: every shop uses English only. The lists are kept per language
-// so a shop language adds its own words and answers here.
+//
+// A shop texts in English and, if it says so in its settings (shops.sms_languages), Spanish and French.
+// Each language has its own words and answers; an answer goes in the language of the word the owner
+// sent. An opt-out word is honoured in every language we know, whatever the shop ticked: someone who
+// asked to stop is never texted again because the shop didn't expect their language. START and HELP
+// of a language the shop doesn't text in are read as a reply (a question on the owner's job, which
+// lands in the desk inbox, where a person reads it).
+// - es: ALTO (stop) and AYUDA (help) are the words carriers expect of Spanish-language US short codes,
+//   answered in Spanish (Twilio, "Industry Standards for Spanish-language Short Code campaigns",
+//   support.twilio.com article 223182348). INICIO (start) is listed as the Spanish START by an SMS
+//   platform's reserved keywords (support.textizen.com, "Reserved Keywords"); no carrier guideline for it
+//   was found. PARAR (stop): common carrier practice, no published source.
+// - fr: ARRET (stop) and AIDE (help) are mandatory on Canadian short codes and answered in French (CWTA
+//   Canadian Common Short Code Application Guidelines v3.9, as quoted by Infobip's "Canadian mandatory
+//   keyword responses" and Twilio's "Mandatory keyword responses required in Canada"; the CWTA text
+//   itself was not read). INFO, the fifth mandatory word, is English's already. No French opt-in word is
+//   named there, so French has none: START, always on, opts back in, and the French answers say so.
+// Matching ignores case and accents (ARRÊT = ARRET, "Ayuda" = AYUDA), spaces around and closing
+// punctuation, Spanish opening marks (¡ ¿) too.
 
-export type Language = "en";
+export const LANGUAGES = ["en", "es", "fr"] as const;
+export type Language = (typeof LANGUAGES)[number];
+/** The languages a shop may add to English, which it always texts in. */
+export const EXTRA_LANGUAGES = ["es", "fr"] as const satisfies readonly Language[];
+export const LANGUAGE_LABEL: Record<Language, string> = { en: "English", es: "Spanish", fr: "French" };
 export type Keyword = "stop" | "start" | "help";
 
 export const KEYWORDS: Record<Language, Record<Keyword, string[]>> = {
@@ -70,37 +91,83 @@ export const KEYWORDS: Record<Language, Record<Keyword, string[]>> = {
     start: ["START", "UNSTOP", "YES"],
     help: ["HELP", "INFO"],
   },
+  es: {
+    stop: ["ALTO", "PARAR"],
+    start: ["INICIO"],
+    help: ["AYUDA"],
+  },
+  fr: {
+    stop: ["ARRÊT"],
+    start: [],
+    help: ["AIDE"],
+  },
 };
 
-/** The languages a shop texts in. Shops have no language setting yet, so English only. */
-export function shopLanguages(): Language[] {
-  return ["en"];
-}
-
-/** Whether a whole message (spaces, case and trailing punctuation aside) is a keyword in one of `languages`. */
-export function keywordOf(body: string, languages: Language[], optedOut: boolean): { keyword: Keyword; language: Language } | null {
-  const word = body
-    .normalize("NFKC")
+/** A whole message as a keyword is compared: no accents, upper case, single spaces, no closing (or Spanish opening) punctuation. */
+export function keywordForm(text: string): string {
+  return text
+    .normalize("NFKD")
+    .replace(/\p{M}/gu, "")
     .trim()
+    .replace(/^[¡¿\s]+/u, "")
     .replace(/[.!?\s]+$/u, "")
     .replace(/\s+/g, " ")
     .toUpperCase();
+}
+
+/**
+ * The languages a shop texts in, English first, from its `sms_languages` (MariaDB SET text, "en,es").
+ * Unknown or missing values leave English alone.
+ */
+export function shopLanguages(shop: { sms_languages: string | null | undefined }): Language[] {
+  const stored = new Set((shop.sms_languages ?? "").split(","));
+  return LANGUAGES.filter((l) => l === "en" || stored.has(l));
+}
+
+/**
+ * Whether a whole message (spaces, case, accents and closing punctuation aside) is a keyword in one of
+ * `languages`, or an opt-out word in any language we know.
+ */
+export function keywordOf(body: string, languages: Language[], optedOut: boolean): { keyword: Keyword; language: Language } | null {
+  const word = keywordForm(body);
   for (const language of languages) {
     for (const keyword of ["stop", "start", "help"] as const) {
       // "YES" opts back in only a number that is opted out; otherwise it is a reply to the shop.
       const words = KEYWORDS[language][keyword].filter((w) => keyword !== "start" || w !== "YES" || optedOut);
-      if (words.includes(word)) return { keyword, language };
+      if (words.some((w) => keywordForm(w) === word)) return { keyword, language };
     }
   }
-  return null;
+  const stop = LANGUAGES.find((language) => KEYWORDS[language].stop.some((w) => keywordForm(w) === word));
+  return stop ? { keyword: "stop", language: stop } : null;
 }
 
-export const KEYWORD_REPLY: Record<Language, Record<Keyword, (shop: { name: string; phone: string | null; email: string | null }) => string>> = {
+type ShopContact = { name: string; phone: string | null; email: string | null };
+/** "Call X or e-mail Y. ", in each language, or nothing when the shop gave neither. */
+const reach = (s: ShopContact, call: string, or: string, write: string) => {
+  const ways = [s.phone ? `${call} ${s.phone}` : null, s.email ? `${write} ${s.email}` : null].filter(Boolean);
+  if (!ways.length) return "";
+  const joined = ways.join(` ${or} `);
+  return ` ${joined.charAt(0).toUpperCase()}${joined.slice(1)}.`;
+};
+
+// The Spanish and French answers are our own wording (checked by nobody whose first language it is:
+// from memory, unverified), kept to letters of the GSM 7-bit alphabet (3GPP TS 23.038) where a word
+// allowed it, so they don't fall back to the 70-character UCS-2 segments.
+export const KEYWORD_REPLY: Record<Language, Record<Keyword, (shop: ShopContact) => string>> = {
   en: {
     stop: (s) => `${s.name}: you won't get more texts from us. Reply START to get them again.`,
     start: (s) => `${s.name}: texts about your jobs are on again. Reply STOP to stop, HELP for help. Message and data rates may apply.`,
-    help: (s) =>
-      `${s.name}: texts about your repair jobs.${s.phone ? ` Call ${s.phone}` : ""}${s.email ? `${s.phone ? " or" : ""} e-mail ${s.email}` : ""}. Reply STOP to stop. Message and data rates may apply.`,
+    help: (s) => `${s.name}: texts about your repair jobs.${reach(s, "call", "or", "e-mail")} Reply STOP to stop. Message and data rates may apply.`,
+  },
+  es: {
+    stop: (s) => `${s.name}: ya no le enviaremos mensajes. Responda INICIO para recibirlos de nuevo.`,
+    start: (s) => `${s.name}: vuelve a recibir mensajes sobre sus trabajos. Responda ALTO para dejar de recibirlos, AYUDA para ayuda. Pueden aplicarse cargos por mensajes y datos.`,
+    help: (s) => `${s.name}: mensajes sobre sus reparaciones.${reach(s, "llame al", "o", "escriba a")} Responda ALTO para dejar de recibirlos. Pueden aplicarse cargos por mensajes y datos.`,
+  },
+  fr: {
+    stop: (s) => `${s.name}: vous ne recevrez plus de messages de notre part. Répondez START pour les recevoir à nouveau.`,
+    start: (s) => `${s.name}: vous recevez à nouveau les messages sur vos travaux. Répondez ARRET pour ne plus les recevoir, AIDE pour de l'aide. Des frais de messages et de données peuvent s'appliquer.`,
+    help: (s) => `${s.name}: messages sur vos réparations.${reach(s, "appelez le", "ou", "écrivez à")} Répondez ARRET pour ne plus les recevoir. Des frais de messages et de données peuvent s'appliquer.`,
   },
 };
 

@@ -1,5 +1,6 @@
 import { METHOD_LABEL } from "@/lib/approvals";
 import { formatMoney } from "@/lib/money";
+import { withdrawnText } from "@/lib/invoices";
 import type { AuthorisationEntry } from "@/lib/server/authorised-work";
 
 // Who approved what, when and how: printed on the invoice as the consent rules ask a shop to keep
@@ -42,6 +43,11 @@ export function AuthorisationRecord({ record, timeZone, headingLevel = 2 }: { re
             {e.declined.length ? (
               <p>
                 <span className="font-semibold">Declined:</span> {e.declined.map((l) => l.description).join("; ")}.
+              </p>
+            ) : null}
+            {e.withdrawn.length ? (
+              <p data-testid="withdrawn-lines">
+                <span className="font-semibold">Withdrawn since, not billed:</span> {e.withdrawn.map((w) => withdrawnText(w, formatWhen(w.at, timeZone))).join(" ")}
               </p>
             ) : null}
             <p className="text-sm text-ink-muted">

@@ -2,7 +2,7 @@ import { CircleAlert, CircleCheck, Receipt } from "lucide-react";
 import type { ReactNode } from "react";
 import { Badge, type BadgeTone } from "@/components/ui";
 import { LINE_KIND_LABEL } from "@/lib/approvals";
-import { INVOICE_STATUS_LABEL, type InvoiceStatus, LINE_SOURCE_LABEL, PAYMENT_KIND_LABEL, PAYMENT_METHOD_LABEL } from "@/lib/invoices";
+import { INVOICE_STATUS_LABEL, type InvoiceStatus, LINE_SOURCE_LABEL, PAYMENT_KIND_LABEL, PAYMENT_METHOD_LABEL, withdrawnText } from "@/lib/invoices";
 import { formatHours, formatMoney, formatQuantity } from "@/lib/money";
 import type { InvoiceView, ViewLine } from "@/lib/server/invoice-views";
 import { AuthorisationRecord, formatWhen } from "./authorisation-record";
@@ -118,6 +118,11 @@ export function InvoiceDocument({ view, children, lineAction }: { view: InvoiceV
           </tbody>
         </table>
       </div>
+      {view.linesWithdrawn.length ? (
+        <p className="print-hide text-sm" data-testid="lines-withdrawn">
+          <span className="font-semibold">Approved but not billed, its part gone from this job:</span> {view.linesWithdrawn.map((w) => withdrawnText(w, formatWhen(w.at, tz))).join(" ")}
+        </p>
+      ) : null}
 
       <table className="ml-auto w-full max-w-sm border-collapse" data-testid="invoice-totals">
         <caption className="sr-only">Totals</caption>

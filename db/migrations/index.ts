@@ -35,6 +35,8 @@ import * as invoiceCoreLines from "./20261205_33_invoice_core_lines";
 import * as textMessages from "./20261205_34_text_messages";
 import * as jobQuestions from "./20261205_35_job_questions";
 import * as idempotencyKeys from "./20261205_36_idempotency_keys";
+import * as textLanguages from "./20261206_37_text_languages";
+import * as lineWithdrawals from "./20261206_38_line_withdrawals";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -77,6 +79,8 @@ const MIGRATIONS: Migration[] = [
   { name: "20261205_34_text_messages", module: textMessages },
   { name: "20261205_35_job_questions", module: jobQuestions },
   { name: "20261205_36_idempotency_keys", module: idempotencyKeys },
+  { name: "20261206_37_text_languages", module: textLanguages },
+  { name: "20261206_38_line_withdrawals", module: lineWithdrawals },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

@@ -269,8 +269,9 @@ export async function listTeardownSteps({ shopId, jobId }: JobKey, k: Knex = db(
   }));
 }
 
+/** In a transaction of its own, so a replayed request's key (lib/server/idempotency.ts) commits with the change. */
 async function updateStep({ shopId, jobId, stepId }: JobKey & { stepId: number }, change: Knex.DbRecord<TeardownStepsTable>): Promise<boolean> {
-  const n = await db()("teardown_steps").where({ id: stepId, shop_id: shopId, job_id: jobId }).whereNull("deleted_at").update(change);
+  const n = await transaction((tx) => tx("teardown_steps").where({ id: stepId, shop_id: shopId, job_id: jobId }).whereNull("deleted_at").update(change));
   return n === 1;
 }
 

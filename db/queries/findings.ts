@@ -187,6 +187,11 @@ async function writeChildren(tx: Knex.Transaction, shopId: number, findingId: nu
       rate_minor: line.rateMinor,
       amount_minor: line.amountMinor,
       taxable: line.taxable,
+      // A line saved again stands again (only possible before the owner answers): syncLineParts
+      // gives it a part once more if its part had left the job (migration 38).
+      withdrawn_at: null,
+      withdrawn_by_user_id: null,
+      withdrawn_reason: null,
     };
     if (line.id) {
       const n = await tx("finding_lines").where({ id: line.id, shop_id: shopId, finding_id: findingId }).update(row);

@@ -3,6 +3,7 @@ import type { Knex } from "knex";
 import { insertEntry } from "@/db/queries/entries";
 import { partBody } from "@/db/queries/bench-parts";
 import { type JobMoves, type PartKey, lockJobs, settleAll, snap } from "@/db/queries/part-orders";
+import { withdrawLine } from "@/db/queries/parts-pricing";
 import { transaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
 import { OUTSTANDING_PART_STATUSES, PART_STATUS_LABEL } from "@/lib/bench";
@@ -13,7 +14,9 @@ import { OUTSTANDING_PART_STATUSES, PART_STATUS_LABEL } from "@/lib/bench";
 // - "swap": the other job's awaited part like this one (same part number, or same description)
 //   comes to the first job instead (its order now arrives for the first job), and the moved part
 //   takes its place on the other job, for the same work;
-// - "done": nothing more (the first job no longer needs it).
+// - "done": nothing more is awaited (the first job no longer needs it). A priced line the part was
+//   for is withdrawn on the first job (who, when, why): its owner isn't billed for a part that
+//   isn't in their machine, though their answer stays on record.
 // Both jobs keep a history row and a timeline entry, and both settle their waiting-on-parts state.
 
 export type AfterMove = "needs" | "swap" | "done";
@@ -98,6 +101,8 @@ export async function movePartToJob(
       newPartId = Number(id);
       await tx("job_part_events").insert({ shop_id: p.shopId, part_id: newPartId, from_status: null, to_status: "needed", changed_by_user_id: p.userId, note: `Replaces the part moved to job ${p.toNumber}` });
       await insertEntry(tx, { shopId: p.shopId, jobId: p.fromJobId, kind: "part", authorId: p.userId, body: partBody(snap(part, null), "added", null, "needed") });
+    } else if (part.finding_line_id !== null) {
+      await withdrawLine(tx, { shopId: p.shopId, lineId: Number(part.finding_line_id), userId: p.userId, reason: `Its part went to job ${p.toNumber}; this job no longer needs it.` });
     }
     const awaitedOnFirst = swapped ? Number(swapped.id) : newPartId;
     const jobMoves = await settleAll(tx, p, [

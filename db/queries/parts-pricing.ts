@@ -150,20 +150,47 @@ export async function answerLineParts(tx: Knex.Transaction, p: JobKey & { reques
 }
 
 export type RequestLinePart = { partId: number; description: string; status: PartStatus; ownerAnswer: JobPartsTable["owner_answer"] };
+/** A line taken off after the owner's answer because its part left the job: who, when and why. */
+export type LineWithdrawal = { reason: string; at: string; by: string | null };
+export type RequestLineStates = { parts: Map<string, RequestLinePart>; withdrawn: Map<string, LineWithdrawal> };
 
-/** The part behind each request line of a job, keyed as lib/server/authorised-work.ts lineKey ("publicId#no"). */
-export async function partsOfRequestLines({ shopId, jobId }: JobKey, k: Knex = db()): Promise<Map<string, RequestLinePart>> {
-  const [requests, parts] = await Promise.all([
+/**
+ * The part behind each request line of a job, and the lines withdrawn since, both keyed as
+ * lib/server/authorised-work.ts lineKey ("publicId#no").
+ */
+export async function partsOfRequestLines({ shopId, jobId }: JobKey, k: Knex = db()): Promise<RequestLineStates> {
+  const [requests, parts, withdrawn] = await Promise.all([
     k("approval_requests").where({ shop_id: shopId, job_id: jobId }).whereNotNull("line_ids").select("public_id", "line_ids"),
     k("job_parts").where({ shop_id: shopId, job_id: jobId }).whereNotNull("finding_line_id").select("id", "finding_line_id", "description", "status", "owner_answer"),
+    k("finding_lines as l")
+      .join("findings as f", "f.id", "l.finding_id")
+      .leftJoin("users as u", "u.id", "l.withdrawn_by_user_id")
+      .where({ "f.shop_id": shopId, "f.job_id": jobId })
+      .whereNotNull("l.withdrawn_at")
+      .select("l.id", "l.withdrawn_at", "l.withdrawn_reason", "u.name as by_name"),
   ]);
   const byLine = new Map(parts.map((r) => [Number(r.finding_line_id), { partId: Number(r.id), description: String(r.description), status: r.status as PartStatus, ownerAnswer: r.owner_answer ?? null }]));
-  const out = new Map<string, RequestLinePart>();
+  const gone = new Map<number, LineWithdrawal>(
+    withdrawn.map((r) => [Number(r.id), { reason: String(r.withdrawn_reason ?? ""), at: new Date(r.withdrawn_at).toISOString(), by: r.by_name == null ? null : String(r.by_name) }]),
+  );
+  const out: RequestLineStates = { parts: new Map(), withdrawn: new Map() };
   for (const r of requests) {
     ((json(r.line_ids) as number[] | null) ?? []).forEach((lineId, i) => {
+      const key = `${String(r.public_id)}#${i + 1}`;
+      const w = gone.get(Number(lineId));
+      if (w) out.withdrawn.set(key, w);
       const part = byLine.get(Number(lineId));
-      if (part) out.set(`${String(r.public_id)}#${i + 1}`, part);
+      if (part) out.parts.set(key, part);
     });
   }
   return out;
+}
+
+/**
+ * Withdraws a priced line whose part left the job for good (lib/server/part-orders.ts movePart,
+ * "this job no longer needs it"): the owner's answer stays on record, the line is no longer billed
+ * nor counted in what was authorised. In the caller's transaction, under the job's lock.
+ */
+export async function withdrawLine(tx: Knex.Transaction, p: { shopId: number; lineId: number; userId: number; reason: string }): Promise<void> {
+  await tx("finding_lines").where({ id: p.lineId, shop_id: p.shopId }).whereNull("withdrawn_at").update({ withdrawn_at: tx.fn.now(3), withdrawn_by_user_id: p.userId, withdrawn_reason: p.reason.slice(0, 300) });
 }

@@ -5,15 +5,22 @@ import { db } from "@/db/client";
 import { claimDueRows } from "@/db/queries/outbox";
 import type { CustomersTable, JobsTable, MachinesTable, ShopsTable, TextOutboxTable } from "@/db/tables";
 import { describeMachine } from "@/lib/machine";
-import type { ConsentHow, NotifyChannels, OptOutHow, TextDelivery, TextFiled } from "@/lib/texts";
+import type { ConsentHow, Language, NotifyChannels, OptOutHow, TextDelivery, TextFiled } from "@/lib/texts";
 
 // The SQL of text messages: consent on the customer row (and its log), the texts' outbox with the
 // delivery status the service reports, and what came in.
 
-export type ShopTextSettings = Pick<ShopsTable, "id" | "name" | "phone" | "email" | "timezone" | "currency" | "sms_from" | "sms_quiet_start" | "sms_quiet_end">;
+export type ShopTextSettings = Pick<ShopsTable, "id" | "name" | "phone" | "email" | "timezone" | "currency" | "sms_from" | "sms_quiet_start" | "sms_quiet_end" | "sms_languages">;
 
 export async function getShopTextSettings(k: Knex, shopId: number): Promise<ShopTextSettings | undefined> {
-  return k("shops").where({ id: shopId }).first("id", "name", "phone", "email", "timezone", "currency", "sms_from", "sms_quiet_start", "sms_quiet_end");
+  return k("shops").where({ id: shopId }).first("id", "name", "phone", "email", "timezone", "currency", "sms_from", "sms_quiet_start", "sms_quiet_end", "sms_languages");
+}
+
+/** The languages setting of these shops (an inbound text's: lib/texts.ts shopLanguages reads it). */
+export async function shopsTextLanguages(k: Knex, shopIds: number[]): Promise<Pick<ShopsTable, "id" | "sms_languages">[]> {
+  if (!shopIds.length) return [];
+  const rows: Pick<ShopsTable, "id" | "sms_languages">[] = await k("shops").whereIn("id", shopIds).select("id", "sms_languages");
+  return rows.map((r) => ({ id: Number(r.id), sms_languages: r.sms_languages }));
 }
 
 export type CustomerTextState = Pick<CustomersTable, "id" | "shop_id" | "email" | "phone" | "notify_channels" | "text_consent_phone" | "text_consent_at" | "text_consent_how" | "text_opt_out_at" | "text_opt_out_how">;
@@ -68,7 +75,33 @@ export async function shopsForNumber(k: Knex, { to, defaultFrom }: { to: string;
   return rows.map((r) => Number(r.id));
 }
 
-/** The newest job of these customers not yet picked up (where a reply belongs). */
+/**
+ * The job a reply from `ownerPhone` to `senderPhone` answers: that of the newest text the app sent
+ * from that number to that number (and that reached it, as far as the carrier said) about a job of
+ * these customers (the job's owner still) that is not yet picked up. Null when no such text went; the caller then takes the newest open job.
+ */
+export async function lastTextedOpenJob(
+  k: Knex,
+  { customers, ownerPhone, senderPhone }: { customers: { shopId: number; customerId: number }[]; ownerPhone: string; senderPhone: string },
+): Promise<{ shopId: number; jobId: number; customerId: number } | null> {
+  if (!customers.length) return null;
+  // The (shop_id, customer_id) foreign-key index narrows this to the owner's own texts.
+  const row: Pick<JobsTable, "shop_id" | "id" | "customer_id"> | undefined = await k("text_outbox as t")
+    .join("jobs as j", (j) => j.on("j.shop_id", "=", "t.shop_id").andOn("j.id", "=", "t.job_id").andOn("j.customer_id", "=", "t.customer_id"))
+    .where((q) => {
+      for (const c of customers) q.orWhere((w) => w.where({ "t.shop_id": c.shopId, "t.customer_id": c.customerId }));
+    })
+    .where({ "t.to_phone": ownerPhone, "t.from_phone": senderPhone, "t.state": "sent" })
+    // A text the carrier reported it could not deliver is none the owner can be answering.
+    .where((q) => q.whereNull("t.delivery").orWhereNotIn("t.delivery", ["undelivered", "failed"]))
+    .whereNot("j.status", "picked_up")
+    .orderBy("t.sent_at", "desc")
+    .orderBy("t.id", "desc")
+    .first("j.shop_id", "j.id", "j.customer_id");
+  return row ? { shopId: Number(row.shop_id), jobId: Number(row.id), customerId: Number(row.customer_id) } : null;
+}
+
+/** The newest job of these customers not yet picked up (where a reply belongs when no text about a job went). */
 export async function latestOpenJob(k: Knex, customers: { shopId: number; customerId: number }[]): Promise<{ shopId: number; jobId: number; customerId: number } | null> {
   if (!customers.length) return null;
   const row = await k("jobs")
@@ -215,8 +248,11 @@ export async function jobTextFacts(k: Knex, { shopId, jobId }: { shopId: number;
   return { publicId: String(row.public_id), customerId: Number(row.customer_id), email: row.email ?? null, machine: describeMachine({ year: row.year, make: row.make, model: row.model }) };
 }
 
-export async function updateShopTexts(k: Knex, { shopId, smsFrom, quietStart, quietEnd }: { shopId: number; smsFrom: string | null; quietStart: number; quietEnd: number }): Promise<void> {
-  await k("shops").where({ id: shopId }).update({ sms_from: smsFrom, sms_quiet_start: quietStart, sms_quiet_end: quietEnd });
+export async function updateShopTexts(
+  k: Knex,
+  { shopId, smsFrom, quietStart, quietEnd, languages }: { shopId: number; smsFrom: string | null; quietStart: number; quietEnd: number; languages: readonly Language[] },
+): Promise<void> {
+  await k("shops").where({ id: shopId }).update({ sms_from: smsFrom, sms_quiet_start: quietStart, sms_quiet_end: quietEnd, sms_languages: languages.join(",") });
 }
 
 /** A page's read of one customer's text state (outside a transaction). */

@@ -7,7 +7,7 @@ import type { JobStatus } from "../../lib/job-status";
 import type { MachineKind } from "../../lib/machine";
 import type { StaffRole } from "../../lib/permissions";
 import { seedApprovalsDemo } from "./demo-approvals";
-import { seedBench } from "./demo-bench";
+import { seedBench, seedBenchWork } from "./demo-bench";
 import { seedInboxDemo } from "./demo-inbox";
 import { seedPortfolioDemo } from "./demo-portfolio";
 import { calendarDay, daysFromNow } from "./demo-time";
@@ -297,6 +297,7 @@ export async function seedDemo(knex: Knex): Promise<void> {
       await tx("shops").where({ id: shopId }).update({ next_job_number: number });
       await seedBench(tx, { slug: shop.slug, timezone: shop.timezone, deskEmail: shop.staff.find((p) => p.role !== "technician")!.email, jobs: shop.jobs }, Number(shopId), (email) => userIds.get(email));
       await seedApprovalsDemo(tx, shop.slug, Number(shopId), (email) => userIds.get(email));
+      await seedBenchWork(tx, { slug: shop.slug, jobs: shop.jobs }, Number(shopId), (email) => userIds.get(email));
       await seedPortfolioDemo(tx, shop.slug, Number(shopId));
       await seedInboxDemo(tx, shop.slug, Number(shopId));
     }

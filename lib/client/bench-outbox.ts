@@ -1,5 +1,6 @@
 // The phone's outbox (issue 20 §2): posts made with no network — notes, photo sets, clips, torque
-// records, readings, status moves — are kept in IndexedDB with their files and a client-made
+// records, readings, the other bench records (chain wear, measurement sets, teardown steps and
+// their torque, reassembly ticks), status moves — are kept in IndexedDB with their files and a client-made
 // idempotency key, and sent in the order they were made once the network is back (also after the
 // tab was closed: the runner drains on every page load). The server honours the key, so a send
 // whose answer was lost is sent again safely. A refusal that needs a person (the job was
@@ -8,7 +9,7 @@
 // senders are passed in (lib/client/outbox-senders.ts), so the ordering rules are unit-tested.
 import { type DBSchema, type IDBPDatabase, openDB } from "idb";
 
-export type OutboxKind = "note" | "photos" | "clip" | "torque" | "reading" | "status";
+export type OutboxKind = "note" | "photos" | "clip" | "torque" | "reading" | "chain" | "measurements" | "teardown" | "step-torque" | "tick" | "replaced" | "status";
 
 /** A file kept with its post; `sentAs` is the server's id once it arrived (a photo), so a retry skips it. */
 export type QueuedFile = { name: string; type: string; size: number; blob: Blob; sentAs?: string };
@@ -36,8 +37,14 @@ export type OutboxItem = {
   /** Not before this time (ms), after a failed attempt. */
   nextAttemptAt: number;
   ticket?: ClipTicket;
+  /**
+   * The signed-in staff member who made it (users.id). Only they send it: on a shared phone the
+   * next person to sign in sees it as someone else's and may discard it, never send it as theirs.
+   * null (or missing, on items from before this was kept): nobody's, so never sent by itself.
+   */
+  by?: number | null;
 };
-export type NewOutboxItem = Pick<OutboxItem, "kind" | "job" | "label" | "payload"> & { files?: QueuedFile[]; key?: string };
+export type NewOutboxItem = Pick<OutboxItem, "kind" | "job" | "label" | "payload"> & { files?: QueuedFile[]; key?: string; by?: number | null };
 
 export type SendResult = { ok: true } | { ok: false; status: number; message: string };
 export type SendContext = {
@@ -51,6 +58,19 @@ interface OutboxDb extends DBSchema {
   items: { key: number; value: OutboxItem };
 }
 const DB_NAME = "benchside-outbox";
+
+// Who is signed in on this page: set by the staff layout (components/outbox-runner.tsx), read
+// when a post is queued (its `by`) and when the outbox is sent (only that person's posts go).
+let signedIn: number | null = null;
+export function setOutboxUser(userId: number | null): void {
+  if (signedIn === userId) return;
+  signedIn = userId;
+  // This page's views redraw (whose posts are whose) and its runner starts on that person's posts.
+  changes.dispatchEvent(new Event("change"));
+}
+export const outboxUser = (): number | null => signedIn;
+/** Whether `userId` may send this item: only whoever queued it. */
+export const isMine = (item: Pick<OutboxItem, "by">, userId: number | null): boolean => userId !== null && item.by === userId;
 
 /** A fresh idempotency key; getRandomValues where randomUUID is missing (a page served over plain http on the shop's network). */
 export function newIdempotencyKey(): string {
@@ -128,6 +148,7 @@ function database() {
 export async function enqueue(input: NewOutboxItem, now = Date.now()): Promise<OutboxItem> {
   const item: Omit<OutboxItem, "seq"> = {
     key: input.key ?? newIdempotencyKey(),
+    by: input.by !== undefined ? input.by : signedIn,
     kind: input.kind,
     job: input.job,
     label: input.label,
@@ -176,13 +197,16 @@ type Progress = (seq: number, fraction: number) => void;
 /**
  * Sends what is waiting, oldest first, one at a time. A sent post leaves the outbox; a refused one
  * is held with the server's message and the next one goes; a post that could not get through stops
- * the run (so later posts don't overtake it) and is tried again after a growing pause.
+ * the run (so later posts don't overtake it) and is tried again after a growing pause. Only the
+ * posts of the person signed in (`userId`, else the page's) are sent; anyone else's stay as they are.
  */
-export async function drainOutbox(send: Sender, opts: { now?: () => number; onProgress?: Progress; networkBack?: boolean } = {}): Promise<DrainReport> {
+export async function drainOutbox(send: Sender, opts: { now?: () => number; onProgress?: Progress; networkBack?: boolean; userId?: number | null } = {}): Promise<DrainReport> {
   const now = opts.now ?? Date.now;
   const report: DrainReport = { sent: 0, held: 0, failed: 0, nextAttemptAt: null };
+  const userId = opts.userId !== undefined ? opts.userId : signedIn;
   for (const item of await listOutbox()) {
-    if (item.state === "held") continue;
+    // Held: waits for a person. Someone else's: waits for them to sign in on this phone.
+    if (item.state === "held" || !isMine(item, userId)) continue;
     // The network just came back: what waited out a pause goes now rather than at its time.
     if (item.nextAttemptAt > now() && !opts.networkBack) {
       report.nextAttemptAt = item.nextAttemptAt;

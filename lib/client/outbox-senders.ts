@@ -2,13 +2,25 @@
 // every request that writes: route handlers only (app/api/jobs/[job]/…), since a server action's
 // id changes between builds and a phone may replay a post made before an update.
 import { CLIP_CHUNK_KIB } from "@/lib/clips";
-import type { OutboxItem, QueuedFile, SendContext, SendResult, Sender } from "./bench-outbox";
+import { type ClipTicket, type OutboxItem, type QueuedFile, type SendContext, type SendResult, type Sender, failureOutcome } from "./bench-outbox";
 import { askOffset, sendFrom } from "./resume-upload";
 import { uploadFile } from "./upload";
 
 type Answer<T> = { ok: true; data: T } | { ok: false; status: number; message: string };
 
-const PATHS: Record<"note" | "torque" | "reading" | "status", string> = { note: "entries", torque: "torque-records", reading: "readings", status: "status" };
+/** The route (under /api/jobs/:job/) of each kind posted as one JSON body. */
+const PATHS: Record<Exclude<OutboxItem["kind"], "photos" | "clip">, string> = {
+  note: "entries",
+  torque: "torque-records",
+  reading: "readings",
+  chain: "chain-readings",
+  measurements: "measurement-sets",
+  teardown: "teardown-steps",
+  "step-torque": "step-torques",
+  tick: "reassembly-ticks",
+  replaced: "reassembly-replaced",
+  status: "status",
+};
 
 /** POST JSON with the item's key; a refusal's per-field messages are said in the message (no field is on screen). */
 async function postKeyed<T>(url: string, body: unknown, key: string): Promise<Answer<T>> {
@@ -58,6 +70,30 @@ async function upchunkFromStart(url: string, file: File, ctx: SendContext): Prom
   });
 }
 
+/** Whether the clip's entry is still on the job's timeline (the newest entry up to its id is it); null when that couldn't be asked. */
+async function clipEntryKept(job: string, entryId: number): Promise<boolean | null> {
+  try {
+    const res = await fetch(`/api/jobs/${job}/timeline?order=desc&after=${entryId + 1}&limit=1`, { headers: { accept: "application/json" } });
+    if (!res.ok) return null;
+    const page = (await res.json()) as { entries?: { id: number }[] };
+    return page.entries?.[0]?.id === entryId;
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * The upload URL turned the clip down. Deleting a clip's entry closes its upload at the video
+ * service (lib/server/journal.ts): when that is why, the item says so rather than the service's words.
+ */
+async function uploadRefused(item: OutboxItem, ticket: ClipTicket, name: string, refused: { status: number; message: string }): Promise<SendResult> {
+  if (refused.status === 0) return { ok: false, ...refused };
+  if ((await clipEntryKept(item.job, ticket.entryId)) === false) {
+    return { ok: false, status: 409, message: `The clip's entry was deleted from the job's timeline meanwhile, so the rest of ${name} was not uploaded.` };
+  }
+  return { ok: false, status: refused.status, message: `The video service no longer takes this clip's upload (${refused.message}). Discard it and post ${name} again.` };
+}
+
 async function sendClip(item: OutboxItem, ctx: SendContext): Promise<SendResult> {
   const f = item.files[0];
   if (!f) return { ok: false, status: 422, message: "The clip's file is missing from this phone." };
@@ -70,13 +106,12 @@ async function sendClip(item: OutboxItem, ctx: SendContext): Promise<SendResult>
   }
   const asked = await askOffset(ticket.uploadUrl, f.size);
   if (asked.state === "complete") return { ok: true };
-  if (asked.state === "refused") {
-    const message = asked.status === 0 ? asked.message : `The video service no longer takes this clip's upload (${asked.message}). Discard it and post ${f.name} again.`;
-    return { ok: false, status: asked.status, message };
-  }
+  if (asked.state === "refused") return uploadRefused(item, ticket, f.name, asked);
   if (asked.offset === 0) return upchunkFromStart(ticket.uploadUrl, asFile(f), ctx);
   ctx.progress(asked.offset / f.size);
-  return sendFrom(ticket.uploadUrl, f.blob, asked.offset, { chunkBytes: CLIP_CHUNK_KIB * 1024, onProgress: ctx.progress });
+  const sent = await sendFrom(ticket.uploadUrl, f.blob, asked.offset, { chunkBytes: CLIP_CHUNK_KIB * 1024, onProgress: ctx.progress });
+  // Turned down part-way (not a dropped connection or a busy service, which are tried again).
+  return sent.ok || failureOutcome(sent.status) === "retry" ? sent : uploadRefused(item, ticket, f.name, sent);
 }
 
 /** The outbox's one sender: picks the route by kind. */

@@ -144,7 +144,7 @@ export const FORM_FIELDS = {
   frequency: { schema: frequencySchema, visible: FORM_VISIBLE.frequency, banner: ["job", "frequency"] },
   // Texts (issue 21): the owner's texts page; the shop's settings section.
   textChoice: { schema: textChoiceSchema, visible: FORM_VISIBLE.textChoice, banner: ["job"] },
-  textSettings: { schema: textSettingsSchema, visible: ["smsFrom", "quietStart", "quietEnd"], banner: ["shop"] },
+  textSettings: { schema: textSettingsSchema, visible: ["smsFrom", "quietStart", "quietEnd", "languageEs", "languageFr"], banner: ["shop"] },
   storyConsent: { schema: storyConsentFields, visible: FORM_VISIBLE.storyConsent, banner: ["job", "decision", "shownHash"] },
   // The portfolio (app/(staff)/shop/[shop]/portfolio/_components/): "items" is the story editor's JSON, filled by the page.
   storyCuration: { schema: storyCurationSchema, visible: FORM_VISIBLE.storyCuration, banner: [...shop, "story", "version", "items"] },
@@ -176,6 +176,8 @@ export const NOT_FORMS: Record<string, string> = {
   "app/(staff)/shop/[shop]/inbox/actions.ts#markAllReadAction": "a button; its hidden fields copy the list's filter and newest item",
   "app/(staff)/shop/[shop]/jobs/[number]/bench/actions.ts#tickStepAction": "a reassembly tick (ActionButton): job, step and value are filled by the page",
   "app/(staff)/shop/[shop]/jobs/[number]/bench/actions.ts#markReplacedAction": "a reassembly toggle (ActionButton): job, step and value are filled by the page",
+  "POST /api/jobs/[job]/reassembly-ticks": "the reassembly tick sent later by the phone's outbox: job, step and value were filled by the page; a refusal shows on the queued item",
+  "POST /api/jobs/[job]/reassembly-replaced": "the “replaced with new” toggle sent later by the phone's outbox: job, step and value were filled by the page; a refusal shows on the queued item",
   "app/(staff)/shop/[shop]/jobs/[number]/bench/part-order-actions.ts#coreReturnedAction": "“Core returned” (ActionButton): job and part are filled by the page",
   "app/(staff)/shop/[shop]/jobs/[number]/bench/part-order-actions.ts#specialOrderAction": "a special-order toggle (ActionButton): job, part and value are filled by the page",
   "app/(staff)/shop/[shop]/parts/actions.ts#receiveOrderAction": "“Order received” (ActionButton): shop and order are filled by the page",

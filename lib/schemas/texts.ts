@@ -1,9 +1,9 @@
 // The texts forms' inputs (lib/texts.ts holds the words): the owner's choice and consent on their page,
-// and the shop's sender number and quiet hours in the settings.
+// and the shop's sender number, quiet hours and languages in the settings.
 import { z } from "zod";
 import { shopRef } from "@/lib/schemas/bench";
 import { jobPublicIdField } from "@/lib/schemas/following";
-import { NOTIFY_CHANNELS, parseClock } from "@/lib/texts";
+import { LANGUAGE_LABEL, NOTIFY_CHANNELS, parseClock } from "@/lib/texts";
 
 export const textChoiceSchema = z
   .object({
@@ -27,6 +27,13 @@ const clock = (what: string) =>
     .trim()
     .refine((s) => parseClock(s) !== null, `Write the time ${what} as HH:MM, such as 21:00.`);
 
+/** A language's box in the settings (English is always on, so has none): ticked or not, nothing else. */
+const languageBox = (language: "es" | "fr") =>
+  z
+    .union([z.literal("on"), z.literal("")], { error: `Tick the box to text in ${LANGUAGE_LABEL[language]} too, or leave it empty.` })
+    .optional()
+    .transform((v) => v === "on");
+
 export const textSettingsSchema = shopRef.extend({
   smsFrom: z
     .string()
@@ -36,5 +43,7 @@ export const textSettingsSchema = shopRef.extend({
     .optional(),
   quietStart: clock("quiet hours start"),
   quietEnd: clock("quiet hours end"),
+  languageEs: languageBox("es"),
+  languageFr: languageBox("fr"),
 });
 export type TextSettingsInput = z.infer<typeof textSettingsSchema>;

@@ -12,6 +12,7 @@ import { formatFixed, roundHalfUp } from "@/lib/rounding";
 import type { ChainReadingInput, ReadingInput, TeardownStepInput, TorqueRecordInput } from "@/lib/schemas/bench";
 import { type NumberInput, readMeasuredField, readNumberField, readOptMeasuredField, readOptNumberField } from "@/lib/schemas/number";
 import type { JobAccess } from "@/lib/server/access";
+import { refuseIfCollected } from "@/lib/server/open-job";
 import { passSchedule } from "@/lib/tightening-passes";
 import { supportsCrossPattern } from "@/lib/tightening-order";
 import { type TorqueUnit, convertTorque, torqueUnitLabel } from "@/lib/torque";
@@ -72,6 +73,7 @@ export type TorqueRecordData = Omit<TorqueRecordInput, "specValue" | "appliedVal
 };
 
 export async function recordTorque(actor: Actor, { job }: JobAccess, input: TorqueRecordData) {
+  refuseIfCollected(job);
   const settings = await getBenchSettings({ shopId: job.shopId });
   const shop = await getShopBySlug({ slug: job.shopSlug });
   const style = numberStyleFor(shop?.currency);
@@ -134,6 +136,7 @@ function readMeasure(field: string, input: NumberInput, style: NumberStyle, what
 }
 
 export async function recordReading(actor: Actor, { job }: JobAccess, input: ReadingData) {
+  refuseIfCollected(job);
   const style = await shopNumberStyle(job.shopSlug);
   const value = readMeasure("value", input.value, style, "The reading", input.unit);
   const min = input.min == null || input.min === "" ? null : readMeasure("min", input.min, style, "The minimum", input.unit);
@@ -170,6 +173,7 @@ export type ChainReadingData = Omit<Numbers<ChainReadingInput, "pitchMm" | "meas
   countChecked?: boolean;
 };
 export async function recordChainReading(actor: Actor, { job }: JobAccess, input: ChainReadingData) {
+  refuseIfCollected(job);
   const style = await shopNumberStyle(job.shopSlug);
   const pitchMm = readNumberField("pitchMm", input.pitchMm, style, { what: "The chain pitch (mm)", min: 1, max: 100 });
   const measuredMm = readNumberField("measuredMm", input.measuredMm, style, { what: "The measured length (mm)", min: 1, max: 100_000 });
@@ -203,6 +207,7 @@ export async function recordChainReading(actor: Actor, { job }: JobAccess, input
 }
 
 export async function addTeardownStep(actor: Actor, { job }: JobAccess, input: TeardownStepInput) {
+  refuseIfCollected(job);
   if (input.photo && !(await jobHasPhoto({ shopId: job.shopId, jobId: job.id, publicId: input.photo }))) {
     throw new AppError("invalid", "Choose one of this job's posted photos.", { photo: ["Choose one of this job's posted photos."] });
   }

@@ -7,6 +7,7 @@ import type { Actor } from "@/lib/permissions";
 import { firstIssue, videoEventSchema } from "@/lib/schemas/webhooks";
 import { appUrl } from "@/lib/server/config";
 import type { JobAccess } from "@/lib/server/access";
+import { refuseIfCollected } from "@/lib/server/open-job";
 import { cancelDirectUpload, createDirectUpload, mux } from "@/lib/server/video";
 
 /**
@@ -15,6 +16,7 @@ import { cancelDirectUpload, createDirectUpload, mux } from "@/lib/server/video"
  * file straight to the upload URL, in resumable chunks.
  */
 export async function startClipUpload(actor: Actor, { job }: JobAccess, clip: NewClip) {
+  refuseIfCollected(job);
   const limits = await getClipLimits({ shopId: job.shopId });
   const problem = clipLimitProblem(clip, limits);
   if (problem) throw new AppError("too_large", problem, { size: [problem] });

@@ -6,7 +6,7 @@ import { enclosingTransaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
 
 // Issue 20 §2: the posts a phone's outbox replays (a note, a photo set, a clip's upload ticket, a
-// torque record, a reading, a status move) carry a client-made `Idempotency-Key`. The first
+// torque record, a reading and the other bench records, a status move) carry a client-made `Idempotency-Key`. The first
 // request with a key runs and its answer is stored with the change, in one transaction; a replay
 // of the same key by the same person creates nothing and gets that answer again (status and
 // body); the same key with another request is refused (422). A request that fails writes nothing,

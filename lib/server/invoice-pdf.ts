@@ -1,7 +1,7 @@
 import "server-only";
 import PDFDocument from "pdfkit";
 import { LINE_KIND_LABEL, METHOD_LABEL } from "@/lib/approvals";
-import { INVOICE_STATUS_LABEL, LINE_SOURCE_LABEL, PAYMENT_KIND_LABEL, PAYMENT_METHOD_LABEL } from "@/lib/invoices";
+import { INVOICE_STATUS_LABEL, LINE_SOURCE_LABEL, PAYMENT_KIND_LABEL, PAYMENT_METHOD_LABEL, withdrawnText } from "@/lib/invoices";
 import { formatHours, formatMoney, formatQuantity } from "@/lib/money";
 import type { InvoiceView, ViewLine } from "@/lib/server/invoice-views";
 
@@ -150,6 +150,7 @@ export async function renderInvoicePdf(view: InvoiceView): Promise<Buffer> {
     if (e.kind === "dropoff" && e.note) text(`Wording signed: ${pdfText(e.note)}`, LEFT, { width: RIGHT - LEFT });
     if (e.approved.length) text(`Approved: ${e.approved.map((l) => `${l.description} (${pdfText(formatMoney(l.netMinor, e.currency))})`).join("; ")}.`, LEFT, { width: RIGHT - LEFT });
     if (e.declined.length) text(`Declined: ${e.declined.map((l) => l.description).join("; ")}.`, LEFT, { width: RIGHT - LEFT });
+    if (e.withdrawn.length) text(`Withdrawn since, not billed: ${e.withdrawn.map((w) => pdfText(withdrawnText(w, when(w.at, tz)))).join(" ")}`, LEFT, { width: RIGHT - LEFT });
     text(`${e.kind === "dropoff" ? "Authorised up to" : "Authorised total"} ${pdfText(formatMoney(e.authorisedTotalMinor, e.currency))}${e.kind === "dropoff" ? " before tax" : ""} · ${e.wantsPartsBack ? "asked for the replaced parts back" : "did not ask for the parts back"} · record ${e.shownHash.slice(0, 12)}`, LEFT, { width: RIGHT - LEFT });
     doc.moveDown(0.5);
   }

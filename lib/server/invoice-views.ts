@@ -37,8 +37,16 @@ export type InvoiceView = {
   missingAuthorised: number;
   /** Approved parts not fitted yet, so not billed (issue 19); the desk's view only. */
   partsNotFitted: AuthorisedWork["partsNotFitted"];
+  /** Approved lines withdrawn because their part left the job (issue 19): never billed; the desk's view only. */
+  linesWithdrawn: AuthorisedWork["linesWithdrawn"];
   currency: string;
 };
+
+/** What the owner reads of a withdrawn line: not the other job it went to, nor who took it off. */
+export const OWNER_WITHDRAWN_REASON = "Its part wasn't fitted to this machine after all, so it isn't billed.";
+
+const forOwner = (record: AuthorisationEntry[]): AuthorisationEntry[] =>
+  record.map((e) => (e.withdrawn.length ? { ...e, withdrawn: e.withdrawn.map((w) => ({ ...w, reason: OWNER_WITHDRAWN_REASON, by: null })) } : e));
 
 export async function invoiceView(jobId: number, audience: "shop" | "owner"): Promise<InvoiceView> {
   const h = (await getInvoiceHeader({ jobId }))!;
@@ -99,10 +107,11 @@ export async function invoiceView(jobId: number, audience: "shop" | "owner"): Pr
     })),
     deposits,
     balance: balanceOf(invoice?.totalMinor ?? 0, payments),
-    record: work.record,
+    record: audience === "owner" ? forOwner(work.record) : work.record,
     openRequests: work.openRequests,
     missingAuthorised: live?.status === "draft" ? [...work.lines, ...cores].filter((l) => !onInvoice.has(lineKey(l))).length : 0,
     partsNotFitted: audience === "shop" ? work.partsNotFitted : [],
+    linesWithdrawn: audience === "shop" ? work.linesWithdrawn : [],
     currency: live?.currency ?? h.shop.currency,
   };
 }

@@ -12,6 +12,7 @@ import { parseNote } from "@/lib/rich-text/note";
 import { transaction } from "@/db/transaction";
 import { deletePhotoRenditions, processPhoto, storePhotoRenditions } from "@/lib/server/photos";
 import { cancelDirectUpload, mux } from "@/lib/server/video";
+import { refuseIfCollected } from "@/lib/server/open-job";
 
 export async function readTimeline(actor: Actor, access: JobAccess, query: { order: "asc" | "desc"; after?: number; limit: number; as?: "owner" }) {
   // Only staff may choose to read as the owner; a follower never reads more than a follower's view.
@@ -22,6 +23,7 @@ export async function readTimeline(actor: Actor, access: JobAccess, query: { ord
 }
 
 export async function postEntry(actor: Actor, { job }: JobAccess, input: NewEntry): Promise<{ id: number }> {
+  refuseIfCollected(job);
   if (input.kind === "note") {
     const doc = parseNote(input.note);
     // A transaction, so a shared note and its notice to followers are written together.
@@ -77,6 +79,7 @@ async function removeClipMedia({ shopId, entryId }: { shopId: number; entryId: n
 
 /** One uploaded file: checked, stripped and resized, stored, then recorded as a pending photo. */
 export async function uploadPhoto(actor: Actor, { job }: JobAccess, file: File) {
+  refuseIfCollected(job);
   const processed = await processPhoto(Buffer.from(await file.arrayBuffer()), { name: file.name });
   const stored = await storePhotoRenditions(processed, { shopId: job.shopId });
   try {

@@ -9,6 +9,7 @@ import { type NumberInput, readMeasuredField } from "@/lib/schemas/number";
 import type { JobAccess } from "@/lib/server/access";
 import { shopNumberStyle } from "@/lib/server/bench";
 import { createFinding } from "@/lib/server/findings";
+import { refuseIfCollected } from "@/lib/server/open-job";
 
 // Measurement sets from the bench page: every number read by the one parser in the shop's style
 // (never below zero, decimals kept), every item judged by the reading rule, the set written whole
@@ -45,6 +46,7 @@ export type MeasurementSetData = Omit<MeasurementSetInput, "min" | "max" | "exha
 
 /** Reads, judges and stores a set; refuses the whole set (nothing written) on any bad field. */
 export async function recordMeasurementSet(actor: Actor, { job }: JobAccess, input: MeasurementSetData) {
+  refuseIfCollected(job);
   const style = await shopNumberStyle(job.shopSlug);
   const info = MEASUREMENT_KIND_INFO[input.kind];
   const unit = input.unit ?? info.units[0]!;

@@ -1,12 +1,27 @@
 import "server-only";
-import { customersByTextPhone, grantTextConsent, inboundSeen, insertInbound, insertText, latestOpenJob, lockTextByRef, recordStatusEvent, revokeTextConsent, applyTextDelivery, getShopTextSettings, shopsForNumber } from "@/db/queries/texts";
+import {
+  applyTextDelivery,
+  customersByTextPhone,
+  getShopTextSettings,
+  grantTextConsent,
+  inboundSeen,
+  insertInbound,
+  insertText,
+  lastTextedOpenJob,
+  latestOpenJob,
+  lockTextByRef,
+  recordStatusEvent,
+  revokeTextConsent,
+  shopsForNumber,
+  shopsTextLanguages,
+} from "@/db/queries/texts";
 import { type Tx, transaction } from "@/db/transaction";
 import { AppError } from "@/lib/errors";
 import { smsConfig } from "@/lib/server/config";
 import { reportUndeliveredText } from "@/lib/server/inbox";
 import { recordOwnerQuestion } from "@/lib/server/questions";
 import { verifySmsSignature } from "@/lib/server/sms";
-import { KEYWORD_REPLY, type Keyword, keywordOf, type Language, shopLanguages, type TextDelivery } from "@/lib/texts";
+import { KEYWORD_REPLY, type Keyword, keywordOf, LANGUAGES, type Language, shopLanguages, type TextDelivery } from "@/lib/texts";
 
 // What the SMS service POSTs to us, form-encoded and signed with X-Twilio-Signature (checked by the
 // SDK's validator against the URL as we published it). A forged or altered request is refused (401)
@@ -76,7 +91,18 @@ async function answerKeyword(tx: Tx, { shopId, customerId, keyword, language, to
   });
 }
 
-/** POST /api/webhooks/sms/inbound — a text from an owner: a keyword, or a question on their newest open job. */
+/**
+ * The languages whose keywords a text to this number is read in: those of the shops that answer it.
+ * A carrier sees a number, not a shop, so on a number two shops share (the default sender) a word is a
+ * keyword when either shop texts in its language.
+ */
+async function languagesOf(tx: Tx, shopIds: number[]): Promise<Language[]> {
+  const shops = await shopsTextLanguages(tx, shopIds);
+  const used = new Set<Language>(["en", ...shops.flatMap((s) => shopLanguages(s))]);
+  return LANGUAGES.filter((l) => used.has(l));
+}
+
+/** POST /api/webhooks/sms/inbound — a text from an owner: a keyword, or a question on the job it answers. */
 export async function receiveInboundText(req: Request, rawBody: string): Promise<WebhookAnswer> {
   const config = smsConfig();
   if (!config) throw new AppError("unavailable", "Texts are not configured (TWILIO_ACCOUNT_SID, TWILIO_AUTH_TOKEN).");
@@ -88,9 +114,9 @@ export async function receiveInboundText(req: Request, rawBody: string): Promise
     const shopIds = await shopsForNumber(tx, { to, defaultFrom: config.defaultFrom });
     const customers = await customersByTextPhone(tx, { shopIds, phone: from });
     const optedOut = customers.length > 0 && customers.every((c) => c.text_opt_out_at !== null);
-    const found = keywordOf(body, shopLanguages(), optedOut);
     // The shops that answer: those that know this number; else the one shop whose own number it is.
     const answering = customers.length ? [...new Set(customers.map((c) => c.shop_id))] : shopIds.length === 1 ? shopIds : [];
+    const found = keywordOf(body, await languagesOf(tx, answering), optedOut);
     const first = (shopId: number) => customers.find((c) => c.shop_id === shopId)?.id ?? null;
 
     if (found) {
@@ -109,7 +135,9 @@ export async function receiveInboundText(req: Request, rawBody: string): Promise
     }
 
     const listening = customers.filter((c) => c.text_opt_out_at === null).map((c) => ({ shopId: c.shop_id, customerId: c.id }));
-    const job = body.trim() ? await latestOpenJob(tx, listening) : null;
+    // The job the owner is answering: that of the last text we sent them from this number, while the
+    // job is open; else (no text about an open job went from it) their newest open job.
+    const job = body.trim() ? ((await lastTextedOpenJob(tx, { customers: listening, ownerPhone: from, senderPhone: to })) ?? (await latestOpenJob(tx, listening))) : null;
     if (!job) {
       await insertInbound(tx, { sid, shopId: answering[0] ?? null, customerId: answering[0] ? first(answering[0]) : null, jobId: null, from, to, body, filed: "unmatched" });
       return ignored(`inbound text ${sid} from a number with no open job here: kept unmatched`);

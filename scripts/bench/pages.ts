@@ -75,6 +75,9 @@ export async function pageBudgets(stack: Stack, data: BenchData, log: (s: string
   const staffUrl = `${stack.appUrl}/shop/copper-gulch/jobs/${data.pageJob.number}`;
   log(`pages: ${CONNECTIONS} connections, ${SECONDS} s each; baseline: ${base.what}`);
   const baseline = await load(`${stack.appUrl}${base.path}`, null);
+  // Not a budget: the floor under the job pages' ratios. The owner's list of machines is the lightest
+  // page rendered per request (three statements: the session and its lists), so no job page gets under it.
+  const floor = await load(`${stack.appUrl}/my`, ownerCookie);
   const customer = await load(customerUrl, ownerCookie);
   const staff = await load(staffUrl, staffCookie);
   const fmt = (name: string, l: Load) =>
@@ -83,6 +86,8 @@ export async function pageBudgets(stack: Stack, data: BenchData, log: (s: string
     `Job pages (${CONNECTIONS} connections, ${SECONDS} s each after a 3 s warm-up, autocannon):`,
     `  baseline: ${base.what}`,
     fmt("baseline", baseline),
+    fmt("floor: owner's list /my", floor),
+    `  floor: the lightest page rendered per request is ${(floor.p99 / baseline.p99).toFixed(1)}× the baseline (not a budget; what no per-request page gets under)`,
     fmt(`customer job page (${data.pageJob.publicId})`, customer),
     fmt(`staff job page (J-${data.pageJob.number})`, staff),
     `  budgets: customer p99 ≤ 3× baseline (2× is the goal), staff ≤ 5×`,

@@ -148,7 +148,11 @@ export async function openStack(log: (line: string) => void): Promise<Stack> {
       await serve("video-fake", [setup.bin.tsx, "fakes/video/server.ts"], `${video}/_fake/health`);
       await serve("payments-fake", [setup.bin.tsx, "fakes/payments/server.ts"], `http://127.0.0.1:${PORTS.payments}/_fake/health`);
       // node itself (not a wrapper) runs next start, so its pid is the server whose memory we read.
-      app = await serve("app", [setup.bin.next, "start", "-p", String(PORTS.app)], `${appUrl}/api/health`);
+      // BENCH_APP_NODE_ARGS: node flags for the app alone, to profile it under the bench's load, e.g.
+      // "--cpu-prof --cpu-prof-dir=/tmp/prof" (a V8 profile written when the bench stops it) or
+      // "--inspect=127.0.0.1:9339" (start and stop the profiler around one phase over the inspector).
+      const nodeArgs = (process.env.BENCH_APP_NODE_ARGS ?? "").split(/\s+/).filter(Boolean);
+      app = await serve("app", [...nodeArgs, setup.bin.next, "start", "-p", String(PORTS.app)], `${appUrl}/api/health`);
     },
     appPid() {
       if (!app?.pid) throw new Error("the app is not running");

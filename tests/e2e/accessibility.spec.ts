@@ -23,6 +23,8 @@ const SCREENS: { name: string; path: string; as?: Persona }[] = [
   { name: "customer list", path: "/shop/copper-gulch/customers", as: "writer" },
   { name: "customer search, nothing found", path: "/shop/copper-gulch/customers?q=nobody-by-this-name", as: "technician" },
   { name: "shop settings", path: "/shop/copper-gulch/settings", as: "owner" },
+  // The shop's parts on order (J-0002's seeded supplier order, one part back-ordered) above the form for needed parts.
+  { name: "parts on order", path: "/shop/copper-gulch/parts", as: "writer" },
   { name: "draft a finding", path: "/shop/copper-gulch/jobs/5/findings/new", as: "technician" },
   // The demo seed's one finding (db/seeds/demo-approvals.ts), priced and sent: the desk's view.
   { name: "finding with a request out", path: "/shop/copper-gulch/jobs/5/findings/1", as: "writer" },

@@ -2,13 +2,19 @@ import { execFileSync } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
+import AxeBuilder from "@axe-core/playwright";
 import { expect, test } from "@playwright/test";
-import { publicIdOf, sql } from "./db";
+import { newDemoJob, publicIdOf, sql } from "./db";
 import { JobPage } from "./pages/job-page";
 import { storageStatePath } from "./personas";
 
 const CLIPS = path.join(__dirname, "..", "fixtures", "clips");
 test.use({ storageState: storageStatePath("technician") });
+
+// Jobs made here are the demo owner's: removed afterwards, so the seed's counts hold.
+test.afterAll(async () => {
+  await sql("DELETE FROM jobs WHERE public_id LIKE 'CLIPSHR%'");
+});
 
 test("a clip goes up in 1 MB chunks through a failed chunk, turns playable by itself, gets a moment, and plays for the owner", async ({ browser }) => {
   test.setTimeout(150_000);
@@ -126,3 +132,58 @@ test("a clip longer than the shop allows is refused with a clear message before 
   }
 });
 
+test("share ticked after the clip was chosen: the clip comes out shared, and its player's controls pass axe at 390 px", async ({ page, browser }) => {
+  test.setTimeout(150_000);
+  const id = Date.now().toString(36);
+  const job = await newDemoJob("CLIPSHR", `Clip shared late ${id}`);
+  const jobPath = `/shop/copper-gulch/jobs/${job.number}`;
+  await new JobPage(page).open(jobPath);
+  const shareBox = page.getByLabel("Share with the owner now (otherwise shop only)");
+  await expect(async () => {
+    await page.getByRole("tab", { name: "Clip" }).click();
+    await expect(shareBox).toBeVisible({ timeout: 2000 });
+  }).toPass({ timeout: 30_000 });
+  // The file first, the share box after (the order that once left the clip shop-only).
+  await page.getByLabel("Choose clips").setInputFiles(path.join(CLIPS, "bench-idle.mp4"));
+  await expect(page.getByRole("list", { name: "Clips to post" }).getByText("Ready to post")).toBeVisible();
+  await shareBox.check();
+  await page.getByRole("button", { name: "Post 1 clip" }).click();
+  await expect(page.getByText(/1 clip on the way, shared with the owner/)).toBeVisible();
+  await expect(page.getByTestId("outbox-item")).toHaveCount(0, { timeout: 60_000 });
+  const entries = await sql("SELECT e.visibility FROM journal_entries e JOIN jobs j ON j.id = e.job_id WHERE j.public_id = ? AND e.kind = 'clip'", [job.publicId]);
+  expect(entries).toEqual([{ visibility: "shared" }]);
+  const clip = page.getByRole("article").filter({ hasText: "Clip, 0:03" });
+  await expect(clip).toBeVisible({ timeout: 60_000 });
+  await expect(clip.getByText("Shared with owner")).toBeVisible();
+
+  // The ready clip's controls (ours, on a plain <video>) on a phone, light and dark.
+  const phone = await browser.newContext({ storageState: storageStatePath("technician"), viewport: { width: 390, height: 844 } });
+  const small = await phone.newPage();
+  await small.goto(jobPath);
+  const article = small.getByRole("article").filter({ hasText: "Clip, 0:03" });
+  await article.scrollIntoViewIfNeeded();
+  // The player's code comes in its own chunk: its poster holds the place until then.
+  const player = article.getByRole("group", { name: /^Clip: / });
+  await expect(player.getByRole("button", { name: "Play" })).toBeVisible({ timeout: 20_000 });
+  await expect(player.getByRole("slider", { name: "Position in the clip" })).toBeVisible();
+  for (const colorScheme of ["light", "dark"] as const) {
+    await small.emulateMedia({ colorScheme });
+    const { violations } = await new AxeBuilder({ page: small }).withTags(["wcag2a", "wcag2aa", "wcag21a", "wcag21aa", "wcag22aa"]).analyze();
+    expect(violations.map((v) => `${colorScheme} ${v.id}: ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`)).toEqual([]);
+  }
+  await phone.close();
+});
+
+test("a text file picked as a clip is named at once with what clips take, and can't be posted", async ({ page }) => {
+  const bench = new JobPage(page);
+  await bench.open("/shop/copper-gulch/jobs/3");
+  await expect(async () => {
+    await page.getByRole("tab", { name: "Clip" }).click();
+    await expect(page.getByLabel("Choose clips")).toBeAttached({ timeout: 2000 });
+  }).toPass({ timeout: 30_000 });
+  await page.getByLabel("Choose clips").setInputFiles({ name: "notes.txt", mimeType: "text/plain", buffer: Buffer.from("Chain slack 30 mm, adjust before hand-back.\n") });
+  const picked = page.getByRole("list", { name: "Clips to post" });
+  await expect(picked).toContainText('"notes.txt" is a text file, not a video. Clips take video files (MP4, MOV, WebM, 3GP…) from the camera or the gallery.');
+  await expect(page.getByRole("button", { name: "Post clips" })).toBeDisabled();
+  await expect(page.getByTestId("outbox-item")).toHaveCount(0);
+});

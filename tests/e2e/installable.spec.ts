@@ -1,8 +1,10 @@
 import AxeBuilder from "@axe-core/playwright";
 import path from "node:path";
-import { type Browser, type BrowserContext, type Page, expect, test } from "@playwright/test";
+import { type Browser, type BrowserContext, type Locator, type Page, expect, test } from "@playwright/test";
+import { newDemoJob, sql } from "./db";
 import { SignInPage } from "./pages/sign-in-page";
 import { JobPage } from "./pages/job-page";
+import { plantOutboxItem, staffUserId } from "./outbox";
 import { STAFF, storageStatePath } from "./personas";
 import { pageKept, workerReady } from "./service-worker";
 
@@ -230,3 +232,100 @@ for (const colorScheme of ["light", "dark"] as const) {
     await context.close();
   });
 }
+
+test.describe("the outbox and the photo viewer at 390 px", () => {
+  // A job of its own (the demo owner's), removed afterwards so the seed's counts hold.
+  test.afterAll(async () => {
+    await sql("DELETE FROM jobs WHERE public_id LIKE 'INSTAX%'");
+  });
+
+  /**
+   * A button pressed straight after typing: on a phone the quick-post bar makes room while a field
+   * has the keyboard and comes back once it is left, a moment later, so the bar never lands under
+   * the press that left the field and takes its click (it did, before). Then the bar is back.
+   */
+  const pressAfterTyping = async (page: Page, button: Locator) => {
+    await expect(quickPost(page)).toBeHidden();
+    await button.click();
+    await expect(quickPost(page)).toBeVisible();
+  };
+
+  /** The tabs work once the page has hydrated: on a busy machine the first click can come before. */
+  const openTab = (page: Page, name: "Note" | "Photos") =>
+    expect(async () => {
+      await page.getByRole("tab", { name }).click();
+      await expect(page.getByRole("tab", { name })).toHaveAttribute("aria-selected", "true", { timeout: 2000 });
+    }).toPass({ timeout: 30_000 });
+
+  const scan = async (page: Page, what: string) => {
+    const { violations } = await new AxeBuilder({ page }).withTags(TAGS).analyze();
+    expect(violations.map((v) => `${what} ${v.id}: ${v.nodes.map((n) => n.target.join(" ")).join(", ")}`)).toEqual([]);
+  };
+
+  test("the open photo viewer, and 'Waiting to send' with a waiting, a refused and someone else's post beside 'Kept on this phone', have no WCAG 2.2 AA violations axe can find (light and dark)", async ({ browser }) => {
+    test.setTimeout(120_000);
+    const id = Date.now().toString(36);
+    const job = await newDemoJob("INSTAX", `Axe at 390 px ${id}`);
+    const jobPath = `/shop/copper-gulch/jobs/${job.number}`;
+    const { context, page } = await phone(browser);
+    const journal = new JobPage(page);
+    await journal.open(jobPath);
+    await openTab(page, "Photos");
+
+    // The photo viewer, open on a photo posted here.
+    await page.getByLabel("Take or choose photos").setInputFiles(PHOTO);
+    await expect(page.getByRole("list", { name: "Photos in this set" }).getByText("Uploaded")).toHaveCount(1);
+    const caption = `Viewer at 390 px ${id}`;
+    await page.getByLabel("Caption (optional)").fill(caption);
+    await pressAfterTyping(page, page.getByRole("button", { name: "Post 1 photo" }));
+    const photos = journal.entry(caption);
+    await expect(photos.locator("img")).toHaveCount(1);
+    await photos.getByRole("button", { name: "Open photo 1 of 1" }).click();
+    await expect(page.locator(".yarl__slide_image")).toBeVisible();
+    for (const scheme of ["light", "dark"] as const) {
+      await page.emulateMedia({ colorScheme: scheme });
+      await scan(page, `photo viewer (${scheme})`);
+    }
+    await page.keyboard.press("Escape");
+    await expect(page.locator(".yarl__slide_image")).toHaveCount(0);
+    await page.emulateMedia({ colorScheme: "light" });
+
+    // Someone who used this phone before left a post of theirs (never sent under this name).
+    await plantOutboxItem(page, {
+      key: `bo-e2e-${id}-other`,
+      kind: "note",
+      job: job.publicId,
+      label: "Note by someone else",
+      payload: { kind: "note", note: { type: "doc" }, visibility: "shop" },
+      by: (await staffUserId("technician")) + 100_000,
+    });
+    await page.reload();
+    await expect(page.getByRole("heading", { name: "Waiting to send (1)" })).toBeVisible();
+
+    // A note queued offline, then refused: the desk handed the machine back meanwhile.
+    await openTab(page, "Note");
+    await page.getByRole("textbox", { name: "Note", exact: true }).click();
+    await context.setOffline(true);
+    await page.keyboard.type(`Refused later ${id}`);
+    await pressAfterTyping(page, page.getByRole("button", { name: "Post note" }));
+    await expect(page.getByText(/Kept on this phone: the note is sent/)).toBeVisible();
+    await sql("UPDATE jobs SET status = 'picked_up' WHERE public_id = ?", [job.publicId]);
+    await context.setOffline(false);
+    const outbox = page.getByTestId("outbox-item");
+    await expect(outbox.filter({ hasText: "Not sent: This job was collected" })).toBeVisible({ timeout: 30_000 });
+    // A status move queued offline: waiting, with the form's "Kept on this phone" notice.
+    await context.setOffline(true);
+    const status = page.locator("form#post-status");
+    await status.getByLabel("Move to").selectOption({ label: "On the bench" });
+    await pressAfterTyping(page, status.getByRole("button", { name: "Change status" }));
+    await expect(status.getByText("Kept on this phone", { exact: true })).toBeVisible();
+    await expect(page.getByRole("heading", { name: "Waiting to send (3)" })).toBeVisible();
+    await expect(outbox.filter({ hasText: "Queued on this phone by another person" })).toBeVisible();
+    await expect(outbox.filter({ hasText: "Move to On the bench" }).getByText("Waiting", { exact: true })).toBeVisible();
+    for (const scheme of ["light", "dark"] as const) {
+      await page.emulateMedia({ colorScheme: scheme });
+      await scan(page, `waiting to send (${scheme})`);
+    }
+    await context.close();
+  });
+});

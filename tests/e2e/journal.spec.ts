@@ -4,7 +4,7 @@ import path from "node:path";
 import AxeBuilder from "@axe-core/playwright";
 import { type Page, expect, test } from "@playwright/test";
 import exifr from "exifr";
-import { sql } from "./db";
+import { newDemoJob, sql } from "./db";
 import { CheckInForm } from "./pages/check-in-form";
 import { JobPage } from "./pages/job-page";
 import { SignInPage } from "./pages/sign-in-page";
@@ -21,6 +21,7 @@ test.beforeAll(async () => {
 });
 
 test.afterAll(async () => {
+  await sql("DELETE FROM jobs WHERE public_id LIKE 'JRNLSHR%'");
   await sql("DELETE j FROM jobs j JOIN customers c ON c.id = j.customer_id WHERE c.email = ?", [ownerEmail]);
   await sql("DELETE FROM customers WHERE email = ?", [ownerEmail]);
 });
@@ -138,6 +139,45 @@ test.describe("as a technician", () => {
     await expect(entry).toBeVisible();
     await expect(entry).toContainText("Diagnosing");
     await expect(page.getByRole("region", { name: "Where it stands" })).toContainText("Diagnosing");
+  });
+
+  test("share ticked after the photos were chosen: the set comes out shared", async ({ page }) => {
+    const id = stamp();
+    const job = await newDemoJob("JRNLSHR", `Photos shared late ${id}`);
+    await new JobPage(page).open(`/shop/copper-gulch/jobs/${job.number}`);
+    // The tabs work once the page has hydrated: on a busy machine the first click can come before.
+    await expect(async () => {
+      await page.getByRole("tab", { name: "Photos" }).click();
+      await expect(page.getByRole("tab", { name: "Photos" })).toHaveAttribute("aria-selected", "true", { timeout: 2000 });
+    }).toPass({ timeout: 30_000 });
+    // The photo first (it uploads at once), the share box after.
+    await page.getByLabel("Take or choose photos").setInputFiles(path.join(FIXTURES, "plain.png"));
+    await expect(page.getByRole("list", { name: "Photos in this set" }).getByText("Uploaded")).toHaveCount(1);
+    await page.getByLabel("Share with the owner now (otherwise shop only)").check();
+    const caption = `Shared late ${id}`;
+    await page.getByLabel("Caption (optional)").fill(caption);
+    await page.getByRole("button", { name: "Post 1 photo" }).click();
+    const entry = new JobPage(page).entry(caption);
+    await expect(entry.locator("img")).toHaveCount(1);
+    await expect(entry.getByText("Shared with owner")).toBeVisible();
+    expect(await sql("SELECT e.visibility FROM journal_entries e JOIN jobs j ON j.id = e.job_id WHERE j.public_id = ? AND e.kind = 'photos'", [job.publicId])).toEqual([{ visibility: "shared" }]);
+  });
+
+  test("a PDF picked as a photo is named at once with what a set takes, and nothing is sent", async ({ page }) => {
+    await new JobPage(page).open("/shop/copper-gulch/jobs/3");
+    await expect(async () => {
+      await page.getByRole("tab", { name: "Photos" }).click();
+      await expect(page.getByRole("tab", { name: "Photos" })).toHaveAttribute("aria-selected", "true", { timeout: 2000 });
+    }).toPass({ timeout: 30_000 });
+    const uploads: string[] = [];
+    page.on("request", (r) => {
+      if (r.method() === "POST" && r.url().includes("/photos")) uploads.push(r.url());
+    });
+    await page.getByLabel("Take or choose photos").setInputFiles({ name: "estimate.pdf", mimeType: "application/pdf", buffer: Buffer.from("%PDF-1.4\n% not a photo\n") });
+    const set = page.getByRole("list", { name: "Photos in this set" });
+    await expect(set).toContainText('"estimate.pdf" is a PDF document, not a photo we can take. A photo set takes JPEG, PNG or WebP photos.');
+    await expect(page.getByRole("button", { name: "Post photos" })).toBeDisabled();
+    expect(uploads).toEqual([]);
   });
 
   test("bad input gets a clear answer and writes nothing", async ({ page }) => {

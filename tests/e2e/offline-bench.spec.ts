@@ -1,15 +1,17 @@
 // Issue 20 §2: posting from the bench with no network. Posts made offline wait in the phone's
 // outbox (IndexedDB), survive a reload, and go in order once the network is back, each exactly
-// once (idempotency keys); a clip upload cut off by the network or a reload carries on.
+// once (idempotency keys), bench records included; a clip upload cut off by the network or a reload carries on.
 // Needs the service worker of issue 20 §1 for the offline navigation and reload.
 import { execFileSync } from "node:child_process";
 import fs from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { type Page, expect, test } from "@playwright/test";
+import { type BrowserContext, type Page, expect, test } from "@playwright/test";
 import { newDemoJob, sql } from "./db";
+import { BenchPage } from "./pages/bench-page";
 import { JobPage } from "./pages/job-page";
 import { storageStatePath } from "./personas";
+import { outboxHolds, plantOutboxItem, staffUserId } from "./outbox";
 import { pageKept, workerReady } from "./service-worker";
 
 test.use({ storageState: storageStatePath("technician") });
@@ -20,7 +22,7 @@ const bodyText = (body: unknown) => (typeof body === "string" ? body : JSON.stri
 // The jobs made here are the demo owner's: removed afterwards, so the owner's and the board's
 // counts in owner.spec.ts and staff.spec.ts stay the seed's.
 test.afterAll(async () => {
-  await sql("DELETE FROM jobs WHERE public_id LIKE 'OFFL%' OR public_id LIKE 'OFFC%' OR public_id LIKE 'OFFR%'");
+  await sql("DELETE FROM jobs WHERE public_id LIKE 'OFFL%' OR public_id LIKE 'OFFC%' OR public_id LIKE 'OFFR%' OR public_id LIKE 'OFFB%'");
 });
 const FIXTURES = path.join(__dirname, "..", "fixtures", "photos");
 
@@ -125,6 +127,70 @@ test("offline: a note, a photo set, a 20 MB clip and a torque record each appear
   await expect.poll(() => player.evaluate((el) => (el as HTMLMediaElement).currentTime), { timeout: 15_000 }).toBeGreaterThan(0.5);
 });
 
+test("offline: a chain wear reading, a measurement set and a reassembly tick each land once after a reload and the network's return", async ({ page, context }) => {
+  test.setTimeout(180_000);
+  const id = Date.now().toString(36);
+  const job = await newDemoJob("OFFB", `Offline bench records ${id}`);
+  const benchPath = `/shop/copper-gulch/jobs/${job.number}/bench`;
+  const bench = new BenchPage(page);
+  await bench.open(benchPath);
+  // A step logged online, so the checklist has an item to tick offline.
+  const removed = `Offline clutch cover ${id}`;
+  await bench.logStep(removed, "Nine bolts, two lengths");
+  await workerReady(page);
+  await expect.poll(() => pageKept(page, benchPath), { timeout: 30_000 }).toBe(true);
+
+  await context.setOffline(true);
+  // Chain wear: the #520 pitch and 20 pitches are the form's own defaults.
+  const readings = page.getByRole("region", { name: "Readings", exact: true });
+  await readings.getByText("Chain wear helper").click();
+  await readings.getByLabel("Which chain (optional)").fill(`Offline drive chain ${id}`);
+  await readings.getByLabel("Measured length (mm)").fill("318");
+  await readings.getByRole("button", { name: "Log chain wear" }).click();
+  await expect(readings.getByText("Kept on this phone", { exact: true })).toBeVisible();
+
+  // Invented limit and values: only that the set arrives once is checked.
+  const sets = page.getByRole("region", { name: "Measurement sets", exact: true });
+  const form = sets.getByRole("form", { name: "Record a measurement set" });
+  await form.getByLabel("What was measured").selectOption({ label: "Leak-down" });
+  await form.getByLabel("Maximum", { exact: true }).fill("10");
+  await form.getByLabel(/^Where the limit comes from/).fill(`Offline manual ${id}`);
+  await form.getByLabel(/^Measured/).first().fill("4");
+  await form.getByRole("button", { name: "Log measurement set" }).click();
+  await expect(sets.getByText("Kept on this phone", { exact: true })).toBeVisible();
+
+  const item = bench.checklist(removed);
+  await item.getByRole("button", { name: `Mark done: ${removed}` }).click();
+  await expect(item.getByRole("button", { name: `Undo: ${removed}` })).toBeVisible();
+  await expect(item.getByText("Kept on this phone", { exact: true })).toBeVisible();
+  await expect(page.getByRole("heading", { name: "Waiting to send (3)" })).toBeVisible();
+
+  // Closed and opened again, still offline: all three wait, nothing was sent.
+  await page.reload();
+  await expect(page.getByRole("heading", { name: "Waiting to send (3)" })).toBeVisible();
+  const jobId = "(SELECT id FROM jobs WHERE public_id = ?)";
+  expect(await sql(`SELECT COUNT(*) AS n FROM journal_entries WHERE job_id = ${jobId} AND kind = 'reading'`, [job.publicId])).toEqual([expect.objectContaining({ n: 0 })]);
+  expect(await sql(`SELECT checked_at FROM teardown_steps WHERE job_id = ${jobId}`, [job.publicId])).toEqual([{ checked_at: null }]);
+
+  await context.setOffline(false);
+  await expect(page.getByTestId("outbox-item")).toHaveCount(0, { timeout: 60_000 });
+
+  // Exactly once each, in the order they were made: the step (online), the chain reading, the set.
+  const rows = await sql(`SELECT kind, body FROM journal_entries WHERE job_id = ${jobId} AND kind IN ('teardown', 'reading') ORDER BY id`, [job.publicId]);
+  expect(rows.map((r) => r.kind)).toEqual(["teardown", "reading", "reading"]);
+  expect(bodyText(rows[1]!.body)).toContain(`Offline drive chain ${id}`);
+  expect(bodyText(rows[2]!.body)).toContain(`Offline manual ${id}`);
+  expect(await sql(`SELECT COUNT(*) AS n FROM readings WHERE job_id = ${jobId}`, [job.publicId])).toEqual([expect.objectContaining({ n: 1 })]);
+  expect(await sql(`SELECT COUNT(*) AS n FROM measurement_sets WHERE job_id = ${jobId}`, [job.publicId])).toEqual([expect.objectContaining({ n: 1 })]);
+  const [step] = await sql(`SELECT checked_at, checked_by_user_id FROM teardown_steps WHERE job_id = ${jobId}`, [job.publicId]);
+  expect(step!.checked_at).not.toBeNull();
+  expect(step!.checked_by_user_id).not.toBeNull();
+  // Its only step back on, nothing else awaited: the tick moved the job to ready, once.
+  expect(await sql(`SELECT COUNT(*) AS n FROM job_status_changes WHERE job_id = ${jobId} AND to_status = 'ready'`, [job.publicId])).toEqual([expect.objectContaining({ n: 1 })]);
+  // The page shows what the server now holds.
+  await expect(bench.checklist(removed).getByRole("button", { name: `Undo: ${removed}` })).toBeVisible({ timeout: 15_000 });
+});
+
 // The upload itself, online throughout, with no service worker: a page it controls may hand its
 // requests to the worker, outside the page's network throttling and request events.
 test.describe("clip upload resume", () => {
@@ -217,4 +283,102 @@ test("a post the server refuses is held with its words, never dropped: retry or 
   await expect(held.getByText(/Not sent:/)).toBeVisible();
   await held.getByRole("button", { name: /Discard/ }).click();
   await expect(page.getByTestId("outbox-item")).toHaveCount(0);
+});
+
+// Issue 20 §2, the outbox away from the job pages and when the job moved on meanwhile. Jobs of
+// their own, removed afterwards like the ones above.
+test.describe("the outbox beyond the job page", () => {
+  test.afterAll(async () => {
+    await sql("DELETE FROM jobs WHERE public_id LIKE 'OFFS%' OR public_id LIKE 'OFFK%' OR public_id LIKE 'OFFX%'");
+  });
+
+  const notesOf = (publicId: string, text: string) =>
+    sql("SELECT COUNT(*) AS n FROM journal_entries e JOIN jobs j ON j.id = e.job_id WHERE j.public_id = ? AND e.kind = 'note' AND e.body LIKE ?", [publicId, `%${text}%`]).then(
+      (rows) => Number(rows[0]!.n),
+    );
+
+  async function queueNoteOffline(page: Page, context: BrowserContext, text: string) {
+    await openTab(page, "Note");
+    // The editor is fetched on the first touch of the note box: while still online.
+    await page.getByRole("textbox", { name: "Note", exact: true }).click();
+    await context.setOffline(true);
+    await page.keyboard.type(text);
+    await page.getByRole("button", { name: "Post note" }).click();
+    await expect(page.getByText(/Kept on this phone: the note is sent/)).toBeVisible();
+  }
+
+  test("a note queued on a job page that was then closed is sent from the board alone, once", async ({ page, context }) => {
+    test.setTimeout(90_000);
+    const id = Date.now().toString(36);
+    const job = await newDemoJob("OFFS", `Sent from the board ${id}`);
+    await new JobPage(page).open(`/shop/copper-gulch/jobs/${job.number}`);
+    const text = `Queued then closed ${id}`;
+    await queueNoteOffline(page, context, text);
+    expect(await outboxHolds(page)).toEqual([{ by: await staffUserId("technician"), state: "waiting" }]);
+    await page.close();
+
+    // The network is back; the app is opened where it starts (its manifest's /shop: the board).
+    await context.setOffline(false);
+    const board = await context.newPage();
+    await board.goto("/shop");
+    await expect(board).toHaveURL(/\/shop\/copper-gulch$/);
+    await expect(board.getByTestId("outbox")).toHaveCount(0); // no outbox panel here: only the runner
+    await expect.poll(() => notesOf(job.publicId, text), { timeout: 30_000 }).toBe(1);
+    await expect.poll(() => outboxHolds(board), { timeout: 10_000 }).toEqual([]);
+    // Nothing more goes later (a reload runs the runner again; the board's timer, another page).
+    await board.reload();
+    await board.waitForTimeout(2000);
+    expect(await notesOf(job.publicId, text)).toBe(1);
+  });
+
+  test("a note queued before the desk collected the job is not sent: the item says why, and discard clears it", async ({ page, context }) => {
+    test.setTimeout(90_000);
+    const id = Date.now().toString(36);
+    const job = await newDemoJob("OFFK", `Collected meanwhile ${id}`);
+    await new JobPage(page).open(`/shop/copper-gulch/jobs/${job.number}`);
+    const text = `Queued before the hand-back ${id}`;
+    await queueNoteOffline(page, context, text);
+    await expect(page.getByRole("heading", { name: "Waiting to send (1)" })).toBeVisible();
+    // Meanwhile the desk hands the machine back.
+    await sql("UPDATE jobs SET status = 'picked_up' WHERE public_id = ?", [job.publicId]);
+    await context.setOffline(false);
+    const held = outboxItem(page, "Note");
+    await expect(held.getByText("Not sent: This job was collected, so nothing more can be posted on it.", { exact: false })).toBeVisible({ timeout: 30_000 });
+    await expect(held.getByRole("button", { name: "Retry" })).toBeVisible();
+    expect(await notesOf(job.publicId, text)).toBe(0);
+    await held.getByRole("button", { name: "Discard Note" }).click();
+    await expect(page.getByTestId("outbox-item")).toHaveCount(0);
+    expect(await outboxHolds(page)).toEqual([]);
+    expect(await notesOf(job.publicId, text)).toBe(0);
+  });
+
+  test("a clip whose entry was deleted while its upload waited says so instead of sending the rest", async ({ page }) => {
+    test.setTimeout(90_000);
+    const id = Date.now().toString(36);
+    const job = await newDemoJob("OFFX", `Deleted clip ${id}`);
+    await new JobPage(page).open(`/shop/copper-gulch/jobs/${job.number}`);
+    // The clip's upload had begun (its ticket kept on the phone) when somebody deleted its entry,
+    // which closes the upload at the video service.
+    const made = await page.request.post(`/api/jobs/${job.publicId}/clips`, { data: { name: "bench.mp4", size: 2048, durationSeconds: 3, type: "video/mp4", visibility: "shop" } });
+    expect(made.status()).toBe(200);
+    const ticket = (await made.json()) as { clipId: string; entryId: number; uploadUrl: string };
+    expect((await page.request.delete(`/api/jobs/${job.publicId}/entries/${ticket.entryId}`, { data: { version: 1 } })).status()).toBe(200);
+    await plantOutboxItem(page, {
+      key: `bo-e2e-${id}-clip`,
+      kind: "clip",
+      job: job.publicId,
+      label: "Clip: bench.mp4",
+      payload: { name: "bench.mp4", size: 2048, durationSeconds: 3, type: "video/mp4", visibility: "shop" },
+      by: await staffUserId("technician"),
+      files: [{ name: "bench.mp4", type: "video/mp4", text: "x".repeat(2048) }],
+      ticket,
+    });
+    await page.reload();
+    const held = outboxItem(page, "Clip: bench.mp4");
+    await expect(held.getByText("Not sent: The clip's entry was deleted from the job's timeline meanwhile, so the rest of bench.mp4 was not uploaded.", { exact: false })).toBeVisible({
+      timeout: 30_000,
+    });
+    await held.getByRole("button", { name: "Discard Clip: bench.mp4" }).click();
+    await expect(page.getByTestId("outbox-item")).toHaveCount(0);
+  });
 });

@@ -1,7 +1,13 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import bcrypt from "bcryptjs";
 import { DEMO_PASSWORDS, seedIfEmpty } from "@/db/seeds/demo";
+import { ownerPartWaits } from "@/db/queries/part-orders";
+import { getMarkupRule } from "@/db/queries/parts-pricing";
+import { clearedPartsQuery } from "@/db/queries/workflow";
 import { JOB_STATUSES } from "@/lib/job-status";
+import { partWaitLines } from "@/lib/part-orders";
+import { authorisedWork } from "@/lib/server/authorised-work";
+import { sha256Hex } from "@/lib/server/approval-hash";
 import { freshDatabase } from "../support/db";
 
 describe("demo seed", () => {
@@ -63,5 +69,51 @@ describe("demo seed", () => {
     expect(String(parts[1]!.expected_on) > String(order.expected_on)).toBe(true);
     // The demo's board counts (tests/e2e/staff.spec.ts) don't move: the job was already waiting on parts.
     expect(job.status).toBe("waiting_parts");
+  });
+
+  it("prices parts by a markup and has J-0002's parts on work its owner approved: they hold the job and his page shows the wait (issue 19)", async () => {
+    const k = fresh.knex;
+    const shop = (await k("shops").where({ slug: "copper-gulch" }).first("id"))!;
+    // Markup on cost by bands: common trade practice, no published source.
+    expect(await getMarkupRule({ shopId: shop.id }, k)).toEqual({
+      kind: "bands",
+      bands: [
+        { upToMinor: 1000, percent: "100" },
+        { upToMinor: 5000, percent: "60" },
+        { upToMinor: null, percent: "35" },
+      ],
+    });
+    const job = (await k("jobs").where({ shop_id: shop.id, number: 2 }).first("id", "status"))!;
+    const key = { shopId: shop.id, jobId: job.id };
+    // Each part is its approved line's part, at the markup's price: $48.50 + 60 % = $77.60;
+    // $62.75 + 35 % = $84.7125 → $84.71 (half-up); $94.00 + 35 % = $126.90.
+    const parts = await k("job_parts").where({ job_id: job.id }).orderBy("id");
+    expect(parts.map((p) => [p.description, p.owner_answer, Number(p.sell_minor), p.finding_line_id !== null])).toEqual([
+      ["Cam chain", "approved", 7760, true],
+      ["Cam chain tensioner", "approved", 8471, true],
+      ["Starter motor, rebuilt exchange", "approved", 12690, true],
+    ]);
+    const request = (await k("approval_requests").where({ job_id: job.id }).first())!;
+    expect(request.status).toBe("answered");
+    expect(request.hash).toBe(sha256Hex(request.canonical));
+    const decision = (await k("approval_decisions").where({ request_id: request.id }).first())!;
+    expect([decision.method, decision.person_name, decision.shown_hash]).toEqual(["phone", "Jonah Pike", request.hash]);
+    expect(await k("approval_decision_lines").where({ decision_id: decision.id }).pluck("answer")).toEqual(["approved", "approved", "approved", "approved"]);
+
+    // They hold the job in waiting on parts, and the owner's page says which and when.
+    const holding = await clearedPartsQuery(k, key).count({ n: "*" }).first();
+    expect(Number(holding!.n)).toBeGreaterThanOrEqual(1);
+    expect(job.status).toBe("waiting_parts");
+    const waits = partWaitLines(await ownerPartWaits(key, k));
+    expect(waits).toContain(`Part on back-order: Cam chain tensioner, expected ${parts[1]!.expected_on}.`);
+    expect(waits).toHaveLength(3);
+    // Approved, not fitted yet: the invoice waits for them; the labour is authorised already.
+    const work = await k.transaction((tx) => authorisedWork(key, tx));
+    expect(work.partsNotFitted.map((p) => [p.description, p.status])).toEqual([
+      ["Cam chain", "ordered"],
+      ["Cam chain tensioner", "back_ordered"],
+      ["Starter motor, rebuilt exchange", "ordered"],
+    ]);
+    expect(work.lines.map((l) => l.kind)).toEqual(["labour"]);
   });
 });

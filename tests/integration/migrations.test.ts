@@ -38,9 +38,11 @@ describe("migrations on an empty database", () => {
     expect(await db.schema.hasColumn("customers", "contact_preference")).toBe(true);
     expect(await db.schema.hasColumn("customers", "notify_channels")).toBe(true);
     expect(await db.schema.hasColumn("shops", "sms_from")).toBe(true);
+    expect(await db.schema.hasColumn("shops", "sms_languages")).toBe(true);
     expect(await db.schema.hasColumn("jobs", "customer_name")).toBe(true);
     expect(await db.schema.hasColumn("jobs", "promised_undated")).toBe(true);
     expect(await db.schema.hasColumn("job_parts", "finding_line_id")).toBe(true);
+    expect(await db.schema.hasColumn("finding_lines", "withdrawn_at")).toBe(true);
     expect(await db.schema.hasColumn("job_parts", "owner_answer")).toBe(true);
     expect(await db.schema.hasColumn("approval_requests", "line_ids")).toBe(true);
     expect(await db.schema.hasColumn("job_parts", "order_id")).toBe(true);
@@ -80,6 +82,15 @@ describe("migrations on an empty database", () => {
     await db("jobs").where({ shop_id: b, number: 2 }).update({ concern: "z" }); // not a move
     await db("jobs").where({ shop_id: b, number: 1 }).delete();
     expect(await counts()).toEqual({ ready: 1 });
+  });
+
+  it("keep English among the languages a shop texts in (migration 37)", async () => {
+    const [id] = await db("shops").insert({ slug: "mig-lang", name: "Languages" });
+    expect((await db("shops").where({ id }).first("sms_languages"))!.sms_languages).toBe("en");
+    await db("shops").where({ id }).update({ sms_languages: "en,fr" });
+    expect((await db("shops").where({ id }).first("sms_languages"))!.sms_languages).toBe("en,fr");
+    await expect(db("shops").where({ id }).update({ sms_languages: "es" })).rejects.toThrow(/constraint/i);
+    await expect(db("shops").where({ id }).update({ sms_languages: "en,de" })).rejects.toThrow(/truncated|incorrect|invalid/i);
   });
 
   it("go down completely, then up again", async () => {

@@ -1,7 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { db as appDb } from "@/db/client";
+import { listParts } from "@/db/queries/bench-parts";
 import { listPartsOnOrder } from "@/db/queries/part-orders";
+import { jobFacts } from "@/db/queries/workflow";
 import type { Action, Actor } from "@/lib/permissions";
 import { access, resolve } from "@/lib/server/access";
 import { addJobPart, changeJobPartStatus } from "@/lib/server/bench-parts";
@@ -18,7 +20,10 @@ import {
   receiveOrder,
 } from "@/lib/server/part-orders";
 import { coreLinesOf } from "@/lib/server/core-lines";
-import { ownerWithJobs, staffActor } from "../support/authorised-work";
+import { authorisedWork } from "@/lib/server/authorised-work";
+import { OWNER_WITHDRAWN_REASON, invoiceView } from "@/lib/server/invoice-views";
+import { createInvoice } from "@/lib/server/invoices";
+import { authorise, ownerWithJobs, staffActor } from "../support/authorised-work";
 import { testKnex } from "../support/db";
 import { makeShop } from "../support/fixtures";
 
@@ -242,5 +247,124 @@ describe("ordering parts", () => {
     } finally {
       appDb().off("query", count);
     }
+  });
+
+  // Issue 19 audit: a part the owner approved on a priced line, received for one job, then moved to
+  // another job. Whether the first job is billed for it follows where the part went.
+  describe("an approved line's part moved to another job", () => {
+    let owner: Actor;
+    let mine: { id: number; publicId: string }[];
+    const cable = { kind: "part" as const, description: "Clutch cable", qty: "1", unitPrice: "16.00" };
+    const fit = { kind: "labour" as const, description: "Fit the part", hours: "0.5", rate: "100.00" };
+    const label = async (jobId: number) => `J-${String((await k("jobs").where({ id: jobId }).first("number"))!.number).padStart(4, "0")}`;
+    const partOf = async (jobId: number, description: string) => (await listParts({ shopId: shop.id, jobId })).find((r) => r.description === description)!;
+    const work = (jobId: number) => authorisedWork({ shopId: shop.id, jobId });
+    const billed = (w: Awaited<ReturnType<typeof work>>) => w.lines.map((l) => [l.kind, l.description, l.kind === "part" ? l.unitPriceMinor : null]);
+    /** The owner approves the part and its fitting; the part arrives, not fitted yet. */
+    const approvedAndArrived = async (job: { id: number; publicId: string }, part = cable) => {
+      const { requestPublicId } = await authorise({ writer, owner, jobPublicId: job.publicId, title: `${part.description} worn`, lines: [part, fit], fitParts: false });
+      const id = (await partOf(job.id, part.description)).id;
+      await changeJobPartStatus(writer, await on(writer, job.publicId, "parts:manage"), { part: id, from: "needed", to: "received", expectedOn: null });
+      return { requestPublicId, partId: id };
+    };
+
+    beforeAll(async () => {
+      ({ owner, jobs: mine } = await ownerWithJobs(k, shop, 6, "Bo Lindqvist"));
+    });
+
+    it("“no longer needs it”: the line is withdrawn with who, when and why; never billed nor waited on, and the draft says so", async () => {
+      const [a, b] = [mine[0]!, mine[1]!];
+      const { requestPublicId, partId } = await approvedAndArrived(a);
+      const before = await work(a.id);
+      expect(before.partsNotFitted).toEqual([{ description: "Clutch cable", status: "received" }]);
+      expect(billed(before)).toEqual([["labour", "Fit the part", null]]);
+
+      await movePart(tech, await on(tech, a.publicId, "parts:manage"), await on(tech, b.publicId, "parts:manage"), { part: partId, forWork: BOOKED, thisJob: "done" });
+      // The part is the other job's now, for its booked work, tied to no line of either job.
+      expect(await row(partId)).toMatchObject({ job_id: b.id, finding_line_id: null, owner_answer: null, no_ok_needed: 1, status: "received" });
+      const line = (await k("finding_lines as l").join("findings as f", "f.id", "l.finding_id").where({ "f.job_id": a.id, "l.kind": "part" }).first("l.*"))!;
+      expect(line).toMatchObject({ withdrawn_by_user_id: tech.userId, withdrawn_reason: `Its part went to job ${await label(b.id)}; this job no longer needs it.` });
+      expect(line.withdrawn_at).toBeInstanceOf(Date);
+
+      const after = await work(a.id);
+      // Not billed straight away (the part has no line any more), nor listed as waiting to be fitted.
+      expect(billed(after)).toEqual([["labour", "Fit the part", null]]);
+      expect(after.partsNotFitted).toEqual([]);
+      expect(after.linesWithdrawn).toEqual([
+        { request: requestPublicId, no: 1, description: "Clutch cable", netMinor: 1600, reason: line.withdrawn_reason, at: (line.withdrawn_at as Date).toISOString(), by: (await k("users").where({ id: tech.userId }).first("name"))!.name },
+      ]);
+      // The owner's answer stays on record; what they authorised no longer counts the cable.
+      expect(after.record[0]).toMatchObject({ approved: [{ no: 1, description: "Clutch cable" }, { no: 2, description: "Fit the part" }], withdrawn: [{ no: 1, description: "Clutch cable" }] });
+      expect(before.authorisedPreTaxMinor - after.authorisedPreTaxMinor).toBe(1600);
+      // Nothing holds the first job, and its owner's page shows no wait for the cable.
+      expect((await jobFacts({ shopId: shop.id, jobId: a.id })).outstandingParts).toBe(0);
+      expect(await ownerPartWaitLines({ shopId: shop.id, jobId: a.id })).toEqual([]);
+
+      // The draft invoice: the labour only, and the withdrawn line said beside it, for the desk.
+      const { publicId } = await createInvoice(writer, await access(writer, "jobMoney", a.publicId, "invoice:create"));
+      const invoice = (await k("invoices").where({ public_id: publicId }).first("id"))!;
+      expect((await k("invoice_lines").where({ invoice_id: invoice.id }).orderBy("position")).map((l) => l.description)).toEqual(["Fit the part"]);
+      const desk = await invoiceView(a.id, "shop");
+      expect(desk.missingAuthorised).toBe(0);
+      expect(desk.linesWithdrawn.map((w) => [w.description, w.reason])).toEqual([["Clutch cable", line.withdrawn_reason]]);
+      // The owner reads why in their own words: not the other job, nor who.
+      const theirs = await invoiceView(a.id, "owner");
+      expect(theirs.linesWithdrawn).toEqual([]);
+      expect(theirs.record[0]!.withdrawn).toEqual([expect.objectContaining({ description: "Clutch cable", reason: OWNER_WITHDRAWN_REASON, by: null })]);
+      expect(JSON.stringify(theirs.record)).not.toContain(await label(b.id));
+    });
+
+    it("“still needs one” and “swap”: the line stays with the first job's new or swapped part, billed once that one is fitted", async () => {
+      const [c, d, other] = [mine[2]!, mine[3]!, mine[4]!];
+      // The other job awaits its own drive belt, on order.
+      const belt = { kind: "part" as const, description: "Drive belt", qty: "1", unitPrice: "42.00" };
+      const theirs = await part(other.publicId, "Drive belt");
+      await orderParts(tech, { shopId: shop.id, jobId: null }, { supplier: "Northgate Supply", reference: "PO-9", orderedOn: "2026-12-01", expectedOn: "2026-12-12", parts: [theirs] });
+
+      const needs = await approvedAndArrived(c);
+      const moved = await movePart(tech, await on(tech, c.publicId, "parts:manage"), await on(tech, other.publicId, "parts:manage"), { part: needs.partId, forWork: BOOKED, thisJob: "needs" });
+      expect(await row(moved.newPartId!)).toMatchObject({ job_id: c.id, status: "needed", owner_answer: "approved", sell_minor: 1600 });
+      const c1 = await work(c.id);
+      expect([c1.partsNotFitted, c1.linesWithdrawn, billed(c1)]).toEqual([[{ description: "Clutch cable", status: "needed" }], [], [["labour", "Fit the part", null]]]);
+      expect((await jobFacts({ shopId: shop.id, jobId: c.id })).outstandingParts).toBe(1);
+      await changeJobPartStatus(writer, await on(writer, c.publicId, "parts:manage"), { part: moved.newPartId!, from: "needed", to: "fitted", expectedOn: null });
+      expect(billed(await work(c.id))).toEqual([
+        ["part", "Clutch cable", 1600],
+        ["labour", "Fit the part", null],
+      ]);
+
+      const swap = await approvedAndArrived(d, belt);
+      const swapped = await movePart(tech, await on(tech, d.publicId, "parts:manage"), await on(tech, other.publicId, "parts:manage"), { part: swap.partId, forWork: BOOKED, thisJob: "swap" });
+      expect(swapped.swappedPartId).toBe(theirs);
+      expect(await row(theirs)).toMatchObject({ job_id: d.id, status: "ordered", owner_answer: "approved", sell_minor: 4200 });
+      const d1 = await work(d.id);
+      expect([d1.partsNotFitted, d1.linesWithdrawn, billed(d1)]).toEqual([[{ description: "Drive belt", status: "ordered" }], [], [["labour", "Fit the part", null]]]);
+      expect(await ownerPartWaitLines({ shopId: shop.id, jobId: d.id })).toEqual(["Part on order: Drive belt, expected 2026-12-12."]);
+    });
+
+    it("a fitted part whose old one went back to the owner (“Returned to owner”) is still billed: the new part is in the machine", async () => {
+      // "Returned" is the step after "fitted" (lib/bench.ts): the replaced part handed back. The owner
+      // pays for the new part that is in their machine whether or not they kept the old one:
+      // common trade practice, no published source.
+      const e = mine[5]!;
+      const lever = { kind: "part" as const, description: "Brake lever", qty: "1", unitPrice: "30.00" };
+      const { partId } = await approvedAndArrived(e, lever);
+      const managing = await on(writer, e.publicId, "parts:manage");
+      await changeJobPartStatus(writer, managing, { part: partId, from: "received", to: "fitted", expectedOn: null });
+      await changeJobPartStatus(writer, managing, { part: partId, from: "fitted", to: "returned", expectedOn: null });
+      const w = await work(e.id);
+      expect(w.partsNotFitted).toEqual([]);
+      expect(w.linesWithdrawn).toEqual([]);
+      expect(billed(w)).toEqual([
+        ["part", "Brake lever", 3000],
+        ["labour", "Fit the part", null],
+      ]);
+      const { publicId } = await createInvoice(writer, await access(writer, "jobMoney", e.publicId, "invoice:create"));
+      const invoice = (await k("invoices").where({ public_id: publicId }).first("id"))!;
+      expect((await k("invoice_lines").where({ invoice_id: invoice.id }).orderBy("position")).map((l) => [l.description, l.unit_price_minor == null ? null : Number(l.unit_price_minor)])).toEqual([
+        ["Brake lever", 3000],
+        ["Fit the part", null],
+      ]);
+    });
   });
 });

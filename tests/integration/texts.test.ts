@@ -25,6 +25,7 @@ import { authorise, ownerWithJobs, staffActor } from "../support/authorised-work
 import { chooseTextsAs, noticeChannels, queueApprovalReminderText, queueApprovalText, queueNoticeText, recordTextConsent, stopTextsAs } from "@/lib/server/texts";
 import { cancelReminder } from "@/lib/server/approval-mail";
 import { saveTextSettings } from "@/lib/server/text-settings";
+import { textSettingsSchema } from "@/lib/schemas/texts";
 import type { JobAccess, Resolved } from "@/lib/server/access";
 import type { Actor } from "@/lib/permissions";
 import type { TextNotice } from "@/lib/texts";
@@ -371,6 +372,109 @@ describe("text messages through the SMS fake", () => {
     expect(await k("outbox").where({ shop_id: shop.id, dedupe_key: `invoice:${publicId}:issued` })).toHaveLength(1);
   });
 
+  describe("keywords in the shop's languages", () => {
+    /** A shop with its own number and languages, and an owner who agreed to texts, with one open job. */
+    const shopTexting = async (label: string, number: string, languages: string) => {
+      const shop = await makeShop(k, { label });
+      await k("shops").where({ id: shop.id }).update({ timezone: "America/Denver", sms_from: number, sms_languages: languages });
+      const owner = await makeCustomerWithJobs(k, shop.id, { name: "Lucia Ferrer", statuses: ["in_progress"] });
+      const ownerPhone = `+1556${String(Date.now() + ++counter).slice(-7)}`;
+      await transaction((tx) => recordTextConsent(tx, { shopId: shop.id, customerId: owner.customerId, phone: ownerPhone, how: "check_in", userId: null }));
+      const send = (body: string) => control("/_fake/inbound", { from: ownerPhone, to: number, body });
+      const filed = (body: string) => until(`"${body}" to be filed`, () => k("text_inbound").where({ from_phone: ownerPhone, body }).first());
+      const answers = async () => (await fakeMessages(`to=${encodeURIComponent(ownerPhone)}`)).map((m) => m.body);
+      return { shop, owner, ownerPhone, send, filed, answers };
+    };
+
+    it("a shop that texts in Spanish honours AYUDA, PARAR and INICIO, answering in Spanish under its name", async () => {
+      const es = await shopTexting("texts-es", "+15550100555", "en,es");
+      const name = `Test shop ${es.shop.slug}`;
+
+      await es.send("Ayuda");
+      expect(await es.filed("Ayuda")).toMatchObject({ filed: "help", shop_id: es.shop.id });
+      await drain();
+      expect(await es.answers()).toContainEqual(expect.stringMatching(new RegExp(`^${name}: mensajes sobre sus reparaciones\\. .*Responda ALTO para dejar de recibirlos\\.`)));
+
+      await es.send("¡PARAR!");
+      expect(await es.filed("¡PARAR!")).toMatchObject({ filed: "stop" });
+      expect(await k("customers").where({ id: es.owner.customerId }).first()).toMatchObject({ text_opt_out_how: "stop_keyword" });
+      await drain();
+      expect(await es.answers()).toContainEqual(`${name}: ya no le enviaremos mensajes. Responda INICIO para recibirlos de nuevo.`);
+
+      await es.send("inicio");
+      expect(await es.filed("inicio")).toMatchObject({ filed: "start" });
+      expect(await k("customers").where({ id: es.owner.customerId }).first()).toMatchObject({ text_opt_out_at: null, text_consent_how: "start_keyword" });
+      await drain();
+      expect(await es.answers()).toContainEqual(expect.stringMatching(new RegExp(`^${name}: vuelve a recibir mensajes sobre sus trabajos\\.`)));
+      // English stays on beside Spanish, answered in English.
+      await es.send("HELP");
+      expect(await es.filed("HELP")).toMatchObject({ filed: "help" });
+      await drain();
+      expect(await es.answers()).toContainEqual(expect.stringMatching(new RegExp(`^${name}: texts about your repair jobs\\.`)));
+      // Not one of them became a question.
+      expect(await k("job_questions").where({ shop_id: es.shop.id })).toEqual([]);
+    });
+
+    it("a shop that texts in French honours ARRÊT with or without its accent, answering in French", async () => {
+      const fr = await shopTexting("texts-fr", "+15550100556", "en,fr");
+      await fr.send("Arrêt");
+      expect(await fr.filed("Arrêt")).toMatchObject({ filed: "stop" });
+      await drain();
+      expect(await fr.answers()).toContainEqual(`Test shop ${fr.shop.slug}: vous ne recevrez plus de messages de notre part. Répondez START pour les recevoir à nouveau.`);
+    });
+
+    it("a shop that texts in English only takes a Spanish or French help word as a reply, but stops whoever sends ALTO", async () => {
+      const en = await shopTexting("texts-en-only", "+15550100557", "en");
+      await en.send("AIDE");
+      expect(await en.filed("AIDE")).toMatchObject({ filed: "question", job_id: en.owner.jobIds[0] });
+      await en.send("AYUDA");
+      expect(await en.filed("AYUDA")).toMatchObject({ filed: "question", job_id: en.owner.jobIds[0] });
+      const questions = await k("job_questions").where({ shop_id: en.shop.id, via: "sms" }).orderBy("id");
+      expect(questions.map((q) => q.body)).toEqual(["AIDE", "AYUDA"]);
+      // Each is in the desk inbox, where a person reads it; the owner's consent stands and no keyword answer went.
+      expect(await k("shop_events").where({ shop_id: en.shop.id, kind: "owner_question" })).toHaveLength(2);
+      expect(await k("customers").where({ id: en.owner.customerId }).first()).toMatchObject({ text_opt_out_at: null });
+      expect(await k("text_outbox").where({ shop_id: en.shop.id, purpose: "keyword_reply" })).toEqual([]);
+      // An opt-out word is honoured in any language: no more texts, one confirmation in the owner's words.
+      await en.send("ALTO");
+      expect(await en.filed("ALTO")).toMatchObject({ filed: "stop" });
+      expect((await k("customers").where({ id: en.owner.customerId }).first())?.text_opt_out_at).toBeInstanceOf(Date);
+      await drain();
+      expect(await en.answers()).toContainEqual(`Test shop ${en.shop.slug}: ya no le enviaremos mensajes. Responda INICIO para recibirlos de nuevo.`);
+    });
+  });
+
+  it("a reply goes to the job the shop last texted about, while it is open, not to the owner's newest job", async () => {
+    const shop = await makeShop(k, { label: "texts-which-job" });
+    const number = "+15550100558";
+    await k("shops").where({ id: shop.id }).update({ timezone: "America/Denver", sms_from: number });
+    // Two open jobs: the older one (jobIds[0]) and the newer one (jobIds[1]).
+    const owner = await makeCustomerWithJobs(k, shop.id, { name: "Harriet Voss", statuses: ["in_progress", "in_progress"] });
+    const [older, newer] = owner.jobIds as [number, number];
+    const ownerPhone = `+1557${String(Date.now()).slice(-7)}`;
+    await transaction((tx) => recordTextConsent(tx, { shopId: shop.id, customerId: owner.customerId, phone: ownerPhone, how: "check_in", userId: null }));
+    const textAbout = async (job: number) => {
+      await transaction((tx) => queueNoticeText(tx, { shopId: shop.id, jobId: job, customerId: owner.customerId, notice: notice(), dedupeKey: null, now: DAYTIME }));
+      expect(await drain()).toBe(1);
+    };
+    const answer = async (body: string) => {
+      await control("/_fake/inbound", { from: ownerPhone, to: number, body });
+      return until(`"${body}" to be filed`, () => k("text_inbound").where({ from_phone: ownerPhone, body }).first());
+    };
+
+    // No text about a job went yet: the newest open job, as before.
+    expect(await answer("Any news?")).toMatchObject({ filed: "question", job_id: newer });
+    // The newer job was texted, then the older one: the answer is about the older one.
+    await textAbout(newer);
+    await textAbout(older);
+    expect(await answer("Does the older one need a new chain too?")).toMatchObject({ filed: "question", job_id: older });
+    const onOlder = await k("job_questions").where({ shop_id: shop.id, job_id: older, via: "sms" });
+    expect(onOlder.map((q) => q.body)).toEqual(["Does the older one need a new chain too?"]);
+    // The older job collected: the last texted job still open is the newer one.
+    await k("jobs").where({ id: older }).update({ status: "picked_up" });
+    expect(await answer("And the other?")).toMatchObject({ filed: "question", job_id: newer });
+  });
+
   describe("consent, the owner's choice and the shop's settings", () => {
     const newOwner = (extra: Record<string, unknown>) => ({
       customer: { mode: "new" as const, name: "Ines Okafor", email: null, phone: "(303) 555-0188", ...extra },
@@ -409,13 +513,46 @@ describe("text messages through the SMS fake", () => {
     it("the shop's sender and quiet hours are saved like every settings section, with who and what changed", async () => {
       const userId = Number((await k("memberships").where({ shop_id: shopId }).first())!.user_id);
       const found = { shop: { id: shopId, slug: "texts" } } as unknown as Resolved<"shop">;
-      await saveTextSettings({ userId } as Actor, found, { shop: "texts", smsFrom: "+15550100888", quietStart: "22:30", quietEnd: "7:00" });
-      expect(await k("shops").where({ id: shopId }).first()).toMatchObject({ sms_from: "+15550100888", sms_quiet_start: 1350, sms_quiet_end: 420 });
+      await saveTextSettings({ userId } as Actor, found, textSettingsSchema.parse({ shop: "texts", smsFrom: "+15550100888", quietStart: "22:30", quietEnd: "7:00", languageFr: "on" }));
+      expect(await k("shops").where({ id: shopId }).first()).toMatchObject({ sms_from: "+15550100888", sms_quiet_start: 1350, sms_quiet_end: 420, sms_languages: "en,fr" });
       const change = (await k("shop_setting_changes").where({ shop_id: shopId, section: "texts" }).orderBy("id", "desc").first())!;
       const json = (v: unknown) => (typeof v === "string" ? (JSON.parse(v) as unknown) : v);
-      expect(json(change.after)).toEqual({ smsFrom: "+15550100888", quietStart: "22:30", quietEnd: "07:00" });
-      expect(json(change.before)).toEqual({ smsFrom: SHOP_NUMBER, quietStart: "21:00", quietEnd: "08:00" });
-      await k("shops").where({ id: shopId }).update({ sms_from: SHOP_NUMBER, sms_quiet_start: 1260, sms_quiet_end: 480 });
+      expect(json(change.after)).toEqual({ smsFrom: "+15550100888", quietStart: "22:30", quietEnd: "07:00", languages: ["en", "fr"] });
+      expect(json(change.before)).toEqual({ smsFrom: SHOP_NUMBER, quietStart: "21:00", quietEnd: "08:00", languages: ["en"] });
+      await k("shops").where({ id: shopId }).update({ sms_from: SHOP_NUMBER, sms_quiet_start: 1260, sms_quiet_end: 480, sms_languages: "en" });
+    });
+
+    it("the languages the shop texts in: saved and recorded; a bad value is refused beside its box and nothing is written", async () => {
+      const userId = Number((await k("memberships").where({ shop_id: shopId }).first())!.user_id);
+      const found = { shop: { id: shopId, slug: "texts" } } as unknown as Resolved<"shop">;
+      // As the settings action runs it: the form parsed by the section's schema, then saved.
+      const save = async (form: Record<string, string>) => saveTextSettings({ userId } as Actor, found, textSettingsSchema.parse({ shop: "texts", smsFrom: SHOP_NUMBER, quietStart: "21:00", quietEnd: "08:00", ...form }));
+      const changes = () => k("shop_setting_changes").where({ shop_id: shopId, section: "texts" }).orderBy("id");
+      const json = (v: unknown) => (typeof v === "string" ? (JSON.parse(v) as unknown) : v);
+
+      await save({ languageEs: "on", languageFr: "on" });
+      expect((await k("shops").where({ id: shopId }).first("sms_languages"))!.sms_languages).toBe("en,es,fr");
+      const recorded = await changes();
+      expect(recorded.at(-1)).toMatchObject({ user_id: userId });
+      expect(json(recorded.at(-1)!.after)).toMatchObject({ languages: ["en", "es", "fr"] });
+
+      // Unticked boxes send nothing: back to English only.
+      await save({});
+      expect((await k("shops").where({ id: shopId }).first("sms_languages"))!.sms_languages).toBe("en");
+      expect(json((await changes()).at(-1)!.after)).toMatchObject({ languages: ["en"] });
+
+      // A value no box sends: refused beside that box, with words a person can act on; nothing written.
+      const before = { shop: await k("shops").where({ id: shopId }).first(), changes: (await changes()).length };
+      for (const [field, value, language] of [
+        ["languageEs", "yes please", "Spanish"],
+        ["languageFr", "de", "French"],
+      ] as const) {
+        const refused = textSettingsSchema.safeParse({ shop: "texts", smsFrom: SHOP_NUMBER, quietStart: "21:00", quietEnd: "08:00", [field]: value });
+        expect(refused.error!.issues.map((i) => [i.path.join("."), i.message])).toEqual([[field, `Tick the box to text in ${language} too, or leave it empty.`]]);
+        await expect(save({ [field]: value })).rejects.toThrow(`Tick the box to text in ${language} too`);
+      }
+      expect(await k("shops").where({ id: shopId }).first()).toEqual(before.shop);
+      expect(await changes()).toHaveLength(before.changes);
     });
   });
 });

@@ -13,11 +13,14 @@ import {
   failureOutcome,
   formPayload,
   heldMessage,
+  isMine,
   listOutbox,
   newIdempotencyKey,
   onOutboxChange,
+  outboxUser,
   retryDelayMs,
   retryItem,
+  setOutboxUser,
 } from "@/lib/client/bench-outbox";
 import { offlineCapable } from "@/lib/client/queue-post";
 
@@ -32,9 +35,13 @@ function scripted(answers: SendResult[]) {
 }
 
 const note = (job: string, text: string) => ({ kind: "note" as const, job, label: "Note", payload: { kind: "note", note: text, visibility: "shop" } });
+/** The staff member signed in on the page (the layout sets it), as users.id. */
+const MATEO = 7;
+const PRIYA = 12;
 
 describe("bench outbox", () => {
   beforeEach(async () => {
+    setOutboxUser(MATEO);
     for (const item of await listOutbox()) await discardItem(item.seq);
   });
 
@@ -149,6 +156,66 @@ describe("bench outbox", () => {
     expect(await listOutbox()).toEqual([]);
   });
 
+  it("each post records who queued it, and only that person's posts are sent", async () => {
+    const mine = await enqueue(note("JOB1", "Mateo's first"));
+    setOutboxUser(PRIYA); // Mateo signs out, Priya signs in on the same phone
+    const hers = await enqueue(note("JOB1", "Priya's"));
+    expect([mine.by, hers.by]).toEqual([MATEO, PRIYA]);
+    expect((await listOutbox()).map((i) => i.by)).toEqual([MATEO, PRIYA]);
+
+    // Priya's page sends hers only: Mateo's stays on the phone, untouched, not held, not tried.
+    const { send, sent } = scripted([]);
+    expect(await drainOutbox(send)).toEqual({ sent: 1, held: 0, failed: 0, nextAttemptAt: null });
+    expect(sent.map((i) => i.payload.note)).toEqual(["Priya's"]);
+    const [left] = await listOutbox();
+    expect(left).toMatchObject({ seq: mine.seq, by: MATEO, state: "waiting", attempts: 0, lastError: null });
+    expect(isMine(left!, PRIYA)).toBe(false);
+    expect(isMine(left!, MATEO)).toBe(true);
+
+    // Mateo signs in again: his post goes, under his name.
+    expect((await drainOutbox(send, { userId: MATEO })).sent).toBe(1);
+    expect(sent.map((i) => i.payload.note)).toEqual(["Priya's", "Mateo's first"]);
+    expect(await listOutbox()).toEqual([]);
+  });
+
+  it("a post of nobody known (queued before anyone was known, or from before posts kept their maker) is never sent by itself", async () => {
+    setOutboxUser(null);
+    expect(outboxUser()).toBeNull();
+    const orphan = await enqueue(note("JOB1", "whose?"));
+    expect(orphan.by).toBeNull();
+    const { send, sent } = scripted([]);
+    // Nobody signed in: nothing is sent at all.
+    expect((await drainOutbox(send)).sent).toBe(0);
+    setOutboxUser(MATEO);
+    expect((await drainOutbox(send)).sent).toBe(0);
+    expect(sent).toEqual([]);
+    expect(isMine({ by: undefined }, MATEO)).toBe(false);
+    // The person decides: discarding it is the way out.
+    await discardItem(orphan.seq);
+    expect(await listOutbox()).toEqual([]);
+  });
+
+  it("someone else's post waiting first doesn't hold the line for the signed-in person's", async () => {
+    setOutboxUser(PRIYA);
+    await enqueue(note("JOB1", "Priya's, made first"));
+    setOutboxUser(MATEO);
+    await enqueue(note("JOB1", "Mateo's, made later"));
+    const { send, sent } = scripted([]);
+    expect((await drainOutbox(send)).sent).toBe(1);
+    expect(sent.map((i) => i.payload.note)).toEqual(["Mateo's, made later"]);
+    expect((await listOutbox()).map((i) => i.by)).toEqual([PRIYA]);
+  });
+
+  it("signing in tells the page's views and runner", async () => {
+    setOutboxUser(null);
+    let calls = 0;
+    const stop = onOutboxChange(() => calls++);
+    setOutboxUser(MATEO);
+    setOutboxUser(MATEO); // the same person again: nothing changed
+    stop();
+    expect(calls).toBe(1);
+  });
+
   it("tells listeners about every change", async () => {
     let calls = 0;
     const stop = onOutboxChange(() => calls++);
@@ -191,6 +258,7 @@ describe("outbox rules", () => {
 
 describe("a bench form with no network", () => {
   beforeEach(async () => {
+    setOutboxUser(MATEO);
     for (const item of await listOutbox()) await discardItem(item.seq);
   });
   const form = () => {
@@ -210,7 +278,7 @@ describe("a bench form with no network", () => {
     );
     expect(await action(null, form())).toEqual({ ok: true, data: { queued: true } });
     const [queued] = await listOutbox();
-    expect(queued).toMatchObject({ kind: "torque", job: "JOB9", label: "Torque: Head bolts", payload: { job: "JOB9", fastener: "Head bolts", specValue: "12" } });
+    expect(queued).toMatchObject({ kind: "torque", job: "JOB9", label: "Torque: Head bolts", by: MATEO, payload: { job: "JOB9", fastener: "Head bolts", specValue: "12" } });
   });
 
   it("an action that answers, even with a refusal, is shown as before and nothing is queued", async () => {

@@ -113,7 +113,7 @@ const VALID: Record<keyof typeof FORM_FIELDS, Record<string, unknown>> = {
   answerQuestion: { job: PUBLIC_ID, question: "7", body: "Yes, we'd fit both." },
   frequency: { job: PUBLIC_ID, frequency: "daily" },
   textChoice: { job: PUBLIC_ID, channels: "both", phone: "+1 303 555 0142", consent: "yes" },
-  textSettings: { shop: "cedar-flats", smsFrom: "+15550100777", quietStart: "21:00", quietEnd: "08:00" },
+  textSettings: { shop: "cedar-flats", smsFrom: "+15550100777", quietStart: "21:00", quietEnd: "08:00", languageEs: "on", languageFr: "" },
   storyConsent: { job: PUBLIC_ID, decision: "given", shownHash: HASH, name: "Ilse Rowan" },
   storyCuration: { shop: "cedar-flats", story: "3", version: "2", title: "A trail bike's brakes", slug: "trail-bike-brakes", writeUp: "", cover: "", items: "[]" },
   shopProfile: { shop: "cedar-flats", displayName: "Cedar Flats", about: "", takesIn: "Dirt bikes", locationText: "", showLocation: "on", publicEmail: "desk@cedar.test", publicPhone: "", removeLogo: "" },

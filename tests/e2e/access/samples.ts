@@ -53,6 +53,13 @@ export const HANDLER_SAMPLES: Record<string, HandlerSample> = {
   "POST /api/jobs/[job]/entries": { body: ({ persona }) => json({ kind: "note", note: note(`Access test, ${persona}`), visibility: "shop" }) },
   "POST /api/jobs/[job]/torque-records": { body: ({ f }) => json({ job: f.job, fastener: "Access test bolt", specValue: "10", unit: "nm" }) },
   "POST /api/jobs/[job]/readings": { body: ({ f }) => json({ job: f.job, label: "Access test reading", value: "1" }) },
+  "POST /api/jobs/[job]/chain-readings": { body: ({ f }) => json({ job: f.job, pitchMm: "15.875", pitches: "20", measuredMm: "318" }) },
+  "POST /api/jobs/[job]/measurement-sets": { body: ({ f }) => json({ job: f.job, kind: "leak_down", unit: "%", max: "10", source: "Access test manual p. 1", label0: "Cylinder 1", value0: "4" }) },
+  "POST /api/jobs/[job]/teardown-steps": { body: ({ f }) => json({ job: f.job, removed: "Access test cover" }) },
+  // No such step: allowed callers get a 404 and nothing is written.
+  "POST /api/jobs/[job]/step-torques": { body: ({ f }) => json({ job: f.job, step: NO_ROW, torqueValue: "10", torqueUnit: "nm" }) },
+  "POST /api/jobs/[job]/reassembly-ticks": { body: ({ f }) => json({ job: f.job, step: NO_ROW, value: "1" }) },
+  "POST /api/jobs/[job]/reassembly-replaced": { body: ({ f }) => json({ job: f.job, step: NO_ROW, value: "1" }) },
   // picked_up → picked_up is no move: an allowed caller is turned down by the rules, nothing written.
   "POST /api/jobs/[job]/status": { body: () => json({ from: "picked_up", to: "picked_up", note: "" }) },
   "POST /api/jobs/[job]/photos": { body: () => ({ kind: "multipart", fields: { photo: { name: "access.jpg", mimeType: "image/jpeg", buffer: PHOTO_FILE } } }) },

@@ -4,6 +4,7 @@ import { InboxBadge } from "@/components/inbox-badge";
 import { ShopNav } from "@/components/shop-nav";
 import { LiveShopUpdates } from "@/components/live-updates";
 import { StaffServiceWorker } from "@/components/service-worker";
+import { OutboxRunner } from "@/components/outbox-runner";
 import { latestEventId } from "@/db/queries/shop-events";
 import { can } from "@/lib/permissions";
 import { unreadCountFor } from "@/lib/server/inbox-view";
@@ -34,6 +35,8 @@ export default async function ShopLayout({ children, params }: { children: React
     <LiveShopUpdates shopSlug={shop.slug} since={since}>
       {/* The installable staff app's offline worker: staff pages only (issue 20 §1). */}
       <StaffServiceWorker userId={actor.userId} />
+      {/* The phone's outbox goes from every staff page, as this person's posts only (issue 20 §2). */}
+      <OutboxRunner userId={actor.userId} />
       <AppHeader actor={actor} context={shop.name} />
       <ShopNav links={links} />
       <main id="main" tabIndex={-1} className="mx-auto max-w-6xl px-4 py-6">

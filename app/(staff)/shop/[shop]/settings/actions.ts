@@ -80,7 +80,7 @@ export const saveMarkupAction = formAction({ input: markupSettingsSchema, ...own
   return { saved: true };
 });
 
-// Texts (issue 21): the shop's sender number and quiet hours.
+// Texts (issue 21): the shop's sender number, quiet hours and the languages it texts in.
 export const saveTextsAction = formAction({ input: textSettingsSchema, ...owner }, async ({ input, actor, found }) => {
   refresh((await saveTextSettings(actor, found, input)).shop.slug);
   return { saved: true };

@@ -15,7 +15,7 @@ import { getMarkupRule } from "@/db/queries/parts-pricing";
 import { markupFormValues } from "@/lib/server/part-pricing";
 import { shopTextSettingsOf } from "@/db/queries/texts";
 import { smsConfig } from "@/lib/server/config";
-import { DEFAULT_QUIET, clockText } from "@/lib/texts";
+import { DEFAULT_QUIET, clockText, shopLanguages } from "@/lib/texts";
 import { TextsForm } from "./_components/texts-form";
 
 export const metadata: Metadata = { title: "Shop settings" };
@@ -101,7 +101,7 @@ export default async function SettingsPage({ params }: { params: Promise<{ shop:
         "settings-texts",
         "Text messages",
         `Texts go only to owners who agreed. Quiet hours default to ${clockText(DEFAULT_QUIET.start)}–${clockText(DEFAULT_QUIET.end)}, the hours US rules set for marketing calls (47 CFR § 64.1200(c)(1)); keeping service texts to them is common carrier practice.`,
-        <TextsForm shopSlug={shop.slug} texts={{ smsFrom: texts?.sms_from ?? "", quietStart: clockText(texts?.sms_quiet_start ?? DEFAULT_QUIET.start), quietEnd: clockText(texts?.sms_quiet_end ?? DEFAULT_QUIET.end), defaultFrom: smsConfig()?.defaultFrom ?? null }} />,
+        <TextsForm shopSlug={shop.slug} texts={{ smsFrom: texts?.sms_from ?? "", quietStart: clockText(texts?.sms_quiet_start ?? DEFAULT_QUIET.start), quietEnd: clockText(texts?.sms_quiet_end ?? DEFAULT_QUIET.end), defaultFrom: smsConfig()?.defaultFrom ?? null, languages: shopLanguages({ sms_languages: texts?.sms_languages }) }} />,
       )}
       {section(
         "bench-settings",

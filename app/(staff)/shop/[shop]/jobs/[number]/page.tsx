@@ -48,7 +48,8 @@ export default async function StaffJobPage({ params, searchParams }: Props) {
         back={{ href: `/shop/${shop.slug}`, label: "All jobs" }}
         actions={<><ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/bench`} variant="secondary">Bench tools</ButtonLink>{can(actor, "invoice:view", resource) ? <ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/invoice`} variant="secondary">Invoice</ButtonLink> : null}{can(actor, "outbox:manage", resource) ? <ButtonLink href={`/shop/${shop.slug}/jobs/${job.number}/mail`} variant="secondary">Mail sent</ButtonLink> : null}</>}
       />
-      <BenchQuickPost jobPath={`/shop/${shop.slug}/jobs/${job.number}`} on="job" mayRecord={can(actor, "bench:record", resource)} />
+      {/* A collected job takes nothing new (the server refuses it): no quick-post bar to offer it. */}
+      {job.status !== "picked_up" ? <BenchQuickPost jobPath={`/shop/${shop.slug}/jobs/${job.number}`} on="job" mayRecord={can(actor, "bench:record", resource)} /> : null}
       <div className="grid gap-4 md:grid-cols-2">
         <Card as="section" title="Where it stands" headingId="job-facts">
           <dl className="grid grid-cols-[auto_1fr] gap-x-4 gap-y-2">

@@ -10,7 +10,7 @@ import type { NoteDoc } from "@/lib/rich-text/note";
 import { sendJson } from "@/lib/swr/fetcher";
 import { useFailedClips } from "@/lib/swr/use-failed-clips";
 import { type TimelineResponse, useJobTimeline } from "@/lib/swr/use-job-timeline";
-import type { JobStatus } from "@/lib/job-status";
+import { collectedJobRefusal, type JobStatus } from "@/lib/job-status";
 import { ClipComposer } from "./clip-composer";
 import { EntryControls } from "./entry-controls";
 import { FailedClips } from "./failed-clips";
@@ -35,7 +35,6 @@ type Props = {
 /** The staff side of a job's journal: the composer on top, the timeline under it. */
 export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, mayModerate, initial, clipLimits, findingsPath, startWith = "note", intakeCaption }: Props) {
   const [order, setOrder] = useState<"asc" | "desc">("desc");
-  const [tab, setTab] = useState<"note" | "photos" | "clip">(startWith);
   const [editing, setEditing] = useState<number | null>(null);
   const timeline = useJobTimeline(jobPublicId, order, order === "desc" ? initial : undefined);
   // Clips the video service rejects leave the timeline; their reasons come from this list.
@@ -81,40 +80,13 @@ export function JobJournal({ jobPublicId, status, mayChangeStatus, timeZone, may
           <StatusForm jobPublicId={jobPublicId} status={status} onMoved={refresh} />
         </Card>
       ) : null}
-      <Card as="section" title="Add to the journal" headingId="composer-heading" className="scroll-mt-4">
-        <div id="composer" role="tablist" aria-label="What to add" className="mb-4 grid grid-cols-3 gap-2">
-          {(
-            [
-              ["note", "Note", NotebookPen],
-              ["photos", "Photos", Camera],
-              ["clip", "Clip", Video],
-            ] as const
-          ).map(([value, label, Icon]) => (
-            <button
-              key={value}
-              type="button"
-              role="tab"
-              id={`tab-${value}`}
-              aria-selected={tab === value}
-              aria-controls={`panel-${value}`}
-              onClick={() => setTab(value)}
-              className="inline-flex min-h-14 items-center justify-center gap-2 rounded-lg border border-line-strong font-semibold text-ink aria-selected:border-oil aria-selected:bg-oil aria-selected:text-oil-on"
-            >
-              <Icon aria-hidden className="size-6" />
-              {label}
-            </button>
-          ))}
-        </div>
-        <div role="tabpanel" id={`panel-${tab}`} aria-labelledby={`tab-${tab}`}>
-          {tab === "note" ? (
-            <NoteComposer target={{ kind: "new", jobPublicId }} onDone={refresh} />
-          ) : tab === "photos" ? (
-            <PhotoComposer jobPublicId={jobPublicId} onPosted={refresh} defaultCaption={intakeCaption} />
-          ) : (
-            <ClipComposer jobPublicId={jobPublicId} limits={clipLimits} onStarted={refresh} />
-          )}
-        </div>
-      </Card>
+      {status === "picked_up" ? (
+        <Card as="section" title="Add to the journal" headingId="composer-heading">
+          <p>{collectedJobRefusal(status, "nothing new can be added to its journal")}</p>
+        </Card>
+      ) : (
+        <ComposerCard jobPublicId={jobPublicId} clipLimits={clipLimits} startWith={startWith} intakeCaption={intakeCaption} onChanged={refresh} />
+      )}
 
       <section aria-labelledby="timeline-heading" className="space-y-3">
         <h2 id="timeline-heading" className="text-xl font-bold text-ink">
@@ -174,5 +146,52 @@ function EntryEditor({ jobPublicId, entry, onDone, onCancel }: { jobPublicId: st
         </Button>
       </div>
     </div>
+  );
+}
+
+/** The composer: a note, a photo set or a clip, one tab each. */
+function ComposerCard({
+  jobPublicId,
+  clipLimits,
+  startWith,
+  intakeCaption,
+  onChanged,
+}: Pick<Props, "jobPublicId" | "clipLimits" | "intakeCaption"> & { startWith: NonNullable<Props["startWith"]>; onChanged: () => void }) {
+  const [tab, setTab] = useState<"note" | "photos" | "clip">(startWith);
+  return (
+    <Card as="section" title="Add to the journal" headingId="composer-heading" className="scroll-mt-4">
+      <div id="composer" role="tablist" aria-label="What to add" className="mb-4 grid grid-cols-3 gap-2">
+        {(
+          [
+            ["note", "Note", NotebookPen],
+            ["photos", "Photos", Camera],
+            ["clip", "Clip", Video],
+          ] as const
+        ).map(([value, label, Icon]) => (
+          <button
+            key={value}
+            type="button"
+            role="tab"
+            id={`tab-${value}`}
+            aria-selected={tab === value}
+            aria-controls={`panel-${value}`}
+            onClick={() => setTab(value)}
+            className="inline-flex min-h-14 items-center justify-center gap-2 rounded-lg border border-line-strong font-semibold text-ink aria-selected:border-oil aria-selected:bg-oil aria-selected:text-oil-on"
+          >
+            <Icon aria-hidden className="size-6" />
+            {label}
+          </button>
+        ))}
+      </div>
+      <div role="tabpanel" id={`panel-${tab}`} aria-labelledby={`tab-${tab}`}>
+        {tab === "note" ? (
+          <NoteComposer target={{ kind: "new", jobPublicId }} onDone={onChanged} />
+        ) : tab === "photos" ? (
+          <PhotoComposer jobPublicId={jobPublicId} onPosted={onChanged} defaultCaption={intakeCaption} />
+        ) : (
+          <ClipComposer jobPublicId={jobPublicId} limits={clipLimits} onStarted={onChanged} />
+        )}
+      </div>
+    </Card>
   );
 }

@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { BookOpen } from "lucide-react";
-import { ButtonLink, Caution, PageHeader } from "@/components/ui";
+import { Alert, ButtonLink, Caution, PageHeader } from "@/components/ui";
 import { BenchQuickPost } from "@/components/bench-quick-post";
 import { OutboxPanel } from "@/components/journal/outbox-panel";
 import { getBenchSettings, listJobPhotos, listReadings, listTeardownSteps, listTorqueRecords } from "@/db/queries/bench";
@@ -12,6 +12,7 @@ import { listTeardownRevisions } from "@/db/queries/teardown-history";
 import { nextStepSeq } from "@/lib/teardown-history";
 import { CAUTIONS, type CautionKey } from "@/lib/cautions";
 import { describeMachine } from "@/lib/machine";
+import { collectedJobRefusal } from "@/lib/job-status";
 import { can } from "@/lib/permissions";
 import { formatJobNumber, jobNumberParamSchema } from "@/lib/schemas/jobs";
 import { isTorqueUnit } from "@/lib/torque";
@@ -82,7 +83,13 @@ export default async function BenchPage({ params }: Props) {
           </ButtonLink>
         }
       />
-      <BenchQuickPost jobPath={jobPath} on="bench" mayRecord={mayRecord} />
+      {job.status === "picked_up" ? (
+        <Alert tone="info" title="This machine has been collected">
+          {collectedJobRefusal(job.status, "nothing new can be recorded on it")}
+        </Alert>
+      ) : (
+        <BenchQuickPost jobPath={jobPath} on="bench" mayRecord={mayRecord} />
+      )}
       <OutboxPanel jobPublicId={job.publicId} />
       <nav aria-label="Bench sections" className="-mt-2 flex flex-wrap gap-2">
         {SECTIONS.map(([href, label]) => (

@@ -7,6 +7,8 @@ import { type NumberStyle, formatNumberInput, numberStyleFor, parseNumberInput }
 import { formatFixed } from "@/lib/rounding";
 import { recordChainAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { QueuedNotice } from "@/components/journal/outbox-panel";
+import { offlineCapable } from "@/lib/client/queue-post";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 
 /** The typed number when it reads one way in the shop's style (the server says why otherwise). */
@@ -27,7 +29,10 @@ function preview(pitchMm: number | null, pitches: number | null, measuredMm: num
 /** Chain wear over N pitches: elongation and verdict as the numbers are typed, then logged as a reading. */
 export function ChainForm({ jobPublicId, currency, defaultLimitPct }: { jobPublicId: string; currency: string; defaultLimitPct: number }) {
   const style = numberStyleFor(currency);
-  const form = useBenchForm(recordChainAction, { visible: FORM_FIELDS.chainReading.visible });
+  // With no network the reading waits in the phone's outbox and goes to the chain-readings route.
+  const form = useBenchForm(offlineCapable(recordChainAction, { kind: "chain", job: jobPublicId, label: (f) => `Chain wear: ${String(f.get("label") || "drive chain")}` }), {
+    visible: FORM_FIELDS.chainReading.visible,
+  });
   const { fieldError } = form;
   const [size, setSize] = useState<string>("#520");
   const [pitch, setPitch] = useState(formatNumberInput(CHAIN_PITCHES["#520"], style));
@@ -41,6 +46,7 @@ export function ChainForm({ jobPublicId, currency, defaultLimitPct }: { jobPubli
     <form action={form.formAction} className="space-y-4">
       <input type="hidden" name="job" value={jobPublicId} />
       <FormError message={form.formError} />
+      <QueuedNotice state={form.state} />
       <Field id="chain-label" label="Which chain (optional)" error={fieldError("label")}>
         <Input name="label" placeholder="Drive chain wear" maxLength={200} />
       </Field>

@@ -2,9 +2,11 @@
 import { Plus } from "lucide-react";
 import { useState } from "react";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { QueuedNotice } from "@/components/journal/outbox-panel";
 import { Button, Field, Input, Select } from "@/components/ui";
 import { MAX_SET_ITEMS, MEASUREMENT_KINDS, MEASUREMENT_KIND_INFO, MEASUREMENT_SET_VISIBLE, type MeasurementKind, SHIM_SOURCE_NOTE, VALVE_SIDES, VALVE_SIDE_LABEL, rowField } from "@/lib/measurements";
 import { exampleIn, numberStyleFor } from "@/lib/number-input";
+import { offlineCapable } from "@/lib/client/queue-post";
 import { recordMeasurementSetAction } from "../measurement-actions";
 
 // A structured measurement set: the kind, the shop's limit and its source, then one row per valve,
@@ -25,7 +27,9 @@ export function MeasurementForm({ jobPublicId, currency }: { jobPublicId: string
   const [rows, setRows] = useState(4);
   // Bumped after a success so the rows start empty again.
   const [round, setRound] = useState(0);
-  const form = useBenchForm(recordMeasurementSetAction, { onSuccess: () => setRound((n) => n + 1), visible: MEASUREMENT_SET_VISIBLE });
+  // With no network the set waits in the phone's outbox and goes to the measurement-sets route.
+  const queued = offlineCapable(recordMeasurementSetAction, { kind: "measurements", job: jobPublicId, label: (f) => `Measurement set: ${MEASUREMENT_KIND_INFO[f.get("kind") as MeasurementKind]?.title ?? "items"}` });
+  const form = useBenchForm(queued, { onSuccess: () => setRound((n) => n + 1), visible: MEASUREMENT_SET_VISIBLE });
   const { values, fieldError } = form;
   const info = MEASUREMENT_KIND_INFO[kind];
   const valves = kind === "valve_clearance";
@@ -43,6 +47,7 @@ export function MeasurementForm({ jobPublicId, currency }: { jobPublicId: string
     <form action={form.formAction} className="space-y-4" key={`${kind}-${round}`} aria-label="Record a measurement set">
       <input type="hidden" name="job" value={jobPublicId} />
       <FormError message={form.formError} />
+      <QueuedNotice state={form.state} />
       <Field id="ms-kind" label="What was measured" error={fieldError("kind")} required>
         <Select
           name="kind"

@@ -79,7 +79,12 @@ export function MovePartForm({ jobPublicId, partId, description }: { jobPublicId
         <Field id={`move-${partId}`} label={`Move ${description} to job`} hint="e.g. J-0042" error={form.fieldError("toJob")}>
           <Input name="toJob" maxLength={12} defaultValue={form.values?.toJob} />
         </Field>
-        <Field id={`move-${partId}-this`} label="And this job" error={form.fieldError("thisJob")}>
+        <Field
+          id={`move-${partId}-this`}
+          label="And this job"
+          hint="No longer needs it: a line the owner approved for this part is withdrawn, never billed here."
+          error={form.fieldError("thisJob")}
+        >
           <Select name="thisJob" defaultValue={form.values?.thisJob ?? "swap"} key={form.values?.thisJob}>
             <option value="swap">Takes that job&apos;s awaited one (its order comes here)</option>
             <option value="needs">Still needs one (add it as needed)</option>

@@ -1,4 +1,4 @@
-import { ListChecks, Sparkles, SquareCheck, TriangleExclamationPoint, Undo2 } from "lucide-react";
+import { ListChecks, Sparkles, SquareCheck, TriangleExclamationPoint } from "lucide-react";
 import { BoltPattern } from "@/components/bench/bolt-pattern";
 import { PassTable, TorqueValue } from "@/components/bench/torque-value";
 import { ReassemblyProgress } from "@/components/journal/reassembly-progress";
@@ -11,8 +11,7 @@ import { photoUrl } from "@/lib/journal";
 import { checklistProgress } from "@/lib/reassembly";
 import type { TorqueUnit } from "@/lib/torque";
 import { REPLACE_WITH_NEW, stepTorqueNote } from "@/lib/torque-special";
-import { markReplacedAction, tickStepAction } from "../actions";
-import { ActionButton } from "@/components/bench/action-form";
+import { ReassemblyMarks } from "./reassembly-marks";
 import { whenText } from "./when";
 
 type Props = { jobPublicId: string; steps: TeardownRow[]; passPercents: number[]; shopUnit: TorqueUnit; timeZone: string; mayRecord: boolean };
@@ -94,19 +93,14 @@ export function ReassemblySection({ jobPublicId, steps, passPercents, shopUnit, 
                         </p>
                       ) : null}
                       {mayRecord ? (
-                        <div className="flex flex-wrap gap-2">
-                          <ActionButton
-                            action={tickStepAction}
-                            fields={{ job: jobPublicId, step: String(item.id), value: step.checked ? "0" : "1" }}
-                            variant={step.checked ? "secondary" : "primary"}
-                            icon={step.checked ? <Undo2 aria-hidden className="size-5" /> : <SquareCheck aria-hidden className="size-5" />}
-                          >
-                            {step.checked ? `Undo: ${item.removed}` : `Mark done: ${item.removed}`}
-                          </ActionButton>
-                          <ActionButton action={markReplacedAction} fields={{ job: jobPublicId, step: String(item.id), value: step.replacedNew ? "0" : "1" }} variant="ghost">
-                            {step.replacedNew ? "Undo replaced with new" : "Mark replaced with new"}
-                          </ActionButton>
-                        </div>
+                        <ReassemblyMarks
+                          key={`${item.id}-${!!step.checked}-${step.replacedNew}`}
+                          jobPublicId={jobPublicId}
+                          stepId={String(item.id)}
+                          removed={item.removed}
+                          done={!!step.checked}
+                          replacedNew={step.replacedNew}
+                        />
                       ) : null}
                     </div>
                   </Card>

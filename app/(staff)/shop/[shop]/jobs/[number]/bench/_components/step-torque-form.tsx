@@ -10,6 +10,8 @@ import { angleText, parseAngleStages, torqueAngleWarning } from "@/lib/torque-sp
 import { ThreadsAndRetorque } from "./torque-special-fields";
 import { setStepTorqueAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { QueuedNotice } from "@/components/journal/outbox-panel";
+import { isQueued, offlineCapable } from "@/lib/client/queue-post";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 
 type Current = StepTorque | null;
@@ -20,7 +22,8 @@ type Current = StepTorque | null;
  * confirm box; `fastener` is the step as that check reads it ("8 × M6 clutch cover bolts").
  */
 export function StepTorqueForm({ jobPublicId, currency, stepId, current, shopUnit, fastener }: { jobPublicId: string; currency: string; stepId: number; current: Current; shopUnit: TorqueUnit; fastener: string }) {
-  const form = useBenchForm(setStepTorqueAction, { visible: FORM_FIELDS.stepTorque.visible });
+  // With no network the spec waits in the phone's outbox and goes to the step-torques route.
+  const form = useBenchForm(offlineCapable(setStepTorqueAction, { kind: "step-torque", job: jobPublicId, label: () => `Torque spec: ${fastener}` }), { visible: FORM_FIELDS.stepTorque.visible });
   const { values, fieldError } = form;
   const id = (name: string) => `step-${stepId}-${name}`;
   const style = numberStyleFor(currency);
@@ -62,7 +65,12 @@ export function StepTorqueForm({ jobPublicId, currency, stepId, current, shopUni
       <Button type="submit" loading={form.pending}>
         Save torque spec
       </Button>
-      {form.state?.ok ? <p role="status" className="text-sm text-moss">Saved.</p> : null}
+      {form.state?.ok && !isQueued(form.state.data) ? (
+        <p role="status" className="text-sm text-moss">
+          Saved.
+        </p>
+      ) : null}
+      <QueuedNotice state={form.state} />
     </form>
   );
 }

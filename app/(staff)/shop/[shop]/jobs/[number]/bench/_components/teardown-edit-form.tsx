@@ -1,21 +1,32 @@
 "use client";
 import { Trash2 } from "lucide-react";
 import { ActionButton, FormError, useBenchForm } from "@/components/bench/action-form";
-import { Button, Field, Input, Textarea } from "@/components/ui";
+import { Alert, Button, Field, Input, Textarea } from "@/components/ui";
 import type { TeardownRow } from "@/db/queries/bench";
+import { onlineOnly, useBrowserOffline } from "@/lib/client/queue-post";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 import { deleteTeardownStepAction, editTeardownStepAction } from "../actions";
 
 type Step = Pick<TeardownRow, "id" | "seq" | "version" | "removed" | "count" | "size" | "notes" | "storage">;
 
+/**
+ * Why an edit or a delete is never queued in the phone's outbox (issue 20 §2): both are checked
+ * against the step's version on screen, which a page opened from the offline copy may no longer
+ * have, and a delete can finish the reassembly and move the job when it lands; neither should
+ * happen later, out of sight.
+ */
+const NEEDS_CONNECTION = "Editing or deleting a logged step needs a connection: it is checked against the step as it is now. Try again when the network is back.";
+
 /** Corrects a logged step (the version on screen guards against overwriting someone else's edit), or deletes it. */
 export function TeardownEditForm({ jobPublicId, step }: { jobPublicId: string; step: Step }) {
-  const form = useBenchForm(editTeardownStepAction, { visible: FORM_FIELDS.teardownEdit.visible });
+  const offline = useBrowserOffline();
+  const form = useBenchForm(onlineOnly(editTeardownStepAction, NEEDS_CONNECTION), { visible: FORM_FIELDS.teardownEdit.visible });
   const { values, fieldError } = form;
   const id = (name: string) => `step-${step.id}-edit-${name}`;
   // Labels name the step: every step has this form, and the log's own form sits beside them.
   return (
     <div className="space-y-4">
+      {offline ? <Alert tone="info">{NEEDS_CONNECTION}</Alert> : null}
       <form action={form.formAction} className="space-y-3">
         <input type="hidden" name="job" value={jobPublicId} />
         <input type="hidden" name="step" value={step.id} />
@@ -51,7 +62,7 @@ export function TeardownEditForm({ jobPublicId, step }: { jobPublicId: string; s
         <summary className="inline-flex min-h-tap cursor-pointer items-center rounded-md px-2 font-semibold text-rust hover:bg-sunken">Delete this step…</summary>
         <div className="space-y-2 pt-2">
           <p className="text-sm text-ink-muted">It leaves the log and the reassembly checklist, and its timeline entry is removed. What it said stays in the history on this page.</p>
-          <ActionButton action={deleteTeardownStepAction} fields={{ job: jobPublicId, step: String(step.id), version: String(step.version) }} variant="danger" icon={<Trash2 aria-hidden className="size-5" />}>
+          <ActionButton action={onlineOnly(deleteTeardownStepAction, NEEDS_CONNECTION)} fields={{ job: jobPublicId, step: String(step.id), version: String(step.version) }} variant="danger" icon={<Trash2 aria-hidden className="size-5" />}>
             Delete step {step.seq}: {step.removed}
           </ActionButton>
         </div>

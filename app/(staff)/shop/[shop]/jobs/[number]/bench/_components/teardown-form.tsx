@@ -2,16 +2,22 @@
 import { Button, Field, Input, Select, Textarea } from "@/components/ui";
 import { addTeardownStepAction } from "../actions";
 import { FormError, useBenchForm } from "@/components/bench/action-form";
+import { QueuedNotice } from "@/components/journal/outbox-panel";
+import { offlineCapable } from "@/lib/client/queue-post";
 import { FORM_FIELDS } from "@/lib/schemas/form-fields";
 
 /** Logs the next thing that came off; steps number themselves in removal order. */
 export function TeardownForm({ jobPublicId, nextSeq, photos }: { jobPublicId: string; nextSeq: number; photos: { id: string; caption: string | null }[] }) {
-  const form = useBenchForm(addTeardownStepAction, { visible: FORM_FIELDS.teardownStep.visible });
+  // With no network the step waits in the phone's outbox and goes to the teardown-steps route.
+  const form = useBenchForm(offlineCapable(addTeardownStepAction, { kind: "teardown", job: jobPublicId, label: (f) => `Teardown step: ${String(f.get("removed") ?? "")}` }), {
+    visible: FORM_FIELDS.teardownStep.visible,
+  });
   const { values, fieldError } = form;
   return (
     <form action={form.formAction} className="space-y-4">
       <input type="hidden" name="job" value={jobPublicId} />
       <FormError message={form.formError} />
+      <QueuedNotice state={form.state} />
       <Field id="step-removed" label={`What came off (step ${nextSeq})`} hint="A part or a group of fasteners, e.g. “clutch cover”" error={fieldError("removed")} required>
         <Input name="removed" defaultValue={values?.removed} maxLength={200} />
       </Field>
