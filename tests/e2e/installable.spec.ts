@@ -316,6 +316,8 @@ test.describe("the outbox and the photo viewer at 390 px", () => {
     // A status move queued offline: waiting, with the form's "Kept on this phone" notice.
     await context.setOffline(true);
     const status = page.locator("form#post-status");
+    // Choosing in a list has the focus on it, as a tap on the phone does (selectOption alone doesn't).
+    await status.getByLabel("Move to").focus();
     await status.getByLabel("Move to").selectOption({ label: "On the bench" });
     await pressAfterTyping(page, status.getByRole("button", { name: "Change status" }));
     await expect(status.getByText("Kept on this phone", { exact: true })).toBeVisible();

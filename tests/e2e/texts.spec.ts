@@ -18,7 +18,7 @@ const textsTo = async (to: string): Promise<FakeText[]> => ((await (await fetch(
 let saved: { shop: Record<string, unknown>; customer: Record<string, unknown> } | null = null;
 
 test.beforeAll(async () => {
-  const [shop] = await sql("SELECT id, sms_quiet_start, sms_quiet_end FROM shops WHERE slug = 'copper-gulch'");
+  const [shop] = await sql("SELECT id, sms_quiet_start, sms_quiet_end, sms_languages FROM shops WHERE slug = 'copper-gulch'");
   const [customer] = await sql(
     "SELECT c.id, c.notify_channels, c.text_consent_phone, c.text_consent_at, c.text_consent_how, c.text_opt_out_at, c.text_opt_out_how FROM customers c JOIN jobs j ON j.customer_id = c.id AND j.shop_id = c.shop_id WHERE j.shop_id = ? AND j.number = 5",
     [shop!.id],
@@ -31,7 +31,7 @@ test.beforeAll(async () => {
 test.afterAll(async () => {
   if (!saved) return;
   const { shop, customer } = saved;
-  await sql("UPDATE shops SET sms_quiet_start = ?, sms_quiet_end = ? WHERE id = ?", [shop.sms_quiet_start, shop.sms_quiet_end, shop.id]);
+  await sql("UPDATE shops SET sms_quiet_start = ?, sms_quiet_end = ?, sms_languages = ? WHERE id = ?", [shop.sms_quiet_start, shop.sms_quiet_end, shop.sms_languages, shop.id]);
   await sql("UPDATE customers SET notify_channels = ?, text_consent_phone = ?, text_consent_at = ?, text_consent_how = ?, text_opt_out_at = ?, text_opt_out_how = ? WHERE id = ?", [
     customer.notify_channels,
     customer.text_consent_phone,
@@ -150,4 +150,20 @@ test("the desk sends a request; the text reaches the SMS fake; its link opens th
   await expect(row).toContainText("Approval request · Text message");
   await expect(row).toContainText("Taken by the text service");
   await deskContext.close();
+});
+
+test("the shop owner ticks Spanish among the languages the shop texts in; it is kept, and shown ticked again", async ({ browser }) => {
+  const context = await browser.newContext({ storageState: storageStatePath("owner") });
+  const page = await context.newPage();
+  await page.goto("/shop/copper-gulch/settings");
+  const form = () => page.getByRole("form", { name: "Text messages" });
+  await expect(form().getByRole("checkbox", { name: "Spanish" })).not.toBeChecked();
+  await form().getByRole("checkbox", { name: "Spanish" }).check();
+  await form().getByRole("button", { name: "Save text settings" }).click();
+  await expect(form().getByRole("status")).toContainText("Saved");
+  expect((await sql("SELECT sms_languages FROM shops WHERE slug = 'copper-gulch'"))[0]!.sms_languages).toBe("en,es");
+  await page.reload();
+  await expect(form().getByRole("checkbox", { name: "Spanish" })).toBeChecked();
+  await expect(form().getByRole("checkbox", { name: "French" })).not.toBeChecked();
+  await context.close();
 });
