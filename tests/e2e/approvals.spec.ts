@@ -27,7 +27,7 @@ test("technician drafts, writer prices and sends, the owner answers from the e-m
   await job.open("/shop/copper-gulch/jobs/5");
   await job.postPhotos([path.join(FIXTURES, "plain.png")], `Pad wear ${id}`);
   // A clip of the pads; once it plays, the technician stops at 0:01 and starts the finding there.
-  await tech.getByRole("tab", { name: "Clip" }).click();
+  await job.openTab("Clip");
   await tech.getByLabel("Choose clips").setInputFiles(path.join(CLIPS, "bench-idle.mp4"));
   await tech.getByRole("button", { name: "Post 1 clip" }).click();
   const clip = tech.getByRole("article").filter({ hasText: /Processing the clip|Uploading from the bench|Clip, 0:03/ }).first();

@@ -32,10 +32,7 @@ test("a clip goes up in 1 MB chunks through a failed chunk, turns playable by it
   await bench.open("/shop/copper-gulch/jobs/5");
   // The tabs work once the page has hydrated: on a busy machine the first click can come before.
   const shareBox = page.getByLabel("Share with the owner now (otherwise shop only)");
-  await expect(async () => {
-    await page.getByRole("tab", { name: "Clip" }).click();
-    await expect(shareBox).toBeVisible({ timeout: 2000 });
-  }).toPass({ timeout: 30_000 });
+  await bench.openTab("Clip");
   await shareBox.check();
   await page.getByLabel("Choose clips").setInputFiles(file);
   await page.getByRole("button", { name: "Post 1 clip" }).click();
@@ -103,7 +100,7 @@ test("a file that isn't a video leaves no entry: the bench is told why, and the 
   test.setTimeout(60_000);
   const bench = new JobPage(page);
   await bench.open("/shop/copper-gulch/jobs/3");
-  await page.getByRole("tab", { name: "Clip" }).click();
+  await bench.openTab("Clip");
   await page.getByLabel("Choose clips").setInputFiles({ name: "parts-list.mp4", mimeType: "video/mp4", buffer: Buffer.from("this is a parts list, not a video\n") });
   await page.getByRole("button", { name: "Post 1 clip" }).click();
   // Sent through the outbox; the service's reason then shows in the list of clips it couldn't use.
@@ -120,7 +117,7 @@ test("a clip longer than the shop allows is refused with a clear message before 
   try {
     const bench = new JobPage(page);
     await bench.open("/shop/copper-gulch/jobs/3");
-    await page.getByRole("tab", { name: "Clip" }).click();
+    await bench.openTab("Clip");
     await page.getByLabel("Choose clips").setInputFiles(path.join(CLIPS, "bench-idle.mp4"));
     await expect(page.getByRole("list", { name: "Clips to post" })).toContainText("runs 0:03; the shop takes clips up to 0:02");
     await expect(page.getByRole("button", { name: "Post clips" })).toBeDisabled();
@@ -137,12 +134,10 @@ test("share ticked after the clip was chosen: the clip comes out shared, and its
   const id = Date.now().toString(36);
   const job = await newDemoJob("CLIPSHR", `Clip shared late ${id}`);
   const jobPath = `/shop/copper-gulch/jobs/${job.number}`;
-  await new JobPage(page).open(jobPath);
+  const journal = new JobPage(page);
+  await journal.open(jobPath);
   const shareBox = page.getByLabel("Share with the owner now (otherwise shop only)");
-  await expect(async () => {
-    await page.getByRole("tab", { name: "Clip" }).click();
-    await expect(shareBox).toBeVisible({ timeout: 2000 });
-  }).toPass({ timeout: 30_000 });
+  await journal.openTab("Clip");
   // The file first, the share box after (the order that once left the clip shop-only).
   await page.getByLabel("Choose clips").setInputFiles(path.join(CLIPS, "bench-idle.mp4"));
   await expect(page.getByRole("list", { name: "Clips to post" }).getByText("Ready to post")).toBeVisible();
@@ -177,10 +172,7 @@ test("share ticked after the clip was chosen: the clip comes out shared, and its
 test("a text file picked as a clip is named at once with what clips take, and can't be posted", async ({ page }) => {
   const bench = new JobPage(page);
   await bench.open("/shop/copper-gulch/jobs/3");
-  await expect(async () => {
-    await page.getByRole("tab", { name: "Clip" }).click();
-    await expect(page.getByLabel("Choose clips")).toBeAttached({ timeout: 2000 });
-  }).toPass({ timeout: 30_000 });
+  await bench.openTab("Clip");
   await page.getByLabel("Choose clips").setInputFiles({ name: "notes.txt", mimeType: "text/plain", buffer: Buffer.from("Chain slack 30 mm, adjust before hand-back.\n") });
   const picked = page.getByRole("list", { name: "Clips to post" });
   await expect(picked).toContainText('"notes.txt" is a text file, not a video. Clips take video files (MP4, MOV, WebM, 3GP…) from the camera or the gallery.');

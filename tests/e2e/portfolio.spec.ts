@@ -4,6 +4,7 @@ import AxeBuilder from "@axe-core/playwright";
 import { type Page, expect, test } from "@playwright/test";
 import { publicIdOf, sql } from "./db";
 import { waitForMail } from "../support/mailbox";
+import { JobPage } from "./pages/job-page";
 import { mailBaseUrl } from "./pages/sign-in-page";
 import { CUSTOMERS, storageStatePath } from "./personas";
 
@@ -46,8 +47,9 @@ test("propose a collected job, the owner agrees by e-mail, the shop owner publis
   const { photo } = (await upload.json()) as { photo: { id: string } };
   const posted = await tech.request.post(`/api/jobs/${job}/entries`, { data: { kind: "photos", photoIds: [photo.id], caption, visibility: "shared" } });
   expect(posted.status()).toBe(200);
-  await tech.goto("/shop/copper-gulch/jobs/1");
-  await tech.getByRole("tab", { name: "Clip" }).click();
+  const bench = new JobPage(tech);
+  await bench.open("/shop/copper-gulch/jobs/1");
+  await bench.openTab("Clip");
   await tech.getByLabel("Share with the owner now (otherwise shop only)").check();
   await tech.getByLabel("Choose clips").setInputFiles(path.join(CLIPS, "bench-idle.mp4"));
   await tech.getByRole("button", { name: "Post 1 clip" }).click();

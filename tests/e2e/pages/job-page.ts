@@ -9,12 +9,24 @@ export class JobPage {
     await expect(this.page.getByRole("heading", { name: "Journal", exact: true })).toBeVisible();
   }
 
+  /**
+   * Opens a tab of the composer and waits until it is the selected one: a click before the page has
+   * hydrated does nothing, and the other tabs' fields (the share box is in each) would pass for it.
+   */
+  async openTab(name: "Note" | "Photos" | "Clip") {
+    const tab = this.page.getByRole("tab", { name });
+    await expect(async () => {
+      await tab.click();
+      await expect(tab).toHaveAttribute("aria-selected", "true", { timeout: 2000 });
+    }).toPass({ timeout: 30_000 });
+  }
+
   entry(text: string): Locator {
     return this.page.getByRole("article").filter({ hasText: text });
   }
 
   async postNote(text: string): Promise<Locator> {
-    await this.page.getByRole("tab", { name: "Note" }).click();
+    await this.openTab("Note");
     const editor = this.page.getByRole("textbox", { name: "Note", exact: true });
     await editor.click();
     await this.page.keyboard.type(text);
@@ -25,7 +37,7 @@ export class JobPage {
   }
 
   async postPhotos(files: string[], caption: string): Promise<Locator> {
-    await this.page.getByRole("tab", { name: "Photos" }).click();
+    await this.openTab("Photos");
     await this.page.getByLabel(/Take or choose photos|Add more photos/).setInputFiles(files);
     const set = this.page.getByRole("list", { name: "Photos in this set" });
     await expect(set.getByText("Uploaded")).toHaveCount(files.length);
