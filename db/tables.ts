@@ -128,12 +128,19 @@ export type JobsTable = {
   updated_at: Date;
   /** The owner's name, copied by triggers from customers for the board's sort and search (21); never written by the app. */
   customer_name?: string;
+  /** Copies of the machine's make, model and serial ('' when it has none), kept by triggers (39) for the board's search; never written. */
+  machine_make?: string;
+  machine_model?: string;
+  machine_serial?: string;
   /** STORED generated (21): 1 when promised_on is null, for the board's "undated last" order; never written. */
   promised_undated?: Flag;
 };
 
 /** How many of a shop's jobs are in each status; kept by triggers on jobs (migration 29), never written by the app. */
 export type JobStatusCountsTable = { shop_id: number; status: JobStatus; n: number };
+
+/** How many of a shop's jobs each technician has in each status; kept by triggers on jobs (migration 40), never written by the app. */
+export type JobTechnicianCountsTable = { shop_id: number; technician_user_id: number; status: JobStatus; n: number };
 
 export type JobStatusChangesTable = {
   id: number;
@@ -997,6 +1004,7 @@ declare module "knex/types/tables" {
     jobs: JobsTable;
     job_status_changes: JobStatusChangesTable;
     job_status_counts: JobStatusCountsTable;
+    job_technician_counts: JobTechnicianCountsTable;
     shop_events: ShopEventsTable;
     inbox_reads: InboxReadsTable;
     inbox_preferences: InboxPreferencesTable;

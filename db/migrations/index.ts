@@ -37,6 +37,8 @@ import * as jobQuestions from "./20261205_35_job_questions";
 import * as idempotencyKeys from "./20261205_36_idempotency_keys";
 import * as textLanguages from "./20261206_37_text_languages";
 import * as lineWithdrawals from "./20261206_38_line_withdrawals";
+import * as jobSearchText from "./20261206_39_job_search_text";
+import * as jobTechnicianCounts from "./20261206_40_job_technician_counts";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -81,6 +83,8 @@ const MIGRATIONS: Migration[] = [
   { name: "20261205_36_idempotency_keys", module: idempotencyKeys },
   { name: "20261206_37_text_languages", module: textLanguages },
   { name: "20261206_38_line_withdrawals", module: lineWithdrawals },
+  { name: "20261206_39_job_search_text", module: jobSearchText },
+  { name: "20261206_40_job_technician_counts", module: jobTechnicianCounts },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

@@ -70,22 +70,38 @@ function orderIndex(sort: JobListQuery["sort"], dir: "asc" | "desc"): string {
   return sort === "number" ? "jobs_shop_id_number_unique" : `jobs_board_${sort}_${dir}`;
 }
 
-/** The shop's jobs that pass the board's filters and search, on jobs alone (plus the search's ids). */
-export function boardJobs(k: Knex, shopId: number, query: JobListQuery, today: string) {
+/** The columns of jobs the board's page picks and sorts on: what a search branch hands on. */
+const SEARCH_COLUMNS = ["j.id", "j.shop_id", "j.number", "j.status", "j.updated_at", "j.promised_undated", "j.promised_on", "j.customer_name"];
+
+/**
+ * The shop's jobs that pass the board's filters and search, on jobs alone, as `j` (with a search:
+ * the union of its branches under that name, each branch filtered, with the columns of SEARCH_COLUMNS).
+ * `found`: the ids of the search's small branches (smallSearch), read first.
+ */
+export function boardJobs(k: Knex, shopId: number, query: JobListQuery, today: string, found: number[] = []): Knex.QueryBuilder {
   // Which rows to read first, said to the optimizer so the plan can't drift with statistics:
-  // - a search: its hits (STRAIGHT_JOIN), then each job by id, sorted; a quick filter: its status
-  //   ranges, sorted. Both are a few rows of the shop's jobs; walking the whole history in page
-  //   order hoping to meet them (which ORDER BY … LIMIT may tempt the optimizer into) is not.
+  // - a search: each branch its own index (db/queries/job-search.ts), then the hits sorted; a quick
+  //   filter: its status ranges, sorted. Both are a few rows of the shop's jobs; walking the whole
+  //   history in page order hoping to meet them (which ORDER BY … LIMIT may tempt the optimizer
+  //   into) is not.
   // - no filter at all: every job is a candidate, so the sort's own index, even for a deep page
   //   (which the optimizer may otherwise read whole and sort).
-  const unfiltered = !query.q && !query.attention.length && !query.status.length && !query.technician;
-  const jobs: Knex.QueryBuilder = query.q
-    ? k.from(searchHits(k, shopId, query.q).as("hit")).joinRaw("STRAIGHT_JOIN jobs AS j ON j.id = hit.id")
-    : query.attention.length
-      ? k.from(k.raw(`jobs AS j IGNORE INDEX FOR ORDER BY (${ORDER_INDEXES.join(", ")})`))
-      : unfiltered
-        ? k.from(k.raw(`jobs AS j FORCE INDEX FOR ORDER BY (${orderIndex(query.sort, query.dir)})`))
-        : k("jobs as j");
+  if (query.q) {
+    const branch = () => filtered(k("jobs as j").select(SEARCH_COLUMNS), shopId, query, today);
+    const hits = searchHits(query.q, found, branch);
+    return "single" in hits ? hits.single.clearSelect() : k.from(hits.union.as("j"));
+  }
+  const unfiltered = !query.attention.length && !query.status.length && !query.technician;
+  const jobs: Knex.QueryBuilder = query.attention.length
+    ? k.from(k.raw(`jobs AS j IGNORE INDEX FOR ORDER BY (${ORDER_INDEXES.join(", ")})`))
+    : unfiltered
+      ? k.from(k.raw(`jobs AS j FORCE INDEX FOR ORDER BY (${orderIndex(query.sort, query.dir)})`))
+      : k("jobs as j");
+  return filtered(jobs, shopId, query, today);
+}
+
+/** The shop's jobs (alias j) narrowed by the board's status, quick and technician filters. */
+function filtered(jobs: Knex.QueryBuilder, shopId: number, query: JobListQuery, today: string): Knex.QueryBuilder {
   jobs.where("j.shop_id", shopId);
   if (query.status.length) jobs.whereIn("j.status", query.status);
   if (query.attention.length) {

@@ -1,13 +1,20 @@
 import "server-only";
 import type { Knex } from "knex";
 
-// The board's search box, as a set of job ids, each branch read through an index of its own
-// (migration 21) instead of `%q%` over four columns:
+// The board's search box, each branch read through an index of its own (migrations 21 and 39)
+// instead of `%q%` over four columns, all on jobs alone (the job carries its owner's name and its
+// machine's make, model and serial):
 // - a job number ("J-0042", "j42", "42") through the (shop_id, number) unique key, exactly;
-// - the start of the owner's name (jobs.customer_name) and of the machine's serial, by prefix;
+// - the start of the owner's name and of the machine's serial, by prefix;
 // - whole words of three letters or more (innodb_ft_min_token_size), each as a word prefix, in
-//   the owner's name or in the machine's make, model and serial, through FULLTEXT indexes;
+//   the owner's name, make, model and serial together, through one FULLTEXT index;
 // - a query with no such word (one or two letters, "KT") by prefix of make and model as well.
+//
+// A search with words is read in two steps. The small branches (number, prefixes) first, as ids:
+// a few index rows. Then one query: the word branch, which can match one job in eight, read
+// straight off the FULLTEXT index with the sort columns on its rows, plus (UNION ALL) the jobs the
+// small branches found that it did not. Its thousands of hits are then never de-duplicated one by
+// one in a temporary table, nor joined back to jobs: only sorted for the page.
 
 const JOB_NUMBER = /^(?:j-?)?0*(\d{1,9})$/i;
 /** Shorter words are not in a FULLTEXT index (innodb_ft_min_token_size, 3 by default). */
@@ -31,33 +38,32 @@ export function searchPlan(q: string): { number: number | null; prefix: string; 
   };
 }
 
-/** `SELECT id` of the shop's jobs that match `q`: a UNION whose every branch reads an index range. */
-export function searchHits(k: Knex, shopId: number, q: string): Knex.QueryBuilder {
+/** `SELECT j.id` of the shop's jobs that the number and prefix branches find (no words: make and model too). */
+export function smallSearch(k: Knex, shopId: number, q: string): Knex.QueryBuilder {
   const plan = searchPlan(q);
-  const jobsOf = (table: "customers as c" | "machines as m", key: "customer_id" | "machine_id") => {
-    const alias = table.slice(-1);
-    return k(table)
-      .join("jobs as j", (on) => on.on("j.shop_id", `${alias}.shop_id`).andOn(`j.${key}`, `${alias}.id`))
-      .where(`${alias}.shop_id`, shopId)
-      .select("j.id");
-  };
-  const branches: Knex.QueryBuilder[] = [
-    k("jobs").where("shop_id", shopId).where("customer_name", "like", plan.prefix).select("id"),
-    jobsOf("machines as m", "machine_id").where("m.serial", "like", plan.prefix),
-  ];
-  if (plan.number != null) branches.push(k("jobs").where({ shop_id: shopId, number: plan.number }).select("id"));
-  if (plan.words) {
-    const owners = jobsOf("customers as c", "customer_id").whereRaw("MATCH (c.name) AGAINST (? IN BOOLEAN MODE)", [plan.words]);
-    const machines = jobsOf("machines as m", "machine_id").whereRaw("MATCH (m.make, m.model, m.serial) AGAINST (? IN BOOLEAN MODE)", [plan.words]);
-    for (const like of plan.short) {
-      owners.where("c.name", "like", like);
-      machines.where((w) => w.where("m.make", "like", like).orWhere("m.model", "like", like).orWhere("m.serial", "like", like));
-    }
-    branches.push(owners, machines);
-  } else {
-    branches.push(jobsOf("machines as m", "machine_id").where("m.make", "like", plan.prefix));
-    branches.push(jobsOf("machines as m", "machine_id").where("m.model", "like", plan.prefix));
-  }
-  const [first, ...rest] = branches;
+  const branch = () => k("jobs as j").where("j.shop_id", shopId).select("j.id");
+  const small = [branch().where("j.customer_name", "like", plan.prefix), branch().where("j.machine_serial", "like", plan.prefix)];
+  if (plan.number != null) small.push(branch().where("j.number", plan.number));
+  if (!plan.words) small.push(branch().where("j.machine_make", "like", plan.prefix), branch().where("j.machine_model", "like", plan.prefix));
+  const [first, ...rest] = small;
   return first!.union(rest); // UNION, not UNION ALL: a job found twice counts once
+}
+
+/**
+ * The shop's jobs that match `q`, given the ids smallSearch found (`found`). `branch` makes each
+ * branch: the shop's jobs (alias j) with the board's other filters applied and the columns the
+ * board sorts on. One table read when there is no word or nothing small was found, else a UNION ALL.
+ */
+export function searchHits(q: string, found: number[], branch: () => Knex.QueryBuilder): { single: Knex.QueryBuilder } | { union: Knex.QueryBuilder } {
+  const plan = searchPlan(q);
+  const small = () => branch().whereIn("j.id", found);
+  if (!plan.words) return { single: small() };
+  const words = branch().whereRaw("MATCH (j.customer_name, j.machine_make, j.machine_model, j.machine_serial) AGAINST (? IN BOOLEAN MODE)", [plan.words]);
+  // "Brin Fallowby 40": the index can't hold "40", so the rows its words find must contain it.
+  for (const like of plan.short) {
+    words.where((w) => w.where("j.customer_name", "like", like).orWhere("j.machine_make", "like", like).orWhere("j.machine_model", "like", like).orWhere("j.machine_serial", "like", like));
+  }
+  if (!found.length) return { single: words };
+  // Found by a small branch already: not again.
+  return { union: small().unionAll(words.whereNotIn("j.id", found)) };
 }

@@ -7,6 +7,7 @@ import type { JobStatus } from "@/lib/job-status";
 import type { MachineKind } from "@/lib/machine";
 import { shopToday } from "@/lib/jobs-view";
 import type { JobListQuery } from "@/lib/schemas/jobs";
+import { smallSearch } from "./job-search";
 import { ANSWERED_NOT_STARTED, type BoardExtras, boardJobs, boardOrder, INVOICE_STATE, OWNER_WAIT_DAYS, SINCE } from "./job-board";
 
 export type JobRow = {
@@ -101,25 +102,32 @@ function jobsWithDetails(k: Knex) {
 
 export type { BoardExtras } from "./job-board";
 
-/** The board's two queries (count, page), exported for the EXPLAIN test (tests/integration/board-explain.test.ts). */
-export function boardQueries({ shopId, query, today = shopToday("UTC") }: { shopId: number; query: JobListQuery; today?: string }) {
+/**
+ * The board's two queries (count, page), exported for the EXPLAIN test (tests/integration/board-explain.test.ts).
+ * A search reads its number and prefix branches first (`small`, a few index rows; job-search.ts).
+ */
+export async function boardQueries({ shopId, query, today = shopToday("UTC") }: { shopId: number; query: JobListQuery; today?: string }) {
   const k = db();
-  // With no filter but statuses, the per-status counts the jobs triggers keep (migration 29): a few
-  // rows, however long the shop's history; anything else counts the jobs that match.
-  const byStatusOnly = !query.q && !query.attention.length && !query.technician;
-  const count = byStatusOnly
-    ? k("job_status_counts")
+  const small = query.q ? smallSearch(k, shopId, query.q) : null;
+  const found = small ? ((await small) as { id: number }[]).map((r) => Number(r.id)) : [];
+  // With no filter but statuses (and a technician), the per-status counts the jobs triggers keep
+  // (migrations 29 and 40): a few rows, however long the shop's history; anything else counts the
+  // jobs that match.
+  const byCounters = !query.q && !query.attention.length;
+  const count = byCounters
+    ? k(query.technician ? "job_technician_counts" : "job_status_counts")
         .where("shop_id", shopId)
+        .modify((q) => (query.technician ? q.where("technician_user_id", query.technician) : q))
         .modify((q) => (query.status.length ? q.whereIn("status", query.status) : q))
         .sum({ n: "n" })
-    : boardJobs(k, shopId, query, today).count({ n: "*" });
+    : boardJobs(k, shopId, query, today, found).count({ n: "*" });
   const order = boardOrder(query.sort, query.dir);
   // A search reads all its hits to sort them anyway: the page counts them as it goes (a window
   // over the hits before LIMIT), instead of a second pass through the search (`count`, then only
   // for a page past the end).
   const countsItself = !!query.q;
   // The page's ids first, from jobs' indexes alone; the joins and the extras for those rows only.
-  const ids = boardJobs(k, shopId, query, today)
+  const ids = boardJobs(k, shopId, query, today, found)
     .select("j.id")
     .modify((q) => (countsItself ? q.select(k.raw("COUNT(*) OVER () AS total")) : q))
     .orderBy(order)
@@ -140,7 +148,7 @@ export function boardQueries({ shopId, query, today = shopToday("UTC") }: { shop
       k.raw(`(${ANSWERED_NOT_STARTED}) AS answered_not_started`),
     )
     .orderBy(order);
-  return { count, page, countsItself };
+  return { count, page, countsItself, small };
 }
 
 /**
@@ -148,7 +156,7 @@ export function boardQueries({ shopId, query, today = shopToday("UTC") }: { shop
  * shop's calendar date (YYYY-MM-DD, see shopToday) that decides what is overdue; UTC if left out.
  */
 export async function listJobs({ shopId, query, today = shopToday("UTC") }: { shopId: number; query: JobListQuery; today?: string }) {
-  const { count, page, countsItself } = boardQueries({ shopId, query, today });
+  const { count, page, countsItself } = await boardQueries({ shopId, query, today });
   const counted = async () => Number((await count.first())?.n ?? 0);
   const total = countsItself ? null : await counted();
   const rows: (JobJoin & { since: Date; invoice_state: BoardExtras["invoiceState"] | null; owner_wait_days: number; answered_not_started: number; total?: number })[] = await page;

@@ -144,4 +144,31 @@ describe("the indexed board shows what the board showed before", () => {
     expect(moved.rows.map((r) => r.number)).not.toContain(77);
     await same({ sort: "customer", dir: "asc", pageSize: "25" });
   });
+
+  it("follows a machine's new make, model and serial and a job moved to another machine (the triggers keep jobs.machine_*)", async () => {
+    const job = await db("jobs").where({ shop_id: shopId, number: 88 }).first("id", "machine_id", "customer_name");
+    // Every job of that machine (the made-up shop brings some machines back more than once).
+    const ofMachine = ((await db("jobs").where({ machine_id: job!.machine_id }).orderBy("number", "desc").pluck("number")) as number[]).map(Number);
+    expect(ofMachine).toContain(88);
+    await db("machines").where({ id: job!.machine_id }).update({ make: "Quellmark", model: "Fjord 90", serial: "QZ-88-0001" });
+    for (const q of ["quellmark", "Fjord", "QZ-88", "qz-88-0001"]) {
+      expect((await same({ q, sort: "number" })).rows.map((r) => r.number), q).toEqual(ofMachine);
+    }
+    // A machine without a serial: the copy is '' (not NULL), and a serial search passes it by.
+    await db("machines").where({ id: job!.machine_id }).update({ serial: null });
+    expect((await db("jobs").where({ id: job!.id }).first("machine_serial"))!.machine_serial).toBe("");
+    expect((await same({ q: "QZ-88", sort: "number" })).total).toBe(0);
+    // The owner's name and the make in one search: words are looked for across the job's four columns.
+    const surname = String(job!.customer_name).split(" ")[1]!;
+    const both = await listJobs({ shopId, query: jobListQuerySchema.parse({ q: `${surname} Quellmark`, pageSize: "100" }), today: TODAY });
+    expect(both.rows.map((r) => r.number)).toContain(88);
+    expect(both.rows.every((r) => r.machine.make === "Quellmark" && r.customerName.includes(surname))).toBe(true);
+    // The job moved to another machine reads that machine's words, at once.
+    const other = await db("machines").where({ shop_id: shopId }).whereNot({ id: job!.machine_id }).orderBy("id").first("id", "make");
+    await db("jobs").where({ id: job!.id }).update({ machine_id: other!.id });
+    const left = await same({ q: "quellmark", sort: "number" });
+    expect(left.rows.map((r) => r.number)).toEqual(ofMachine.filter((n) => n !== 88));
+    expect((await db("jobs").where({ id: job!.id }).first("machine_make"))!.machine_make).toBe(other!.make);
+    await same({ q: String(other!.make), sort: "number", pageSize: "100" });
+  });
 });

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { freshDatabase } from "../support/db";
 
-const TABLES = ["shops", "users", "memberships", "customers", "customer_merges", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "teardown_step_revisions", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events", "user_sessions", "shop_setting_changes", "dropoff_authorisations", "staff_invites", "password_resets", "shop_signups", "measurement_sets", "measurement_items", "job_status_counts", "part_orders", "shop_parts_markup", "job_questions", "job_reply_tokens", "mail_webhook_events", "idempotency_keys", "text_consent_log", "text_outbox", "text_status_events", "text_inbound"];
+const TABLES = ["shops", "users", "memberships", "customers", "customer_merges", "machines", "jobs", "job_status_changes", "sign_in_links", "auth_attempts", "journal_entries", "journal_entry_revisions", "photos", "shop_bench_settings", "torque_records", "readings", "teardown_steps", "teardown_step_revisions", "job_parts", "job_part_events", "spec_entries", "shop_money_settings", "findings", "finding_evidence", "finding_lines", "approval_requests", "approval_decisions", "approval_decision_lines", "outbox", "job_subscribers", "job_update_queue", "job_alerts", "invoices", "invoice_lines", "deposit_requests", "payment_checkouts", "payments", "payment_webhook_events", "shop_profiles", "stories", "story_items", "story_consents", "clips", "clip_moments", "video_webhook_events", "user_sessions", "shop_setting_changes", "dropoff_authorisations", "staff_invites", "password_resets", "shop_signups", "measurement_sets", "measurement_items", "job_status_counts", "job_technician_counts", "part_orders", "shop_parts_markup", "job_questions", "job_reply_tokens", "mail_webhook_events", "idempotency_keys", "text_consent_log", "text_outbox", "text_status_events", "text_inbound"];
 
 describe("migrations on an empty database", () => {
   let fresh: Awaited<ReturnType<typeof freshDatabase>>;
@@ -82,6 +82,20 @@ describe("migrations on an empty database", () => {
     await db("jobs").where({ shop_id: b, number: 2 }).update({ concern: "z" }); // not a move
     await db("jobs").where({ shop_id: b, number: 1 }).delete();
     expect(await counts()).toEqual({ ready: 1 });
+    // And per technician (migration 40): assigned, moved, handed to another, unassigned, deleted.
+    const [techA] = await db("users").insert({ email: "mig-tech-a@example.test", name: "A" });
+    const [techB] = await db("users").insert({ email: "mig-tech-b@example.test", name: "B" });
+    const byTech = async () =>
+      Object.fromEntries((await db("job_technician_counts").where({ shop_id: b }).where("n", "<>", 0).select("technician_user_id", "status", "n")).map((r) => [`${r.technician_user_id === techA ? "A" : "B"} ${r.status}`, r.n]));
+    await db("jobs").insert({ shop_id: b, number: 3, public_id: "eeeeeeeeeeeeeeee", customer_id: customerB, machine_id: machineB, concern: "t", status: "checked_in", technician_user_id: techA });
+    await db("jobs").where({ shop_id: b, number: 2 }).update({ technician_user_id: techA });
+    expect(await byTech()).toEqual({ "A checked_in": 1, "A ready": 1 });
+    await db("jobs").where({ shop_id: b, number: 3 }).update({ status: "in_progress" });
+    await db("jobs").where({ shop_id: b, number: 2 }).update({ technician_user_id: techB, status: "picked_up" });
+    expect(await byTech()).toEqual({ "A in_progress": 1, "B picked_up": 1 });
+    await db("jobs").where({ shop_id: b, number: 3 }).update({ technician_user_id: null });
+    await db("jobs").where({ shop_id: b, number: 2 }).delete();
+    expect(await byTech()).toEqual({});
   });
 
   it("keep English among the languages a shop texts in (migration 37)", async () => {
