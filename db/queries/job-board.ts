@@ -76,9 +76,9 @@ const SEARCH_COLUMNS = ["j.id", "j.shop_id", "j.number", "j.status", "j.updated_
 /**
  * The shop's jobs that pass the board's filters and search, on jobs alone, as `j` (with a search:
  * the union of its branches under that name, each branch filtered, with the columns of SEARCH_COLUMNS).
- * `found`: the ids of the search's small branches (smallSearch), read first.
+ * `anySmall`: whether the search's number and prefix branches find anything (smallSearch), asked first.
  */
-export function boardJobs(k: Knex, shopId: number, query: JobListQuery, today: string, found: number[] = []): Knex.QueryBuilder {
+export function boardJobs(k: Knex, shopId: number, query: JobListQuery, today: string, anySmall = true): Knex.QueryBuilder {
   // Which rows to read first, said to the optimizer so the plan can't drift with statistics:
   // - a search: each branch its own index (db/queries/job-search.ts), then the hits sorted; a quick
   //   filter: its status ranges, sorted. Both are a few rows of the shop's jobs; walking the whole
@@ -88,7 +88,7 @@ export function boardJobs(k: Knex, shopId: number, query: JobListQuery, today: s
   //   (which the optimizer may otherwise read whole and sort).
   if (query.q) {
     const branch = () => filtered(k("jobs as j").select(SEARCH_COLUMNS), shopId, query, today);
-    const hits = searchHits(query.q, found, branch);
+    const hits = searchHits(query.q, anySmall, branch);
     return "single" in hits ? hits.single.clearSelect() : k.from(hits.union.as("j"));
   }
   const unfiltered = !query.attention.length && !query.status.length && !query.technician;

@@ -10,11 +10,13 @@ import type { Knex } from "knex";
 //   the owner's name, make, model and serial together, through one FULLTEXT index;
 // - a query with no such word (one or two letters, "KT") by prefix of make and model as well.
 //
-// A search with words is read in two steps. The small branches (number, prefixes) first, as ids:
-// a few index rows. Then one query: the word branch, which can match one job in eight, read
-// straight off the FULLTEXT index with the sort columns on its rows, plus (UNION ALL) the jobs the
-// small branches found that it did not. Its thousands of hits are then never de-duplicated one by
-// one in a temporary table, nor joined back to jobs: only sorted for the page.
+// A search with words first asks whether any small branch (number, prefixes) finds anything: an
+// EXISTS per branch, each stopping at its first index row. Mostly none does (a make, a model, a
+// surname in the middle of a name), and the page is then read straight off the FULLTEXT index,
+// sort columns and all: a word that matches one job in eight is never merged through a
+// de-duplicating temporary table nor joined back to jobs, only sorted for the page. Otherwise
+// the small branches are merged (UNION) and the word branch appended (UNION ALL) without what
+// they already found.
 
 const JOB_NUMBER = /^(?:j-?)?0*(\d{1,9})$/i;
 /** Shorter words are not in a FULLTEXT index (innodb_ft_min_token_size, 3 by default). */
@@ -38,32 +40,38 @@ export function searchPlan(q: string): { number: number | null; prefix: string; 
   };
 }
 
-/** `SELECT j.id` of the shop's jobs that the number and prefix branches find (no words: make and model too). */
-export function smallSearch(k: Knex, shopId: number, q: string): Knex.QueryBuilder {
-  const plan = searchPlan(q);
-  const branch = () => k("jobs as j").where("j.shop_id", shopId).select("j.id");
+/** The number and prefix branches (without words: make and model too), each made by `branch`. */
+function smallBranches(plan: ReturnType<typeof searchPlan>, branch: () => Knex.QueryBuilder): Knex.QueryBuilder[] {
   const small = [branch().where("j.customer_name", "like", plan.prefix), branch().where("j.machine_serial", "like", plan.prefix)];
   if (plan.number != null) small.push(branch().where("j.number", plan.number));
   if (!plan.words) small.push(branch().where("j.machine_make", "like", plan.prefix), branch().where("j.machine_model", "like", plan.prefix));
-  const [first, ...rest] = small;
-  return first!.union(rest); // UNION, not UNION ALL: a job found twice counts once
+  return small;
+}
+
+/** `SELECT … AS found`: 1 when any small branch finds one of the shop's jobs (each EXISTS stops at its first row). */
+export function smallSearch(k: Knex, shopId: number, q: string): Knex.QueryBuilder {
+  const parts = smallBranches(searchPlan(q), () => k("jobs as j").where("j.shop_id", shopId).select(k.raw("1"))).map((b) => b.toSQL());
+  return k.select(k.raw(`${parts.map((p) => `EXISTS (${p.sql})`).join(" OR ")} AS found`, parts.flatMap((p) => [...p.bindings])));
 }
 
 /**
- * The shop's jobs that match `q`, given the ids smallSearch found (`found`). `branch` makes each
+ * The shop's jobs that match `q` (`anySmall`: what smallSearch answered). `branch` makes each
  * branch: the shop's jobs (alias j) with the board's other filters applied and the columns the
- * board sorts on. One table read when there is no word or nothing small was found, else a UNION ALL.
+ * board sorts on. One table read when only words can match, else a UNION.
  */
-export function searchHits(q: string, found: number[], branch: () => Knex.QueryBuilder): { single: Knex.QueryBuilder } | { union: Knex.QueryBuilder } {
+export function searchHits(q: string, anySmall: boolean, branch: () => Knex.QueryBuilder): { single: Knex.QueryBuilder } | { union: Knex.QueryBuilder } {
   const plan = searchPlan(q);
-  const small = () => branch().whereIn("j.id", found);
-  if (!plan.words) return { single: small() };
+  const [first, ...rest] = smallBranches(plan, branch);
+  if (!plan.words) return { union: first!.union(rest) }; // UNION, not UNION ALL: a job found twice counts once
   const words = branch().whereRaw("MATCH (j.customer_name, j.machine_make, j.machine_model, j.machine_serial) AGAINST (? IN BOOLEAN MODE)", [plan.words]);
   // "Brin Fallowby 40": the index can't hold "40", so the rows its words find must contain it.
   for (const like of plan.short) {
     words.where((w) => w.where("j.customer_name", "like", like).orWhere("j.machine_make", "like", like).orWhere("j.machine_model", "like", like).orWhere("j.machine_serial", "like", like));
   }
-  if (!found.length) return { single: words };
-  // Found by a small branch already: not again.
-  return { union: small().unionAll(words.whereNotIn("j.id", found)) };
+  if (!anySmall) return { single: words };
+  // Found by a small branch already: not again (the columns are never NULL, so NOT LIKE is exact).
+  words.whereRaw("NOT (j.customer_name LIKE ?)", [plan.prefix]).whereRaw("NOT (j.machine_serial LIKE ?)", [plan.prefix]);
+  if (plan.number != null) words.whereNot("j.number", plan.number);
+  // The DISTINCT unions first: MariaDB lets a UNION ALL to their right append without de-duplicating.
+  return { union: first!.union(rest).unionAll(words) };
 }

@@ -7,7 +7,7 @@ import type { JobStatus } from "@/lib/job-status";
 import type { MachineKind } from "@/lib/machine";
 import { shopToday } from "@/lib/jobs-view";
 import type { JobListQuery } from "@/lib/schemas/jobs";
-import { smallSearch } from "./job-search";
+import { searchPlan, smallSearch } from "./job-search";
 import { ANSWERED_NOT_STARTED, type BoardExtras, boardJobs, boardOrder, INVOICE_STATE, OWNER_WAIT_DAYS, SINCE } from "./job-board";
 
 export type JobRow = {
@@ -104,12 +104,12 @@ export type { BoardExtras } from "./job-board";
 
 /**
  * The board's two queries (count, page), exported for the EXPLAIN test (tests/integration/board-explain.test.ts).
- * A search reads its number and prefix branches first (`small`, a few index rows; job-search.ts).
+ * A search with words first asks whether its number and prefix branches find anything (`small`; job-search.ts).
  */
 export async function boardQueries({ shopId, query, today = shopToday("UTC") }: { shopId: number; query: JobListQuery; today?: string }) {
   const k = db();
-  const small = query.q ? smallSearch(k, shopId, query.q) : null;
-  const found = small ? ((await small) as { id: number }[]).map((r) => Number(r.id)) : [];
+  const small = query.q && searchPlan(query.q).words ? smallSearch(k, shopId, query.q) : null;
+  const anySmall = small ? Boolean(Number(((await small.first()) as { found: number | string } | undefined)?.found)) : false;
   // With no filter but statuses (and a technician), the per-status counts the jobs triggers keep
   // (migrations 29 and 40): a few rows, however long the shop's history; anything else counts the
   // jobs that match.
@@ -120,14 +120,14 @@ export async function boardQueries({ shopId, query, today = shopToday("UTC") }: 
         .modify((q) => (query.technician ? q.where("technician_user_id", query.technician) : q))
         .modify((q) => (query.status.length ? q.whereIn("status", query.status) : q))
         .sum({ n: "n" })
-    : boardJobs(k, shopId, query, today, found).count({ n: "*" });
+    : boardJobs(k, shopId, query, today, anySmall).count({ n: "*" });
   const order = boardOrder(query.sort, query.dir);
   // A search reads all its hits to sort them anyway: the page counts them as it goes (a window
   // over the hits before LIMIT), instead of a second pass through the search (`count`, then only
   // for a page past the end).
   const countsItself = !!query.q;
   // The page's ids first, from jobs' indexes alone; the joins and the extras for those rows only.
-  const ids = boardJobs(k, shopId, query, today, found)
+  const ids = boardJobs(k, shopId, query, today, anySmall)
     .select("j.id")
     .modify((q) => (countsItself ? q.select(k.raw("COUNT(*) OVER () AS total")) : q))
     .orderBy(order)

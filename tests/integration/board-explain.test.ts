@@ -52,16 +52,17 @@ const FILTERS: Variant[] = [
   { name: "overdue, sorted by owner", query: { attention: "overdue", sort: "customer", dir: "asc" }, keys: ["jobs_shop_id_status_promised_on_index"] },
 ];
 
-// A search reads its number and prefix branches first (`small`, each its own index of jobs), then
-// the page: the words' FULLTEXT index straight (no join back to jobs), plus the small branches'
-// jobs by id (PRIMARY) when they found any.
-const SEARCHED = ["PRIMARY", "jobs_shop_id_id_unique", "jobs_search_fulltext"];
+// A search with words first asks its number and prefix branches (`small`, each its own index of
+// jobs) whether they find anything; the page then reads the words' FULLTEXT index straight (no join
+// back to jobs), merged with those branches when they did. Without words: the branches alone.
+const SEARCHED = ["jobs_search_fulltext", "jobs_board_customer_desc", "jobs_board_customer_asc"];
 const SEARCHES: Variant[] = [
-  { name: "job number", query: { q: "J-0042" }, keys: SEARCHED, small: ["jobs_shop_id_number_unique"] },
+  { name: "job number", query: { q: "J-0042" }, keys: SEARCHED, uses: ["jobs_shop_id_number_unique", "jobs_search_fulltext"], small: ["jobs_shop_id_number_unique"] },
   { name: "serial prefix", query: { q: "SC00012" }, keys: SEARCHED, uses: ["jobs_search_fulltext"], small: ["jobs_search_serial"] },
   { name: "owner's name", query: { q: "Dunmore" }, keys: SEARCHED, uses: ["jobs_search_fulltext"], small: ["jobs_search_serial"] },
-  { name: "make or model word", query: { q: "Ridgeback" }, keys: SEARCHED, uses: ["jobs_search_fulltext"] },
-  { name: "two letters", query: { q: "Ko" }, keys: ["PRIMARY", "jobs_shop_id_id_unique"], small: ["jobs_search_make", "jobs_search_model"] },
+  // Nothing starts with the word: the page is the FULLTEXT read alone.
+  { name: "make or model word", query: { q: "Ridgeback" }, keys: ["jobs_search_fulltext"], small: ["jobs_search_serial"] },
+  { name: "two letters", query: { q: "Ko" }, keys: ["jobs_board_customer_desc", "jobs_board_customer_asc"], uses: ["jobs_search_serial", "jobs_search_make", "jobs_search_model"] },
   { name: "search with a filter", query: { q: "Dunmore", status: "picked_up", sort: "customer" }, keys: SEARCHED, uses: ["jobs_search_fulltext"] },
 ];
 
