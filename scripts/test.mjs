@@ -124,13 +124,14 @@ async function main() {
       testRun.serve("The SMS fake", "node", [bin.tsx, "fakes/sms/server.ts"], env);
       testRun.serve("The app under test", "node", [bin.next, "start", "-p", String(APP_PORT)], env);
       // Polls often so mail reaches the test mail fake within a second of being queued.
-      testRun.serve("The mail worker", "node", [bin.tsx, "--tsconfig", "tsconfig.worker.json", "scripts/outbox-worker.ts"], { ...env, OUTBOX_POLL_MS: "300" });
+      const worker = testRun.serve("The mail worker", "node", [bin.tsx, "--tsconfig", "tsconfig.worker.json", "scripts/outbox-worker.ts"], { ...env, OUTBOX_POLL_MS: "300" });
       await waitForHttp(`http://127.0.0.1:${MAIL_PORT}/`, { label: "The mail fake" });
       await waitForHttp(`http://127.0.0.1:${VIDEO_PORT}/_fake/health`, { label: "The video fake" });
       await waitForHttp(`http://127.0.0.1:${PAYMENTS_PORT}/_fake/health`, { label: "The payments fake" });
       await waitForHttp(`http://127.0.0.1:${SMS_PORT}/_fake/health`, { label: "The SMS fake" });
       await waitForHttp(`http://127.0.0.1:${APP_PORT}/api/health`, { label: "The app under test" });
-      if ((await run("node", [bin.playwright, "test", ...files], env)) !== 0) failures.push("e2e");
+      // The worker's process group, for a spec that must hold its clock-driven writes still (tests/e2e/access/checksums.ts).
+      if ((await run("node", [bin.playwright, "test", ...files], { ...env, E2E_MAIL_WORKER_PGID: String(worker.pid) })) !== 0) failures.push("e2e");
     }
   }
 

@@ -4,7 +4,7 @@ import type mysql from "mysql2/promise";
 import { declarationId, scanDeclarations } from "../support/declarations";
 import { attackCases } from "./access/attacks";
 import { type Call, actionKey, isStateChanging, planCalls, uncallable } from "./access/calls";
-import { changedTables, checksums, connect, waitForQuiet } from "./access/checksums";
+import { changedTables, checksums, connect, holdMailWorker, waitForQuiet } from "./access/checksums";
 import { ANONYMOUS_COOKIE, APP_URL, type ActionRef, type Seen, classify, describeSeen, pool, readActionManifest } from "./access/client";
 import { PERSONA_NAMES, type PersonaName } from "./access/expected";
 import { type Fixture, makeFixture, removeFixture, restoreShopSettings, saveShopSettings } from "./access/fixture";
@@ -77,25 +77,31 @@ test("every persona × handler and action gets what the table says; refused ones
     for (const c of calls) byLabel.set(c.label, [...(byLabel.get(c.label) ?? []), c]);
 
     await test.step(`refused calls: ${calls.filter((c) => c.expected !== "allowed").length}, a few declarations at a time between two checksums`, async () => {
-      await waitForQuiet(db);
-      const groups = [...byLabel.entries()].map(([label, group]) => ({ label, refused: group.filter((c) => c.expected !== "allowed") })).filter((g) => g.refused.length);
-      for (let i = 0; i < groups.length; i += REFUSED_BATCH) {
-        const batch = groups.slice(i, i + REFUSED_BATCH);
-        const before = await checksums(db);
-        const refused = batch.flatMap((g) => g.refused);
-        const seen = await pool(refused, 8, (c) => c.run(ctx(c.persona)));
-        refused.forEach((c, j) => record(c, seen[j]!));
-        const changedByBatch = changedTables(before, await checksums(db));
-        if (!changedByBatch.length) continue;
-        // Something wrote: find which declaration, calling each again on its own.
-        const found = mismatches.length;
-        for (const g of batch) {
-          const alone = await checksums(db);
-          await Promise.all(g.refused.map((c) => c.run(ctx(c.persona))));
-          const changed = changedTables(alone, await checksums(db));
-          if (changed.length) mismatches.push(`${g.label}: refused calls changed ${changed.join(", ")}`);
+      // The mail worker's clock-driven writes would be taken for a refused call's (checksums.ts).
+      const resumeWorker = holdMailWorker();
+      try {
+        await waitForQuiet(db);
+        const groups = [...byLabel.entries()].map(([label, group]) => ({ label, refused: group.filter((c) => c.expected !== "allowed") })).filter((g) => g.refused.length);
+        for (let i = 0; i < groups.length; i += REFUSED_BATCH) {
+          const batch = groups.slice(i, i + REFUSED_BATCH);
+          const before = await checksums(db);
+          const refused = batch.flatMap((g) => g.refused);
+          const seen = await pool(refused, 8, (c) => c.run(ctx(c.persona)));
+          refused.forEach((c, j) => record(c, seen[j]!));
+          const changedByBatch = changedTables(before, await checksums(db));
+          if (!changedByBatch.length) continue;
+          // Something wrote: find which declaration, calling each again on its own.
+          const found = mismatches.length;
+          for (const g of batch) {
+            const alone = await checksums(db);
+            await Promise.all(g.refused.map((c) => c.run(ctx(c.persona))));
+            const changed = changedTables(alone, await checksums(db));
+            if (changed.length) mismatches.push(`${g.label}: refused calls changed ${changed.join(", ")}`);
+          }
+          if (mismatches.length === found) mismatches.push(`refused calls of ${batch.map((g) => g.label).join(", ")} changed ${changedByBatch.join(", ")} (not again one by one)`);
         }
-        if (mismatches.length === found) mismatches.push(`refused calls of ${batch.map((g) => g.label).join(", ")} changed ${changedByBatch.join(", ")} (not again one by one)`);
+      } finally {
+        resumeWorker();
       }
     });
 
@@ -121,18 +127,23 @@ test("every persona × handler and action gets what the table says; refused ones
     });
 
     await test.step("attacker cases (issue 22), each case between two checksums", async () => {
-      await waitForQuiet(db);
-      for (const { name, attacks } of attackCases(calls, (c) => ctx(c.persona))) {
-        expect(attacks.length, `${name}: something to attack`).toBeGreaterThan(0);
-        const before = await checksums(db);
-        const seen = await pool(attacks, 4, (a) => (a.send ? a.send(a.call) : a.call.run(ctx(a.call.persona), a.headers)));
-        attacks.forEach((a, i) => {
-          const held = a.check(seen[i]!);
-          log.push({ call: `${name}: ${a.call.label}`, persona: a.call.persona, expected: a.wants, got: held ? "as wanted" : "NOT REFUSED AS WANTED", seen: describeSeen(seen[i]!) });
-          if (!held) mismatches.push(`${name}: ${a.call.label} as ${a.call.persona}: wanted ${a.wants}, got ${describeSeen(seen[i]!)}`);
-        });
-        const changed = changedTables(before, await checksums(db));
-        if (changed.length) mismatches.push(`${name}: changed ${changed.join(", ")}`);
+      const resumeWorker = holdMailWorker();
+      try {
+        await waitForQuiet(db);
+        for (const { name, attacks } of attackCases(calls, (c) => ctx(c.persona))) {
+          expect(attacks.length, `${name}: something to attack`).toBeGreaterThan(0);
+          const before = await checksums(db);
+          const seen = await pool(attacks, 4, (a) => (a.send ? a.send(a.call) : a.call.run(ctx(a.call.persona), a.headers)));
+          attacks.forEach((a, i) => {
+            const held = a.check(seen[i]!);
+            log.push({ call: `${name}: ${a.call.label}`, persona: a.call.persona, expected: a.wants, got: held ? "as wanted" : "NOT REFUSED AS WANTED", seen: describeSeen(seen[i]!) });
+            if (!held) mismatches.push(`${name}: ${a.call.label} as ${a.call.persona}: wanted ${a.wants}, got ${describeSeen(seen[i]!)}`);
+          });
+          const changed = changedTables(before, await checksums(db));
+          if (changed.length) mismatches.push(`${name}: changed ${changed.join(", ")}`);
+        }
+      } finally {
+        resumeWorker();
       }
     });
 

@@ -27,6 +27,25 @@ export function changedTables(before: Checksums, after: Checksums): string[] {
   return [...names].filter((n) => before.get(n) !== after.get(n)).sort();
 }
 
+/**
+ * Holds the mail worker still (SIGSTOP to its process group; `npm test` names it in
+ * E2E_MAIL_WORKER_PGID) for a before/after comparison that spans minutes. The worker writes on
+ * clocks of its own, which no quiet wait can rule out: a follower's progress mail once the shop's
+ * window has passed since an entry was shared, approval reminders, retries of a refused mail.
+ * A transaction of its own caught open stays uncommitted until the returned resume, so it can't
+ * land between the two readings either. Outside `npm test` there is no worker to hold.
+ */
+export function holdMailWorker(): () => void {
+  const group = Number(process.env.E2E_MAIL_WORKER_PGID);
+  if (!Number.isInteger(group) || group <= 0) return () => undefined;
+  process.kill(-group, "SIGSTOP");
+  let held = true;
+  return () => {
+    if (held) process.kill(-group, "SIGCONT");
+    held = false;
+  };
+}
+
 /** Waits until two readings a second apart agree, so what changes next is the test's doing. */
 export async function waitForQuiet(db: mysql.Connection, timeoutMs = 60_000): Promise<Checksums> {
   const until = Date.now() + timeoutMs;

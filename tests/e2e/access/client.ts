@@ -41,10 +41,24 @@ async function read(res: Awaited<ReturnType<APIRequestContext["fetch"]>>): Promi
   return seen;
 }
 
+/**
+ * ctx.fetch, sent once more when the connection was reset before any answer: the server closed
+ * it as idle just as the client reused it (keep-alive), so the request never reached the app.
+ * The fuzz test's sender does the same (fuzz/send.ts).
+ */
+async function fetchOnReset(ctx: APIRequestContext, url: string, options: Parameters<APIRequestContext["fetch"]>[1]) {
+  try {
+    return await ctx.fetch(url, options);
+  } catch (error) {
+    if (!(error instanceof Error) || !/ECONNRESET|socket hang up/.test(error.message)) throw error;
+    return ctx.fetch(url, options);
+  }
+}
+
 export async function callHandler(ctx: APIRequestContext, call: HandlerCall, headers: Record<string, string> = {}): Promise<Seen> {
   const url = call.query ? `${call.path}?${new URLSearchParams(call.query)}` : call.path;
   const b = call.body;
-  const res = await ctx.fetch(url, {
+  const res = await fetchOnReset(ctx, url, {
     method: call.method,
     headers,
     maxRedirects: 0,
@@ -61,7 +75,7 @@ export async function callAction(ctx: APIRequestContext, a: { id: string; page: 
   const multipart = new FormData();
   for (const [key, value] of Object.entries(a.fields)) multipart.append(`_1_${key}`, value);
   multipart.append("0", '[null,"$K1"]');
-  const res = await ctx.fetch(a.page, {
+  const res = await fetchOnReset(ctx, a.page, {
     method: "POST",
     headers: { "next-action": a.id, accept: "text/x-component", origin: APP_ORIGIN, ...headers },
     multipart,
