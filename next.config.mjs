@@ -1,4 +1,5 @@
 import { buildServiceWorker, workerFileName } from "./scripts/build-sw.mjs";
+import { buildPublicCss } from "./scripts/lib/public-css.mjs";
 
 const distDir = process.env.NEXT_DIST_DIR || ".next";
 
@@ -16,7 +17,10 @@ const nextConfig = {
   // The staff app's service worker (issue 20 §1): made for this build once the bundler has written
   // its files (scripts/build-sw.mjs), into public/sw/<build folder>.js, and served at /sw.js.
   compiler: {
-    runAfterProductionCompile: ({ projectDir, distDir: builtInto }) => buildServiceWorker({ projectDir, distDir: builtInto }),
+    // …and the public pages' inline stylesheet (scripts/lib/public-css.mjs), into the build folder.
+    runAfterProductionCompile: async ({ projectDir, distDir: builtInto }) => {
+      await Promise.all([buildServiceWorker({ projectDir, distDir: builtInto }), buildPublicCss({ projectDir, distDir: builtInto })]);
+    },
   },
   async rewrites() {
     return [{ source: "/sw.js", destination: `/sw/${workerFileName(distDir)}` }];

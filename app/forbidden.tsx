@@ -1,4 +1,5 @@
 import { House, Lock } from "lucide-react";
+import { AppStyles } from "@/app/app-styles";
 import { buttonClasses } from "@/components/ui/button-classes";
 
 // Shown when forbidden() is called: signed in, but this job, shop or page belongs to someone else.
@@ -6,6 +7,7 @@ import { buttonClasses } from "@/components/ui/button-classes";
 export default function Forbidden() {
   return (
     <main id="main" tabIndex={-1} className="mx-auto flex min-h-dvh max-w-md flex-col items-center justify-center gap-4 px-4 py-12 text-center">
+      <AppStyles />
       <span className="flex size-16 items-center justify-center rounded-full bg-brass-soft text-brass">
         <Lock aria-hidden className="size-8" />
       </span>

@@ -1,21 +1,5 @@
 import type { Metadata, Viewport } from "next";
-import localFont from "next/font/local";
 import type { ReactNode } from "react";
-import "./globals.css";
-
-// Self-hosted variable font: no request to a font CDN, one file covers every weight.
-const archivo = localFont({
-  src: [
-    { path: "../public/fonts/archivo-wght.woff2", weight: "100 900", style: "normal" },
-    { path: "../public/fonts/archivo-wght-italic.woff2", weight: "100 900", style: "italic" },
-  ],
-  variable: "--font-archivo",
-  display: "swap",
-  // Not preloaded: the stylesheet asks for the faces a page uses when it is first drawn, so a page
-  // with no italics never downloads the italic file (bandwidth a slow phone needs for photos), and
-  // text shows in the fallback face meanwhile (display: swap).
-  preload: false,
-});
 
 export const metadata: Metadata = {
   title: { template: "%s · Benchside", default: "Benchside" },
@@ -38,9 +22,11 @@ export const viewport: Viewport = {
 // Not rendered per request here: the shops' public pages (/s/…) are served from the cache (ISR,
 // with a policy that needs no nonce). Every other area's layout calls connection(), so its pages
 // are rendered per request and their scripts carry that request's CSP nonce (proxy.ts).
+// No stylesheet here either: the public pages carry theirs inline, every other area links the
+// app's (app/app-styles.tsx), so a story opened on a slow phone waits for no second request.
 export default function RootLayout({ children }: { children: ReactNode }) {
   return (
-    <html lang="en" className={archivo.variable}>
+    <html lang="en">
       <body className="min-h-dvh">
         {/* Each area renders its own <main id="main">; this lets keyboard users jump past its header. */}
         <a

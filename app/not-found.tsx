@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import { House, SearchX } from "lucide-react";
+import { AppStyles } from "@/app/app-styles";
 import { buttonClasses } from "@/components/ui/button-classes";
 
 export const metadata: Metadata = { title: "Not found" };
@@ -7,6 +8,7 @@ export const metadata: Metadata = { title: "Not found" };
 export default function NotFound() {
   return (
     <main id="main" tabIndex={-1} className="mx-auto flex min-h-dvh max-w-md flex-col items-center justify-center gap-4 px-4 py-12 text-center">
+      <AppStyles />
       <span className="flex size-16 items-center justify-center rounded-full bg-sunken text-ink-muted">
         <SearchX aria-hidden className="size-8" />
       </span>

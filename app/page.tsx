@@ -1,6 +1,7 @@
 import { redirect } from "next/navigation";
 import { connection } from "next/server";
 import { Wrench } from "lucide-react";
+import { AppStyles } from "@/app/app-styles";
 import { Brand } from "@/components/brand";
 import { ButtonLink } from "@/components/ui";
 import { getActor } from "@/lib/server/actor";
@@ -12,6 +13,7 @@ export default async function Home() {
   if (actor) redirect(actor.memberships.length ? "/shop" : "/my");
   return (
     <div className="flex min-h-dvh flex-col">
+      <AppStyles />
       <header className="px-4 py-3">
         <Brand />
       </header>

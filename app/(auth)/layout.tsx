@@ -1,5 +1,6 @@
 import { connection } from "next/server";
 import type { ReactNode } from "react";
+import { AppStyles } from "@/app/app-styles";
 import { Brand } from "@/components/brand";
 
 export default async function AuthLayout({ children }: { children: ReactNode }) {
@@ -7,6 +8,7 @@ export default async function AuthLayout({ children }: { children: ReactNode }) 
   await connection();
   return (
     <div className="flex min-h-dvh flex-col">
+      <AppStyles />
       <header className="border-b border-line px-4 py-3">
         <Brand />
       </header>

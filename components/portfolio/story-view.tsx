@@ -16,8 +16,8 @@ import { crossPatternOrder } from "@/lib/tightening-order";
 // nothing private; this component only lays it out. Clips load lazily (ClipPlayer); photos open
 // in the viewer.
 
-/** coverPreview: a tiny inline copy of the cover (lib/server/photos.ts photoPreviewDataUri), shown until the cover arrives. */
-export function StoryView({ story, coverPreview = null }: { story: PublicStory; coverPreview?: string | null }) {
+/** coverInline: the cover at 1× phone width inside the page (lib/server/photos.ts photoInlineCopy), shown until the full-density cover arrives. */
+export function StoryView({ story, coverInline = null }: { story: PublicStory; coverInline?: { uri: string } | null }) {
   const published = new Intl.DateTimeFormat("en-US", { year: "numeric", month: "long", day: "numeric", timeZone: "UTC" }).format(new Date(story.publishedAt));
   return (
     <article aria-labelledby="story-title" className="space-y-6">
@@ -32,11 +32,11 @@ export function StoryView({ story, coverPreview = null }: { story: PublicStory; 
       </header>
       {story.cover ? (
         <figure className="relative overflow-hidden rounded-xl border border-line bg-sunken">
-          {coverPreview ? (
-            // A few hundred bytes inside the page: the cover, blurred, painted with the first
-            // screen; the photo below covers it once it has arrived.
+          {coverInline ? (
+            // A few kB inside the page: the cover itself at the phone's 1× width, painted with the
+            // first screen even on a slow line; the full-density photo covers it once it has arrived.
             // eslint-disable-next-line @next/next/no-img-element -- an inline data: URI, nothing to optimise
-            <img src={coverPreview} alt="" aria-hidden className="absolute inset-0 size-full scale-110 object-cover blur-lg" />
+            <img src={coverInline.uri} alt="" aria-hidden decoding="sync" className="absolute inset-0 size-full object-cover" />
           ) : null}
           {/* The page's largest image: fetched first, at the width of the column (768 px less its padding). */}
           <PhotoImg

@@ -207,17 +207,33 @@ export async function deletePhotoRenditions(keys: PhotoKeys, options: { store?: 
   await Promise.all([store.delete(keys.displayKey), store.delete(keys.thumbKey), ...copies.map((k) => store.delete(k))]);
 }
 
-/** How wide a photo's inline preview is: a few hundred bytes, enough to show the picture's shape and colours. */
-export const PREVIEW_WIDTH = 40;
+/** How wide a photo's inline copy is: a phone's column (358 CSS px on a 390-px screen) at 1× density. */
+export const INLINE_COPY_WIDTH = 360;
+/** The most an inline copy may weigh: 8 kB take 0.16 s at "Slow 3G"'s 400 kbps, and the first paint waits for them. */
+export const INLINE_COPY_MAX_BYTES = 8_000;
+const INLINE_COPY_QUALITIES = [55, 45, 35] as const;
+
+export type InlineCopy = { uri: string; width: number; height: number; bytes: number };
 
 /**
- * A tiny copy of a photo as a data: URI (WebP), painted in the photo's place while the real one
- * downloads — on a slow phone connection the page shows the cover at once, blurred, then sharp.
- * Made from the thumbnail; null when it is missing.
+ * The photo at a phone's 1× width as a data: URI (AVIF or WebP), for a page to carry inside its HTML: on a
+ * slow connection the picture shows with the first screen, a little soft, and the full-density
+ * copy replaces it once it has arrived. Sharp, not a blurred placeholder: what the reader sees is
+ * the photo. The best quality that fits INLINE_COPY_MAX_BYTES; null when none does (a busy picture
+ * then just waits for its own request) or the display rendition is missing.
  */
-export async function photoPreviewDataUri(keys: PhotoKeys, options: { store?: ObjectStorage } = {}): Promise<string | null> {
-  const thumb = await (options.store ?? storage()).get(keys.thumbKey);
-  if (!thumb) return null;
-  const webp = await sharp(thumb.body).resize({ width: PREVIEW_WIDTH, withoutEnlargement: true }).webp({ quality: 60 }).toBuffer();
-  return `data:image/webp;base64,${webp.toString("base64")}`;
+export async function photoInlineCopy(keys: PhotoKeys, options: { store?: ObjectStorage } = {}): Promise<InlineCopy | null> {
+  const display = await (options.store ?? storage()).get(keys.displayKey);
+  if (!display) return null;
+  const resized = sharp(display.body).resize({ width: INLINE_COPY_WIDTH, withoutEnlargement: true });
+  for (const quality of INLINE_COPY_QUALITIES) {
+    // AVIF is usually the smaller for a photo, WebP for a drawing or a flat picture: the smaller goes.
+    const [avif, webp] = await Promise.all([
+      resized.clone().avif({ quality, effort: 3 }).toBuffer({ resolveWithObject: true }),
+      resized.clone().webp({ quality }).toBuffer({ resolveWithObject: true }),
+    ]);
+    const [type, { data, info }] = avif.data.length <= webp.data.length ? (["avif", avif] as const) : (["webp", webp] as const);
+    if (data.length <= INLINE_COPY_MAX_BYTES) return { uri: `data:image/${type};base64,${data.toString("base64")}`, width: info.width, height: info.height, bytes: data.length };
+  }
+  return null;
 }

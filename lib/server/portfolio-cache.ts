@@ -3,7 +3,7 @@ import { revalidateTag, unstable_cache } from "next/cache";
 import { getPublicFace } from "@/db/queries/public-face";
 import { jobHasPublishedStory, publicPhotoKeys } from "@/db/queries/portfolio-public";
 import { ids } from "@/lib/server/access";
-import { photoPreviewDataUri } from "@/lib/server/photos";
+import { photoInlineCopy } from "@/lib/server/photos";
 import { getPublicShopPage, getPublicStory } from "@/lib/server/portfolio-public";
 
 // The shops' public pages (/s/<shop>, /s/<shop>/<story> and their social cards) are static:
@@ -41,10 +41,10 @@ const tagged = <T>(shopSlug: string, key: string[], load: () => Promise<T | null
 export function loadPublicStoryPage(shopSlug: string, storySlug: string) {
   return tagged(shopSlug, ["story", storySlug], async () => {
     const story = await getPublicStory(shopSlug, storySlug);
-    if (!story?.cover) return story ? { ...story, coverPreview: null } : null;
+    if (!story?.cover) return story ? { ...story, coverInline: null } : null;
     // Kept with the page: made once per render of the page, not per visit.
     const keys = await publicPhotoKeys({ shopSlug, storySlug, photoPublicId: story.cover.id });
-    return { ...story, coverPreview: keys ? await photoPreviewDataUri(keys) : null };
+    return { ...story, coverInline: keys ? await photoInlineCopy(keys) : null };
   });
 }
 

@@ -11,6 +11,7 @@ import { launchChromium } from "./sessions";
 import type { Stack } from "./stack";
 
 const LIMIT_MS = 2500;
+const s = (ms: number) => (ms < 0 ? "?" : `${(ms / 1000).toFixed(2)} s`);
 const RUNS = Number(process.env.BENCH_LCP_RUNS ?? 3);
 const SLOW_3G = { offline: false, downloadThroughput: ((500 * 1000) / 8) * 0.8, uploadThroughput: ((500 * 1000) / 8) * 0.8, latency: 400 * 5 };
 
@@ -37,7 +38,7 @@ export async function storyLcpBudget(stack: Stack, log: (s: string) => void): Pr
   // Once unthrottled, so a page rendered on demand (ISR) is in the server's cache as a visitor finds it.
   for (let i = 0; i < 2; i += 1) await (await fetch(url)).arrayBuffer();
   const browser = await launchChromium();
-  const runs: { lcp: number; element: string; bytes: number }[] = [];
+  const runs: { lcp: number; element: string; bytes: number; firstByte: number; lastByte: number; fcp: number }[] = [];
   try {
     for (let run = 0; run < RUNS; run += 1) {
       const context = await browser.newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 3, isMobile: true, hasTouch: true });
@@ -64,7 +65,13 @@ export async function storyLcpBudget(stack: Stack, log: (s: string) => void): Pr
           }),
       );
       if (lcp.time < 0) throw new Error(`no largest-contentful-paint entry for ${path}`);
-      runs.push({ lcp: lcp.time, element: lcp.element, bytes });
+      // Where the time went: the page's first byte and last byte, and the first paint.
+      const steps = await page.evaluate(() => {
+        const nav = performance.getEntriesByType("navigation")[0] as PerformanceNavigationTiming | undefined;
+        const fcp = performance.getEntriesByName("first-contentful-paint")[0];
+        return { firstByte: nav?.responseStart ?? -1, lastByte: nav?.responseEnd ?? -1, fcp: fcp?.startTime ?? -1 };
+      });
+      runs.push({ lcp: lcp.time, element: lcp.element, bytes, ...steps });
       log(`story LCP run ${run + 1}: ${(lcp.time / 1000).toFixed(2)} s (${lcp.element})`);
       await context.close();
     }
@@ -77,7 +84,10 @@ export async function storyLcpBudget(stack: Stack, log: (s: string) => void): Pr
     budgets: [ceilingBudget("story LCP", median.lcp / 1000, LIMIT_MS / 1000, "s")],
     lines: [
       `Story page LCP (${path}; 390×844 @3×, CPU 4× slower, Slow 3G: 400 kbps, 2,000 ms latency; cold cache; median of ${RUNS}):`,
-      ...runs.map((r, i) => `  run ${i + 1}: ${(r.lcp / 1000).toFixed(2)} s, largest element ${r.element}, ${(r.bytes / 1024).toFixed(0)} kB of responses (decoded)`),
+      ...runs.map(
+        (r, i) =>
+          `  run ${i + 1}: ${(r.lcp / 1000).toFixed(2)} s, largest element ${r.element.slice(0, 60)}; page's first byte ${s(r.firstByte)}, last ${s(r.lastByte)}, first paint ${s(r.fcp)}; ${(r.bytes / 1024).toFixed(0)} kB of responses (decoded)`,
+      ),
       `  budget ≤ ${LIMIT_MS / 1000} s`,
     ],
   };

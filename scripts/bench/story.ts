@@ -13,7 +13,7 @@ export async function cameraJpeg(seed: number): Promise<Buffer> {
   const [w, h] = [4032, 3024];
   // A scene's large shapes (floor, bench, wheels, a frame) under the sensor-like noise: a tiny preview of
   // it carries shapes and colours the way one of a real photo does, not one flat colour.
-  const shapes = [
+  const shapes: string[] = [
     `<rect width="${w}" height="${h}" fill="rgb(${70 + seed * 25},${88 + seed * 10},${120 - seed * 15})"/>`,
     `<rect y="${h * 0.62}" width="${w}" height="${h * 0.38}" fill="rgb(96,86,74)"/>`,
     `<rect x="${w * 0.12}" y="${h * 0.42}" width="${w * 0.55}" height="${h * 0.12}" rx="60" fill="rgb(150,40,32)"/>`,
@@ -22,6 +22,29 @@ export async function cameraJpeg(seed: number): Promise<Buffer> {
     `<path d="M ${w * 0.3} ${h * 0.42} L ${w * 0.45} ${h * 0.2} L ${w * 0.58} ${h * 0.42} Z" fill="rgb(210,180,60)"/>`,
     `<rect x="${w * 0.78}" y="${h * 0.1}" width="${w * 0.16}" height="${h * 0.5}" fill="rgb(60,110,80)"/>`,
   ];
+  // …and the clutter of a bench at every scale (tools, bolts, rags, edges of parts): a phone-width copy of a
+  // real photo keeps detail that pixel noise alone loses when scaled down, so the copy the story page
+  // carries inline weighs what a real one does (about 5–10 kB), not the 1–2 kB of flat shapes.
+  let x = 0x2545f491 + seed;
+  const rand = () => {
+    x ^= x << 13;
+    x ^= x >>> 17;
+    x ^= x << 5;
+    return (x >>> 0) / 0x100000000;
+  };
+  const clutter: string[] = [];
+  for (let i = 0; i < 700; i += 1) {
+    const size = w * 0.004 * Math.exp(rand() * 3.2); // 16 px to 400 px across, most of them small
+    const grey = 30 + rand() * 180; // workshop colours: greys and browns, a few painted parts
+    const [cx, cy, c] = [rand() * w, rand() * h, () => Math.floor(grey + (rand() - 0.5) * 80)];
+    const fill = `rgb(${c()},${c()},${c()})`;
+    clutter.push(
+      rand() < 0.5
+        ? `<circle cx="${cx}" cy="${cy}" r="${size / 2}" fill="${fill}"/>`
+        : `<rect x="${cx}" y="${cy}" width="${size}" height="${size * (0.2 + rand())}" transform="rotate(${rand() * 180} ${cx} ${cy})" fill="${fill}"/>`,
+    );
+  }
+  shapes.splice(2, 0, ...clutter); // behind the machine, in front of the wall and floor
   const scene = await sharp(Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="${w}" height="${h}">${shapes.join("")}</svg>`)).removeAlpha().ensureAlpha(0.6).png().toBuffer();
   return sharp({ create: { width: w, height: h, channels: 3, background: { r: 90 + seed * 20, g: 80, b: 70 }, noise: { type: "gaussian", mean: 110 + seed * 10, sigma: 90 } } })
     .composite([{ input: scene }])

@@ -129,6 +129,10 @@ test("propose a collected job, the owner agrees by e-mail, the shop owner publis
   await expect.poll(() => thumb.evaluate((img) => (img as HTMLImageElement).naturalWidth)).toBeGreaterThan(0);
   const cover = visitor.getByRole("img", { name: /the machine in this story/ });
   await expect.poll(() => cover.evaluate((img) => (img as HTMLImageElement).naturalWidth)).toBeGreaterThan(0);
+  // The page itself carries the cover at a phone's 1× width (lib/server/photos.ts, photoInlineCopy),
+  // so it shows with the first screen on a slow line; the full-density copy covers it.
+  const storyHtml = await (await visitor.request.get(storyPath)).text();
+  expect(storyHtml).toMatch(/<img[^>]*src="data:image\/(avif|webp);base64,[A-Za-z0-9+/=]{200,}"/);
   const clip = visitor.getByRole("region", { name: /^Clip, part/ });
   await clip.scrollIntoViewIfNeeded();
   const player = clip.locator("video[data-clip-player]");

@@ -101,7 +101,13 @@ test("a change made in the app shows on the public page at once, although the pa
   const save = async (text: string) => {
     await expect(async () => {
       await desk.goto(`/shop/${SHOP}/portfolio/profile`);
-      await desk.waitForLoadState("networkidle");
+      // Hydrated: React has claimed the field (its own key on the element). Not "networkidle": the
+      // staff area keeps a live connection open, so the network is never idle for long.
+      await about.evaluate((el) => new Promise<void>((resolve) => {
+        const claimed = () => Object.keys(el).some((k) => k.startsWith("__react"));
+        const poll = () => (claimed() ? resolve() : setTimeout(poll, 50));
+        poll();
+      }));
       await about.fill(text);
       await desk.getByRole("button", { name: "Save the profile" }).click();
       await expect(desk.getByRole("status").filter({ hasText: "Saved. The public page shows it now." })).toBeVisible();
@@ -148,4 +154,39 @@ test("a made-up public address is a 404 and leaves nothing in the page cache", a
   expect(files.filter((f) => f.endsWith(path.join("s", `${SHOP}.html`))).length, "the shop's cached page on disk").toBeGreaterThan(0);
   // …and no made-up address left one.
   expect(files.filter((f) => madeUp.some((name) => f.includes(name)))).toEqual([]);
+});
+
+test("a public page carries its styles inside it, so nothing delays its first paint; the app's screens link theirs, and both look the same", async ({ browser, request }) => {
+  // scripts/lib/public-css.mjs: on a slow line a linked stylesheet costs a whole request before anything paints.
+  const shopHtml = await (await cachedAnswer(request, `/s/${SHOP}`)).text();
+  const head = shopHtml.slice(0, shopHtml.indexOf("<body"));
+  expect(head).toMatch(/<style[^>]*data-href="benchside-public"[^>]*>[^<]*--font-archivo/);
+  expect(shopHtml).not.toMatch(/<link[^>]*rel="stylesheet"/);
+  const signInHtml = await (await request.get("/sign-in")).text();
+  expect(signInHtml).toMatch(/<link[^>]*rel="stylesheet"/);
+  expect(signInHtml).not.toContain('data-href="benchside-public"');
+
+  // Drawn the same way: the palette's paper behind the page, Archivo in front (once it has loaded).
+  const context = await browser.newContext({ colorScheme: "light" });
+  const page = await context.newPage();
+  const look = async () => {
+    await page.evaluate(() => document.fonts.ready);
+    return page.evaluate(() => {
+      const first = (getComputedStyle(document.querySelector("h1, h2")!).fontFamily.split(",")[0] ?? "").replace(/["']/g, "").trim();
+      return {
+        paper: getComputedStyle(document.body).backgroundColor,
+        // The heading asks for Archivo first (next/font calls its copy "archivo", the public pages
+        // "Archivo"), and that face was loaded from our own files.
+        archivo: /^archivo$/i.test(first) && [...document.fonts].some((f) => f.family.replace(/["']/g, "") === first && f.status === "loaded"),
+      };
+    });
+  };
+  try {
+    await page.goto(`/s/${SHOP}`);
+    expect(await look()).toEqual({ paper: "rgb(245, 242, 236)", archivo: true });
+    await page.goto("/sign-in");
+    expect(await look()).toEqual({ paper: "rgb(245, 242, 236)", archivo: true });
+  } finally {
+    await context.close();
+  }
 });

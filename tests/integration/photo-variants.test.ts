@@ -7,7 +7,7 @@ import path from "node:path";
 import exifr from "exifr";
 import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { PREVIEW_WIDTH, deletePhotoRenditions, photoPreviewDataUri, photoRendition, processPhoto, storePhotoRenditions, variantKey, type StoredPhoto } from "@/lib/server/photos";
+import { INLINE_COPY_MAX_BYTES, INLINE_COPY_WIDTH, deletePhotoRenditions, photoInlineCopy, photoRendition, processPhoto, storePhotoRenditions, variantKey, type StoredPhoto } from "@/lib/server/photos";
 import { LocalDiskStorage } from "@/lib/server/storage";
 
 const FIXTURES = path.resolve(__dirname, "../fixtures/photos");
@@ -42,15 +42,40 @@ describe("photoRendition", () => {
     if (dir) await rm(dir, { recursive: true, force: true });
   });
 
-  it("makes the inline preview a story's cover shows while it loads: a tiny WebP of the same picture", async () => {
-    const uri = await photoPreviewDataUri(large, { store });
-    expect(uri).toMatch(/^data:image\/webp;base64,/);
-    const bytes = Buffer.from(uri!.slice(uri!.indexOf(",") + 1), "base64");
+  it("makes the inline copy a story's cover shows with the first screen: the photo at a phone's 1× width, in a few kB", async () => {
+    const copy = await photoInlineCopy(large, { store });
+    expect(copy?.uri).toMatch(/^data:image\/(avif|webp);base64,/);
+    const bytes = Buffer.from(copy!.uri.slice(copy!.uri.indexOf(",") + 1), "base64");
     const meta = await sharp(bytes).metadata();
-    // The display rendition's 4:3, at the preview's width; a few hundred bytes inside the page.
-    expect([meta.format, meta.width, meta.height]).toEqual(["webp", PREVIEW_WIDTH, 30]);
-    expect(bytes.length).toBeLessThan(2000);
-    expect(await photoPreviewDataUri({ ...large, thumbKey: `${large.key}/missing.jpg` }, { store })).toBeNull();
+    // The display rendition's 4:3 at INLINE_COPY_WIDTH, and the size the page is told.
+    expect([meta.width, meta.height]).toEqual([INLINE_COPY_WIDTH, 270]);
+    expect([copy!.width, copy!.height, copy!.bytes]).toEqual([INLINE_COPY_WIDTH, 270, bytes.length]);
+    expect(bytes.length).toBeLessThanOrEqual(INLINE_COPY_MAX_BYTES);
+    // A picture, not a placeholder: Chromium counts an image for LCP only from 0.05 bits per
+    // displayed pixel (web-platform-tests, images/README.md, "contentfulness threshold of 0.05 bits
+    // per pixel"); at the 358 × 269 CSS px a 390-px phone shows it, this copy carries more.
+    expect((bytes.length * 8) / (358 * 269)).toBeGreaterThan(0.05);
+    // A portrait photo narrower than the copy's width keeps its own size.
+    const portrait = await photoInlineCopy(narrow, { store });
+    expect([portrait?.width, portrait?.height]).toEqual([INLINE_COPY_WIDTH, 480]);
+    expect(await photoInlineCopy({ ...large, displayKey: `${large.key}/missing.jpg` }, { store })).toBeNull();
+  });
+
+  it("keeps even a picture of pure noise under the byte cap, by stepping down the quality", async () => {
+    // Noise in every channel and pixel: the busiest picture there is.
+    const width = 1600;
+    const height = 1200;
+    const raw = Buffer.alloc(width * height * 3);
+    for (let i = 0, x = 0x9e3779b9; i < raw.length; i += 1) {
+      x ^= x << 13;
+      x ^= x >>> 17;
+      x ^= x << 5;
+      raw[i] = x & 0xff;
+    }
+    const busy = await storePhotoRenditions(await processPhoto(await sharp(raw, { raw: { width, height, channels: 3 } }).jpeg({ quality: 90 }).toBuffer()), { shopId: 7, store });
+    const copy = await photoInlineCopy(busy, { store });
+    expect([copy?.width, copy?.height]).toEqual([INLINE_COPY_WIDTH, 270]);
+    expect(copy!.bytes).toBeLessThanOrEqual(INLINE_COPY_MAX_BYTES);
   });
 
   it("answers the two renditions as they are stored", async () => {

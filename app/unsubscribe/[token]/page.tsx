@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { connection } from "next/server";
+import { AppStyles } from "@/app/app-styles";
 import { Brand } from "@/components/brand";
 import { describeSubscription } from "@/db/queries/following";
 import { describeMachine } from "@/lib/machine";
@@ -23,6 +24,7 @@ export default async function UnsubscribePage({ params }: { params: Promise<{ to
   const machine = describeMachine(sub.machine);
   return (
     <div className="flex min-h-dvh flex-col">
+      <AppStyles />
       <header className="px-4 py-3">
         <Brand />
       </header>

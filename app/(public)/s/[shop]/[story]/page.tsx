@@ -49,7 +49,7 @@ export default async function StoryPage({ params }: Props) {
         <ArrowLeft aria-hidden className="size-5" />
         More from {story.shop.name}
       </Link>
-      <StoryView story={story} coverPreview={story.coverPreview} />
+      <StoryView story={story} coverInline={story.coverInline} />
       <ShopContact shop={story.shop} />
     </main>
   );
