@@ -37,8 +37,6 @@ export const nodeDir = (clusterDir, n) => path.join(clusterDir, `node${n}`);
  *   the live-update streams rely on (README); HAProxy sends every write to one node at a time, so
  *   no two nodes hand out the same id, and if they ever did the second commit fails certification.
  * - innodb_autoinc_lock_mode=2 and binlog_format=ROW: what Galera's row replication requires.
- * - innodb_flush_log_at_trx_commit=2: a commit is durable through the other nodes; a killed
- *   mariadbd loses nothing (the OS keeps the written log), only a machine crash could.
  * - log_bin_trust_function_creators=1: the migrations create triggers.
  */
 export function galeraNodeConfig({ node, nodes, paths, user, clusterName = "benchside", sstMethod = "rsync" }) {
@@ -62,7 +60,6 @@ export function galeraNodeConfig({ node, nodes, paths, user, clusterName = "benc
     "default_storage_engine=InnoDB",
     "binlog_format=ROW",
     "innodb_autoinc_lock_mode=2",
-    "innodb_flush_log_at_trx_commit=2",
     "log_bin_trust_function_creators=1",
     "wsrep_on=ON",
     "wsrep_provider=/usr/lib/galera/libgalera_smm.so",
