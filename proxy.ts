@@ -5,6 +5,7 @@ import { DATABASE_UNAVAILABLE_MESSAGE } from "@/lib/errors";
 import { databaseAnswers } from "@/lib/server/db-health";
 import { MISSING_PUBLIC_PAGE, publicPageAddress } from "@/lib/public-pages";
 import { publicPageShown } from "@/lib/server/public-gate";
+import { SESSION_COOKIES, innerRenderNonce, servePageFromCache } from "@/lib/server/page-cache";
 
 // Runs before every page and API request (not static files, photo uploads or webhooks: see the
 // matcher). It never decides access; that is done inside each page, handler and action. It:
@@ -12,6 +13,9 @@ import { publicPageShown } from "@/lib/server/public-gate";
 // - screens server-action posts (lib/action-guard.ts): a foreign origin, a body that isn't a
 //   readable multipart form of at most 6 MB gets a 4xx before Next decodes it (Next: 500);
 // - sends visitors with no session cookie to sign-in first, for the shop and owner areas;
+// - serves a signed-in person's job page from the page cache while nothing it shows has changed
+//   (lib/server/page-cache.ts: the session is checked as the page checks it, the rest of access
+//   is the page's own, decided when it was rendered for this same session and data);
 // - gives each request for a page rendered per request a fresh CSP nonce (request header
 //   `x-nonce`, and the request's Content-Security-Policy, from which Next puts the nonce on its
 //   own scripts), and sets the security headers of lib/security-headers.ts on the answer.
@@ -21,8 +25,6 @@ import { publicPageShown } from "@/lib/server/public-gate";
 // public page that isn't shown (unknown shop, story not published) is sent to one 404 address
 // before Next renders it, so made-up addresses don't fill the page cache (lib/public-pages.ts).
 
-// (Large sessions are split into "….0", "….1" cookies, hence the prefix match.)
-const SESSION_COOKIES = ["authjs.session-token", "__Secure-authjs.session-token"];
 const SIGNED_IN_AREAS = /^\/(shop|my)(\/|$)/;
 
 export async function proxy(request: NextRequest) {
@@ -45,7 +47,12 @@ export async function proxy(request: NextRequest) {
     return NextResponse.redirect(url);
   }
 
-  const nonce = needsNonce(pathname) ? btoa(crypto.randomUUID()) : null;
+  // A job page a person loads again, unchanged: from the page cache, with a fresh nonce (lib/server/page-cache.ts).
+  const cached = await servePageFromCache(request, (fresh) => securityHeaders(pathname, fresh, process.env));
+  if (cached) return cached;
+
+  // The page cache's own render of a page carries its placeholder as the nonce, swapped for a fresh one in every answer.
+  const nonce = innerRenderNonce(request) ?? (needsNonce(pathname) ? btoa(crypto.randomUUID()) : null);
   const headers = securityHeaders(pathname, nonce, process.env);
   const forward = new Headers(request.headers);
   if (nonce) {

@@ -39,6 +39,7 @@ import * as textLanguages from "./20261206_37_text_languages";
 import * as lineWithdrawals from "./20261206_38_line_withdrawals";
 import * as jobSearchText from "./20261206_39_job_search_text";
 import * as jobTechnicianCounts from "./20261206_40_job_technician_counts";
+import * as pageVersions from "./20261207_41_page_versions";
 
 type Migration = { name: string; module: Knex.Migration };
 
@@ -85,6 +86,7 @@ const MIGRATIONS: Migration[] = [
   { name: "20261206_38_line_withdrawals", module: lineWithdrawals },
   { name: "20261206_39_job_search_text", module: jobSearchText },
   { name: "20261206_40_job_technician_counts", module: jobTechnicianCounts },
+  { name: "20261207_41_page_versions", module: pageVersions },
 ];
 
 export const migrationSource: Knex.MigrationSource<Migration> = {

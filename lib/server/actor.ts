@@ -13,13 +13,17 @@ import type { Actor } from "@/lib/permissions";
  */
 export const getActor = cache(async (): Promise<Actor | null> => {
   const session = await auth();
-  const userId = Number(session?.user?.id);
-  const sessionId = session?.sessionId;
+  return actorOfSession(session?.user?.id, session?.sessionId);
+});
+
+/** The live actor a session names (user id and session id, as the token carries them), or null. */
+export async function actorOfSession(user: unknown, sessionId: unknown): Promise<Actor | null> {
+  const userId = Number(user);
   if (!Number.isInteger(userId) || userId <= 0 || typeof sessionId !== "string" || !sessionId) return null;
   const live = await getActorBySession({ userId, sessionId });
   if (!live) return null;
   return live.method === "password" ? live.actor : { ...live.actor, memberships: [] };
-});
+}
 
 /** The id of this request's session (to end it, or keep it when ending the others); null when signed out. */
 export async function currentSessionId(): Promise<string | null> {
