@@ -9,11 +9,14 @@ import type { Knex } from "knex";
 // - `jobs`, and a table with a `job_id` column: that job's counter;
 // - a table with a foreign key to one of those (an approval's lines, an invoice's lines…): the
 //   counter of the job its parent row belongs to;
-// - `shop_events` moves its shop's "activity" counter as well as its job's: the staff pages show
-//   the shop's unread inbox count and follow the shop's live stream from the render's newest event;
 // - `shops`, a table with a `shop_id` column, or a foreign key to a table with one: that shop's counter;
 // - any other table: the instance's counter (people's names, say).
+// A row that names no job or shop (a NULL job_id) moves nothing. An update of `users` moves the
+// counter only when what pages show of a person changes (PAGE_VERSION_COLUMNS), not at each sign-in.
 // Tables no page shows, or that are checked on every request anyway, are left out: PAGE_VERSION_SKIP.
+// The counters are rows updated in the writer's transaction, so writers to one job (or to one
+// shop's own records) wait for each other's commit; nothing shop-wide is counted per event, so
+// writers on different jobs never do. (The staff pages' unread count is part of the cache key instead.)
 // A migration that adds a table calls addPageVersionTriggers(knex, table) for it; the migrations
 // test fails for a table that has neither the triggers nor a place in the list.
 
@@ -29,13 +32,19 @@ export const PAGE_VERSION_SKIP: Record<string, string> = {
   password_resets: "sign-in state, never shown on a page",
   idempotency_keys: "stored answers for replayed posts, never shown on a page",
   webhook_events: "the raw delivery log; what a delivery changes is written to the tables it changes",
+  inbox_reads: "a person's read marks: the unread count they feed is read into the staff pages' cache key",
   payment_webhook_events: "deliveries already handled (deduplication); their effects are written elsewhere",
   video_webhook_events: "deliveries already handled (deduplication); their effects are written elsewhere",
   mail_webhook_events: "deliveries already handled (deduplication); their effects are written elsewhere",
   text_status_events: "statuses already applied (deduplication); the text's state is kept on text_outbox",
 };
 
-export type PageVersionScope = "job" | "shop" | "activity" | "all";
+export type PageVersionScope = "job" | "shop" | "all";
+
+/** Tables whose updates move the counter only when one of these columns changes. */
+export const PAGE_VERSION_COLUMNS: Record<string, string[]> = {
+  users: ["name", "email"],
+};
 
 type Column = { table: string; column: string };
 /** A foreign key: its columns and the parent's, in order. */
@@ -43,7 +52,7 @@ type ForeignKey = { table: string; name: string; columns: string[]; parent: stri
 /** The row's own column, or the column `target` of its parent row found through a foreign key. */
 type Via = { column: string } | { key: ForeignKey; target: string };
 
-export type TableRule = { table: string; scope: "job" | "shop" | "activity"; via: Via } | { table: string; scope: "all" };
+export type TableRule = { table: string; scope: "job" | "shop"; via: Via } | { table: string; scope: "all" };
 
 /** The rule of each base table of the current database (skipped ones left out). */
 export async function pageVersionRules(knex: Knex): Promise<TableRule[]> {
@@ -68,13 +77,6 @@ export async function pageVersionRules(knex: Knex): Promise<TableRule[]> {
   const rules: TableRule[] = [];
   for (const { t: table } of tables) {
     if (table in PAGE_VERSION_SKIP) continue;
-    if (table === "inbox_reads") {
-      // Someone read an inbox item: the unread count on that shop's staff pages moves.
-      const key = keys.find((k) => k.table === table && k.parent === "shop_events");
-      if (!key) throw new Error("inbox_reads: no foreign key to shop_events");
-      rules.push({ table, scope: "activity", via: { key, target: "shop_id" } });
-      continue;
-    }
     const own = jobOf(table);
     if (own) {
       rules.push({ table, scope: "job", via: { column: own } });
@@ -99,8 +101,10 @@ export async function pageVersionRules(knex: Knex): Promise<TableRule[]> {
   return rules;
 }
 
-const bump = (scope: PageVersionScope, ref: string) =>
-  `INSERT INTO page_versions (scope, ref, version) VALUES ('${scope}', COALESCE(${ref}, 0), 1) ON DUPLICATE KEY UPDATE version = version + 1`;
+const bump = (scope: PageVersionScope, ref: string) => {
+  const upsert = `INSERT INTO page_versions (scope, ref, version) VALUES ('${scope}', ${ref}, 1) ON DUPLICATE KEY UPDATE version = version + 1`;
+  return scope === "all" ? upsert : `IF ${ref} IS NOT NULL THEN ${upsert}; END IF`;
+};
 
 /** The expression naming the job or shop a row (NEW or OLD) belongs to. */
 function refOf(rule: TableRule, row: "NEW" | "OLD"): string {
@@ -114,10 +118,15 @@ function refOf(rule: TableRule, row: "NEW" | "OLD"): string {
 const triggerName = (table: string, event: "i" | "u" | "d") => `pv_${table}_${event}`.slice(0, 64);
 
 function statements(rule: TableRule, row: "NEW" | "OLD"): string[] {
-  const ref = refOf(rule, row);
-  const out = [bump(rule.scope, ref)];
-  if (rule.table === "shop_events") out.push(bump("activity", `${row}.shop_id`));
-  return out;
+  return [bump(rule.scope, refOf(rule, row))];
+}
+
+/** The update's statements, run only when a shown column changed for a table in PAGE_VERSION_COLUMNS. */
+function shownChange(table: string, parts: string[]): string {
+  const columns = PAGE_VERSION_COLUMNS[table];
+  const all = parts.join("; ");
+  if (!columns) return all;
+  return `IF NOT (${columns.map((c) => `NEW.\`${c}\` <=> OLD.\`${c}\``).join(" AND ")}) THEN ${all}; END IF`;
 }
 
 /** The three triggers (insert, update, delete) that move the table's counter. */
@@ -126,10 +135,10 @@ export function pageVersionTriggerSql(rule: TableRule): string[] {
   return [
     `CREATE TRIGGER ${triggerName(rule.table, "i")} AFTER INSERT ON \`${rule.table}\` FOR EACH ROW ${body(statements(rule, "NEW"))}`,
     // An update moves the row's counter, and the old one's too when the row moved to another job or shop.
-    `CREATE TRIGGER ${triggerName(rule.table, "u")} AFTER UPDATE ON \`${rule.table}\` FOR EACH ROW ${body([
+    `CREATE TRIGGER ${triggerName(rule.table, "u")} AFTER UPDATE ON \`${rule.table}\` FOR EACH ROW ${body([shownChange(rule.table, [
       ...statements(rule, "NEW"),
       ...(rule.scope === "all" ? [] : [`IF NOT (${refOf(rule, "NEW")} <=> ${refOf(rule, "OLD")}) THEN ${statements(rule, "OLD").join("; ")}; END IF`]),
-    ])}`,
+    ])])}`,
     `CREATE TRIGGER ${triggerName(rule.table, "d")} AFTER DELETE ON \`${rule.table}\` FOR EACH ROW ${body(statements(rule, "OLD"))}`,
   ];
 }

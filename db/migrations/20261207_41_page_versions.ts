@@ -1,13 +1,13 @@
 import type { Knex } from "knex";
 import { pageVersionRules, pageVersionTriggerSql, dropPageVersionTriggers } from "../page-versions";
 
-// Page versions (issue 17, db/page-versions.ts): counters per job, per shop, per shop's activity
-// and for the instance, moved by triggers on every table a page shows, so a rendered job page is
-// served again only while nothing it shows has changed.
+// Page versions (issue 17, db/page-versions.ts): counters per job, per shop and for the instance,
+// moved by triggers on every table a page shows, so a rendered job page is served again only while
+// nothing it shows has changed.
 
 export async function up(knex: Knex): Promise<void> {
   await knex.raw(`CREATE TABLE page_versions (
-    scope ENUM('job', 'shop', 'activity', 'all') NOT NULL,
+    scope ENUM('job', 'shop', 'all') NOT NULL,
     ref INT UNSIGNED NOT NULL,
     version BIGINT UNSIGNED NOT NULL,
     PRIMARY KEY (scope, ref)

@@ -6,16 +6,15 @@ export type JobPageRef = { area: "owner"; publicId: string } | { area: "staff"; 
 
 /**
  * The counters a job page is rendered under (db/page-versions.ts), in one statement: the job's,
- * its shop's, the shop's activity and the instance's. Null when no such job: the page itself
+ * its shop's and the instance's, with the job's shop. Null when no such job: the page itself
  * answers that (not found, or no access), never the cache.
  */
-export async function jobPageVersions(ref: JobPageRef): Promise<string | null> {
+export async function jobPageVersions(ref: JobPageRef): Promise<{ shopId: number; versions: string } | null> {
   const where = ref.area === "owner" ? ["j.public_id = ?", [ref.publicId]] : ["s.slug = ? AND j.number = ?", [ref.shopSlug, ref.number]];
   const [rows] = (await db().raw(
     `SELECT j.id AS job, j.shop_id AS shop,
        (SELECT version FROM page_versions WHERE scope = 'job' AND ref = j.id) AS j,
        (SELECT version FROM page_versions WHERE scope = 'shop' AND ref = j.shop_id) AS s,
-       (SELECT version FROM page_versions WHERE scope = 'activity' AND ref = j.shop_id) AS a,
        (SELECT version FROM page_versions WHERE scope = 'all' AND ref = 0) AS g
      FROM jobs j JOIN shops s ON s.id = j.shop_id
      WHERE ${where[0] as string}
@@ -24,5 +23,5 @@ export async function jobPageVersions(ref: JobPageRef): Promise<string | null> {
   )) as [Record<string, unknown>[]];
   const row = rows[0];
   if (!row) return null;
-  return ["job", row.job, row.j, "shop", row.shop, row.s, row.a, row.g].map((v) => String(v ?? 0)).join(":");
+  return { shopId: Number(row.shop), versions: ["job", row.job, row.j, "shop", row.shop, row.s, "all", row.g].map((v) => String(v ?? 0)).join(":") };
 }

@@ -4,6 +4,8 @@ import { getToken } from "next-auth/jwt";
 import { NextResponse, type NextRequest } from "next/server";
 import { LRUCache } from "lru-cache";
 import { jobPageVersions, type JobPageRef } from "@/db/queries/page-versions";
+import { countUnread } from "@/db/queries/inbox";
+import type { Actor } from "@/lib/permissions";
 import { actorOfSession } from "@/lib/server/actor";
 
 // The job pages, rendered once and served again while nothing they show has changed (issue 17).
@@ -15,8 +17,9 @@ import { actorOfSession } from "@/lib/server/actor";
 // - the session is checked as every page checks it (lib/server/actor.ts: live, not ended, roles
 //   read fresh), and the page's counters are read (db/page-versions.ts: every write to anything a
 //   page shows moves one, by triggers, whoever writes);
-// - the key is the address, the request's cookies, the actor and the counters: the same person in
-//   the same session, seeing the same data, gets the same page; anything else renders again;
+// - the key is the address, the request's cookies, the actor and the counters (and, on the staff
+//   pages, the person's unread count in the shop's inbox, which the navigation shows): the same
+//   person in the same session, seeing the same data, gets the same page; anything else renders again;
 // - on a miss the proxy has the page rendered by this same server (a request to itself, marked
 //   with this process's secret and carrying a one-off placeholder as its CSP nonce), keeps the
 //   HTML, and answers with it; every answer, first or later, gets a fresh nonce in place of the
@@ -92,14 +95,13 @@ function cacheable(request: NextRequest): boolean {
 /** The session cookie's names (https and plain), as next-auth sets them; large ones are split into "….0", "….1". */
 export const SESSION_COOKIES = ["__Secure-authjs.session-token", "authjs.session-token"];
 
-async function sessionActorKey(request: NextRequest): Promise<string | null> {
+async function sessionActor(request: NextRequest): Promise<Actor | null> {
   const cookieName = SESSION_COOKIES.find((name) => request.cookies.getAll().some((c) => c.name === name || c.name.startsWith(`${name}.`)));
   const secret = process.env.AUTH_SECRET;
   if (!cookieName || !secret) return null;
   const token = await getToken({ req: request, secret, cookieName, salt: cookieName, secureCookie: cookieName.startsWith("__Secure-") });
   if (!token) return null;
-  const actor = await actorOfSession(token.uid, token.sid);
-  return actor ? JSON.stringify(actor) : null;
+  return actorOfSession(token.uid, token.sid);
 }
 
 // Hop-by-hop and per-answer headers of the inner render, not kept with the page.
@@ -139,10 +141,12 @@ export async function servePageFromCache(request: NextRequest, securityHeaders: 
   if (!enabled() || !cacheable(request)) return null;
   const page = jobPageOf(request.nextUrl.pathname);
   if (!page) return null;
-  const [actor, versions] = await Promise.all([sessionActorKey(request), jobPageVersions(page)]);
-  if (!actor || !versions) return null;
+  const [actor, found] = await Promise.all([sessionActor(request), jobPageVersions(page)]);
+  if (!actor || !found) return null;
+  // The staff navigation's unread count covers every job of the shop: read as the layout reads it.
+  const unread = page.area === "staff" ? await countUnread({ shopId: found.shopId, userId: actor.userId }) : null;
   const key = createHash("sha256")
-    .update([request.nextUrl.pathname + request.nextUrl.search, request.headers.get("cookie") ?? "", actor, versions].join("\n"))
+    .update([request.nextUrl.pathname + request.nextUrl.search, request.headers.get("cookie") ?? "", JSON.stringify(actor), found.versions, String(unread)].join("\n"))
     .digest("base64url");
   const s = state();
   let entry = s.cache.get(key) ?? null;

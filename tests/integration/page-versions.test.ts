@@ -46,15 +46,14 @@ describe("page versions", () => {
     expect(byTable.get("shops")).toBe("shop");
     expect(byTable.get("customers")).toBe("shop");
     expect(byTable.get("memberships")).toBe("shop");
-    expect(byTable.get("inbox_reads")).toBe("activity");
     expect(byTable.get("users")).toBe("all");
     for (const [table, why] of Object.entries(PAGE_VERSION_SKIP)) expect(why.length, table).toBeGreaterThan(10);
   });
 
   it("names the job by either address, and is null for an unknown one", async () => {
     const a = await versions();
-    expect(a).toMatch(new RegExp(`^job:${jobId}:\\d+:shop:${shop.id}:\\d+:\\d+:\\d+$`));
-    expect(await jobPageVersions({ area: "staff", shopSlug: shop.slug, number })).toBe(a);
+    expect(a).toEqual({ shopId: shop.id, versions: expect.stringMatching(new RegExp(`^job:${jobId}:\\d+:shop:${shop.id}:\\d+:all:\\d+$`)) });
+    expect(await jobPageVersions({ area: "staff", shopSlug: shop.slug, number })).toEqual(a);
     expect(await jobPageVersions({ area: "owner", publicId: "nosuchjob0000000" })).toBeNull();
     expect(await jobPageVersions({ area: "staff", shopSlug: other.slug, number })).toBeNull();
   });
@@ -62,7 +61,7 @@ describe("page versions", () => {
   it("a note on the job moves it; a note on another job of the shop doesn't", async () => {
     const before = await versions();
     await k("journal_entries").insert({ shop_id: shop.id, job_id: otherJobId, kind: "note", visibility: "shared", caption: "Other job" });
-    expect(await versions()).toBe(before);
+    expect(await versions()).toEqual(before);
     const [entryId] = await k("journal_entries").insert({ shop_id: shop.id, job_id: jobId, kind: "note", visibility: "shared", caption: "Oil drained" });
     const afterInsert = await versions();
     expect(afterInsert).not.toBe(before);
@@ -70,7 +69,7 @@ describe("page versions", () => {
     const afterUpdate = await versions();
     expect(afterUpdate).not.toBe(afterInsert);
     await k("journal_entries").where({ id: entryId }).delete();
-    expect(await versions()).not.toBe(afterUpdate);
+    expect(await versions()).not.toEqual(afterUpdate);
   });
 
   it("a row that belongs to the job through its parent (a measurement set's item) moves that job only", async () => {
@@ -78,28 +77,48 @@ describe("page versions", () => {
     const before = await versions();
     const [otherSetId] = await k("measurement_sets").insert({ shop_id: shop.id, job_id: otherJobId, kind: "custom", title: "Other job", unit: "mm", source: "manual" });
     const otherBefore = await versions();
-    expect(otherBefore).toBe(before);
+    expect(otherBefore).toEqual(before);
     const item = { shop_id: shop.id, position: 1, item_key: "in-1", label: "Intake 1", value: 0.12, value_decimals: 2, limit_decimals: 2, verdict: "within" as const };
     await k("measurement_items").insert({ ...item, set_id: otherSetId });
-    expect(await versions()).toBe(before);
+    expect(await versions()).toEqual(before);
     await k("measurement_items").insert({ ...item, set_id: setId });
-    expect(await versions()).not.toBe(before);
+    expect(await versions()).not.toEqual(before);
   });
 
-  it("the shop's own settings move its counter, people's names the instance's", async () => {
+  it("the shop's own settings move its counter; a person's name the instance's, a sign-in nothing", async () => {
     const before = await versions();
     await k("shops").where({ id: shop.id }).update({ name: `Renamed ${shop.slug}` });
     const afterShop = await versions();
-    expect(afterShop).not.toBe(before);
+    expect(afterShop).not.toEqual(before);
+    await k("users").where({ id: shop.staff.technician!.id }).update({ last_sign_in_at: k.fn.now() });
+    expect(await versions()).toEqual(afterShop);
     await k("users").where({ id: shop.staff.technician!.id }).update({ name: "Wendell Ashgrove" });
-    expect(await versions()).not.toBe(afterShop);
+    expect(await versions()).not.toEqual(afterShop);
   });
 
-  it("an event in the shop (the staff pages' inbox count and live cursor) moves its activity counter", async () => {
-    const before = (await versions())!.split(":");
+  it("events in the shop move only their own job's counter, and one for no job moves none", async () => {
+    const before = await versions();
     await k("shop_events").insert({ shop_id: shop.id, job_id: otherJobId, kind: "owner_question", inbox: true, owner_visible: false, payload: "{}" });
-    const after = (await versions())!.split(":");
-    expect(after.slice(0, 3)).toEqual(before.slice(0, 3)); // not this job's counter
-    expect(after[6]).not.toBe(before[6]); // the shop's activity
+    await k("shop_events").insert({ shop_id: shop.id, job_id: null, kind: "booking_request", inbox: true, owner_visible: false, payload: "{}" });
+    expect(await versions()).toEqual(before);
+    expect(await k("page_versions").where({ scope: "job", ref: 0 }).first()).toBeUndefined();
+    await k("shop_events").insert({ shop_id: shop.id, job_id: jobId, kind: "job_changed", inbox: false, owner_visible: true, payload: "{}" });
+    expect(await versions()).not.toEqual(before);
+  });
+
+  it("writers on two jobs of one shop never wait for each other's commit", async () => {
+    // A slow transaction on one job holds that job's counter row only: an event on another job commits at once.
+    let release!: () => void;
+    const held = new Promise<void>((r) => (release = r));
+    const slow = k.transaction(async (tx) => {
+      await tx("shop_events").insert({ shop_id: shop.id, job_id: jobId, kind: "entry_added", inbox: false, owner_visible: false, payload: "{}" });
+      await held;
+    });
+    await new Promise((r) => setTimeout(r, 100));
+    const started = Date.now();
+    await k("shop_events").insert({ shop_id: shop.id, job_id: otherJobId, kind: "entry_added", inbox: false, owner_visible: false, payload: "{}" });
+    expect(Date.now() - started).toBeLessThan(1000);
+    release();
+    await slow;
   });
 });
