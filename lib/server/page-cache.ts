@@ -115,9 +115,9 @@ async function render(request: NextRequest): Promise<Entry | null> {
     if (["host", "connection", "content-length", "transfer-encoding", "keep-alive", "expect", "upgrade", "accept-encoding"].includes(name)) continue;
     headers.set(name, value);
   }
+  // Uncompressed from itself (the answer to the person is compressed as usual). The pages build
+  // their links from APP_URL, never from the request's host, which here is the server's own.
   headers.set("accept-encoding", "identity");
-  headers.set("x-forwarded-host", request.headers.get("x-forwarded-host") ?? request.headers.get("host") ?? request.nextUrl.host);
-  headers.set("x-forwarded-proto", request.headers.get("x-forwarded-proto") ?? request.nextUrl.protocol.replace(":", ""));
   headers.set(RENDER_HEADER, s.secret);
   headers.set(PLACEHOLDER_HEADER, placeholder);
   const url = new URL(request.nextUrl.pathname + request.nextUrl.search, process.env.__NEXT_PRIVATE_ORIGIN);
