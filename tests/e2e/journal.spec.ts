@@ -203,7 +203,7 @@ test.describe("as a technician", () => {
     expect(exe.status()).toBe(422);
     expect((await exe.json()).error.message).toMatch(/not a photo/i);
 
-    const tooBig = await postEarlyAnswered(page, `/api/jobs/${job}/photos`, "photo", "huge.jpg", 50 * 1024 * 1024);
+    const tooBig = await earlyAnsweredWithRetry(() => postEarlyAnswered(page, `/api/jobs/${job}/photos`, "photo", "huge.jpg", 50 * 1024 * 1024));
     expect(tooBig.status).toBe(413);
     expect(JSON.parse(tooBig.body).error.message).toMatch(/20 MB/);
 
@@ -222,6 +222,19 @@ test.describe("as a technician", () => {
  * does: the server refuses an over-size body from its declared length and closes the connection,
  * so a client that only reads once it has sent everything gets a broken pipe instead of the 413.
  */
+class ResetBeforeAnswer extends Error {}
+
+/** The early answer, asked for again (at most three times) when the connection was reset before it could be read. */
+async function earlyAnsweredWithRetry(send: () => Promise<{ status: number; body: string }>): Promise<{ status: number; body: string }> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await send();
+    } catch (error) {
+      if (!(error instanceof ResetBeforeAnswer) || attempt >= 3) throw error;
+    }
+  }
+}
+
 async function postEarlyAnswered(page: Page, route: string, field: string, filename: string, bytes: number): Promise<{ status: number; body: string }> {
   const url = new URL(route, process.env.APP_URL ?? "http://localhost:3110");
   const cookie = (await page.context().cookies(url.origin)).map((c) => `${c.name}=${c.value}`).join("; ");
@@ -238,9 +251,18 @@ async function postEarlyAnswered(page: Page, route: string, field: string, filen
       res.setEncoding("utf8");
       res.on("data", (chunk: string) => (body += chunk));
       res.on("end", () => resolve({ status: res.statusCode ?? 0, body }));
+      // Cut off part-way by the reset: no whole answer to check, so it counts as none.
+      res.on("close", () => (res.complete ? undefined : reject(new ResetBeforeAnswer("the answer was cut off"))));
     });
     // Once the server has answered and closed, the rest of the body has nowhere to go: expected.
-    req.on("error", (error: NodeJS.ErrnoException) => (["EPIPE", "ECONNRESET"].includes(error.code ?? "") ? undefined : reject(error)));
+    // But a reset can also reach this side before the answer was read (TCP drops what the client
+    // hadn't read yet when a reset arrives): then no answer ever comes, and the caller may try again.
+    let answered = false;
+    req.on("response", () => (answered = true));
+    req.on("error", (error: NodeJS.ErrnoException) => {
+      if (!["EPIPE", "ECONNRESET"].includes(error.code ?? "")) return reject(error);
+      setTimeout(() => (answered ? undefined : reject(new ResetBeforeAnswer(`${error.code} before any answer`))), 1000);
+    });
     req.write(head);
     const chunk = Buffer.alloc(1024 * 1024);
     let sent = 0;
