@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Knex } from "knex";
 import { jobPageVersions } from "@/db/queries/page-versions";
-import { PAGE_VERSION_SKIP, pageVersionRules, tablesWithoutPageVersions } from "@/db/page-versions";
+import { PAGE_VERSION_SKIP, addPageVersionTriggers, dropPageVersionTriggers, pageVersionRules, tablesWithoutPageVersions } from "@/db/page-versions";
 import { testKnex } from "../support/db";
 import { makeCustomerWithJobs, makeShop } from "../support/fixtures";
 
@@ -48,6 +48,23 @@ describe("page versions", () => {
     expect(byTable.get("memberships")).toBe("shop");
     expect(byTable.get("users")).toBe("all");
     for (const [table, why] of Object.entries(PAGE_VERSION_SKIP)) expect(why.length, table).toBeGreaterThan(10);
+  });
+
+  it("finds a table whose triggers are missing or no longer match its columns", async () => {
+    await k.raw("CREATE TABLE pv_probe (id INT UNSIGNED AUTO_INCREMENT PRIMARY KEY, job_id INT UNSIGNED NULL)");
+    try {
+      expect(await tablesWithoutPageVersions(k)).toEqual(["pv_probe"]);
+      await addPageVersionTriggers(k, "pv_probe");
+      expect(await tablesWithoutPageVersions(k)).toEqual([]);
+      // A job column given later: its old triggers would move nothing for it.
+      await k.raw("ALTER TABLE pv_probe CHANGE job_id shop_id INT UNSIGNED NULL");
+      expect(await tablesWithoutPageVersions(k)).toEqual(["pv_probe"]);
+      await dropPageVersionTriggers(k, "pv_probe");
+      await addPageVersionTriggers(k, "pv_probe");
+      expect(await tablesWithoutPageVersions(k)).toEqual([]);
+    } finally {
+      await k.raw("DROP TABLE pv_probe");
+    }
   });
 
   it("names the job by either address, and is null for an unknown one", async () => {
